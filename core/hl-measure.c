@@ -1,0 +1,242 @@
+/* hl-measure.c: radiographic measures and magnification (model.md s. 8).
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <math.h>
+#include <string.h>
+
+#include "hl-i18n.h"
+#include "hl-measure.h"
+
+/* Three marker points closer to a line than this (relative to their
+ * spread) define no circle. */
+#define HL_COLLINEAR_REL_TOL 1e-6
+#define HL_MIN_SEPARATION_MM 0.5
+
+static double
+dot (HlVec2 a, HlVec2 b)
+{
+  return a.x * b.x + a.y * b.y;
+}
+
+static HlVec2
+sub (HlVec2 a, HlVec2 b)
+{
+  return (HlVec2) { a.x - b.x, a.y - b.y };
+}
+
+typedef struct {
+  bool ok;
+  HlVec2 point;   /* a point on the line */
+  HlVec2 e;       /* unit direction from the operated to the other side */
+  HlVec2 n;       /* unit normal, pointing up */
+} RefLine;
+
+static RefLine
+teardrop_line (const HlLandmarks *lm, double side_sign)
+{
+  RefLine l = { 0 };
+  bool a = hl_landmarks_has (lm, HL_LM_TEARDROP);
+  bool b = hl_landmarks_has (lm, HL_LM_TEARDROP_OTHER);
+
+  if (!a && !b)
+    return l;
+  /* The other side lies medially of the operated one: towards -side_sign
+   * in plan x. */
+  l.e = (HlVec2) { -side_sign, 0.0 };
+  l.point = a ? lm->p[HL_LM_TEARDROP] : lm->p[HL_LM_TEARDROP_OTHER];
+  if (a && b)
+    {
+      HlVec2 d = sub (lm->p[HL_LM_TEARDROP_OTHER], lm->p[HL_LM_TEARDROP]);
+      double len = hypot (d.x, d.y);
+      if (len < HL_MIN_SEPARATION_MM)
+        return l;
+      l.e = (HlVec2) { d.x / len, d.y / len };
+    }
+  l.n = (HlVec2) { -l.e.y, l.e.x };
+  if (l.n.y < 0.0)
+    l.n = (HlVec2) { -l.n.x, -l.n.y };
+  l.ok = true;
+  return l;
+}
+
+static double
+shaft_distance (const HlLandmarks *lm, HlLandmarkId centre, HlLandmarkId prox,
+                HlLandmarkId dist)
+{
+  if (!hl_landmarks_has (lm, centre) || !hl_landmarks_has (lm, prox)
+      || !hl_landmarks_has (lm, dist))
+    return NAN;
+  HlVec2 d = sub (lm->p[dist], lm->p[prox]);
+  double len = hypot (d.x, d.y);
+  if (len < HL_MIN_SEPARATION_MM)
+    return NAN;
+  HlVec2 r = sub (lm->p[centre], lm->p[prox]);
+  return fabs (r.x * d.y - r.y * d.x) / len;
+}
+
+static void
+measure_side (const HlLandmarks *lm, const RefLine *line, bool other,
+              HlSideMeasures *out)
+{
+  HlLandmarkId hc = other ? HL_LM_HIP_CENTRE_OTHER : HL_LM_HIP_CENTRE;
+  HlLandmarkId td = other ? HL_LM_TEARDROP_OTHER : HL_LM_TEARDROP;
+  HlLandmarkId lt = other ? HL_LM_LESSER_TROCHANTER_OTHER : HL_LM_LESSER_TROCHANTER;
+  /* Lateral for this side, along the teardrop line. */
+  HlVec2 lateral = other ? line->e : (HlVec2) { -line->e.x, -line->e.y };
+
+  out->acetabular_offset_mm = NAN;
+  out->hip_centre_height_mm = NAN;
+  out->leg_length_mm = NAN;
+  out->femoral_offset_mm = other
+    ? shaft_distance (lm, hc, HL_LM_SHAFT_PROXIMAL_OTHER, HL_LM_SHAFT_DISTAL_OTHER)
+    : shaft_distance (lm, hc, HL_LM_SHAFT_PROXIMAL, HL_LM_SHAFT_DISTAL);
+
+  if (line->ok && hl_landmarks_has (lm, hc))
+    {
+      if (hl_landmarks_has (lm, td))
+        out->acetabular_offset_mm = dot (sub (lm->p[hc], lm->p[td]), lateral);
+      out->hip_centre_height_mm = dot (sub (lm->p[hc], line->point), line->n);
+    }
+  if (line->ok && hl_landmarks_has (lm, lt))
+    out->leg_length_mm = -dot (sub (lm->p[lt], line->point), line->n);
+
+  out->global_offset_mm = out->acetabular_offset_mm + out->femoral_offset_mm;
+}
+
+void
+hl_measure (const HlLandmarks *lm, HlSide side, HlMeasures *out)
+{
+  double s = side == HL_SIDE_RIGHT ? -1.0 : 1.0;
+  RefLine line = teardrop_line (lm, s);
+
+  memset (out, 0, sizeof *out);
+  measure_side (lm, &line, false, &out->operated);
+  measure_side (lm, &line, true, &out->other);
+
+  out->leg_length_difference_mm = out->operated.leg_length_mm - out->other.leg_length_mm;
+  out->global_offset_difference_mm = out->operated.global_offset_mm - out->other.global_offset_mm;
+  out->femoral_offset_difference_mm = out->operated.femoral_offset_mm - out->other.femoral_offset_mm;
+  out->acetabular_offset_difference_mm =
+    out->operated.acetabular_offset_mm - out->other.acetabular_offset_mm;
+  out->hip_centre_height_difference_mm =
+    out->operated.hip_centre_height_mm - out->other.hip_centre_height_mm;
+
+  /* The operated hip must lie on the operated side of the midline, the
+   * other hip on the other side. */
+  if (hl_landmarks_has (lm, HL_LM_MIDLINE))
+    {
+      double mx = lm->p[HL_LM_MIDLINE].x;
+      if (hl_landmarks_has (lm, HL_LM_HIP_CENTRE) && s * (lm->p[HL_LM_HIP_CENTRE].x - mx) <= 0.0)
+        out->side_contradiction = true;
+      if (hl_landmarks_has (lm, HL_LM_HIP_CENTRE_OTHER)
+          && s * (lm->p[HL_LM_HIP_CENTRE_OTHER].x - mx) >= 0.0)
+        out->side_contradiction = true;
+    }
+}
+
+HlStatus
+hl_circle_through (HlVec2 a, HlVec2 b, HlVec2 c, HlVec2 *centre, double *radius,
+                   HlError *err)
+{
+  const double bx = b.x - a.x, by = b.y - a.y;
+  const double cx = c.x - a.x, cy = c.y - a.y;
+  const double d = 2.0 * (bx * cy - by * cx);
+  const double spread = fmax (bx * bx + by * by, cx * cx + cy * cy);
+
+  if (!isfinite (d) || spread <= 0.0 || fabs (d) <= HL_COLLINEAR_REL_TOL * 2.0 * spread)
+    return hl_error_set (err, HL_ERR_DEGENERATE, "calibration points",
+                         _("The three marker points lie on a line: place them "
+                           "spread around the marker's edge"));
+
+  const double b2 = bx * bx + by * by, c2 = cx * cx + cy * cy;
+  const double ux = (cy * b2 - by * c2) / d;
+  const double uy = (bx * c2 - cx * b2) / d;
+  if (centre != NULL)
+    *centre = (HlVec2) { a.x + ux, a.y + uy };
+  if (radius != NULL)
+    *radius = hypot (ux, uy);
+  return HL_OK;
+}
+
+static HlStatus
+check_magnification (double m, HlError *err)
+{
+  if (!isfinite (m) || m < HL_MAGNIFICATION_MIN || m > HL_MAGNIFICATION_MAX)
+    return hl_error_set (err, HL_ERR_INVALID, "calibration magnification",
+                         _("The magnification comes out at %.4g: it must lie "
+                           "between %.2f and %.2f; check the calibration"),
+                         m, HL_MAGNIFICATION_MIN, HL_MAGNIFICATION_MAX);
+  return HL_OK;
+}
+
+HlStatus
+hl_calibration_magnification (const HlCalibration *cal, double *m, bool *assumed,
+                              HlError *err)
+{
+  double value = HL_MAGNIFICATION_ASSUMED;
+  bool is_assumed = false;
+  HlStatus st;
+
+  for (int i = 0; i < cal->n_points && i < 3; i++)
+    if (!isfinite (cal->points[i].x) || !isfinite (cal->points[i].y))
+      return hl_error_set (err, HL_ERR_INVALID, "calibration points",
+                           _("Calibration point %d is not a finite number"), i + 1);
+
+  switch (cal->method)
+    {
+    case HL_CAL_ASSUMED:
+      is_assumed = true;
+      break;
+    case HL_CAL_TYPED:
+      value = cal->magnification;
+      break;
+    case HL_CAL_MARKER:
+      {
+        if (cal->n_points < 3)
+          return hl_error_set (err, HL_ERR_INVALID, "calibration points",
+                               _("A marker needs three points on its edge; %d placed"),
+                               cal->n_points);
+        if (!isfinite (cal->marker_diameter_mm) || cal->marker_diameter_mm <= 0.0)
+          return hl_error_set (err, HL_ERR_INVALID, "calibration marker-diameter",
+                               _("The marker diameter must be a positive number of mm"));
+        double r;
+        if ((st = hl_circle_through (cal->points[0], cal->points[1], cal->points[2],
+                                     NULL, &r, err)))
+          return st;
+        value = 2.0 * r / cal->marker_diameter_mm;
+        break;
+      }
+    case HL_CAL_TWO_POINT:
+      {
+        if (cal->n_points < 2)
+          return hl_error_set (err, HL_ERR_INVALID, "calibration points",
+                               _("Two points a known distance apart are needed; %d placed"),
+                               cal->n_points);
+        if (!isfinite (cal->known_distance_mm) || cal->known_distance_mm <= 0.0)
+          return hl_error_set (err, HL_ERR_INVALID, "calibration known-distance",
+                               _("The known distance must be a positive number of mm"));
+        double d = hypot (cal->points[1].x - cal->points[0].x,
+                          cal->points[1].y - cal->points[0].y);
+        if (d < HL_MIN_SEPARATION_MM)
+          return hl_error_set (err, HL_ERR_DEGENERATE, "calibration points",
+                               _("The two calibration points coincide"));
+        value = d / cal->known_distance_mm;
+        break;
+      }
+    default:
+      return hl_error_set (err, HL_ERR_INVALID, "calibration method",
+                           _("Unknown calibration method"));
+    }
+
+  if ((st = check_magnification (value, err)))
+    return st;
+  if (m != NULL)
+    *m = value;
+  if (assumed != NULL)
+    *assumed = is_assumed;
+  return HL_OK;
+}

@@ -1,0 +1,65 @@
+/* hl-measure.h: radiographic measures and magnification (model.md s. 8).
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * All inputs are plan-frame landmarks in true millimetres.  Each measure is
+ * NaN when the landmarks it needs are not placed.
+ *
+ *  - inter-teardrop line: through both teardrops;
+ *  - acetabular offset: distance from the hip centre to the perpendicular
+ *    to the inter-teardrop line through that side's teardrop;
+ *  - femoral offset: perpendicular distance from the hip centre to the
+ *    femoral shaft axis (two points);
+ *  - global offset: acetabular + femoral offset;
+ *  - hip centre height: distance of the hip centre above the
+ *    inter-teardrop line;
+ *  - leg length: distance from the lesser trochanter tip to the
+ *    inter-teardrop line; difference = operated minus other side.
+ */
+#pragma once
+
+#include "hl-plan.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+typedef struct {
+  double acetabular_offset_mm;
+  double femoral_offset_mm;
+  double global_offset_mm;
+  double hip_centre_height_mm;
+  double leg_length_mm;
+} HlSideMeasures;
+
+typedef struct {
+  HlSideMeasures operated;
+  HlSideMeasures other;
+  double leg_length_difference_mm;     /* operated - other */
+  double global_offset_difference_mm;  /* operated - other */
+  double femoral_offset_difference_mm;
+  double acetabular_offset_difference_mm;
+  double hip_centre_height_difference_mm;
+  bool side_contradiction;   /* landmarks suggest the other side is operated */
+} HlMeasures;
+
+/* Measures on a set of plan-frame landmarks of a plan of side `side`. */
+void hl_measure (const HlLandmarks *lm, HlSide side, HlMeasures *out);
+
+/* Magnification factor M (measured / true) from a calibration.  HL_CAL_ASSUMED
+ * gives HL_MAGNIFICATION_ASSUMED and sets *assumed.  Fails on too few or
+ * collinear marker points, or a non-positive size. */
+HlStatus hl_calibration_magnification (const HlCalibration *cal, double *m,
+                                       bool *assumed, HlError *err);
+
+/* Circle through three points; fails when they are (nearly) collinear. */
+HlStatus hl_circle_through (HlVec2 a, HlVec2 b, HlVec2 c, HlVec2 *centre,
+                            double *radius, HlError *err);
+
+#define HL_MAGNIFICATION_MIN 0.8
+#define HL_MAGNIFICATION_MAX 1.6
+
+#ifdef __cplusplus
+}
+#endif

@@ -1,0 +1,469 @@
+/* hl-solve.c: the single-leg-stance equilibrium (model.md section 6).
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "hl-i18n.h"
+#include "hl-measure.h"
+#include "hl-solve.h"
+
+#define DEG (M_PI / 180.0)
+/* Steeper than this and the teardrops cannot be meant as a horizontal
+ * reference: refuse rather than tilt the midline absurdly. */
+#define HL_MAX_PELVIC_TILT_DEG 45.0
+/* Height above the hip centre at which the weight arrow is drawn. */
+#define HL_WEIGHT_DRAW_HEIGHT_MM 60.0
+
+static const struct { const char *key; const char *text; } flag_words[] = {
+  { "global-offset-reduced",
+    N_("Global offset reduced by more than the tolerance: linked to weaker "
+       "abductors (Mahmood et al. 2016)") },
+  { "leg-length", N_("Leg length change beyond the tolerance") },
+  { "abductors-not-needed",
+    N_("Abductors not needed in this posture: the loads balance the pelvis "
+       "on their own") },
+  { "abductor-slack", N_("Abductors slackened beyond the tolerance") },
+  { "over-capacity",
+    N_("Abductor demand above capacity: the pelvis cannot be held level in "
+       "stance (positive Trendelenburg sign or a compensating lean)") },
+};
+
+static int
+flag_index (HlFlag flag)
+{
+  for (int i = 0; (1u << i) <= HL_FLAG_LAST; i++)
+    if ((unsigned) flag == (1u << i))
+      return i;
+  return -1;
+}
+
+const char *
+hl_flag_key (HlFlag flag)
+{
+  int i = flag_index (flag);
+  return i < 0 ? "" : flag_words[i].key;
+}
+
+const char *
+hl_flag_text (HlFlag flag)
+{
+  int i = flag_index (flag);
+  return i < 0 ? "" : _(flag_words[i].text);
+}
+
+char *
+hl_flags_format (unsigned flags, const char *sep, char *buf, size_t size)
+{
+  size_t used = 0;
+
+  if (size == 0)
+    return buf;
+  buf[0] = '\0';
+  for (int i = 0; (1u << i) <= HL_FLAG_LAST; i++)
+    {
+      if (!(flags & (1u << i)))
+        continue;
+      int n = snprintf (buf + used, size - used, "%s%s", used ? sep : "",
+                        flag_words[i].key);
+      if (n < 0 || (size_t) n >= size - used)
+        break;
+      used += (size_t) n;
+    }
+  return buf;
+}
+
+double
+hl_recon_total_offset (const HlRecon *r)
+{
+  return r->femoral_offset_mm + r->head_length_mm * sin (r->neck_shaft_angle_deg * DEG);
+}
+
+double
+hl_recon_total_length (const HlRecon *r)
+{
+  return r->femoral_length_mm - r->head_length_mm * cos (r->neck_shaft_angle_deg * DEG);
+}
+
+static inline HlVec2
+to_solver (double side_sign, HlVec2 hc, HlVec2 p)
+{
+  return (HlVec2) { side_sign * (p.x - hc.x), p.y - hc.y };
+}
+
+HlStatus
+hl_model_prepare (HlModel *m, const HlPlan *plan, HlError *err)
+{
+  HlStatus st = hl_plan_check (plan, err);
+  if (st != HL_OK)
+    return st;
+
+  const HlLandmarks *lm = &plan->landmarks;
+  memset (m, 0, sizeof *m);
+  m->side_sign = plan->side == HL_SIDE_RIGHT ? -1.0 : 1.0;
+  m->hip_centre = lm->p[HL_LM_HIP_CENTRE];
+
+  HlVec2 hc = m->hip_centre;
+  m->insertion = to_solver (m->side_sign, hc, lm->p[HL_LM_ABDUCTOR_INSERTION]);
+  m->midline = to_solver (m->side_sign, hc, lm->p[HL_LM_MIDLINE]);
+
+  /* The midline runs perpendicular to the inter-teardrop line when both
+   * teardrops are placed, else vertically. */
+  m->midline_slope = 0.0;
+  if (hl_landmarks_has (lm, HL_LM_TEARDROP) && hl_landmarks_has (lm, HL_LM_TEARDROP_OTHER))
+    {
+      HlVec2 a = to_solver (m->side_sign, hc, lm->p[HL_LM_TEARDROP]);
+      HlVec2 b = to_solver (m->side_sign, hc, lm->p[HL_LM_TEARDROP_OTHER]);
+      double dx = b.x - a.x, dy = b.y - a.y;
+      if (fabs (dx) < 1e-9 || fabs (atan2 (dy, fabs (dx))) > HL_MAX_PELVIC_TILT_DEG * DEG)
+        return hl_error_set (err, HL_ERR_DEGENERATE, "landmark teardrop",
+                             _("The inter-teardrop line is tilted more than %.0f "
+                               "degrees: check both teardrops"),
+                             HL_MAX_PELVIC_TILT_DEG);
+      /* The perpendicular (-dy, dx) has dx/dy slope -dy/dx. */
+      m->midline_slope = -dy / dx;
+    }
+
+  m->angle_mode = plan->model.abductor_line == HL_ABDUCTOR_LINE_ANGLE
+                  || !hl_landmarks_has (lm, HL_LM_ABDUCTOR_ORIGIN);
+  if (m->angle_mode)
+    {
+      double t = plan->model.abductor_angle_deg * DEG;
+      m->u_fixed = (HlVec2) { cos (t), -sin (t) };
+      m->origin = (HlVec2) { m->insertion.x - HL_VIRTUAL_ORIGIN_MM * m->u_fixed.x,
+                             m->insertion.y - HL_VIRTUAL_ORIGIN_MM * m->u_fixed.y };
+    }
+  else
+    m->origin = to_solver (m->side_sign, hc, lm->p[HL_LM_ABDUCTOR_ORIGIN]);
+
+  double f = hl_plan_limb_fraction (plan);
+  m->body_weight_n = hl_plan_body_weight (plan);
+  m->inv_body_weight = 1.0 / m->body_weight_n;
+  m->w_s_n = m->body_weight_n * (1.0 - f);
+  m->bw_line_factor = plan->model.bw_line == HL_BW_LINE_SEGMENTAL ? 1.0 / (1.0 - f) : 1.0;
+  m->lean_mm = plan->model.lean_mm;
+
+  m->cane_n = hl_plan_cane_force (plan);
+  m->cane_dx = plan->cane.hand == HL_HAND_CONTRALATERAL
+               ? -plan->cane.distance_mm : plan->cane.distance_mm;
+  for (int h = 0; h < 2; h++)
+    {
+      m->load_n[h] = plan->loads.hand[h].mass_kg * HL_GRAVITY;
+      m->load_dx[h] = h == HL_HAND_CONTRALATERAL
+                      ? -plan->loads.hand[h].distance_mm
+                      : plan->loads.hand[h].distance_mm;
+    }
+  m->load_midline_n = plan->loads.midline_kg * HL_GRAVITY;
+  m->tol = plan->tol;
+
+  HlMeasures meas;
+  hl_measure (lm, plan->side, &meas);
+  m->native_femoral_offset_mm = meas.operated.femoral_offset_mm;
+  m->native_global_offset_mm = meas.operated.global_offset_mm;
+  m->other_global_offset_mm = meas.other.global_offset_mm;
+  m->native_leg_length_difference_mm = meas.leg_length_difference_mm;
+
+  double dx = m->insertion.x - m->origin.x, dy = m->insertion.y - m->origin.y;
+  m->native_abductor_length_mm = sqrt (dx * dx + dy * dy);
+
+  /* Capacity is needed by the solve; solve native once with none, then
+   * derive the force capacity from the native arm. */
+  m->capacity_nmm = plan->capacity.torque_nm_per_kg * plan->mass_kg * 1000.0;
+  m->capacity_force_n = INFINITY;
+  HlResult native;
+  st = hl_model_solve (m, NULL, &native, err);
+  if (st != HL_OK)
+    return st;
+  m->native_abductor_arm_mm = native.abductor_arm_mm;
+  m->capacity_force_n = m->capacity_nmm / native.abductor_arm_mm;
+  return HL_OK;
+}
+
+static HlStatus
+geometry_error (const HlModel *m, HlError *err, HlStatus st, const char *field,
+                const char *fmt, double value)
+{
+  (void) m;
+  char msg[HL_ERROR_MESSAGE_MAX];
+  snprintf (msg, sizeof msg, fmt, value);
+  return hl_error_set (err, st, field, "%s", msg);
+}
+
+HlStatus
+hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *err)
+{
+  double cm = 0.0, cs = 0.0, fo = 0.0, fl = 0.0;
+  if (recon != NULL)
+    {
+      cm = recon->cup_medial_mm;
+      cs = recon->cup_superior_mm;
+      fo = hl_recon_total_offset (recon);
+      fl = hl_recon_total_length (recon);
+    }
+
+  /* Relative to the new hip centre, pelvic points move by (+c_med, -c_sup)
+   * and femoral points by (+f_off, -f_len). */
+  const double ox = m->origin.x + cm, oy = m->origin.y - cs;
+  const double ix = m->insertion.x + fo, iy = m->insertion.y - fl;
+  const double xm = (m->midline.x + cm) - (m->midline.y - cs) * m->midline_slope;
+
+  if (!(xm < 0.0))
+    return geometry_error (m, err, HL_ERR_DEGENERATE, "landmark midline",
+                           _("The midline lies %.1f mm lateral to the hip centre, on "
+                             "the operated side: check the midline point, the hip "
+                             "centre and the operated side"), xm);
+
+  const double dx = ix - ox, dy = iy - oy;
+  const double len = sqrt (dx * dx + dy * dy);
+  double ux, uy, ra;
+  if (m->angle_mode)
+    {
+      ux = m->u_fixed.x;
+      uy = m->u_fixed.y;
+      ra = ix * uy - iy * ux;
+    }
+  else
+    {
+      if (len < HL_MIN_ABDUCTOR_LENGTH_MM)
+        return geometry_error (m, err, HL_ERR_DEGENERATE, "landmark abductor-origin",
+                               _("The abductor origin and insertion are %.1f mm apart "
+                                 "(at least 20 mm needed): check the abductor origin "
+                                 "and insertion"), len);
+      ux = dx / len;
+      uy = dy / len;
+      ra = ox * uy - oy * ux;
+    }
+
+  /* A working abductor line passes lateral to the hip centre, which gives
+   * a negative (clockwise) arm in the solver frame. */
+  if (ra > -HL_MIN_ABDUCTOR_ARM_MM)
+    {
+      if (ra >= HL_MIN_ABDUCTOR_ARM_MM)
+        return geometry_error (m, err, HL_ERR_DEGENERATE, "landmark abductor-insertion",
+                               _("The abductor line passes %.1f mm medial to the hip "
+                                 "centre, so the abductors could not hold the pelvis: "
+                                 "check the abductor origin and insertion"), ra);
+      return geometry_error (m, err, HL_ERR_DEGENERATE, "landmark abductor-insertion",
+                             _("The abductor moment arm is %.1f mm: the abductor line "
+                               "passes almost through the hip centre; check the "
+                               "abductor origin and insertion"), fabs (ra));
+    }
+
+  const double xs = xm * m->bw_line_factor + m->lean_mm;
+  const double fy_ext = -m->w_s_n + m->cane_n - m->load_n[0] - m->load_n[1]
+                        - m->load_midline_n;
+  const double moment = -m->w_s_n * xs
+                        + m->cane_n * (xm + m->cane_dx)
+                        - m->load_n[0] * (xm + m->load_dx[0])
+                        - m->load_n[1] * (xm + m->load_dx[1])
+                        - m->load_midline_n * xm;
+
+  unsigned flags = 0;
+  double fa = -moment / ra;
+  res->unbalanced_nmm = 0.0;
+  if (fa < 0.0)
+    {
+      res->unbalanced_nmm = moment;
+      fa = 0.0;
+      flags |= HL_FLAG_ABDUCTORS_NOT_NEEDED;
+    }
+
+  const double jx = -fa * ux;
+  const double jy = -(fa * uy + fy_ext);
+
+  res->abductor_arm_mm = -ra;
+  res->bw_arm_mm = fabs (xs);
+  res->lever_ratio = res->bw_arm_mm / res->abductor_arm_mm;
+  res->abductor_force_n = fa;
+  res->abductor_force_bw = fa * m->inv_body_weight;
+  res->jrf_x_n = jx;
+  res->jrf_y_n = jy;
+  res->jrf_n = sqrt (jx * jx + jy * jy);
+  res->jrf_bw = res->jrf_n * m->inv_body_weight;
+  res->moment_ext_nmm = moment;
+  res->x_s_mm = xs;
+  res->demand = fa / m->capacity_force_n;
+
+  res->leg_length_change_mm = fl - cs;
+  res->femoral_offset_change_mm = fo;
+  res->acetabular_offset_change_mm = -cm;
+  res->global_offset_change_mm = fo - cm;
+  res->abductor_length_change_mm = len - m->native_abductor_length_mm;
+
+  /* Against the other hip where it is measured, else against native. */
+  double go_drop = -res->global_offset_change_mm;
+  if (isfinite (m->other_global_offset_mm) && isfinite (m->native_global_offset_mm))
+    go_drop = m->other_global_offset_mm
+              - (m->native_global_offset_mm + res->global_offset_change_mm);
+  if (go_drop > m->tol.global_offset_drop_mm)
+    flags |= HL_FLAG_GLOBAL_OFFSET_REDUCED;
+
+  double lld = res->leg_length_change_mm;
+  if (isfinite (m->native_leg_length_difference_mm))
+    lld += m->native_leg_length_difference_mm;
+  if (fabs (lld) > m->tol.leg_length_mm)
+    flags |= HL_FLAG_LEG_LENGTH;
+
+  if (res->abductor_length_change_mm < -m->tol.abductor_slack_mm)
+    flags |= HL_FLAG_ABDUCTOR_SLACK;
+  if (res->demand > 1.0)
+    flags |= HL_FLAG_OVER_CAPACITY;
+
+  res->flags = flags;
+  return HL_OK;
+}
+
+double
+hl_result_jrf_angle_deg (const HlResult *res)
+{
+  return atan2 (fabs (res->jrf_x_n), fabs (res->jrf_y_n)) / DEG;
+}
+
+const char *
+hl_result_jrf_sense (const HlResult *res)
+{
+  if (res->jrf_y_n < 0.0)
+    return _("the joint is pulled apart: the upward forces exceed the weight "
+             "above the hip, outside what this model describes");
+  if (res->jrf_x_n <= 0.0)
+    return _("the femoral head is loaded downwards and laterally (the usual sense)");
+  return _("the femoral head is loaded downwards and medially");
+}
+
+void
+hl_recon_landmarks (const HlPlan *plan, const HlRecon *recon, HlLandmarks *out)
+{
+  *out = plan->landmarks;
+  if (recon == NULL)
+    return;
+
+  const double s = plan->side == HL_SIDE_RIGHT ? -1.0 : 1.0;
+  const HlVec2 cup = { -s * recon->cup_medial_mm, recon->cup_superior_mm };
+  const HlVec2 femur = { cup.x + s * hl_recon_total_offset (recon),
+                         cup.y - hl_recon_total_length (recon) };
+
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) i);
+      HlVec2 d;
+      if (i == HL_LM_HIP_CENTRE)
+        d = cup;          /* the head sits in the cup */
+      else if (info->segment == HL_SEGMENT_FEMUR)
+        d = femur;
+      else
+        continue;
+      out->p[i].x += d.x;
+      out->p[i].y += d.y;
+    }
+}
+
+static HlVec2
+to_plan (const HlModel *m, HlVec2 hc_new, double x_lat, double y)
+{
+  return (HlVec2) { hc_new.x + m->side_sign * x_lat, hc_new.y + y };
+}
+
+void
+hl_model_forces (const HlModel *m, const HlPlan *plan, const HlRecon *recon,
+                 const HlResult *res, HlForceSet *out)
+{
+  (void) plan;
+  double cm = 0.0, cs = 0.0, fo = 0.0, fl = 0.0;
+  if (recon != NULL)
+    {
+      cm = recon->cup_medial_mm;
+      cs = recon->cup_superior_mm;
+      fo = hl_recon_total_offset (recon);
+      fl = hl_recon_total_length (recon);
+    }
+
+  const double s = m->side_sign;
+  const HlVec2 hc = { m->hip_centre.x - s * cm, m->hip_centre.y + cs };
+  const double xm = (m->midline.x + cm) - (m->midline.y - cs) * m->midline_slope;
+  const HlVec2 o = { m->origin.x + cm, m->origin.y - cs };
+  const HlVec2 ins = { m->insertion.x + fo, m->insertion.y - fl };
+  HlVec2 u;
+  if (m->angle_mode)
+    u = m->u_fixed;
+  else
+    {
+      double dx = ins.x - o.x, dy = ins.y - o.y, len = sqrt (dx * dx + dy * dy);
+      u = (HlVec2) { dx / len, dy / len };
+    }
+
+  memset (out, 0, sizeof *out);
+  out->hip_centre = hc;
+  out->abductor_insertion = to_plan (m, hc, ins.x, ins.y);
+  out->abductor_origin = m->angle_mode
+    ? to_plan (m, hc, ins.x - HL_VIRTUAL_ORIGIN_MM * u.x, ins.y - HL_VIRTUAL_ORIGIN_MM * u.y)
+    : to_plan (m, hc, o.x, o.y);
+  out->midline_x_at_hip = to_plan (m, hc, xm, 0.0).x;
+
+  const double bw = m->inv_body_weight;
+  HlForce *f = out->f;
+  int n = 0;
+
+  f[n++] = (HlForce) { HL_FORCE_WEIGHT, to_plan (m, hc, res->x_s_mm, HL_WEIGHT_DRAW_HEIGHT_MM),
+                       { 0.0, -m->w_s_n }, m->w_s_n * bw };
+  f[n++] = (HlForce) { HL_FORCE_ABDUCTOR, out->abductor_origin,
+                       { s * res->abductor_force_n * u.x, res->abductor_force_n * u.y },
+                       res->abductor_force_bw };
+  f[n++] = (HlForce) { HL_FORCE_JOINT, hc, { s * res->jrf_x_n, res->jrf_y_n }, res->jrf_bw };
+  if (m->cane_n > 0.0)
+    f[n++] = (HlForce) { HL_FORCE_CANE, to_plan (m, hc, xm + m->cane_dx, 0.0),
+                         { 0.0, m->cane_n }, m->cane_n * bw };
+  static const HlForceKind hand_kind[2] = { HL_FORCE_LOAD_CONTRA, HL_FORCE_LOAD_IPSI };
+  for (int h = 0; h < 2; h++)
+    if (m->load_n[h] > 0.0)
+      f[n++] = (HlForce) { hand_kind[h], to_plan (m, hc, xm + m->load_dx[h], 0.0),
+                           { 0.0, -m->load_n[h] }, m->load_n[h] * bw };
+  if (m->load_midline_n > 0.0)
+    f[n++] = (HlForce) { HL_FORCE_LOAD_MIDLINE,
+                         to_plan (m, hc, xm, HL_WEIGHT_DRAW_HEIGHT_MM),
+                         { 0.0, -m->load_midline_n }, m->load_midline_n * bw };
+  out->n = n;
+}
+
+const char *
+hl_force_label (HlForceKind kind)
+{
+  static const char *const labels[HL_FORCE_N] = {
+    N_("Superincumbent weight"),
+    N_("Abductor pull"),
+    N_("Joint reaction force"),
+    N_("Cane"),
+    N_("Load, opposite hand"),
+    N_("Load, same-side hand"),
+    N_("Load on the midline"),
+  };
+  if ((int) kind < 0 || kind >= HL_FORCE_N)
+    return "";
+  return _(labels[kind]);
+}
+
+HlStatus
+hl_plan_solve_all (const HlPlan *plan, HlResult *results, HlError *err)
+{
+  HlModel model;
+  HlStatus st = hl_model_prepare (&model, plan, err);
+  if (st != HL_OK)
+    return st;
+  st = hl_model_solve (&model, NULL, &results[0], err);
+  for (size_t i = 0; st == HL_OK && i < plan->n_options; i++)
+    {
+      st = hl_model_solve (&model, &plan->options[i].recon, &results[i + 1], err);
+      if (st != HL_OK && err != NULL)
+        {
+          char msg[HL_ERROR_MESSAGE_MAX];
+          snprintf (msg, sizeof msg, "%s", err->message);
+          hl_error_set (err, st, err->field, _("Option \"%s\": %s"),
+                        plan->options[i].name, msg);
+        }
+    }
+  return st;
+}

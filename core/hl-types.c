@@ -1,0 +1,61 @@
+/* hl-types.c
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <stdarg.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "hl-types.h"
+
+HlStatus
+hl_error_set (HlError *err, HlStatus status, const char *field,
+              const char *fmt, ...)
+{
+  if (err == NULL)
+    return status;
+
+  err->status = status;
+  snprintf (err->field, sizeof err->field, "%s", field ? field : "");
+
+  va_list ap;
+  va_start (ap, fmt);
+  vsnprintf (err->message, sizeof err->message, fmt, ap);
+  va_end (ap);
+
+  return status;
+}
+
+void
+hl_error_clear (HlError *err)
+{
+  if (err != NULL)
+    memset (err, 0, sizeof *err);
+}
+
+const char *
+hl_status_name (HlStatus status)
+{
+  switch (status)
+    {
+    case HL_OK: return "ok";
+    case HL_ERR_INVALID: return "invalid input";
+    case HL_ERR_DEGENERATE: return "degenerate geometry";
+    case HL_ERR_NOMEM: return "out of memory";
+    case HL_ERR_NOT_CONVERGED: return "not converged";
+    case HL_ERR_NOT_REACHABLE: return "not reachable in range";
+    case HL_ERR_IO: return "input/output error";
+    case HL_ERR_PARSE: return "not a valid plan file";
+    case HL_ERR_VERSION: return "file version too new";
+    default: return "unknown status";
+    }
+}
+
+const char *
+hl_side_name (HlSide side)
+{
+  return side == HL_SIDE_LEFT ? "left" : "right";
+}

@@ -1,0 +1,65 @@
+/* hl-types.h: shared value types, status codes and error details of the core.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include <stddef.h>
+#include <stdint.h>
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/* A point or vector in millimetres (or a force in newtons). */
+typedef struct {
+  double x;
+  double y;
+} HlVec2;
+
+/* Every fallible core function returns one of these.  A detail struct
+ * (HlError) says which field is at fault and why, in plain words. */
+typedef enum {
+  HL_OK = 0,
+  HL_ERR_INVALID,        /* a number out of range, non-finite, or missing */
+  HL_ERR_DEGENERATE,     /* the geometry cannot be solved */
+  HL_ERR_NOMEM,          /* out of memory */
+  HL_ERR_NOT_CONVERGED,  /* an iterative method did not meet its tolerance */
+  HL_ERR_NOT_REACHABLE,  /* no root of an inverse question in its range */
+  HL_ERR_IO,             /* a file could not be read or written */
+  HL_ERR_PARSE,          /* a file is not a well-formed, valid plan */
+  HL_ERR_VERSION,        /* a file is newer than this program understands */
+} HlStatus;
+
+#define HL_ERROR_FIELD_MAX   96
+#define HL_ERROR_MESSAGE_MAX 512
+
+/* Where and why something failed.  `field` names the landmark, parameter or
+ * XML element ("landmark abductor-insertion", "patient mass"); `line` is the
+ * 1-based line in a file, 0 when there is no file. */
+typedef struct {
+  HlStatus status;
+  int line;
+  char field[HL_ERROR_FIELD_MAX];
+  char message[HL_ERROR_MESSAGE_MAX];
+} HlError;
+
+/* Fills `err` (which may be NULL) and returns `status`. */
+HlStatus hl_error_set (HlError *err, HlStatus status, const char *field,
+                       const char *fmt, ...)
+  __attribute__ ((format (printf, 4, 5)));
+void hl_error_clear (HlError *err);
+const char *hl_status_name (HlStatus status);
+
+/* The operated side. */
+typedef enum {
+  HL_SIDE_RIGHT = 0,
+  HL_SIDE_LEFT = 1,
+} HlSide;
+
+const char *hl_side_name (HlSide side);   /* "right", "left" */
+
+#ifdef __cplusplus
+}
+#endif
