@@ -1,0 +1,92 @@
+#!/bin/sh
+# hiplever quick start for a fresh Debian 12 machine.
+#
+#   sh tests/bootstrap.sh demo   install what is missing, build, open the demo case
+#   sh tests/bootstrap.sh test   install what is missing, build, run the whole suite
+#
+# Runs as root, or as a user with sudo (only apt-get and locale-gen need it).
+set -eu
+
+mode=${1:-demo}
+here=$(cd "$(dirname "$0")/.." && pwd)
+cd "$here"
+
+packages="gcc pkg-config python3 meson ninja-build libgtk-4-dev libxml2-dev
+libxml2-utils check libgsl-dev gettext xvfb xauth xdotool dbus-x11
+poppler-utils imagemagick locales desktop-file-utils appstream"
+
+if [ "$(id -u)" -eq 0 ]; then sudo=""; else sudo="sudo"; fi
+
+missing=""
+for p in $packages; do
+  if ! dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "ok installed"; then
+    missing="$missing $p"
+  fi
+done
+if [ -n "$missing" ]; then
+  echo "bootstrap: installing:$missing"
+  $sudo apt-get update -qq
+  DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq --no-install-recommends $missing
+fi
+
+# The translation and decimal-comma tests run under German.
+if ! locale -a 2>/dev/null | grep -qi '^de_DE\.utf-\?8$'; then
+  echo "bootstrap: generating the de_DE.UTF-8 locale"
+  $sudo sed -i 's/^# *\(de_DE.UTF-8 UTF-8\)/\1/' /etc/locale.gen
+  grep -q '^de_DE.UTF-8 UTF-8' /etc/locale.gen || echo 'de_DE.UTF-8 UTF-8' | $sudo tee -a /etc/locale.gen >/dev/null
+  $sudo locale-gen >/dev/null
+fi
+
+jobs=$(nproc 2>/dev/null || echo 2)
+
+case "$mode" in
+demo)
+  [ -d build ] || meson setup build
+  ninja -C build
+  if [ -n "${DISPLAY:-}${WAYLAND_DISPLAY:-}" ]; then
+    exec build/app/hiplever data/examples/demo.hlplan
+  fi
+  echo "bootstrap: no display; showing the demo case on the command line instead"
+  exec build/app/hiplever-cli solve data/examples/demo.hlplan
+  ;;
+test)
+  export LC_ALL=C TZ=UTC
+  [ -d build-ci ] || meson setup build-ci --werror
+  ninja -C build-ci -j "$jobs"
+  status=0
+  meson test -C build-ci --print-errorlogs --num-processes "$jobs" || status=1
+
+  # The core, file and command-line suites once more under AddressSanitizer
+  # and UndefinedBehaviorSanitizer.
+  [ -d build-san ] || meson setup build-san --werror -Db_sanitize=address,undefined -Db_lundef=false
+  ninja -C build-san -j "$jobs"
+  ASAN_OPTIONS=detect_leaks=1:abort_on_error=1 UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
+    meson test -C build-san --print-errorlogs --num-processes "$jobs" --suite core --suite cli \
+    || status=1
+
+  # One closing line for the whole run.
+  python3 - build-ci build-san <<'PY'
+import json, sys
+passed = failed = skipped = 0
+for d in sys.argv[1:]:
+    try:
+        lines = open(d + '/meson-logs/testlog.json').read().splitlines()
+    except OSError:
+        continue
+    for line in lines:
+        r = json.loads(line).get('result', '')
+        if r == 'OK' or r == 'EXPECTEDFAIL':
+            passed += 1
+        elif r == 'SKIP':
+            skipped += 1
+        else:
+            failed += 1
+print('suite: %d passed, %d failed, %d skipped' % (passed, failed, skipped))
+PY
+  exit $status
+  ;;
+*)
+  echo "usage: sh tests/bootstrap.sh demo|test" >&2
+  exit 2
+  ;;
+esac
