@@ -92,13 +92,13 @@ static const HlLimbTableInfo limb_tables[HL_LIMB_N] = {
     0.1175 + 0.0535 + 0.0133 },
   { HL_LIMB_DE_LEVA_MEN, "de-leva-men", N_("de Leva, men, 0.1986"),
     "de Leva 1996, J Biomech 29:1223-1230, after Zatsiorsky and Seluyanov: "
-    "thigh 0.1416 + shank 0.0433 + foot 0.0137 (values as recalled, to be "
-    "checked against the paper)",
+    "thigh 0.1416 + shank 0.0433 + foot 0.0137 (checked against a secondary "
+    "tabulation of the paper's table, not the paper itself)",
     0.1416 + 0.0433 + 0.0137 },
   { HL_LIMB_DE_LEVA_WOMEN, "de-leva-women", N_("de Leva, women, 0.2088"),
     "de Leva 1996, J Biomech 29:1223-1230, after Zatsiorsky and Seluyanov: "
-    "thigh 0.1478 + shank 0.0481 + foot 0.0129 (values as recalled, to be "
-    "checked against the paper)",
+    "thigh 0.1478 + shank 0.0481 + foot 0.0129 (checked against a secondary "
+    "tabulation of the paper's table, not the paper itself)",
     0.1478 + 0.0481 + 0.0129 },
   { HL_LIMB_SIXTH, "one-sixth", N_("One sixth of body weight"),
     "The classroom rule: one leg is a sixth of body weight (common practice)",
