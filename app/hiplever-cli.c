@@ -1,0 +1,858 @@
+/* hiplever-cli.c: the command line.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Subcommands are rows of one table (commands[] below), each with its own
+ * option table, so that later subcommands are one row and one function.
+ * Exit codes, CSV columns and message formats are a contract with outside
+ * scripts: see hl-cli.h and the --help text.
+ */
+#include "config.h"
+
+#include <locale.h>
+#include <stddef.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#include "hl-i18n.h"
+#include "hl-plan.h"
+#include "hl-plan-io.h"
+#include "hl-solve.h"
+#include "hl-version.h"
+#include "hl-cli.h"
+
+/* ---- Options and subcommands ------------------------------------------ */
+
+typedef struct {
+  const char *long_name;
+  char short_name;         /* 0 when there is none */
+  const char *arg_name;    /* NULL for a switch without a value */
+  const char *help;        /* N_() */
+} HlCliOption;
+
+#define HL_CLI_MAX_OPTIONS 8
+
+typedef struct {
+  const char *value[HL_CLI_MAX_OPTIONS];  /* NULL: not given; "" for a switch */
+  char **operands;
+  int n_operands;
+  bool help;
+} HlCliArgs;
+
+typedef struct HlCliCommand HlCliCommand;
+
+struct HlCliCommand {
+  const char *name;
+  const char *synopsis;        /* operands and options, for the help */
+  const char *summary;         /* N_() */
+  const HlCliOption *options;  /* ends with a row whose long_name is NULL */
+  int min_operands;
+  int max_operands;            /* -1: any number */
+  int (*run) (const HlCliCommand *cmd, const HlCliArgs *args);
+};
+
+enum { SOLVE_OPT_FORMAT };
+enum { SUMMARY_OPT_OUTPUT };
+enum { BATCH_OPT_CSV };
+enum { BENCH_OPT_QUICK };
+
+static const HlCliOption solve_options[] = {
+  { "format", 0, N_("FORMAT"),
+    N_("text (the default: a table, the flags and the caution), csv, or "
+       "xml (the planning summary)") },
+  { NULL },
+};
+
+static const HlCliOption summary_options[] = {
+  { "output", 'o', N_("OUT.xml"),
+    N_("where to write the planning summary (required; written atomically)") },
+  { NULL },
+};
+
+static const HlCliOption batch_options[] = {
+  { "csv", 0, N_("OUT"),
+    N_("where to write the table (required); written only when every plan "
+       "succeeds") },
+  { NULL },
+};
+
+static const HlCliOption bench_options[] = {
+  { "quick", 0, NULL, N_("smaller counts: a smoke test, not a measurement") },
+  { NULL },
+};
+
+static const HlCliOption no_options[] = {
+  { NULL },
+};
+
+static int cmd_solve (const HlCliCommand *cmd, const HlCliArgs *args);
+static int cmd_summary (const HlCliCommand *cmd, const HlCliArgs *args);
+static int cmd_validate (const HlCliCommand *cmd, const HlCliArgs *args);
+static int cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args);
+static int cmd_bench (const HlCliCommand *cmd, const HlCliArgs *args);
+
+static const HlCliCommand commands[] = {
+  { "solve", "PLAN [--format text|csv|xml]",
+    N_("Solve the native hip and every reconstruction option of a plan."),
+    solve_options, 1, 1, cmd_solve },
+  { "summary", "PLAN -o OUT.xml",
+    N_("Write the planning summary (plan, results, caution, provenance)."),
+    summary_options, 1, 1, cmd_summary },
+  { "validate", "PLAN...",
+    N_("Load, check and solve each plan; print \"PLAN: valid (N options)\" "
+       "or what is wrong."),
+    no_options, 1, -1, cmd_validate },
+  { "batch", "PLAN... --csv OUT",
+    N_("Solve many plans into one CSV table with a first column \"plan\". "
+       "If any plan fails, each failure is reported, nothing is written and "
+       "the exit status is 1."),
+    batch_options, 1, -1, cmd_batch },
+  { "bench", "[--quick]",
+    N_("Time the solver: one solve, random what-if solves, and loading plan "
+       "files."),
+    bench_options, 0, 0, cmd_bench },
+};
+
+#define N_COMMANDS (sizeof commands / sizeof commands[0])
+
+static void
+print_command_help (const HlCliCommand *cmd)
+{
+  hl_cli_fprintf (stdout, "  %s %s\n      %s\n", cmd->name, cmd->synopsis,
+                  _(cmd->summary));
+  for (const HlCliOption *o = cmd->options; o->long_name != NULL; o++)
+    {
+      char flag[HL_CLI_NUMBER_MAX];
+
+      if (o->short_name != 0)
+        snprintf (flag, sizeof flag, "-%c, --%s", o->short_name, o->long_name);
+      else
+        snprintf (flag, sizeof flag, "--%s", o->long_name);
+      hl_cli_fprintf (stdout, "      %s%s%s\n          %s\n", flag,
+                      o->arg_name != NULL ? " " : "",
+                      o->arg_name != NULL ? _(o->arg_name) : "", _(o->help));
+    }
+}
+
+static void
+print_help (void)
+{
+  hl_cli_fprintf (stdout,
+                  _("Usage: %s SUBCOMMAND [OPTION...] [ARGUMENT...]\n"
+                    "       %s --help | --version\n\n"
+                    "A static frontal-plane estimate of single-leg stance for "
+                    "planning hip arthroplasty.\n\n"),
+                  HL_CLI_PROGRAM, HL_CLI_PROGRAM);
+  hl_cli_fprintf (stdout, "%s\n", _("Subcommands:"));
+  for (size_t i = 0; i < N_COMMANDS; i++)
+    print_command_help (&commands[i]);
+  hl_cli_fprintf (stdout, "\n%s\n", _("Options:"));
+  hl_cli_fprintf (stdout, "  -h, --help\n      %s\n",
+                  _("show this help and exit (also after a subcommand)"));
+  hl_cli_fprintf (stdout, "  -V, --version\n      %s\n",
+                  _("show the program and model versions and exit"));
+  hl_cli_fprintf (stdout, "\n%s\n", _("Exit status:"));
+  hl_cli_fprintf (stdout, "  0  %s\n", _("success"));
+  hl_cli_fprintf (stdout, "  1  %s\n",
+                  _("invalid input, or an output that could not be written; "
+                    "the message reads \"hiplever-cli: FILE:LINE: FIELD: "
+                    "MESSAGE\" (the line is left out when there is none)"));
+  hl_cli_fprintf (stdout, "  2  %s\n",
+                  _("usage error: unknown subcommand or option, or a missing "
+                    "argument"));
+  hl_cli_fprintf (stdout, "\n%s\n", hl_caution_text ());
+}
+
+static void
+print_version (void)
+{
+  hl_cli_fprintf (stdout, "%s %s\n", HL_CLI_PROGRAM, hl_program_version ());
+  hl_cli_fprintf (stdout, _("mechanical model %s\n"), HL_MODEL_VERSION);
+}
+
+static int
+find_option (const HlCliCommand *cmd, const char *long_name, size_t len,
+             char short_name)
+{
+  for (int i = 0; cmd->options[i].long_name != NULL; i++)
+    {
+      const HlCliOption *o = &cmd->options[i];
+
+      if (long_name != NULL && strlen (o->long_name) == len
+          && strncmp (o->long_name, long_name, len) == 0)
+        return i;
+      if (long_name == NULL && short_name != 0 && o->short_name == short_name)
+        return i;
+    }
+  return -1;
+}
+
+/* Returns HL_CLI_EXIT_OK or HL_CLI_EXIT_USAGE (with the message printed). */
+static int
+parse_args (const HlCliCommand *cmd, int argc, char **argv, HlCliArgs *args)
+{
+  bool only_operands = false;
+
+  memset (args, 0, sizeof *args);
+  args->operands = argv;   /* operands are packed to the front of argv */
+
+  for (int i = 0; i < argc; i++)
+    {
+      const char *a = argv[i];
+      const char *inline_value = NULL;
+      int opt;
+
+      if (only_operands || a[0] != '-' || a[1] == '\0')
+        {
+          argv[args->n_operands++] = argv[i];
+          continue;
+        }
+      if (strcmp (a, "--") == 0)
+        {
+          only_operands = true;
+          continue;
+        }
+      if (strcmp (a, "--help") == 0 || strcmp (a, "-h") == 0)
+        {
+          args->help = true;
+          continue;
+        }
+
+      if (a[1] == '-')
+        {
+          const char *name = a + 2;
+          const char *eq = strchr (name, '=');
+          size_t len = eq != NULL ? (size_t) (eq - name) : strlen (name);
+
+          opt = find_option (cmd, name, len, 0);
+          if (opt < 0)
+            return hl_cli_usage_error (_("%s: unknown option '--%.*s'"),
+                                       cmd->name, (int) len, name);
+          inline_value = eq != NULL ? eq + 1 : NULL;
+        }
+      else
+        {
+          opt = find_option (cmd, NULL, 0, a[1]);
+          if (opt < 0)
+            return hl_cli_usage_error (_("%s: unknown option '-%c'"),
+                                       cmd->name, a[1]);
+          if (a[2] != '\0')
+            {
+              if (cmd->options[opt].arg_name == NULL)
+                return hl_cli_usage_error (_("%s: unknown option '%s'"),
+                                           cmd->name, a);
+              inline_value = a + 2;
+            }
+        }
+
+      const HlCliOption *o = &cmd->options[opt];
+      if (o->arg_name == NULL)
+        {
+          if (inline_value != NULL)
+            return hl_cli_usage_error (_("%s: option '--%s' takes no value"),
+                                       cmd->name, o->long_name);
+          args->value[opt] = "";
+        }
+      else if (inline_value != NULL)
+        {
+          args->value[opt] = inline_value;
+        }
+      else if (i + 1 < argc)
+        {
+          args->value[opt] = argv[++i];
+        }
+      else
+        {
+          return hl_cli_usage_error (_("%s: option '%s' needs a value (%s)"),
+                                     cmd->name, a, _(o->arg_name));
+        }
+      if (o->arg_name != NULL && args->value[opt][0] == '\0')
+        return hl_cli_usage_error (_("%s: option '%s' needs a value (%s)"),
+                                   cmd->name, a, _(o->arg_name));
+    }
+
+  if (args->help)
+    return HL_CLI_EXIT_OK;
+  if (args->n_operands < cmd->min_operands)
+    return hl_cli_usage_error (_("%s: missing argument; usage: %s %s %s"),
+                               cmd->name, HL_CLI_PROGRAM, cmd->name,
+                               cmd->synopsis);
+  if (cmd->max_operands >= 0 && args->n_operands > cmd->max_operands)
+    return hl_cli_usage_error (_("%s: unexpected argument '%s'"), cmd->name,
+                               args->operands[cmd->max_operands]);
+  return HL_CLI_EXIT_OK;
+}
+
+/* ---- Results as columns ------------------------------------------------ */
+
+/* The CSV columns after "option": names, order and precision are a
+ * contract.  The text table shows the same values at the same precision,
+ * so the two can be compared. */
+typedef struct {
+  const char *csv;
+  const char *label;     /* N_() */
+  int precision;
+  ptrdiff_t offset;      /* into HlResult, or COLUMN_JRF_ANGLE */
+} HlCliColumn;
+
+#define COLUMN_JRF_ANGLE ((ptrdiff_t) -1)
+
+static const HlCliColumn result_columns[] = {
+  { "abductor_arm_mm", N_("Abductor moment arm (mm)"), 3,
+    offsetof (HlResult, abductor_arm_mm) },
+  { "bw_arm_mm", N_("Body-weight lever arm (mm)"), 3,
+    offsetof (HlResult, bw_arm_mm) },
+  { "lever_ratio", N_("Lever ratio (body weight / abductor)"), 4,
+    offsetof (HlResult, lever_ratio) },
+  { "abductor_force_N", N_("Abductor force (N)"), 3,
+    offsetof (HlResult, abductor_force_n) },
+  { "abductor_force_BW", N_("Abductor force (x body weight)"), 3,
+    offsetof (HlResult, abductor_force_bw) },
+  { "jrf_N", N_("Joint reaction force (N)"), 3,
+    offsetof (HlResult, jrf_n) },
+  { "jrf_BW", N_("Joint reaction force (x body weight)"), 3,
+    offsetof (HlResult, jrf_bw) },
+  { "jrf_angle_deg", N_("Joint reaction force from vertical (deg)"), 3,
+    COLUMN_JRF_ANGLE },
+  { "global_offset_change_mm", N_("Global offset change (mm)"), 3,
+    offsetof (HlResult, global_offset_change_mm) },
+  { "leg_length_change_mm", N_("Leg length change (mm)"), 3,
+    offsetof (HlResult, leg_length_change_mm) },
+  { "abductor_length_change_mm", N_("Abductor length change (mm)"), 3,
+    offsetof (HlResult, abductor_length_change_mm) },
+};
+
+#define N_COLUMNS (sizeof result_columns / sizeof result_columns[0])
+
+#define HL_CLI_FLAGS_MAX 256
+
+static double
+column_value (const HlCliColumn *col, const HlResult *res)
+{
+  if (col->offset == COLUMN_JRF_ANGLE)
+    return hl_result_jrf_angle_deg (res);
+  return *(const double *) ((const char *) res + col->offset);
+}
+
+static const char *
+case_name (const HlPlan *plan, size_t i)
+{
+  return i == 0 ? "native" : plan->options[i - 1].name;
+}
+
+static void
+csv_header (HlCliBuf *buf, bool with_plan)
+{
+  if (with_plan)
+    hl_cli_buf_printf (buf, "plan,");
+  hl_cli_buf_printf (buf, "option");
+  for (size_t c = 0; c < N_COLUMNS; c++)
+    hl_cli_buf_printf (buf, ",%s", result_columns[c].csv);
+  hl_cli_buf_printf (buf, ",flags\n");
+}
+
+static void
+csv_rows (HlCliBuf *buf, const char *plan_name, const HlPlan *plan,
+          const HlResult *results)
+{
+  for (size_t i = 0; i <= plan->n_options; i++)
+    {
+      char num[HL_CLI_NUMBER_MAX];
+      char flags[HL_CLI_FLAGS_MAX];
+
+      if (plan_name != NULL)
+        {
+          hl_cli_buf_csv_field (buf, plan_name);
+          hl_cli_buf_append (buf, ",", 1);
+        }
+      hl_cli_buf_csv_field (buf, case_name (plan, i));
+      for (size_t c = 0; c < N_COLUMNS; c++)
+        hl_cli_buf_printf (buf, ",%s",
+                           hl_cli_format_fixed (num, sizeof num,
+                                                result_columns[c].precision,
+                                                column_value (&result_columns[c],
+                                                              &results[i])));
+      hl_flags_format (results[i].flags, ";", flags, sizeof flags);
+      hl_cli_buf_append (buf, ",", 1);
+      hl_cli_buf_csv_field (buf, flags);
+      hl_cli_buf_append (buf, "\n", 1);
+    }
+}
+
+/* ---- Loading and solving ----------------------------------------------- */
+
+static HlPlan *
+load_plan (const char *path)
+{
+  HlPlan *plan = NULL;
+  HlError err;
+
+  hl_error_clear (&err);
+  if (hl_plan_load_file (path, &plan, &err) != HL_OK)
+    {
+      hl_cli_report_error (path, NULL, &err);
+      return NULL;
+    }
+  return plan;
+}
+
+/* Native and every option; the caller frees the array.  NULL on failure,
+ * with the message printed (naming the option at fault). */
+static HlResult *
+solve_plan (const char *path, const HlPlan *plan)
+{
+  HlModel model;
+  HlError err;
+
+  hl_error_clear (&err);
+  if (hl_model_prepare (&model, plan, &err) != HL_OK)
+    {
+      hl_cli_report_error (path, NULL, &err);
+      return NULL;
+    }
+
+  HlResult *results = calloc (plan->n_options + 1, sizeof *results);
+  if (results == NULL)
+    {
+      hl_cli_error (_("%s: out of memory"), path);
+      return NULL;
+    }
+
+  for (size_t i = 0; i <= plan->n_options; i++)
+    {
+      const HlRecon *recon = i == 0 ? NULL : &plan->options[i - 1].recon;
+
+      hl_error_clear (&err);
+      if (hl_model_solve (&model, recon, &results[i], &err) != HL_OK)
+        {
+          char context[HL_NAME_MAX + HL_CLI_NUMBER_MAX];
+
+          if (i == 0)
+            snprintf (context, sizeof context, "%s", _("native"));
+          else
+            snprintf (context, sizeof context, _("option \"%s\""),
+                      plan->options[i - 1].name);
+          hl_cli_report_error (path, context, &err);
+          free (results);
+          return NULL;
+        }
+    }
+  return results;
+}
+
+/* ---- solve ------------------------------------------------------------- */
+
+static void
+print_padded (const char *s, size_t width, bool right)
+{
+  size_t w = hl_cli_text_width (s);
+  size_t pad = w < width ? width - w : 0;
+
+  if (right)
+    hl_cli_fprintf (stdout, "%*s%s", (int) pad, "", s);
+  else
+    hl_cli_fprintf (stdout, "%s%*s", s, (int) pad, "");
+}
+
+#define HL_CLI_COLUMN_GAP 2
+
+static void
+print_context (const char *path, const HlPlan *plan)
+{
+  const HlLimbTableInfo *limb = hl_limb_table_info (plan->model.limb_table);
+  const char *hand_name[2] = { _("contralateral"), _("ipsilateral") };
+
+  hl_cli_fprintf (stdout, _("Plan: %s\n"), path);
+  hl_cli_fprintf (stdout,
+                  _("Case: %s; operated side: %s; body mass %.1f kg "
+                    "(body weight %.1f N)\n"),
+                  plan->label, _(hl_side_name (plan->side)), plan->mass_kg,
+                  hl_plan_body_weight (plan));
+  hl_cli_fprintf (stdout,
+                  _("Stance-limb mass fraction %.4f (%s); body-weight line: %s; "
+                    "abductor line: %s\n"),
+                  hl_plan_limb_fraction (plan),
+                  limb != NULL ? _(limb->label) : "",
+                  plan->model.bw_line == HL_BW_LINE_SEGMENTAL
+                  ? _("segmental") : _("on the midline"),
+                  plan->model.abductor_line == HL_ABDUCTOR_LINE_AUTO
+                  ? _("from origin to insertion where the origin is placed")
+                  : _("set angle through the insertion"));
+  if (plan->cane.enabled)
+    hl_cli_fprintf (stdout, _("Cane: %s hand, %.1f N, %.1f mm from the midline\n"),
+                    hand_name[plan->cane.hand == HL_HAND_IPSILATERAL],
+                    hl_plan_cane_force (plan), plan->cane.distance_mm);
+  for (int h = 0; h < 2; h++)
+    if (plan->loads.hand[h].mass_kg > 0.0)
+      hl_cli_fprintf (stdout,
+                      _("Load in the %s hand: %.1f kg, %.1f mm from the midline\n"),
+                      hand_name[h], plan->loads.hand[h].mass_kg,
+                      plan->loads.hand[h].distance_mm);
+  if (plan->loads.midline_kg > 0.0)
+    hl_cli_fprintf (stdout, _("Load on the midline: %.1f kg\n"),
+                    plan->loads.midline_kg);
+}
+
+static void
+print_text (const char *path, const HlPlan *plan, const HlResult *results)
+{
+  size_t n_cases = plan->n_options + 1;
+  size_t label_width = 0;
+  size_t case_width = 0;
+  char num[HL_CLI_NUMBER_MAX];
+
+  for (size_t c = 0; c < N_COLUMNS; c++)
+    {
+      size_t w = hl_cli_text_width (_(result_columns[c].label));
+      if (w > label_width)
+        label_width = w;
+    }
+  for (size_t i = 0; i < n_cases; i++)
+    {
+      size_t w = hl_cli_text_width (case_name (plan, i));
+      if (w > case_width)
+        case_width = w;
+      for (size_t c = 0; c < N_COLUMNS; c++)
+        {
+          hl_cli_format_fixed (num, sizeof num, result_columns[c].precision,
+                               column_value (&result_columns[c], &results[i]));
+          if (strlen (num) > case_width)
+            case_width = strlen (num);
+        }
+    }
+
+  print_context (path, plan);
+  hl_cli_fprintf (stdout, "\n");
+  print_padded ("", label_width, false);
+  for (size_t i = 0; i < n_cases; i++)
+    {
+      hl_cli_fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
+      print_padded (case_name (plan, i), case_width, true);
+    }
+  hl_cli_fprintf (stdout, "\n");
+
+  for (size_t c = 0; c < N_COLUMNS; c++)
+    {
+      print_padded (_(result_columns[c].label), label_width, false);
+      for (size_t i = 0; i < n_cases; i++)
+        {
+          hl_cli_format_fixed (num, sizeof num, result_columns[c].precision,
+                               column_value (&result_columns[c], &results[i]));
+          hl_cli_fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
+          print_padded (num, case_width, true);
+        }
+      hl_cli_fprintf (stdout, "\n");
+    }
+
+  hl_cli_fprintf (stdout, "\n%s\n", _("Flags:"));
+  for (size_t i = 0; i < n_cases; i++)
+    {
+      const HlResult *r = &results[i];
+
+      if (r->flags == 0)
+        hl_cli_fprintf (stdout, "  %s: %s\n", case_name (plan, i), _("none"));
+      for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
+        {
+          if ((r->flags & bit) == 0)
+            continue;
+          hl_cli_fprintf (stdout, "  %s: %s", case_name (plan, i),
+                          hl_flag_text ((HlFlag) bit));
+          if (bit == HL_FLAG_ABDUCTORS_NOT_NEEDED)
+            hl_cli_fprintf (stdout, _(" (unbalanced moment %.3f N m)"),
+                            r->unbalanced_nmm / 1000.0);
+          hl_cli_fprintf (stdout, "\n");
+        }
+    }
+
+  hl_cli_fprintf (stdout, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+}
+
+typedef enum {
+  FORMAT_TEXT,
+  FORMAT_CSV,
+  FORMAT_XML,
+} HlCliFormat;
+
+static int
+cmd_solve (const HlCliCommand *cmd, const HlCliArgs *args)
+{
+  const char *format_name = args->value[SOLVE_OPT_FORMAT];
+  const char *path = args->operands[0];
+  HlCliFormat format;
+
+  if (format_name == NULL || strcmp (format_name, "text") == 0)
+    format = FORMAT_TEXT;
+  else if (strcmp (format_name, "csv") == 0)
+    format = FORMAT_CSV;
+  else if (strcmp (format_name, "xml") == 0)
+    format = FORMAT_XML;
+  else
+    return hl_cli_usage_error (_("%s: unknown format '%s' (use text, csv or xml)"),
+                               cmd->name, format_name);
+
+  HlPlan *plan = load_plan (path);
+  if (plan == NULL)
+    return HL_CLI_EXIT_INVALID;
+
+  int status = HL_CLI_EXIT_OK;
+  if (format == FORMAT_XML)
+    {
+      char *xml = NULL;
+      size_t size = 0;
+      HlError err;
+
+      hl_error_clear (&err);
+      if (hl_summary_to_buffer (plan, NULL, &xml, &size, &err) != HL_OK)
+        {
+          hl_cli_report_error (path, NULL, &err);
+          status = HL_CLI_EXIT_INVALID;
+        }
+      else
+        {
+          fwrite (xml, 1, size, stdout);
+        }
+      free (xml);
+      hl_plan_free (plan);
+      return status;
+    }
+
+  HlResult *results = solve_plan (path, plan);
+  if (results == NULL)
+    {
+      hl_plan_free (plan);
+      return HL_CLI_EXIT_INVALID;
+    }
+
+  if (format == FORMAT_CSV)
+    {
+      HlCliBuf buf;
+
+      hl_cli_buf_init (&buf);
+      csv_header (&buf, false);
+      csv_rows (&buf, NULL, plan, results);
+      if (buf.failed)
+        {
+          hl_cli_error (_("%s: out of memory"), path);
+          status = HL_CLI_EXIT_INVALID;
+        }
+      else
+        {
+          fwrite (buf.data, 1, buf.len, stdout);
+        }
+      hl_cli_buf_clear (&buf);
+    }
+  else
+    {
+      print_text (path, plan, results);
+    }
+
+  free (results);
+  hl_plan_free (plan);
+  return status;
+}
+
+/* ---- summary ----------------------------------------------------------- */
+
+static int
+cmd_summary (const HlCliCommand *cmd, const HlCliArgs *args)
+{
+  const char *out = args->value[SUMMARY_OPT_OUTPUT];
+  const char *path = args->operands[0];
+
+  if (out == NULL)
+    return hl_cli_usage_error (_("%s: missing -o OUT.xml (where to write the "
+                                 "summary)"), cmd->name);
+
+  HlPlan *plan = load_plan (path);
+  if (plan == NULL)
+    return HL_CLI_EXIT_INVALID;
+
+  HlError err;
+  hl_error_clear (&err);
+  HlStatus st = hl_summary_save_file (plan, out, &err);
+  hl_plan_free (plan);
+  if (st != HL_OK)
+    {
+      /* An I/O failure is the output's; anything else is the plan's. */
+      hl_cli_report_error (st == HL_ERR_IO ? out : path, NULL, &err);
+      return HL_CLI_EXIT_INVALID;
+    }
+  return HL_CLI_EXIT_OK;
+}
+
+/* ---- validate ---------------------------------------------------------- */
+
+static int
+cmd_validate (const HlCliCommand *cmd, const HlCliArgs *args)
+{
+  int status = HL_CLI_EXIT_OK;
+
+  for (int i = 0; i < args->n_operands; i++)
+    {
+      const char *path = args->operands[i];
+      HlPlan *plan = load_plan (path);
+      HlResult *results = plan != NULL ? solve_plan (path, plan) : NULL;
+
+      if (results != NULL)
+        hl_cli_fprintf (stdout,
+                        ngettext ("%s: valid (%zu option)\n",
+                                  "%s: valid (%zu options)\n",
+                                  plan->n_options),
+                        path, plan->n_options);
+      else
+        status = HL_CLI_EXIT_INVALID;
+      free (results);
+      hl_plan_free (plan);
+    }
+  return status;
+}
+
+/* ---- batch ------------------------------------------------------------- */
+
+static int
+cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
+{
+  const char *out = args->value[BATCH_OPT_CSV];
+  bool progress = isatty (STDERR_FILENO);
+  bool progress_shown = false;
+  int n_failed = 0;
+  HlCliBuf buf;
+
+  if (out == NULL)
+    return hl_cli_usage_error (_("%s: missing --csv OUT (where to write the "
+                                 "table)"), cmd->name);
+
+  hl_cli_buf_init (&buf);
+  csv_header (&buf, true);
+
+  for (int i = 0; i < args->n_operands; i++)
+    {
+      const char *path = args->operands[i];
+
+      if (progress_shown)
+        hl_cli_fprintf (stderr, "\r");
+      HlPlan *plan = load_plan (path);
+      HlResult *results = plan != NULL ? solve_plan (path, plan) : NULL;
+
+      if (results != NULL)
+        csv_rows (&buf, path, plan, results);
+      else
+        n_failed++;
+      free (results);
+      hl_plan_free (plan);
+
+      if (progress)
+        {
+          hl_cli_fprintf (stderr, "%d/%d", i + 1, args->n_operands);
+          progress_shown = true;
+        }
+    }
+  if (progress_shown)
+    hl_cli_fprintf (stderr, "\n");
+
+  int status = HL_CLI_EXIT_OK;
+  if (n_failed > 0)
+    {
+      hl_cli_error (ngettext ("%s: %d of %d plan failed; nothing was written "
+                              "to %s",
+                              "%s: %d of %d plans failed; nothing was written "
+                              "to %s", args->n_operands),
+                    cmd->name, n_failed, args->n_operands, out);
+      status = HL_CLI_EXIT_INVALID;
+    }
+  else if (buf.failed)
+    {
+      hl_cli_error (_("%s: out of memory; nothing was written to %s"),
+                    cmd->name, out);
+      status = HL_CLI_EXIT_INVALID;
+    }
+  else
+    {
+      HlError err;
+
+      hl_error_clear (&err);
+      if (hl_write_file_atomic (out, buf.data, buf.len, &err) != HL_OK)
+        {
+          hl_cli_report_error (out, NULL, &err);
+          status = HL_CLI_EXIT_INVALID;
+        }
+    }
+  hl_cli_buf_clear (&buf);
+  return status;
+}
+
+/* ---- bench ------------------------------------------------------------- */
+
+static int
+cmd_bench (const HlCliCommand *cmd, const HlCliArgs *args)
+{
+  return hl_cli_bench (args->value[BENCH_OPT_QUICK] != NULL);
+}
+
+/* ---- main -------------------------------------------------------------- */
+
+static const HlCliCommand *
+find_command (const char *name)
+{
+  for (size_t i = 0; i < N_COMMANDS; i++)
+    if (strcmp (commands[i].name, name) == 0)
+      return &commands[i];
+  return NULL;
+}
+
+int
+main (int argc, char **argv)
+{
+  setlocale (LC_ALL, "");
+  bindtextdomain (GETTEXT_PACKAGE, HL_LOCALEDIR);
+  bind_textdomain_codeset (GETTEXT_PACKAGE, "UTF-8");
+  textdomain (GETTEXT_PACKAGE);
+
+  if (argc < 2)
+    return hl_cli_usage_error (_("missing subcommand"));
+
+  const char *first = argv[1];
+  if (strcmp (first, "--help") == 0 || strcmp (first, "-h") == 0)
+    {
+      print_help ();
+      return HL_CLI_EXIT_OK;
+    }
+  if (strcmp (first, "--version") == 0 || strcmp (first, "-V") == 0)
+    {
+      print_version ();
+      return HL_CLI_EXIT_OK;
+    }
+  if (first[0] == '-')
+    return hl_cli_usage_error (_("unknown option '%s'"), first);
+
+  const HlCliCommand *cmd = find_command (first);
+  if (cmd == NULL)
+    return hl_cli_usage_error (_("unknown subcommand '%s'"), first);
+
+  HlCliArgs args;
+  int status = parse_args (cmd, argc - 2, argv + 2, &args);
+  if (status != HL_CLI_EXIT_OK)
+    return status;
+
+  if (args.help)
+    {
+      hl_cli_fprintf (stdout, _("Usage: %s %s\n\n"), HL_CLI_PROGRAM,
+                      cmd->name);
+      print_command_help (cmd);
+      hl_cli_fprintf (stdout, "\n%s\n", _("Run 'hiplever-cli --help' for "
+                                          "every subcommand."));
+    }
+  else
+    {
+      status = cmd->run (cmd, &args);
+    }
+
+  if (fflush (stdout) != 0 || ferror (stdout))
+    {
+      hl_cli_error (_("could not write to standard output"));
+      return HL_CLI_EXIT_INVALID;
+    }
+  return status;
+}

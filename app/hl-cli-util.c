@@ -1,0 +1,229 @@
+/* hl-cli-util.c: output helpers of hiplever-cli.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <locale.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "hl-i18n.h"
+#include "hl-cli.h"
+
+#define HL_CLI_BUF_MIN_CAP 4096
+
+/* Created once and never changed, so sharing it is re-entrant. */
+static locale_t
+c_locale (void)
+{
+  static locale_t loc = (locale_t) 0;
+
+  if (loc == (locale_t) 0)
+    loc = newlocale (LC_ALL_MASK, "C", (locale_t) 0);
+  return loc;
+}
+
+int
+hl_cli_vfprintf (FILE *out, const char *fmt, va_list ap)
+{
+  locale_t c = c_locale ();
+  locale_t old = c != (locale_t) 0 ? uselocale (c) : (locale_t) 0;
+  int n = vfprintf (out, fmt, ap);
+
+  if (old != (locale_t) 0)
+    uselocale (old);
+  return n;
+}
+
+int
+hl_cli_fprintf (FILE *out, const char *fmt, ...)
+{
+  va_list ap;
+
+  va_start (ap, fmt);
+  int n = hl_cli_vfprintf (out, fmt, ap);
+  va_end (ap);
+  return n;
+}
+
+int
+hl_cli_vsnprintf (char *buf, size_t size, const char *fmt, va_list ap)
+{
+  locale_t c = c_locale ();
+  locale_t old = c != (locale_t) 0 ? uselocale (c) : (locale_t) 0;
+  int n = vsnprintf (buf, size, fmt, ap);
+
+  if (old != (locale_t) 0)
+    uselocale (old);
+  return n;
+}
+
+static int
+cli_snprintf (char *buf, size_t size, const char *fmt, ...)
+  __attribute__ ((format (printf, 3, 4)));
+
+static int
+cli_snprintf (char *buf, size_t size, const char *fmt, ...)
+{
+  va_list ap;
+
+  va_start (ap, fmt);
+  int n = hl_cli_vsnprintf (buf, size, fmt, ap);
+  va_end (ap);
+  return n;
+}
+
+const char *
+hl_cli_format_fixed (char *buf, size_t size, int precision, double value)
+{
+  cli_snprintf (buf, size, "%.*f", precision, value);
+  /* A tiny negative value rounds to "-0.000", which reads as a change of
+   * sign that is not there. */
+  if (buf[0] == '-' && strspn (buf + 1, "0.") == strlen (buf + 1))
+    memmove (buf, buf + 1, strlen (buf));
+  return buf;
+}
+
+void
+hl_cli_buf_init (HlCliBuf *buf)
+{
+  memset (buf, 0, sizeof *buf);
+}
+
+void
+hl_cli_buf_clear (HlCliBuf *buf)
+{
+  free (buf->data);
+  hl_cli_buf_init (buf);
+}
+
+static bool
+buf_reserve (HlCliBuf *buf, size_t extra)
+{
+  if (buf->failed)
+    return false;
+  if (buf->len + extra + 1 <= buf->cap)
+    return true;
+
+  size_t cap = buf->cap > 0 ? buf->cap : HL_CLI_BUF_MIN_CAP;
+  while (cap < buf->len + extra + 1)
+    cap *= 2;
+
+  char *data = realloc (buf->data, cap);
+  if (data == NULL)
+    {
+      buf->failed = true;
+      return false;
+    }
+  buf->data = data;
+  buf->cap = cap;
+  return true;
+}
+
+void
+hl_cli_buf_append (HlCliBuf *buf, const char *s, size_t n)
+{
+  if (!buf_reserve (buf, n))
+    return;
+  memcpy (buf->data + buf->len, s, n);
+  buf->len += n;
+  buf->data[buf->len] = '\0';
+}
+
+void
+hl_cli_buf_printf (HlCliBuf *buf, const char *fmt, ...)
+{
+  va_list ap;
+
+  va_start (ap, fmt);
+  int n = hl_cli_vsnprintf (NULL, 0, fmt, ap);
+  va_end (ap);
+  if (n < 0)
+    {
+      buf->failed = true;
+      return;
+    }
+  if (!buf_reserve (buf, (size_t) n))
+    return;
+
+  va_start (ap, fmt);
+  hl_cli_vsnprintf (buf->data + buf->len, (size_t) n + 1, fmt, ap);
+  va_end (ap);
+  buf->len += (size_t) n;
+}
+
+void
+hl_cli_buf_csv_field (HlCliBuf *buf, const char *field)
+{
+  if (strpbrk (field, ",\"\r\n") == NULL)
+    {
+      hl_cli_buf_append (buf, field, strlen (field));
+      return;
+    }
+
+  hl_cli_buf_append (buf, "\"", 1);
+  for (const char *p = field; *p != '\0'; p++)
+    {
+      if (*p == '"')
+        hl_cli_buf_append (buf, "\"\"", 2);
+      else
+        hl_cli_buf_append (buf, p, 1);
+    }
+  hl_cli_buf_append (buf, "\"", 1);
+}
+
+void
+hl_cli_report_error (const char *file, const char *context, const HlError *err)
+{
+  const char *message = err->message[0] != '\0'
+                        ? err->message : hl_status_name (err->status);
+
+  hl_cli_fprintf (stderr, "%s: %s", HL_CLI_PROGRAM, file);
+  if (err->line > 0)
+    hl_cli_fprintf (stderr, ":%d", err->line);
+  if (context != NULL && context[0] != '\0')
+    hl_cli_fprintf (stderr, ": %s", context);
+  if (err->field[0] != '\0')
+    hl_cli_fprintf (stderr, ": %s", err->field);
+  hl_cli_fprintf (stderr, ": %s\n", message);
+}
+
+void
+hl_cli_error (const char *fmt, ...)
+{
+  va_list ap;
+
+  hl_cli_fprintf (stderr, "%s: ", HL_CLI_PROGRAM);
+  va_start (ap, fmt);
+  hl_cli_vfprintf (stderr, fmt, ap);
+  va_end (ap);
+  hl_cli_fprintf (stderr, "\n");
+}
+
+int
+hl_cli_usage_error (const char *fmt, ...)
+{
+  va_list ap;
+
+  hl_cli_fprintf (stderr, "%s: ", HL_CLI_PROGRAM);
+  va_start (ap, fmt);
+  hl_cli_vfprintf (stderr, fmt, ap);
+  va_end (ap);
+  hl_cli_fprintf (stderr, "\n");
+  hl_cli_fprintf (stderr, _("Try '%s --help' for more information.\n"),
+                  HL_CLI_PROGRAM);
+  return HL_CLI_EXIT_USAGE;
+}
+
+size_t
+hl_cli_text_width (const char *s)
+{
+  size_t n = 0;
+
+  for (const unsigned char *p = (const unsigned char *) s; *p != '\0'; p++)
+    if ((*p & 0xC0) != 0x80)
+      n++;
+  return n;
+}

@@ -1,0 +1,76 @@
+/* hl-cli.h: shared parts of hiplever-cli (output helpers, exit codes).
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Everything the command line prints goes through hl_cli_printf and
+ * friends, which format in the C locale whatever the user's locale is, so
+ * numbers always use '.'; translated words are looked up before the call.
+ */
+#pragma once
+
+#include <stdarg.h>
+#include <stdbool.h>
+#include <stddef.h>
+#include <stdio.h>
+
+#include "hl-types.h"
+
+#define HL_CLI_PROGRAM "hiplever-cli"
+
+/* Exit codes: a contract with outside scripts. */
+typedef enum {
+  HL_CLI_EXIT_OK = 0,
+  HL_CLI_EXIT_INVALID = 1,   /* invalid input, or an output that could not be written */
+  HL_CLI_EXIT_USAGE = 2,     /* unknown subcommand or option, missing argument */
+} HlCliExit;
+
+/* Room for one formatted number. */
+#define HL_CLI_NUMBER_MAX 64
+
+/* A growable NUL-terminated byte buffer. */
+typedef struct {
+  char *data;
+  size_t len;
+  size_t cap;
+  bool failed;   /* out of memory at some point: the contents are incomplete */
+} HlCliBuf;
+
+void hl_cli_buf_init (HlCliBuf *buf);
+void hl_cli_buf_clear (HlCliBuf *buf);
+void hl_cli_buf_append (HlCliBuf *buf, const char *s, size_t n);
+void hl_cli_buf_printf (HlCliBuf *buf, const char *fmt, ...)
+  __attribute__ ((format (printf, 2, 3)));
+/* Appends `field` as one CSV field, quoted as RFC 4180 asks when it holds a
+ * comma, a double quote, CR or LF. */
+void hl_cli_buf_csv_field (HlCliBuf *buf, const char *field);
+
+/* C-locale formatting. */
+int hl_cli_vfprintf (FILE *out, const char *fmt, va_list ap)
+  __attribute__ ((format (printf, 2, 0)));
+int hl_cli_fprintf (FILE *out, const char *fmt, ...)
+  __attribute__ ((format (printf, 2, 3)));
+int hl_cli_vsnprintf (char *buf, size_t size, const char *fmt, va_list ap)
+  __attribute__ ((format (printf, 3, 0)));
+/* Fixed-point with `precision` decimals; never prints "-0.000". */
+const char *hl_cli_format_fixed (char *buf, size_t size, int precision,
+                                 double value);
+
+/* "hiplever-cli: FILE:LINE: FIELD: MESSAGE" on stderr; the line is left
+ * out when the error has none (0), the field when it is empty.  `context`
+ * (may be NULL) is put before the field, e.g. an option's name. */
+void hl_cli_report_error (const char *file, const char *context,
+                          const HlError *err);
+/* "hiplever-cli: MESSAGE" on stderr. */
+void hl_cli_error (const char *fmt, ...)
+  __attribute__ ((format (printf, 1, 2)));
+/* A usage error: the message and the hint to --help on stderr; returns
+ * HL_CLI_EXIT_USAGE. */
+int hl_cli_usage_error (const char *fmt, ...)
+  __attribute__ ((format (printf, 1, 2)));
+
+/* Number of characters (UTF-8 code points) in s, for aligning tables. */
+size_t hl_cli_text_width (const char *s);
+
+/* The bench subcommand (hl-cli-bench.c). */
+int hl_cli_bench (bool quick);

@@ -1,0 +1,353 @@
+#!/usr/bin/env bash
+# test-cli.sh: tests of hiplever-cli against the bundled examples.
+#
+# Copyright 2026 the hiplever developers
+# SPDX-License-Identifier: GPL-3.0-or-later
+#
+# Usage: test-cli.sh CLI SOURCE_DIR
+# Prints one line per failure and, last, "cli: N passed, M failed"; exits
+# non-zero on any failure.
+set -u
+export LC_ALL=C TZ=UTC
+
+if [ $# -ne 2 ]; then
+  echo "usage: $0 CLI SOURCE_DIR" >&2
+  exit 2
+fi
+CLI=$1
+SRC=$2
+HERE=$SRC/tests/cli
+XSD=$SRC/data/hiplever-plan.xsd
+HEADER=$HERE/expected-header.csv
+CHECK="python3 $HERE/cli-check.py"
+CAUTION_START='Planning aid only'
+
+WORK=$(mktemp -d "${TMPDIR:-/tmp}/hiplever-cli-test.XXXXXX")
+trap 'rm -rf "$WORK"' EXIT
+
+passed=0
+failed=0
+
+pass () { passed=$((passed + 1)); }
+fail () { failed=$((failed + 1)); echo "FAIL: $*"; }
+check () {
+  local what=$1
+  shift
+  if "$@"; then pass; else fail "$what"; fi
+}
+
+# run ARGS...: runs the CLI; stdout in $WORK/out, stderr in $WORK/err, the
+# exit status in $rc.
+run () {
+  "$CLI" "$@" >"$WORK/out" 2>"$WORK/err"
+  rc=$?
+}
+
+expect_rc () {
+  local want=$1 what=$2
+  if [ "$rc" -eq "$want" ]; then
+    pass
+  else
+    fail "$what: exit status $rc, expected $want (stderr: $(head -c 300 "$WORK/err"))"
+  fi
+}
+
+out_has () { grep -q -e "$1" "$WORK/out"; }
+err_has () { grep -q -e "$1" "$WORK/err"; }
+err_empty () { [ ! -s "$WORK/err" ]; }
+valid_xml () { xmllint --noout --schema "$XSD" "$1" 2>"$WORK/xmllint"; }
+no_file () { [ ! -e "$1" ]; }
+no_temp_left () { [ -z "$(find "$1" -name '.*' -type f)" ]; }
+quote_re () { printf '%s' "$1" | sed 's/[][\.*^$/]/\\&/g'; }
+
+# ---- the tools and the examples --------------------------------------------
+
+check "xmllint is installed" command -v xmllint
+check "python3 is installed" command -v python3
+
+shopt -s nullglob
+EXAMPLES=("$SRC"/data/examples/*.hlplan)
+shopt -u nullglob
+check "at least three bundled examples in data/examples" [ ${#EXAMPLES[@]} -ge 3 ]
+DEMO=$SRC/data/examples/demo.hlplan
+check "demo.hlplan exists" [ -f "$DEMO" ]
+
+# ---- help and version ---------------------------------------------------------
+
+run --help
+expect_rc 0 "--help"
+for word in solve summary validate batch bench --format -o --csv --quick \
+            --help --version text csv xml; do
+  check "--help mentions $word" out_has "$(quote_re "$word")"
+done
+check "--help shows the caution" out_has "$CAUTION_START"
+
+run solve --help
+expect_rc 0 "solve --help"
+check "solve --help names --format" out_has "--format"
+
+run --version
+expect_rc 0 "--version"
+check "--version gives the program version" \
+  grep -qE '^hiplever-cli [0-9]+\.[0-9]+\.[0-9]+$' "$WORK/out"
+check "--version gives the model version" grep -qE 'model [0-9]+\.[0-9]+' "$WORK/out"
+
+# ---- every example ------------------------------------------------------------
+
+declare -A OPTIONS
+for plan in "${EXAMPLES[@]}"; do
+  name=$(basename "$plan")
+
+  run validate "$plan"
+  expect_rc 0 "validate $name"
+  check "validate $name prints 'valid (N options)'" \
+    grep -qE "^$(quote_re "$plan"): valid \([0-9]+ options?\)$" "$WORK/out"
+  n=$(sed -nE 's/.*: valid \(([0-9]+) options?\)$/\1/p' "$WORK/out")
+  OPTIONS[$plan]=${n:-0}
+
+  run solve "$plan"
+  expect_rc 0 "solve $name"
+  check "solve $name (text) has the table" out_has "^Abductor moment arm (mm)"
+  check "solve $name (text) has native" out_has "native"
+  check "solve $name (text) has the flags" out_has "^Flags:"
+  check "solve $name (text) ends with the caution" \
+    grep -q "^Caution: $CAUTION_START" <(tail -n 1 "$WORK/out")
+  cp "$WORK/out" "$WORK/$name.txt"
+
+  run solve "$plan" --format csv
+  expect_rc 0 "solve $name --format csv"
+  cp "$WORK/out" "$WORK/$name.csv"
+  rows=$($CHECK csv "$WORK/$name.csv" "$HEADER" 2>&1)
+  check "solve $name csv: $rows" [ "$?" -eq 0 ]
+  check "solve $name csv has 1 + ${OPTIONS[$plan]} rows (got $rows)" \
+    [ "$rows" = "$((1 + ${OPTIONS[$plan]}))" ]
+  check "solve $name csv header is exact" \
+    cmp -s <(head -n 1 "$WORK/$name.csv") "$HEADER"
+  agree=$($CHECK text-vs-csv "$WORK/$name.txt" "$WORK/$name.csv" 2>&1)
+  check "solve $name: text and csv agree: $agree" [ "$?" -eq 0 ]
+
+  run solve --format=xml "$plan"
+  expect_rc 0 "solve $name --format=xml"
+  cp "$WORK/out" "$WORK/$name.xml"
+  check "solve $name xml validates: $(cat "$WORK/xmllint" 2>/dev/null)" \
+    valid_xml "$WORK/$name.xml"
+  check "solve $name xml has the caution" grep -q "$CAUTION_START" "$WORK/$name.xml"
+
+  run summary "$plan" -o "$WORK/$name.summary.xml"
+  expect_rc 0 "summary $name"
+  check "summary $name prints nothing" [ ! -s "$WORK/out" ]
+  check "summary $name writes a file that validates" \
+    valid_xml "$WORK/$name.summary.xml"
+  check "summary $name has the caution" \
+    grep -q "$CAUTION_START" "$WORK/$name.summary.xml"
+
+  # A summary is a plan file too: it loads and solves the same.
+  run solve "$WORK/$name.summary.xml" --format csv
+  expect_rc 0 "solve the summary of $name"
+  check "the summary of $name solves as the plan" cmp -s "$WORK/out" "$WORK/$name.csv"
+done
+
+# ---- several plans ------------------------------------------------------------
+
+run validate "${EXAMPLES[@]}"
+expect_rc 0 "validate every example"
+check "validate prints one line per plan" \
+  [ "$(grep -c ': valid (' "$WORK/out")" -eq ${#EXAMPLES[@]} ]
+
+run batch "${EXAMPLES[@]}" --csv "$WORK/batch.csv"
+expect_rc 0 "batch every example"
+check "batch prints nothing on stdout" [ ! -s "$WORK/out" ]
+check "batch shows no progress when stderr is not a terminal" err_empty
+specs=()
+for plan in "${EXAMPLES[@]}"; do specs+=(--plan "$plan:${OPTIONS[$plan]}"); done
+rows=$($CHECK csv "$WORK/batch.csv" "$HEADER" "${specs[@]}" 2>&1)
+check "batch csv: $rows" [ "$?" -eq 0 ]
+expected_rows=0
+for plan in "${EXAMPLES[@]}"; do
+  expected_rows=$((expected_rows + 1 + ${OPTIONS[$plan]}))
+done
+check "batch has one row per plan and option ($rows, expected $expected_rows)" \
+  [ "$rows" = "$expected_rows" ]
+check "batch rows are the solve rows with the plan in front" \
+  cmp -s <(tail -n +2 "$WORK/batch.csv" | head -n "$((1 + ${OPTIONS[$DEMO]}))") \
+         <(tail -n +2 "$WORK/demo.hlplan.csv" | sed "s|^|$DEMO,|")
+
+if command -v script >/dev/null; then
+  script -qec "$(printf '%q ' "$CLI" batch "${EXAMPLES[@]}" --csv "$WORK/tty.csv")" \
+    /dev/null >"$WORK/tty.out" 2>&1
+  check "batch shows N/M progress on a terminal" \
+    grep -q "${#EXAMPLES[@]}/${#EXAMPLES[@]}" "$WORK/tty.out"
+  check "batch on a terminal writes the same table" cmp -s "$WORK/tty.csv" "$WORK/batch.csv"
+else
+  fail "script (util-linux) is needed for the terminal progress test"
+fi
+
+# ---- bad input: files derived from the demo -------------------------------------
+
+cp "$DEMO" "$WORK/good.hlplan"
+head -c "$(($(wc -c <"$DEMO") / 2))" "$DEMO" >"$WORK/truncated.hlplan"
+printf '<?xml version="1.0"?>\n<plan xmlns="urn:hiplever:plan" format-version="1">\n<case label="x"\n</plan>\n' \
+  >"$WORK/malformed.hlplan"
+# The first coordinate of the hip centre becomes text.
+sed -E '0,/name="hip-centre"/{/name="hip-centre"/s/x-mm="[^"]*"/x-mm="abc"/}' "$DEMO" \
+  >"$WORK/bad-number.hlplan"
+sed -E '/name="hip-centre"/d' "$DEMO" >"$WORK/no-hip-centre.hlplan"
+check "bad-number.hlplan differs from the demo" ! cmp -s "$DEMO" "$WORK/bad-number.hlplan"
+check "no-hip-centre.hlplan differs from the demo" ! cmp -s "$DEMO" "$WORK/no-hip-centre.hlplan"
+
+line_of () { grep -n -m 1 -e "$2" "$1" | cut -d: -f1; }
+
+run solve "$WORK/missing.hlplan"
+expect_rc 1 "solve a file that does not exist"
+check "a missing file is named" err_has "^hiplever-cli: $WORK/missing.hlplan"
+
+run solve "$WORK/truncated.hlplan"
+expect_rc 1 "solve a truncated file"
+check "a truncated file gives FILE:LINE" err_has "^hiplever-cli: $WORK/truncated.hlplan:[0-9][0-9]*: "
+
+run solve "$WORK/malformed.hlplan"
+expect_rc 1 "solve malformed XML"
+check "malformed XML gives FILE:LINE" err_has "^hiplever-cli: $WORK/malformed.hlplan:[0-9][0-9]*: "
+
+run solve "$WORK/bad-number.hlplan"
+expect_rc 1 "solve a bad number"
+bad_line=$(line_of "$WORK/bad-number.hlplan" 'x-mm="abc"')
+check "a bad number gives FILE:LINE (line $bad_line)" \
+  err_has "^hiplever-cli: $WORK/bad-number.hlplan:$bad_line: "
+check "a bad number names the field" err_has "x-mm"
+check "a bad number shows the text" err_has "abc"
+
+run solve "$WORK/no-hip-centre.hlplan"
+expect_rc 1 "solve without the hip centre"
+check "a missing landmark gives FILE:LINE" \
+  err_has "^hiplever-cli: $WORK/no-hip-centre.hlplan:[0-9][0-9]*: "
+check "a missing landmark is named" err_has "hip-centre"
+
+run validate "$WORK/good.hlplan" "$WORK/bad-number.hlplan"
+expect_rc 1 "validate a good and a bad file"
+check "validate still reports the good file" out_has "good.hlplan: valid ("
+check "validate reports the bad file" err_has "bad-number.hlplan:$bad_line: "
+check "validate prints no 'valid' for the bad file" ! out_has "bad-number.hlplan: valid"
+
+# ---- no output file on failure --------------------------------------------------
+
+run summary "$WORK/bad-number.hlplan" -o "$WORK/none.xml"
+expect_rc 1 "summary of a bad plan"
+check "summary of a bad plan writes no file" no_file "$WORK/none.xml"
+
+echo "previous contents" >"$WORK/kept.xml"
+run summary "$WORK/no-hip-centre.hlplan" -o "$WORK/kept.xml"
+expect_rc 1 "summary of a bad plan over an existing file"
+check "summary of a bad plan leaves the old file" \
+  grep -qx "previous contents" "$WORK/kept.xml"
+
+run summary "$DEMO" -o "$WORK/no-such-dir/out.xml"
+expect_rc 1 "summary into a folder that does not exist"
+check "summary into a missing folder names it" err_has "no-such-dir"
+check "summary into a missing folder writes nothing" no_file "$WORK/no-such-dir"
+
+run batch "$WORK/good.hlplan" "$WORK/bad-number.hlplan" "$WORK/truncated.hlplan" \
+  --csv "$WORK/none.csv"
+expect_rc 1 "batch with bad plans"
+check "batch reports the first bad plan" err_has "bad-number.hlplan:$bad_line: "
+check "batch reports the second bad plan" err_has "truncated.hlplan:[0-9]"
+check "batch says nothing was written" err_has "2 of 3 plans failed"
+check "batch with a bad plan writes no file" no_file "$WORK/none.csv"
+
+echo "previous,table" >"$WORK/kept.csv"
+run batch "$WORK/good.hlplan" "$WORK/missing.hlplan" --csv "$WORK/kept.csv"
+expect_rc 1 "batch with a missing plan over an existing file"
+check "batch with a bad plan leaves the old file" grep -qx "previous,table" "$WORK/kept.csv"
+check "no temporary files are left behind" no_temp_left "$WORK"
+
+# ---- usage errors ---------------------------------------------------------------
+
+usage_case () {
+  local what=$1
+  shift
+  run "$@"
+  expect_rc 2 "$what"
+  check "$what: hint to --help" err_has "hiplever-cli --help"
+  check "$what: nothing on stdout" [ ! -s "$WORK/out" ]
+}
+
+usage_case "no subcommand"
+usage_case "unknown subcommand" frobnicate "$DEMO"
+usage_case "unknown global option" --frobnicate
+usage_case "unknown option" solve "$DEMO" --frobnicate
+usage_case "unknown short option" solve "$DEMO" -x
+usage_case "unknown format" solve "$DEMO" --format pdf
+usage_case "--format without its value" solve "$DEMO" --format
+usage_case "solve without a plan" solve
+usage_case "solve with two plans" solve "$DEMO" "$DEMO"
+usage_case "summary without -o" summary "$DEMO"
+usage_case "summary with -o and no value" summary "$DEMO" -o
+usage_case "validate without a plan" validate
+usage_case "batch without --csv" batch "$DEMO"
+usage_case "batch without a plan" batch --csv "$WORK/x.csv"
+usage_case "bench with a value for --quick" bench --quick=yes
+check "usage errors write no file" no_file "$WORK/x.csv"
+
+run solve "$DEMO" --format pdf
+check "an unknown format is named" err_has "pdf"
+run frobnicate
+check "an unknown subcommand is named" err_has "frobnicate"
+
+# ---- option syntax -----------------------------------------------------------------
+
+run summary -o"$WORK/joined.xml" "$DEMO"
+expect_rc 0 "summary -oFILE before the plan"
+check "summary -oFILE writes the file" valid_xml "$WORK/joined.xml"
+run summary "$DEMO" --output="$WORK/long.xml"
+expect_rc 0 "summary --output=FILE"
+check "summary --output=FILE writes the file" valid_xml "$WORK/long.xml"
+cp "$DEMO" "$WORK/-dash.hlplan"
+run solve --format csv -- "$WORK/-dash.hlplan"
+expect_rc 0 "solve -- PLAN"
+
+# ---- writing to a full device ---------------------------------------------------------
+
+if [ -w /dev/full ]; then
+  "$CLI" solve "$DEMO" >/dev/full 2>"$WORK/err"
+  rc=$?
+  expect_rc 1 "solve into a full device"
+  check "a failed write to stdout is reported" err_has "standard output"
+fi
+
+# ---- a name that needs CSV quoting ------------------------------------------------------
+
+# The first option is renamed to one with a comma and a double quote.
+sed -E '0,/<option [^>]*name="[^"]*"/s/(<option [^>]*name=)"[^"]*"/\1"Stem, \&quot;lateral\&quot; 6"/' \
+  "$DEMO" >"$WORK/quoted.hlplan"
+run solve "$WORK/quoted.hlplan" --format csv
+expect_rc 0 "solve a plan whose option name needs quoting"
+check "an option name is quoted as RFC 4180 asks" \
+  out_has '^"Stem, ""lateral"" 6",'
+check "the quoted name reads back" \
+  [ "$($CHECK field "$WORK/out" 1 option 2>&1)" = 'Stem, "lateral" 6' ]
+
+# ---- numbers stay in the C locale ------------------------------------------------------
+
+if LC_ALL=de_DE.UTF-8 locale -k decimal_point 2>/dev/null | grep -q '","'; then
+  LC_ALL=de_DE.UTF-8 "$CLI" solve "$DEMO" --format csv >"$WORK/de.csv" 2>"$WORK/err"
+  check "csv under a German locale is the same as under C" cmp -s "$WORK/de.csv" "$WORK/demo.hlplan.csv"
+  LC_ALL=de_DE.UTF-8 "$CLI" solve "$DEMO" >"$WORK/de.txt" 2>"$WORK/err"
+  check "text under a German locale has the same numbers" \
+    $CHECK text-vs-csv "$WORK/de.txt" "$WORK/demo.hlplan.csv"
+  LC_ALL=de_DE.UTF-8 "$CLI" bench --quick >"$WORK/de-bench.txt" 2>"$WORK/err"
+  check "bench under a German locale prints '.' decimals" \
+    grep -qE '^1\) .* [0-9]+\.[0-9] ns' "$WORK/de-bench.txt"
+else
+  fail "the de_DE.UTF-8 locale is missing (tests/bootstrap.sh generates it)"
+fi
+
+# ---- bench, as a smoke test (figures are not judged) ------------------------------------
+
+run bench --quick
+expect_rc 0 "bench --quick"
+for n in 1 2 3; do
+  check "bench --quick prints figure $n" out_has "^$n) .*target <= "
+done
+
+echo "cli: $passed passed, $failed failed"
+[ "$failed" -eq 0 ]
