@@ -174,18 +174,46 @@ hl_cli_buf_csv_field (HlCliBuf *buf, const char *field)
   hl_cli_buf_append (buf, "\"", 1);
 }
 
+/* Returns s past `prefix` and `sep` when s starts with both, else s. */
+static const char *
+skip_prefix (const char *s, const char *prefix, const char *sep)
+{
+  size_t n = strlen (prefix);
+
+  if (n > 0 && strncmp (s, prefix, n) == 0
+      && strncmp (s + n, sep, strlen (sep)) == 0)
+    return s + n + strlen (sep);
+  return s;
+}
+
 void
 hl_cli_report_error (const char *file, const char *context, const HlError *err)
 {
   const char *message = err->message[0] != '\0'
                         ? err->message : hl_status_name (err->status);
+  char line_prefix[HL_CLI_NUMBER_MAX];
+  char element_prefix[HL_ERROR_FIELD_MAX + HL_CLI_NUMBER_MAX];
+
+  /* The core's messages stand alone in a dialog, so they may repeat the
+   * file, line and element ("FILE: line 6, element <x>: ...") that this
+   * format already gives in front; say them once. */
+  message = skip_prefix (message, file, ": ");
+  snprintf (line_prefix, sizeof line_prefix, "line %d", err->line);
+  snprintf (element_prefix, sizeof element_prefix, "element %s", err->field);
+  const char *rest = err->line > 0 ? skip_prefix (message, line_prefix, ", ") : message;
+  if (rest != message && err->field[0] != '\0')
+    {
+      const char *after = skip_prefix (rest, element_prefix, ": ");
+      if (after != rest)
+        message = after;
+    }
 
   hl_cli_fprintf (stderr, "%s: %s", HL_CLI_PROGRAM, file);
   if (err->line > 0)
     hl_cli_fprintf (stderr, ":%d", err->line);
   if (context != NULL && context[0] != '\0')
     hl_cli_fprintf (stderr, ": %s", context);
-  if (err->field[0] != '\0')
+  if (err->field[0] != '\0' && strcmp (err->field, file) != 0)
     hl_cli_fprintf (stderr, ": %s", err->field);
   hl_cli_fprintf (stderr, ": %s\n", message);
 }
