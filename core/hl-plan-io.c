@@ -1,0 +1,2047 @@
+/* hl-plan-io.c: plan files and planning summaries (XML, libxml2).
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Files are written as text by hand rather than through a libxml2 tree, so
+ * that the <plan> element is byte-for-byte the same in a plan file and in a
+ * summary: the summary's digest can then be checked against either.
+ */
+#include "config.h"
+
+#include <errno.h>
+#include <fcntl.h>
+#include <limits.h>
+#include <locale.h>
+#include <math.h>
+#include <stdarg.h>
+#include <stdbool.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <strings.h>
+#include <sys/stat.h>
+#include <time.h>
+#include <unistd.h>
+
+#include <libxml/SAX2.h>
+#include <libxml/parser.h>
+#include <libxml/tree.h>
+#include <libxml/xmlerror.h>
+#include <libxml/xmlschemas.h>
+
+#include "hl-i18n.h"
+#include "hl-plan-io.h"
+#include "hl-sha256.h"
+#include "hl-version.h"
+
+/* Generated from data/hiplever-plan.xsd by core/embed-text.py. */
+extern const char hl_schema_data[];
+extern const size_t hl_schema_data_len;
+
+#define HL_NUMBER_TEXT_MAX 40         /* "%.17g" of any double fits */
+#define HL_ROUND_TRIP_DIGITS_MIN 15   /* shortest first, DBL_DECIMAL_DIG last */
+#define HL_ROUND_TRIP_DIGITS_MAX 17
+#define HL_ISO_DATE_MAX 40
+#define HL_QUOTED_VALUE_MAX 40        /* bytes of a bad value quoted in a message */
+#define HL_FILE_MODE 0644
+#define HL_XML_PARSE_OPTIONS (XML_PARSE_NONET | XML_PARSE_BIG_LINES)
+
+const char *
+hl_plan_schema_text (void)
+{
+  return hl_schema_data;
+}
+
+/* ---- Names in the file ------------------------------------------------- */
+
+static const char *const side_names[] = { "right", "left" };
+static const char *const bw_line_names[] = { "segmental", "midline" };
+static const char *const abductor_line_names[] = { "auto", "angle" };
+static const char *const cal_method_names[] = { "assumed", "typed", "marker", "two-point" };
+static const char *const hand_names[] = { "contralateral", "ipsilateral" };
+static const char *const force_unit_names[] = { "newtons", "percent-bw", "kg" };
+
+#define N_NAMES(a) ((int) (sizeof (a) / sizeof (a)[0]))
+
+typedef struct {
+  const char *attr;
+  const char *const *names;
+  int n;
+} HlEnumAttr;
+
+static const HlEnumAttr enum_attrs[] = {
+  { "operated-side", side_names, N_NAMES (side_names) },
+  { "body-weight-line", bw_line_names, N_NAMES (bw_line_names) },
+  { "abductor-line", abductor_line_names, N_NAMES (abductor_line_names) },
+  { "method", cal_method_names, N_NAMES (cal_method_names) },
+  { "hand", hand_names, N_NAMES (hand_names) },
+  { "unit", force_unit_names, N_NAMES (force_unit_names) },
+};
+
+/* Every attribute of a plan that holds a number. */
+static const char *const number_attrs[] = {
+  "x-mm", "y-mm", "mass-kg", "limb-fraction", "abductor-angle-deg", "lean-mm",
+  "magnification", "marker-diameter-mm", "known-distance-mm", "value",
+  "distance-mm", "global-offset-drop-mm", "leg-length-mm", "abductor-slack-mm",
+  "torque-nm-per-kg", "cup-medial-mm", "cup-superior-mm", "femoral-offset-mm",
+  "femoral-length-mm", "head-length-mm", "neck-shaft-angle-deg",
+};
+
+/* ---- Numbers in the C locale ------------------------------------------- */
+
+/* Switches only LC_NUMERIC of this thread to "C": messages stay translated
+ * and other threads are not affected. */
+typedef struct {
+  locale_t c;
+  locale_t old;
+} HlCNumeric;
+
+static bool
+c_numeric_enter (HlCNumeric *scope)
+{
+  locale_t base = duplocale (LC_GLOBAL_LOCALE);
+  if (base == (locale_t) 0)
+    return false;
+  scope->c = newlocale (LC_NUMERIC_MASK, "C", base);
+  if (scope->c == (locale_t) 0)
+    {
+      freelocale (base);
+      return false;
+    }
+  scope->old = uselocale (scope->c);
+  return true;
+}
+
+static void
+c_numeric_leave (HlCNumeric *scope)
+{
+  uselocale (scope->old);
+  freelocale (scope->c);
+}
+
+/* The shortest text that reads back as the same double. */
+static void
+format_number (char out[HL_NUMBER_TEXT_MAX], double v)
+{
+  if (isnan (v))
+    {
+      snprintf (out, HL_NUMBER_TEXT_MAX, "NaN");
+      return;
+    }
+  if (isinf (v))
+    {
+      snprintf (out, HL_NUMBER_TEXT_MAX, "%s", v > 0 ? "INF" : "-INF");
+      return;
+    }
+  for (int digits = HL_ROUND_TRIP_DIGITS_MIN; digits <= HL_ROUND_TRIP_DIGITS_MAX; digits++)
+    {
+      snprintf (out, HL_NUMBER_TEXT_MAX, "%.*g", digits, v);
+      if (strtod (out, NULL) == v)
+        return;
+    }
+}
+
+typedef enum {
+  HL_NUMBER_OK,
+  HL_NUMBER_NOT_A_NUMBER,
+  HL_NUMBER_NOT_FINITE,
+} HlNumberParse;
+
+static bool
+is_xml_space (char c)
+{
+  return c == ' ' || c == '\t' || c == '\n' || c == '\r';
+}
+
+static bool
+is_digit (char c)
+{
+  return c >= '0' && c <= '9';
+}
+
+/* Decimal notation only ([+-]digits[.digits][e[+-]digits]): no hex floats,
+ * no "nan" or "inf", which strtod alone would accept. */
+static HlNumberParse
+parse_number (const char *text, double *out)
+{
+  const char *s = text;
+  while (is_xml_space (*s))
+    s++;
+  const char *start = s;
+
+  if (*s == '+' || *s == '-')
+    s++;
+  const char *word = s;
+  bool digits = false;
+  while (is_digit (*s))
+    s++, digits = true;
+  if (*s == '.')
+    {
+      s++;
+      while (is_digit (*s))
+        s++, digits = true;
+    }
+  if (!digits)
+    {
+      static const char *const non_finite[] = { "nan", "inf", "infinity" };
+      const char *end = word;
+      while (*end != '\0' && !is_xml_space (*end))
+        end++;
+      for (int i = 0; i < N_NAMES (non_finite); i++)
+        if ((size_t) (end - word) == strlen (non_finite[i])
+            && strncasecmp (word, non_finite[i], (size_t) (end - word)) == 0)
+          return HL_NUMBER_NOT_FINITE;
+      return HL_NUMBER_NOT_A_NUMBER;
+    }
+  if (*s == 'e' || *s == 'E')
+    {
+      s++;
+      if (*s == '+' || *s == '-')
+        s++;
+      if (!is_digit (*s))
+        return HL_NUMBER_NOT_A_NUMBER;
+      while (is_digit (*s))
+        s++;
+    }
+  const char *end = s;
+  while (is_xml_space (*s))
+    s++;
+  if (*s != '\0')
+    return HL_NUMBER_NOT_A_NUMBER;
+
+  char buf[HL_NUMBER_TEXT_MAX * 2];
+  size_t len = (size_t) (end - start);
+  if (len >= sizeof buf)
+    {
+      /* Very long decimal text: strtod reads it in place, the trailing
+       * blanks are all it would stop at. */
+      double v = strtod (start, NULL);
+      if (!isfinite (v))
+        return HL_NUMBER_NOT_FINITE;
+      *out = v;
+      return HL_NUMBER_OK;
+    }
+  memcpy (buf, start, len);
+  buf[len] = '\0';
+  double v = strtod (buf, NULL);
+  if (!isfinite (v))
+    return HL_NUMBER_NOT_FINITE;
+  *out = v;
+  return HL_NUMBER_OK;
+}
+
+/* ---- A growing text buffer -------------------------------------------- */
+
+typedef struct {
+  char *data;
+  size_t len;
+  size_t cap;
+  bool failed;   /* out of memory: every later append is a no-op */
+} HlBuf;
+
+static void
+buf_append (HlBuf *b, const char *s, size_t n)
+{
+  if (b->failed)
+    return;
+  if (b->len + n + 1 > b->cap)
+    {
+      size_t cap = b->cap ? b->cap : 4096;
+      while (cap < b->len + n + 1)
+        cap *= 2;
+      char *grown = realloc (b->data, cap);
+      if (grown == NULL)
+        {
+          b->failed = true;
+          return;
+        }
+      b->data = grown;
+      b->cap = cap;
+    }
+  memcpy (b->data + b->len, s, n);
+  b->len += n;
+  b->data[b->len] = '\0';
+}
+
+static void
+buf_puts (HlBuf *b, const char *s)
+{
+  buf_append (b, s, strlen (s));
+}
+
+static void
+buf_free (HlBuf *b)
+{
+  free (b->data);
+  memset (b, 0, sizeof *b);
+}
+
+/* Escapes for an attribute value (in_attr) or element text.  Tabs and line
+ * breaks in attributes, and carriage returns anywhere, are written as
+ * character references so that a reader's normalisation keeps them. */
+static void
+buf_escaped (HlBuf *b, const char *s, bool in_attr)
+{
+  for (; *s != '\0'; s++)
+    {
+      switch (*s)
+        {
+        case '&': buf_puts (b, "&amp;"); break;
+        case '<': buf_puts (b, "&lt;"); break;
+        case '>': buf_puts (b, "&gt;"); break;
+        case '"': buf_puts (b, in_attr ? "&quot;" : "\""); break;
+        case '\r': buf_puts (b, "&#13;"); break;
+        case '\n': buf_puts (b, in_attr ? "&#10;" : "\n"); break;
+        case '\t': buf_puts (b, in_attr ? "&#9;" : "\t"); break;
+        default: buf_append (b, s, 1); break;
+        }
+    }
+}
+
+/* ---- Writing ----------------------------------------------------------- */
+
+typedef struct {
+  HlBuf *b;
+  HlError *err;
+  HlStatus status;   /* the first failure; later writes are skipped */
+} HlWriter;
+
+static void
+writer_fail (HlWriter *w, HlStatus status, const char *field, const char *what)
+{
+  if (w->status != HL_OK)
+    return;
+  w->status = hl_error_set (w->err, status, field, _("Cannot write the plan: %s"), what);
+}
+
+/* True when `s` (at most `size` bytes) is NUL-terminated, valid UTF-8 and
+ * holds only characters XML 1.0 allows. */
+static const char *
+text_problem (const char *s, size_t size)
+{
+  if (memchr (s, '\0', size) == NULL)
+    return N_("the text is not terminated");
+
+  const unsigned char *p = (const unsigned char *) s;
+  while (*p != '\0')
+    {
+      unsigned c = *p;
+      unsigned cp;
+      int extra;
+      if (c < 0x80)
+        {
+          if (c < 0x20 && c != '\t' && c != '\n' && c != '\r')
+            return N_("the text holds a control character");
+          p++;
+          continue;
+        }
+      else if ((c & 0xe0) == 0xc0)
+        cp = c & 0x1f, extra = 1;
+      else if ((c & 0xf0) == 0xe0)
+        cp = c & 0x0f, extra = 2;
+      else if ((c & 0xf8) == 0xf0)
+        cp = c & 0x07, extra = 3;
+      else
+        return N_("the text is not valid UTF-8");
+      p++;
+      for (int i = 0; i < extra; i++, p++)
+        {
+          if ((*p & 0xc0) != 0x80)
+            return N_("the text is not valid UTF-8");
+          cp = (cp << 6) | (*p & 0x3f);
+        }
+      static const unsigned min_for_length[4] = { 0, 0x80, 0x800, 0x10000 };
+      if (cp < min_for_length[extra] || cp > 0x10ffff
+          || (cp >= 0xd800 && cp <= 0xdfff))
+        return N_("the text is not valid UTF-8");
+      if (cp == 0xfffe || cp == 0xffff)
+        return N_("the text holds a character XML does not allow");
+    }
+  return NULL;
+}
+
+static void
+put_text_attr (HlWriter *w, const char *attr, const char *s, size_t size,
+               const char *field)
+{
+  if (w->status != HL_OK)
+    return;
+  const char *problem = text_problem (s, size);
+  if (problem != NULL)
+    {
+      char what[HL_ERROR_MESSAGE_MAX / 2];
+      snprintf (what, sizeof what, "%s: %s", field, _(problem));
+      writer_fail (w, HL_ERR_INVALID, field, what);
+      return;
+    }
+  buf_puts (w->b, " ");
+  buf_puts (w->b, attr);
+  buf_puts (w->b, "=\"");
+  buf_escaped (w->b, s, true);
+  buf_puts (w->b, "\"");
+}
+
+static void
+put_number (HlWriter *w, const char *attr, double v, const char *field)
+{
+  if (w->status != HL_OK)
+    return;
+  if (!isfinite (v))
+    {
+      char what[HL_ERROR_MESSAGE_MAX / 2];
+      snprintf (what, sizeof what, _("%s is not a finite number"), field);
+      writer_fail (w, HL_ERR_INVALID, field, what);
+      return;
+    }
+  char num[HL_NUMBER_TEXT_MAX];
+  format_number (num, v);
+  buf_puts (w->b, " ");
+  buf_puts (w->b, attr);
+  buf_puts (w->b, "=\"");
+  buf_puts (w->b, num);
+  buf_puts (w->b, "\"");
+}
+
+static void
+put_result_number (HlBuf *b, const char *attr, double v)
+{
+  char num[HL_NUMBER_TEXT_MAX];
+  format_number (num, v);
+  buf_puts (b, " ");
+  buf_puts (b, attr);
+  buf_puts (b, "=\"");
+  buf_puts (b, num);
+  buf_puts (b, "\"");
+}
+
+static void
+put_enum (HlWriter *w, const char *attr, int value, const char *const *names,
+          int n, const char *field)
+{
+  if (w->status != HL_OK)
+    return;
+  if (value < 0 || value >= n)
+    {
+      char what[HL_ERROR_MESSAGE_MAX / 2];
+      snprintf (what, sizeof what, _("%s has the unknown value %d"), field, value);
+      writer_fail (w, HL_ERR_INVALID, field, what);
+      return;
+    }
+  buf_puts (w->b, " ");
+  buf_puts (w->b, attr);
+  buf_puts (w->b, "=\"");
+  buf_puts (w->b, names[value]);
+  buf_puts (w->b, "\"");
+}
+
+static void
+write_plan_element (HlWriter *w, const HlPlan *plan)
+{
+  HlBuf *b = w->b;
+  char line[128];
+
+  snprintf (line, sizeof line, "<plan xmlns=\"%s\" format-version=\"%d\">\n",
+            HL_PLAN_NAMESPACE, HL_PLAN_FORMAT_VERSION);
+  buf_puts (b, line);
+
+  buf_puts (b, "  <case");
+  put_text_attr (w, "label", plan->label, sizeof plan->label, "case label");
+  put_number (w, "mass-kg", plan->mass_kg, "patient mass");
+  put_enum (w, "operated-side", (int) plan->side, side_names, N_NAMES (side_names),
+            "operated side");
+  buf_puts (b, "/>\n");
+
+  const HlLimbTableInfo *limb = hl_limb_table_info (plan->model.limb_table);
+  if (limb == NULL)
+    writer_fail (w, HL_ERR_INVALID, "model limb-table",
+                 _("the stance-limb mass table is unknown"));
+  buf_puts (b, "  <model limb-table=\"");
+  buf_puts (b, limb ? limb->key : "");
+  buf_puts (b, "\"");
+  put_number (w, "limb-fraction", plan->model.limb_fraction_custom, "model limb-fraction");
+  put_enum (w, "body-weight-line", (int) plan->model.bw_line, bw_line_names,
+            N_NAMES (bw_line_names), "model body-weight-line");
+  put_enum (w, "abductor-line", (int) plan->model.abductor_line, abductor_line_names,
+            N_NAMES (abductor_line_names), "model abductor-line");
+  put_number (w, "abductor-angle-deg", plan->model.abductor_angle_deg,
+              "model abductor-angle");
+  put_number (w, "lean-mm", plan->model.lean_mm, "model lean");
+  buf_puts (b, "/>\n");
+
+  buf_puts (b, "  <landmarks>\n");
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      if (!hl_landmarks_has (&plan->landmarks, (HlLandmarkId) i))
+        continue;
+      const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) i);
+      char field[HL_ERROR_FIELD_MAX];
+      snprintf (field, sizeof field, "landmark %s", info->key);
+      buf_puts (b, "    <landmark name=\"");
+      buf_puts (b, info->key);
+      buf_puts (b, "\"");
+      put_number (w, "x-mm", plan->landmarks.p[i].x, field);
+      put_number (w, "y-mm", plan->landmarks.p[i].y, field);
+      buf_puts (b, "/>\n");
+    }
+  buf_puts (b, "  </landmarks>\n");
+
+  const HlCalibration *cal = &plan->calibration;
+  buf_puts (b, "  <calibration");
+  put_enum (w, "method", (int) cal->method, cal_method_names,
+            N_NAMES (cal_method_names), "calibration method");
+  put_number (w, "magnification", cal->magnification, "calibration magnification");
+  put_number (w, "marker-diameter-mm", cal->marker_diameter_mm,
+              "calibration marker diameter");
+  put_number (w, "known-distance-mm", cal->known_distance_mm,
+              "calibration known distance");
+  if (cal->n_points < 0 || cal->n_points > 3)
+    writer_fail (w, HL_ERR_INVALID, "calibration points",
+                 _("the number of calibration points is not between 0 and 3"));
+  if (cal->n_points <= 0)
+    buf_puts (b, "/>\n");
+  else
+    {
+      buf_puts (b, ">\n");
+      for (int i = 0; i < cal->n_points && i < 3; i++)
+        {
+          buf_puts (b, "    <point");
+          put_number (w, "x-mm", cal->points[i].x, "calibration point");
+          put_number (w, "y-mm", cal->points[i].y, "calibration point");
+          buf_puts (b, "/>\n");
+        }
+      buf_puts (b, "  </calibration>\n");
+    }
+
+  buf_puts (b, "  <aids>\n    <cane enabled=\"");
+  buf_puts (b, plan->cane.enabled ? "true" : "false");
+  buf_puts (b, "\"");
+  put_enum (w, "hand", (int) plan->cane.hand, hand_names, N_NAMES (hand_names),
+            "cane hand");
+  put_enum (w, "unit", (int) plan->cane.unit, force_unit_names,
+            N_NAMES (force_unit_names), "cane unit");
+  put_number (w, "value", plan->cane.value, "cane force");
+  put_number (w, "distance-mm", plan->cane.distance_mm, "cane distance");
+  buf_puts (b, "/>\n");
+  for (int h = 0; h < 2; h++)
+    {
+      const char *field = h == HL_HAND_CONTRALATERAL ? "load contralateral"
+                                                     : "load ipsilateral";
+      buf_puts (b, "    <hand-load hand=\"");
+      buf_puts (b, hand_names[h]);
+      buf_puts (b, "\"");
+      put_number (w, "mass-kg", plan->loads.hand[h].mass_kg, field);
+      put_number (w, "distance-mm", plan->loads.hand[h].distance_mm, field);
+      buf_puts (b, "/>\n");
+    }
+  buf_puts (b, "    <midline-load");
+  put_number (w, "mass-kg", plan->loads.midline_kg, "load midline");
+  buf_puts (b, "/>\n  </aids>\n");
+
+  buf_puts (b, "  <tolerances");
+  put_number (w, "global-offset-drop-mm", plan->tol.global_offset_drop_mm,
+              "tolerance global-offset");
+  put_number (w, "leg-length-mm", plan->tol.leg_length_mm, "tolerance leg-length");
+  put_number (w, "abductor-slack-mm", plan->tol.abductor_slack_mm,
+              "tolerance abductor-slack");
+  buf_puts (b, "/>\n  <capacity");
+  put_number (w, "torque-nm-per-kg", plan->capacity.torque_nm_per_kg, "capacity torque");
+  buf_puts (b, "/>\n");
+
+  if (plan->n_options == 0)
+    buf_puts (b, "  <options/>\n");
+  else
+    {
+      buf_puts (b, "  <options>\n");
+      for (size_t i = 0; i < plan->n_options; i++)
+        {
+          const HlOption *o = &plan->options[i];
+          char field[HL_ERROR_FIELD_MAX];
+          snprintf (field, sizeof field, "option %zu", i + 1);
+          buf_puts (b, "    <option");
+          put_text_attr (w, "name", o->name, sizeof o->name, field);
+          put_number (w, "cup-medial-mm", o->recon.cup_medial_mm, field);
+          put_number (w, "cup-superior-mm", o->recon.cup_superior_mm, field);
+          put_number (w, "femoral-offset-mm", o->recon.femoral_offset_mm, field);
+          put_number (w, "femoral-length-mm", o->recon.femoral_length_mm, field);
+          put_number (w, "head-length-mm", o->recon.head_length_mm, field);
+          put_number (w, "neck-shaft-angle-deg", o->recon.neck_shaft_angle_deg, field);
+          buf_puts (b, "/>\n");
+        }
+      buf_puts (b, "  </options>\n");
+    }
+
+  const char *problem = text_problem (plan->notes, sizeof plan->notes);
+  if (problem != NULL)
+    {
+      char what[HL_ERROR_MESSAGE_MAX / 2];
+      snprintf (what, sizeof what, "notes: %s", _(problem));
+      writer_fail (w, HL_ERR_INVALID, "notes", what);
+    }
+  else
+    {
+      buf_puts (b, "  <notes>");
+      buf_escaped (b, plan->notes, false);
+      buf_puts (b, "</notes>\n");
+    }
+  buf_puts (b, "</plan>\n");
+}
+
+/* Runs the range checks a reader applies, so that nothing is written that
+ * could not be read back. */
+static HlStatus
+check_for_writing (const HlPlan *plan, HlError *err)
+{
+  HlError check;
+  hl_error_clear (&check);
+  HlStatus st = hl_plan_check (plan, &check);
+  if (st != HL_OK)
+    return hl_error_set (err, st, check.field, _("Cannot write the plan: %s"),
+                         check.message);
+  return HL_OK;
+}
+
+static HlStatus
+finish_buffer (HlBuf *b, HlStatus st, char **out, size_t *size, HlError *err)
+{
+  if (st == HL_OK && b->failed)
+    st = hl_error_set (err, HL_ERR_NOMEM, "", _("Out of memory while writing the plan"));
+  if (st != HL_OK)
+    {
+      buf_free (b);
+      return st;
+    }
+  *out = b->data;
+  if (size != NULL)
+    *size = b->len;
+  return HL_OK;
+}
+
+HlStatus
+hl_plan_to_buffer (const HlPlan *plan, char **out, size_t *size, HlError *err)
+{
+  HlStatus st = check_for_writing (plan, err);
+  if (st != HL_OK)
+    return st;
+
+  HlCNumeric scope;
+  if (!c_numeric_enter (&scope))
+    return hl_error_set (err, HL_ERR_NOMEM, "", _("Cannot set up the C locale for numbers"));
+
+  HlBuf b = { 0 };
+  HlWriter w = { &b, err, HL_OK };
+  buf_puts (&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
+  write_plan_element (&w, plan);
+  c_numeric_leave (&scope);
+  return finish_buffer (&b, w.status, out, size, err);
+}
+
+/* ---- The planning summary --------------------------------------------- */
+
+static bool
+is_leap_year (int y)
+{
+  return (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
+}
+
+static bool
+digits_at (const char *s, int n, int *value)
+{
+  *value = 0;
+  for (int i = 0; i < n; i++)
+    {
+      if (!is_digit (s[i]))
+        return false;
+      *value = *value * 10 + (s[i] - '0');
+    }
+  return true;
+}
+
+/* Accepts YYYY-MM-DDTHH:MM:SS[.fraction](Z|+hh:mm|-hh:mm), the xs:dateTime
+ * forms a summary may carry. */
+static bool
+iso_date_valid (const char *s)
+{
+  static const int days_in_month[12] = { 31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31 };
+  int year, month, day, hour, minute, second;
+
+  if (strlen (s) < 20 || !digits_at (s, 4, &year) || s[4] != '-'
+      || !digits_at (s + 5, 2, &month) || s[7] != '-' || !digits_at (s + 8, 2, &day)
+      || s[10] != 'T' || !digits_at (s + 11, 2, &hour) || s[13] != ':'
+      || !digits_at (s + 14, 2, &minute) || s[16] != ':'
+      || !digits_at (s + 17, 2, &second))
+    return false;
+  if (year < 1 || month < 1 || month > 12 || hour > 23 || minute > 59 || second > 59)
+    return false;
+  int mdays = days_in_month[month - 1] + (month == 2 && is_leap_year (year));
+  if (day < 1 || day > mdays)
+    return false;
+
+  const char *p = s + 19;
+  if (*p == '.')
+    {
+      p++;
+      if (!is_digit (*p))
+        return false;
+      while (is_digit (*p))
+        p++;
+    }
+  if (strcmp (p, "Z") == 0)
+    return true;
+  int oh, om;
+  return (*p == '+' || *p == '-') && strlen (p) == 6 && digits_at (p + 1, 2, &oh)
+         && p[3] == ':' && digits_at (p + 4, 2, &om) && oh <= 14 && om <= 59;
+}
+
+static void
+write_result (HlBuf *b, const HlResult *r, long index, const char *name)
+{
+  if (index < 0)
+    buf_puts (b, "  <result kind=\"native\"");
+  else
+    {
+      char num[32];
+      snprintf (num, sizeof num, "%ld", index);
+      buf_puts (b, "  <result kind=\"option\" option-index=\"");
+      buf_puts (b, num);
+      buf_puts (b, "\" option-name=\"");
+      buf_escaped (b, name, true);
+      buf_puts (b, "\"");
+    }
+  put_result_number (b, "abductor-arm-mm", r->abductor_arm_mm);
+  put_result_number (b, "body-weight-arm-mm", r->bw_arm_mm);
+  put_result_number (b, "lever-ratio", r->lever_ratio);
+  put_result_number (b, "abductor-force-n", r->abductor_force_n);
+  put_result_number (b, "abductor-force-bw", r->abductor_force_bw);
+  put_result_number (b, "joint-force-x-n", r->jrf_x_n);
+  put_result_number (b, "joint-force-y-n", r->jrf_y_n);
+  put_result_number (b, "joint-force-n", r->jrf_n);
+  put_result_number (b, "joint-force-bw", r->jrf_bw);
+  put_result_number (b, "joint-force-angle-deg", hl_result_jrf_angle_deg (r));
+  buf_puts (b, " joint-force-sense=\"");
+  buf_escaped (b, hl_result_jrf_sense (r), true);
+  buf_puts (b, "\"");
+  put_result_number (b, "external-moment-nmm", r->moment_ext_nmm);
+  put_result_number (b, "unbalanced-moment-nmm", r->unbalanced_nmm);
+  put_result_number (b, "weight-line-x-mm", r->x_s_mm);
+  put_result_number (b, "demand", r->demand);
+  put_result_number (b, "leg-length-change-mm", r->leg_length_change_mm);
+  put_result_number (b, "femoral-offset-change-mm", r->femoral_offset_change_mm);
+  put_result_number (b, "acetabular-offset-change-mm", r->acetabular_offset_change_mm);
+  put_result_number (b, "global-offset-change-mm", r->global_offset_change_mm);
+  put_result_number (b, "abductor-length-change-mm", r->abductor_length_change_mm);
+
+  buf_puts (b, " flags=\"");
+  bool first = true;
+  for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
+    if (r->flags & bit)
+      {
+        if (!first)
+          buf_puts (b, " ");
+        buf_puts (b, hl_flag_key ((HlFlag) bit));
+        first = false;
+      }
+  buf_puts (b, "\"");
+
+  if (first)
+    {
+      buf_puts (b, "/>\n");
+      return;
+    }
+  buf_puts (b, ">\n");
+  for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
+    if (r->flags & bit)
+      {
+        buf_puts (b, "    <flag key=\"");
+        buf_puts (b, hl_flag_key ((HlFlag) bit));
+        buf_puts (b, "\">");
+        buf_escaped (b, hl_flag_text ((HlFlag) bit), false);
+        buf_puts (b, "</flag>\n");
+      }
+  buf_puts (b, "  </result>\n");
+}
+
+static HlStatus
+solve_every_option (const HlPlan *plan, HlResult *results, HlError *err)
+{
+  HlModel model;
+  HlStatus st = hl_model_prepare (&model, plan, err);
+  if (st != HL_OK)
+    return st;
+  st = hl_model_solve (&model, NULL, &results[0], err);
+  for (size_t i = 0; st == HL_OK && i < plan->n_options; i++)
+    st = hl_model_solve (&model, &plan->options[i].recon, &results[1 + i], err);
+  return st;
+}
+
+HlStatus
+hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
+                      size_t *size, HlError *err)
+{
+  char now[HL_ISO_DATE_MAX];
+  if (date_iso == NULL)
+    {
+      time_t t = time (NULL);
+      struct tm tm;
+      if (gmtime_r (&t, &tm) == NULL
+          || strftime (now, sizeof now, "%Y-%m-%dT%H:%M:%SZ", &tm) == 0)
+        return hl_error_set (err, HL_ERR_INVALID, "date",
+                             _("Cannot read the current date and time"));
+      date_iso = now;
+    }
+  else if (!iso_date_valid (date_iso))
+    return hl_error_set (err, HL_ERR_INVALID, "date",
+                         _("The date \"%.40s\" is not an ISO 8601 date and time "
+                           "such as 2026-03-01T09:30:00Z"), date_iso);
+
+  HlStatus st = check_for_writing (plan, err);
+  if (st != HL_OK)
+    return st;
+
+  HlResult *results = calloc (1 + plan->n_options, sizeof *results);
+  if (results == NULL)
+    return hl_error_set (err, HL_ERR_NOMEM, "", _("Out of memory while solving the plan"));
+  st = solve_every_option (plan, results, err);
+  if (st != HL_OK)
+    {
+      free (results);
+      return st;
+    }
+
+  HlCNumeric scope;
+  if (!c_numeric_enter (&scope))
+    {
+      free (results);
+      return hl_error_set (err, HL_ERR_NOMEM, "", _("Cannot set up the C locale for numbers"));
+    }
+
+  HlBuf plan_text = { 0 };
+  HlWriter w = { &plan_text, err, HL_OK };
+  write_plan_element (&w, plan);
+
+  HlBuf b = { 0 };
+  char hex[HL_SHA256_HEX_SIZE];
+  char line[160];
+  if (w.status == HL_OK && !plan_text.failed)
+    {
+      /* The digest covers "<plan " to "</plan>" without the final newline. */
+      hl_sha256_hex (plan_text.data, plan_text.len - 1, hex);
+
+      buf_puts (&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
+      snprintf (line, sizeof line,
+                "<planning-summary xmlns=\"%s\" format-version=\"%d\">\n",
+                HL_PLAN_NAMESPACE, HL_PLAN_FORMAT_VERSION);
+      buf_puts (&b, line);
+      buf_puts (&b, "<caution>");
+      buf_escaped (&b, hl_caution_text (), false);
+      buf_puts (&b, "</caution>\n<provenance program-version=\"");
+      buf_escaped (&b, hl_program_version (), true);
+      buf_puts (&b, "\" model-version=\"");
+      buf_escaped (&b, HL_MODEL_VERSION, true);
+      buf_puts (&b, "\" created=\"");
+      buf_puts (&b, date_iso);
+      buf_puts (&b, "\" plan-sha256=\"");
+      buf_puts (&b, hex);
+      buf_puts (&b, "\"/>\n");
+      buf_append (&b, plan_text.data, plan_text.len);
+      buf_puts (&b, "<results>\n");
+      write_result (&b, &results[0], -1, NULL);
+      for (size_t i = 0; i < plan->n_options; i++)
+        write_result (&b, &results[1 + i], (long) i, plan->options[i].name);
+      buf_puts (&b, "</results>\n</planning-summary>\n");
+    }
+  if (plan_text.failed)
+    b.failed = true;
+  c_numeric_leave (&scope);
+  buf_free (&plan_text);
+  free (results);
+  return finish_buffer (&b, w.status, out, size, err);
+}
+
+/* ---- Atomic writing ----------------------------------------------------- */
+
+/* The process umask without changing it (umask() would, for a moment, for
+ * every thread); Linux reports it in /proc/self/status. */
+static mode_t
+current_umask (void)
+{
+  FILE *f = fopen ("/proc/self/status", "re");
+  if (f != NULL)
+    {
+      char line[256];
+      while (fgets (line, sizeof line, f) != NULL)
+        {
+          unsigned mask;
+          if (sscanf (line, "Umask: %o", &mask) == 1)
+            {
+              fclose (f);
+              return (mode_t) mask;
+            }
+        }
+      fclose (f);
+    }
+  mode_t mask = umask (022);
+  umask (mask);
+  return mask;
+}
+
+HlStatus
+hl_write_file_atomic (const char *path, const void *data, size_t size, HlError *err)
+{
+  const char *slash = strrchr (path, '/');
+  const char *base = slash ? slash + 1 : path;
+  if (*base == '\0')
+    return hl_error_set (err, HL_ERR_IO, path,
+                         _("Cannot save \"%s\": the name ends in a slash, it names a "
+                           "folder, not a file"), path);
+
+  size_t dir_len = slash == NULL ? 1 : (slash == path ? 1 : (size_t) (slash - path));
+  size_t tmp_size = dir_len + strlen (base) + sizeof "/..XXXXXX";
+  char *dir = malloc (dir_len + 1);
+  char *tmp = malloc (tmp_size);
+  if (dir == NULL || tmp == NULL)
+    {
+      free (dir);
+      free (tmp);
+      return hl_error_set (err, HL_ERR_NOMEM, path, _("Out of memory while saving"));
+    }
+  if (slash == NULL)
+    memcpy (dir, ".", 2);
+  else if (slash == path)
+    memcpy (dir, "/", 2);
+  else
+    {
+      memcpy (dir, path, dir_len);
+      dir[dir_len] = '\0';
+    }
+  snprintf (tmp, tmp_size, "%s/.%s.XXXXXX", strcmp (dir, "/") == 0 ? "" : dir, base);
+
+  HlStatus st = HL_OK;
+  int fd = mkstemp (tmp);
+  if (fd < 0)
+    {
+      int e = errno;
+      if (e == ENOENT || e == ENOTDIR)
+        st = hl_error_set (err, HL_ERR_IO, path,
+                           _("Cannot save \"%s\": the folder \"%s\" does not exist"),
+                           path, dir);
+      else
+        st = hl_error_set (err, HL_ERR_IO, path,
+                           _("Cannot save \"%s\": cannot create a file in \"%s\": %s"),
+                           path, dir, strerror (e));
+      free (dir);
+      free (tmp);
+      return st;
+    }
+  fcntl (fd, F_SETFD, FD_CLOEXEC);
+
+  const char *p = data;
+  size_t left = size;
+  int e = 0;
+  if (fchmod (fd, HL_FILE_MODE & ~current_umask ()) != 0)
+    e = errno;
+  while (e == 0 && left > 0)
+    {
+      ssize_t n = write (fd, p, left);
+      if (n < 0 && errno == EINTR)
+        continue;
+      if (n <= 0)
+        {
+          e = n < 0 ? errno : EIO;
+          break;
+        }
+      p += n;
+      left -= (size_t) n;
+    }
+  if (e == 0 && fsync (fd) != 0)
+    e = errno;
+  if (close (fd) != 0 && e == 0)
+    e = errno;
+  if (e != 0)
+    st = hl_error_set (err, HL_ERR_IO, path, _("Cannot save \"%s\": %s"), path,
+                       strerror (e));
+  else if (rename (tmp, path) != 0)
+    {
+      e = errno;
+      if (e == EISDIR)
+        st = hl_error_set (err, HL_ERR_IO, path,
+                           _("Cannot save \"%s\": a folder of that name is in the way"),
+                           path);
+      else
+        st = hl_error_set (err, HL_ERR_IO, path, _("Cannot save \"%s\": %s"), path,
+                           strerror (e));
+    }
+  if (st != HL_OK)
+    unlink (tmp);
+  else
+    {
+      /* The rename itself is durable once the folder is flushed. */
+      int dfd = open (dir, O_RDONLY | O_DIRECTORY | O_CLOEXEC);
+      if (dfd >= 0)
+        {
+          fsync (dfd);
+          close (dfd);
+        }
+    }
+  free (dir);
+  free (tmp);
+  return st;
+}
+
+HlStatus
+hl_plan_save_file (const HlPlan *plan, const char *path, HlError *err)
+{
+  char *text = NULL;
+  size_t size = 0;
+  HlStatus st = hl_plan_to_buffer (plan, &text, &size, err);
+  if (st != HL_OK)
+    return st;
+  st = hl_write_file_atomic (path, text, size, err);
+  free (text);
+  return st;
+}
+
+HlStatus
+hl_summary_save_file (const HlPlan *plan, const char *path, HlError *err)
+{
+  char *text = NULL;
+  size_t size = 0;
+  HlStatus st = hl_summary_to_buffer (plan, NULL, &text, &size, err);
+  if (st != HL_OK)
+    return st;
+  st = hl_write_file_atomic (path, text, size, err);
+  free (text);
+  return st;
+}
+
+/* ---- Reading ------------------------------------------------------------ */
+
+/* The element nodes each part of a plan came from, to point at the right
+ * line when a range check fails after reading. */
+typedef struct {
+  xmlNodePtr plan;
+  xmlNodePtr case_;
+  xmlNodePtr model;
+  xmlNodePtr landmarks;
+  xmlNodePtr landmark[HL_LM_COUNT];
+  xmlNodePtr calibration;
+  xmlNodePtr cane;
+  xmlNodePtr hand_load[2];
+  xmlNodePtr midline_load;
+  xmlNodePtr tolerances;
+  xmlNodePtr capacity;
+  xmlNodePtr *option;
+  size_t n_option;
+} HlPlanNodes;
+
+typedef struct {
+  const char *name;          /* file name for messages, may be NULL */
+  HlError *err;
+  HlStatus status;           /* the first failure */
+  xmlParserCtxtPtr ctxt;     /* while parsing */
+  bool saw_doctype;
+  int doctype_line;
+  char doctype_name[HL_QUOTED_VALUE_MAX];
+  /* the first libxml2 error */
+  bool xml_error;
+  int xml_line;
+  xmlNodePtr xml_node;
+  char xml_element[HL_QUOTED_VALUE_MAX];
+  char xml_message[HL_ERROR_MESSAGE_MAX];
+} HlReader;
+
+static void
+describe_element (xmlNodePtr node, char *out, size_t size)
+{
+  if (node == NULL || node->type != XML_ELEMENT_NODE)
+    {
+      snprintf (out, size, "%s", "");
+      return;
+    }
+  static const char *const id_attrs[] = { "name", "hand", "kind" };
+  for (int i = 0; i < N_NAMES (id_attrs); i++)
+    {
+      xmlChar *v = xmlGetNoNsProp (node, (const xmlChar *) id_attrs[i]);
+      if (v != NULL)
+        {
+          snprintf (out, size, "<%s %s=\"%.*s\">", (const char *) node->name,
+                    id_attrs[i], HL_QUOTED_VALUE_MAX, (const char *) v);
+          xmlFree (v);
+          return;
+        }
+    }
+  snprintf (out, size, "<%s>", (const char *) node->name);
+}
+
+static int
+node_line (xmlNodePtr node)
+{
+  long line = node ? xmlGetLineNo (node) : 0;
+  return line > 0 && line < INT_MAX ? (int) line : 0;
+}
+
+static HlStatus reader_fail_at (HlReader *r, HlStatus status, int line,
+                                const char *element, const char *fmt, ...)
+  __attribute__ ((format (printf, 5, 6)));
+
+/* Records the first failure as "NAME: line N, element <E>: message". */
+static HlStatus
+reader_fail_at (HlReader *r, HlStatus status, int line, const char *element,
+                const char *fmt, ...)
+{
+  if (r->status != HL_OK)
+    return r->status;
+  r->status = status;
+
+  char what[HL_ERROR_MESSAGE_MAX];
+  va_list ap;
+  va_start (ap, fmt);
+  vsnprintf (what, sizeof what, fmt, ap);
+  va_end (ap);
+
+  char where[HL_ERROR_MESSAGE_MAX / 2];
+  size_t n = 0;
+  where[0] = '\0';
+  if (r->name != NULL)
+    n += (size_t) snprintf (where + n, sizeof where - n, "%s: ", r->name);
+  if (line > 0 && n < sizeof where)
+    n += (size_t) snprintf (where + n, sizeof where - n, _("line %d, "), line);
+  if (element != NULL && element[0] != '\0' && n < sizeof where)
+    n += (size_t) snprintf (where + n, sizeof where - n, _("element %s: "), element);
+  if (n >= 2 && n < sizeof where && where[n - 2] == ',')
+    {
+      where[n - 2] = ':';
+      where[n - 1] = ' ';
+    }
+
+  if (r->err != NULL)
+    {
+      hl_error_set (r->err, status, element ? element : "", "%s%s", where, what);
+      r->err->line = line;
+    }
+  return status;
+}
+
+static HlStatus reader_fail (HlReader *r, HlStatus status, xmlNodePtr node,
+                             const char *fmt, ...)
+  __attribute__ ((format (printf, 4, 5)));
+
+static HlStatus
+reader_fail (HlReader *r, HlStatus status, xmlNodePtr node, const char *fmt, ...)
+{
+  char element[HL_ERROR_FIELD_MAX];
+  char what[HL_ERROR_MESSAGE_MAX];
+  va_list ap;
+
+  describe_element (node, element, sizeof element);
+  va_start (ap, fmt);
+  vsnprintf (what, sizeof what, fmt, ap);
+  va_end (ap);
+  return reader_fail_at (r, status, node_line (node), element, "%s", what);
+}
+
+/* libxml2 writes "{urn:hiplever:plan}landmark"; people read "landmark". */
+static void
+clean_xml_message (char *msg)
+{
+  static const char ns[] = "{" HL_PLAN_NAMESPACE "}";
+  char *p;
+  while ((p = strstr (msg, ns)) != NULL)
+    memmove (p, p + sizeof ns - 1, strlen (p + sizeof ns - 1) + 1);
+  size_t len = strlen (msg);
+  while (len > 0 && (msg[len - 1] == '\n' || msg[len - 1] == ' '))
+    msg[--len] = '\0';
+}
+
+static void
+xml_error_cb (void *data, xmlErrorPtr e)
+{
+  HlReader *r = data;
+  if (r == NULL || e == NULL || e->level < XML_ERR_ERROR || r->xml_error)
+    return;
+  r->xml_error = true;
+  r->xml_line = e->line;
+  r->xml_node = NULL;
+  r->xml_element[0] = '\0';
+  if (e->node != NULL)
+    {
+      xmlNodePtr node = e->node;
+      if (node->type == XML_ATTRIBUTE_NODE)
+        node = node->parent;
+      if (node != NULL && node->type == XML_ELEMENT_NODE)
+        {
+          r->xml_node = node;
+          if (r->xml_line <= 0)
+            r->xml_line = node_line (node);
+        }
+    }
+  else if (r->ctxt != NULL && r->ctxt->name != NULL)
+    snprintf (r->xml_element, sizeof r->xml_element, "<%.*s>",
+              HL_QUOTED_VALUE_MAX - 3, (const char *) r->ctxt->name);
+  snprintf (r->xml_message, sizeof r->xml_message, "%s",
+            e->message ? e->message : _("unknown XML error"));
+  clean_xml_message (r->xml_message);
+}
+
+/* The parser hands its own context to this handler. */
+static void
+parser_error_cb (void *ctx, xmlErrorPtr e)
+{
+  xmlParserCtxtPtr ctxt = ctx;
+  xml_error_cb (ctxt ? ctxt->_private : NULL, e);
+}
+
+/* A plan never has a DTD: stop at the DOCTYPE, before its internal subset
+ * or any external subset is looked at. */
+static void
+doctype_cb (void *ctx, const xmlChar *name, const xmlChar *external_id,
+            const xmlChar *system_id)
+{
+  xmlParserCtxtPtr ctxt = ctx;
+  HlReader *r = ctxt->_private;
+  if (r != NULL && !r->saw_doctype)
+    {
+      r->saw_doctype = true;
+      r->doctype_line = xmlSAX2GetLineNumber (ctx);
+      snprintf (r->doctype_name, sizeof r->doctype_name, "%.*s",
+                HL_QUOTED_VALUE_MAX - 1, name ? (const char *) name : "");
+    }
+  xmlStopParser (ctxt);
+}
+
+static const HlEnumAttr *
+find_enum_attr (const char *attr)
+{
+  for (int i = 0; i < N_NAMES (enum_attrs); i++)
+    if (strcmp (enum_attrs[i].attr, attr) == 0)
+      return &enum_attrs[i];
+  return NULL;
+}
+
+static bool
+is_number_attr (const char *attr)
+{
+  for (int i = 0; i < N_NAMES (number_attrs); i++)
+    if (strcmp (number_attrs[i], attr) == 0)
+      return true;
+  return false;
+}
+
+static void
+join_names (const HlEnumAttr *e, char *out, size_t size)
+{
+  size_t n = 0;
+  out[0] = '\0';
+  for (int i = 0; i < e->n && n < size; i++)
+    n += (size_t) snprintf (out + n, size - n, "%s%s", i ? ", " : "", e->names[i]);
+}
+
+/* A clear message for a bad value of `attr` on `node`, if it has one. */
+static bool
+diagnose_value (HlReader *r, xmlNodePtr node, const char *attr, const char *value)
+{
+  if (is_number_attr (attr))
+    {
+      double v;
+      switch (parse_number (value, &v))
+        {
+        case HL_NUMBER_OK:
+          return false;
+        case HL_NUMBER_NOT_FINITE:
+          reader_fail (r, HL_ERR_PARSE, node,
+                       _("attribute %s is '%.*s', not a finite number"), attr,
+                       HL_QUOTED_VALUE_MAX, value);
+          return true;
+        case HL_NUMBER_NOT_A_NUMBER:
+        default:
+          reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is '%.*s', not a number"),
+                       attr, HL_QUOTED_VALUE_MAX, value);
+          return true;
+        }
+    }
+  const HlEnumAttr *e = find_enum_attr (attr);
+  if (e != NULL)
+    {
+      for (int i = 0; i < e->n; i++)
+        if (strcmp (value, e->names[i]) == 0)
+          return false;
+      char names[160];
+      join_names (e, names, sizeof names);
+      reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is '%.*s', not one of: %s"),
+                   attr, HL_QUOTED_VALUE_MAX, value, names);
+      return true;
+    }
+  return false;
+}
+
+static bool
+diagnose_element (HlReader *r, xmlNodePtr node)
+{
+  for (xmlAttrPtr a = node->properties; a != NULL; a = a->next)
+    {
+      xmlChar *v = xmlNodeListGetString (node->doc, a->children, 1);
+      bool found = diagnose_value (r, node, (const char *) a->name,
+                                   v ? (const char *) v : "");
+      xmlFree (v);
+      if (found)
+        return true;
+    }
+  return false;
+}
+
+/* ---- Reading attributes ----------------------------------------------- */
+
+static bool
+node_is (xmlNodePtr node, const char *name)
+{
+  return node->type == XML_ELEMENT_NODE && node->ns != NULL
+         && xmlStrcmp (node->ns->href, (const xmlChar *) HL_PLAN_NAMESPACE) == 0
+         && xmlStrcmp (node->name, (const xmlChar *) name) == 0;
+}
+
+static bool
+get_number (HlReader *r, xmlNodePtr node, const char *attr, bool required, double *out)
+{
+  xmlChar *v = xmlGetNoNsProp (node, (const xmlChar *) attr);
+  if (v == NULL)
+    {
+      if (required)
+        reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is missing"), attr);
+      return !required;
+    }
+  double d;
+  bool ok = parse_number ((const char *) v, &d) == HL_NUMBER_OK;
+  if (ok)
+    *out = d;
+  else
+    diagnose_value (r, node, attr, (const char *) v);
+  xmlFree (v);
+  return ok;
+}
+
+static bool
+get_enum (HlReader *r, xmlNodePtr node, const char *attr, bool required, int *out)
+{
+  const HlEnumAttr *e = find_enum_attr (attr);
+  xmlChar *v = xmlGetNoNsProp (node, (const xmlChar *) attr);
+  if (v == NULL)
+    {
+      if (required)
+        reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is missing"), attr);
+      return !required;
+    }
+  bool ok = false;
+  for (int i = 0; e != NULL && i < e->n; i++)
+    if (strcmp ((const char *) v, e->names[i]) == 0)
+      {
+        *out = i;
+        ok = true;
+      }
+  if (!ok)
+    diagnose_value (r, node, attr, (const char *) v);
+  xmlFree (v);
+  return ok;
+}
+
+static bool
+get_bool (HlReader *r, xmlNodePtr node, const char *attr, bool *out)
+{
+  xmlChar *v = xmlGetNoNsProp (node, (const xmlChar *) attr);
+  if (v == NULL)
+    return true;
+  const char *s = (const char *) v;
+  bool ok = true;
+  if (strcmp (s, "true") == 0 || strcmp (s, "1") == 0)
+    *out = true;
+  else if (strcmp (s, "false") == 0 || strcmp (s, "0") == 0)
+    *out = false;
+  else
+    {
+      reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is '%.*s', not true or false"),
+                   attr, HL_QUOTED_VALUE_MAX, s);
+      ok = false;
+    }
+  xmlFree (v);
+  return ok;
+}
+
+static bool
+copy_text (HlReader *r, xmlNodePtr node, const char *what, const char *text,
+           char *dst, size_t size)
+{
+  size_t len = strlen (text);
+  if (len >= size)
+    {
+      reader_fail (r, HL_ERR_PARSE, node,
+                   _("%s is %zu bytes long, more than the %zu allowed"), what, len,
+                   size - 1);
+      return false;
+    }
+  memcpy (dst, text, len + 1);
+  return true;
+}
+
+static bool
+get_text_attr (HlReader *r, xmlNodePtr node, const char *attr, char *dst, size_t size)
+{
+  xmlChar *v = xmlGetNoNsProp (node, (const xmlChar *) attr);
+  if (v == NULL)
+    {
+      reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is missing"), attr);
+      return false;
+    }
+  char what[64];
+  snprintf (what, sizeof what, _("attribute %s"), attr);
+  bool ok = copy_text (r, node, what, (const char *) v, dst, size);
+  xmlFree (v);
+  return ok;
+}
+
+/* ---- Reading the plan element ----------------------------------------- */
+
+static bool
+read_case (HlReader *r, xmlNodePtr node, HlPlan *plan)
+{
+  int side = (int) plan->side;
+  bool ok = get_text_attr (r, node, "label", plan->label, sizeof plan->label)
+            && get_number (r, node, "mass-kg", true, &plan->mass_kg)
+            && get_enum (r, node, "operated-side", true, &side);
+  plan->side = (HlSide) side;
+  return ok;
+}
+
+static bool
+read_model (HlReader *r, xmlNodePtr node, HlPlan *plan)
+{
+  HlModelChoices *m = &plan->model;
+  xmlChar *key = xmlGetNoNsProp (node, (const xmlChar *) "limb-table");
+  if (key != NULL)
+    {
+      HlLimbTable t = hl_limb_table_from_key ((const char *) key);
+      if (t == HL_LIMB_N)
+        reader_fail (r, HL_ERR_PARSE, node,
+                     _("attribute limb-table is '%.*s', not a known stance-limb mass table"),
+                     HL_QUOTED_VALUE_MAX, (const char *) key);
+      else
+        m->limb_table = t;
+      xmlFree (key);
+      if (t == HL_LIMB_N)
+        return false;
+    }
+  int bw_line = (int) m->bw_line;
+  int line_mode = (int) m->abductor_line;
+  bool ok = get_number (r, node, "limb-fraction", false, &m->limb_fraction_custom)
+            && get_enum (r, node, "body-weight-line", false, &bw_line)
+            && get_enum (r, node, "abductor-line", false, &line_mode)
+            && get_number (r, node, "abductor-angle-deg", false, &m->abductor_angle_deg)
+            && get_number (r, node, "lean-mm", false, &m->lean_mm);
+  m->bw_line = (HlBwLine) bw_line;
+  m->abductor_line = (HlAbductorLineMode) line_mode;
+  return ok;
+}
+
+static bool
+read_landmarks (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *nodes)
+{
+  for (xmlNodePtr c = node->children; c != NULL; c = c->next)
+    {
+      if (c->type != XML_ELEMENT_NODE)
+        continue;
+      if (!node_is (c, "landmark"))
+        {
+          reader_fail (r, HL_ERR_PARSE, c, _("unexpected element in <landmarks>"));
+          return false;
+        }
+      xmlChar *key = xmlGetNoNsProp (c, (const xmlChar *) "name");
+      HlLandmarkId id = hl_landmark_from_key (key ? (const char *) key : "");
+      xmlFree (key);
+      if (id == HL_LM_COUNT)
+        {
+          reader_fail (r, HL_ERR_PARSE, c, _("unknown landmark name"));
+          return false;
+        }
+      if (hl_landmarks_has (&plan->landmarks, id))
+        {
+          reader_fail (r, HL_ERR_PARSE, c, _("landmark %s is given twice"),
+                       hl_landmark_info (id)->key);
+          return false;
+        }
+      double x, y;
+      if (!get_number (r, c, "x-mm", true, &x) || !get_number (r, c, "y-mm", true, &y))
+        return false;
+      hl_landmarks_set (&plan->landmarks, id, x, y);
+      nodes->landmark[id] = c;
+    }
+
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) i);
+      if (info->required && !hl_landmarks_has (&plan->landmarks, (HlLandmarkId) i))
+        {
+          reader_fail (r, HL_ERR_PARSE, node,
+                       _("the required landmark %s (%s) is missing"), info->key,
+                       _(info->label));
+          return false;
+        }
+    }
+  return true;
+}
+
+static bool
+read_calibration (HlReader *r, xmlNodePtr node, HlPlan *plan)
+{
+  HlCalibration *cal = &plan->calibration;
+  int method = (int) cal->method;
+  if (!get_enum (r, node, "method", false, &method)
+      || !get_number (r, node, "magnification", false, &cal->magnification)
+      || !get_number (r, node, "marker-diameter-mm", false, &cal->marker_diameter_mm)
+      || !get_number (r, node, "known-distance-mm", false, &cal->known_distance_mm))
+    return false;
+  cal->method = (HlCalMethod) method;
+
+  cal->n_points = 0;
+  for (xmlNodePtr c = node->children; c != NULL; c = c->next)
+    {
+      if (c->type != XML_ELEMENT_NODE)
+        continue;
+      if (!node_is (c, "point") || cal->n_points >= 3)
+        {
+          reader_fail (r, HL_ERR_PARSE, c,
+                       _("a calibration holds at most three <point> elements"));
+          return false;
+        }
+      HlVec2 *p = &cal->points[cal->n_points];
+      if (!get_number (r, c, "x-mm", true, &p->x) || !get_number (r, c, "y-mm", true, &p->y))
+        return false;
+      cal->n_points++;
+    }
+  return true;
+}
+
+static bool
+read_aids (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *nodes)
+{
+  for (xmlNodePtr c = node->children; c != NULL; c = c->next)
+    {
+      if (c->type != XML_ELEMENT_NODE)
+        continue;
+      if (node_is (c, "cane"))
+        {
+          HlCane *cane = &plan->cane;
+          int hand = (int) cane->hand;
+          int unit = (int) cane->unit;
+          nodes->cane = c;
+          if (!get_bool (r, c, "enabled", &cane->enabled)
+              || !get_enum (r, c, "hand", false, &hand)
+              || !get_enum (r, c, "unit", false, &unit)
+              || !get_number (r, c, "value", false, &cane->value)
+              || !get_number (r, c, "distance-mm", false, &cane->distance_mm))
+            return false;
+          cane->hand = (HlHand) hand;
+          cane->unit = (HlForceUnit) unit;
+        }
+      else if (node_is (c, "hand-load"))
+        {
+          int hand = 0;
+          if (!get_enum (r, c, "hand", true, &hand))
+            return false;
+          if (nodes->hand_load[hand] != NULL)
+            {
+              reader_fail (r, HL_ERR_PARSE, c, _("the load in this hand is given twice"));
+              return false;
+            }
+          nodes->hand_load[hand] = c;
+          HlHandLoad *load = &plan->loads.hand[hand];
+          if (!get_number (r, c, "mass-kg", false, &load->mass_kg)
+              || !get_number (r, c, "distance-mm", false, &load->distance_mm))
+            return false;
+        }
+      else if (node_is (c, "midline-load"))
+        {
+          nodes->midline_load = c;
+          if (!get_number (r, c, "mass-kg", false, &plan->loads.midline_kg))
+            return false;
+        }
+      else
+        {
+          reader_fail (r, HL_ERR_PARSE, c, _("unexpected element in <aids>"));
+          return false;
+        }
+    }
+  return true;
+}
+
+static bool
+read_options (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *nodes)
+{
+  for (xmlNodePtr c = node->children; c != NULL; c = c->next)
+    {
+      if (c->type != XML_ELEMENT_NODE)
+        continue;
+      if (!node_is (c, "option"))
+        {
+          reader_fail (r, HL_ERR_PARSE, c, _("unexpected element in <options>"));
+          return false;
+        }
+      HlOption option;
+      memset (&option, 0, sizeof option);
+      hl_recon_init (&option.recon);
+      HlRecon *rc = &option.recon;
+      if (!get_text_attr (r, c, "name", option.name, sizeof option.name)
+          || !get_number (r, c, "cup-medial-mm", false, &rc->cup_medial_mm)
+          || !get_number (r, c, "cup-superior-mm", false, &rc->cup_superior_mm)
+          || !get_number (r, c, "femoral-offset-mm", false, &rc->femoral_offset_mm)
+          || !get_number (r, c, "femoral-length-mm", false, &rc->femoral_length_mm)
+          || !get_number (r, c, "head-length-mm", false, &rc->head_length_mm)
+          || !get_number (r, c, "neck-shaft-angle-deg", false, &rc->neck_shaft_angle_deg))
+        return false;
+
+      xmlNodePtr *grown = realloc (nodes->option, (nodes->n_option + 1) * sizeof *grown);
+      if (grown == NULL || hl_plan_add_option (plan, option.name, rc) < 0)
+        {
+          if (grown != NULL)
+            nodes->option = grown;
+          reader_fail (r, HL_ERR_NOMEM, c, _("out of memory"));
+          return false;
+        }
+      nodes->option = grown;
+      nodes->option[nodes->n_option++] = c;
+    }
+  return true;
+}
+
+static bool
+read_plan_element (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *nodes)
+{
+  nodes->plan = node;
+  bool have_case = false, have_landmarks = false;
+
+  for (xmlNodePtr c = node->children; c != NULL && r->status == HL_OK; c = c->next)
+    {
+      if (c->type != XML_ELEMENT_NODE)
+        continue;
+      bool ok;
+      if (node_is (c, "case"))
+        ok = read_case (r, c, plan), have_case = true, nodes->case_ = c;
+      else if (node_is (c, "model"))
+        ok = read_model (r, c, plan), nodes->model = c;
+      else if (node_is (c, "landmarks"))
+        ok = read_landmarks (r, c, plan, nodes), have_landmarks = true, nodes->landmarks = c;
+      else if (node_is (c, "calibration"))
+        ok = read_calibration (r, c, plan), nodes->calibration = c;
+      else if (node_is (c, "aids"))
+        ok = read_aids (r, c, plan, nodes);
+      else if (node_is (c, "tolerances"))
+        {
+          nodes->tolerances = c;
+          ok = get_number (r, c, "global-offset-drop-mm", false, &plan->tol.global_offset_drop_mm)
+               && get_number (r, c, "leg-length-mm", false, &plan->tol.leg_length_mm)
+               && get_number (r, c, "abductor-slack-mm", false, &plan->tol.abductor_slack_mm);
+        }
+      else if (node_is (c, "capacity"))
+        {
+          nodes->capacity = c;
+          ok = get_number (r, c, "torque-nm-per-kg", false, &plan->capacity.torque_nm_per_kg);
+        }
+      else if (node_is (c, "options"))
+        ok = read_options (r, c, plan, nodes);
+      else if (node_is (c, "notes"))
+        {
+          xmlChar *text = xmlNodeGetContent (c);
+          ok = copy_text (r, c, _("the notes"), text ? (const char *) text : "",
+                          plan->notes, sizeof plan->notes);
+          xmlFree (text);
+        }
+      else
+        {
+          reader_fail (r, HL_ERR_PARSE, c, _("unexpected element in <plan>"));
+          ok = false;
+        }
+      if (!ok)
+        return false;
+    }
+  if (!have_case)
+    reader_fail (r, HL_ERR_PARSE, node, _("the <case> element is missing"));
+  else if (!have_landmarks)
+    reader_fail (r, HL_ERR_PARSE, node, _("the <landmarks> element is missing"));
+  return r->status == HL_OK;
+}
+
+/* The element a failed range check is about, from its field name. */
+static xmlNodePtr
+node_for_field (const HlPlanNodes *nodes, const HlPlan *plan, const char *field)
+{
+  static const char option_prefix[] = "option \"";
+  if (strncmp (field, option_prefix, sizeof option_prefix - 1) == 0)
+    {
+      const char *name = field + sizeof option_prefix - 1;
+      for (size_t i = 0; i < plan->n_options && i < nodes->n_option; i++)
+        {
+          size_t len = strlen (plan->options[i].name);
+          if (strncmp (name, plan->options[i].name, len) == 0 && name[len] == '"')
+            return nodes->option[i];
+        }
+      return nodes->plan;
+    }
+  if (strncmp (field, "landmark ", 9) == 0)
+    {
+      HlLandmarkId id = hl_landmark_from_key (field + 9);
+      return id < HL_LM_COUNT && nodes->landmark[id] ? nodes->landmark[id] : nodes->landmarks;
+    }
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    if (strcmp (field, hl_landmark_info ((HlLandmarkId) i)->key) == 0)
+      return nodes->landmarks;
+
+  const struct { const char *prefix; xmlNodePtr node; } map[] = {
+    { "patient", nodes->case_ },
+    { "operated", nodes->case_ },
+    { "model", nodes->model },
+    { "calibration", nodes->calibration },
+    { "cane", nodes->cane },
+    { "load contralateral", nodes->hand_load[HL_HAND_CONTRALATERAL] },
+    { "load ipsilateral", nodes->hand_load[HL_HAND_IPSILATERAL] },
+    { "load midline", nodes->midline_load },
+    { "tolerance", nodes->tolerances },
+    { "capacity", nodes->capacity },
+  };
+  for (size_t i = 0; i < sizeof map / sizeof map[0]; i++)
+    if (strncmp (field, map[i].prefix, strlen (map[i].prefix)) == 0)
+      return map[i].node ? map[i].node : nodes->plan;
+  return nodes->plan;
+}
+
+/* ---- Loading ----------------------------------------------------------- */
+
+static HlStatus
+check_format_version (HlReader *r, xmlNodePtr node)
+{
+  xmlChar *v = xmlGetNoNsProp (node, (const xmlChar *) "format-version");
+  if (v == NULL)
+    return reader_fail (r, HL_ERR_PARSE, node, _("attribute format-version is missing"));
+
+  const char *s = (const char *) v;
+  long version = 0;
+  bool digits = *s != '\0';
+  for (const char *p = s; *p != '\0'; p++)
+    {
+      if (!is_digit (*p) || version > INT_MAX / 10)
+        {
+          digits = false;
+          break;
+        }
+      version = version * 10 + (*p - '0');
+    }
+  HlStatus st = HL_OK;
+  if (!digits || version < 1)
+    st = reader_fail (r, HL_ERR_PARSE, node,
+                      _("attribute format-version is '%.*s', not a format version number"),
+                      HL_QUOTED_VALUE_MAX, s);
+  else if (version > HL_PLAN_FORMAT_VERSION)
+    st = reader_fail (r, HL_ERR_VERSION, node,
+                      _("the file has format version %ld, newer than this program "
+                        "understands (version %d); open it with a newer hiplever"),
+                      version, HL_PLAN_FORMAT_VERSION);
+  xmlFree (v);
+  return st;
+}
+
+static HlStatus
+check_root (HlReader *r, xmlNodePtr root, bool *is_summary)
+{
+  if (root == NULL)
+    return reader_fail_at (r, HL_ERR_PARSE, 0, NULL, _("the file has no root element"));
+  if (root->ns == NULL)
+    return reader_fail (r, HL_ERR_PARSE, root,
+                        _("the element has no namespace, not \"%s\": this is not a "
+                          "hiplever plan"), HL_PLAN_NAMESPACE);
+  if (xmlStrcmp (root->ns->href, (const xmlChar *) HL_PLAN_NAMESPACE) != 0)
+    return reader_fail (r, HL_ERR_PARSE, root,
+                        _("the namespace is \"%.*s\", not \"%s\": this is not a "
+                          "hiplever plan"), HL_QUOTED_VALUE_MAX,
+                        (const char *) root->ns->href, HL_PLAN_NAMESPACE);
+  if (node_is (root, "planning-summary"))
+    *is_summary = true;
+  else if (node_is (root, "plan"))
+    *is_summary = false;
+  else
+    return reader_fail (r, HL_ERR_PARSE, root,
+                        _("the root element is <%.*s>, not <plan> or "
+                          "<planning-summary>: this is not a hiplever plan"),
+                        HL_QUOTED_VALUE_MAX, (const char *) root->name);
+  return check_format_version (r, root);
+}
+
+static HlStatus
+validate_schema (HlReader *r, xmlDocPtr doc)
+{
+  r->xml_error = false;
+  xmlSchemaParserCtxtPtr pctxt = xmlSchemaNewMemParserCtxt (hl_schema_data,
+                                                            (int) hl_schema_data_len);
+  if (pctxt == NULL)
+    return reader_fail_at (r, HL_ERR_NOMEM, 0, NULL, _("out of memory"));
+  xmlSchemaSetParserStructuredErrors (pctxt, xml_error_cb, r);
+  xmlSchemaPtr schema = xmlSchemaParse (pctxt);
+  xmlSchemaFreeParserCtxt (pctxt);
+  if (schema == NULL)
+    return reader_fail_at (r, HL_ERR_PARSE, 0, NULL,
+                           _("internal error: the built-in plan schema does not compile: %s"),
+                           r->xml_error ? r->xml_message : "");
+
+  xmlSchemaValidCtxtPtr vctxt = xmlSchemaNewValidCtxt (schema);
+  int rc = -1;
+  if (vctxt != NULL)
+    {
+      xmlSchemaSetValidStructuredErrors (vctxt, xml_error_cb, r);
+      rc = xmlSchemaValidateDoc (vctxt, doc);
+      xmlSchemaFreeValidCtxt (vctxt);
+    }
+  xmlSchemaFree (schema);
+  if (vctxt == NULL)
+    return reader_fail_at (r, HL_ERR_NOMEM, 0, NULL, _("out of memory"));
+  if (rc == 0)
+    return HL_OK;
+
+  if (r->xml_node != NULL && diagnose_element (r, r->xml_node))
+    return r->status;
+
+  char element[HL_ERROR_FIELD_MAX] = "";
+  describe_element (r->xml_node, element, sizeof element);
+  /* Drop libxml2's "Element 'x': " lead-in; the element is named already. */
+  const char *msg = r->xml_error ? r->xml_message : _("the file does not match the plan schema");
+  if (strncmp (msg, "Element '", 9) == 0)
+    {
+      const char *end = strstr (msg, "': ");
+      if (end != NULL)
+        msg = end + 3;
+    }
+  return reader_fail_at (r, HL_ERR_PARSE, r->xml_line, element, "%s", msg);
+}
+
+static HlStatus
+parse_document (HlReader *r, const char *data, size_t size, xmlDocPtr *out)
+{
+  *out = NULL;
+  if (size == 0)
+    return reader_fail_at (r, HL_ERR_PARSE, 0, NULL, _("the file is empty"));
+  if (size > HL_PLAN_MAX_BYTES || size > INT_MAX)
+    return reader_fail_at (r, HL_ERR_PARSE, 0, NULL,
+                           _("the file is %zu bytes, more than the %u bytes a plan may have"),
+                           size, HL_PLAN_MAX_BYTES);
+
+  xmlParserCtxtPtr ctxt = xmlNewParserCtxt ();
+  if (ctxt == NULL || ctxt->sax == NULL)
+    {
+      xmlFreeParserCtxt (ctxt);
+      return reader_fail_at (r, HL_ERR_NOMEM, 0, NULL, _("out of memory"));
+    }
+  ctxt->_private = r;
+  ctxt->sax->internalSubset = doctype_cb;
+  ctxt->sax->externalSubset = NULL;
+  ctxt->sax->serror = parser_error_cb;
+  r->ctxt = ctxt;
+
+  xmlDocPtr doc = xmlCtxtReadMemory (ctxt, data, (int) size,
+                                     r->name ? r->name : "plan", NULL,
+                                     HL_XML_PARSE_OPTIONS);
+  bool well_formed = ctxt->wellFormed;
+  r->ctxt = NULL;
+  xmlFreeParserCtxt (ctxt);
+
+  if (r->saw_doctype)
+    {
+      xmlFreeDoc (doc);
+      char element[HL_QUOTED_VALUE_MAX + 16];
+      snprintf (element, sizeof element, "<!DOCTYPE %s>", r->doctype_name);
+      return reader_fail_at (r, HL_ERR_PARSE, r->doctype_line, element,
+                             _("the file has a document type declaration; plan files "
+                               "never have one, so it is refused and nothing it "
+                               "declares or points to is read"));
+    }
+  if (doc == NULL || !well_formed)
+    {
+      xmlFreeDoc (doc);
+      return reader_fail_at (r, HL_ERR_PARSE, r->xml_error ? r->xml_line : 0,
+                             r->xml_element,
+                             _("the file is not well-formed XML: %s"),
+                             r->xml_error ? r->xml_message : _("unknown error"));
+    }
+  *out = doc;
+  return HL_OK;
+}
+
+/* Everything after the bytes are in memory; called with the thread's
+ * numbers in the C locale and libxml2's error output redirected. */
+static HlStatus
+load_document (HlReader *r, const char *data, size_t size, HlPlan **out)
+{
+  xmlDocPtr doc = NULL;
+  HlStatus st = parse_document (r, data, size, &doc);
+  if (st != HL_OK)
+    return st;
+
+  bool is_summary = false;
+  xmlNodePtr root = xmlDocGetRootElement (doc);
+  if ((st = check_root (r, root, &is_summary)) != HL_OK
+      || (st = validate_schema (r, doc)) != HL_OK)
+    {
+      xmlFreeDoc (doc);
+      return st;
+    }
+
+  xmlNodePtr plan_node = root;
+  if (is_summary)
+    {
+      plan_node = NULL;
+      for (xmlNodePtr c = root->children; c != NULL && plan_node == NULL; c = c->next)
+        if (node_is (c, "plan"))
+          plan_node = c;
+      if (plan_node == NULL)
+        st = reader_fail (r, HL_ERR_PARSE, root, _("the summary holds no <plan> element"));
+      else
+        st = check_format_version (r, plan_node);
+    }
+
+  HlPlan *plan = NULL;
+  HlPlanNodes nodes;
+  memset (&nodes, 0, sizeof nodes);
+  if (st == HL_OK)
+    {
+      plan = hl_plan_new ();
+      if (plan == NULL)
+        st = reader_fail_at (r, HL_ERR_NOMEM, 0, NULL, _("out of memory"));
+      else
+        memset (&plan->landmarks, 0, sizeof plan->landmarks);
+    }
+  if (st == HL_OK && !read_plan_element (r, plan_node, plan, &nodes))
+    st = r->status;
+
+  if (st == HL_OK)
+    {
+      HlError check;
+      hl_error_clear (&check);
+      st = hl_plan_check (plan, &check);
+      if (st != HL_OK)
+        {
+          xmlNodePtr node = node_for_field (&nodes, plan, check.field);
+          char element[HL_ERROR_FIELD_MAX];
+          describe_element (node, element, sizeof element);
+          reader_fail_at (r, st, node_line (node), element, "%s", check.message);
+          if (r->err != NULL)
+            snprintf (r->err->field, sizeof r->err->field, "%s", check.field);
+        }
+    }
+
+  free (nodes.option);
+  xmlFreeDoc (doc);
+  if (st != HL_OK)
+    {
+      hl_plan_free (plan);
+      return st;
+    }
+  *out = plan;
+  return HL_OK;
+}
+
+HlStatus
+hl_plan_load_buffer (const char *data, size_t size, const char *name_for_errors,
+                     HlPlan **out, HlError *err)
+{
+  HlReader r;
+  memset (&r, 0, sizeof r);
+  r.name = name_for_errors;
+  r.err = err;
+  hl_error_clear (err);
+
+  xmlInitParser ();
+
+  HlCNumeric scope;
+  if (!c_numeric_enter (&scope))
+    return hl_error_set (err, HL_ERR_NOMEM, "", _("Cannot set up the C locale for numbers"));
+
+  /* Catches whatever a context-level handler does not; libxml2 keeps these
+   * per thread. */
+  xmlStructuredErrorFunc old_handler = xmlStructuredError;
+  void *old_context = xmlStructuredErrorContext;
+  xmlSetStructuredErrorFunc (&r, xml_error_cb);
+
+  HlStatus st = load_document (&r, data, size, out);
+
+  xmlSetStructuredErrorFunc (old_context, old_handler);
+  c_numeric_leave (&scope);
+  return st;
+}
+
+HlStatus
+hl_plan_load_file (const char *path, HlPlan **out, HlError *err)
+{
+  hl_error_clear (err);
+  /* Non-blocking so that a FIFO given by mistake cannot hang the open. */
+  int fd = open (path, O_RDONLY | O_CLOEXEC | O_NOCTTY | O_NONBLOCK);
+  if (fd < 0)
+    return hl_error_set (err, HL_ERR_IO, path, _("Cannot open \"%s\": %s"), path,
+                         strerror (errno));
+
+  struct stat sb;
+  HlStatus st = HL_OK;
+  if (fstat (fd, &sb) != 0)
+    st = hl_error_set (err, HL_ERR_IO, path, _("Cannot read \"%s\": %s"), path,
+                       strerror (errno));
+  else if (S_ISDIR (sb.st_mode))
+    st = hl_error_set (err, HL_ERR_IO, path, _("\"%s\" is a folder, not a plan file"), path);
+  else if (!S_ISREG (sb.st_mode))
+    st = hl_error_set (err, HL_ERR_IO, path, _("\"%s\" is not a regular file"), path);
+  else if ((uintmax_t) sb.st_size > HL_PLAN_MAX_BYTES)
+    st = hl_error_set (err, HL_ERR_PARSE, path,
+                       _("\"%s\" is %jd bytes, more than the %u bytes a plan file may have"),
+                       path, (intmax_t) sb.st_size, HL_PLAN_MAX_BYTES);
+  if (st != HL_OK)
+    {
+      close (fd);
+      return st;
+    }
+
+  /* Bounded: the file may have grown since fstat. */
+  size_t cap = (size_t) sb.st_size + 1;
+  char *data = malloc (cap + 1);
+  size_t len = 0;
+  while (data != NULL && st == HL_OK)
+    {
+      if (len == cap)
+        {
+          if (cap > HL_PLAN_MAX_BYTES)
+            {
+              st = hl_error_set (err, HL_ERR_PARSE, path,
+                                 _("\"%s\" is more than the %u bytes a plan file may have"),
+                                 path, HL_PLAN_MAX_BYTES);
+              break;
+            }
+          size_t grown_cap = cap * 2 > HL_PLAN_MAX_BYTES + 1 ? HL_PLAN_MAX_BYTES + 1 : cap * 2;
+          char *grown = realloc (data, grown_cap + 1);
+          if (grown == NULL)
+            {
+              st = hl_error_set (err, HL_ERR_NOMEM, path,
+                                 _("Out of memory while reading \"%s\""), path);
+              break;
+            }
+          data = grown;
+          cap = grown_cap;
+        }
+      ssize_t n = read (fd, data + len, cap - len);
+      if (n < 0 && errno == EINTR)
+        continue;
+      if (n < 0)
+        st = hl_error_set (err, HL_ERR_IO, path, _("Cannot read \"%s\": %s"), path,
+                           strerror (errno));
+      else if (n == 0)
+        break;
+      else
+        len += (size_t) n;
+    }
+  close (fd);
+  if (st == HL_OK && data == NULL)
+    st = hl_error_set (err, HL_ERR_NOMEM, path, _("Out of memory while reading \"%s\""), path);
+  if (st == HL_OK)
+    st = hl_plan_load_buffer (data, len, path, out, err);
+  free (data);
+  return st;
+}
