@@ -1,0 +1,358 @@
+/* hl-uncertainty.c: Monte Carlo on a prepared model; percentiles by
+ * selection.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "hl-i18n.h"
+#include "hl-measure.h"
+#include "hl-uncertainty.h"
+
+#define DEG (M_PI / 180.0)
+#define MC_FIELD "uncertainty"
+/* Below this many elements insertion sort beats partitioning. */
+#define HL_SELECT_SMALL 16
+/* Rows kept per sample: abductor force and joint load. */
+#define MC_QUANTITIES 2
+
+struct HlMcWorkspace {
+  size_t max_samples;
+  size_t max_options;
+  double *values;        /* [(row * MC_QUANTITIES + q) * max_samples + sample] */
+  size_t *lower_count;   /* per row: samples with a joint load below native */
+};
+
+HlMcWorkspace *
+hl_mc_workspace_new (size_t max_samples, size_t max_options)
+{
+  if (max_samples == 0 || max_samples > HL_MC_SAMPLES_MAX
+      || max_options > SIZE_MAX / MC_QUANTITIES / HL_MC_SAMPLES_MAX - 1)
+    return NULL;
+
+  HlMcWorkspace *ws = calloc (1, sizeof *ws);
+  if (ws == NULL)
+    return NULL;
+  size_t rows = 1 + max_options;
+  ws->max_samples = max_samples;
+  ws->max_options = max_options;
+  ws->values = malloc (rows * MC_QUANTITIES * max_samples * sizeof *ws->values);
+  ws->lower_count = calloc (rows, sizeof *ws->lower_count);
+  if (ws->values == NULL || ws->lower_count == NULL)
+    {
+      hl_mc_workspace_free (ws);
+      return NULL;
+    }
+  return ws;
+}
+
+void
+hl_mc_workspace_free (HlMcWorkspace *ws)
+{
+  if (ws == NULL)
+    return;
+  free (ws->values);
+  free (ws->lower_count);
+  free (ws);
+}
+
+void
+hl_mc_settings_init (HlMcSettings *s)
+{
+  s->seed = HL_MC_SEED_DEFAULT;
+  s->n_samples = HL_MC_SAMPLES_DEFAULT;
+  s->landmark_sd_mm = HL_MC_LANDMARK_SD_MM_DEFAULT;
+  s->magnification_sd = HL_MC_MAGNIFICATION_SD_DEFAULT;
+  s->magnification = HL_MAGNIFICATION_ASSUMED;
+  s->line_angle_sd_deg = HL_MC_LINE_ANGLE_SD_DEG_DEFAULT;
+}
+
+/* ---- Selection -------------------------------------------------------- */
+
+static inline void
+swap (double *a, ptrdiff_t i, ptrdiff_t j)
+{
+  double t = a[i];
+  a[i] = a[j];
+  a[j] = t;
+}
+
+/* Rearranges a[lo .. hi] (inclusive) so that a[k] holds the value it would
+ * hold sorted, with nothing larger before it and nothing smaller after. */
+static void
+select_kth (double *a, ptrdiff_t lo, ptrdiff_t hi, ptrdiff_t k)
+{
+  while (hi - lo >= HL_SELECT_SMALL)
+    {
+      ptrdiff_t mid = lo + (hi - lo) / 2;
+      if (a[mid] < a[lo]) swap (a, mid, lo);
+      if (a[hi] < a[lo]) swap (a, hi, lo);
+      if (a[hi] < a[mid]) swap (a, hi, mid);
+      const double pivot = a[mid];
+
+      ptrdiff_t i = lo, j = hi;
+      while (i <= j)
+        {
+          while (a[i] < pivot)
+            i++;
+          while (a[j] > pivot)
+            j--;
+          if (i <= j)
+            {
+              swap (a, i, j);
+              i++;
+              j--;
+            }
+        }
+      /* Now a[lo .. j] <= pivot <= a[i .. hi], and a[j+1 .. i-1] == pivot. */
+      if (k <= j)
+        hi = j;
+      else if (k >= i)
+        lo = i;
+      else
+        return;
+    }
+
+  for (ptrdiff_t i = lo + 1; i <= hi; i++)
+    {
+      double v = a[i];
+      ptrdiff_t j = i - 1;
+      while (j >= lo && a[j] > v)
+        {
+          a[j + 1] = a[j];
+          j--;
+        }
+      a[j + 1] = v;
+    }
+}
+
+void
+hl_quantiles_select (double *a, size_t n, const double *probs, size_t n_probs,
+                     double *out)
+{
+  if (n == 0)
+    {
+      for (size_t i = 0; i < n_probs; i++)
+        out[i] = NAN;
+      return;
+    }
+
+  /* Selecting in ascending order confines each search to what is left
+   * above the previous order statistic. */
+  ptrdiff_t lo = 0;
+  const ptrdiff_t last = (ptrdiff_t) n - 1;
+  for (size_t i = 0; i < n_probs; i++)
+    {
+      double p = fmin (fmax (probs[i], 0.0), 1.0);
+      double h = (double) last * p;
+      ptrdiff_t k = (ptrdiff_t) floor (h);
+      double frac = h - (double) k;
+      if (k > last)
+        k = last;
+      if (k < lo)
+        lo = 0;   /* probs not ascending: search everything again */
+      select_kth (a, lo, last, k);
+
+      double next = a[k];
+      if (frac > 0.0 && k < last)
+        {
+          next = a[k + 1];
+          for (ptrdiff_t j = k + 2; j <= last; j++)
+            if (a[j] < next)
+              next = a[j];
+        }
+      out[i] = a[k] + frac * (next - a[k]);
+      lo = k;
+    }
+}
+
+/* ---- Monte Carlo ------------------------------------------------------ */
+
+static HlStatus
+check_sd (double v, double max, const char *what, const char *unit, HlError *err)
+{
+  if (!isfinite (v) || v < 0.0 || v > max)
+    return hl_error_set (err, HL_ERR_INVALID, MC_FIELD,
+                         _("The %s is %g %s: it must be between 0 and %g %s"),
+                         what, v, unit, max, unit);
+  return HL_OK;
+}
+
+static HlStatus
+check_run (const HlMcWorkspace *ws, const HlOption *options, size_t n_options,
+           const HlMcSettings *s, const HlMcSummary *summary, HlError *err)
+{
+  HlStatus st;
+
+  if (ws == NULL || s == NULL || summary == NULL)
+    return hl_error_set (err, HL_ERR_INVALID, MC_FIELD,
+                         _("The uncertainty run lacks its workspace, settings or "
+                           "summary"));
+  if (s->n_samples < 1 || s->n_samples > ws->max_samples)
+    return hl_error_set (err, HL_ERR_INVALID, MC_FIELD,
+                         _("%zu samples asked for; the workspace holds 1 to %zu"),
+                         s->n_samples, ws->max_samples);
+  if (n_options > ws->max_options || (n_options > 0 && options == NULL))
+    return hl_error_set (err, HL_ERR_INVALID, MC_FIELD,
+                         _("%zu options asked for; the workspace holds %zu"),
+                         n_options, ws->max_options);
+  if ((st = check_sd (s->landmark_sd_mm, HL_MC_LANDMARK_SD_MM_MAX,
+                      _("landmark placement error"), "mm", err))
+      || (st = check_sd (s->magnification_sd, HL_MC_MAGNIFICATION_SD_MAX,
+                         _("magnification error"), "", err))
+      || (st = check_sd (s->line_angle_sd_deg, HL_MC_LINE_ANGLE_SD_DEG_MAX,
+                         _("abductor line angle error"), "deg", err)))
+    return st;
+  if (!isfinite (s->magnification) || s->magnification < HL_MAGNIFICATION_MIN
+      || s->magnification > HL_MAGNIFICATION_MAX)
+    return hl_error_set (err, HL_ERR_INVALID, MC_FIELD,
+                         _("The magnification is %g: it must be between %g and %g"),
+                         s->magnification, HL_MAGNIFICATION_MIN,
+                         HL_MAGNIFICATION_MAX);
+  return HL_OK;
+}
+
+/* One sample's geometry into m (other fields as in the base).  False when
+ * the sampled magnification is not positive. */
+static inline bool
+perturb (HlModel *m, const HlModel *base, HlRng *rng, double lsd, double asd,
+         double msd, double mag)
+{
+  HlVec2 o = base->origin, ins = base->insertion, mid = base->midline;
+  HlVec2 u = base->u_fixed;
+
+  if (lsd > 0.0)
+    {
+      const double hx = lsd * hl_rng_normal (rng), hy = lsd * hl_rng_normal (rng);
+      const double ix = lsd * hl_rng_normal (rng), iy = lsd * hl_rng_normal (rng);
+      mid.x += lsd * hl_rng_normal (rng) - hx;
+      mid.y += lsd * hl_rng_normal (rng) - hy;
+      ins.x += ix - hx;
+      ins.y += iy - hy;
+      if (base->angle_mode)
+        {
+          o.x += ix - hx;
+          o.y += iy - hy;
+        }
+      else
+        {
+          o.x += lsd * hl_rng_normal (rng) - hx;
+          o.y += lsd * hl_rng_normal (rng) - hy;
+        }
+    }
+
+  if (asd > 0.0)
+    {
+      const double d = asd * hl_rng_normal (rng);
+      const double c = cos (d), sn = sin (d);
+      const double rx = o.x - ins.x, ry = o.y - ins.y;
+      o.x = ins.x + c * rx - sn * ry;
+      o.y = ins.y + sn * rx + c * ry;
+      if (base->angle_mode)
+        u = (HlVec2) { c * u.x - sn * u.y, sn * u.x + c * u.y };
+    }
+
+  if (msd > 0.0)
+    {
+      const double ms = mag + msd * hl_rng_normal (rng);
+      if (!(ms > 0.0))
+        return false;
+      const double k = mag / ms;
+      o.x *= k; o.y *= k;
+      ins.x *= k; ins.y *= k;
+      mid.x *= k; mid.y *= k;
+    }
+
+  m->origin = o;
+  m->insertion = ins;
+  m->midline = mid;
+  m->u_fixed = u;
+  return true;
+}
+
+HlStatus
+hl_mc_run (HlMcWorkspace *ws, const HlModel *model, const HlOption *options,
+           size_t n_options, const HlMcSettings *s, HlMcSummary *summary,
+           HlMcInfo *info, HlError *err)
+{
+  HlStatus st = check_run (ws, options, n_options, s, summary, err);
+  if (st != HL_OK)
+    return st;
+
+  const size_t rows = 1 + n_options;
+  const size_t n = s->n_samples;
+  const size_t stride = ws->max_samples;
+  const double lsd = s->landmark_sd_mm;
+  const double asd = s->line_angle_sd_deg * DEG;
+  const double msd = s->magnification_sd;
+  double *const values = ws->values;
+  size_t *const lower = ws->lower_count;
+  size_t used = 0, dropped = 0;
+  HlRng rng;
+  HlModel m = *model;
+
+  hl_rng_seed (&rng, s->seed);
+  memset (lower, 0, rows * sizeof *lower);
+
+  for (size_t j = 0; j < n; j++)
+    {
+      bool ok = perturb (&m, model, &rng, lsd, asd, msd, s->magnification);
+      for (size_t row = 0; ok && row < rows; row++)
+        {
+          HlResult r;
+          const HlRecon *recon = row == 0 ? NULL : &options[row - 1].recon;
+          if (hl_model_solve (&m, recon, &r, NULL) != HL_OK)
+            {
+              ok = false;
+              break;
+            }
+          values[(row * MC_QUANTITIES + 0) * stride + used] = r.abductor_force_n;
+          values[(row * MC_QUANTITIES + 1) * stride + used] = r.jrf_n;
+        }
+      if (!ok)
+        {
+          dropped++;
+          continue;
+        }
+      const double native_jrf = values[1 * stride + used];
+      for (size_t row = 1; row < rows; row++)
+        lower[row] += values[(row * MC_QUANTITIES + 1) * stride + used] < native_jrf;
+      used++;
+    }
+
+  if (info != NULL)
+    {
+      info->seed = s->seed;
+      info->n_used = used;
+      info->n_dropped = dropped;
+    }
+  if (used == 0)
+    return hl_error_set (err, HL_ERR_DEGENERATE, MC_FIELD,
+                         _("None of the %zu samples could be solved: the errors "
+                           "are too large for this geometry"), n);
+
+  static const double probs[3] = { HL_MC_P_LOW, HL_MC_P_MID, HL_MC_P_HIGH };
+  const double inv_bw = model->inv_body_weight;
+  for (size_t row = 0; row < rows; row++)
+    {
+      HlMcSummary *out = &summary[row];
+      double q[3];
+
+      hl_quantiles_select (&values[(row * MC_QUANTITIES + 0) * stride], used,
+                           probs, 3, q);
+      out->abductor_force_n = (HlPercentiles) { q[0], q[1], q[2] };
+      out->abductor_force_bw = (HlPercentiles) { q[0] * inv_bw, q[1] * inv_bw,
+                                                 q[2] * inv_bw };
+      hl_quantiles_select (&values[(row * MC_QUANTITIES + 1) * stride], used,
+                           probs, 3, q);
+      out->jrf_n = (HlPercentiles) { q[0], q[1], q[2] };
+      out->jrf_bw = (HlPercentiles) { q[0] * inv_bw, q[1] * inv_bw, q[2] * inv_bw };
+      out->share_lower_jrf = row == 0 ? NAN : (double) lower[row] / (double) used;
+    }
+  return HL_OK;
+}

@@ -1,0 +1,128 @@
+/* hl-uncertainty.h: Monte Carlo ranges of abductor force and joint load.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Each sample perturbs a copy of the prepared model and solves native and
+ * every option with that same perturbation (so the comparison against
+ * native is paired):
+ *
+ *  1. landmark placement: each coordinate of each placed mechanics
+ *     landmark (hip centre, midline point, abductor origin when placed,
+ *     abductor insertion) moves by a normal error of SD landmark_sd_mm; an
+ *     error of the hip centre moves every other point the opposite way in
+ *     the hip-centred solver frame; where the line is set by angle its
+ *     virtual origin moves with the insertion;
+ *  2. abductor line angle: the line turns about the insertion by a normal
+ *     error of SD line_angle_sd_deg;
+ *  3. magnification: a sampled M_s = M + N(0, magnification_sd), and every
+ *     landmark coordinate scales by M / M_s about the hip centre (the
+ *     distances of the hands and all option parameters are true lengths
+ *     and do not scale).
+ *
+ * The teardrops (the midline direction) and the radiographic measures
+ * (flags only) are not perturbed.  A sample in which native or any option
+ * cannot be solved is dropped for all of them and counted.
+ *
+ * Percentiles: definition 7 of Hyndman & Fan 1996 ("Sample quantiles in
+ * statistical packages", Am Stat 50:361-365; the default of R and NumPy):
+ * with the n values sorted x_(0) <= ... <= x_(n-1), h = (n - 1) p and
+ * Q(p) = x_(floor h) + (h - floor h) (x_(floor h + 1) - x_(floor h)).
+ * The order statistics are found by selection (Hoare's FIND, CACM 4:321,
+ * 1961) on the workspace, not by a full sort.
+ */
+#pragma once
+
+#include <stdbool.h>
+#include <stdint.h>
+#include "hl-rng.h"
+#include "hl-solve.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/* The recorded default seed: any fixed number does; this one is ours. */
+#define HL_MC_SEED_DEFAULT UINT64_C (20260417)
+#define HL_MC_SAMPLES_DEFAULT 4000
+#define HL_MC_SAMPLES_MAX 10000000
+/* Landmark placement error, SD of each coordinate: model.md section 7,
+ * an assumption for careful placement on a calibrated AP pelvis. */
+#define HL_MC_LANDMARK_SD_MM_DEFAULT 2.0
+/* Magnification error, SD of M: an estimate.  AP pelvis magnification
+ * ranged 117-123.4% (mean 119.8%) in Brew et al. 2012, J Arthroplasty
+ * 27:643-647; a range of 6.4 points over a modest series is about 3 to 4
+ * SD, so SD 0.016-0.021; we take 0.02. */
+#define HL_MC_MAGNIFICATION_SD_DEFAULT 0.02
+/* Abductor line angle error, SD: an assumption of ours (the resultant
+ * line of a fan-shaped muscle group is not well defined on a radiograph). */
+#define HL_MC_LINE_ANGLE_SD_DEG_DEFAULT 5.0
+/* Upper limits that catch typing errors. */
+#define HL_MC_LANDMARK_SD_MM_MAX 20.0
+#define HL_MC_MAGNIFICATION_SD_MAX 0.2
+#define HL_MC_LINE_ANGLE_SD_DEG_MAX 30.0
+
+typedef struct {
+  uint64_t seed;
+  size_t n_samples;
+  double landmark_sd_mm;
+  double magnification_sd;
+  double magnification;       /* M in use for the plan (HL_MAGNIFICATION_ASSUMED
+                               * without calibration) */
+  double line_angle_sd_deg;
+} HlMcSettings;
+
+/* The defaults above, M = HL_MAGNIFICATION_ASSUMED. */
+void hl_mc_settings_init (HlMcSettings *settings);
+
+typedef struct {
+  double p05;
+  double p50;
+  double p95;
+} HlPercentiles;
+
+#define HL_MC_P_LOW  0.05
+#define HL_MC_P_MID  0.50
+#define HL_MC_P_HIGH 0.95
+
+typedef struct {
+  HlPercentiles abductor_force_n;
+  HlPercentiles abductor_force_bw;
+  HlPercentiles jrf_n;
+  HlPercentiles jrf_bw;
+  /* Share of the used samples in which this option's joint load is below
+   * native's in the same sample; NaN for native itself. */
+  double share_lower_jrf;
+} HlMcSummary;
+
+typedef struct {
+  uint64_t seed;        /* the seed used, for the record */
+  size_t n_used;        /* samples with every row solved */
+  size_t n_dropped;     /* samples dropped because a row could not be solved */
+} HlMcInfo;
+
+typedef struct HlMcWorkspace HlMcWorkspace;
+
+/* Room for up to max_samples samples of native and max_options options.
+ * NULL when out of memory or the sizes are 0 or absurd. */
+HlMcWorkspace *hl_mc_workspace_new (size_t max_samples, size_t max_options);
+void hl_mc_workspace_free (HlMcWorkspace *ws);
+
+/* Runs the Monte Carlo for native and options[0 .. n_options - 1] (as
+ * plan->options, plan->n_options).
+ * `summary` has room for 1 + n_options entries (summary[0] native).
+ * Nothing is allocated; the workspace is overwritten. */
+HlStatus hl_mc_run (HlMcWorkspace *ws, const HlModel *model,
+                    const HlOption *options, size_t n_options,
+                    const HlMcSettings *settings, HlMcSummary *summary,
+                    HlMcInfo *info, HlError *err);
+
+/* Percentiles (Hyndman & Fan definition 7) of a[0 .. n-1], reordering a in
+ * place.  probs ascending in [0, 1]; out gets one value per prob.  NaN
+ * when n is 0. */
+void hl_quantiles_select (double *a, size_t n, const double *probs,
+                          size_t n_probs, double *out);
+
+#ifdef __cplusplus
+}
+#endif
