@@ -11,6 +11,7 @@
 #include "config.h"
 
 #include <locale.h>
+#include <math.h>
 #include <stddef.h>
 #include <stdlib.h>
 #include <string.h>
@@ -457,6 +458,7 @@ print_padded (const char *s, size_t width, bool right)
 }
 
 #define HL_CLI_COLUMN_GAP 2
+#define HL_CLI_NMM_PER_NM 1000.0
 
 static void
 print_context (const char *path, const HlPlan *plan)
@@ -561,7 +563,7 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
                           hl_flag_text ((HlFlag) bit));
           if (bit == HL_FLAG_ABDUCTORS_NOT_NEEDED)
             hl_cli_fprintf (stdout, _(" (unbalanced moment %.3f N m)"),
-                            r->unbalanced_nmm / 1000.0);
+                            fabs (r->unbalanced_nmm) / HL_CLI_NMM_PER_NM);
           hl_cli_fprintf (stdout, "\n");
         }
     }

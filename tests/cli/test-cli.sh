@@ -329,6 +329,22 @@ check "an option name is quoted as RFC 4180 asks" \
 check "the quoted name reads back" \
   [ "$($CHECK field "$WORK/out" 1 option 2>&1)" = 'Stem, "lateral" 6' ]
 
+# ---- muscles only pull --------------------------------------------------------------------
+
+# A heavy bag in the hand on the operated side balances the pelvis alone.
+sed -E 's/(<hand-load [^>]*hand="ipsilateral"[^>]*mass-kg=)"[^"]*"/\1"60"/' \
+  "$DEMO" >"$WORK/heavy.hlplan"
+check "heavy.hlplan differs from the demo" differ "$DEMO" "$WORK/heavy.hlplan"
+run solve "$WORK/heavy.hlplan" --format csv
+expect_rc 0 "solve with a heavy ipsilateral load"
+check "abductors not needed: the flag key" \
+  grep -qE '(^|;)abductors-not-needed(;|$)' <($CHECK field "$WORK/out" 0 flags 2>&1)
+check "abductors not needed: no abductor force" \
+  [ "$($CHECK field "$WORK/out" 0 abductor_force_N 2>&1)" = "0.000" ]
+run solve "$WORK/heavy.hlplan"
+check "abductors not needed: the plain words and the unbalanced moment" \
+  out_has "^  native: .*unbalanced moment [0-9][0-9.]* N m"
+
 # ---- numbers stay in the C locale ------------------------------------------------------
 
 if LC_ALL=de_DE.UTF-8 locale -k decimal_point 2>/dev/null | grep -q '","'; then
