@@ -111,8 +111,8 @@ static const HlCliCommand commands[] = {
        "the exit status is 1."),
     batch_options, 1, -1, cmd_batch },
   { "bench", "[--quick]",
-    N_("Time the solver: one solve, random what-if solves, and loading plan "
-       "files."),
+    N_("Time the core: one solve, random what-if solves, loading plan files, "
+       "a sweep and a Monte Carlo run; each figure with its target."),
     bench_options, 0, 0, cmd_bench },
 };
 

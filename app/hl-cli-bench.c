@@ -17,6 +17,7 @@
 #include <time.h>
 #include <unistd.h>
 
+#include "hl-bench.h"
 #include "hl-i18n.h"
 #include "hl-plan.h"
 #include "hl-plan-io.h"
@@ -33,6 +34,9 @@
 /* Re-preparing costs far more per what-if, so a tenth of the count gives
  * a steady mean. */
 #define HL_BENCH_REPREPARE_DIVISOR    10L
+
+/* Best of this many runs of the sweep and Monte Carlo figures. */
+#define HL_BENCH_ANALYSIS_REPEATS_QUICK 2
 
 /* Targets, printed beside the figures. */
 #define HL_BENCH_SOLVE_TARGET_NS   50.0
@@ -437,6 +441,42 @@ bench_files (const HlPlan *demo, long count)
   return true;
 }
 
+/* 4) and 5): the analysis hot paths, timed by the core (hl-bench.h). */
+static bool
+bench_analysis (bool quick)
+{
+  HlPlan *plan = hl_bench_demo_plan ();
+  HlBenchResult res;
+  HlError err;
+
+  if (plan == NULL)
+    {
+      hl_cli_error (_("bench: out of memory"));
+      return false;
+    }
+  hl_error_clear (&err);
+  HlStatus st = hl_bench_analysis (plan, quick ? HL_BENCH_ANALYSIS_REPEATS_QUICK
+                                               : HL_BENCH_REPEATS_DEFAULT,
+                                   &res, &err);
+  hl_plan_free (plan);
+  if (st != HL_OK)
+    {
+      hl_cli_report_error ("bench", NULL, &err);
+      return false;
+    }
+  hl_cli_fprintf (stdout,
+                  _("4) sweep: %.3f ms for %zu points of native and %zu options, "
+                    "best of %d (target <= %.1f ms)\n"),
+                  res.sweep_ms, res.sweep_steps, res.n_options, res.repeats,
+                  HL_BENCH_SWEEP_TARGET_MS);
+  hl_cli_fprintf (stdout,
+                  _("5) Monte Carlo: %.3f ms for %zu samples of native and %zu "
+                    "options, best of %d (target <= %.1f ms)\n"),
+                  res.mc_ms, res.mc_samples, res.n_options, res.repeats,
+                  HL_BENCH_MC_TARGET_MS);
+  return true;
+}
+
 int
 hl_cli_bench (bool quick)
 {
@@ -460,6 +500,8 @@ hl_cli_bench (bool quick)
   ok = ok && bench_whatif (plan, quick ? HL_BENCH_WHATIFS_QUICK : HL_BENCH_WHATIFS);
   fflush (stdout);
   ok = ok && bench_files (plan, quick ? HL_BENCH_FILES_QUICK : HL_BENCH_FILES);
+  fflush (stdout);
+  ok = ok && bench_analysis (quick);
 
   hl_plan_free (plan);
   return ok ? HL_CLI_EXIT_OK : HL_CLI_EXIT_INVALID;
