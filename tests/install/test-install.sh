@@ -1,0 +1,255 @@
+#!/usr/bin/env bash
+# test-install.sh: install hiplever into a temporary prefix and run it there.
+#
+# Copyright 2026 the hiplever developers
+# SPDX-License-Identifier: GPL-3.0-or-later
+#
+# Usage: test-install.sh SOURCE_DIR VERSION
+#
+# The source tree is copied, configured with --prefix in a temporary
+# directory, built and installed; then the copy and its build directory are
+# deleted, so that the installed programs can only find what the install put
+# under the prefix (the uninstalled fallback to the source data directory is
+# gone).  Prints one line per failure and, last, "install: N passed, M
+# failed, K skipped"; exits non-zero on any failure.
+set -u
+export LC_ALL=C TZ=UTC
+
+if [ $# -ne 2 ]; then
+  echo "usage: $0 SOURCE_DIR VERSION" >&2
+  exit 2
+fi
+SRC=$1
+VERSION=$2
+APP_ID=org.hiplever.Hiplever
+PLAN_MIME=application/x-hiplever-plan
+PLAN_NS=urn:hiplever:plan
+CAUTION_START='Planning aid only'
+# A screenshot of the window is far larger than this; an empty or
+# failed render is not.
+SCREENSHOT_MIN_BYTES=10000
+
+WORK=$(mktemp -d "${TMPDIR:-/tmp}/hiplever-install-test.XXXXXX")
+trap 'rm -rf "$WORK"' EXIT
+COPY=$WORK/src
+BUILD=$WORK/build
+PREFIX=$WORK/prefix
+
+passed=0
+failed=0
+skipped=0
+
+pass () { passed=$((passed + 1)); }
+fail () { failed=$((failed + 1)); echo "FAIL: $*"; }
+skip () { skipped=$((skipped + 1)); echo "SKIP: $*"; }
+check () {
+  local what=$1
+  shift
+  if "$@"; then pass; else fail "$what"; fi
+}
+finish () {
+  echo "install: $passed passed, $failed failed, $skipped skipped"
+  [ "$failed" -eq 0 ]
+  exit
+}
+
+# run LOG ARGS...: runs a command; stdout in $WORK/LOG.out, stderr in
+# $WORK/LOG.err, the exit status in $rc.
+run () {
+  local log=$1
+  shift
+  "$@" >"$WORK/$log.out" 2>"$WORK/$log.err"
+  rc=$?
+}
+show () { sed 's/^/    /' "$WORK/$1.out" "$WORK/$1.err" | tail -n 30; }
+
+# ---- Copy, configure, build, install --------------------------------------
+
+copy_source () {
+  mkdir -p "$COPY"
+  if [ -d "$SRC/.git" ] && command -v git >/dev/null 2>&1; then
+    # Tracked and new files, not the ignored build directories.
+    (cd "$SRC" && git ls-files -z --cached --others --exclude-standard) \
+      | (cd "$SRC" && xargs -0 sh -c 'for f; do [ -f "$f" ] && printf "%s\0" "$f"; done' sh) \
+      | (cd "$SRC" && tar --null -T - -cf -) | (cd "$COPY" && tar -xf -)
+  else
+    (cd "$SRC" && tar --exclude='./build*' --exclude=./.git -cf - .) \
+      | (cd "$COPY" && tar -xf -)
+  fi
+}
+
+start=$(date +%s)
+copy_source
+check "copy the source tree" test -f "$COPY/meson.build"
+
+run setup meson setup "$BUILD" "$COPY" --prefix="$PREFIX" --wrap-mode=nodownload
+if [ "$rc" -ne 0 ]; then
+  fail "meson setup --prefix=$PREFIX (exit $rc)"
+  show setup
+  finish
+fi
+run install meson install -C "$BUILD"
+if [ "$rc" -ne 0 ]; then
+  fail "meson install (exit $rc)"
+  show install
+  finish
+fi
+pass
+echo "configure, build and install took $(( $(date +%s) - start )) s"
+
+# From here on only the prefix exists.
+rm -rf "$COPY" "$BUILD"
+
+BIN=$PREFIX/bin
+SHARE=$PREFIX/share
+PKGDATA=$SHARE/hiplever
+EXAMPLES=$PKGDATA/examples
+CLI=$BIN/hiplever-cli
+GUI=$BIN/hiplever
+
+# ---- The installed files ------------------------------------------------
+
+for f in \
+  "$CLI" \
+  "$PKGDATA/hiplever-plan.xsd" \
+  "$EXAMPLES/demo.hlplan" \
+  "$SHARE/applications/$APP_ID.desktop" \
+  "$SHARE/metainfo/$APP_ID.metainfo.xml" \
+  "$SHARE/mime/packages/$APP_ID.xml" \
+  "$SHARE/icons/hicolor/scalable/apps/$APP_ID.svg" \
+  "$SHARE/icons/hicolor/symbolic/apps/$APP_ID-symbolic.svg" \
+  "$SHARE/man/man1/hiplever-cli.1"
+do
+  check "installed: ${f#"$PREFIX"/}" test -s "$f"
+done
+check "installed: hiplever-cli is executable" test -x "$CLI"
+
+for f in "$SHARE/icons/hicolor/scalable/apps/$APP_ID.svg" \
+         "$SHARE/icons/hicolor/symbolic/apps/$APP_ID-symbolic.svg" \
+         "$SHARE/mime/packages/$APP_ID.xml" \
+         "$PKGDATA/hiplever-plan.xsd"
+do
+  check "well-formed XML: ${f#"$PREFIX"/}" xmllint --noout "$f"
+done
+
+# ---- The installed command line ---------------------------------------------
+
+run version "$CLI" --version
+check "hiplever-cli --version exits 0" test "$rc" -eq 0
+check "hiplever-cli --version names $VERSION" \
+  grep -qx "hiplever-cli $VERSION" "$WORK/version.out"
+
+run solve "$CLI" solve "$EXAMPLES/demo.hlplan"
+if [ "$rc" -eq 0 ]; then pass; else fail "hiplever-cli solve demo.hlplan (exit $rc)"; show solve; fi
+check "solve demo.hlplan: a native column" grep -q 'native' "$WORK/solve.out"
+check "solve demo.hlplan: the joint reaction force" \
+  grep -q '^Joint reaction force (x body weight)  *[0-9]' "$WORK/solve.out"
+check "solve demo.hlplan: the caution" grep -q "$CAUTION_START" "$WORK/solve.out"
+check "solve demo.hlplan: nothing on stderr" test ! -s "$WORK/solve.err"
+
+shopt -s nullglob
+examples=("$EXAMPLES"/*.hlplan)
+shopt -u nullglob
+check "installed examples: at least one" test "${#examples[@]}" -gt 0
+run validate "$CLI" validate "${examples[@]}"
+if [ "$rc" -eq 0 ]; then pass; else fail "hiplever-cli validate every installed example (exit $rc)"; show validate; fi
+check "validate: one line per installed example (${#examples[@]})" \
+  test "$(grep -c ': valid (' "$WORK/validate.out")" -eq "${#examples[@]}"
+
+# The installed schema is the one the summary claims to follow.
+run summary "$CLI" summary "$EXAMPLES/demo.hlplan" -o "$WORK/summary.xml"
+check "hiplever-cli summary demo.hlplan exits 0" test "$rc" -eq 0
+run schema xmllint --noout --schema "$PKGDATA/hiplever-plan.xsd" \
+  "$WORK/summary.xml" "${examples[@]}"
+if [ "$rc" -eq 0 ]; then pass; else fail "summary and examples valid against the installed schema"; show schema; fi
+
+# ---- The manual page --------------------------------------------------------
+
+MAN=$SHARE/man/man1/hiplever-cli.1
+run man groff -man -ww -z "$MAN"
+check "man page formats without warnings" test "$rc" -eq 0 -a ! -s "$WORK/man.err"
+check "man page: no unreplaced @VARIABLE@" test "$(grep -c '@[A-Z_]*@' "$MAN")" -eq 0
+grep '^\.I /' "$MAN" | sed 's/^\.I //' >"$WORK/man-files"
+check "man page: names files under the prefix" test -s "$WORK/man-files"
+while read -r f; do
+  check "man page FILES entry exists: $f" test -e "$f"
+done <"$WORK/man-files"
+check "man page: the caution" grep -q '^hiplever is a planning aid only\.' "$MAN"
+
+# Every subcommand and option the help lists is on the page.
+run help "$CLI" --help
+check "hiplever-cli --help exits 0" test "$rc" -eq 0
+sed -n '/^Subcommands:/,/^Options:/p' "$WORK/help.out" \
+  | sed -n 's/^  \([a-z][a-z-]*\) .*/\1/p; s/^  \([a-z][a-z-]*\)$/\1/p' >"$WORK/subcommands"
+check "hiplever-cli --help lists subcommands" test -s "$WORK/subcommands"
+while read -r sub; do
+  check "man page documents subcommand '$sub'" \
+    grep -Eq "^\.B[IR]? \"?$sub( |\"|\$)" "$MAN"
+done <"$WORK/subcommands"
+grep -o -- '--[a-z][a-z-]*' "$WORK/help.out" | sort -u >"$WORK/options"
+while read -r opt; do
+  check "man page documents option '$opt'" grep -q -- "${opt//-/\\\\-}" "$MAN"
+done <"$WORK/options"
+
+# ---- Desktop entry, software-centre entry, file type --------------------------
+
+if command -v desktop-file-validate >/dev/null 2>&1; then
+  run dfv desktop-file-validate "$SHARE/applications/$APP_ID.desktop"
+  if [ "$rc" -eq 0 ]; then pass; else fail "desktop-file-validate (installed)"; show dfv; fi
+else
+  skip "desktop-file-validate not installed (desktop-file-utils)"
+fi
+if command -v appstreamcli >/dev/null 2>&1; then
+  run asv appstreamcli validate --no-net "$SHARE/metainfo/$APP_ID.metainfo.xml"
+  if [ "$rc" -eq 0 ]; then pass; else fail "appstreamcli validate (installed)"; show asv; fi
+else
+  skip "appstreamcli not installed (appstream)"
+fi
+
+if command -v update-mime-database >/dev/null 2>&1; then
+  run umd update-mime-database "$SHARE/mime"
+  if [ "$rc" -eq 0 ]; then pass; else fail "update-mime-database"; show umd; fi
+  check "MIME glob *.hlplan" \
+    grep -q "^[0-9]*:$PLAN_MIME:\*\.hlplan" "$SHARE/mime/globs2"
+  check "MIME root element <plan> in $PLAN_NS" \
+    grep -q "^$PLAN_NS plan $PLAN_MIME\$" "$SHARE/mime/XMLnamespaces"
+  if command -v gio >/dev/null 2>&1; then
+    mkdir -p "$WORK/xdg-home"
+    run gio env XDG_DATA_HOME="$WORK/xdg-home" XDG_DATA_DIRS="$SHARE:/usr/share" \
+      gio info -a standard::content-type "$EXAMPLES/demo.hlplan"
+    check "gio sees demo.hlplan as $PLAN_MIME" \
+      grep -q "standard::content-type: $PLAN_MIME\$" "$WORK/gio.out"
+  else
+    skip "gio not installed: content type lookup"
+  fi
+else
+  skip "update-mime-database not installed (shared-mime-info)"
+fi
+
+# ---- The installed window -----------------------------------------------------
+
+if [ ! -x "$GUI" ]; then
+  skip "no installed hiplever window program"
+elif ! command -v xvfb-run >/dev/null 2>&1 || ! command -v dbus-run-session >/dev/null 2>&1; then
+  skip "xvfb-run or dbus-run-session missing: window screenshot"
+else
+  mkdir -p "$WORK/xdg-home" "$WORK/xdg-config" "$WORK/xdg-cache"
+  run gui env XDG_DATA_HOME="$WORK/xdg-home" XDG_CONFIG_HOME="$WORK/xdg-config" \
+      XDG_CACHE_HOME="$WORK/xdg-cache" XDG_DATA_DIRS="$SHARE:/usr/share" \
+      GSK_RENDERER=cairo GDK_BACKEND=x11 NO_AT_BRIDGE=1 \
+      timeout 120 dbus-run-session -- xvfb-run -a -s '-screen 0 1280x800x24' \
+      "$GUI" --screenshot="$WORK/shot.png" "$EXAMPLES/demo.hlplan"
+  if [ "$rc" -eq 0 ]; then pass; else fail "hiplever --screenshot (exit $rc)"; show gui; fi
+  check "screenshot written" test -s "$WORK/shot.png"
+  if [ -s "$WORK/shot.png" ]; then
+    check "screenshot is a real image (> $SCREENSHOT_MIN_BYTES bytes)" \
+      test "$(wc -c <"$WORK/shot.png")" -gt "$SCREENSHOT_MIN_BYTES"
+  fi
+  # Anything the window could not find (a resource, the schema, an
+  # example, the icon) shows up as a warning or critical on stderr.
+  check "window: no warnings or criticals" \
+    test "$(grep -Eic 'warning|critical|error' "$WORK/gui.err")" -eq 0
+  if [ "$(grep -Eic 'warning|critical|error' "$WORK/gui.err")" -ne 0 ]; then show gui; fi
+fi
+
+finish
