@@ -1,0 +1,146 @@
+#!/bin/sh
+# Builds the fuzz targets with clang (libFuzzer, AddressSanitizer,
+# UndefinedBehaviorSanitizer) straight from the core sources and runs them.
+#
+#   sh tests/fuzz/run-fuzz.sh [--seconds N] [--target load|core|all]
+#                             [--workdir DIR] [--config-h FILE]
+#
+# --seconds   run time of each target (default 30: the CI short run of
+#             about 60 s for both)
+# --workdir   where objects, the growing corpus and crash files go
+#             (default /tmp/hiplever-fuzz); reused between runs, so a long
+#             run keeps its corpus
+# --config-h  the build's config.h (default: a minimal one written here)
+#
+# Seeds: data/examples/*.hlplan and tests/fuzz/regressions/load for the
+# loader; tests/fuzz/corpus/core and tests/fuzz/regressions/core for the
+# core.  The seed folders are only read.  A crashing input is left in
+# WORKDIR/artifacts-TARGET/; copy it into tests/fuzz/regressions/TARGET/ so
+# that the replay test (suite core) keeps it.
+#
+# Needs clang and its runtime (Debian 12: clang libclang-rt-14-dev).  When
+# they are missing the script exits 77, which meson reports as a skip.
+set -eu
+
+here=$(cd "$(dirname "$0")/../.." && pwd)
+seconds=30
+target=all
+workdir=/tmp/hiplever-fuzz
+config_h=""
+
+while [ $# -gt 0 ]; do
+  case "$1" in
+  --seconds) seconds=$2; shift 2 ;;
+  --target) target=$2; shift 2 ;;
+  --workdir) workdir=$2; shift 2 ;;
+  --config-h) config_h=$2; shift 2 ;;
+  *) echo "run-fuzz: unknown argument $1" >&2; exit 2 ;;
+  esac
+done
+case "$target" in
+load|core) targets=$target ;;
+all) targets="load core" ;;
+*) echo "run-fuzz: --target must be load, core or all" >&2; exit 2 ;;
+esac
+case "$seconds" in
+''|*[!0-9]*) echo "run-fuzz: --seconds must be a whole number" >&2; exit 2 ;;
+esac
+
+cc=${FUZZ_CC:-clang}
+mkdir -p "$workdir"
+cd "$workdir"
+
+if ! command -v "$cc" >/dev/null 2>&1; then
+  echo "run-fuzz: $cc not found: apt-get install clang libclang-rt-14-dev" >&2
+  exit 77
+fi
+printf 'int LLVMFuzzerTestOneInput(const char *d, unsigned long n)\n{ return d && n; }\n' > probe.c
+if ! "$cc" -fsanitize=fuzzer,address,undefined probe.c -o probe 2>probe.log; then
+  echo "run-fuzz: $cc cannot build a libFuzzer target: apt-get install libclang-rt-14-dev" >&2
+  cat probe.log >&2
+  exit 77
+fi
+
+if [ -n "$config_h" ]; then
+  cp "$config_h" config.h
+else
+  version=$(sed -n "s/^ *version: *'\([^']*\)'.*/\1/p" "$here/meson.build" | head -n 1)
+  cat > config.h <<EOF
+#pragma once
+#define PACKAGE_VERSION "$version"
+#define GETTEXT_PACKAGE "hiplever"
+#define APP_ID "org.hiplever.Hiplever"
+#define HL_PKGDATADIR "/usr/local/share/hiplever"
+#define HL_LOCALEDIR "/usr/local/share/locale"
+#define HL_SOURCE_DATADIR "$here/data"
+EOF
+fi
+python3 "$here/core/embed-text.py" "$here/data/hiplever-plan.xsd" hl-schema-data.c hl_schema_data
+
+# An XML dictionary from the schema's names, so that the loader target
+# builds well-formed plans quickly.
+{
+  for tok in '<?xml version="1.0" encoding="UTF-8"?>' '<!DOCTYPE' '<!ENTITY' \
+             'SYSTEM' '<![CDATA[' ']]>' '&amp;' '&#x0;' 'xmlns=' 'urn:hiplever:plan' \
+             'encoding="UTF-16"' '="' '">' '</' '/>' 'nan' 'inf' '-0' '1e308' \
+             '0x1p-1074' 'true' 'false' 'right' 'left'; do
+    printf '"%s"\n' "$(printf '%s' "$tok" | sed 's/\\/\\\\/g; s/"/\\"/g')"
+  done
+  grep -o 'name="[^"]*"' "$here/data/hiplever-plan.xsd" | sed 's/name="\([^"]*\)"/\1/' \
+    | sort -u | while read -r n; do
+      printf '"<%s"\n"%s=\\""\n' "$n" "$n"
+    done
+} > plan.dict
+
+xml_cflags=$(pkg-config --cflags libxml-2.0)
+xml_libs=$(pkg-config --libs libxml-2.0)
+flags="-std=c17 -g -O1 -fno-omit-frame-pointer -D_POSIX_C_SOURCE=200809L -D_DEFAULT_SOURCE
+       -Wall -Wextra -Wno-unused-parameter -Wno-missing-field-initializers
+       -fno-sanitize-recover=undefined"
+objs=""
+for src in "$here"/core/hl-*.c hl-schema-data.c; do
+  obj=$(basename "$src" .c).o
+  # shellcheck disable=SC2086
+  nice -n 10 "$cc" $flags -fsanitize=fuzzer-no-link,address,undefined -I. -I"$here/core" \
+    $xml_cflags -c "$src" -o "$obj"
+  objs="$objs $obj"
+done
+for t in $targets; do
+  # shellcheck disable=SC2086
+  nice -n 10 "$cc" $flags -fsanitize=fuzzer,address,undefined -I. -I"$here/core" \
+    -I"$here/tests/fuzz" $xml_cflags "$here/tests/fuzz/hl-fuzz-$t.c" $objs \
+    $xml_libs -lm -o "fuzz-$t"
+done
+
+status=0
+for t in $targets; do
+  mkdir -p "corpus-$t" "artifacts-$t"
+  case $t in
+  load)
+    seeds="$here/tests/fuzz/regressions/load"
+    [ -d "$here/data/examples" ] && seeds="$seeds $here/data/examples"
+    extra="-dict=plan.dict -max_len=65536"
+    ;;
+  core)
+    seeds="$here/tests/fuzz/corpus/core $here/tests/fuzz/regressions/core"
+    extra="-max_len=2048"
+    ;;
+  esac
+  echo "run-fuzz: $t for $seconds s"
+  # -rss_limit_mb and -timeout make a memory blow-up or a hang a finding.
+  # shellcheck disable=SC2086
+  if LC_ALL=C TZ=UTC ASAN_OPTIONS=detect_leaks=1 \
+     UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
+     nice -n 10 "./fuzz-$t" -max_total_time="$seconds" -timeout=10 -rss_limit_mb=512 \
+       -print_final_stats=1 -artifact_prefix="artifacts-$t/" \
+       $extra "corpus-$t" $seeds > "fuzz-$t.log" 2>&1; then
+    result="no crash, hang or leak"
+  else
+    result="FAILED: see $workdir/fuzz-$t.log and $workdir/artifacts-$t/"
+    status=1
+    tail -n 60 "fuzz-$t.log" >&2
+  fi
+  execs=$(sed -n 's/^stat::number_of_executed_units: *//p' "fuzz-$t.log" | tail -n 1)
+  echo "run-fuzz: $t: ${execs:-?} executions, corpus $(ls "corpus-$t" | wc -l) files: $result"
+done
+exit $status
