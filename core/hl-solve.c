@@ -149,7 +149,7 @@ hl_model_prepare (HlModel *m, const HlPlan *plan, HlError *err)
   m->lean_mm = plan->model.lean_mm;
 
   m->cane_n = hl_plan_cane_force (plan);
-  m->cane_dx = plan->cane.hand == HL_HAND_CONTRALATERAL
+  m->cane_dx = m->cane_n == 0.0 ? 0.0 : plan->cane.hand == HL_HAND_CONTRALATERAL
                ? -plan->cane.distance_mm : plan->cane.distance_mm;
   for (int h = 0; h < 2; h++)
     {
