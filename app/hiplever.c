@@ -1,0 +1,28 @@
+/* hiplever.c: the desktop program.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <locale.h>
+#include <glib/gi18n.h>
+
+#include "hl-application.h"
+
+int
+main (int argc, char *argv[])
+{
+  gint64 start_us = g_get_monotonic_time ();
+  g_autoptr(HlApplication) app = NULL;
+  int status;
+
+  setlocale (LC_ALL, "");
+  bindtextdomain (GETTEXT_PACKAGE, HL_LOCALEDIR);
+  bind_textdomain_codeset (GETTEXT_PACKAGE, "UTF-8");
+  textdomain (GETTEXT_PACKAGE);
+
+  app = hl_application_new (start_us);
+  status = g_application_run (G_APPLICATION (app), argc, argv);
+  return status != 0 ? status : hl_application_get_exit_status (app);
+}

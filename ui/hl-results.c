@@ -1,0 +1,431 @@
+/* hl-results.c
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#define G_LOG_DOMAIN "hl-results"
+
+#include <math.h>
+#include <string.h>
+#include <glib/gi18n.h>
+
+#include "hl-results.h"
+
+/* A native figure this close to zero has no meaningful change in %. */
+#define HL_RESULTS_PERCENT_MIN_BASE 1e-9
+
+typedef double (*HlResultGetter) (const HlResult *res);
+
+typedef struct {
+  const char *key;
+  const char *label;
+  const char *unit;
+  int digits;
+  gboolean percent;   /* FALSE for rows that are already changes */
+  HlResultGetter get;
+} HlResultRow;
+
+static double get_abductor_arm (const HlResult *r) { return r->abductor_arm_mm; }
+static double get_bw_arm (const HlResult *r) { return r->bw_arm_mm; }
+static double get_lever_ratio (const HlResult *r) { return r->lever_ratio; }
+static double get_abductor_n (const HlResult *r) { return r->abductor_force_n; }
+static double get_abductor_bw (const HlResult *r) { return r->abductor_force_bw; }
+static double get_jrf_n (const HlResult *r) { return r->jrf_n; }
+static double get_jrf_bw (const HlResult *r) { return r->jrf_bw; }
+static double get_jrf_angle (const HlResult *r) { return hl_result_jrf_angle_deg (r); }
+static double get_global_offset (const HlResult *r) { return r->global_offset_change_mm; }
+static double get_leg_length (const HlResult *r) { return r->leg_length_change_mm; }
+static double get_abductor_length (const HlResult *r) { return r->abductor_length_change_mm; }
+
+static const HlResultRow rows[] = {
+  { "abductor-moment-arm", N_("Abductor moment arm"), N_("mm"), 1, TRUE, get_abductor_arm },
+  { "body-weight-moment-arm", N_("Body-weight moment arm"), N_("mm"), 1, TRUE, get_bw_arm },
+  { "lever-ratio", N_("Lever ratio (weight : abductor)"), "", 2, TRUE, get_lever_ratio },
+  { "abductor-force-n", N_("Abductor force"), N_("N"), 0, TRUE, get_abductor_n },
+  { "abductor-force-bw", N_("Abductor force"), N_("× BW"), 2, TRUE, get_abductor_bw },
+  { "joint-reaction-force-n", N_("Joint reaction force"), N_("N"), 0, TRUE, get_jrf_n },
+  { "joint-reaction-force-bw", N_("Joint reaction force"), N_("× BW"), 2, TRUE, get_jrf_bw },
+  { "joint-force-angle", N_("Joint force angle from vertical"), N_("°"), 1, TRUE, get_jrf_angle },
+  { "global-offset-change", N_("Global offset change"), N_("mm"), 1, FALSE, get_global_offset },
+  { "leg-length-change", N_("Leg length change"), N_("mm"), 1, FALSE, get_leg_length },
+  { "abductor-length-change", N_("Abductor length change"), N_("mm"), 1, FALSE, get_abductor_length },
+};
+
+#define N_ROWS G_N_ELEMENTS (rows)
+#define HEADER_ROW 0
+#define FIRST_VALUE_ROW 1
+#define FLAGS_ROW (FIRST_VALUE_ROW + (int) N_ROWS)
+#define FIRST_COLUMN 2   /* after the quantity and its unit */
+
+typedef struct {
+  GtkWidget *header;
+  GtkWidget *value[N_ROWS];
+  GtkWidget *change[N_ROWS];
+  GtkWidget *flags;
+  GtkWidget *error;
+} HlResultsColumn;
+
+struct _HlResults {
+  GtkWidget parent_instance;
+
+  GtkWidget *grid;
+  GArray *columns;   /* of HlResultsColumn */
+  int selected;      /* option index, -1 none */
+};
+
+G_DEFINE_FINAL_TYPE (HlResults, hl_results, GTK_TYPE_WIDGET)
+
+size_t
+hl_results_solve (const HlPlan *plan, HlSolved *out)
+{
+  HlModel model;
+  HlError err;
+  HlStatus st;
+  size_t n = 1 + plan->n_options;
+
+  hl_error_clear (&err);
+  st = hl_model_prepare (&model, plan, &err);
+  for (size_t i = 0; i < n; i++)
+    {
+      HlSolved *s = &out[i];
+
+      memset (&s->result, 0, sizeof s->result);
+      hl_error_clear (&s->error);
+      if (st != HL_OK)
+        {
+          s->status = st;
+          s->error = err;
+          continue;
+        }
+      s->status = hl_model_solve (&model,
+                                  i == 0 ? NULL : &plan->options[i - 1].recon,
+                                  &s->result, &s->error);
+    }
+  return n;
+}
+
+static char *
+format_value (const HlResultRow *row, double v)
+{
+  if (!isfinite (v))
+    return g_strdup (_("not measured"));
+  if (row->percent)
+    return g_strdup_printf ("%.*f", row->digits, v);
+  return g_strdup_printf ("%+.*f", row->digits, v);
+}
+
+static char *
+format_change (const HlResultRow *row, double v, double native)
+{
+  if (!row->percent || !isfinite (v) || !isfinite (native))
+    return g_strdup ("");
+  if (fabs (native) < HL_RESULTS_PERCENT_MIN_BASE)
+    return g_strdup ("(—)");
+  return g_strdup_printf ("(%+.1f %%)", 100.0 * (v - native) / native);
+}
+
+static char *
+format_flags (unsigned flags)
+{
+  GString *s = g_string_new (NULL);
+
+  for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
+    {
+      if ((flags & bit) == 0)
+        continue;
+      if (s->len > 0)
+        g_string_append_c (s, '\n');
+      g_string_append_printf (s, "• %s", _(hl_flag_text ((HlFlag) bit)));
+    }
+  if (s->len == 0)
+    g_string_append (s, _("No flags"));
+  return g_string_free (s, FALSE);
+}
+
+static char *
+format_error (const HlSolved *s)
+{
+  const char *msg = s->error.message[0] != '\0'
+                    ? s->error.message : hl_status_name (s->status);
+
+  if (s->error.field[0] != '\0')
+    return g_strdup_printf (_("Cannot solve: %s (%s)"), msg, s->error.field);
+  return g_strdup_printf (_("Cannot solve: %s"), msg);
+}
+
+static GtkWidget *
+make_label (const char *css, float xalign)
+{
+  GtkWidget *label = gtk_label_new (NULL);
+
+  gtk_label_set_xalign (GTK_LABEL (label), xalign);
+  if (css != NULL)
+    gtk_widget_add_css_class (label, css);
+  return label;
+}
+
+static void
+hl_results_clear_columns (HlResults *self)
+{
+  for (guint c = 0; c < self->columns->len; c++)
+    {
+      HlResultsColumn *col = &g_array_index (self->columns, HlResultsColumn, c);
+
+      gtk_grid_remove (GTK_GRID (self->grid), col->header);
+      for (guint r = 0; r < N_ROWS; r++)
+        {
+          gtk_grid_remove (GTK_GRID (self->grid), col->value[r]);
+          gtk_grid_remove (GTK_GRID (self->grid), col->change[r]);
+        }
+      gtk_grid_remove (GTK_GRID (self->grid), col->flags);
+      gtk_grid_remove (GTK_GRID (self->grid), col->error);
+    }
+  g_array_set_size (self->columns, 0);
+}
+
+static void
+hl_results_build_columns (HlResults *self, size_t n)
+{
+  GtkGrid *grid = GTK_GRID (self->grid);
+
+  hl_results_clear_columns (self);
+  for (size_t c = 0; c < n; c++)
+    {
+      HlResultsColumn col;
+      int x = FIRST_COLUMN + 2 * (int) c;
+
+      col.header = make_label ("results-header", 0.0f);
+      gtk_label_set_ellipsize (GTK_LABEL (col.header), PANGO_ELLIPSIZE_END);
+      gtk_label_set_width_chars (GTK_LABEL (col.header), 12);
+      gtk_grid_attach (grid, col.header, x, HEADER_ROW, 2, 1);
+      for (guint r = 0; r < N_ROWS; r++)
+        {
+          col.value[r] = make_label ("results-value", 1.0f);
+          gtk_label_set_width_chars (GTK_LABEL (col.value[r]), 7);
+          gtk_grid_attach (grid, col.value[r], x, FIRST_VALUE_ROW + (int) r, 1, 1);
+          col.change[r] = make_label ("results-change", 0.0f);
+          gtk_label_set_width_chars (GTK_LABEL (col.change[r]), 9);
+          gtk_grid_attach (grid, col.change[r], x + 1, FIRST_VALUE_ROW + (int) r, 1, 1);
+        }
+      col.flags = make_label ("results-flags", 0.0f);
+      gtk_label_set_wrap (GTK_LABEL (col.flags), TRUE);
+      gtk_label_set_max_width_chars (GTK_LABEL (col.flags), 22);
+      gtk_widget_set_valign (col.flags, GTK_ALIGN_START);
+      gtk_grid_attach (grid, col.flags, x, FLAGS_ROW, 2, 1);
+      col.error = make_label ("results-error", 0.0f);
+      gtk_label_set_wrap (GTK_LABEL (col.error), TRUE);
+      gtk_label_set_max_width_chars (GTK_LABEL (col.error), 22);
+      gtk_widget_set_valign (col.error, GTK_ALIGN_START);
+      gtk_grid_attach (grid, col.error, x, FIRST_VALUE_ROW, 2, (int) N_ROWS + 1);
+      gtk_widget_set_visible (col.error, FALSE);
+      g_array_append_val (self->columns, col);
+    }
+  hl_results_set_selected_option (self, self->selected);
+}
+
+void
+hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
+                   size_t n)
+{
+  g_return_if_fail (HL_IS_RESULTS (self));
+
+  if (self->columns->len != n)
+    hl_results_build_columns (self, n);
+
+  for (size_t c = 0; c < n; c++)
+    {
+      HlResultsColumn *col = &g_array_index (self->columns, HlResultsColumn, c);
+      const HlSolved *s = &solved[c];
+      gboolean ok = s->status == HL_OK;
+
+      if (c == 0)
+        gtk_label_set_text (GTK_LABEL (col->header), _("Native"));
+      else
+        gtk_label_set_text (GTK_LABEL (col->header), plan->options[c - 1].name);
+
+      for (guint r = 0; r < N_ROWS; r++)
+        {
+          gtk_widget_set_visible (col->value[r], ok);
+          gtk_widget_set_visible (col->change[r], ok);
+          if (!ok)
+            continue;
+
+          double v = rows[r].get (&s->result);
+          g_autofree char *value = format_value (&rows[r], v);
+          g_autofree char *change = NULL;
+
+          if (c > 0 && solved[0].status == HL_OK)
+            change = format_change (&rows[r], v, rows[r].get (&solved[0].result));
+          gtk_label_set_text (GTK_LABEL (col->value[r]), value);
+          gtk_label_set_text (GTK_LABEL (col->change[r]), change != NULL ? change : "");
+        }
+
+      gtk_widget_set_visible (col->flags, ok);
+      gtk_widget_set_visible (col->error, !ok);
+      if (ok)
+        {
+          g_autofree char *flags = format_flags (s->result.flags);
+
+          gtk_label_set_text (GTK_LABEL (col->flags), flags);
+          if (s->result.flags != 0)
+            gtk_widget_add_css_class (col->flags, "flagged");
+          else
+            gtk_widget_remove_css_class (col->flags, "flagged");
+        }
+      else
+        {
+          g_autofree char *msg = format_error (s);
+
+          gtk_label_set_text (GTK_LABEL (col->error), msg);
+        }
+    }
+}
+
+void
+hl_results_set_selected_option (HlResults *self, int index)
+{
+  g_return_if_fail (HL_IS_RESULTS (self));
+
+  self->selected = index;
+  for (guint c = 0; c < self->columns->len; c++)
+    {
+      HlResultsColumn *col = &g_array_index (self->columns, HlResultsColumn, c);
+
+      if ((int) c - 1 == index)
+        gtk_widget_add_css_class (col->header, "selected-column");
+      else
+        gtk_widget_remove_css_class (col->header, "selected-column");
+    }
+}
+
+static void
+csv_append_field (GString *s, const char *text)
+{
+  if (strpbrk (text, ",\"\n") == NULL)
+    {
+      g_string_append (s, text);
+      return;
+    }
+  g_string_append_c (s, '"');
+  for (const char *p = text; *p != '\0'; p++)
+    {
+      if (*p == '"')
+        g_string_append_c (s, '"');
+      g_string_append_c (s, *p);
+    }
+  g_string_append_c (s, '"');
+}
+
+char *
+hl_results_format_csv (const HlPlan *plan, const HlSolved *solved, size_t n)
+{
+  GString *s = g_string_new ("quantity,unit,native");
+
+  for (size_t c = 1; c < n; c++)
+    {
+      g_string_append_c (s, ',');
+      csv_append_field (s, plan->options[c - 1].name);
+    }
+  g_string_append_c (s, '\n');
+
+  for (guint r = 0; r < N_ROWS; r++)
+    {
+      g_string_append_printf (s, "%s,", rows[r].key);
+      csv_append_field (s, rows[r].unit);
+      for (size_t c = 0; c < n; c++)
+        {
+          g_autofree char *cell = NULL;
+
+          g_string_append_c (s, ',');
+          if (solved[c].status == HL_OK)
+            cell = format_value (&rows[r], rows[r].get (&solved[c].result));
+          else
+            cell = format_error (&solved[c]);
+          csv_append_field (s, cell);
+        }
+      g_string_append_c (s, '\n');
+    }
+
+  g_string_append (s, "flags,");
+  for (size_t c = 0; c < n; c++)
+    {
+      char buf[256];
+
+      g_string_append_c (s, ',');
+      if (solved[c].status == HL_OK)
+        csv_append_field (s, hl_flags_format (solved[c].result.flags, ";",
+                                              buf, sizeof buf));
+    }
+  g_string_append_c (s, '\n');
+  return g_string_free (s, FALSE);
+}
+
+static void
+hl_results_dispose (GObject *object)
+{
+  HlResults *self = HL_RESULTS (object);
+
+  g_clear_pointer (&self->grid, gtk_widget_unparent);
+  G_OBJECT_CLASS (hl_results_parent_class)->dispose (object);
+}
+
+static void
+hl_results_finalize (GObject *object)
+{
+  HlResults *self = HL_RESULTS (object);
+
+  g_array_unref (self->columns);
+  G_OBJECT_CLASS (hl_results_parent_class)->finalize (object);
+}
+
+static void
+hl_results_class_init (HlResultsClass *klass)
+{
+  GObjectClass *object_class = G_OBJECT_CLASS (klass);
+  GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
+
+  object_class->dispose = hl_results_dispose;
+  object_class->finalize = hl_results_finalize;
+  gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
+  gtk_widget_class_set_css_name (widget_class, "hlresults");
+}
+
+static void
+hl_results_init (HlResults *self)
+{
+  GtkGrid *grid;
+
+  self->columns = g_array_new (FALSE, TRUE, sizeof (HlResultsColumn));
+  self->selected = -1;
+  self->grid = gtk_grid_new ();
+  grid = GTK_GRID (self->grid);
+  gtk_grid_set_column_spacing (grid, 6);
+  gtk_grid_set_row_spacing (grid, 2);
+  gtk_widget_set_parent (self->grid, GTK_WIDGET (self));
+
+  for (guint r = 0; r < N_ROWS; r++)
+    {
+      GtkWidget *label = make_label ("results-quantity", 0.0f);
+      GtkWidget *unit = make_label ("results-unit", 0.0f);
+
+      gtk_label_set_text (GTK_LABEL (label), _(rows[r].label));
+      gtk_label_set_text (GTK_LABEL (unit), rows[r].unit[0] != '\0' ? _(rows[r].unit) : "");
+      gtk_grid_attach (grid, label, 0, FIRST_VALUE_ROW + (int) r, 1, 1);
+      gtk_grid_attach (grid, unit, 1, FIRST_VALUE_ROW + (int) r, 1, 1);
+    }
+  {
+    GtkWidget *label = make_label ("results-quantity", 0.0f);
+
+    gtk_label_set_text (GTK_LABEL (label), _("Flags"));
+    gtk_widget_set_valign (label, GTK_ALIGN_START);
+    gtk_grid_attach (grid, label, 0, FLAGS_ROW, 2, 1);
+  }
+}
+
+GtkWidget *
+hl_results_new (void)
+{
+  return g_object_new (HL_TYPE_RESULTS, NULL);
+}

@@ -1,0 +1,46 @@
+/* hl-results.h: the results table, native and every option side by side.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Columns are native and each reconstruction option; rows are the
+ * quantities the core computes, each with its change against native in per
+ * cent, then the plain-word flags.  A column whose solve failed shows the
+ * error in plain words where its numbers would be.  Numbers follow the
+ * process locale.
+ */
+#pragma once
+
+#include <gtk/gtk.h>
+#include "hl-solve.h"
+
+G_BEGIN_DECLS
+
+/* One solved column: native (index 0) or option index - 1. */
+typedef struct {
+  HlStatus status;
+  HlError error;
+  HlResult result;
+} HlSolved;
+
+/* Solves native and every option with the core; `out` has room for
+ * 1 + plan->n_options.  Returns the number of columns filled. */
+size_t hl_results_solve (const HlPlan *plan, HlSolved *out);
+
+#define HL_TYPE_RESULTS (hl_results_get_type ())
+G_DECLARE_FINAL_TYPE (HlResults, hl_results, HL, RESULTS, GtkWidget)
+
+GtkWidget *hl_results_new (void);
+/* `solved` holds 1 + plan->n_options columns; copied as text, not kept. */
+void hl_results_update (HlResults *self, const HlPlan *plan,
+                        const HlSolved *solved, size_t n);
+/* Highlights an option's column (-1: none). */
+void hl_results_set_selected_option (HlResults *self, int index);
+
+/* The table as CSV text, each number formatted exactly as the window shows
+ * it (without the change in per cent): a header "quantity,unit,native,..."
+ * then one line per quantity and a "flags" line of flag keys.  For tests. */
+char *hl_results_format_csv (const HlPlan *plan, const HlSolved *solved,
+                             size_t n);
+
+G_END_DECLS

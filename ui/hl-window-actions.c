@@ -1,0 +1,518 @@
+/* hl-window-actions.c: the window's actions, files and the guard against
+ * losing unsaved changes.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#define G_LOG_DOMAIN "hl-window-actions"
+
+#include <glib/gi18n.h>
+
+#include "hl-plan-io.h"
+#include "hl-window-private.h"
+
+#define HL_AFTER_KEY "hl-after-guard"
+#define HL_ZOOM_STEP 1.25
+
+static void hl_window_save_as (HlWindow *self, HlAfterGuard then);
+static void hl_window_show_open_chooser (HlWindow *self);
+
+/* ---- helpers -------------------------------------------------------- */
+
+static void
+continue_after_guard (HlWindow *self, HlAfterGuard then)
+{
+  switch (then)
+    {
+    case HL_AFTER_CLOSE:
+      self->close_confirmed = TRUE;
+      gtk_window_close (GTK_WINDOW (self));
+      break;
+    case HL_AFTER_OPEN:
+      hl_window_show_open_chooser (self);
+      break;
+    case HL_AFTER_NOTHING:
+    default:
+      break;
+    }
+}
+
+static gboolean
+save_to (HlWindow *self, GFile *file)
+{
+  g_autofree char *path = g_file_get_path (file);
+  HlError err;
+
+  hl_error_clear (&err);
+  if (path == NULL)
+    hl_error_set (&err, HL_ERR_IO, "file", "%s", _("only local files can be saved"));
+  else
+    hl_plan_save_file (self->plan, path, &err);
+
+  if (err.status != HL_OK)
+    {
+      g_autofree char *name = g_file_get_parse_name (file);
+      g_autofree char *primary = g_strdup_printf (_("Could not save “%s”"), name);
+      g_autofree char *msg = hl_window_format_error (&err);
+      g_autofree char *secondary = g_strdup_printf (_("%s\n\nThe plan is still open with its changes; nothing was lost."), msg);
+
+      hl_window_show_error (self, primary, secondary);
+      return FALSE;
+    }
+
+  g_set_object (&self->file, file);
+  self->saved_revision = self->revision;
+  hl_window_plan_edited (self);
+  return TRUE;
+}
+
+static GtkFileFilter *
+filter_new (const char *name, const char *pattern, const char *pattern2)
+{
+  GtkFileFilter *filter = gtk_file_filter_new ();
+
+  gtk_file_filter_set_name (filter, name);
+  gtk_file_filter_add_pattern (filter, pattern);
+  if (pattern2 != NULL)
+    gtk_file_filter_add_pattern (filter, pattern2);
+  return filter;
+}
+
+static void
+set_chooser (HlWindow *self, GtkFileChooserNative *chooser)
+{
+  if (self->chooser != NULL)
+    {
+      gtk_native_dialog_destroy (self->chooser);
+      g_clear_object (&self->chooser);
+    }
+  self->chooser = GTK_NATIVE_DIALOG (chooser);
+}
+
+static GFile *
+take_chooser_file (HlWindow *self, GtkNativeDialog *dialog, int response)
+{
+  GFile *file = NULL;
+
+  if (response == GTK_RESPONSE_ACCEPT)
+    file = gtk_file_chooser_get_file (GTK_FILE_CHOOSER (dialog));
+  if (self->chooser == dialog)
+    {
+      gtk_native_dialog_destroy (dialog);
+      g_clear_object (&self->chooser);
+    }
+  return file;
+}
+
+/* Adds `ext` when the name typed has no extension of that kind. */
+static GFile *
+with_extension (GFile *file, const char *ext)
+{
+  g_autofree char *base = g_file_get_basename (file);
+  g_autoptr(GFile) parent = NULL;
+  g_autofree char *name = NULL;
+
+  if (base == NULL || g_str_has_suffix (base, ext))
+    return g_object_ref (file);
+  parent = g_file_get_parent (file);
+  name = g_strconcat (base, ext, NULL);
+  return parent != NULL ? g_file_get_child (parent, name) : g_file_new_for_path (name);
+}
+
+static char *
+suggested_name (HlWindow *self, const char *suffix)
+{
+  const char *label = self->plan->label[0] != '\0' ? self->plan->label : _("case");
+  g_autofree char *safe = g_strdup (label);
+
+  g_strdelimit (safe, "/\\:", '-');
+  return g_strconcat (safe, suffix, NULL);
+}
+
+/* ---- open ----------------------------------------------------------- */
+
+static void
+open_response_cb (GtkNativeDialog *dialog, int response, HlWindow *self)
+{
+  g_autoptr(GFile) file = take_chooser_file (self, dialog, response);
+
+  if (file != NULL)
+    hl_window_load_file (self, file, TRUE, NULL);
+}
+
+static void
+hl_window_show_open_chooser (HlWindow *self)
+{
+  GtkFileChooserNative *chooser;
+  g_autoptr(GtkFileFilter) both = filter_new (_("Plans and planning summaries"),
+                                              "*" HL_PLAN_FILE_EXTENSION, "*.xml");
+  g_autoptr(GtkFileFilter) plans = filter_new (_("Plans (*.hlplan)"),
+                                               "*" HL_PLAN_FILE_EXTENSION, NULL);
+  g_autoptr(GtkFileFilter) summaries = filter_new (_("Planning summaries (*.xml)"),
+                                                   "*.xml", NULL);
+
+  chooser = gtk_file_chooser_native_new (_("Open a Plan"), GTK_WINDOW (self),
+                                         GTK_FILE_CHOOSER_ACTION_OPEN,
+                                         _("_Open"), _("_Cancel"));
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), both);
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), plans);
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), summaries);
+  gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (chooser), TRUE);
+  g_signal_connect_object (chooser, "response", G_CALLBACK (open_response_cb), self, 0);
+  set_chooser (self, chooser);
+  gtk_native_dialog_show (GTK_NATIVE_DIALOG (chooser));
+}
+
+/* ---- the guard ------------------------------------------------------ */
+
+static void
+guard_response_cb (GtkDialog *dialog, int response, HlWindow *self)
+{
+  HlAfterGuard then = GPOINTER_TO_INT (g_object_get_data (G_OBJECT (dialog), HL_AFTER_KEY));
+
+  self->guard_dialog = NULL;
+  gtk_window_destroy (GTK_WINDOW (dialog));
+
+  switch (response)
+    {
+    case GTK_RESPONSE_ACCEPT:
+      if (self->file == NULL)
+        hl_window_save_as (self, then);
+      else if (save_to (self, self->file))
+        continue_after_guard (self, then);
+      break;
+    case GTK_RESPONSE_REJECT:
+      continue_after_guard (self, then);
+      break;
+    default:
+      break;
+    }
+}
+
+static void
+hl_window_guard (HlWindow *self, HlAfterGuard then)
+{
+  GtkWidget *dialog;
+  const char *label = self->plan->label[0] != '\0' ? self->plan->label : _("Untitled case");
+
+  if (!hl_window_is_modified (self) || self->skip_close_guard)
+    {
+      continue_after_guard (self, then);
+      return;
+    }
+  if (self->guard_dialog != NULL)
+    {
+      gtk_window_present (GTK_WINDOW (self->guard_dialog));
+      return;
+    }
+
+  dialog = gtk_message_dialog_new (GTK_WINDOW (self),
+                                   GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
+                                   GTK_MESSAGE_QUESTION, GTK_BUTTONS_NONE,
+                                   then == HL_AFTER_OPEN
+                                   ? _("Save the changes to “%s” before opening another plan?")
+                                   : _("Save the changes to “%s” before closing?"),
+                                   label);
+  gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog), "%s",
+                                            _("Changes that are not saved will be lost."));
+  gtk_dialog_add_buttons (GTK_DIALOG (dialog),
+                          _("_Cancel"), GTK_RESPONSE_CANCEL,
+                          _("_Discard"), GTK_RESPONSE_REJECT,
+                          _("_Save"), GTK_RESPONSE_ACCEPT,
+                          NULL);
+  gtk_dialog_set_default_response (GTK_DIALOG (dialog), GTK_RESPONSE_ACCEPT);
+  g_object_set_data (G_OBJECT (dialog), HL_AFTER_KEY, GINT_TO_POINTER (then));
+  g_signal_connect_object (dialog, "response", G_CALLBACK (guard_response_cb), self, 0);
+  self->guard_dialog = dialog;
+  gtk_window_present (GTK_WINDOW (dialog));
+}
+
+gboolean
+hl_window_close_request (HlWindow *self)
+{
+  if (self->close_confirmed || self->skip_close_guard || !hl_window_is_modified (self))
+    {
+      hl_window_write_dump (self);
+      return FALSE;
+    }
+  hl_window_guard (self, HL_AFTER_CLOSE);
+  return TRUE;
+}
+
+/* ---- save ----------------------------------------------------------- */
+
+static void
+save_as_response_cb (GtkNativeDialog *dialog, int response, HlWindow *self)
+{
+  HlAfterGuard then = GPOINTER_TO_INT (g_object_get_data (G_OBJECT (dialog), HL_AFTER_KEY));
+  g_autoptr(GFile) chosen = take_chooser_file (self, dialog, response);
+  g_autoptr(GFile) file = NULL;
+
+  if (chosen == NULL)
+    return;
+  file = with_extension (chosen, HL_PLAN_FILE_EXTENSION);
+  if (save_to (self, file))
+    continue_after_guard (self, then);
+}
+
+static void
+hl_window_save_as (HlWindow *self, HlAfterGuard then)
+{
+  GtkFileChooserNative *chooser;
+  g_autoptr(GtkFileFilter) plans = filter_new (_("Plans (*.hlplan)"),
+                                               "*" HL_PLAN_FILE_EXTENSION, NULL);
+  g_autofree char *name = suggested_name (self, HL_PLAN_FILE_EXTENSION);
+
+  chooser = gtk_file_chooser_native_new (_("Save the Plan"), GTK_WINDOW (self),
+                                         GTK_FILE_CHOOSER_ACTION_SAVE,
+                                         _("_Save"), _("_Cancel"));
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), plans);
+  if (self->file != NULL)
+    gtk_file_chooser_set_file (GTK_FILE_CHOOSER (chooser), self->file, NULL);
+  else
+    gtk_file_chooser_set_current_name (GTK_FILE_CHOOSER (chooser), name);
+  gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (chooser), TRUE);
+  g_object_set_data (G_OBJECT (chooser), HL_AFTER_KEY, GINT_TO_POINTER (then));
+  g_signal_connect_object (chooser, "response", G_CALLBACK (save_as_response_cb), self, 0);
+  set_chooser (self, chooser);
+  gtk_native_dialog_show (GTK_NATIVE_DIALOG (chooser));
+}
+
+static void
+export_response_cb (GtkNativeDialog *dialog, int response, HlWindow *self)
+{
+  g_autoptr(GFile) chosen = take_chooser_file (self, dialog, response);
+  g_autoptr(GFile) file = NULL;
+  g_autofree char *path = NULL;
+  HlError err;
+
+  if (chosen == NULL)
+    return;
+  file = with_extension (chosen, ".xml");
+  path = g_file_get_path (file);
+  hl_error_clear (&err);
+  if (path == NULL)
+    hl_error_set (&err, HL_ERR_IO, "file", "%s", _("only local files can be written"));
+  else
+    hl_summary_save_file (self->plan, path, &err);
+  if (err.status != HL_OK)
+    {
+      g_autofree char *name = g_file_get_parse_name (file);
+      g_autofree char *primary = g_strdup_printf (_("Could not export the planning summary to “%s”"), name);
+      g_autofree char *msg = hl_window_format_error (&err);
+
+      hl_window_show_error (self, primary, msg);
+      return;
+    }
+  {
+    g_autofree char *name = g_file_get_parse_name (file);
+    g_autofree char *text = g_strdup_printf (_("Planning summary written to %s"), name);
+
+    gtk_label_set_text (self->status_label, text);
+  }
+}
+
+/* ---- options -------------------------------------------------------- */
+
+void
+hl_window_add_option (HlWindow *self)
+{
+  g_autofree char *name = NULL;
+  long index;
+
+  for (unsigned k = (unsigned) self->plan->n_options + 1; name == NULL; k++)
+    {
+      g_autofree char *candidate = g_strdup_printf (_("Option %u"), k);
+      gboolean used = FALSE;
+
+      for (size_t i = 0; i < self->plan->n_options && !used; i++)
+        used = g_strcmp0 (self->plan->options[i].name, candidate) == 0;
+      if (!used)
+        name = g_steal_pointer (&candidate);
+    }
+  hl_undo_break (self->undo);
+  if (!hl_window_begin_edit (self, NULL))
+    return;
+  index = hl_plan_add_option (self->plan, name, NULL);
+  if (index < 0)
+    {
+      hl_window_show_error (self, _("Out of memory"), _("The option was not added."));
+      return;
+    }
+  hl_window_plan_edited (self);
+  hl_window_select_option (self, (int) index);
+}
+
+void
+hl_window_duplicate_option (HlWindow *self)
+{
+  long index;
+
+  if (self->selected_option < 0)
+    return;
+  hl_undo_break (self->undo);
+  if (!hl_window_begin_edit (self, NULL))
+    return;
+  index = hl_plan_duplicate_option (self->plan, (size_t) self->selected_option);
+  if (index < 0)
+    {
+      hl_window_show_error (self, _("Out of memory"), _("The option was not duplicated."));
+      return;
+    }
+  hl_window_plan_edited (self);
+  hl_window_select_option (self, (int) index);
+}
+
+void
+hl_window_remove_option (HlWindow *self)
+{
+  int index = self->selected_option;
+
+  if (index < 0 || (size_t) index >= self->plan->n_options)
+    return;
+  hl_undo_break (self->undo);
+  if (!hl_window_begin_edit (self, NULL))
+    return;
+  hl_plan_remove_option (self->plan, (size_t) index);
+  if ((size_t) index >= self->plan->n_options)
+    index = (int) self->plan->n_options - 1;
+  hl_window_plan_edited (self);
+  hl_window_select_option (self, index);
+}
+
+/* ---- undo ----------------------------------------------------------- */
+
+static void
+after_history_step (HlWindow *self)
+{
+  hl_window_panel_sync (self);
+  hl_window_select_option (self, self->selected_option);
+  hl_window_plan_edited (self);
+}
+
+void
+hl_window_undo (HlWindow *self)
+{
+  if (hl_undo_undo (self->undo, self->plan, &self->revision))
+    after_history_step (self);
+}
+
+void
+hl_window_redo (HlWindow *self)
+{
+  if (hl_undo_redo (self->undo, self->plan, &self->revision))
+    after_history_step (self);
+}
+
+/* ---- action callbacks ----------------------------------------------- */
+
+static void
+open_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  hl_window_guard (HL_WINDOW (widget), HL_AFTER_OPEN);
+}
+
+static void
+save_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  HlWindow *self = HL_WINDOW (widget);
+
+  if (self->file == NULL)
+    hl_window_save_as (self, HL_AFTER_NOTHING);
+  else
+    save_to (self, self->file);
+}
+
+static void
+save_as_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  hl_window_save_as (HL_WINDOW (widget), HL_AFTER_NOTHING);
+}
+
+static void
+export_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  HlWindow *self = HL_WINDOW (widget);
+  GtkFileChooserNative *chooser;
+  g_autoptr(GtkFileFilter) filter = filter_new (_("Planning summaries (*.xml)"), "*.xml", NULL);
+  g_autofree char *suggested = suggested_name (self, "-summary.xml");
+
+  chooser = gtk_file_chooser_native_new (_("Export the Planning Summary"), GTK_WINDOW (self),
+                                         GTK_FILE_CHOOSER_ACTION_SAVE,
+                                         _("_Export"), _("_Cancel"));
+  gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), filter);
+  gtk_file_chooser_set_current_name (GTK_FILE_CHOOSER (chooser), suggested);
+  gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (chooser), TRUE);
+  g_signal_connect_object (chooser, "response", G_CALLBACK (export_response_cb), self, 0);
+  set_chooser (self, chooser);
+  gtk_native_dialog_show (GTK_NATIVE_DIALOG (chooser));
+}
+
+static void
+undo_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  hl_window_undo (HL_WINDOW (widget));
+}
+
+static void
+redo_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  hl_window_redo (HL_WINDOW (widget));
+}
+
+static void
+fit_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  hl_canvas_fit (HL_WINDOW (widget)->canvas);
+}
+
+static void
+zoom_in_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  hl_canvas_zoom_by (HL_WINDOW (widget)->canvas, HL_ZOOM_STEP);
+}
+
+static void
+zoom_out_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  hl_canvas_zoom_by (HL_WINDOW (widget)->canvas, 1.0 / HL_ZOOM_STEP);
+}
+
+static void
+add_option_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  hl_window_add_option (HL_WINDOW (widget));
+}
+
+static void
+duplicate_option_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  hl_window_duplicate_option (HL_WINDOW (widget));
+}
+
+static void
+remove_option_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  hl_window_remove_option (HL_WINDOW (widget));
+}
+
+void
+hl_window_actions_class_init (GtkWidgetClass *widget_class)
+{
+  gtk_widget_class_install_action (widget_class, "win.open", NULL, open_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.save", NULL, save_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.save-as", NULL, save_as_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.export-summary", NULL, export_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.undo", NULL, undo_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.redo", NULL, redo_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.fit-view", NULL, fit_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.zoom-in", NULL, zoom_in_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.zoom-out", NULL, zoom_out_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.add-option", NULL, add_option_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.duplicate-option", NULL,
+                                   duplicate_option_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.remove-option", NULL,
+                                   remove_option_action_cb);
+}

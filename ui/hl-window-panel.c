@@ -1,0 +1,804 @@
+/* hl-window-panel.c: the side panel (case, landmarks, options, aids).
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Every control writes straight into the plan after recording an undo step
+ * and then takes the one recompute path, hl_window_plan_edited().
+ */
+#include "config.h"
+
+#define G_LOG_DOMAIN "hl-window-panel"
+
+#include <math.h>
+#include <stddef.h>
+#include <glib/gi18n.h>
+
+#include "hl-window-private.h"
+
+/* The international avoirdupois pound, exactly. */
+#define HL_KG_PER_LB 0.45359237
+
+/* Control ranges of our own where the core has no limit to borrow. */
+#define HL_LIMB_FRACTION_MIN 0.05
+#define HL_LIMB_FRACTION_MAX 0.35
+#define HL_LINE_ANGLE_MIN_DEG 10.0
+#define HL_LINE_ANGLE_MAX_DEG 90.0
+#define HL_CAPACITY_MAX_NM_PER_KG 4.0
+#define HL_PERCENT_BW_MAX 100.0
+
+#define HL_LANDMARK_ID_KEY "hl-landmark-id"
+
+/* A spin button that edits one double of the plan directly. */
+typedef struct {
+  size_t widget_offset;   /* of the GtkSpinButton * in HlWindow */
+  const char *field;      /* undo coalescing key */
+  size_t plan_offset;     /* of the double in HlPlan */
+  double lower, upper, step, page;
+} HlSpinBinding;
+
+static const HlSpinBinding spin_bindings[] = {
+  { G_STRUCT_OFFSET (HlWindow, limb_custom_spin), "limb-fraction",
+    offsetof (HlPlan, model.limb_fraction_custom),
+    HL_LIMB_FRACTION_MIN, HL_LIMB_FRACTION_MAX, 0.001, 0.01 },
+  { G_STRUCT_OFFSET (HlWindow, abductor_angle_spin), "abductor-angle",
+    offsetof (HlPlan, model.abductor_angle_deg),
+    HL_LINE_ANGLE_MIN_DEG, HL_LINE_ANGLE_MAX_DEG, 0.5, 5.0 },
+  { G_STRUCT_OFFSET (HlWindow, lean_spin), "lean",
+    offsetof (HlPlan, model.lean_mm), HL_LEAN_MIN_MM, HL_LEAN_MAX_MM, 0.5, 5.0 },
+  { G_STRUCT_OFFSET (HlWindow, capacity_spin), "capacity",
+    offsetof (HlPlan, capacity.torque_nm_per_kg), 0.0, HL_CAPACITY_MAX_NM_PER_KG,
+    0.01, 0.1 },
+  { G_STRUCT_OFFSET (HlWindow, cane_distance_spin), "cane-distance",
+    offsetof (HlPlan, cane.distance_mm), 0.0, HL_DISTANCE_MAX_MM, 5.0, 50.0 },
+  { G_STRUCT_OFFSET (HlWindow, load_contra_mass_spin), "load-contra-mass",
+    offsetof (HlPlan, loads.hand[HL_HAND_CONTRALATERAL].mass_kg),
+    0.0, HL_HAND_LOAD_MAX_KG, 0.5, 5.0 },
+  { G_STRUCT_OFFSET (HlWindow, load_contra_distance_spin), "load-contra-distance",
+    offsetof (HlPlan, loads.hand[HL_HAND_CONTRALATERAL].distance_mm),
+    0.0, HL_DISTANCE_MAX_MM, 5.0, 50.0 },
+  { G_STRUCT_OFFSET (HlWindow, load_ipsi_mass_spin), "load-ipsi-mass",
+    offsetof (HlPlan, loads.hand[HL_HAND_IPSILATERAL].mass_kg),
+    0.0, HL_HAND_LOAD_MAX_KG, 0.5, 5.0 },
+  { G_STRUCT_OFFSET (HlWindow, load_ipsi_distance_spin), "load-ipsi-distance",
+    offsetof (HlPlan, loads.hand[HL_HAND_IPSILATERAL].distance_mm),
+    0.0, HL_DISTANCE_MAX_MM, 5.0, 50.0 },
+  { G_STRUCT_OFFSET (HlWindow, load_midline_spin), "load-midline",
+    offsetof (HlPlan, loads.midline_kg), 0.0, HL_HAND_LOAD_MAX_KG, 0.5, 5.0 },
+};
+
+/* A dropdown whose position is one enum of the plan. */
+typedef struct {
+  size_t widget_offset;
+  size_t plan_offset;     /* of the enum in HlPlan */
+} HlDropBinding;
+
+static const HlDropBinding drop_bindings[] = {
+  { G_STRUCT_OFFSET (HlWindow, bw_line_drop), offsetof (HlPlan, model.bw_line) },
+  { G_STRUCT_OFFSET (HlWindow, abductor_mode_drop), offsetof (HlPlan, model.abductor_line) },
+  { G_STRUCT_OFFSET (HlWindow, cane_hand_drop), offsetof (HlPlan, cane.hand) },
+};
+
+/* The reconstruction parameters, in the order of the option panel. */
+typedef struct {
+  const char *key;
+  const char *label;
+  const char *unit;
+  const char *sense;
+  size_t offset;          /* of the double in HlRecon */
+  double lower, upper;
+} HlReconParam;
+
+static const HlReconParam recon_params[HL_RECON_N_PARAMS] = {
+  { "cup-medial", N_("Cup medialisation"), N_("mm"), N_("+ medial"),
+    offsetof (HlRecon, cup_medial_mm), -HL_RECON_LINEAR_MAX_MM, HL_RECON_LINEAR_MAX_MM },
+  { "cup-superior", N_("Cup height"), N_("mm"), N_("+ superior"),
+    offsetof (HlRecon, cup_superior_mm), -HL_RECON_LINEAR_MAX_MM, HL_RECON_LINEAR_MAX_MM },
+  { "femoral-offset", N_("Femoral offset change"), N_("mm"), N_("+ lateral"),
+    offsetof (HlRecon, femoral_offset_mm), -HL_RECON_LINEAR_MAX_MM, HL_RECON_LINEAR_MAX_MM },
+  { "femoral-length", N_("Femoral length change"), N_("mm"), N_("+ longer"),
+    offsetof (HlRecon, femoral_length_mm), -HL_RECON_LINEAR_MAX_MM, HL_RECON_LINEAR_MAX_MM },
+  { "head-length", N_("Head length change"), N_("mm"), N_("+ longer neck"),
+    offsetof (HlRecon, head_length_mm), -HL_RECON_LINEAR_MAX_MM, HL_RECON_LINEAR_MAX_MM },
+  { "neck-shaft-angle", N_("Neck-shaft angle"), N_("°"), N_("for the head length"),
+    offsetof (HlRecon, neck_shaft_angle_deg), HL_NECK_SHAFT_MIN_DEG, HL_NECK_SHAFT_MAX_DEG },
+};
+
+static inline GtkWidget *
+widget_at (HlWindow *self, size_t offset)
+{
+  return G_STRUCT_MEMBER (GtkWidget *, self, offset);
+}
+
+static inline double *
+plan_double (HlPlan *plan, size_t offset)
+{
+  return (double *) ((char *) plan + offset);
+}
+
+static inline int *
+plan_enum (HlPlan *plan, size_t offset)
+{
+  return (int *) ((char *) plan + offset);
+}
+
+static HlOption *
+selected_option (HlWindow *self)
+{
+  if (self->selected_option < 0
+      || (size_t) self->selected_option >= self->plan->n_options)
+    return NULL;
+  return &self->plan->options[self->selected_option];
+}
+
+static void
+set_spin (GtkSpinButton *spin, double value)
+{
+  if (isfinite (value) && gtk_spin_button_get_value (spin) != value)
+    gtk_spin_button_set_value (spin, value);
+}
+
+/* ---- case ----------------------------------------------------------- */
+
+static void
+sync_mass (HlWindow *self)
+{
+  double factor = self->use_pounds ? 1.0 / HL_KG_PER_LB : 1.0;
+
+  gtk_spin_button_set_range (self->mass_spin, HL_MASS_MIN_KG * factor,
+                             HL_MASS_MAX_KG * factor);
+  set_spin (self->mass_spin, self->plan->mass_kg * factor);
+}
+
+static double
+cane_value_max (HlForceUnit unit)
+{
+  switch (unit)
+    {
+    case HL_FORCE_UNIT_N:
+      return HL_MASS_MAX_KG * HL_GRAVITY;
+    case HL_FORCE_UNIT_PERCENT_BW:
+      return HL_PERCENT_BW_MAX;
+    case HL_FORCE_UNIT_KG:
+    default:
+      return HL_MASS_MAX_KG;
+    }
+}
+
+static void
+sync_cane_value (HlWindow *self)
+{
+  gtk_spin_button_set_range (self->cane_value_spin, 0.0,
+                             cane_value_max (self->plan->cane.unit));
+  set_spin (self->cane_value_spin, self->plan->cane.value);
+}
+
+static void
+label_changed_cb (GtkEditable *editable, HlWindow *self)
+{
+  const char *text = gtk_editable_get_text (editable);
+
+  if (self->syncing > 0 || g_strcmp0 (text, self->plan->label) == 0)
+    return;
+  if (!hl_window_begin_edit (self, "label"))
+    return;
+  g_strlcpy (self->plan->label, text, sizeof self->plan->label);
+  hl_window_plan_edited (self);
+}
+
+static void
+mass_changed_cb (GtkSpinButton *spin, HlWindow *self)
+{
+  double kg = gtk_spin_button_get_value (spin)
+              * (self->use_pounds ? HL_KG_PER_LB : 1.0);
+
+  if (self->syncing > 0 || !hl_window_begin_edit (self, "mass"))
+    return;
+  self->plan->mass_kg = kg;
+  hl_window_plan_edited (self);
+}
+
+static void
+mass_unit_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
+{
+  self->use_pounds = gtk_drop_down_get_selected (drop) == 1;
+  self->syncing++;
+  sync_mass (self);
+  self->syncing--;
+}
+
+static void
+side_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
+{
+  HlSide side = gtk_drop_down_get_selected (drop) == 1 ? HL_SIDE_LEFT : HL_SIDE_RIGHT;
+
+  if (self->syncing > 0 || side == self->plan->side)
+    return;
+  hl_undo_break (self->undo);
+  if (!hl_window_begin_edit (self, NULL))
+    return;
+  hl_plan_mirror (self->plan);
+  hl_window_panel_sync (self);
+  hl_window_plan_edited (self);
+  hl_canvas_fit (self->canvas);
+}
+
+static void
+limb_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
+{
+  guint table = gtk_drop_down_get_selected (drop);
+
+  gtk_widget_set_sensitive (GTK_WIDGET (self->limb_custom_spin),
+                            table == HL_LIMB_CUSTOM);
+  if (self->syncing > 0 || table >= HL_LIMB_N
+      || table == (guint) self->plan->model.limb_table)
+    return;
+  hl_undo_break (self->undo);
+  if (!hl_window_begin_edit (self, NULL))
+    return;
+  self->plan->model.limb_table = (HlLimbTable) table;
+  hl_window_plan_edited (self);
+}
+
+static void
+spin_binding_cb (GtkSpinButton *spin, gpointer user_data)
+{
+  const HlSpinBinding *b = user_data;
+  HlWindow *self = HL_WINDOW (gtk_widget_get_root (GTK_WIDGET (spin)));
+  double value = gtk_spin_button_get_value (spin);
+  double *target = plan_double (self->plan, b->plan_offset);
+
+  if (self->syncing > 0 || *target == value)
+    return;
+  if (!hl_window_begin_edit (self, b->field))
+    return;
+  *target = value;
+  hl_window_plan_edited (self);
+}
+
+static void
+drop_binding_cb (GtkDropDown *drop, GParamSpec *pspec, gpointer user_data)
+{
+  const HlDropBinding *b = user_data;
+  HlWindow *self = HL_WINDOW (gtk_widget_get_root (GTK_WIDGET (drop)));
+  int value = (int) gtk_drop_down_get_selected (drop);
+  int *target = plan_enum (self->plan, b->plan_offset);
+
+  if (self->syncing > 0 || *target == value)
+    return;
+  hl_undo_break (self->undo);
+  if (!hl_window_begin_edit (self, NULL))
+    return;
+  *target = value;
+  hl_window_plan_edited (self);
+}
+
+/* ---- aids ----------------------------------------------------------- */
+
+static void
+cane_toggled_cb (GtkCheckButton *check, HlWindow *self)
+{
+  gboolean on = gtk_check_button_get_active (check);
+
+  if (self->syncing > 0 || on == self->plan->cane.enabled)
+    return;
+  hl_undo_break (self->undo);
+  if (!hl_window_begin_edit (self, NULL))
+    return;
+  self->plan->cane.enabled = on;
+  hl_window_plan_edited (self);
+}
+
+static void
+cane_value_cb (GtkSpinButton *spin, HlWindow *self)
+{
+  double value = gtk_spin_button_get_value (spin);
+
+  if (self->syncing > 0 || value == self->plan->cane.value)
+    return;
+  if (!hl_window_begin_edit (self, "cane-value"))
+    return;
+  self->plan->cane.value = value;
+  hl_window_plan_edited (self);
+}
+
+/* The same force in the new unit, so changing the unit changes nothing. */
+static void
+cane_unit_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
+{
+  HlForceUnit unit = (HlForceUnit) gtk_drop_down_get_selected (drop);
+  HlCane *cane = &self->plan->cane;
+  double newtons;
+
+  if (self->syncing > 0 || unit == cane->unit)
+    return;
+  hl_undo_break (self->undo);
+  if (!hl_window_begin_edit (self, NULL))
+    return;
+  newtons = hl_force_to_newtons (cane->value, cane->unit, self->plan->mass_kg);
+  cane->unit = unit;
+  cane->value = hl_force_from_newtons (newtons, unit, self->plan->mass_kg);
+  self->syncing++;
+  sync_cane_value (self);
+  self->syncing--;
+  hl_window_plan_edited (self);
+}
+
+/* ---- landmarks ------------------------------------------------------ */
+
+static HlLandmarkId
+row_landmark (GtkWidget *widget)
+{
+  return (HlLandmarkId) GPOINTER_TO_INT (g_object_get_data (G_OBJECT (widget),
+                                                            HL_LANDMARK_ID_KEY));
+}
+
+static void
+landmark_coord_cb (GtkSpinButton *spin, HlWindow *self)
+{
+  HlLandmarkId id = row_landmark (GTK_WIDGET (spin));
+  const HlLandmarkInfo *info = hl_landmark_info (id);
+  HlLandmarks *lm = &self->plan->landmarks;
+  double x = gtk_spin_button_get_value (self->lm_x[id]);
+  double y = gtk_spin_button_get_value (self->lm_y[id]);
+  g_autofree char *field = NULL;
+
+  if (self->syncing > 0)
+    return;
+  if (hl_landmarks_has (lm, id) && lm->p[id].x == x && lm->p[id].y == y)
+    return;
+  field = g_strdup_printf ("landmark %s %c", info->key,
+                           spin == self->lm_x[id] ? 'x' : 'y');
+  if (!hl_window_begin_edit (self, field))
+    return;
+  hl_landmarks_set (lm, id, x, y);
+  hl_window_panel_sync_landmark (self, id);
+  hl_window_plan_edited (self);
+}
+
+static void
+landmark_placed_cb (GtkCheckButton *check, HlWindow *self)
+{
+  HlLandmarkId id = row_landmark (GTK_WIDGET (check));
+  HlLandmarks *lm = &self->plan->landmarks;
+  gboolean on = gtk_check_button_get_active (check);
+
+  if (self->syncing > 0 || on == hl_landmarks_has (lm, id))
+    return;
+  hl_undo_break (self->undo);
+  if (!hl_window_begin_edit (self, NULL))
+    return;
+  if (on)
+    hl_landmarks_set (lm, id, gtk_spin_button_get_value (self->lm_x[id]),
+                      gtk_spin_button_get_value (self->lm_y[id]));
+  else
+    hl_landmarks_unset (lm, id);
+  hl_window_panel_sync_landmark (self, id);
+  hl_window_plan_edited (self);
+}
+
+static void
+show_landmark_hint (HlWindow *self, int id)
+{
+  if (id < 0 || id >= HL_LM_COUNT)
+    {
+      gtk_label_set_text (self->landmark_hint_label,
+                          _("Select a landmark to see where it goes."));
+      return;
+    }
+  {
+    const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) id);
+    g_autofree char *text = g_strdup_printf ("%s: %s", _(info->label), _(info->hint));
+
+    gtk_label_set_text (self->landmark_hint_label, text);
+  }
+}
+
+static void
+landmark_row_selected_cb (GtkListBox *list, GtkListBoxRow *row, HlWindow *self)
+{
+  int id = row != NULL ? (int) row_landmark (GTK_WIDGET (row)) : -1;
+
+  show_landmark_hint (self, id);
+  if (self->syncing > 0)
+    return;
+  if (hl_canvas_get_selected_landmark (self->canvas) != id)
+    hl_canvas_set_selected_landmark (self->canvas, id);
+}
+
+static GtkSpinButton *
+landmark_spin (HlWindow *self, HlLandmarkId id, const char *axis_label)
+{
+  GtkWidget *spin = gtk_spin_button_new_with_range (-HL_COORD_MAX_MM,
+                                                    HL_COORD_MAX_MM, 0.5);
+
+  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (spin), 1);
+  gtk_spin_button_set_increments (GTK_SPIN_BUTTON (spin), 0.5, 5.0);
+  gtk_editable_set_width_chars (GTK_EDITABLE (spin), 6);
+  gtk_widget_set_valign (spin, GTK_ALIGN_CENTER);
+  gtk_accessible_update_property (GTK_ACCESSIBLE (spin),
+                                  GTK_ACCESSIBLE_PROPERTY_LABEL, axis_label, -1);
+  g_object_set_data (G_OBJECT (spin), HL_LANDMARK_ID_KEY, GINT_TO_POINTER (id));
+  g_signal_connect_object (spin, "value-changed",
+                           G_CALLBACK (landmark_coord_cb), self, 0);
+  return GTK_SPIN_BUTTON (spin);
+}
+
+static void
+build_landmark_rows (HlWindow *self)
+{
+  g_autoptr(GtkSizeGroup) names = gtk_size_group_new (GTK_SIZE_GROUP_HORIZONTAL);
+  GtkWidget *header = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
+  const char *titles[] = { N_("Landmark"), N_("x (mm)"), N_("y (mm)"), N_("Placed") };
+
+  for (guint i = 0; i < G_N_ELEMENTS (titles); i++)
+    {
+      GtkWidget *title = gtk_label_new (_(titles[i]));
+
+      gtk_widget_add_css_class (title, "heading");
+      gtk_label_set_xalign (GTK_LABEL (title), 0.0f);
+      if (i == 0)
+        {
+          gtk_size_group_add_widget (names, title);
+          gtk_widget_set_hexpand (title, TRUE);
+        }
+      else if (i < 3)
+        gtk_label_set_width_chars (GTK_LABEL (title), 9);
+      gtk_box_append (GTK_BOX (header), title);
+    }
+  gtk_widget_add_css_class (header, "landmark-header");
+  gtk_list_box_set_placeholder (self->landmark_list, NULL);
+  gtk_list_box_prepend (self->landmark_list, header);
+  gtk_list_box_row_set_selectable (GTK_LIST_BOX_ROW (gtk_widget_get_parent (header)), FALSE);
+  gtk_list_box_row_set_activatable (GTK_LIST_BOX_ROW (gtk_widget_get_parent (header)), FALSE);
+
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      HlLandmarkId id = (HlLandmarkId) i;
+      const HlLandmarkInfo *info = hl_landmark_info (id);
+      GtkWidget *box = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
+      GtkWidget *names_box = gtk_box_new (GTK_ORIENTATION_VERTICAL, 0);
+      GtkWidget *name = gtk_label_new (_(info->label));
+      GtkWidget *kind = gtk_label_new (info->required ? _("required") : _("optional"));
+      GtkWidget *placed = gtk_check_button_new ();
+      GtkWidget *row;
+
+      gtk_label_set_xalign (GTK_LABEL (name), 0.0f);
+      gtk_label_set_wrap (GTK_LABEL (name), TRUE);
+      gtk_label_set_xalign (GTK_LABEL (kind), 0.0f);
+      gtk_widget_add_css_class (kind, "caption");
+      gtk_widget_add_css_class (kind, info->required ? "required" : "dim-label");
+      gtk_box_append (GTK_BOX (names_box), name);
+      gtk_box_append (GTK_BOX (names_box), kind);
+      gtk_widget_set_hexpand (names_box, TRUE);
+      gtk_widget_set_valign (names_box, GTK_ALIGN_CENTER);
+      gtk_size_group_add_widget (names, names_box);
+      gtk_box_append (GTK_BOX (box), names_box);
+
+      self->lm_x[i] = landmark_spin (self, id, _("x (mm)"));
+      self->lm_y[i] = landmark_spin (self, id, _("y (mm)"));
+      gtk_box_append (GTK_BOX (box), GTK_WIDGET (self->lm_x[i]));
+      gtk_box_append (GTK_BOX (box), GTK_WIDGET (self->lm_y[i]));
+
+      g_object_set_data (G_OBJECT (placed), HL_LANDMARK_ID_KEY, GINT_TO_POINTER (id));
+      gtk_widget_set_valign (placed, GTK_ALIGN_CENTER);
+      gtk_accessible_update_property (GTK_ACCESSIBLE (placed),
+                                      GTK_ACCESSIBLE_PROPERTY_LABEL, _("Placed"), -1);
+      g_signal_connect_object (placed, "toggled",
+                               G_CALLBACK (landmark_placed_cb), self, 0);
+      self->lm_placed[i] = GTK_CHECK_BUTTON (placed);
+      gtk_box_append (GTK_BOX (box), placed);
+
+      row = gtk_list_box_row_new ();
+      gtk_list_box_row_set_child (GTK_LIST_BOX_ROW (row), box);
+      gtk_widget_set_tooltip_text (row, _(info->hint));
+      g_object_set_data (G_OBJECT (row), HL_LANDMARK_ID_KEY, GINT_TO_POINTER (id));
+      gtk_list_box_append (self->landmark_list, row);
+      self->lm_row[i] = row;
+    }
+  g_signal_connect_object (self->landmark_list, "row-selected",
+                           G_CALLBACK (landmark_row_selected_cb), self, 0);
+  show_landmark_hint (self, -1);
+}
+
+void
+hl_window_panel_sync_landmark (HlWindow *self, HlLandmarkId id)
+{
+  const HlLandmarks *lm = &self->plan->landmarks;
+  gboolean placed = hl_landmarks_has (lm, id);
+
+  self->syncing++;
+  if (placed)
+    {
+      set_spin (self->lm_x[id], lm->p[id].x);
+      set_spin (self->lm_y[id], lm->p[id].y);
+    }
+  gtk_check_button_set_active (self->lm_placed[id], placed);
+  if (placed)
+    gtk_widget_remove_css_class (self->lm_row[id], "unplaced");
+  else
+    gtk_widget_add_css_class (self->lm_row[id], "unplaced");
+  self->syncing--;
+}
+
+void
+hl_window_panel_select_landmark (HlWindow *self, int id)
+{
+  GtkListBoxRow *current = gtk_list_box_get_selected_row (self->landmark_list);
+
+  self->syncing++;
+  if (id < 0 || id >= HL_LM_COUNT)
+    gtk_list_box_unselect_all (self->landmark_list);
+  else if (current == NULL || GTK_WIDGET (current) != self->lm_row[id])
+    gtk_list_box_select_row (self->landmark_list, GTK_LIST_BOX_ROW (self->lm_row[id]));
+  self->syncing--;
+  show_landmark_hint (self, id);
+}
+
+/* ---- options -------------------------------------------------------- */
+
+static void
+option_row_selected_cb (GtkListBox *list, GtkListBoxRow *row, HlWindow *self)
+{
+  int index;
+
+  if (self->syncing > 0 || row == NULL)
+    return;
+  index = gtk_list_box_row_get_index (row) - 1;
+  if (index != self->selected_option)
+    hl_window_select_option (self, index);
+}
+
+static void
+option_name_cb (GtkEditable *editable, HlWindow *self)
+{
+  HlOption *option = selected_option (self);
+  const char *text = gtk_editable_get_text (editable);
+  g_autofree char *field = NULL;
+
+  if (self->syncing > 0 || option == NULL || g_strcmp0 (text, option->name) == 0)
+    return;
+  field = g_strdup_printf ("option %d name", self->selected_option);
+  if (!hl_window_begin_edit (self, field))
+    return;
+  hl_option_set_name (option, text);
+  hl_window_panel_sync_options (self);
+  hl_window_plan_edited (self);
+}
+
+static void
+recon_param_cb (GtkSpinButton *spin, gpointer user_data)
+{
+  const HlReconParam *param = user_data;
+  HlWindow *self = HL_WINDOW (gtk_widget_get_root (GTK_WIDGET (spin)));
+  HlOption *option = selected_option (self);
+  double value = gtk_spin_button_get_value (spin);
+  double *target;
+  g_autofree char *field = NULL;
+
+  if (self->syncing > 0 || option == NULL)
+    return;
+  target = (double *) ((char *) &option->recon + param->offset);
+  if (*target == value)
+    return;
+  field = g_strdup_printf ("option %d %s", self->selected_option, param->key);
+  if (!hl_window_begin_edit (self, field))
+    return;
+  target = (double *) ((char *) &selected_option (self)->recon + param->offset);
+  *target = value;
+  hl_window_plan_edited (self);
+}
+
+static void
+build_option_params (HlWindow *self)
+{
+  GtkGrid *grid = GTK_GRID (self->option_params);
+
+  for (int i = 0; i < HL_RECON_N_PARAMS; i++)
+    {
+      const HlReconParam *param = &recon_params[i];
+      GtkWidget *label = gtk_label_new (_(param->label));
+      GtkWidget *spin = gtk_spin_button_new_with_range (param->lower, param->upper, 0.5);
+      g_autofree char *unit_text = g_strdup_printf ("%s  %s", _(param->unit), _(param->sense));
+      GtkWidget *unit = gtk_label_new (unit_text);
+
+      gtk_label_set_xalign (GTK_LABEL (label), 0.0f);
+      gtk_label_set_xalign (GTK_LABEL (unit), 0.0f);
+      gtk_widget_add_css_class (unit, "dim-label");
+      gtk_spin_button_set_digits (GTK_SPIN_BUTTON (spin), 1);
+      gtk_spin_button_set_increments (GTK_SPIN_BUTTON (spin), 0.5, 5.0);
+      gtk_widget_set_hexpand (spin, TRUE);
+      gtk_accessible_update_property (GTK_ACCESSIBLE (spin),
+                                      GTK_ACCESSIBLE_PROPERTY_LABEL, _(param->label), -1);
+      g_signal_connect (spin, "value-changed", G_CALLBACK (recon_param_cb),
+                        (gpointer) param);
+      gtk_grid_attach (grid, label, 0, i + 1, 1, 1);
+      gtk_grid_attach (grid, spin, 1, i + 1, 1, 1);
+      gtk_grid_attach (grid, unit, 2, i + 1, 1, 1);
+      self->recon_spin[i] = GTK_SPIN_BUTTON (spin);
+    }
+}
+
+static GtkWidget *
+option_row_new (const char *text, gboolean native)
+{
+  GtkWidget *label = gtk_label_new (text);
+  GtkWidget *row = gtk_list_box_row_new ();
+
+  gtk_label_set_xalign (GTK_LABEL (label), 0.0f);
+  gtk_label_set_ellipsize (GTK_LABEL (label), PANGO_ELLIPSIZE_END);
+  gtk_widget_set_margin_start (label, 8);
+  gtk_widget_set_margin_end (label, 8);
+  gtk_widget_set_margin_top (label, 6);
+  gtk_widget_set_margin_bottom (label, 6);
+  if (native)
+    gtk_widget_add_css_class (label, "dim-label");
+  gtk_list_box_row_set_child (GTK_LIST_BOX_ROW (row), label);
+  return row;
+}
+
+void
+hl_window_panel_sync_options (HlWindow *self)
+{
+  HlOption *option = selected_option (self);
+  GtkWidget *child;
+  guint n_rows = 0;
+  GtkListBoxRow *row;
+
+  self->syncing++;
+  for (child = gtk_widget_get_first_child (GTK_WIDGET (self->option_list));
+       child != NULL; child = gtk_widget_get_next_sibling (child))
+    n_rows++;
+  if (n_rows != 1 + self->plan->n_options)
+    {
+      while ((child = gtk_widget_get_first_child (GTK_WIDGET (self->option_list))) != NULL)
+        gtk_list_box_remove (self->option_list, child);
+      gtk_list_box_append (self->option_list,
+                           option_row_new (_("Native hip (no change)"), TRUE));
+      for (size_t i = 0; i < self->plan->n_options; i++)
+        gtk_list_box_append (self->option_list,
+                             option_row_new (self->plan->options[i].name, FALSE));
+    }
+  else
+    {
+      for (size_t i = 0; i < self->plan->n_options; i++)
+        {
+          GtkWidget *label;
+
+          row = gtk_list_box_get_row_at_index (self->option_list, (int) i + 1);
+          label = gtk_list_box_row_get_child (row);
+          gtk_label_set_text (GTK_LABEL (label), self->plan->options[i].name);
+        }
+    }
+  row = gtk_list_box_get_row_at_index (self->option_list, self->selected_option + 1);
+  gtk_list_box_select_row (self->option_list, row);
+
+  gtk_widget_set_sensitive (self->option_params, option != NULL);
+  if (option != NULL)
+    {
+      if (g_strcmp0 (gtk_editable_get_text (GTK_EDITABLE (self->option_name_entry)),
+                     option->name) != 0)
+        gtk_editable_set_text (GTK_EDITABLE (self->option_name_entry), option->name);
+      for (int i = 0; i < HL_RECON_N_PARAMS; i++)
+        set_spin (self->recon_spin[i],
+                  *(double *) ((char *) &option->recon + recon_params[i].offset));
+      gtk_label_set_text (self->option_hint_label,
+                          _("Changes against the native hip. The schematic shows the selected option over the native hip, drawn faint."));
+    }
+  else
+    {
+      gtk_editable_set_text (GTK_EDITABLE (self->option_name_entry), "");
+      gtk_label_set_text (self->option_hint_label,
+                          self->plan->n_options > 0
+                          ? _("Select an option to edit its name and parameters.")
+                          : _("No reconstruction options yet: add one to compare it with the native hip."));
+    }
+  self->syncing--;
+}
+
+/* ---- all ------------------------------------------------------------ */
+
+void
+hl_window_panel_sync (HlWindow *self)
+{
+  const HlPlan *plan = self->plan;
+
+  self->syncing++;
+  if (g_strcmp0 (gtk_editable_get_text (GTK_EDITABLE (self->label_entry)), plan->label) != 0)
+    gtk_editable_set_text (GTK_EDITABLE (self->label_entry), plan->label);
+  sync_mass (self);
+  gtk_drop_down_set_selected (self->side_drop, plan->side == HL_SIDE_LEFT ? 1 : 0);
+  gtk_drop_down_set_selected (self->limb_drop, (guint) plan->model.limb_table);
+  gtk_widget_set_sensitive (GTK_WIDGET (self->limb_custom_spin),
+                            plan->model.limb_table == HL_LIMB_CUSTOM);
+  for (guint i = 0; i < G_N_ELEMENTS (spin_bindings); i++)
+    set_spin (GTK_SPIN_BUTTON (widget_at (self, spin_bindings[i].widget_offset)),
+              *plan_double (self->plan, spin_bindings[i].plan_offset));
+  for (guint i = 0; i < G_N_ELEMENTS (drop_bindings); i++)
+    gtk_drop_down_set_selected (GTK_DROP_DOWN (widget_at (self, drop_bindings[i].widget_offset)),
+                                (guint) *plan_enum (self->plan, drop_bindings[i].plan_offset));
+  gtk_check_button_set_active (self->cane_check, plan->cane.enabled);
+  gtk_drop_down_set_selected (self->cane_unit_drop, (guint) plan->cane.unit);
+  sync_cane_value (self);
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    hl_window_panel_sync_landmark (self, (HlLandmarkId) i);
+  self->syncing--;
+  hl_window_panel_sync_options (self);
+}
+
+void
+hl_window_panel_init (HlWindow *self)
+{
+  g_autoptr(GtkStringList) limbs = gtk_string_list_new (NULL);
+
+  for (int t = 0; t < HL_LIMB_N; t++)
+    gtk_string_list_append (limbs, _(hl_limb_table_info ((HlLimbTable) t)->label));
+  gtk_drop_down_set_model (self->limb_drop, G_LIST_MODEL (limbs));
+
+  gtk_spin_button_set_increments (self->mass_spin, 0.5, 5.0);
+  gtk_spin_button_set_increments (self->cane_value_spin, 1.0, 10.0);
+  for (guint i = 0; i < G_N_ELEMENTS (spin_bindings); i++)
+    {
+      const HlSpinBinding *b = &spin_bindings[i];
+      GtkSpinButton *spin = GTK_SPIN_BUTTON (widget_at (self, b->widget_offset));
+
+      gtk_spin_button_set_range (spin, b->lower, b->upper);
+      gtk_spin_button_set_increments (spin, b->step, b->page);
+      g_signal_connect (spin, "value-changed", G_CALLBACK (spin_binding_cb),
+                        (gpointer) b);
+    }
+  for (guint i = 0; i < G_N_ELEMENTS (drop_bindings); i++)
+    g_signal_connect (widget_at (self, drop_bindings[i].widget_offset), "notify::selected",
+                      G_CALLBACK (drop_binding_cb), (gpointer) &drop_bindings[i]);
+
+  g_signal_connect_object (self->label_entry, "changed", G_CALLBACK (label_changed_cb), self, 0);
+  g_signal_connect_object (self->mass_spin, "value-changed", G_CALLBACK (mass_changed_cb), self, 0);
+  g_signal_connect_object (self->mass_unit_drop, "notify::selected", G_CALLBACK (mass_unit_cb), self, 0);
+  g_signal_connect_object (self->side_drop, "notify::selected", G_CALLBACK (side_cb), self, 0);
+  g_signal_connect_object (self->limb_drop, "notify::selected", G_CALLBACK (limb_cb), self, 0);
+  g_signal_connect_object (self->cane_check, "toggled", G_CALLBACK (cane_toggled_cb), self, 0);
+  g_signal_connect_object (self->cane_value_spin, "value-changed", G_CALLBACK (cane_value_cb), self, 0);
+  g_signal_connect_object (self->cane_unit_drop, "notify::selected", G_CALLBACK (cane_unit_cb), self, 0);
+
+  build_landmark_rows (self);
+  build_option_params (self);
+  g_signal_connect_object (self->option_list, "row-selected",
+                           G_CALLBACK (option_row_selected_cb), self, 0);
+  g_signal_connect_object (self->option_name_entry, "changed",
+                           G_CALLBACK (option_name_cb), self, 0);
+}
+
+void
+hl_window_panel_bind_template (GtkWidgetClass *widget_class)
+{
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, label_entry);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, mass_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, mass_unit_drop);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, side_drop);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, limb_drop);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, limb_custom_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, bw_line_drop);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, abductor_mode_drop);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, abductor_angle_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, lean_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, capacity_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, landmark_list);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, landmark_hint_label);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, option_list);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, add_option_button);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, duplicate_option_button);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, remove_option_button);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, option_name_entry);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, option_params);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, option_hint_label);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_check);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_hand_drop);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_value_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_unit_drop);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_distance_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, load_contra_mass_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, load_contra_distance_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, load_ipsi_mass_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, load_ipsi_distance_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, load_midline_spin);
+}

@@ -1,0 +1,137 @@
+/* hl-window-private.h: shared by the hl-window*.c files.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#pragma once
+
+#include "hl-canvas.h"
+#include "hl-results.h"
+#include "hl-undo.h"
+#include "hl-window.h"
+
+G_BEGIN_DECLS
+
+#define HL_RECON_N_PARAMS 6
+
+/* What to do once the unsaved-changes question has been answered. */
+typedef enum {
+  HL_AFTER_NOTHING,
+  HL_AFTER_CLOSE,
+  HL_AFTER_OPEN,
+} HlAfterGuard;
+
+struct _HlWindow {
+  GtkApplicationWindow parent_instance;
+
+  /* template widgets */
+  GtkToggleButton *caution_toggle;
+  GtkRevealer *caution_revealer;
+  GtkLabel *caution_short_label;
+  GtkLabel *caution_full_label;
+  HlCanvas *canvas;
+  HlResults *results;
+  GtkStack *panel_stack;
+  GtkLabel *status_label;
+  /* case page */
+  GtkEntry *label_entry;
+  GtkSpinButton *mass_spin;
+  GtkDropDown *mass_unit_drop;
+  GtkDropDown *side_drop;
+  GtkDropDown *limb_drop;
+  GtkSpinButton *limb_custom_spin;
+  GtkDropDown *bw_line_drop;
+  GtkDropDown *abductor_mode_drop;
+  GtkSpinButton *abductor_angle_spin;
+  GtkSpinButton *lean_spin;
+  GtkSpinButton *capacity_spin;
+  /* landmarks page */
+  GtkListBox *landmark_list;
+  GtkLabel *landmark_hint_label;
+  /* options page */
+  GtkListBox *option_list;
+  GtkButton *add_option_button;
+  GtkButton *duplicate_option_button;
+  GtkButton *remove_option_button;
+  GtkEntry *option_name_entry;
+  GtkWidget *option_params;
+  GtkLabel *option_hint_label;
+  /* aids page */
+  GtkCheckButton *cane_check;
+  GtkDropDown *cane_hand_drop;
+  GtkSpinButton *cane_value_spin;
+  GtkDropDown *cane_unit_drop;
+  GtkSpinButton *cane_distance_spin;
+  GtkSpinButton *load_contra_mass_spin;
+  GtkSpinButton *load_contra_distance_spin;
+  GtkSpinButton *load_ipsi_mass_spin;
+  GtkSpinButton *load_ipsi_distance_spin;
+  GtkSpinButton *load_midline_spin;
+
+  /* built in code */
+  GtkWidget *lm_row[HL_LM_COUNT];
+  GtkSpinButton *lm_x[HL_LM_COUNT];
+  GtkSpinButton *lm_y[HL_LM_COUNT];
+  GtkCheckButton *lm_placed[HL_LM_COUNT];
+  GtkSpinButton *recon_spin[HL_RECON_N_PARAMS];
+
+  /* owned */
+  HlPlan *plan;
+  HlSolved *solved;          /* 1 + plan->n_options columns */
+  size_t solved_capacity;
+  HlUndo *undo;
+  guint64 revision;          /* of the current state of the plan */
+  guint64 saved_revision;
+  guint64 next_revision;
+  GFile *file;               /* NULL: never saved under a name */
+  char *dump_path;
+  GtkNativeDialog *chooser;
+  GtkWidget *guard_dialog;
+  HlAfterGuard after_guard;
+
+  /* state */
+  int selected_option;       /* -1: native */
+  guint syncing;             /* > 0 while widgets are set from the plan */
+  gboolean dragging;
+  gboolean close_confirmed;
+  gboolean skip_close_guard;
+  gboolean print_handles;
+  gboolean handles_dirty;
+  gboolean use_pounds;
+};
+
+/* hl-window.c */
+void hl_window_plan_edited (HlWindow *self);
+gboolean hl_window_begin_edit (HlWindow *self, const char *field);
+void hl_window_replace_plan (HlWindow *self, const HlPlan *plan, GFile *file);
+void hl_window_update_title (HlWindow *self);
+void hl_window_update_actions (HlWindow *self);
+gboolean hl_window_is_modified (HlWindow *self);
+void hl_window_select_option (HlWindow *self, int index);
+void hl_window_show_error (HlWindow *self, const char *primary,
+                           const char *secondary);
+char *hl_window_format_error (const HlError *err);
+
+/* hl-window-panel.c */
+void hl_window_panel_init (HlWindow *self);
+void hl_window_panel_sync (HlWindow *self);
+void hl_window_panel_sync_landmark (HlWindow *self, HlLandmarkId id);
+void hl_window_panel_sync_options (HlWindow *self);
+void hl_window_panel_select_landmark (HlWindow *self, int id);
+void hl_window_panel_bind_template (GtkWidgetClass *widget_class);
+
+/* hl-window-actions.c */
+void hl_window_actions_class_init (GtkWidgetClass *widget_class);
+void hl_window_undo (HlWindow *self);
+void hl_window_redo (HlWindow *self);
+void hl_window_add_option (HlWindow *self);
+void hl_window_duplicate_option (HlWindow *self);
+void hl_window_remove_option (HlWindow *self);
+gboolean hl_window_close_request (HlWindow *self);
+
+/* hl-window-test.c */
+void hl_window_print_handles (HlWindow *self);
+void hl_window_start_print_handles (HlWindow *self);
+void hl_window_write_dump (HlWindow *self);
+
+G_END_DECLS

@@ -1,0 +1,485 @@
+/* hl-window-test.c: the screenshot, results-printing and drag-benchmark
+ * modes, and the handle positions the GUI tests drive the window by.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * HIPLEVER_TEST_PRINT_HANDLES=1 prints, after each frame in which
+ * something moved, lines in surface coordinates of the window (those of
+ * `xdotool mousemove --window`):
+ *   HANDLE <landmark-key> <x> <y>   placed landmarks of the native hip
+ *   WIDGET <name> <x> <y>           centres of the controls tests click
+ *   FRAME <n>                       ends each block
+ */
+#include "config.h"
+
+#define G_LOG_DOMAIN "hl-window-test"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+#include <time.h>
+#include <unistd.h>
+#include <glib/gi18n.h>
+
+#include "hl-application.h"
+#include "hl-plan-io.h"
+#include "hl-window-private.h"
+
+/* Frames to let the window settle (map, first layout, fonts) before a
+ * screenshot, then a short wait for late redraws. */
+#define HL_SCREENSHOT_SETTLE_FRAMES 3
+#define HL_SCREENSHOT_DELAY_MS 150
+#define HL_SCREENSHOT_MAX_CORRECTIONS 3
+/* Frames in which printed positions could still move after a change. */
+#define HL_PRINT_SETTLE_FRAMES 2
+/* The drag benchmark: frames, options and the lateral travel per frame. */
+#define HL_BENCH_FRAMES 200
+#define HL_BENCH_OPTIONS 4
+#define HL_BENCH_STEP_MM 0.05
+#define HL_BENCH_P95 0.95
+
+static HlApplication *
+window_app (HlWindow *self)
+{
+  return HL_APPLICATION (gtk_window_get_application (GTK_WINDOW (self)));
+}
+
+void
+hl_window_write_dump (HlWindow *self)
+{
+  HlError err;
+
+  if (self->dump_path == NULL)
+    return;
+  hl_error_clear (&err);
+  if (hl_summary_save_file (self->plan, self->dump_path, &err) != HL_OK)
+    {
+      g_autofree char *msg = hl_window_format_error (&err);
+
+      g_printerr (_("hiplever: could not write the summary to %s: %s\n"),
+                  self->dump_path, msg);
+    }
+}
+
+/* ---- handle positions ----------------------------------------------- */
+
+static gboolean
+surface_point (HlWindow *self, GtkWidget *widget, double x, double y,
+               double *sx, double *sy)
+{
+  graphene_point_t in = GRAPHENE_POINT_INIT ((float) x, (float) y);
+  graphene_point_t out;
+  double tx, ty;
+
+  if (!gtk_widget_get_mapped (widget)
+      || !gtk_widget_compute_point (widget, GTK_WIDGET (self), &in, &out))
+    return FALSE;
+  gtk_native_get_surface_transform (GTK_NATIVE (self), &tx, &ty);
+  *sx = out.x + tx;
+  *sy = out.y + ty;
+  return TRUE;
+}
+
+static void
+print_widget (HlWindow *self, const char *name, GtkWidget *widget)
+{
+  double x, y;
+
+  if (widget != NULL
+      && surface_point (self, widget, gtk_widget_get_width (widget) / 2.0,
+                        gtk_widget_get_height (widget) / 2.0, &x, &y))
+    printf ("WIDGET %s %.0f %.0f\n", name, x, y);
+}
+
+void
+hl_window_print_handles (HlWindow *self)
+{
+  static const char *pages[] = { "page-case", "page-landmarks", "page-options", "page-aids" };
+  const HlLandmarks *lm = &self->plan->landmarks;
+  GtkWidget *switcher = gtk_widget_get_prev_sibling (GTK_WIDGET (self->panel_stack));
+  GtkWidget *child;
+  guint page = 0;
+  static guint frame;
+
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      double wx, wy, x, y;
+
+      if (!hl_landmarks_has (lm, (HlLandmarkId) i)
+          || !hl_canvas_plan_to_widget (self->canvas, lm->p[i].x, lm->p[i].y, &wx, &wy)
+          || !surface_point (self, GTK_WIDGET (self->canvas), wx, wy, &x, &y))
+        continue;
+      printf ("HANDLE %s %.0f %.0f\n", hl_landmark_info ((HlLandmarkId) i)->key, x, y);
+    }
+  for (child = switcher != NULL ? gtk_widget_get_first_child (switcher) : NULL;
+       child != NULL && page < G_N_ELEMENTS (pages);
+       child = gtk_widget_get_next_sibling (child), page++)
+    print_widget (self, pages[page], child);
+  print_widget (self, "canvas", GTK_WIDGET (self->canvas));
+  print_widget (self, "cane-check", GTK_WIDGET (self->cane_check));
+  print_widget (self, "add-option", GTK_WIDGET (self->add_option_button));
+  printf ("FRAME %u\n", ++frame);
+  fflush (stdout);
+}
+
+static gboolean
+print_handles_tick_cb (GtkWidget *widget, GdkFrameClock *clock, gpointer user_data)
+{
+  HlWindow *self = HL_WINDOW (widget);
+  guint *settle = user_data;
+
+  if (self->handles_dirty)
+    {
+      self->handles_dirty = FALSE;
+      *settle = HL_PRINT_SETTLE_FRAMES;
+    }
+  else if (*settle > 0 && --*settle == 0)
+    hl_window_print_handles (self);
+  return G_SOURCE_CONTINUE;
+}
+
+static void
+panel_page_cb (GtkStack *stack, GParamSpec *pspec, HlWindow *self)
+{
+  self->handles_dirty = TRUE;
+}
+
+static void
+canvas_resized_cb (GtkWidget *canvas, GParamSpec *pspec, HlWindow *self)
+{
+  self->handles_dirty = TRUE;
+}
+
+void
+hl_window_start_print_handles (HlWindow *self)
+{
+  g_signal_connect_object (self->panel_stack, "notify::visible-child",
+                           G_CALLBACK (panel_page_cb), self, 0);
+  g_signal_connect_object (self, "notify::default-width",
+                           G_CALLBACK (canvas_resized_cb), self, 0);
+  gtk_widget_add_tick_callback (GTK_WIDGET (self), print_handles_tick_cb,
+                                g_new0 (guint, 1), g_free);
+}
+
+/* ---- screenshot ----------------------------------------------------- */
+
+typedef struct {
+  HlWindow *self;
+  char *path;
+  guint frames;
+  int target_w;           /* the size asked for */
+  int target_h;
+  int corrections;
+} HlShot;
+
+static void
+hl_shot_free (gpointer data)
+{
+  HlShot *shot = data;
+
+  g_free (shot->path);
+  g_free (shot);
+}
+
+static gboolean
+save_window_png (HlWindow *self, const char *path, GError **error)
+{
+  GtkWidget *widget = GTK_WIDGET (self);
+  int w = gtk_widget_get_width (widget);
+  int h = gtk_widget_get_height (widget);
+  int scale = gtk_widget_get_scale_factor (widget);
+  g_autoptr(GdkPaintable) paintable = NULL;
+  g_autoptr(GskRenderNode) node = NULL;
+  g_autoptr(GdkTexture) texture = NULL;
+  GtkSnapshot *snapshot;
+  GskRenderer *renderer;
+
+  if (w <= 0 || h <= 0)
+    {
+      g_set_error (error, G_IO_ERROR, G_IO_ERROR_FAILED,
+                   _("the window has no size yet"));
+      return FALSE;
+    }
+  renderer = gtk_native_get_renderer (GTK_NATIVE (self));
+  if (renderer == NULL)
+    {
+      g_set_error (error, G_IO_ERROR, G_IO_ERROR_FAILED,
+                   _("the window has no renderer"));
+      return FALSE;
+    }
+  paintable = gtk_widget_paintable_new (widget);
+  snapshot = gtk_snapshot_new ();
+  /* Render at the device scale so a HiDPI screenshot is sharp. */
+  gtk_snapshot_scale (snapshot, (float) scale, (float) scale);
+  gdk_paintable_snapshot (paintable, GDK_SNAPSHOT (snapshot), w, h);
+  node = gtk_snapshot_free_to_node (snapshot);
+  if (node == NULL)
+    {
+      g_set_error (error, G_IO_ERROR, G_IO_ERROR_FAILED,
+                   _("the window drew nothing"));
+      return FALSE;
+    }
+  texture = gsk_renderer_render_texture (renderer, node,
+                                         &GRAPHENE_RECT_INIT (0, 0, (float) (w * scale),
+                                                              (float) (h * scale)));
+  if (texture == NULL || !gdk_texture_save_to_png (texture, path))
+    {
+      g_set_error (error, G_IO_ERROR, G_IO_ERROR_FAILED,
+                   _("could not write the PNG file"));
+      return FALSE;
+    }
+  return TRUE;
+}
+
+static gboolean
+screenshot_timeout_cb (gpointer user_data)
+{
+  HlShot *shot = user_data;
+  g_autoptr(GError) error = NULL;
+  int status = 0;
+
+  if (!save_window_png (shot->self, shot->path, &error))
+    {
+      g_printerr (_("hiplever: screenshot %s failed: %s\n"), shot->path, error->message);
+      status = 1;
+    }
+  hl_window_write_dump (shot->self);
+  hl_application_finish (window_app (shot->self), status);
+  return G_SOURCE_REMOVE;
+}
+
+static gboolean
+screenshot_tick_cb (GtkWidget *widget, GdkFrameClock *clock, gpointer user_data)
+{
+  HlShot *shot = user_data;
+
+  int dw, dh;
+
+  if (++shot->frames < HL_SCREENSHOT_SETTLE_FRAMES)
+    return G_SOURCE_CONTINUE;
+  /* Window decorations take their share of the default size: ask again
+   * for the difference so the picture has the size asked for. */
+  if ((gtk_widget_get_width (widget) != shot->target_w
+       || gtk_widget_get_height (widget) != shot->target_h)
+      && shot->corrections++ < HL_SCREENSHOT_MAX_CORRECTIONS)
+    {
+      gtk_window_get_default_size (GTK_WINDOW (widget), &dw, &dh);
+      gtk_window_set_default_size (GTK_WINDOW (widget),
+                                   dw + shot->target_w - gtk_widget_get_width (widget),
+                                   dh + shot->target_h - gtk_widget_get_height (widget));
+      shot->frames = 0;
+      return G_SOURCE_CONTINUE;
+    }
+  g_timeout_add_full (G_PRIORITY_DEFAULT_IDLE, HL_SCREENSHOT_DELAY_MS,
+                      screenshot_timeout_cb, shot, hl_shot_free);
+  return G_SOURCE_REMOVE;
+}
+
+void
+hl_window_run_screenshot (HlWindow *self, const char *png_path)
+{
+  HlShot *shot = g_new0 (HlShot, 1);
+
+  shot->self = self;
+  shot->path = g_strdup (png_path);
+  gtk_window_get_default_size (GTK_WINDOW (self), &shot->target_w, &shot->target_h);
+  self->skip_close_guard = TRUE;
+  gtk_widget_add_tick_callback (GTK_WIDGET (self), screenshot_tick_cb, shot, NULL);
+}
+
+/* ---- results as text ------------------------------------------------ */
+
+static gboolean
+print_results_idle_cb (gpointer user_data)
+{
+  HlWindow *self = HL_WINDOW (user_data);
+  g_autofree char *csv = hl_results_format_csv (self->plan, self->solved,
+                                                1 + self->plan->n_options);
+
+  fputs (csv, stdout);
+  fflush (stdout);
+  hl_window_write_dump (self);
+  hl_application_finish (window_app (self), 0);
+  return G_SOURCE_REMOVE;
+}
+
+void
+hl_window_run_print_results (HlWindow *self)
+{
+  self->skip_close_guard = TRUE;
+  g_idle_add_full (G_PRIORITY_DEFAULT_IDLE, print_results_idle_cb,
+                   g_object_ref (self), g_object_unref);
+}
+
+/* ---- drag benchmark ------------------------------------------------- */
+
+typedef struct {
+  HlWindow *self;
+  GdkFrameClock *clock;
+  gulong before_id;
+  gulong after_id;
+  gint64 paint_start_us;
+  gint64 last_frame_us;
+  gint64 process_start_us;
+  double startup_s;
+  int frame;
+  HlVec2 start;
+  double lateral;        /* plan-frame x of one lateral mm */
+  GArray *interval_ms;
+  GArray *work_ms;
+} HlBench;
+
+static double
+process_age_s (gint64 fallback_start_us)
+{
+  g_autofree char *stat = NULL;
+  const char *p;
+  struct timespec now;
+  unsigned long long start_ticks = 0;
+  long ticks = sysconf (_SC_CLK_TCK);
+
+  /* Field 22 of /proc/self/stat, after the command name in brackets. */
+  if (ticks > 0 && g_file_get_contents ("/proc/self/stat", &stat, NULL, NULL)
+      && (p = strrchr (stat, ')')) != NULL
+      && sscanf (p + 2, "%*c %*d %*d %*d %*d %*d %*u %*u %*u %*u %*u %*u %*u"
+                        " %*d %*d %*d %*d %*d %*d %llu", &start_ticks) == 1
+      && clock_gettime (CLOCK_BOOTTIME, &now) == 0)
+    return (double) now.tv_sec + now.tv_nsec * 1e-9 - (double) start_ticks / (double) ticks;
+  return (g_get_monotonic_time () - fallback_start_us) * 1e-6;
+}
+
+static double
+resident_mb (void)
+{
+  g_autofree char *status = NULL;
+  const char *p;
+  unsigned long kb = 0;
+
+  if (!g_file_get_contents ("/proc/self/status", &status, NULL, NULL)
+      || (p = strstr (status, "VmRSS:")) == NULL
+      || sscanf (p + strlen ("VmRSS:"), "%lu", &kb) != 1)
+    return NAN;
+  return kb / 1024.0;
+}
+
+static int
+compare_double (gconstpointer a, gconstpointer b)
+{
+  double x = *(const double *) a, y = *(const double *) b;
+
+  return (x > y) - (x < y);
+}
+
+static double
+quantile (GArray *values, double q)
+{
+  g_autoptr(GArray) sorted = NULL;
+  guint i;
+
+  if (values->len == 0)
+    return NAN;
+  sorted = g_array_copy (values);
+  g_array_sort (sorted, compare_double);
+  i = (guint) lround (q * (sorted->len - 1));
+  return g_array_index (sorted, double, i);
+}
+
+static void
+bench_before_paint_cb (GdkFrameClock *clock, HlBench *bench)
+{
+  bench->paint_start_us = g_get_monotonic_time ();
+}
+
+static void
+bench_after_paint_cb (GdkFrameClock *clock, HlBench *bench)
+{
+  double ms = (g_get_monotonic_time () - bench->paint_start_us) / 1000.0;
+
+  if (bench->startup_s == 0.0)
+    bench->startup_s = process_age_s (bench->process_start_us);
+  if (bench->frame > 0 && bench->frame <= HL_BENCH_FRAMES)
+    g_array_append_val (bench->work_ms, ms);
+}
+
+static void
+bench_finish (HlBench *bench)
+{
+  HlWindow *self = bench->self;
+
+  printf ("benchmark-drag: %d frames, %zu options, abductor insertion moved %.1f mm laterally\n",
+          HL_BENCH_FRAMES, self->plan->n_options, HL_BENCH_FRAMES * HL_BENCH_STEP_MM);
+  printf ("frame interval: median %.2f ms, p95 %.2f ms\n",
+          quantile (bench->interval_ms, 0.5), quantile (bench->interval_ms, HL_BENCH_P95));
+  printf ("frame time (update, layout, snapshot, render): median %.2f ms, p95 %.2f ms (target median <= 8 ms)\n",
+          quantile (bench->work_ms, 0.5), quantile (bench->work_ms, HL_BENCH_P95));
+  printf ("startup to first frame: %.3f s (target <= 0.5 s)\n", bench->startup_s);
+  printf ("resident memory: %.1f MB (target <= 100 MB)\n", resident_mb ());
+  fflush (stdout);
+
+  g_signal_handler_disconnect (bench->clock, bench->before_id);
+  g_signal_handler_disconnect (bench->clock, bench->after_id);
+  g_array_unref (bench->interval_ms);
+  g_array_unref (bench->work_ms);
+  hl_window_write_dump (self);
+  hl_application_finish (window_app (self), 0);
+  g_free (bench);
+}
+
+static gboolean
+bench_tick_cb (GtkWidget *widget, GdkFrameClock *clock, gpointer user_data)
+{
+  HlBench *bench = user_data;
+  HlWindow *self = bench->self;
+  gint64 t = gdk_frame_clock_get_frame_time (clock);
+  const int id = HL_LM_ABDUCTOR_INSERTION;
+  double x;
+
+  if (bench->frame == 0)
+    {
+      bench->before_id = g_signal_connect (clock, "before-paint",
+                                           G_CALLBACK (bench_before_paint_cb), bench);
+      bench->after_id = g_signal_connect (clock, "after-paint",
+                                          G_CALLBACK (bench_after_paint_cb), bench);
+      bench->clock = clock;
+      bench->start = self->plan->landmarks.p[id];
+      g_signal_emit_by_name (self->canvas, "landmark-drag-begin", id);
+    }
+  else
+    {
+      double ms = (t - bench->last_frame_us) / 1000.0;
+
+      g_array_append_val (bench->interval_ms, ms);
+    }
+  bench->last_frame_us = t;
+
+  if (bench->frame == HL_BENCH_FRAMES)
+    {
+      g_signal_emit_by_name (self->canvas, "landmark-drag-end", id, FALSE);
+      bench_finish (bench);
+      return G_SOURCE_REMOVE;
+    }
+  bench->frame++;
+  x = bench->start.x + bench->lateral * HL_BENCH_STEP_MM * bench->frame;
+  g_signal_emit_by_name (self->canvas, "landmark-moved", id, x, bench->start.y);
+  return G_SOURCE_CONTINUE;
+}
+
+void
+hl_window_run_benchmark_drag (HlWindow *self, gint64 process_start_us)
+{
+  HlBench *bench = g_new0 (HlBench, 1);
+
+  self->skip_close_guard = TRUE;
+  while (self->plan->n_options < HL_BENCH_OPTIONS)
+    hl_window_add_option (self);
+  if (self->plan->n_options > 0)
+    hl_window_select_option (self, 0);
+  bench->self = self;
+  bench->process_start_us = process_start_us;
+  /* Lateral is towards -x for a right hip (plan x points to the left). */
+  bench->lateral = self->plan->side == HL_SIDE_RIGHT ? -1.0 : 1.0;
+  bench->interval_ms = g_array_new (FALSE, FALSE, sizeof (double));
+  bench->work_ms = g_array_new (FALSE, FALSE, sizeof (double));
+  gtk_widget_add_tick_callback (GTK_WIDGET (self), bench_tick_cb, bench, NULL);
+}

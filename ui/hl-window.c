@@ -1,0 +1,447 @@
+/* hl-window.c: the window's life, the plan it holds and recomputing.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#define G_LOG_DOMAIN "hl-window"
+
+#include <glib/gi18n.h>
+
+#include "hl-plan-io.h"
+#include "hl-version.h"
+#include "hl-window-private.h"
+
+G_DEFINE_FINAL_TYPE (HlWindow, hl_window, GTK_TYPE_APPLICATION_WINDOW)
+
+gboolean
+hl_window_is_modified (HlWindow *self)
+{
+  return self->revision != self->saved_revision;
+}
+
+char *
+hl_window_format_error (const HlError *err)
+{
+  const char *msg = err->message[0] != '\0' ? err->message
+                                             : hl_status_name (err->status);
+
+  if (err->line > 0 && err->field[0] != '\0')
+    return g_strdup_printf (_("Line %d, %s: %s"), err->line, err->field, msg);
+  if (err->line > 0)
+    return g_strdup_printf (_("Line %d: %s"), err->line, msg);
+  if (err->field[0] != '\0')
+    return g_strdup_printf ("%s: %s", err->field, msg);
+  return g_strdup (msg);
+}
+
+static void
+error_dialog_response_cb (GtkDialog *dialog, int response, gpointer user_data)
+{
+  gtk_window_destroy (GTK_WINDOW (dialog));
+}
+
+void
+hl_window_show_error (HlWindow *self, const char *primary,
+                      const char *secondary)
+{
+  GtkWidget *dialog;
+
+  dialog = gtk_message_dialog_new (GTK_WINDOW (self),
+                                   GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
+                                   GTK_MESSAGE_ERROR, GTK_BUTTONS_CLOSE,
+                                   "%s", primary);
+  gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog),
+                                            "%s", secondary);
+  g_signal_connect (dialog, "response",
+                    G_CALLBACK (error_dialog_response_cb), NULL);
+  gtk_window_present (GTK_WINDOW (dialog));
+}
+
+void
+hl_window_update_title (HlWindow *self)
+{
+  const char *label = self->plan->label[0] != '\0' ? self->plan->label
+                                                    : _("Untitled case");
+  g_autofree char *title = NULL;
+
+  /* The product name stays last so tests and window lists can find it. */
+  if (hl_window_is_modified (self))
+    title = g_strdup_printf ("• %s — hiplever", label);
+  else
+    title = g_strdup_printf ("%s — hiplever", label);
+  gtk_window_set_title (GTK_WINDOW (self), title);
+}
+
+void
+hl_window_update_actions (HlWindow *self)
+{
+  GtkWidget *w = GTK_WIDGET (self);
+  gboolean has_option = self->selected_option >= 0
+                        && (size_t) self->selected_option < self->plan->n_options;
+
+  gtk_widget_action_set_enabled (w, "win.undo", hl_undo_can_undo (self->undo));
+  gtk_widget_action_set_enabled (w, "win.redo", hl_undo_can_redo (self->undo));
+  gtk_widget_action_set_enabled (w, "win.duplicate-option", has_option);
+  gtk_widget_action_set_enabled (w, "win.remove-option", has_option);
+}
+
+static void
+hl_window_update_status (HlWindow *self)
+{
+  g_autofree char *where = NULL;
+  g_autofree char *text = NULL;
+
+  if (self->file != NULL)
+    where = g_file_get_parse_name (self->file);
+  else
+    where = g_strdup (_("not saved under a name yet"));
+  if (self->solved[0].status != HL_OK)
+    {
+      g_autofree char *msg = hl_window_format_error (&self->solved[0].error);
+
+      text = g_strdup_printf (_("Plan: %s  ·  Cannot solve: %s"), where, msg);
+      gtk_widget_add_css_class (GTK_WIDGET (self->status_label), "error");
+    }
+  else
+    {
+      text = g_strdup_printf (_("Plan: %s  ·  %zu reconstruction options  ·  body weight %.0f N"),
+                              where, self->plan->n_options,
+                              hl_plan_body_weight (self->plan));
+      gtk_widget_remove_css_class (GTK_WIDGET (self->status_label), "error");
+    }
+  gtk_label_set_text (self->status_label, text);
+}
+
+/* The one path every change takes: solve once with the core, then show. */
+void
+hl_window_plan_edited (HlWindow *self)
+{
+  size_t n = 1 + self->plan->n_options;
+
+  if (n > self->solved_capacity)
+    {
+      self->solved = g_renew (HlSolved, self->solved, n);
+      self->solved_capacity = n;
+    }
+  hl_results_solve (self->plan, self->solved);
+  hl_results_update (self->results, self->plan, self->solved, n);
+  hl_canvas_plan_changed (self->canvas);
+  hl_window_update_title (self);
+  hl_window_update_actions (self);
+  hl_window_update_status (self);
+  self->handles_dirty = TRUE;
+}
+
+/* Records the plan as it is now as one undo step, then bumps the revision;
+ * `field` coalesces repeated edits of one control. */
+gboolean
+hl_window_begin_edit (HlWindow *self, const char *field)
+{
+  if (!hl_undo_record (self->undo, self->plan, self->revision, field))
+    {
+      hl_window_show_error (self, _("Out of memory"),
+                            _("The edit was not made because the undo step could not be recorded."));
+      return FALSE;
+    }
+  self->revision = ++self->next_revision;
+  return TRUE;
+}
+
+void
+hl_window_select_option (HlWindow *self, int index)
+{
+  if (index < 0 || (size_t) index >= self->plan->n_options)
+    index = -1;
+  self->selected_option = index;
+  hl_canvas_set_selected_option (self->canvas, index);
+  hl_results_set_selected_option (self->results, index);
+  hl_window_panel_sync_options (self);
+  hl_window_update_actions (self);
+}
+
+/* A whole new plan: undo history goes, the view is fitted again. */
+void
+hl_window_replace_plan (HlWindow *self, const HlPlan *plan, GFile *file)
+{
+  if (hl_plan_assign (self->plan, plan) != HL_OK)
+    {
+      hl_window_show_error (self, _("Out of memory"),
+                            _("The plan could not be taken over."));
+      return;
+    }
+  g_set_object (&self->file, file);
+  hl_undo_clear (self->undo);
+  self->revision = ++self->next_revision;
+  self->saved_revision = self->revision;
+  self->selected_option = self->plan->n_options > 0 ? 0 : -1;
+  hl_canvas_set_plan (self->canvas, self->plan);
+  hl_window_panel_sync (self);
+  hl_window_select_option (self, self->selected_option);
+  hl_window_plan_edited (self);
+  hl_canvas_fit (self->canvas);
+}
+
+void
+hl_window_set_plan (HlWindow *self, const HlPlan *plan)
+{
+  g_return_if_fail (HL_IS_WINDOW (self));
+  hl_window_replace_plan (self, plan, NULL);
+}
+
+const HlPlan *
+hl_window_get_plan (HlWindow *self)
+{
+  g_return_val_if_fail (HL_IS_WINDOW (self), NULL);
+  return self->plan;
+}
+
+gboolean
+hl_window_load_file (HlWindow *self, GFile *file, gboolean report, HlError *err)
+{
+  g_autofree char *path = g_file_get_path (file);
+  g_autofree char *name = g_file_get_parse_name (file);
+  HlPlan *loaded = NULL;
+  HlError local;
+  HlStatus st;
+  gboolean is_plan;
+
+  hl_error_clear (&local);
+  if (path == NULL)
+    {
+      hl_error_set (&local, HL_ERR_IO, "file", "%s", _("only local files can be opened"));
+      st = HL_ERR_IO;
+    }
+  else
+    st = hl_plan_load_file (path, &loaded, &local);
+
+  if (st != HL_OK)
+    {
+      if (report)
+        {
+          g_autofree char *primary = g_strdup_printf (_("Could not open “%s”"), name);
+          g_autofree char *secondary = hl_window_format_error (&local);
+          g_autofree char *text = g_strdup_printf (_("%s\n\nThe plan that was open is unchanged."),
+                                                   secondary);
+
+          hl_window_show_error (self, primary, text);
+        }
+      if (err != NULL)
+        *err = local;
+      return FALSE;
+    }
+
+  /* A summary opens as a plan without a name, so Save never overwrites
+   * the summary with a plan file. */
+  is_plan = g_str_has_suffix (path, HL_PLAN_FILE_EXTENSION);
+  hl_window_replace_plan (self, loaded, is_plan ? file : NULL);
+  hl_plan_free (loaded);
+  return TRUE;
+}
+
+void
+hl_window_set_dump_path (HlWindow *self, const char *path)
+{
+  g_return_if_fail (HL_IS_WINDOW (self));
+  g_free (self->dump_path);
+  self->dump_path = g_strdup (path);
+}
+
+void
+hl_window_set_skip_close_guard (HlWindow *self, gboolean skip)
+{
+  g_return_if_fail (HL_IS_WINDOW (self));
+  self->skip_close_guard = skip;
+}
+
+void
+hl_window_set_print_handles (HlWindow *self, gboolean print)
+{
+  g_return_if_fail (HL_IS_WINDOW (self));
+  if (print && !self->print_handles)
+    hl_window_start_print_handles (self);
+  self->print_handles = print;
+  self->handles_dirty = TRUE;
+}
+
+/* ---- canvas --------------------------------------------------------- */
+
+static void
+landmark_drag_begin_cb (HlCanvas *canvas, int id, HlWindow *self)
+{
+  hl_undo_break (self->undo);
+  if (hl_window_begin_edit (self, NULL))
+    self->dragging = TRUE;
+}
+
+static void
+landmark_moved_cb (HlCanvas *canvas, int id, double x, double y, HlWindow *self)
+{
+  if (id < 0 || id >= HL_LM_COUNT)
+    return;
+  /* A move without a begin (should not happen) is still one undo step. */
+  if (!self->dragging && !hl_window_begin_edit (self, NULL))
+    return;
+  hl_landmarks_set (&self->plan->landmarks, (HlLandmarkId) id, x, y);
+  hl_window_panel_sync_landmark (self, (HlLandmarkId) id);
+  hl_window_plan_edited (self);
+}
+
+static void
+landmark_drag_end_cb (HlCanvas *canvas, int id, gboolean cancelled,
+                      HlWindow *self)
+{
+  self->dragging = FALSE;
+  hl_undo_break (self->undo);
+  if (cancelled)
+    {
+      guint64 revision;
+
+      if (hl_undo_drop_last (self->undo, &revision))
+        self->revision = revision;
+      hl_window_plan_edited (self);
+    }
+}
+
+static void
+canvas_selected_landmark_cb (HlCanvas *canvas, GParamSpec *pspec, HlWindow *self)
+{
+  hl_window_panel_select_landmark (self, hl_canvas_get_selected_landmark (canvas));
+}
+
+static void
+canvas_selected_option_cb (HlCanvas *canvas, GParamSpec *pspec, HlWindow *self)
+{
+  int index = hl_canvas_get_selected_option (canvas);
+
+  if (index != self->selected_option)
+    hl_window_select_option (self, index);
+}
+
+/* ---- caution -------------------------------------------------------- */
+
+static void
+caution_toggled_cb (GtkToggleButton *button, HlWindow *self)
+{
+  gboolean expanded = gtk_toggle_button_get_active (button);
+
+  gtk_revealer_set_reveal_child (self->caution_revealer, expanded);
+  gtk_widget_set_visible (GTK_WIDGET (self->caution_short_label), !expanded);
+  gtk_button_set_label (GTK_BUTTON (button),
+                        expanded ? _("Collapse") : _("Show full caution"));
+}
+
+/* ---- life ----------------------------------------------------------- */
+
+static gboolean
+hl_window_close_request_vfunc (GtkWindow *window)
+{
+  HlWindow *self = HL_WINDOW (window);
+
+  if (hl_window_close_request (self))
+    return TRUE;
+  return GTK_WINDOW_CLASS (hl_window_parent_class)->close_request (window);
+}
+
+static void
+hl_window_dispose (GObject *object)
+{
+  HlWindow *self = HL_WINDOW (object);
+
+  if (self->chooser != NULL)
+    {
+      gtk_native_dialog_destroy (self->chooser);
+      g_clear_object (&self->chooser);
+    }
+  if (self->guard_dialog != NULL)
+    {
+      gtk_window_destroy (GTK_WINDOW (self->guard_dialog));
+      self->guard_dialog = NULL;
+    }
+  gtk_widget_dispose_template (GTK_WIDGET (self), HL_TYPE_WINDOW);
+  G_OBJECT_CLASS (hl_window_parent_class)->dispose (object);
+}
+
+static void
+hl_window_finalize (GObject *object)
+{
+  HlWindow *self = HL_WINDOW (object);
+
+  g_clear_pointer (&self->undo, hl_undo_free);
+  g_clear_pointer (&self->plan, hl_plan_free);
+  g_clear_pointer (&self->solved, g_free);
+  g_clear_object (&self->file);
+  g_clear_pointer (&self->dump_path, g_free);
+  G_OBJECT_CLASS (hl_window_parent_class)->finalize (object);
+}
+
+static void
+hl_window_class_init (HlWindowClass *klass)
+{
+  GObjectClass *object_class = G_OBJECT_CLASS (klass);
+  GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
+  GtkWindowClass *window_class = GTK_WINDOW_CLASS (klass);
+
+  object_class->dispose = hl_window_dispose;
+  object_class->finalize = hl_window_finalize;
+  window_class->close_request = hl_window_close_request_vfunc;
+
+  g_type_ensure (HL_TYPE_CANVAS);
+  g_type_ensure (HL_TYPE_RESULTS);
+
+  gtk_widget_class_set_template_from_resource (widget_class,
+                                               "/org/hiplever/Hiplever/hl-window.ui");
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, caution_toggle);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, caution_revealer);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, caution_short_label);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, caution_full_label);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, canvas);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, results);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, panel_stack);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, status_label);
+  hl_window_panel_bind_template (widget_class);
+  hl_window_actions_class_init (widget_class);
+}
+
+static void
+hl_window_init (HlWindow *self)
+{
+  gtk_widget_init_template (GTK_WIDGET (self));
+
+  self->plan = hl_plan_new ();
+  self->undo = hl_undo_new (HL_UNDO_DEFAULT_LIMIT);
+  self->selected_option = -1;
+  self->solved_capacity = 1;
+  self->solved = g_new0 (HlSolved, self->solved_capacity);
+  if (self->plan == NULL)
+    g_error ("out of memory creating the plan");
+
+  gtk_label_set_text (self->caution_short_label, hl_caution_short ());
+  gtk_label_set_text (self->caution_full_label, hl_caution_text ());
+  g_signal_connect_object (self->caution_toggle, "toggled",
+                           G_CALLBACK (caution_toggled_cb), self, 0);
+  caution_toggled_cb (self->caution_toggle, self);
+
+  g_signal_connect_object (self->canvas, "landmark-drag-begin",
+                           G_CALLBACK (landmark_drag_begin_cb), self, 0);
+  g_signal_connect_object (self->canvas, "landmark-moved",
+                           G_CALLBACK (landmark_moved_cb), self, 0);
+  g_signal_connect_object (self->canvas, "landmark-drag-end",
+                           G_CALLBACK (landmark_drag_end_cb), self, 0);
+  g_signal_connect_object (self->canvas, "notify::selected-landmark",
+                           G_CALLBACK (canvas_selected_landmark_cb), self, 0);
+  g_signal_connect_object (self->canvas, "notify::selected-option",
+                           G_CALLBACK (canvas_selected_option_cb), self, 0);
+
+  hl_window_panel_init (self);
+  hl_canvas_set_plan (self->canvas, self->plan);
+  hl_window_panel_sync (self);
+  hl_window_plan_edited (self);
+}
+
+HlWindow *
+hl_window_new (GtkApplication *app)
+{
+  return g_object_new (HL_TYPE_WINDOW, "application", app, NULL);
+}
