@@ -107,6 +107,9 @@ for plan in "${EXAMPLES[@]}"; do
     grep -qE "^$(quote_re "$plan"): valid \([0-9]+ options?\)$" "$WORK/out"
   n=$(sed -nE 's/.*: valid \(([0-9]+) options?\)$/\1/p' "$WORK/out")
   OPTIONS[$plan]=${n:-0}
+  in_file=$(grep -o '<option ' "$plan" | wc -l)
+  check "validate $name counts the options in the file ($n, $in_file <option> elements)" \
+    [ "${n:-x}" = "$in_file" ]
 
   run solve "$plan"
   expect_rc 0 "solve $name"
@@ -175,6 +178,13 @@ check "batch rows are the solve rows with the plan in front" \
   cmp -s <(grep -F "$DEMO," "$WORK/batch.csv") \
          <(tail -n +2 "$WORK/demo.hlplan.csv" | sed "s|^|$DEMO,|")
 
+# A plan file name that needs CSV quoting in the plan column.
+cp "$DEMO" "$WORK/a,b.hlplan"
+run batch "$WORK/a,b.hlplan" --csv "$WORK/comma.csv"
+expect_rc 0 "batch a plan whose name has a comma"
+check "the plan column is quoted and reads back" \
+  [ "$($CHECK field "$WORK/comma.csv" 0 plan 2>&1)" = "$WORK/a,b.hlplan" ]
+
 if command -v script >/dev/null; then
   script -qec "$(printf '%q ' "$CLI" batch "${EXAMPLES[@]}" --csv "$WORK/tty.csv")" \
     /dev/null >"$WORK/tty.out" 2>&1
@@ -225,6 +235,21 @@ expect_rc 1 "solve without the hip centre"
 check "a missing landmark gives FILE:LINE" \
   err_has "^hiplever-cli: $WORK/no-hip-centre.hlplan:[0-9][0-9]*: "
 check "a missing landmark is named" err_has "hip-centre"
+
+# The abductor origin moved onto the insertion: the file is well formed and
+# in range, but the geometry cannot be solved.
+ins=$(sed -nE 's/.*<landmark name="abductor-insertion" (x-mm="[^"]*" y-mm="[^"]*").*/\1/p' "$DEMO")
+sed -E "s/(<landmark name=\"abductor-origin\" )x-mm=\"[^\"]*\" y-mm=\"[^\"]*\"/\1$ins/" \
+  "$DEMO" >"$WORK/degenerate.hlplan"
+check "degenerate.hlplan differs from the demo" differ "$DEMO" "$WORK/degenerate.hlplan"
+run solve "$WORK/degenerate.hlplan" --format csv
+expect_rc 1 "solve a geometry that cannot be solved"
+check "an unsolvable geometry names the landmark" \
+  err_has "^hiplever-cli: $WORK/degenerate.hlplan: .*landmark abductor-"
+check "an unsolvable geometry prints no table" [ ! -s "$WORK/out" ]
+run summary "$WORK/degenerate.hlplan" -o "$WORK/degenerate.xml"
+expect_rc 1 "summary of a geometry that cannot be solved"
+check "summary of an unsolvable geometry writes no file" no_file "$WORK/degenerate.xml"
 
 run validate "$WORK/good.hlplan" "$WORK/bad-number.hlplan"
 expect_rc 1 "validate a good and a bad file"
