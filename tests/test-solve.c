@@ -849,6 +849,41 @@ START_TEST (test_flags)
 }
 END_TEST
 
+/* ---- Capacity --------------------------------------------------------- */
+
+/* Demand = abductor torque / capacity, capacity = torque per kg x mass.
+ * The default 1.13 N m/kg (Sugimoto et al. 2014, Clin J Sport Med
+ * 24:422-428, young women) is an assumption: 1.13 (72.5) (1000) = 81925
+ * N mm against the native torque F_a |r_a| = M = 67543.301875 N mm. */
+typedef struct {
+  double torque_nm_per_kg;
+  double demand;
+  bool over;
+} CapacityCase;
+
+static const CapacityCase capacity_cases[] = {
+  { 1.13, 0.824453, false },
+  { 1.29, 0.722195, false },
+  { 0.95, 0.980665, false },
+  { 0.75, 1.242176, true },
+};
+
+START_TEST (test_capacity)
+{
+  const CapacityCase *c = &capacity_cases[_i];
+  HlPlan *plan = hl_test_base_plan (_i % 2 ? HL_SIDE_LEFT : HL_SIDE_RIGHT);
+  HlResult res;
+
+  if (_i == 0)
+    ck_assert_double_eq_tol (plan->capacity.torque_nm_per_kg, 1.13, HL_TEST_TOL_BW);
+  plan->capacity.torque_nm_per_kg = c->torque_nm_per_kg;
+  hl_test_solve (plan, NULL, &res);
+  ck_assert_double_eq_tol (res.demand, c->demand, HL_TEST_TOL_BW);
+  ck_assert_int_eq ((res.flags & HL_FLAG_OVER_CAPACITY) != 0, c->over);
+  hl_plan_free (plan);
+}
+END_TEST
+
 /* ---- Errors ----------------------------------------------------------- */
 
 static void bad_mass_nan (HlPlan *p) { p->mass_kg = NAN; }
@@ -927,6 +962,34 @@ bad_angle (HlPlan *p)
   p->model.abductor_line = HL_ABDUCTOR_LINE_ANGLE;
   p->model.abductor_angle_deg = NAN;
 }
+static void
+bad_fraction_one (HlPlan *p)
+{
+  p->model.limb_table = HL_LIMB_CUSTOM;
+  p->model.limb_fraction_custom = 1.0;   /* nothing left above the hip */
+}
+static void
+bad_fraction_negative (HlPlan *p)
+{
+  p->model.limb_table = HL_LIMB_CUSTOM;
+  p->model.limb_fraction_custom = -0.1;
+}
+static void bad_table (HlPlan *p) { p->model.limb_table = (HlLimbTable) (HL_LIMB_N + 3); }
+static void bad_side (HlPlan *p) { p->side = (HlSide) 5; }
+static void
+bad_angle_negative (HlPlan *p)
+{
+  p->model.abductor_line = HL_ABDUCTOR_LINE_ANGLE;
+  p->model.abductor_angle_deg = -10.0;
+}
+static void
+bad_angle_wide (HlPlan *p)
+{
+  p->model.abductor_line = HL_ABDUCTOR_LINE_ANGLE;
+  p->model.abductor_angle_deg = 200.0;
+}
+static void bad_tolerance (HlPlan *p) { p->tol.leg_length_mm = NAN; }
+static void bad_capacity (HlPlan *p) { p->capacity.torque_nm_per_kg = INFINITY; }
 static void bad_insertion_nan (HlPlan *p) { p->landmarks.p[HL_LM_ABDUCTOR_INSERTION].x = NAN; }
 static void bad_hip_inf (HlPlan *p) { p->landmarks.p[HL_LM_HIP_CENTRE].y = -INFINITY; }
 static void
@@ -1036,6 +1099,14 @@ static const ErrorCase error_cases[] = {
   { "lean too far away", bad_lean_low, HL_ERR_INVALID, -1, -1, "lean", NULL },
   { "typed fraction NaN", bad_custom_fraction, HL_ERR_INVALID, -1, -1, "fraction", "limb" },
   { "line angle NaN", bad_angle, HL_ERR_INVALID, -1, -1, "angle", NULL },
+  { "typed fraction 1", bad_fraction_one, HL_ERR_INVALID, -1, -1, "fraction", "limb" },
+  { "typed fraction negative", bad_fraction_negative, HL_ERR_INVALID, -1, -1, "fraction", "limb" },
+  { "no such limb table", bad_table, HL_ERR_INVALID, -1, -1, "table", "limb" },
+  { "no such side", bad_side, HL_ERR_INVALID, -1, -1, "side", NULL },
+  { "line angle negative", bad_angle_negative, HL_ERR_INVALID, -1, -1, "angle", NULL },
+  { "line angle 200 deg", bad_angle_wide, HL_ERR_INVALID, -1, -1, "angle", NULL },
+  { "tolerance NaN", bad_tolerance, HL_ERR_INVALID, -1, -1, "tolerance", "leg" },
+  { "capacity infinite", bad_capacity, HL_ERR_INVALID, -1, -1, "capacity", "torque" },
   { "insertion NaN", bad_insertion_nan, HL_ERR_INVALID, HL_LM_ABDUCTOR_INSERTION, -1, NULL, NULL },
   { "hip centre infinite", bad_hip_inf, HL_ERR_INVALID, HL_LM_HIP_CENTRE, -1, NULL, NULL },
   { "midline off the sheet", bad_midline_far, HL_ERR_INVALID, HL_LM_MIDLINE, -1, NULL, NULL },
@@ -1291,6 +1362,7 @@ solve_suite (void)
   ADD_TABLE ("pull-only", test_pull_only, pull_cases);
   ADD_LOOP ("flag-defaults", test_flag_defaults, 1);
   ADD_TABLE ("flags", test_flags, flag_cases);
+  ADD_TABLE ("capacity", test_capacity, capacity_cases);
   ADD_TABLE ("errors", test_errors, error_cases);
   ADD_TABLE ("accepted", test_accepted, accept_cases);
   ADD_LOOP ("solve-errors", test_solve_errors, 2);
