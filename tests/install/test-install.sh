@@ -28,6 +28,8 @@ CAUTION_START='Planning aid only'
 # A screenshot of the window is far larger than this; an empty or
 # failed render is not.
 SCREENSHOT_MIN_BYTES=10000
+# Seconds the window may take to start, render and quit under Xvfb.
+GUI_TIMEOUT_S=120
 
 WORK=$(mktemp -d "${TMPDIR:-/tmp}/hiplever-install-test.XXXXXX")
 trap 'rm -rf "$WORK"' EXIT
@@ -228,28 +230,59 @@ fi
 
 # ---- The installed window -----------------------------------------------------
 
+# gui_run LOG ARGS...: the installed window under Xvfb and a private
+# session bus, with XDG directories that see only the prefix and the system.
+gui_run () {
+  local log=$1
+  shift
+  mkdir -p "$WORK/xdg-home" "$WORK/xdg-config" "$WORK/xdg-cache"
+  run "$log" env XDG_DATA_HOME="$WORK/xdg-home" XDG_CONFIG_HOME="$WORK/xdg-config" \
+      XDG_CACHE_HOME="$WORK/xdg-cache" XDG_DATA_DIRS="$SHARE:/usr/share" \
+      GSK_RENDERER=cairo GDK_BACKEND=x11 NO_AT_BRIDGE=1 \
+      timeout "$GUI_TIMEOUT_S" dbus-run-session -- \
+      xvfb-run -a -s '-screen 0 1280x800x24' "$GUI" "$@"
+}
+
+# gui_screenshot NAME [PLAN]: a screenshot and the planning summary of what
+# the window showed.
+gui_screenshot () {
+  local name=$1
+  shift
+  gui_run "$name" --screenshot="$WORK/$name.png" \
+    --dump-summary-on-exit="$WORK/$name.xml" "$@"
+  if [ "$rc" -eq 0 ]; then pass; else fail "hiplever --screenshot $* (exit $rc)"; show "$name"; fi
+  check "$name: screenshot written" test -s "$WORK/$name.png"
+  if [ -s "$WORK/$name.png" ]; then
+    check "$name: screenshot is a real image (> $SCREENSHOT_MIN_BYTES bytes)" \
+      test "$(wc -c <"$WORK/$name.png")" -gt "$SCREENSHOT_MIN_BYTES"
+  fi
+  check "$name: summary written" test -s "$WORK/$name.xml"
+  check "$name: the window showed \"$demo_label\"" \
+    grep -qF "label=\"$demo_label\"" "$WORK/$name.xml"
+  # A resource, icon or file the window cannot find shows up as a
+  # warning or critical on stderr.
+  if [ "$(grep -Eic 'warning|critical|error' "$WORK/$name.err")" -eq 0 ]; then
+    pass
+  else
+    fail "$name: warnings or criticals from the window"
+    show "$name"
+  fi
+}
+
+demo_label=$(sed -n 's/.*<case label="\([^"]*\)".*/\1/p' "$EXAMPLES/demo.hlplan")
 if [ ! -x "$GUI" ]; then
   skip "no installed hiplever window program"
 elif ! command -v xvfb-run >/dev/null 2>&1 || ! command -v dbus-run-session >/dev/null 2>&1; then
-  skip "xvfb-run or dbus-run-session missing: window screenshot"
+  skip "xvfb-run or dbus-run-session missing: the window"
 else
-  mkdir -p "$WORK/xdg-home" "$WORK/xdg-config" "$WORK/xdg-cache"
-  run gui env XDG_DATA_HOME="$WORK/xdg-home" XDG_CONFIG_HOME="$WORK/xdg-config" \
-      XDG_CACHE_HOME="$WORK/xdg-cache" XDG_DATA_DIRS="$SHARE:/usr/share" \
-      GSK_RENDERER=cairo GDK_BACKEND=x11 NO_AT_BRIDGE=1 \
-      timeout 120 dbus-run-session -- xvfb-run -a -s '-screen 0 1280x800x24' \
-      "$GUI" --screenshot="$WORK/shot.png" "$EXAMPLES/demo.hlplan"
-  if [ "$rc" -eq 0 ]; then pass; else fail "hiplever --screenshot (exit $rc)"; show gui; fi
-  check "screenshot written" test -s "$WORK/shot.png"
-  if [ -s "$WORK/shot.png" ]; then
-    check "screenshot is a real image (> $SCREENSHOT_MIN_BYTES bytes)" \
-      test "$(wc -c <"$WORK/shot.png")" -gt "$SCREENSHOT_MIN_BYTES"
-  fi
-  # Anything the window could not find (a resource, the schema, an
-  # example, the icon) shows up as a warning or critical on stderr.
-  check "window: no warnings or criticals" \
-    test "$(grep -Eic 'warning|critical|error' "$WORK/gui.err")" -eq 0
-  if [ "$(grep -Eic 'warning|critical|error' "$WORK/gui.err")" -ne 0 ]; then show gui; fi
+  check "the demo plan has a case label" test -n "$demo_label"
+  run gui-version env -u DISPLAY -u WAYLAND_DISPLAY "$GUI" --version
+  check "hiplever --version exits 0" test "$rc" -eq 0
+  check "hiplever --version names $VERSION" grep -q "^hiplever $VERSION\b" "$WORK/gui-version.out"
+  gui_screenshot shot-file "$EXAMPLES/demo.hlplan"
+  # With no file the window opens the bundled demo, which it can only
+  # have found under the prefix: the source tree is gone.
+  gui_screenshot shot-demo
 fi
 
 finish
