@@ -453,7 +453,8 @@ check_target (HlInverseKind kind, double target_bw, HlError *err)
 
 HlStatus
 hl_inverse_cane_for_jrf (const HlModel *model, const HlRecon *option,
-                         double target_bw, const HlInverseSettings *settings,
+                         double target_bw, double distance_mm,
+                         const HlInverseSettings *settings,
                          HlInverseAnswer *a, HlError *err)
 {
   Goal g;
@@ -467,7 +468,13 @@ hl_inverse_cane_for_jrf (const HlModel *model, const HlRecon *option,
                                     _("A cane can only push up: the search range "
                                       "starts at %g N"), s.lower));
 
-  g.m.cane_dx = -fabs (model->cane_dx);
+  if (!isfinite (distance_mm) || distance_mm < 0.0 || distance_mm > HL_DISTANCE_MAX_MM)
+    return finish (a, hl_error_set (err, HL_ERR_INVALID, "cane distance",
+                                    _("The cane hand's distance from the midline is "
+                                      "%g mm: it must be between 0 and %g mm"),
+                                    distance_mm, HL_DISTANCE_MAX_MM));
+
+  g.m.cane_dx = -distance_mm;
   g.goal = a->goal = target_bw;
   double upper = s.upper;
   if ((st = limit_to_need (&g, &s, s.lower, &upper, &a->range_limited, err)))

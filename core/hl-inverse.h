@@ -13,7 +13,8 @@
  *                     hip's global offset when both are measured
  *                     (change = other - native global offset);
  *  CANE_FOR_JRF       the smallest cane force, N, in the opposite hand at
- *                     the plan's cane distance (replacing the plan's cane)
+ *                     a given distance from the midline (normally the
+ *                     plan's cane.distance_mm), replacing the plan's cane,
  *                     that brings the joint load to the target (xBW) or
  *                     below;
  *  LOAD_FOR_JRF       the largest mass, kg, in one hand (at the plan's
@@ -125,7 +126,7 @@ HlStatus hl_inverse_offset_for_global (const HlModel *model, const HlRecon *opti
                                        const HlInverseSettings *settings,
                                        HlInverseAnswer *answer, HlError *err);
 HlStatus hl_inverse_cane_for_jrf (const HlModel *model, const HlRecon *option,
-                                  double target_bw,
+                                  double target_bw, double distance_mm,
                                   const HlInverseSettings *settings,
                                   HlInverseAnswer *answer, HlError *err);
 HlStatus hl_inverse_load_for_jrf (const HlModel *model, const HlRecon *option,

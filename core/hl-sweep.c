@@ -124,10 +124,11 @@ model_set (HlModel *m, const HlModel *base, const HlPlan *plan,
   switch (param)
     {
     case HL_SWEEP_CANE_FORCE_N:
-      m->cane_n = v;
-      break;
     case HL_SWEEP_CANE_PERCENT_BW:
-      m->cane_n = v / 100.0 * m->body_weight_n;
+      /* The model drops the cane's position when the plan has no cane. */
+      m->cane_dx = plan->cane.hand == HL_HAND_CONTRALATERAL
+                   ? -plan->cane.distance_mm : plan->cane.distance_mm;
+      m->cane_n = param == HL_SWEEP_CANE_FORCE_N ? v : v / 100.0 * m->body_weight_n;
       break;
     case HL_SWEEP_LOAD_CONTRA_KG:
       m->load_n[HL_HAND_CONTRALATERAL] = v * HL_GRAVITY;
