@@ -1,0 +1,645 @@
+/* test-render.c: the schematic drawn with cairo (no display needed).
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * These tests check the drawing against itself (round trips, mirror
+ * symmetry, what is drawn where); they check no computation against an
+ * outside source, so no source is cited.
+ */
+#include "config.h"
+
+#include <check.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#include "hl-render.h"
+
+#define W 1000
+#define H 700
+#define MARGIN_PX 30.0
+/* plan -> screen -> plan is exact but for rounding. */
+#define TOL_ROUND_TRIP_MM 1e-9
+/* A drawn schematic covers well over this share of the picture. */
+#define MIN_INK_SHARE 0.05
+/* Two colour channels closer than this count as equal (0..255). */
+#define CHANNEL_TOL 24
+/* For a flat fill, such as the error box: no anti-aliasing inside. */
+#define CHANNEL_TOL_FLAT 3
+/* A pixel this far from the background is ink: the pale bone fill is. */
+#define INK_TOL 6
+/* Pixels of a colour that count as "drawn". */
+#define MIN_COLOUR_PIXELS 40
+/* Mirror images may differ along anti-aliased edges only. */
+#define MIRROR_MISMATCH_MAX 0.01
+/* A click this far from every landmark hits nothing. */
+#define FAR_PX 60.0
+#define HIT_RADIUS_PX 10.0
+#define NEAR_OFFSET_PX 3.0
+
+static HlPlan *
+demo_plan (void)
+{
+  HlPlan *plan = hl_plan_new ();
+  ck_assert_ptr_nonnull (plan);
+  hl_plan_set_demo_landmarks (plan);
+  HlRecon r;
+  hl_recon_init (&r);
+  r.femoral_offset_mm = 6.25;
+  ck_assert_int_ge (hl_plan_add_option (plan, "Lateral offset stem", &r), 0);
+  hl_recon_init (&r);
+  r.cup_medial_mm = 4.5;
+  r.cup_superior_mm = 2.75;
+  r.head_length_mm = 3.5;
+  ck_assert_int_ge (hl_plan_add_option (plan, "Medialised cup, long head", &r), 0);
+  return plan;
+}
+
+static cairo_surface_t *
+render (const HlPlan *plan, int option, const HlView *view_or_null,
+        const HlRenderStyle *style, HlView *view_out)
+{
+  cairo_surface_t *s = cairo_image_surface_create (CAIRO_FORMAT_RGB24, W, H);
+  ck_assert_int_eq (cairo_surface_status (s), CAIRO_STATUS_SUCCESS);
+  cairo_t *cr = cairo_create (s);
+  HlScene scene;
+  hl_scene_build (&scene, plan, option);
+  HlView view;
+  if (view_or_null != NULL)
+    view = *view_or_null;
+  else
+    hl_render_fit_view (&scene, W, H, MARGIN_PX, &view);
+  hl_render_scene (cr, &scene, &view, style, W, H);
+  cairo_destroy (cr);
+  cairo_surface_flush (s);
+  if (view_out != NULL)
+    *view_out = view;
+  return s;
+}
+
+static void
+pixel (cairo_surface_t *s, int x, int y, int rgb[3])
+{
+  const unsigned char *data = cairo_image_surface_get_data (s);
+  int stride = cairo_image_surface_get_stride (s);
+  uint32_t v = *(const uint32_t *) (data + y * stride + 4 * x);
+  rgb[0] = (v >> 16) & 0xff;
+  rgb[1] = (v >> 8) & 0xff;
+  rgb[2] = v & 0xff;
+}
+
+static bool
+near_colour (const int rgb[3], HlRgba c, int tol)
+{
+  return abs (rgb[0] - (int) lround (c.r * 255)) <= tol
+         && abs (rgb[1] - (int) lround (c.g * 255)) <= tol
+         && abs (rgb[2] - (int) lround (c.b * 255)) <= tol;
+}
+
+static long
+count_near (cairo_surface_t *s, int x0, int y0, int x1, int y1, HlRgba c, int tol)
+{
+  long n = 0;
+  int rgb[3];
+  for (int y = y0; y < y1; y++)
+    for (int x = x0; x < x1; x++)
+      {
+        pixel (s, x, y, rgb);
+        n += near_colour (rgb, c, tol);
+      }
+  return n;
+}
+
+static long
+count_colour (cairo_surface_t *s, int x0, int y0, int x1, int y1, HlRgba c)
+{
+  return count_near (s, x0, y0, x1, y1, c, CHANNEL_TOL);
+}
+
+static long
+count_flat (cairo_surface_t *s, int x0, int y0, int x1, int y1, HlRgba c)
+{
+  return count_near (s, x0, y0, x1, y1, c, CHANNEL_TOL_FLAT);
+}
+
+static double
+ink_share (cairo_surface_t *s, HlRgba bg)
+{
+  long total = (long) W * H;
+  return 1.0 - (double) count_near (s, 0, 0, W, H, bg, INK_TOL) / (double) total;
+}
+
+/* ---- Views ------------------------------------------------------------- */
+
+static const struct {
+  HlView view;
+  double x, y;
+} round_trips[] = {
+  { { 1.0, 0.0, 0.0 }, 0.0, 0.0 },
+  { { 2.385, 512.25, 311.75 }, -95.0, 0.0 },
+  { { 0.0731, -40.5, 900.125 }, 1234.5, -1987.25 },
+  { { 37.9, 3.3, -7.7 }, -0.001, 1e-6 },
+  { { 3.125, 480.0, 360.0 }, 155.55, -180.125 },
+};
+
+START_TEST (test_view_round_trip)
+{
+  const HlView *v = &round_trips[_i].view;
+  HlVec2 p = { round_trips[_i].x, round_trips[_i].y };
+  HlVec2 s = hl_view_to_screen (v, p);
+  HlVec2 q = hl_view_to_plan (v, s);
+  ck_assert_double_eq_tol (q.x, p.x, TOL_ROUND_TRIP_MM);
+  ck_assert_double_eq_tol (q.y, p.y, TOL_ROUND_TRIP_MM);
+  /* Radiographic convention: plan x right, plan y up = screen y down. */
+  HlVec2 right = hl_view_to_screen (v, (HlVec2) { p.x + 1.0, p.y });
+  HlVec2 up = hl_view_to_screen (v, (HlVec2) { p.x, p.y + 1.0 });
+  ck_assert (right.x > s.x);
+  ck_assert (up.y < s.y);
+}
+END_TEST
+
+static const struct {
+  double x0, y0, x1, y1, w, h;
+} fit_boxes[] = {
+  { -200.0, -220.0, 200.0, 160.0, 1000.0, 700.0 },
+  { -12.5, 3.0, 400.25, 7.0, 640.0, 480.0 },       /* flat box */
+  { 5.0, 5.0, 5.0, 5.0, 300.0, 300.0 },            /* a point */
+  { -1000.0, -900.0, 1100.0, 950.0, 320.0, 2400.0 },
+};
+
+START_TEST (test_view_fit)
+{
+  HlView v;
+  double m = 20.0;
+  hl_view_fit_box (&v, fit_boxes[_i].x0, fit_boxes[_i].y0, fit_boxes[_i].x1,
+                   fit_boxes[_i].y1, fit_boxes[_i].w, fit_boxes[_i].h, m);
+  ck_assert (v.scale >= HL_VIEW_SCALE_MIN && v.scale <= HL_VIEW_SCALE_MAX);
+  HlVec2 a = hl_view_to_screen (&v, (HlVec2) { fit_boxes[_i].x0, fit_boxes[_i].y1 });
+  HlVec2 b = hl_view_to_screen (&v, (HlVec2) { fit_boxes[_i].x1, fit_boxes[_i].y0 });
+  const double slack = 1e-6;
+  if (v.scale < HL_VIEW_SCALE_MAX)
+    {
+      ck_assert (a.x >= m - slack && b.x <= fit_boxes[_i].w - m + slack);
+      ck_assert (a.y >= m - slack && b.y <= fit_boxes[_i].h - m + slack);
+    }
+  /* Centred. */
+  ck_assert_double_eq_tol (0.5 * (a.x + b.x), 0.5 * fit_boxes[_i].w, 1e-6);
+  ck_assert_double_eq_tol (0.5 * (a.y + b.y), 0.5 * fit_boxes[_i].h, 1e-6);
+}
+END_TEST
+
+START_TEST (test_view_zoom_about)
+{
+  HlView v = { 2.0, 100.0, 50.0 };
+  HlVec2 anchor_s = { 333.0, 222.0 };
+  HlVec2 before = hl_view_to_plan (&v, anchor_s);
+  hl_view_zoom_about (&v, 1.7, anchor_s.x, anchor_s.y);
+  ck_assert_double_eq_tol (v.scale, 3.4, 1e-12);
+  HlVec2 after = hl_view_to_plan (&v, anchor_s);
+  ck_assert_double_eq_tol (after.x, before.x, TOL_ROUND_TRIP_MM);
+  ck_assert_double_eq_tol (after.y, before.y, TOL_ROUND_TRIP_MM);
+
+  /* Bad factors are ignored, huge ones clamped. */
+  HlView keep = v;
+  hl_view_zoom_about (&v, 0.0, 0, 0);
+  hl_view_zoom_about (&v, -2.0, 0, 0);
+  hl_view_zoom_about (&v, NAN, 0, 0);
+  ck_assert_double_eq (v.scale, keep.scale);
+  hl_view_zoom_about (&v, 1e9, 10, 10);
+  ck_assert_double_eq (v.scale, HL_VIEW_SCALE_MAX);
+  hl_view_zoom_about (&v, 1e-12, 10, 10);
+  ck_assert_double_eq (v.scale, HL_VIEW_SCALE_MIN);
+}
+END_TEST
+
+/* ---- Hit tests ---------------------------------------------------------- */
+
+START_TEST (test_hit_each_landmark)
+{
+  HlPlan *plan = demo_plan ();
+  HlScene scene;
+  hl_scene_build (&scene, plan, -1);
+  HlView v;
+  hl_render_fit_view (&scene, W, H, MARGIN_PX, &v);
+  int n = 0;
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      if (!hl_landmarks_has (&plan->landmarks, (HlLandmarkId) i))
+        continue;
+      n++;
+      HlVec2 s = hl_view_to_screen (&v, plan->landmarks.p[i]);
+      ck_assert_msg (s.x >= 0 && s.x < W && s.y >= 0 && s.y < H,
+                     "landmark %s is drawn off the fitted view",
+                     hl_landmark_info ((HlLandmarkId) i)->key);
+      ck_assert_int_eq (hl_render_hit_landmark (plan, &v, s.x, s.y, HIT_RADIUS_PX), i);
+      ck_assert_int_eq (hl_render_hit_landmark (plan, &v, s.x + NEAR_OFFSET_PX,
+                                                s.y - NEAR_OFFSET_PX, HIT_RADIUS_PX), i);
+    }
+  ck_assert_int_eq (n, HL_LM_COUNT);
+
+  /* Points far from every landmark hit nothing. */
+  const HlVec2 far_pts[] = { { 2, 2 }, { W - 3, H - 3 }, { W / 2.0, 5 }, { 5, H / 2.0 } };
+  for (size_t k = 0; k < sizeof far_pts / sizeof far_pts[0]; k++)
+    {
+      for (int i = 0; i < HL_LM_COUNT; i++)
+        {
+          HlVec2 s = hl_view_to_screen (&v, plan->landmarks.p[i]);
+          ck_assert (hypot (s.x - far_pts[k].x, s.y - far_pts[k].y) > FAR_PX);
+        }
+      ck_assert_int_eq (hl_render_hit_landmark (plan, &v, far_pts[k].x, far_pts[k].y,
+                                                HIT_RADIUS_PX), -1);
+    }
+
+  /* Unplaced landmarks are never hit. */
+  HlVec2 s = hl_view_to_screen (&v, plan->landmarks.p[HL_LM_TEARDROP]);
+  hl_landmarks_unset (&plan->landmarks, HL_LM_TEARDROP);
+  ck_assert_int_ne (hl_render_hit_landmark (plan, &v, s.x, s.y, HIT_RADIUS_PX),
+                    HL_LM_TEARDROP);
+  ck_assert_int_eq (hl_render_hit_landmark (NULL, &v, s.x, s.y, HIT_RADIUS_PX), -1);
+  ck_assert_int_eq (hl_render_hit_landmark (plan, NULL, s.x, s.y, HIT_RADIUS_PX), -1);
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* ---- Rendering ------------------------------------------------------------ */
+
+static const struct {
+  int option;
+  bool dark;
+  bool cane_and_loads;
+} render_cases[] = {
+  { -1, false, false },
+  { 0, false, false },
+  { 1, false, true },
+  { -1, true, true },
+  { 1, true, false },
+  { 7, false, false },   /* no such option: drawn as native */
+};
+
+START_TEST (test_render_not_blank)
+{
+  HlPlan *plan = demo_plan ();
+  if (render_cases[_i].cane_and_loads)
+    {
+      plan->cane.enabled = true;
+      plan->loads.hand[HL_HAND_CONTRALATERAL].mass_kg = 7.5;
+      plan->loads.hand[HL_HAND_IPSILATERAL].mass_kg = 4.25;
+    }
+  HlRenderStyle style;
+  hl_render_style_init (&style, render_cases[_i].dark);
+  style.selected_landmark = HL_LM_ABDUCTOR_INSERTION;
+  style.hover_landmark = HL_LM_HIP_CENTRE;
+  cairo_surface_t *s = render (plan, render_cases[_i].option, NULL, &style, NULL);
+
+  ck_assert (ink_share (s, style.bg) > MIN_INK_SHARE);
+  /* The joint reaction and abductor arrows are there, in their colours. */
+  ck_assert_int_gt (count_colour (s, 0, 0, W, H,
+                                  hl_palette_color (HL_ROLE_JOINT, style.dark)),
+                    MIN_COLOUR_PIXELS);
+  ck_assert_int_gt (count_colour (s, 0, 0, W, H,
+                                  hl_palette_color (HL_ROLE_ABDUCTOR, style.dark)),
+                    MIN_COLOUR_PIXELS);
+  ck_assert_int_gt (count_colour (s, 0, 0, W, H,
+                                  hl_palette_color (HL_ROLE_HANDLE, style.dark)),
+                    MIN_COLOUR_PIXELS);
+  if (render_cases[_i].cane_and_loads)
+    ck_assert_int_gt (count_colour (s, 0, 0, W, H,
+                                    hl_palette_color (HL_ROLE_LOAD, style.dark)),
+                      MIN_COLOUR_PIXELS);
+  /* No error box on a plan that solves. */
+  ck_assert_int_lt (count_flat (s, 0, 0, W, H,
+                                hl_palette_color (HL_ROLE_ERROR_FILL, style.dark)),
+                    MIN_COLOUR_PIXELS);
+
+  if (_i == 1 && getenv ("HL_RENDER_PNG") != NULL)
+    cairo_surface_write_to_png (s, getenv ("HL_RENDER_PNG"));
+  cairo_surface_destroy (s);
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* An option moves the femur: the picture changes, the pelvis does not. */
+START_TEST (test_render_option_differs)
+{
+  HlPlan *plan = demo_plan ();
+  HlRenderStyle style;
+  hl_render_style_init (&style, false);
+  style.show_frame = false;
+  style.show_legend = false;
+  HlView v;
+  cairo_surface_t *a = render (plan, -1, NULL, &style, &v);
+  cairo_surface_t *b = render (plan, 0, &v, &style, NULL);
+  long differ = 0;
+  int pa[3], pb[3];
+  for (int y = 0; y < H; y++)
+    for (int x = 0; x < W; x++)
+      {
+        pixel (a, x, y, pa);
+        pixel (b, x, y, pb);
+        differ += abs (pa[0] - pb[0]) + abs (pa[1] - pb[1]) + abs (pa[2] - pb[2]) > 3 * CHANNEL_TOL;
+      }
+  ck_assert_int_gt (differ, MIN_COLOUR_PIXELS);
+  /* The option's cup is drawn. */
+  ck_assert_int_gt (count_colour (b, 0, 0, W, H, hl_palette_color (HL_ROLE_OPTION, false)),
+                    MIN_COLOUR_PIXELS);
+  cairo_surface_destroy (a);
+  cairo_surface_destroy (b);
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* Plans that cannot be solved still draw, with the message in a box. */
+typedef enum { BREAK_NOTHING_PLACED, BREAK_NO_INSERTION, BREAK_INSERTION_ON_HIP,
+               BREAK_NAN, BREAK_MASS, BREAK_MIDLINE_LATERAL } Break;
+
+static const struct {
+  Break how;
+  const char *name;
+} degenerate_cases[] = {
+  { BREAK_NOTHING_PLACED, "nothing placed" },
+  { BREAK_NO_INSERTION, "no abductor insertion" },
+  { BREAK_INSERTION_ON_HIP, "insertion on the hip centre" },
+  { BREAK_NAN, "non-finite coordinate" },
+  { BREAK_MASS, "body mass out of range" },
+  { BREAK_MIDLINE_LATERAL, "midline lateral of the hip" },
+};
+
+START_TEST (test_render_degenerate)
+{
+  HlPlan *plan = demo_plan ();
+  switch (degenerate_cases[_i].how)
+    {
+    case BREAK_NOTHING_PLACED:
+      memset (&plan->landmarks, 0, sizeof plan->landmarks);
+      break;
+    case BREAK_NO_INSERTION:
+      hl_landmarks_unset (&plan->landmarks, HL_LM_ABDUCTOR_INSERTION);
+      break;
+    case BREAK_INSERTION_ON_HIP:
+      plan->landmarks.p[HL_LM_ABDUCTOR_INSERTION] = plan->landmarks.p[HL_LM_HIP_CENTRE];
+      plan->landmarks.p[HL_LM_ABDUCTOR_ORIGIN] = plan->landmarks.p[HL_LM_HIP_CENTRE];
+      plan->landmarks.p[HL_LM_ABDUCTOR_ORIGIN].y += 1.5;
+      break;
+    case BREAK_NAN:
+      plan->landmarks.p[HL_LM_ABDUCTOR_INSERTION].x = NAN;
+      break;
+    case BREAK_MASS:
+      plan->mass_kg = 0.0;
+      break;
+    case BREAK_MIDLINE_LATERAL:
+      plan->landmarks.p[HL_LM_MIDLINE].x = -180.0;
+      break;
+    }
+  HlScene scene;
+  hl_scene_build (&scene, plan, 0);
+  ck_assert_msg (!scene.solved, "%s: solved", degenerate_cases[_i].name);
+  ck_assert_msg (scene.error.message[0] != '\0', "%s: no message",
+                 degenerate_cases[_i].name);
+
+  HlRenderStyle style;
+  hl_render_style_init (&style, false);
+  cairo_surface_t *s = render (plan, 0, NULL, &style, NULL);
+  /* The box sits at the top centre, below the side markers. */
+  long box = count_flat (s, W / 2 - 100, 60, W / 2 + 100, 110,
+                           hl_palette_color (HL_ROLE_ERROR_FILL, false));
+  ck_assert_msg (box > 2000, "%s: error box missing (%ld px)",
+                 degenerate_cases[_i].name, box);
+  if (degenerate_cases[_i].how != BREAK_NOTHING_PLACED)
+    ck_assert (ink_share (s, style.bg) > MIN_INK_SHARE);
+  cairo_surface_destroy (s);
+  hl_plan_free (plan);
+}
+END_TEST
+
+START_TEST (test_render_null_plan)
+{
+  HlScene scene;
+  hl_scene_build (&scene, NULL, 0);
+  ck_assert (!scene.solved);
+  ck_assert (scene.error.message[0] != '\0');
+  double x0, y0, x1, y1;
+  ck_assert (!hl_scene_bounds (&scene, &x0, &y0, &x1, &y1));
+  ck_assert (x1 > x0 && y1 > y0);
+  HlRenderStyle style;
+  hl_render_style_init (&style, true);
+  cairo_surface_t *s = render (NULL, -1, NULL, &style, NULL);
+  ck_assert_int_gt (count_flat (s, W / 2 - 100, 60, W / 2 + 100, 110,
+                                hl_palette_color (HL_ROLE_ERROR_FILL, true)), 2000);
+  cairo_surface_destroy (s);
+  /* A zero or broken view draws nothing and does not crash. */
+  cairo_surface_t *blank = cairo_image_surface_create (CAIRO_FORMAT_RGB24, 16, 16);
+  cairo_t *cr = cairo_create (blank);
+  HlView bad = { 0.0, 0.0, 0.0 };
+  hl_render_scene (cr, &scene, &bad, &style, 16, 16);
+  bad.scale = NAN;
+  hl_render_scene (cr, &scene, &bad, &style, 16, 16);
+  hl_render_scene (cr, NULL, &bad, &style, 16, 16);
+  cairo_destroy (cr);
+  cairo_surface_destroy (blank);
+}
+END_TEST
+
+/* A right hip and the same hip mirrored to the left draw as mirror images:
+ * x -> -x is sx -> W - sx with the translation mirrored too. */
+static const int mirror_options[] = { -1, 0, 1 };
+
+START_TEST (test_render_mirror)
+{
+  HlPlan *right = demo_plan ();
+  right->cane.enabled = true;
+  right->loads.hand[HL_HAND_IPSILATERAL].mass_kg = 6.5;
+  HlPlan *left = hl_plan_copy (right);
+  ck_assert_ptr_nonnull (left);
+  hl_plan_mirror (left);
+  ck_assert_int_eq (left->side, HL_SIDE_LEFT);
+
+  HlRenderStyle style;
+  hl_render_style_init (&style, false);
+  style.show_frame = false;    /* the R and L markers are not mirrored */
+  style.show_legend = false;
+  style.show_labels = false;   /* nor is text */
+  HlView vr;
+  cairo_surface_t *a = render (right, mirror_options[_i], NULL, &style, &vr);
+  HlView vl = { vr.scale, W - vr.tx, vr.ty };
+  cairo_surface_t *b = render (left, mirror_options[_i], &vl, &style, NULL);
+
+  long mismatch = 0, compared = 0;
+  int pa[3], pb[3];
+  for (int y = 0; y < H; y += 7)
+    for (int x = 0; x < W; x++)
+      {
+        pixel (a, x, y, pa);
+        pixel (b, W - 1 - x, y, pb);
+        compared++;
+        mismatch += abs (pa[0] - pb[0]) > CHANNEL_TOL || abs (pa[1] - pb[1]) > CHANNEL_TOL
+                    || abs (pa[2] - pb[2]) > CHANNEL_TOL;
+      }
+  ck_assert_msg ((double) mismatch / compared < MIRROR_MISMATCH_MAX,
+                 "%ld of %ld pixels differ", mismatch, compared);
+  /* ... and the mirror image is not trivially the same picture. */
+  long same_unmirrored = 0;
+  for (int x = 0; x < W; x++)
+    {
+      pixel (a, x, H / 2, pa);
+      pixel (b, x, H / 2, pb);
+      same_unmirrored += abs (pa[0] - pb[0]) > CHANNEL_TOL;
+    }
+  ck_assert_int_gt (same_unmirrored, 0);
+  cairo_surface_destroy (a);
+  cairo_surface_destroy (b);
+  hl_plan_free (right);
+  hl_plan_free (left);
+}
+END_TEST
+
+/* ---- Figures ------------------------------------------------------------------ */
+
+START_TEST (test_figures)
+{
+  HlPlan *plan = demo_plan ();
+  char dir[] = "/tmp/hl-test-render-XXXXXX";
+  ck_assert_ptr_nonnull (mkdtemp (dir));
+  char png[256], svg[256];
+  snprintf (png, sizeof png, "%s/figure.png", dir);
+  snprintf (svg, sizeof svg, "%s/figure.svg", dir);
+  HlError err;
+
+  ck_assert_int_eq (hl_render_figure_png (plan, 1, 900, 640, png, &err), HL_OK);
+  cairo_surface_t *s = cairo_image_surface_create_from_png (png);
+  ck_assert_int_eq (cairo_surface_status (s), CAIRO_STATUS_SUCCESS);
+  ck_assert_int_eq (cairo_image_surface_get_width (s), 900);
+  ck_assert_int_eq (cairo_image_surface_get_height (s), 640);
+  cairo_surface_destroy (s);
+
+  ck_assert_int_eq (hl_render_figure_svg (plan, -1, 800, 600, svg, &err), HL_OK);
+  FILE *f = fopen (svg, "r");
+  ck_assert_ptr_nonnull (f);
+  char head[512] = "";
+  size_t got = fread (head, 1, sizeof head - 1, f);
+  fclose (f);
+  ck_assert_uint_gt (got, 100);
+  ck_assert_ptr_nonnull (strstr (head, "<svg"));
+
+  unlink (png);
+  unlink (svg);
+  rmdir (dir);
+  hl_plan_free (plan);
+}
+END_TEST
+
+static const struct {
+  int w, h;
+  const char *path;
+  HlStatus expect;
+} figure_errors[] = {
+  { 10, 600, "/tmp/x.png", HL_ERR_INVALID },
+  { 800, HL_FIGURE_SIZE_MAX + 1, "/tmp/x.png", HL_ERR_INVALID },
+  { 800, 600, NULL, HL_ERR_INVALID },
+  { 800, 600, "", HL_ERR_INVALID },
+  { 800, 600, "/nonexistent-hl-dir/sub/figure", HL_ERR_IO },
+};
+
+START_TEST (test_figure_errors)
+{
+  HlPlan *plan = demo_plan ();
+  HlError err;
+  for (int svg = 0; svg < 2; svg++)
+    {
+      hl_error_clear (&err);
+      HlStatus st = svg
+        ? hl_render_figure_svg (plan, 0, figure_errors[_i].w, figure_errors[_i].h,
+                                figure_errors[_i].path, &err)
+        : hl_render_figure_png (plan, 0, figure_errors[_i].w, figure_errors[_i].h,
+                                figure_errors[_i].path, &err);
+      ck_assert_int_eq (st, figure_errors[_i].expect);
+      ck_assert_int_eq (err.status, figure_errors[_i].expect);
+      ck_assert (err.message[0] != '\0');
+      ck_assert (err.field[0] != '\0');
+    }
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* ---- Palette ------------------------------------------------------------------- */
+
+START_TEST (test_palette)
+{
+  static const HlPaletteRole force_roles[] = {
+    HL_ROLE_WEIGHT, HL_ROLE_ABDUCTOR, HL_ROLE_JOINT, HL_ROLE_CANE, HL_ROLE_LOAD,
+  };
+  const size_t n = sizeof force_roles / sizeof force_roles[0];
+  for (int dark = 0; dark < 2; dark++)
+    for (int r = 0; r < HL_ROLE_N; r++)
+      {
+        HlRgba c = hl_palette_color ((HlPaletteRole) r, dark);
+        ck_assert (c.r >= 0 && c.r <= 1 && c.g >= 0 && c.g <= 1 && c.b >= 0 && c.b <= 1);
+        ck_assert_double_eq (c.a, 1.0);
+        double d[HL_PALETTE_DASHES_MAX];
+        int nd = hl_palette_dashes ((HlPaletteRole) r, d);
+        ck_assert (nd >= 0 && nd <= HL_PALETTE_DASHES_MAX);
+        for (int k = 0; k < nd; k++)
+          ck_assert (d[k] > 0.0);
+      }
+  /* Line style is a second cue: no two forces share one. */
+  for (size_t i = 0; i < n; i++)
+    for (size_t j = i + 1; j < n; j++)
+      ck_assert_str_ne (hl_palette_line_style_name (force_roles[i]),
+                        hl_palette_line_style_name (force_roles[j]));
+  /* In a dark theme the dark blue gives way to a lighter one. */
+  HlRgba wl = hl_palette_color (HL_ROLE_WEIGHT, false);
+  HlRgba wd = hl_palette_color (HL_ROLE_WEIGHT, true);
+  ck_assert (wd.r + wd.g + wd.b > wl.r + wl.g + wl.b);
+}
+END_TEST
+
+static Suite *
+render_suite (void)
+{
+  Suite *s = suite_create ("ui");
+  TCase *tc;
+
+  tc = tcase_create ("view");
+  tcase_add_loop_test (tc, test_view_round_trip, 0,
+                       sizeof round_trips / sizeof round_trips[0]);
+  tcase_add_loop_test (tc, test_view_fit, 0, sizeof fit_boxes / sizeof fit_boxes[0]);
+  tcase_add_test (tc, test_view_zoom_about);
+  suite_add_tcase (s, tc);
+
+  tc = tcase_create ("hit");
+  tcase_add_test (tc, test_hit_each_landmark);
+  suite_add_tcase (s, tc);
+
+  tc = tcase_create ("render");
+  tcase_add_loop_test (tc, test_render_not_blank, 0,
+                       sizeof render_cases / sizeof render_cases[0]);
+  tcase_add_test (tc, test_render_option_differs);
+  tcase_add_loop_test (tc, test_render_degenerate, 0,
+                       sizeof degenerate_cases / sizeof degenerate_cases[0]);
+  tcase_add_test (tc, test_render_null_plan);
+  tcase_add_loop_test (tc, test_render_mirror, 0,
+                       sizeof mirror_options / sizeof mirror_options[0]);
+  suite_add_tcase (s, tc);
+
+  tc = tcase_create ("figure");
+  tcase_add_test (tc, test_figures);
+  tcase_add_loop_test (tc, test_figure_errors, 0,
+                       sizeof figure_errors / sizeof figure_errors[0]);
+  tcase_add_test (tc, test_palette);
+  suite_add_tcase (s, tc);
+  return s;
+}
+
+int
+main (void)
+{
+  setenv ("LC_ALL", "C", 1);
+  setenv ("TZ", "UTC", 1);
+  SRunner *sr = srunner_create (render_suite ());
+  srunner_run_all (sr, CK_NORMAL);
+  int failed = srunner_ntests_failed (sr);
+  srunner_free (sr);
+  return failed == 0 ? EXIT_SUCCESS : EXIT_FAILURE;
+}

@@ -1,0 +1,1931 @@
+/* hl-render.c: the schematic with cairo.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * The bones are templates laid over the landmarks: each half of the pelvis
+ * is scaled so that its acetabulum sits on that side's hip centre and its
+ * iliac wing follows the abductor origin; each femur is built from its hip
+ * centre, greater trochanter (the abductor insertion), lesser trochanter
+ * and shaft axis, with typical proportions wherever a landmark is missing.
+ * The shapes are for orientation only: no number is read off them.
+ */
+#include "config.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+#include <cairo-svg.h>
+
+#include "hl-i18n.h"
+#include "hl-render.h"
+#include "hl-version.h"
+
+/* ---- Proportions of the drawn bones ------------------------------------
+ * Typical adult proportions, from memory: they shape the picture only. */
+
+/* The hemipelvis template has its hip centre this far from the midline and
+ * its abductor origin at (TEMPLATE_ORIGIN_U, TEMPLATE_ORIGIN_V), mm. */
+#define TEMPLATE_HIP_U 95.0
+#define TEMPLATE_ORIGIN_U 115.0
+#define TEMPLATE_ORIGIN_V 90.0
+/* How far the iliac wing may stretch or shift to follow the origin. */
+#define WING_STRETCH_MIN 0.75
+#define WING_STRETCH_MAX 1.35
+#define WING_SHIFT_MAX_MM 30.0
+#define WING_WARP_START_V 20.0
+#define WING_WARP_SPAN_V 70.0
+/* Teardrops closer than this do not define a tilt of the pelvis. */
+#define TEARDROP_MIN_SEPARATION_MM 20.0
+#define PELVIS_SCALE_MIN 0.4
+#define PELVIS_SCALE_MAX 2.5
+#define ACETABULUM_RADIUS_MM 27.0
+
+/* Proximal shaft axis tilted laterally from the vertical. */
+#define SHAFT_TILT_DEFAULT_DEG 5.0
+/* Mean adult femoral offset about 43 mm: Noble et al. 1988, Clin Orthop
+ * 235:148-165 (recalled). */
+#define FEMORAL_OFFSET_DEFAULT_MM 43.0
+#define FEMORAL_OFFSET_DRAW_MIN_MM 12.0
+#define HEAD_RADIUS_MM 24.0
+#define NECK_HALF_WIDTH_RATIO 0.62
+#define SHAFT_HALF_WIDTH_MM 14.0
+#define SHAFT_LENGTH_MIN_MM 150.0
+#define SHAFT_BEYOND_DISTAL_MM 25.0
+#define SHAFT_POINTS_MIN_SEPARATION_MM 10.0
+/* Cup of an option: rim 40 degrees to the horizontal (common practice). */
+#define CUP_INCLINATION_DEG 40.0
+#define CUP_WALL_MM 4.0
+
+/* ---- Drawing in px ----------------------------------------------------- */
+
+#define BONE_LINE_PX 1.4
+#define BONE_FILL_ALPHA 0.07
+#define BONE_LINE_ALPHA 0.72
+#define NATIVE_GHOST_ALPHA 0.45
+#define CONSTRUCTION_LINE_PX 1.0
+#define CONSTRUCTION_ALPHA 0.65
+#define MIDLINE_ALPHA 0.45
+#define ARROW_JOINT_PX 3.2
+#define ARROW_PX 2.4
+#define ARROW_HEAD_MIN_PX 9.0
+#define ARROW_HEAD_PER_WIDTH 3.6
+#define FORCE_DRAW_MIN_BW 0.005
+#define HANDLE_OPTIONAL_RADIUS_PX 4.8
+#define HANDLE_HOVER_HALO_PX 5.0
+#define HANDLE_SELECT_RING_PX 4.0
+#define MARKER_HALF_PX 4.0
+#define ABDUCTOR_LINE_EXTEND_MM 25.0
+#define LABEL_PAD_PX 3.0
+#define LABEL_GAP_PX 6.0
+#define BOX_MARGIN_PX 12.0
+#define ERROR_BOX_MAX_PX 520.0
+#define SIDE_MARKER_PX 26.0
+#define SCALE_BAR_MIN_PX 60.0
+#define SCALE_BAR_MAX_PX 170.0
+#define MOVED_MIN_MM 0.05
+#define WRAP_LINES_MAX 8
+#define FIT_MARGIN_PX 24.0
+
+#define DEG (M_PI / 180.0)
+#define N_ELEMENTS(a) (sizeof (a) / sizeof ((a)[0]))
+
+/* ---- Small vector helpers ---------------------------------------------- */
+
+static inline HlVec2 v2 (double x, double y) { return (HlVec2) { x, y }; }
+static inline HlVec2 vadd (HlVec2 a, HlVec2 b) { return v2 (a.x + b.x, a.y + b.y); }
+static inline HlVec2 vsub (HlVec2 a, HlVec2 b) { return v2 (a.x - b.x, a.y - b.y); }
+static inline HlVec2 vmul (HlVec2 a, double k) { return v2 (a.x * k, a.y * k); }
+static inline double vdot (HlVec2 a, HlVec2 b) { return a.x * b.x + a.y * b.y; }
+static inline double vlen (HlVec2 a) { return hypot (a.x, a.y); }
+
+static HlVec2
+vunit (HlVec2 a, HlVec2 fallback)
+{
+  double l = vlen (a);
+  if (!(l > 1e-9) || !isfinite (l))
+    return fallback;
+  return vmul (a, 1.0 / l);
+}
+
+/* a + b * k1 + c * k2 */
+static inline HlVec2
+vcomb (HlVec2 a, HlVec2 b, double k1, HlVec2 c, double k2)
+{
+  return v2 (a.x + b.x * k1 + c.x * k2, a.y + b.y * k1 + c.y * k2);
+}
+
+static double
+clampd (double v, double lo, double hi)
+{
+  return v < lo ? lo : v > hi ? hi : v;
+}
+
+static bool
+vfinite (HlVec2 a)
+{
+  return isfinite (a.x) && isfinite (a.y);
+}
+
+/* ---- Views -------------------------------------------------------------- */
+
+HlVec2
+hl_view_to_screen (const HlView *view, HlVec2 plan)
+{
+  return v2 (plan.x * view->scale + view->tx, -plan.y * view->scale + view->ty);
+}
+
+HlVec2
+hl_view_to_plan (const HlView *view, HlVec2 screen)
+{
+  return v2 ((screen.x - view->tx) / view->scale,
+             -(screen.y - view->ty) / view->scale);
+}
+
+void
+hl_view_fit_box (HlView *view, double x0, double y0, double x1, double y1,
+                 double width, double height, double margin)
+{
+  double bw = fabs (x1 - x0), bh = fabs (y1 - y0);
+  double aw = width - 2.0 * margin, ah = height - 2.0 * margin;
+  if (!(bw > 1.0))
+    bw = 1.0;
+  if (!(bh > 1.0))
+    bh = 1.0;
+  if (!(aw > 1.0))
+    aw = width > 1.0 ? width : 1.0;
+  if (!(ah > 1.0))
+    ah = height > 1.0 ? height : 1.0;
+
+  view->scale = clampd (fmin (aw / bw, ah / bh), HL_VIEW_SCALE_MIN,
+                        HL_VIEW_SCALE_MAX);
+  double cx = 0.5 * (x0 + x1), cy = 0.5 * (y0 + y1);
+  view->tx = 0.5 * width - cx * view->scale;
+  view->ty = 0.5 * height + cy * view->scale;
+}
+
+void
+hl_view_zoom_about (HlView *view, double factor, double sx, double sy)
+{
+  if (!(factor > 0.0) || !isfinite (factor))
+    return;
+  HlVec2 anchor = hl_view_to_plan (view, v2 (sx, sy));
+  view->scale = clampd (view->scale * factor, HL_VIEW_SCALE_MIN,
+                        HL_VIEW_SCALE_MAX);
+  view->tx = sx - anchor.x * view->scale;
+  view->ty = sy + anchor.y * view->scale;
+}
+
+/* ---- Style -------------------------------------------------------------- */
+
+void
+hl_render_style_init (HlRenderStyle *style, bool dark)
+{
+  memset (style, 0, sizeof *style);
+  style->dark = dark;
+  if (dark)
+    {
+      style->fg = (HlRgba) { 0.92, 0.92, 0.90, 1.0 };
+      style->bg = (HlRgba) { 0.13, 0.13, 0.14, 1.0 };
+    }
+  else
+    {
+      style->fg = (HlRgba) { 0.10, 0.11, 0.12, 1.0 };
+      style->bg = (HlRgba) { 1.0, 1.0, 1.0, 1.0 };
+    }
+  style->paint_background = true;
+  style->show_caution = false;
+  style->show_frame = true;
+  style->show_legend = true;
+  style->show_labels = true;
+  style->hover_landmark = -1;
+  style->selected_landmark = -1;
+  style->font_px = 12.0;
+}
+
+static void
+set_rgba (cairo_t *cr, HlRgba c, double alpha)
+{
+  cairo_set_source_rgba (cr, c.r, c.g, c.b, c.a * alpha);
+}
+
+/* ---- Point lists and smooth outlines ------------------------------------ */
+
+#define POLY_MAX 128
+
+typedef struct {
+  HlVec2 p[POLY_MAX];
+  int n;
+} Poly;
+
+static void
+poly_add (Poly *poly, HlVec2 p)
+{
+  if (poly->n < POLY_MAX && vfinite (p))
+    poly->p[poly->n++] = p;
+}
+
+static void
+poly_bounds (const Poly *poly, double b[4])
+{
+  for (int i = 0; i < poly->n; i++)
+    {
+      b[0] = fmin (b[0], poly->p[i].x);
+      b[1] = fmin (b[1], poly->p[i].y);
+      b[2] = fmax (b[2], poly->p[i].x);
+      b[3] = fmax (b[3], poly->p[i].y);
+    }
+}
+
+/* A Catmull-Rom spline through the points as cubic Beziers; a point given
+ * twice makes a corner. */
+static void
+path_spline (cairo_t *cr, const HlView *view, const Poly *poly, bool closed)
+{
+  int n = poly->n;
+  if (n < 2)
+    return;
+  HlVec2 s[POLY_MAX];
+  for (int i = 0; i < n; i++)
+    s[i] = hl_view_to_screen (view, poly->p[i]);
+
+  cairo_move_to (cr, s[0].x, s[0].y);
+  int segments = closed ? n : n - 1;
+  for (int i = 0; i < segments; i++)
+    {
+      int i0 = closed ? (i - 1 + n) % n : (i > 0 ? i - 1 : 0);
+      int i1 = i;
+      int i2 = (i + 1) % n;
+      int i3 = closed ? (i + 2) % n : (i + 2 < n ? i + 2 : n - 1);
+      HlVec2 c1 = v2 (s[i1].x + (s[i2].x - s[i0].x) / 6.0,
+                      s[i1].y + (s[i2].y - s[i0].y) / 6.0);
+      HlVec2 c2 = v2 (s[i2].x - (s[i3].x - s[i1].x) / 6.0,
+                      s[i2].y - (s[i3].y - s[i1].y) / 6.0);
+      cairo_curve_to (cr, c1.x, c1.y, c2.x, c2.y, s[i2].x, s[i2].y);
+    }
+  if (closed)
+    cairo_close_path (cr);
+}
+
+/* ---- The pelvis ---------------------------------------------------------- */
+
+/* Right-handed template of one hemipelvis: u lateral from the midline, v up
+ * from the hip centre's level, mm, for a hip centre at TEMPLATE_HIP_U. */
+static const double hemipelvis_outline[][2] = {
+  { 40, 112 }, { 58, 126 }, { 86, 135 }, { 114, 129 }, { 133, 112 },
+  { 140, 92 }, { 135, 72 }, { 128, 62 }, { 128, 62 }, { 127, 50 },
+  { 122, 36 }, { 121, 20 }, { 119, 4 }, { 116, -14 }, { 111, -34 },
+  { 104, -52 }, { 94, -66 }, { 80, -73 }, { 66, -71 }, { 50, -64 },
+  { 32, -60 }, { 14, -58 }, { 6, -54 }, { 3, -30 }, { 4, -8 }, { 12, -3 },
+  { 30, 0 }, { 48, 6 }, { 60, 18 }, { 65, 34 }, { 60, 52 }, { 48, 66 },
+  { 36, 76 }, { 34, 92 }, { 36, 104 },
+};
+
+static const double obturator_outline[][2] = {
+  { 30, -18 }, { 46, -11 }, { 62, -15 }, { 71, -27 }, { 68, -42 },
+  { 55, -50 }, { 38, -48 }, { 28, -33 },
+};
+
+/* Sacrum, both halves (u signed), and its anterior foramina. */
+static const double sacrum_outline[][2] = {
+  { -50, 108 }, { -30, 114 }, { 0, 116 }, { 30, 114 }, { 50, 108 },
+  { 44, 92 }, { 38, 74 }, { 31, 55 }, { 22, 36 }, { 12, 20 }, { 0, 12 },
+  { -12, 20 }, { -22, 36 }, { -31, 55 }, { -38, 74 }, { -44, 92 },
+};
+
+static const double sacral_foramina[][3] = {
+  { 17, 94, 5.0 }, { 15, 76, 4.5 }, { 13, 58, 4.0 }, { 11, 42, 3.3 },
+};
+
+/* The lowest lumbar vertebral body: half width, bottom and top. */
+#define L5_HALF_WIDTH 26.0
+#define L5_BOTTOM 122.0
+#define L5_TOP 150.0
+
+/* Where the teardrop sits in the template when it is not placed. */
+#define TEMPLATE_TEARDROP_U 62.0
+#define TEMPLATE_TEARDROP_V (-18.0)
+
+typedef struct {
+  HlVec2 m;       /* midline point */
+  HlVec2 up;      /* along the midline, superior */
+  HlVec2 across;  /* perpendicular, towards the patient's left */
+} MidFrame;
+
+typedef struct {
+  bool ok;
+  HlVec2 hip;
+  HlVec2 base;    /* the midline at the hip centre's level */
+  double ls;      /* +1 when lateral is along `across` */
+  double ku;      /* template scale across and below the hip centre */
+  double kv_up;   /* template scale above it */
+  double shift;   /* lateral shift of the wing, mm */
+} Hemi;
+
+typedef struct {
+  bool ok;
+  MidFrame f;
+  Hemi side[2];   /* [0] operated, [1] other */
+} Pelvis;
+
+static HlVec2
+hemi_point (const Hemi *h, const MidFrame *f, double u, double v)
+{
+  double w = clampd ((v - WING_WARP_START_V) / WING_WARP_SPAN_V, 0.0,
+                     WING_STRETCH_MAX);
+  double uu = u * h->ku + h->shift * w;
+  double vv = v * (v > 0.0 ? h->kv_up : h->ku);
+  return vcomb (h->base, f->across, h->ls * uu, f->up, vv);
+}
+
+static void
+hemi_uv (const Hemi *h, const MidFrame *f, HlVec2 p, double *u, double *v)
+{
+  HlVec2 d = vsub (p, h->base);
+  *u = h->ls * vdot (d, f->across) / h->ku;
+  *v = vdot (d, f->up) / h->ku;
+}
+
+static HlVec2
+mirror_point (const MidFrame *f, HlVec2 p)
+{
+  double d = vdot (vsub (p, f->m), f->across);
+  return vsub (p, vmul (f->across, 2.0 * d));
+}
+
+static MidFrame
+mid_frame (const HlLandmarks *lm)
+{
+  MidFrame f = { lm->p[HL_LM_MIDLINE], v2 (0, 1), v2 (1, 0) };
+  if (hl_landmarks_has (lm, HL_LM_TEARDROP)
+      && hl_landmarks_has (lm, HL_LM_TEARDROP_OTHER))
+    {
+      HlVec2 d = vsub (lm->p[HL_LM_TEARDROP_OTHER], lm->p[HL_LM_TEARDROP]);
+      if (d.x < 0.0)
+        d = vmul (d, -1.0);
+      if (vlen (d) >= TEARDROP_MIN_SEPARATION_MM && vfinite (d))
+        {
+          f.across = vunit (d, v2 (1, 0));
+          f.up = v2 (-f.across.y, f.across.x);
+        }
+    }
+  return f;
+}
+
+/* Plan-frame x direction of the operated side's lateral: -1 for a right
+ * hip (the patient's right is -x). */
+static double
+side_lateral_sign (HlSide side)
+{
+  return side == HL_SIDE_LEFT ? 1.0 : -1.0;
+}
+
+static HlVec2
+other_hip_centre (const HlLandmarks *lm, const MidFrame *f)
+{
+  if (hl_landmarks_has (lm, HL_LM_HIP_CENTRE_OTHER))
+    return lm->p[HL_LM_HIP_CENTRE_OTHER];
+  return mirror_point (f, lm->p[HL_LM_HIP_CENTRE]);
+}
+
+static void
+hemi_init (Hemi *h, const MidFrame *f, HlVec2 hip, double default_ls)
+{
+  h->hip = hip;
+  h->base = vadd (f->m, vmul (f->up, vdot (vsub (hip, f->m), f->up)));
+  double lat = vdot (vsub (hip, f->m), f->across);
+  h->ls = fabs (lat) > 1e-6 ? (lat > 0 ? 1.0 : -1.0) : default_ls;
+  h->ku = clampd (fabs (lat) / TEMPLATE_HIP_U, PELVIS_SCALE_MIN,
+                  PELVIS_SCALE_MAX);
+  h->kv_up = h->ku;
+  h->shift = 0.0;
+  h->ok = vfinite (hip);
+}
+
+static Pelvis
+pelvis_build (const HlLandmarks *lm, HlSide side)
+{
+  Pelvis p = { 0 };
+  if (!hl_landmarks_has (lm, HL_LM_MIDLINE)
+      || !hl_landmarks_has (lm, HL_LM_HIP_CENTRE)
+      || !vfinite (lm->p[HL_LM_MIDLINE]) || !vfinite (lm->p[HL_LM_HIP_CENTRE]))
+    return p;
+  p.f = mid_frame (lm);
+  double ls = side_lateral_sign (side);
+  hemi_init (&p.side[0], &p.f, lm->p[HL_LM_HIP_CENTRE], ls);
+  hemi_init (&p.side[1], &p.f, other_hip_centre (lm, &p.f), -ls);
+
+  if (hl_landmarks_has (lm, HL_LM_ABDUCTOR_ORIGIN)
+      && vfinite (lm->p[HL_LM_ABDUCTOR_ORIGIN]))
+    {
+      Hemi *h = &p.side[0];
+      HlVec2 d = vsub (lm->p[HL_LM_ABDUCTOR_ORIGIN], h->base);
+      double uo = h->ls * vdot (d, p.f.across), vo = vdot (d, p.f.up);
+      double stretch = clampd (vo / (TEMPLATE_ORIGIN_V * h->ku),
+                               WING_STRETCH_MIN, WING_STRETCH_MAX);
+      h->kv_up = h->ku * stretch;
+      h->shift = clampd (uo - TEMPLATE_ORIGIN_U * h->ku, -WING_SHIFT_MAX_MM,
+                         WING_SHIFT_MAX_MM);
+      /* The other wing follows, so the pelvis stays symmetric. */
+      Hemi *o = &p.side[1];
+      o->kv_up = o->ku * stretch;
+      o->shift = h->shift * o->ku / h->ku;
+    }
+  p.ok = p.side[0].ok && p.side[1].ok;
+  return p;
+}
+
+static void
+hemi_poly (const Hemi *h, const MidFrame *f, const double (*uv)[2], int n,
+           Poly *out)
+{
+  out->n = 0;
+  for (int i = 0; i < n; i++)
+    poly_add (out, hemi_point (h, f, uv[i][0], uv[i][1]));
+}
+
+/* The sacrum and L5 sit on the midline between both hemipelves. */
+static Hemi
+sacrum_frame (const Pelvis *p)
+{
+  Hemi s = p->side[0];
+  s.base = vmul (vadd (p->side[0].base, p->side[1].base), 0.5);
+  s.ku = 0.5 * (p->side[0].ku + p->side[1].ku);
+  s.kv_up = 0.5 * (p->side[0].kv_up + p->side[1].kv_up);
+  s.shift = 0.0;
+  s.ls = 1.0;
+  return s;
+}
+
+/* The acetabular roof, medial wall and teardrop of one side. */
+static void
+acetabulum_poly (const Hemi *h, const MidFrame *f, const HlLandmarks *lm,
+                 HlLandmarkId teardrop, Poly *out)
+{
+  double tu = TEMPLATE_TEARDROP_U, tv = TEMPLATE_TEARDROP_V;
+  if (hl_landmarks_has (lm, teardrop) && vfinite (lm->p[teardrop]))
+    hemi_uv (h, f, lm->p[teardrop], &tu, &tv);
+
+  out->n = 0;
+  double r = ACETABULUM_RADIUS_MM;
+  for (double a = 30.0; a <= 170.0; a += 10.0)
+    poly_add (out, hemi_point (h, f, TEMPLATE_HIP_U + r * cos (a * DEG),
+                               r * sin (a * DEG)));
+  poly_add (out, hemi_point (h, f, tu + 2.0, tv + 12.0));
+  poly_add (out, hemi_point (h, f, tu + 1.5, tv + 4.0));
+  poly_add (out, hemi_point (h, f, tu, tv));
+  poly_add (out, hemi_point (h, f, tu - 4.0, tv + 4.0));
+  poly_add (out, hemi_point (h, f, tu - 6.0, tv + 14.0));
+  poly_add (out, hemi_point (h, f, tu - 5.0, tv + 26.0));
+}
+
+/* ---- A femur -------------------------------------------------------------- */
+
+typedef struct {
+  bool ok;
+  HlVec2 head;
+  double head_r;
+  Poly outline;      /* open: the distal end is not a bone edge */
+} Femur;
+
+typedef struct {
+  HlVec2 hip, ins, lt, sp, sd;
+  bool has_ins, has_lt, has_sp, has_sd;
+  double ls;         /* plan-frame x direction of lateral */
+  double neck_shaft_deg;
+} FemurIn;
+
+static Femur
+femur_build (const FemurIn *in)
+{
+  Femur fm = { 0 };
+  if (!vfinite (in->hip))
+    return fm;
+  const double ls = in->ls;
+  const double ws = SHAFT_HALF_WIDTH_MM;
+  const double rh = HEAD_RADIUS_MM;
+  const double wn = NECK_HALF_WIDTH_RATIO * rh;
+  HlVec2 h = in->hip;
+
+  HlVec2 a = v2 (ls * sin (SHAFT_TILT_DEFAULT_DEG * DEG),
+                 cos (SHAFT_TILT_DEFAULT_DEG * DEG));
+  if (in->has_sp && in->has_sd
+      && vlen (vsub (in->sp, in->sd)) >= SHAFT_POINTS_MIN_SEPARATION_MM)
+    {
+      a = vunit (vsub (in->sp, in->sd), a);
+      if (a.y < 0.0)
+        a = vmul (a, -1.0);
+    }
+  HlVec2 n = v2 (ls * a.y, -ls * a.x);   /* lateral, perpendicular to a */
+
+  HlVec2 axis_pt;
+  if (in->has_sp)
+    axis_pt = in->sp;
+  else if (in->has_sd)
+    axis_pt = in->sd;
+  else
+    axis_pt = vadd (h, vmul (n, FEMORAL_OFFSET_DEFAULT_MM));
+
+  double offset = fmax (-vdot (vsub (h, axis_pt), n),
+                        FEMORAL_OFFSET_DRAW_MIN_MM);
+  HlVec2 foot = vadd (h, vmul (n, offset));
+  double nsa = clampd (in->neck_shaft_deg, HL_NECK_SHAFT_MIN_DEG + 1.0,
+                       HL_NECK_SHAFT_MAX_DEG - 1.0);
+  HlVec2 q = vsub (foot, vmul (a, offset / tan (M_PI - nsa * DEG)));
+  HlVec2 e = vunit (vsub (h, q), v2 (-ls, 0));
+  HlVec2 p = v2 (-e.y, e.x);
+  if (vdot (p, a) < 0.0)
+    p = vmul (p, -1.0);
+
+#define AX(t, s) vcomb (q, a, (t), n, (s))
+  HlVec2 ins = in->has_ins ? in->ins : AX (offset - 8.0, ws + 6.0);
+  HlVec2 lt = in->has_lt ? in->lt : AX (-14.0, -(ws + 4.0));
+  double t_ins = vdot (vsub (ins, q), a);
+  double t_lt = vdot (vsub (lt, q), a);
+  double t_end = -SHAFT_LENGTH_MIN_MM;
+  if (in->has_sd)
+    t_end = fmin (t_end, vdot (vsub (in->sd, q), a) - SHAFT_BEYOND_DISTAL_MM);
+  t_end = fmin (t_end, t_lt - 60.0);
+  double t_flare = fmin (t_ins - 24.0, t_lt + 10.0);
+
+  Poly *o = &fm.outline;
+  o->n = 0;
+  poly_add (o, AX (t_end, ws));
+  poly_add (o, AX (t_end, ws));
+  poly_add (o, AX (0.5 * (t_end + t_flare), ws));
+  poly_add (o, AX (t_flare, ws));
+  poly_add (o, vsub (ins, vmul (a, 9.0)));
+  poly_add (o, ins);
+  poly_add (o, vcomb (ins, a, 6.0, n, -7.0));
+  poly_add (o, vcomb (ins, a, 3.0, n, -16.0));
+
+  double along = sqrt (rh * rh - wn * wn);
+  double neck_len = vlen (vsub (h, q));
+  HlVec2 fossa = vcomb (q, e, 0.40 * neck_len, p, wn);
+  poly_add (o, fossa);
+
+  HlVec2 js = vcomb (h, e, -along, p, wn);
+  HlVec2 ji = vcomb (h, e, -along, p, -wn);
+  double as = atan2 (js.y - h.y, js.x - h.x);
+  double ai = atan2 (ji.y - h.y, ji.x - h.x);
+  double ae = atan2 (e.y, e.x);
+  double toward = remainder (ae - as, 2.0 * M_PI);
+  double span = toward > 0 ? fmod (ai - as + 4.0 * M_PI, 2.0 * M_PI)
+                           : -fmod (as - ai + 4.0 * M_PI, 2.0 * M_PI);
+  const int head_steps = 24;
+  for (int i = 0; i <= head_steps; i++)
+    {
+      double t = as + span * i / head_steps;
+      poly_add (o, v2 (h.x + rh * cos (t), h.y + rh * sin (t)));
+    }
+
+  poly_add (o, vcomb (q, e, 0.45 * neck_len, p, -wn));
+  poly_add (o, AX (fmin (t_lt + 13.0, 0.0), -(ws + 5.0)));
+  poly_add (o, vadd (lt, vmul (a, 6.0)));
+  poly_add (o, lt);
+  poly_add (o, AX (t_lt - 8.0, -(ws + 0.5)));
+  poly_add (o, AX (t_lt - 30.0, -ws));
+  poly_add (o, AX (0.5 * (t_end + t_lt - 30.0), -ws));
+  poly_add (o, AX (t_end, -ws));
+  poly_add (o, AX (t_end, -ws));
+#undef AX
+
+  fm.head = h;
+  fm.head_r = rh;
+  fm.ok = true;
+  return fm;
+}
+
+static FemurIn
+femur_in_operated (const HlLandmarks *lm, HlSide side, double nsa)
+{
+  FemurIn in = { 0 };
+  in.hip = lm->p[HL_LM_HIP_CENTRE];
+  in.ins = lm->p[HL_LM_ABDUCTOR_INSERTION];
+  in.lt = lm->p[HL_LM_LESSER_TROCHANTER];
+  in.sp = lm->p[HL_LM_SHAFT_PROXIMAL];
+  in.sd = lm->p[HL_LM_SHAFT_DISTAL];
+  in.has_ins = hl_landmarks_has (lm, HL_LM_ABDUCTOR_INSERTION) && vfinite (in.ins);
+  in.has_lt = hl_landmarks_has (lm, HL_LM_LESSER_TROCHANTER) && vfinite (in.lt);
+  in.has_sp = hl_landmarks_has (lm, HL_LM_SHAFT_PROXIMAL) && vfinite (in.sp);
+  in.has_sd = hl_landmarks_has (lm, HL_LM_SHAFT_DISTAL) && vfinite (in.sd);
+  in.ls = side_lateral_sign (side);
+  in.neck_shaft_deg = nsa;
+  return in;
+}
+
+/* The other femur: its own landmarks where placed, else the operated side's
+ * mirrored about the midline and moved with the other hip centre. */
+static bool
+femur_in_other (const HlLandmarks *lm, HlSide side, FemurIn *in)
+{
+  static const HlLandmarkId pairs[][2] = {
+    { HL_LM_LESSER_TROCHANTER, HL_LM_LESSER_TROCHANTER_OTHER },
+    { HL_LM_SHAFT_PROXIMAL, HL_LM_SHAFT_PROXIMAL_OTHER },
+    { HL_LM_SHAFT_DISTAL, HL_LM_SHAFT_DISTAL_OTHER },
+  };
+  bool has_mid = hl_landmarks_has (lm, HL_LM_MIDLINE);
+  bool has_hip = hl_landmarks_has (lm, HL_LM_HIP_CENTRE);
+  bool has_other = hl_landmarks_has (lm, HL_LM_HIP_CENTRE_OTHER);
+  memset (in, 0, sizeof *in);
+  in->ls = -side_lateral_sign (side);
+  in->neck_shaft_deg = HL_NECK_SHAFT_ANGLE_DEFAULT;
+  if (!has_other && !(has_mid && has_hip))
+    return false;
+
+  bool can_mirror = has_mid && has_hip;
+  MidFrame f = mid_frame (lm);
+  HlVec2 mirrored_hip = can_mirror ? mirror_point (&f, lm->p[HL_LM_HIP_CENTRE])
+                                   : v2 (0, 0);
+  in->hip = has_other ? lm->p[HL_LM_HIP_CENTRE_OTHER] : mirrored_hip;
+  HlVec2 shift = vsub (in->hip, mirrored_hip);
+
+  HlVec2 *dst[] = { &in->lt, &in->sp, &in->sd };
+  bool *has[] = { &in->has_lt, &in->has_sp, &in->has_sd };
+  for (size_t i = 0; i < 3; i++)
+    {
+      if (hl_landmarks_has (lm, pairs[i][1]))
+        {
+          *dst[i] = lm->p[pairs[i][1]];
+          *has[i] = true;
+        }
+      else if (can_mirror && hl_landmarks_has (lm, pairs[i][0]))
+        {
+          *dst[i] = vadd (mirror_point (&f, lm->p[pairs[i][0]]), shift);
+          *has[i] = true;
+        }
+    }
+  if (can_mirror && hl_landmarks_has (lm, HL_LM_ABDUCTOR_INSERTION))
+    {
+      in->ins = vadd (mirror_point (&f, lm->p[HL_LM_ABDUCTOR_INSERTION]), shift);
+      in->has_ins = true;
+    }
+  return vfinite (in->hip);
+}
+
+/* ---- Scenes --------------------------------------------------------------- */
+
+static const HlRecon *
+scene_recon (const HlScene *scene)
+{
+  if (!scene->has_option)
+    return NULL;
+  return &scene->plan->options[scene->option_index].recon;
+}
+
+void
+hl_scene_build (HlScene *scene, const HlPlan *plan, int option_index)
+{
+  memset (scene, 0, sizeof *scene);
+  scene->plan = plan;
+  scene->option_index = -1;
+  if (plan == NULL)
+    {
+      hl_error_set (&scene->error, HL_ERR_INVALID, "plan", "%s",
+                    _("There is no plan to draw."));
+      return;
+    }
+  scene->native = plan->landmarks;
+  scene->shown = plan->landmarks;
+  if (option_index >= 0 && (size_t) option_index < plan->n_options)
+    {
+      scene->has_option = true;
+      scene->option_index = option_index;
+      hl_recon_landmarks (plan, scene_recon (scene), &scene->shown);
+    }
+
+  if (hl_model_prepare (&scene->model, plan, &scene->error) != HL_OK)
+    return;
+  scene->prepared = true;
+  if (hl_model_solve (&scene->model, scene_recon (scene), &scene->result,
+                      &scene->error) != HL_OK)
+    return;
+  hl_model_forces (&scene->model, plan, scene_recon (scene), &scene->result,
+                   &scene->forces);
+  scene->solved = true;
+}
+
+/* Every shape of a scene, in plan coordinates. */
+typedef struct {
+  Pelvis pelvis;
+  Poly hemi[2];
+  Poly obturator[2];
+  Poly acetabulum[2];
+  Poly sacrum;
+  Hemi sacrum_frame;
+  Femur native_femur;   /* operated, native */
+  Femur shown_femur;    /* operated, the option's (= native without one) */
+  Femur other_femur;
+} Shapes;
+
+static void
+shapes_build (const HlScene *scene, Shapes *sh)
+{
+  memset (sh, 0, sizeof *sh);
+  if (scene->plan == NULL)
+    return;
+  const HlLandmarks *lm = &scene->native;
+  HlSide side = scene->plan->side;
+
+  sh->pelvis = pelvis_build (lm, side);
+  if (sh->pelvis.ok)
+    {
+      static const HlLandmarkId teardrops[2] = { HL_LM_TEARDROP, HL_LM_TEARDROP_OTHER };
+      for (int s = 0; s < 2; s++)
+        {
+          const Hemi *h = &sh->pelvis.side[s];
+          hemi_poly (h, &sh->pelvis.f, hemipelvis_outline,
+                     (int) N_ELEMENTS (hemipelvis_outline), &sh->hemi[s]);
+          hemi_poly (h, &sh->pelvis.f, obturator_outline,
+                     (int) N_ELEMENTS (obturator_outline), &sh->obturator[s]);
+          acetabulum_poly (h, &sh->pelvis.f, lm, teardrops[s], &sh->acetabulum[s]);
+        }
+      sh->sacrum_frame = sacrum_frame (&sh->pelvis);
+      hemi_poly (&sh->sacrum_frame, &sh->pelvis.f, sacrum_outline,
+                 (int) N_ELEMENTS (sacrum_outline), &sh->sacrum);
+    }
+
+  if (hl_landmarks_has (lm, HL_LM_HIP_CENTRE))
+    {
+      FemurIn in = femur_in_operated (lm, side, HL_NECK_SHAFT_ANGLE_DEFAULT);
+      sh->native_femur = femur_build (&in);
+      sh->shown_femur = sh->native_femur;
+      if (scene->has_option && hl_landmarks_has (&scene->shown, HL_LM_HIP_CENTRE))
+        {
+          FemurIn oin = femur_in_operated (&scene->shown, side,
+                                           HL_NECK_SHAFT_ANGLE_DEFAULT);
+          sh->shown_femur = femur_build (&oin);
+        }
+    }
+  FemurIn other;
+  if (femur_in_other (lm, side, &other))
+    sh->other_femur = femur_build (&other);
+}
+
+bool
+hl_scene_bounds (const HlScene *scene, double *x0, double *y0, double *x1,
+                 double *y1)
+{
+  double b[4] = { INFINITY, INFINITY, -INFINITY, -INFINITY };
+  Shapes sh;
+  shapes_build (scene, &sh);
+  for (int s = 0; s < 2; s++)
+    poly_bounds (&sh.hemi[s], b);
+  poly_bounds (&sh.native_femur.outline, b);
+  poly_bounds (&sh.shown_femur.outline, b);
+  poly_bounds (&sh.other_femur.outline, b);
+
+  Poly pts = { .n = 0 };
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      if (hl_landmarks_has (&scene->native, (HlLandmarkId) i))
+        poly_add (&pts, scene->native.p[i]);
+      if (hl_landmarks_has (&scene->shown, (HlLandmarkId) i))
+        poly_add (&pts, scene->shown.p[i]);
+    }
+  if (scene->solved)
+    for (int i = 0; i < scene->forces.n; i++)
+      {
+        const HlForce *f = &scene->forces.f[i];
+        HlVec2 d = vmul (vunit (f->vector, v2 (0, 0)),
+                         f->bw * HL_RENDER_FORCE_MM_PER_BW);
+        poly_add (&pts, f->point);
+        poly_add (&pts, vadd (f->point, d));
+        poly_add (&pts, vsub (f->point, d));
+      }
+  poly_bounds (&pts, b);
+
+  bool any = isfinite (b[0]) && isfinite (b[2]);
+  if (!any)
+    {
+      b[0] = -200.0;
+      b[1] = -220.0;
+      b[2] = 200.0;
+      b[3] = 160.0;
+    }
+  *x0 = b[0];
+  *y0 = b[1];
+  *x1 = b[2];
+  *y1 = b[3];
+  return any;
+}
+
+void
+hl_render_fit_view (const HlScene *scene, double width, double height,
+                    double margin, HlView *view)
+{
+  double x0, y0, x1, y1;
+  hl_scene_bounds (scene, &x0, &y0, &x1, &y1);
+  hl_view_fit_box (view, x0, y0, x1, y1, width, height, margin);
+}
+
+/* ---- Text ----------------------------------------------------------------- */
+
+static void
+font (cairo_t *cr, const HlRenderStyle *style, double scale, bool bold)
+{
+  cairo_select_font_face (cr, "sans-serif", CAIRO_FONT_SLANT_NORMAL,
+                          bold ? CAIRO_FONT_WEIGHT_BOLD : CAIRO_FONT_WEIGHT_NORMAL);
+  cairo_set_font_size (cr, style->font_px * scale);
+}
+
+/* A label on a rounded pale pill, centred on (cx, cy). */
+static void
+label_pill (cairo_t *cr, const HlRenderStyle *style, const char *text,
+            double cx, double cy, HlRgba color)
+{
+  cairo_text_extents_t te;
+  cairo_font_extents_t fe;
+  cairo_text_extents (cr, text, &te);
+  cairo_font_extents (cr, &fe);
+  double w = te.x_advance + 2.0 * LABEL_PAD_PX;
+  double h = fe.ascent + fe.descent + LABEL_PAD_PX;
+  double x = cx - 0.5 * w, y = cy - 0.5 * h, r = 0.5 * h;
+
+  cairo_new_sub_path (cr);
+  cairo_arc (cr, x + w - r, y + r, r, -M_PI / 2, M_PI / 2);
+  cairo_arc (cr, x + r, y + r, r, M_PI / 2, 3 * M_PI / 2);
+  cairo_close_path (cr);
+  set_rgba (cr, style->bg, 0.85);
+  cairo_fill (cr);
+
+  set_rgba (cr, color, 1.0);
+  cairo_move_to (cr, x + LABEL_PAD_PX, y + 0.5 * LABEL_PAD_PX + fe.ascent);
+  cairo_show_text (cr, text);
+}
+
+static void
+label_size (cairo_t *cr, const char *text, double *w, double *h)
+{
+  cairo_text_extents_t te;
+  cairo_font_extents_t fe;
+  cairo_text_extents (cr, text, &te);
+  cairo_font_extents (cr, &fe);
+  *w = te.x_advance + 2.0 * LABEL_PAD_PX;
+  *h = fe.ascent + fe.descent + LABEL_PAD_PX;
+}
+
+/* Splits text into at most WRAP_LINES_MAX lines of at most max_w px. */
+typedef struct {
+  char line[WRAP_LINES_MAX][HL_ERROR_MESSAGE_MAX];
+  int n;
+} Wrapped;
+
+static void
+wrap_text (cairo_t *cr, const char *text, double max_w, Wrapped *out)
+{
+  out->n = 0;
+  char cur[HL_ERROR_MESSAGE_MAX] = "";
+  const char *p = text;
+  while (*p != '\0' && out->n < WRAP_LINES_MAX)
+    {
+      while (*p == ' ')
+        p++;
+      const char *end = p;
+      while (*end != '\0' && *end != ' ')
+        end++;
+      if (end == p)
+        break;
+      char word[HL_ERROR_MESSAGE_MAX];
+      size_t wl = (size_t) (end - p);
+      if (wl >= sizeof word)
+        wl = sizeof word - 1;
+      memcpy (word, p, wl);
+      word[wl] = '\0';
+      p = end;
+
+      char trial[2 * HL_ERROR_MESSAGE_MAX + 2];
+      snprintf (trial, sizeof trial, "%s%s%s", cur, cur[0] ? " " : "", word);
+      size_t tl = strlen (trial);
+      cairo_text_extents_t te;
+      cairo_text_extents (cr, trial, &te);
+      if (te.x_advance > max_w && cur[0] != '\0')
+        {
+          snprintf (out->line[out->n++], HL_ERROR_MESSAGE_MAX, "%s", cur);
+          snprintf (cur, sizeof cur, "%s", word);
+        }
+      else if (tl < sizeof cur)
+        memcpy (cur, trial, tl + 1);
+    }
+  if (cur[0] != '\0' && out->n < WRAP_LINES_MAX)
+    snprintf (out->line[out->n++], HL_ERROR_MESSAGE_MAX, "%s", cur);
+}
+
+/* ---- Drawing pieces --------------------------------------------------------- */
+
+static void
+stroke_poly (cairo_t *cr, const HlView *view, const Poly *poly, bool closed)
+{
+  cairo_new_path (cr);
+  path_spline (cr, view, poly, closed);
+  cairo_stroke (cr);
+}
+
+static void
+draw_pelvis (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
+             const Shapes *sh)
+{
+  if (!sh->pelvis.ok)
+    return;
+  const Hemi *sf = &sh->sacrum_frame;
+  const MidFrame *f = &sh->pelvis.f;
+
+  /* L5 body: a faint hint of the spine above the sacrum. */
+  Poly l5 = { .n = 0 };
+  const double l5_pts[][2] = {
+    { -L5_HALF_WIDTH, L5_BOTTOM }, { -L5_HALF_WIDTH, L5_BOTTOM },
+    { L5_HALF_WIDTH, L5_BOTTOM }, { L5_HALF_WIDTH, L5_BOTTOM },
+    { L5_HALF_WIDTH + 2.0, 0.5 * (L5_BOTTOM + L5_TOP) },
+    { L5_HALF_WIDTH, L5_TOP }, { L5_HALF_WIDTH, L5_TOP },
+    { -L5_HALF_WIDTH, L5_TOP }, { -L5_HALF_WIDTH, L5_TOP },
+    { -L5_HALF_WIDTH - 2.0, 0.5 * (L5_BOTTOM + L5_TOP) },
+  };
+  hemi_poly (sf, f, l5_pts, (int) N_ELEMENTS (l5_pts), &l5);
+
+  cairo_set_line_width (cr, BONE_LINE_PX);
+  cairo_set_dash (cr, NULL, 0, 0);
+
+  cairo_new_path (cr);
+  path_spline (cr, view, &l5, true);
+  set_rgba (cr, style->fg, BONE_FILL_ALPHA);
+  cairo_fill_preserve (cr);
+  set_rgba (cr, style->fg, BONE_LINE_ALPHA * 0.6);
+  cairo_stroke (cr);
+
+  cairo_set_fill_rule (cr, CAIRO_FILL_RULE_EVEN_ODD);
+  for (int s = 0; s < 2; s++)
+    {
+      cairo_new_path (cr);
+      path_spline (cr, view, &sh->hemi[s], true);
+      path_spline (cr, view, &sh->obturator[s], true);
+      set_rgba (cr, style->fg, BONE_FILL_ALPHA);
+      cairo_fill_preserve (cr);
+      set_rgba (cr, style->fg, BONE_LINE_ALPHA);
+      cairo_stroke (cr);
+    }
+  cairo_set_fill_rule (cr, CAIRO_FILL_RULE_WINDING);
+
+  cairo_new_path (cr);
+  path_spline (cr, view, &sh->sacrum, true);
+  set_rgba (cr, style->fg, BONE_FILL_ALPHA);
+  cairo_fill_preserve (cr);
+  set_rgba (cr, style->fg, BONE_LINE_ALPHA);
+  cairo_stroke (cr);
+
+  set_rgba (cr, style->fg, BONE_LINE_ALPHA * 0.7);
+  for (size_t i = 0; i < N_ELEMENTS (sacral_foramina); i++)
+    for (int sgn = -1; sgn <= 1; sgn += 2)
+      {
+        HlVec2 c = hemi_point (sf, f, sgn * sacral_foramina[i][0],
+                               sacral_foramina[i][1]);
+        HlVec2 s = hl_view_to_screen (view, c);
+        double r = sacral_foramina[i][2] * sf->ku * view->scale;
+        cairo_new_path (cr);
+        cairo_arc (cr, s.x, s.y, r, 0, 2 * M_PI);
+        cairo_stroke (cr);
+      }
+}
+
+static void
+draw_acetabula (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
+                const Shapes *sh)
+{
+  if (!sh->pelvis.ok)
+    return;
+  cairo_set_dash (cr, NULL, 0, 0);
+  cairo_set_line_width (cr, BONE_LINE_PX * 1.3);
+  set_rgba (cr, style->fg, BONE_LINE_ALPHA);
+  for (int s = 0; s < 2; s++)
+    stroke_poly (cr, view, &sh->acetabulum[s], false);
+}
+
+static void
+draw_femur (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
+            const Femur *fm, bool ghost)
+{
+  if (!fm->ok)
+    return;
+  cairo_set_line_width (cr, BONE_LINE_PX);
+  if (ghost)
+    {
+      static const double dash[] = { 5.0, 4.0 };
+      cairo_set_dash (cr, dash, 2, 0);
+      cairo_new_path (cr);
+      path_spline (cr, view, &fm->outline, false);
+      set_rgba (cr, style->fg, NATIVE_GHOST_ALPHA);
+      cairo_stroke (cr);
+      cairo_set_dash (cr, NULL, 0, 0);
+      return;
+    }
+  /* Opaque, so the femoral head covers the acetabulum behind it. */
+  cairo_new_path (cr);
+  path_spline (cr, view, &fm->outline, true);
+  set_rgba (cr, style->bg, 1.0);
+  cairo_fill_preserve (cr);
+  set_rgba (cr, style->fg, BONE_FILL_ALPHA * 1.4);
+  cairo_fill (cr);
+  cairo_set_dash (cr, NULL, 0, 0);
+  set_rgba (cr, style->fg, BONE_LINE_ALPHA);
+  stroke_poly (cr, view, &fm->outline, false);
+}
+
+/* An implant cup at the option's hip centre, rim 40 degrees to the
+ * horizontal, opening inferolaterally. */
+static void
+draw_cup (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
+          HlVec2 centre, double radius, double ls)
+{
+  HlVec2 s = hl_view_to_screen (view, centre);
+  /* The rim, in screen coordinates (y down): rises towards lateral. */
+  double rim = atan2 (-sin (CUP_INCLINATION_DEG * DEG),
+                      ls * cos (CUP_INCLINATION_DEG * DEG));
+  double r_out = (radius + CUP_WALL_MM) * view->scale;
+  double r_in = radius * view->scale;
+  HlRgba c = hl_palette_color (HL_ROLE_OPTION, style->dark);
+
+  double a0 = rim, a1 = rim + M_PI;
+  /* The dome is the superomedial half: with screen y down, cairo's positive
+   * sweep reaches it from the lateral rim of a right hip. */
+  cairo_new_path (cr);
+  if (ls < 0)
+    {
+      cairo_arc (cr, s.x, s.y, r_out, a0, a1);
+      cairo_arc_negative (cr, s.x, s.y, r_in, a1, a0);
+    }
+  else
+    {
+      cairo_arc_negative (cr, s.x, s.y, r_out, a0, a1 - 2 * M_PI);
+      cairo_arc (cr, s.x, s.y, r_in, a1 - 2 * M_PI, a0);
+    }
+  cairo_close_path (cr);
+  set_rgba (cr, c, 0.18);
+  cairo_fill_preserve (cr);
+  set_rgba (cr, c, 0.9);
+  cairo_set_line_width (cr, 1.5);
+  cairo_set_dash (cr, NULL, 0, 0);
+  cairo_stroke (cr);
+}
+
+static void
+draw_line_mm (cairo_t *cr, const HlView *view, HlVec2 a, HlVec2 b)
+{
+  HlVec2 sa = hl_view_to_screen (view, a), sb = hl_view_to_screen (view, b);
+  cairo_new_path (cr);
+  cairo_move_to (cr, sa.x, sa.y);
+  cairo_line_to (cr, sb.x, sb.y);
+  cairo_stroke (cr);
+}
+
+static void
+draw_midline (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
+              const HlScene *scene, const Shapes *sh, double y_lo, double y_hi)
+{
+  if (!hl_landmarks_has (&scene->native, HL_LM_MIDLINE))
+    return;
+  MidFrame f = sh->pelvis.ok ? sh->pelvis.f : mid_frame (&scene->native);
+  double span_lo = y_lo - f.m.y, span_hi = y_hi - f.m.y;
+  HlVec2 a = vadd (f.m, vmul (f.up, span_lo / fmax (f.up.y, 0.5)));
+  HlVec2 b = vadd (f.m, vmul (f.up, span_hi / fmax (f.up.y, 0.5)));
+  static const double dash[] = { 12.0, 4.0, 2.0, 4.0 };
+  cairo_set_dash (cr, dash, 4, 0);
+  cairo_set_line_width (cr, CONSTRUCTION_LINE_PX);
+  set_rgba (cr, style->fg, MIDLINE_ALPHA);
+  draw_line_mm (cr, view, a, b);
+  cairo_set_dash (cr, NULL, 0, 0);
+
+  if (style->show_labels)
+    {
+      HlVec2 s = hl_view_to_screen (view, a);
+      font (cr, style, 0.9, false);
+      label_pill (cr, style, _("Midline"), s.x, s.y - 10.0, style->fg);
+    }
+}
+
+static void
+arrow_path (cairo_t *cr, HlVec2 tail, HlVec2 head, double width,
+            const double *dash, int n_dash)
+{
+  HlVec2 d = vsub (head, tail);
+  double len = vlen (d);
+  if (!(len > 0.5))
+    return;
+  HlVec2 u = vmul (d, 1.0 / len);
+  HlVec2 nrm = v2 (-u.y, u.x);
+  double hl = fmin (fmax (ARROW_HEAD_MIN_PX, ARROW_HEAD_PER_WIDTH * width), len);
+  double hw = 0.42 * hl;
+  HlVec2 base = vsub (head, vmul (u, hl * 0.85));
+
+  cairo_set_line_width (cr, width);
+  cairo_set_line_cap (cr, CAIRO_LINE_CAP_BUTT);
+  cairo_set_dash (cr, dash, n_dash, 0);
+  cairo_new_path (cr);
+  cairo_move_to (cr, tail.x, tail.y);
+  cairo_line_to (cr, base.x, base.y);
+  cairo_stroke (cr);
+  cairo_set_dash (cr, NULL, 0, 0);
+
+  HlVec2 back = vsub (head, vmul (u, hl));
+  cairo_new_path (cr);
+  cairo_move_to (cr, head.x, head.y);
+  cairo_line_to (cr, back.x + nrm.x * hw, back.y + nrm.y * hw);
+  cairo_line_to (cr, base.x, base.y);
+  cairo_line_to (cr, back.x - nrm.x * hw, back.y - nrm.y * hw);
+  cairo_close_path (cr);
+  cairo_fill (cr);
+}
+
+static HlPaletteRole
+force_role (HlForceKind kind)
+{
+  switch (kind)
+    {
+    case HL_FORCE_WEIGHT:
+      return HL_ROLE_WEIGHT;
+    case HL_FORCE_ABDUCTOR:
+      return HL_ROLE_ABDUCTOR;
+    case HL_FORCE_JOINT:
+      return HL_ROLE_JOINT;
+    case HL_FORCE_CANE:
+      return HL_ROLE_CANE;
+    case HL_FORCE_LOAD_CONTRA:
+    case HL_FORCE_LOAD_IPSI:
+    case HL_FORCE_LOAD_MIDLINE:
+    case HL_FORCE_N:
+    default:
+      break;
+    }
+  return HL_ROLE_LOAD;
+}
+
+/* Short names on the arrows; the legend gives the full ones. */
+static const char *
+force_short (HlForceKind kind)
+{
+  switch (kind)
+    {
+    case HL_FORCE_WEIGHT:
+      return _("W");
+    case HL_FORCE_ABDUCTOR:
+      return _("Abd");
+    case HL_FORCE_JOINT:
+      return _("J");
+    case HL_FORCE_CANE:
+      return _("Cane");
+    case HL_FORCE_LOAD_CONTRA:
+    case HL_FORCE_LOAD_IPSI:
+    case HL_FORCE_LOAD_MIDLINE:
+    case HL_FORCE_N:
+    default:
+      break;
+    }
+  return _("Load");
+}
+
+/* Pushes (the joint reaction on the acetabulum, the cane on the hand) are
+ * drawn ending at their point; pulls and weights start from it. */
+static bool
+force_is_push (HlForceKind kind)
+{
+  return kind == HL_FORCE_JOINT || kind == HL_FORCE_CANE;
+}
+
+static void
+draw_forces (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
+             const HlScene *scene)
+{
+  const HlForceSet *fs = &scene->forces;
+  for (int i = 0; i < fs->n; i++)
+    {
+      const HlForce *f = &fs->f[i];
+      if (!(f->bw > FORCE_DRAW_MIN_BW) || !vfinite (f->vector))
+        continue;
+      HlPaletteRole role = force_role (f->kind);
+      HlRgba c = hl_palette_color (role, style->dark);
+      HlVec2 dir = vunit (f->vector, v2 (0, -1));
+      HlVec2 d = vmul (dir, f->bw * HL_RENDER_FORCE_MM_PER_BW);
+      bool push = force_is_push (f->kind);
+      HlVec2 tail = push ? vsub (f->point, d) : f->point;
+      HlVec2 head = push ? f->point : vadd (f->point, d);
+      HlVec2 st = hl_view_to_screen (view, tail), sh = hl_view_to_screen (view, head);
+
+      double dashes[HL_PALETTE_DASHES_MAX];
+      int nd = hl_palette_dashes (role, dashes);
+      set_rgba (cr, c, 1.0);
+      arrow_path (cr, st, sh, f->kind == HL_FORCE_JOINT ? ARROW_JOINT_PX : ARROW_PX,
+                  dashes, nd);
+
+      if (!style->show_labels)
+        continue;
+      char text[64];
+      snprintf (text, sizeof text, _("%s %.2f BW"), force_short (f->kind), f->bw);
+      font (cr, style, 1.0, true);
+      double w, h;
+      label_size (cr, text, &w, &h);
+      /* Beyond the free end of the arrow, clear of the bones' crowd. */
+      HlVec2 free_end = push ? st : sh;
+      HlVec2 away = vunit (push ? vsub (st, sh) : vsub (sh, st), v2 (0, 1));
+      double reach = 0.5 * fabs (away.x) * w + 0.5 * fabs (away.y) * h + LABEL_GAP_PX;
+      label_pill (cr, style, text, free_end.x + away.x * reach,
+                  free_end.y + away.y * reach, c);
+    }
+}
+
+static void
+right_angle_mark (cairo_t *cr, HlVec2 corner, HlVec2 u1, HlVec2 u2, double size)
+{
+  HlVec2 a = vadd (corner, vmul (u1, size));
+  HlVec2 b = vadd (a, vmul (u2, size));
+  HlVec2 c = vadd (corner, vmul (u2, size));
+  cairo_new_path (cr);
+  cairo_move_to (cr, a.x, a.y);
+  cairo_line_to (cr, b.x, b.y);
+  cairo_line_to (cr, c.x, c.y);
+  cairo_stroke (cr);
+}
+
+/* The abductor line of action, the weight line and the two moment arms. */
+static void
+draw_construction (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
+                   const HlScene *scene, double y_lo, double y_hi)
+{
+  const HlForceSet *fs = &scene->forces;
+  const HlResult *res = &scene->result;
+  HlVec2 hip = fs->hip_centre;
+  HlVec2 o = fs->abductor_origin, ins = fs->abductor_insertion;
+  HlVec2 u = vunit (vsub (ins, o), v2 (0, -1));
+
+  HlRgba abd = hl_palette_color (HL_ROLE_ABDUCTOR, style->dark);
+  HlRgba wc = hl_palette_color (HL_ROLE_WEIGHT, style->dark);
+  static const double thin_dash[] = { 6.0, 3.0 };
+  static const double dot_dash[] = { 1.5, 3.0 };
+
+  cairo_set_line_width (cr, CONSTRUCTION_LINE_PX);
+  cairo_set_line_cap (cr, CAIRO_LINE_CAP_ROUND);
+
+  cairo_set_dash (cr, thin_dash, 2, 0);
+  set_rgba (cr, abd, CONSTRUCTION_ALPHA);
+  draw_line_mm (cr, view, vsub (o, vmul (u, ABDUCTOR_LINE_EXTEND_MM)),
+                vadd (ins, vmul (u, ABDUCTOR_LINE_EXTEND_MM)));
+
+  HlVec2 wp = hip;
+  for (int i = 0; i < fs->n; i++)
+    if (fs->f[i].kind == HL_FORCE_WEIGHT)
+      wp = fs->f[i].point;
+  cairo_set_dash (cr, dot_dash, 2, 0);
+  set_rgba (cr, wc, CONSTRUCTION_ALPHA);
+  draw_line_mm (cr, view, v2 (wp.x, y_lo), v2 (wp.x, y_hi));
+
+  /* Moment arms: perpendiculars from the hip centre. */
+  HlVec2 foot = vadd (o, vmul (u, vdot (vsub (hip, o), u)));
+  HlVec2 wfoot = v2 (wp.x, hip.y);
+  HlVec2 sh = hl_view_to_screen (view, hip);
+  HlVec2 sf = hl_view_to_screen (view, foot);
+  HlVec2 sw = hl_view_to_screen (view, wfoot);
+
+  cairo_set_dash (cr, NULL, 0, 0);
+  set_rgba (cr, style->fg, CONSTRUCTION_ALPHA);
+  cairo_new_path (cr);
+  cairo_move_to (cr, sh.x, sh.y);
+  cairo_line_to (cr, sf.x, sf.y);
+  cairo_move_to (cr, sh.x, sh.y);
+  cairo_line_to (cr, sw.x, sw.y);
+  cairo_stroke (cr);
+
+  HlVec2 su = vunit (vsub (hl_view_to_screen (view, ins),
+                           hl_view_to_screen (view, o)), v2 (0, 1));
+  HlVec2 to_hip = vunit (vsub (sh, sf), v2 (1, 0));
+  if (vlen (vsub (sh, sf)) > 12.0)
+    right_angle_mark (cr, sf, to_hip, su, 6.0);
+  HlVec2 wdir = vunit (vsub (sh, sw), v2 (1, 0));
+  if (vlen (vsub (sh, sw)) > 12.0)
+    right_angle_mark (cr, sw, wdir, v2 (0, -1), 6.0);
+
+  if (!style->show_labels)
+    return;
+  char text[64];
+  font (cr, style, 0.9, false);
+  snprintf (text, sizeof text, _("abductor arm %.1f mm"), res->abductor_arm_mm);
+  HlVec2 mid = vmul (vadd (sh, sf), 0.5);
+  HlVec2 off = v2 (-to_hip.y, to_hip.x);
+  if (off.y > 0)
+    off = vmul (off, -1.0);
+  label_pill (cr, style, text, mid.x + off.x * 12.0, mid.y + off.y * 12.0 - 4.0,
+              style->fg);
+  snprintf (text, sizeof text, _("weight arm %.1f mm"), res->bw_arm_mm);
+  mid = vmul (vadd (sh, sw), 0.5);
+  label_pill (cr, style, text, mid.x, mid.y + 11.0, style->fg);
+}
+
+static void
+draw_option_markers (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
+                     const HlScene *scene)
+{
+  if (!scene->has_option)
+    return;
+  HlRgba c = hl_palette_color (HL_ROLE_OPTION, style->dark);
+  set_rgba (cr, c, 1.0);
+  cairo_set_line_width (cr, 1.6);
+  cairo_set_dash (cr, NULL, 0, 0);
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      if (!hl_landmarks_has (&scene->shown, (HlLandmarkId) i))
+        continue;
+      if (hl_landmarks_has (&scene->native, (HlLandmarkId) i)
+          && vlen (vsub (scene->shown.p[i], scene->native.p[i])) < MOVED_MIN_MM)
+        continue;
+      HlVec2 s = hl_view_to_screen (view, scene->shown.p[i]);
+      const double k = MARKER_HALF_PX;
+      cairo_new_path (cr);
+      cairo_move_to (cr, s.x - k, s.y - k);
+      cairo_line_to (cr, s.x + k, s.y + k);
+      cairo_move_to (cr, s.x - k, s.y + k);
+      cairo_line_to (cr, s.x + k, s.y - k);
+      cairo_stroke (cr);
+    }
+}
+
+static void
+handle_shape (cairo_t *cr, HlVec2 s, bool required, double r)
+{
+  cairo_new_path (cr);
+  if (required)
+    cairo_arc (cr, s.x, s.y, r, 0, 2 * M_PI);
+  else
+    {
+      cairo_move_to (cr, s.x, s.y - r * 1.2);
+      cairo_line_to (cr, s.x + r * 1.2, s.y);
+      cairo_line_to (cr, s.x, s.y + r * 1.2);
+      cairo_line_to (cr, s.x - r * 1.2, s.y);
+      cairo_close_path (cr);
+    }
+}
+
+static void
+draw_handles (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
+              const HlScene *scene)
+{
+  cairo_set_dash (cr, NULL, 0, 0);
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      if (!hl_landmarks_has (&scene->native, (HlLandmarkId) i))
+        continue;
+      const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) i);
+      bool req = info != NULL && info->required;
+      HlVec2 s = hl_view_to_screen (view, scene->native.p[i]);
+      if (!vfinite (s))
+        continue;
+      double r = req ? HL_RENDER_HANDLE_RADIUS_PX : HANDLE_OPTIONAL_RADIUS_PX;
+
+      if (i == style->hover_landmark)
+        {
+          cairo_new_path (cr);
+          cairo_arc (cr, s.x, s.y, r + HANDLE_HOVER_HALO_PX, 0, 2 * M_PI);
+          set_rgba (cr, style->fg, 0.18);
+          cairo_fill (cr);
+        }
+      handle_shape (cr, s, req, r);
+      set_rgba (cr, hl_palette_color (req ? HL_ROLE_HANDLE : HL_ROLE_HANDLE_OPTIONAL,
+                                      style->dark), 1.0);
+      cairo_fill_preserve (cr);
+      cairo_set_line_width (cr, 1.2);
+      set_rgba (cr, style->fg, 0.9);
+      cairo_stroke (cr);
+
+      if (i == style->selected_landmark)
+        {
+          cairo_new_path (cr);
+          cairo_arc (cr, s.x, s.y, r + HANDLE_SELECT_RING_PX, 0, 2 * M_PI);
+          cairo_set_line_width (cr, 2.0);
+          set_rgba (cr, style->fg, 1.0);
+          cairo_stroke (cr);
+        }
+    }
+
+  /* Labels last, above every handle. */
+  for (int k = 0; k < 2; k++)
+    {
+      int i = k == 0 ? style->hover_landmark : style->selected_landmark;
+      if (i < 0 || i >= HL_LM_COUNT || (k == 0 && i == style->selected_landmark)
+          || !hl_landmarks_has (&scene->native, (HlLandmarkId) i))
+        continue;
+      const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) i);
+      if (info == NULL)
+        continue;
+      HlVec2 p = scene->native.p[i];
+      HlVec2 s = hl_view_to_screen (view, p);
+      char text[HL_LABEL_MAX + 48];
+      if (i == style->selected_landmark)
+        snprintf (text, sizeof text, _("%s (%.1f, %.1f mm)"), _(info->label), p.x, p.y);
+      else
+        snprintf (text, sizeof text, "%s", _(info->label));
+      font (cr, style, 1.0, i == style->selected_landmark);
+      double w, h;
+      label_size (cr, text, &w, &h);
+      label_pill (cr, style, text, s.x + 14.0 + 0.5 * w, s.y - 12.0, style->fg);
+    }
+}
+
+/* ---- Overlays in screen space ----------------------------------------------- */
+
+static void
+draw_side_markers (cairo_t *cr, const HlRenderStyle *style, double width)
+{
+  const char *letters[2] = { _("R"), _("L") };
+  const char *words[2] = { _("patient's right"), _("patient's left") };
+  for (int k = 0; k < 2; k++)
+    {
+      double x = k == 0 ? BOX_MARGIN_PX : width - BOX_MARGIN_PX - SIDE_MARKER_PX;
+      double y = BOX_MARGIN_PX;
+      cairo_new_path (cr);
+      cairo_rectangle (cr, x, y, SIDE_MARKER_PX, SIDE_MARKER_PX);
+      set_rgba (cr, style->bg, 0.9);
+      cairo_fill_preserve (cr);
+      set_rgba (cr, style->fg, 1.0);
+      cairo_set_line_width (cr, 1.5);
+      cairo_set_dash (cr, NULL, 0, 0);
+      cairo_stroke (cr);
+
+      font (cr, style, 1.45, true);
+      cairo_text_extents_t te;
+      cairo_text_extents (cr, letters[k], &te);
+      cairo_move_to (cr, x + 0.5 * (SIDE_MARKER_PX - te.width) - te.x_bearing,
+                     y + 0.5 * (SIDE_MARKER_PX - te.height) - te.y_bearing);
+      cairo_show_text (cr, letters[k]);
+
+      font (cr, style, 0.8, false);
+      cairo_text_extents (cr, words[k], &te);
+      double tx = k == 0 ? x : x + SIDE_MARKER_PX - te.x_advance;
+      set_rgba (cr, style->fg, 0.75);
+      cairo_move_to (cr, tx, y + SIDE_MARKER_PX + 12.0);
+      cairo_show_text (cr, words[k]);
+    }
+}
+
+static void
+draw_title (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
+            double width)
+{
+  if (scene->plan == NULL)
+    return;
+  char text[HL_LABEL_MAX + HL_NAME_MAX + 96];
+  const char *side = scene->plan->side == HL_SIDE_LEFT ? _("left hip") : _("right hip");
+  if (scene->has_option && (size_t) scene->option_index < scene->plan->n_options)
+    snprintf (text, sizeof text, _("%s, %s: %s (native faint, dashed)"),
+              scene->plan->label, side,
+              scene->plan->options[scene->option_index].name);
+  else
+    snprintf (text, sizeof text, _("%s, %s: native"), scene->plan->label, side);
+
+  font (cr, style, 1.05, true);
+  cairo_text_extents_t te;
+  cairo_text_extents (cr, text, &te);
+  double room = width - 2.0 * (BOX_MARGIN_PX * 2.0 + SIDE_MARKER_PX + 60.0);
+  if (te.x_advance > room)
+    font (cr, style, 0.85, true);
+  cairo_text_extents (cr, text, &te);
+  set_rgba (cr, style->fg, 1.0);
+  cairo_move_to (cr, 0.5 * (width - te.x_advance), BOX_MARGIN_PX + 14.0);
+  cairo_show_text (cr, text);
+}
+
+/* The largest 1-2-5 step not above `limit`. */
+static double
+nice_step (double limit)
+{
+  if (!(limit > 0.0))
+    return 1.0;
+  double p = pow (10.0, floor (log10 (limit)));
+  const double steps[] = { 5.0, 2.5, 2.0, 1.0 };
+  for (size_t i = 0; i < N_ELEMENTS (steps); i++)
+    if (steps[i] * p <= limit)
+      return steps[i] * p;
+  return p;
+}
+
+static void
+draw_bar (cairo_t *cr, const HlRenderStyle *style, double x, double y,
+          double len, const char *text, HlRgba c)
+{
+  cairo_set_dash (cr, NULL, 0, 0);
+  cairo_set_line_width (cr, 2.0);
+  cairo_set_line_cap (cr, CAIRO_LINE_CAP_BUTT);
+  set_rgba (cr, c, 1.0);
+  cairo_new_path (cr);
+  cairo_move_to (cr, x, y - 5.0);
+  cairo_line_to (cr, x, y);
+  cairo_line_to (cr, x + len, y);
+  cairo_line_to (cr, x + len, y - 5.0);
+  cairo_stroke (cr);
+  font (cr, style, 0.9, false);
+  cairo_move_to (cr, x + len + 6.0, y + 3.5);
+  cairo_show_text (cr, text);
+}
+
+/* The mm scale bar (it follows the zoom) and the force scale. */
+static void
+draw_scale_bars (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
+                 double bottom)
+{
+  char text[64];
+  double mm = nice_step (SCALE_BAR_MAX_PX / view->scale);
+  if (mm * view->scale < SCALE_BAR_MIN_PX)
+    mm = nice_step (2.0 * SCALE_BAR_MAX_PX / view->scale);
+  snprintf (text, sizeof text, _("%g mm"), mm);
+  draw_bar (cr, style, BOX_MARGIN_PX + 2.0, bottom - 8.0, mm * view->scale,
+            text, style->fg);
+
+  double px_per_bw = HL_RENDER_FORCE_MM_PER_BW * view->scale;
+  double bw = nice_step (SCALE_BAR_MAX_PX / px_per_bw);
+  snprintf (text, sizeof text, _("%g BW (force scale)"), bw);
+  draw_bar (cr, style, BOX_MARGIN_PX + 2.0, bottom - 30.0, bw * px_per_bw,
+            text, style->fg);
+}
+
+/* kind: 0 an arrow, 1 a required handle, 2 an optional handle, 3 a moved
+ * landmark, 4 the native femur. */
+typedef struct {
+  HlPaletteRole role;
+  const char *text;
+  int kind;
+} LegendRow;
+
+static double
+draw_legend (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
+             double width, double bottom)
+{
+  LegendRow rows[HL_FORCE_N + 4];
+  int n = 0;
+  if (scene->solved)
+    {
+      bool seen_load = false;
+      for (int i = 0; i < scene->forces.n; i++)
+        {
+          const HlForce *f = &scene->forces.f[i];
+          if (!(f->bw > FORCE_DRAW_MIN_BW))
+            continue;
+          HlPaletteRole role = force_role (f->kind);
+          if (role == HL_ROLE_LOAD)
+            {
+              if (seen_load)
+                continue;
+              seen_load = true;
+              rows[n++] = (LegendRow) { role, _("Carried load"), 0 };
+              continue;
+            }
+          rows[n++] = (LegendRow) { role, hl_force_label (f->kind), 0 };
+        }
+    }
+  rows[n++] = (LegendRow) { HL_ROLE_HANDLE, _("Required landmark"), 1 };
+  rows[n++] = (LegendRow) { HL_ROLE_HANDLE_OPTIONAL, _("Optional landmark"), 2 };
+  if (scene->has_option)
+    {
+      rows[n++] = (LegendRow) { HL_ROLE_OPTION, _("Option: moved landmark, cup"), 3 };
+      rows[n++] = (LegendRow) { HL_ROLE_OPTION, _("Native femur"), 4 };
+    }
+
+  font (cr, style, 0.9, false);
+  double row_h = style->font_px * 1.35, sample = 26.0, w = 0.0;
+  for (int i = 0; i < n; i++)
+    {
+      cairo_text_extents_t te;
+      cairo_text_extents (cr, rows[i].text, &te);
+      w = fmax (w, te.x_advance);
+    }
+  double bw = w + sample + 3.0 * LABEL_GAP_PX;
+  double bh = n * row_h + LABEL_GAP_PX;
+  double x = width - BOX_MARGIN_PX - bw, y = bottom - bh;
+
+  cairo_new_path (cr);
+  cairo_rectangle (cr, x, y, bw, bh);
+  set_rgba (cr, style->bg, 0.85);
+  cairo_fill_preserve (cr);
+  set_rgba (cr, style->fg, 0.3);
+  cairo_set_line_width (cr, 1.0);
+  cairo_set_dash (cr, NULL, 0, 0);
+  cairo_stroke (cr);
+
+  for (int i = 0; i < n; i++)
+    {
+      double cy = y + LABEL_GAP_PX * 0.5 + (i + 0.5) * row_h;
+      double sx = x + LABEL_GAP_PX;
+      HlRgba c = hl_palette_color (rows[i].role, style->dark);
+      switch (rows[i].kind)
+        {
+        case 0:
+          {
+            double dashes[HL_PALETTE_DASHES_MAX];
+            int nd = hl_palette_dashes (rows[i].role, dashes);
+            set_rgba (cr, c, 1.0);
+            arrow_path (cr, v2 (sx, cy), v2 (sx + sample, cy),
+                        rows[i].role == HL_ROLE_JOINT ? ARROW_JOINT_PX : ARROW_PX,
+                        dashes, nd);
+          }
+          break;
+        case 1:
+        case 2:
+          handle_shape (cr, v2 (sx + 0.5 * sample, cy), rows[i].kind == 1,
+                        rows[i].kind == 1 ? HL_RENDER_HANDLE_RADIUS_PX
+                                          : HANDLE_OPTIONAL_RADIUS_PX);
+          set_rgba (cr, c, 1.0);
+          cairo_fill_preserve (cr);
+          set_rgba (cr, style->fg, 0.9);
+          cairo_set_line_width (cr, 1.2);
+          cairo_stroke (cr);
+          break;
+        case 3:
+          set_rgba (cr, c, 1.0);
+          cairo_set_line_width (cr, 1.6);
+          cairo_new_path (cr);
+          cairo_move_to (cr, sx + 0.5 * sample - 4, cy - 4);
+          cairo_line_to (cr, sx + 0.5 * sample + 4, cy + 4);
+          cairo_move_to (cr, sx + 0.5 * sample - 4, cy + 4);
+          cairo_line_to (cr, sx + 0.5 * sample + 4, cy - 4);
+          cairo_stroke (cr);
+          break;
+        default:
+          {
+            static const double dash[] = { 5.0, 4.0 };
+            cairo_set_dash (cr, dash, 2, 0);
+            set_rgba (cr, style->fg, NATIVE_GHOST_ALPHA);
+            cairo_set_line_width (cr, BONE_LINE_PX);
+            cairo_new_path (cr);
+            cairo_move_to (cr, sx, cy);
+            cairo_line_to (cr, sx + sample, cy);
+            cairo_stroke (cr);
+            cairo_set_dash (cr, NULL, 0, 0);
+          }
+          break;
+        }
+      set_rgba (cr, style->fg, 1.0);
+      font (cr, style, 0.9, false);
+      cairo_move_to (cr, sx + sample + LABEL_GAP_PX, cy + 0.35 * style->font_px);
+      cairo_show_text (cr, rows[i].text);
+    }
+  return bw;
+}
+
+static void
+draw_error_box (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
+                double width)
+{
+  double bw = fmin (width - 2.0 * BOX_MARGIN_PX, ERROR_BOX_MAX_PX);
+  double pad = 10.0;
+  Wrapped lines;
+  font (cr, style, 1.0, false);
+  const char *msg = scene->error.message[0] ? scene->error.message
+                                            : _("The plan cannot be solved.");
+  wrap_text (cr, msg, bw - 2.0 * pad, &lines);
+  char where[HL_ERROR_FIELD_MAX + 32] = "";
+  if (scene->error.field[0])
+    snprintf (where, sizeof where, _("Where: %s"), scene->error.field);
+
+  double lh = style->font_px * 1.35;
+  double bh = pad * 2.0 + lh * (1.3 + lines.n + (where[0] ? 1 : 0));
+  double x = 0.5 * (width - bw);
+  double y = BOX_MARGIN_PX + SIDE_MARKER_PX + 22.0;
+
+  cairo_new_path (cr);
+  cairo_rectangle (cr, x, y, bw, bh);
+  set_rgba (cr, hl_palette_color (HL_ROLE_ERROR_FILL, style->dark), 1.0);
+  cairo_fill_preserve (cr);
+  set_rgba (cr, hl_palette_color (HL_ROLE_ERROR, style->dark), 1.0);
+  cairo_set_line_width (cr, 2.0);
+  cairo_set_dash (cr, NULL, 0, 0);
+  cairo_stroke (cr);
+
+  double ty = y + pad + lh * 0.9;
+  font (cr, style, 1.1, true);
+  set_rgba (cr, hl_palette_color (HL_ROLE_ERROR, style->dark), 1.0);
+  cairo_move_to (cr, x + pad, ty);
+  cairo_show_text (cr, _("No forces: this plan cannot be solved"));
+  ty += lh * 1.3;
+  font (cr, style, 1.0, false);
+  set_rgba (cr, style->fg, 1.0);
+  for (int i = 0; i < lines.n; i++, ty += lh)
+    {
+      cairo_move_to (cr, x + pad, ty);
+      cairo_show_text (cr, lines.line[i]);
+    }
+  if (where[0])
+    {
+      set_rgba (cr, style->fg, 0.75);
+      cairo_move_to (cr, x + pad, ty);
+      cairo_show_text (cr, where);
+    }
+}
+
+/* The caution at the foot; returns its height. */
+static double
+draw_caution (cairo_t *cr, const HlRenderStyle *style, double width,
+              double height)
+{
+  Wrapped lines;
+  font (cr, style, 0.85, false);
+  wrap_text (cr, hl_caution_short (), width - 2.0 * BOX_MARGIN_PX, &lines);
+  double lh = style->font_px * 1.15;
+  double bh = lines.n * lh + 10.0;
+  double y = height - bh;
+
+  cairo_new_path (cr);
+  cairo_rectangle (cr, 0, y, width, bh);
+  set_rgba (cr, style->bg, 0.92);
+  cairo_fill (cr);
+  set_rgba (cr, style->fg, 0.4);
+  cairo_set_line_width (cr, 1.0);
+  cairo_set_dash (cr, NULL, 0, 0);
+  cairo_new_path (cr);
+  cairo_move_to (cr, 0, y + 0.5);
+  cairo_line_to (cr, width, y + 0.5);
+  cairo_stroke (cr);
+
+  set_rgba (cr, style->fg, 0.9);
+  for (int i = 0; i < lines.n; i++)
+    {
+      cairo_move_to (cr, BOX_MARGIN_PX, y + 5.0 + (i + 0.8) * lh);
+      cairo_show_text (cr, lines.line[i]);
+    }
+  return bh;
+}
+
+/* ---- The whole schematic ---------------------------------------------------- */
+
+void
+hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
+                 const HlRenderStyle *style, double width, double height)
+{
+  if (cr == NULL || scene == NULL || view == NULL || style == NULL
+      || !(view->scale > 0.0) || !isfinite (view->scale))
+    return;
+  cairo_save (cr);
+  cairo_set_line_join (cr, CAIRO_LINE_JOIN_ROUND);
+  cairo_set_line_cap (cr, CAIRO_LINE_CAP_ROUND);
+
+  if (style->paint_background)
+    {
+      set_rgba (cr, style->bg, 1.0);
+      cairo_paint (cr);
+    }
+
+  Shapes sh;
+  shapes_build (scene, &sh);
+
+  /* Vertical span of the lines that cross the whole drawing. */
+  HlVec2 top = hl_view_to_plan (view, v2 (0, 0));
+  HlVec2 bottom = hl_view_to_plan (view, v2 (0, height));
+  double x0, y0, x1, y1;
+  hl_scene_bounds (scene, &x0, &y0, &x1, &y1);
+  double y_hi = fmin (top.y, y1 + 20.0), y_lo = fmax (bottom.y, y0 - 20.0);
+
+  draw_midline (cr, view, style, scene, &sh, y_lo, y_hi);
+  draw_pelvis (cr, view, style, &sh);
+  draw_femur (cr, view, style, &sh.other_femur, false);
+  draw_femur (cr, view, style, &sh.shown_femur, false);
+  draw_acetabula (cr, view, style, &sh);
+  if (scene->has_option)
+    {
+      draw_femur (cr, view, style, &sh.native_femur, true);
+      if (sh.shown_femur.ok)
+        draw_cup (cr, view, style, sh.shown_femur.head, sh.shown_femur.head_r,
+                  side_lateral_sign (scene->plan->side));
+    }
+
+  if (scene->solved)
+    {
+      draw_construction (cr, view, style, scene, y_lo, y_hi);
+      draw_forces (cr, view, style, scene);
+    }
+  draw_option_markers (cr, view, style, scene);
+  draw_handles (cr, view, style, scene);
+
+  if (style->show_frame)
+    {
+      draw_side_markers (cr, style, width);
+      draw_title (cr, style, scene, width);
+    }
+  double foot = height;
+  if (style->show_caution)
+    foot -= draw_caution (cr, style, width, height);
+  if (style->show_frame)
+    draw_scale_bars (cr, view, style, foot - BOX_MARGIN_PX * 0.5);
+  if (style->show_legend)
+    draw_legend (cr, style, scene, width, foot - BOX_MARGIN_PX);
+  if (!scene->solved)
+    draw_error_box (cr, style, scene, width);
+
+  cairo_restore (cr);
+}
+
+void
+hl_render_schematic (cairo_t *cr, const HlPlan *plan, int option_index,
+                     const HlView *view, const HlRenderStyle *style,
+                     double width, double height)
+{
+  HlScene scene;
+  hl_scene_build (&scene, plan, option_index);
+  hl_render_scene (cr, &scene, view, style, width, height);
+}
+
+int
+hl_render_hit_landmark (const HlPlan *plan, const HlView *view, double sx,
+                        double sy, double radius_px)
+{
+  if (plan == NULL || view == NULL)
+    return -1;
+  int best = -1;
+  double best_d = radius_px;
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      if (!hl_landmarks_has (&plan->landmarks, (HlLandmarkId) i))
+        continue;
+      HlVec2 s = hl_view_to_screen (view, plan->landmarks.p[i]);
+      double d = hypot (s.x - sx, s.y - sy);
+      if (d <= best_d)
+        {
+          best_d = d;
+          best = i;
+        }
+    }
+  return best;
+}
+
+/* ---- Figures ---------------------------------------------------------------- */
+
+static HlStatus
+figure_check (int width, int height, const char *path, HlError *err)
+{
+  if (width < HL_FIGURE_SIZE_MIN || width > HL_FIGURE_SIZE_MAX
+      || height < HL_FIGURE_SIZE_MIN || height > HL_FIGURE_SIZE_MAX)
+    return hl_error_set (err, HL_ERR_INVALID, "figure size",
+                         _("The figure size %d x %d px is outside %d to %d px."),
+                         width, height, HL_FIGURE_SIZE_MIN, HL_FIGURE_SIZE_MAX);
+  if (path == NULL || path[0] == '\0')
+    return hl_error_set (err, HL_ERR_INVALID, "figure path", "%s",
+                         _("No file name was given for the figure."));
+  return HL_OK;
+}
+
+static void
+figure_draw (cairo_surface_t *surface, const HlPlan *plan, int option_index,
+             int width, int height)
+{
+  cairo_t *cr = cairo_create (surface);
+  HlRenderStyle style;
+  hl_render_style_init (&style, false);
+  style.show_caution = true;
+  HlScene scene;
+  hl_scene_build (&scene, plan, option_index);
+  HlView view;
+  /* Room for the side markers and title above and the caution, scale bars
+   * and legend below. */
+  const double top = 60.0, below = 110.0;
+  hl_render_fit_view (&scene, width, height - top - below, FIT_MARGIN_PX, &view);
+  view.ty += top;
+  hl_render_scene (cr, &scene, &view, &style, width, height);
+  cairo_destroy (cr);
+}
+
+HlStatus
+hl_render_figure_png (const HlPlan *plan, int option_index, int width,
+                      int height, const char *path, HlError *err)
+{
+  HlStatus st = figure_check (width, height, path, err);
+  if (st != HL_OK)
+    return st;
+  cairo_surface_t *surface = cairo_image_surface_create (CAIRO_FORMAT_RGB24,
+                                                         width, height);
+  if (cairo_surface_status (surface) != CAIRO_STATUS_SUCCESS)
+    {
+      cairo_surface_destroy (surface);
+      return hl_error_set (err, HL_ERR_NOMEM, "figure", "%s",
+                           _("There is not enough memory for the figure."));
+    }
+  figure_draw (surface, plan, option_index, width, height);
+  cairo_status_t cs = cairo_surface_write_to_png (surface, path);
+  cairo_surface_destroy (surface);
+  if (cs != CAIRO_STATUS_SUCCESS)
+    return hl_error_set (err, HL_ERR_IO, path, _("Cannot write the figure: %s."),
+                         cairo_status_to_string (cs));
+  return HL_OK;
+}
+
+HlStatus
+hl_render_figure_svg (const HlPlan *plan, int option_index, int width,
+                      int height, const char *path, HlError *err)
+{
+  HlStatus st = figure_check (width, height, path, err);
+  if (st != HL_OK)
+    return st;
+  cairo_surface_t *surface = cairo_svg_surface_create (path, width, height);
+  cairo_status_t cs = cairo_surface_status (surface);
+  if (cs == CAIRO_STATUS_SUCCESS)
+    {
+      figure_draw (surface, plan, option_index, width, height);
+      cairo_surface_finish (surface);
+      cs = cairo_surface_status (surface);
+    }
+  cairo_surface_destroy (surface);
+  if (cs != CAIRO_STATUS_SUCCESS)
+    return hl_error_set (err, HL_ERR_IO, path, _("Cannot write the figure: %s."),
+                         cairo_status_to_string (cs));
+  return HL_OK;
+}

@@ -1,0 +1,154 @@
+/* hl-render.h: the schematic drawn with cairo alone (no GTK).
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * The canvas draws with it on screen; the command line draws figures and
+ * reports with it.  It never computes mechanics: the forces, moment arms
+ * and their lengths come from the core (hl_model_prepare, hl_model_solve,
+ * hl_model_forces); the bones are simple outlines laid over the landmarks.
+ *
+ * Screen coordinates are device-independent units (px at scale 1, cairo
+ * user space) with y down.  A view maps the plan frame (mm, x towards the
+ * patient's left, y superior) to the screen in the radiographic convention,
+ * the patient's right on the viewer's left:
+ *
+ *     sx = x * scale + tx,     sy = -y * scale + ty
+ *
+ * Forces are drawn to one scale, HL_RENDER_FORCE_MM_PER_BW millimetres of
+ * drawing per body weight, so every arrow compares with every other and
+ * with the bones.
+ *
+ * Handles are always the NATIVE landmarks: with an option selected, the
+ * option's moved femoral landmarks are drawn as small crosses that cannot
+ * be picked, and the native femur stays visible, faint and dashed, under
+ * the option's femur.
+ */
+#pragma once
+
+#include <stdbool.h>
+#include <cairo.h>
+
+#include "hl-palette.h"
+#include "hl-plan.h"
+#include "hl-solve.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/* Millimetres of drawing per body weight of force. */
+#define HL_RENDER_FORCE_MM_PER_BW 40.0
+/* Zoom limits of a view, px per mm. */
+#define HL_VIEW_SCALE_MIN 0.05
+#define HL_VIEW_SCALE_MAX 40.0
+
+/* ---- Views ------------------------------------------------------------ */
+
+typedef struct {
+  double scale;   /* px per mm */
+  double tx, ty;  /* px */
+} HlView;
+
+HlVec2 hl_view_to_screen (const HlView *view, HlVec2 plan);
+HlVec2 hl_view_to_plan (const HlView *view, HlVec2 screen);
+
+/* Fits the plan-frame box [x0, x1] x [y0, y1] into a width x height
+ * rectangle with `margin` px on each side, centred.  A degenerate box or
+ * rectangle gives a usable view all the same. */
+void hl_view_fit_box (HlView *view, double x0, double y0, double x1,
+                      double y1, double width, double height, double margin);
+/* Multiplies the scale by `factor` (clamped to the limits) keeping the
+ * plan point under the screen point (sx, sy) where it is. */
+void hl_view_zoom_about (HlView *view, double factor, double sx, double sy);
+
+/* ---- Style ------------------------------------------------------------ */
+
+typedef struct {
+  bool dark;                 /* dark theme: lighter variants of the palette */
+  HlRgba fg;                 /* text and outlines (the widget's colour) */
+  HlRgba bg;                 /* what lies under the drawing */
+  bool paint_background;     /* fill with bg first (figures); the canvas lets
+                              * the widget's own background show */
+  bool show_caution;         /* the short caution at the foot (exports) */
+  bool show_frame;           /* R/L side markers, title and scale bars */
+  bool show_legend;
+  bool show_labels;          /* force values and moment arm lengths */
+  int hover_landmark;        /* HlLandmarkId or -1 */
+  int selected_landmark;     /* HlLandmarkId or -1 */
+  double font_px;            /* base text size */
+} HlRenderStyle;
+
+/* The light (figures, reports) or dark defaults. */
+void hl_render_style_init (HlRenderStyle *style, bool dark);
+
+/* ---- Scenes ----------------------------------------------------------- */
+
+/* Everything the drawing needs from one plan and one option, solved once.
+ * Build it after each edit of the plan and draw it as often as needed. */
+typedef struct {
+  const HlPlan *plan;        /* borrowed */
+  int option_index;          /* -1 = native; an index out of range = native */
+  bool has_option;
+
+  HlLandmarks native;        /* the plan's landmarks */
+  HlLandmarks shown;         /* the option's (= native without an option) */
+
+  bool prepared;             /* hl_model_prepare succeeded */
+  bool solved;               /* the result and forces are valid */
+  HlError error;             /* why not, when !solved */
+  HlModel model;
+  HlResult result;
+  HlForceSet forces;
+} HlScene;
+
+/* Never fails: a plan that cannot be solved gives a scene with solved false
+ * and the reason in scene->error. */
+void hl_scene_build (HlScene *scene, const HlPlan *plan, int option_index);
+
+/* The plan-frame box around the placed landmarks and the drawn bones.
+ * Returns false (and a default box around the origin) when nothing is
+ * placed. */
+bool hl_scene_bounds (const HlScene *scene, double *x0, double *y0,
+                      double *x1, double *y1);
+
+/* Fits a view to the scene in a width x height rectangle. */
+void hl_render_fit_view (const HlScene *scene, double width, double height,
+                         double margin, HlView *view);
+
+/* Draws the scene.  `width` and `height` are the drawn area in px, for the
+ * side markers, scale bar, legend and message boxes. */
+void hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
+                      const HlRenderStyle *style, double width,
+                      double height);
+
+/* Convenience: builds the scene and draws it. */
+void hl_render_schematic (cairo_t *cr, const HlPlan *plan, int option_index,
+                          const HlView *view, const HlRenderStyle *style,
+                          double width, double height);
+
+/* The placed native landmark whose handle is nearest the screen point
+ * (sx, sy) within radius_px, or -1. */
+int hl_render_hit_landmark (const HlPlan *plan, const HlView *view,
+                            double sx, double sy, double radius_px);
+
+/* Handle radius in px, for hit tests that match what is drawn. */
+#define HL_RENDER_HANDLE_RADIUS_PX 5.5
+
+/* ---- Figures ---------------------------------------------------------- */
+
+/* A width x height px figure of the plan with the option (-1 = native),
+ * light style, fitted, with the caution.  Fail with HL_ERR_INVALID on a bad
+ * size and HL_ERR_IO when the file cannot be written. */
+#define HL_FIGURE_SIZE_MIN 64
+#define HL_FIGURE_SIZE_MAX 8192
+HlStatus hl_render_figure_png (const HlPlan *plan, int option_index,
+                               int width, int height, const char *path,
+                               HlError *err);
+HlStatus hl_render_figure_svg (const HlPlan *plan, int option_index,
+                               int width, int height, const char *path,
+                               HlError *err);
+
+#ifdef __cplusplus
+}
+#endif
