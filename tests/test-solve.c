@@ -808,7 +808,9 @@ START_TEST (test_flag_defaults)
 END_TEST
 
 /* Each flag just inside and just beyond its tolerance, with tolerances
- * changed from the defaults to show they are honoured. */
+ * changed from the defaults to show they are honoured.  Global offset:
+ * Mahmood et al. 2016, Acta Orthop 87:36-41; leg length: common practice;
+ * abductor slack: our assumption. */
 typedef struct {
   const char *name;
   HlRecon recon;
@@ -880,6 +882,51 @@ START_TEST (test_capacity)
   hl_test_solve (plan, NULL, &res);
   ck_assert_double_eq_tol (res.demand, c->demand, HL_TEST_TOL_BW);
   ck_assert_int_eq ((res.flags & HL_FLAG_OVER_CAPACITY) != 0, c->over);
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* The global offset is also held against the other hip when both are
+ * measured.  Radiographic landmarks of test-measure.c's level case, solver
+ * frame: operated global offset 35 + 42.264968 = 77.264968, other
+ * 36 + 42.264968 = 78.264968, so the operated side starts 1 mm short and
+ * a further 4.5 mm loss is 5.5 mm against the other hip (flagged) while
+ * only 4.5 mm against native. */
+typedef struct {
+  const char *name;
+  HlRecon recon;
+  unsigned flags;
+} OtherHipCase;
+
+static const OtherHipCase other_hip_cases[] = {
+  { "native", { 0, 0, 0, 0, 0, 135 }, 0 },
+  { "offset -3.5: 4.5 short of the other hip", { 0, 0, -3.5, 0, 0, 135 }, 0 },
+  { "offset -4.5: 5.5 short of the other hip", { 0, 0, -4.5, 0, 0, 135 },
+    HL_FLAG_GLOBAL_OFFSET_REDUCED },
+  { "cup medialised 4.5", { 4.5, 0, 0, 0, 0, 135 }, HL_FLAG_GLOBAL_OFFSET_REDUCED },
+  { "offset +3", { 0, 0, 3, 0, 0, 135 }, 0 },
+};
+
+START_TEST (test_flags_other_hip)
+{
+  const OtherHipCase *c = &other_hip_cases[_i];
+  HlPlan *plan = hl_test_base_plan (_i % 2 ? HL_SIDE_LEFT : HL_SIDE_RIGHT);
+  HlResult res;
+
+  hl_test_place (plan, HL_LM_TEARDROP, -35.0, -20.0);
+  hl_test_place (plan, HL_LM_TEARDROP_OTHER, -155.0, -20.0);
+  hl_test_place (plan, HL_LM_SHAFT_PROXIMAL, 36.0, -80.0);
+  hl_test_place (plan, HL_LM_SHAFT_DISTAL, 28.0, -180.0);
+  hl_test_place (plan, HL_LM_HIP_CENTRE_OTHER, -191.0, 1.0);
+  hl_test_place (plan, HL_LM_SHAFT_PROXIMAL_OTHER, -227.0, -79.0);
+  hl_test_place (plan, HL_LM_SHAFT_DISTAL_OTHER, -219.0, -179.0);
+  hl_test_solve (plan, &c->recon, &res);
+  ck_assert_uint_eq (res.flags & HL_FLAG_GLOBAL_OFFSET_REDUCED, c->flags);
+  /* a level teardrop line keeps the midline vertical, so the moment is
+   * the base one with the midline c_med closer: BW (95 - c_med) */
+  ck_assert_double_eq_tol (res.moment_ext_nmm,
+                           BASE_M_NMM - HL_TEST_MASS_KG * HL_GRAVITY * c->recon.cup_medial_mm,
+                           HL_TEST_TOL_NMM);
   hl_plan_free (plan);
 }
 END_TEST
@@ -1362,6 +1409,7 @@ solve_suite (void)
   ADD_TABLE ("pull-only", test_pull_only, pull_cases);
   ADD_LOOP ("flag-defaults", test_flag_defaults, 1);
   ADD_TABLE ("flags", test_flags, flag_cases);
+  ADD_TABLE ("flags-other-hip", test_flags_other_hip, other_hip_cases);
   ADD_TABLE ("capacity", test_capacity, capacity_cases);
   ADD_TABLE ("errors", test_errors, error_cases);
   ADD_TABLE ("accepted", test_accepted, accept_cases);
