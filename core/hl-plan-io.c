@@ -1259,6 +1259,16 @@ diagnose_value (HlReader *r, xmlNodePtr node, const char *attr, const char *valu
           return true;
         }
     }
+  if (strcmp (attr, "enabled") == 0)
+    {
+      static const char *const booleans[] = { "true", "false", "1", "0" };
+      for (int i = 0; i < N_NAMES (booleans); i++)
+        if (strcmp (value, booleans[i]) == 0)
+          return false;
+      reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is '%.*s', not true or false"),
+                   attr, HL_QUOTED_VALUE_MAX, value);
+      return true;
+    }
   const HlEnumAttr *e = find_enum_attr (attr);
   if (e != NULL)
     {
