@@ -482,6 +482,10 @@ print_context (const char *path, const HlPlan *plan)
                   plan->model.abductor_line == HL_ABDUCTOR_LINE_AUTO
                   ? _("from origin to insertion where the origin is placed")
                   : _("set angle through the insertion"));
+  hl_cli_fprintf (stdout,
+                  _("Abductor capacity: %.2f N m per kg of body mass (an "
+                    "assumption: adjust it to the patient)\n"),
+                  plan->capacity.torque_nm_per_kg);
   if (plan->cane.enabled)
     hl_cli_fprintf (stdout, _("Cane: %s hand, %.1f N, %.1f mm from the midline\n"),
                     hand_name[plan->cane.hand == HL_HAND_IPSILATERAL],
@@ -497,32 +501,48 @@ print_context (const char *path, const HlPlan *plan)
                     plan->loads.midline_kg);
 }
 
+/* The width of case i's column: its name or its widest number. */
+static size_t
+case_width (const HlPlan *plan, const HlResult *results, size_t i,
+            const HlCliColumn *const *rows, size_t n_rows)
+{
+  size_t width = hl_cli_text_width (case_name (plan, i));
+  char num[HL_CLI_NUMBER_MAX];
+
+  for (size_t r = 0; r < n_rows; r++)
+    {
+      hl_cli_format_fixed (num, sizeof num, rows[r]->precision,
+                           column_value (rows[r], &results[i]));
+      if (strlen (num) > width)
+        width = strlen (num);
+    }
+  return width;
+}
+
+/* Shown in the text table only, below the CSV columns (the CSV columns
+ * are a contract). */
+static const HlCliColumn demand_column = {
+  NULL, N_("Abductor demand over capacity"), 3, offsetof (HlResult, demand),
+};
+
 static void
 print_text (const char *path, const HlPlan *plan, const HlResult *results)
 {
+  const HlCliColumn *rows[N_COLUMNS + 1];
+  size_t n_rows = 0;
   size_t n_cases = plan->n_options + 1;
   size_t label_width = 0;
-  size_t case_width = 0;
   char num[HL_CLI_NUMBER_MAX];
 
   for (size_t c = 0; c < N_COLUMNS; c++)
+    rows[n_rows++] = &result_columns[c];
+  rows[n_rows++] = &demand_column;
+
+  for (size_t r = 0; r < n_rows; r++)
     {
-      size_t w = hl_cli_text_width (_(result_columns[c].label));
+      size_t w = hl_cli_text_width (_(rows[r]->label));
       if (w > label_width)
         label_width = w;
-    }
-  for (size_t i = 0; i < n_cases; i++)
-    {
-      size_t w = hl_cli_text_width (case_name (plan, i));
-      if (w > case_width)
-        case_width = w;
-      for (size_t c = 0; c < N_COLUMNS; c++)
-        {
-          hl_cli_format_fixed (num, sizeof num, result_columns[c].precision,
-                               column_value (&result_columns[c], &results[i]));
-          if (strlen (num) > case_width)
-            case_width = strlen (num);
-        }
     }
 
   print_context (path, plan);
@@ -531,19 +551,20 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
   for (size_t i = 0; i < n_cases; i++)
     {
       hl_cli_fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
-      print_padded (case_name (plan, i), case_width, true);
+      print_padded (case_name (plan, i),
+                    case_width (plan, results, i, rows, n_rows), true);
     }
   hl_cli_fprintf (stdout, "\n");
 
-  for (size_t c = 0; c < N_COLUMNS; c++)
+  for (size_t r = 0; r < n_rows; r++)
     {
-      print_padded (_(result_columns[c].label), label_width, false);
+      print_padded (_(rows[r]->label), label_width, false);
       for (size_t i = 0; i < n_cases; i++)
         {
-          hl_cli_format_fixed (num, sizeof num, result_columns[c].precision,
-                               column_value (&result_columns[c], &results[i]));
+          hl_cli_format_fixed (num, sizeof num, rows[r]->precision,
+                               column_value (rows[r], &results[i]));
           hl_cli_fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
-          print_padded (num, case_width, true);
+          print_padded (num, case_width (plan, results, i, rows, n_rows), true);
         }
       hl_cli_fprintf (stdout, "\n");
     }

@@ -115,6 +115,10 @@ for plan in "${EXAMPLES[@]}"; do
   expect_rc 0 "solve $name"
   check "solve $name (text) has the table" out_has "^Abductor moment arm (mm)"
   check "solve $name (text) has native" out_has "native"
+  check "solve $name (text) has the demand over capacity" \
+    out_has "^Abductor demand over capacity  *[0-9]"
+  check "solve $name (text) states the capacity assumption" \
+    out_has "^Abductor capacity: [0-9.]* N m per kg"
   check "solve $name (text) has the flags" out_has "^Flags:"
   check "solve $name (text) ends with the caution" \
     grep -q "^Caution: $CAUTION_START" <(tail -n 1 "$WORK/out")
