@@ -16,8 +16,9 @@
 
 #define DEG (M_PI / 180.0)
 #define MC_FIELD "uncertainty"
-/* Below this many elements insertion sort beats partitioning. */
-#define HL_SELECT_SMALL 16
+/* Floyd and Rivest's sampling step pays above this many elements (their
+ * published constant). */
+#define HL_SELECT_SAMPLE_ABOVE 600
 /* Rows kept per sample: abductor force and joint load. */
 #define MC_QUANTITIES 2
 
@@ -83,52 +84,84 @@ swap (double *a, ptrdiff_t i, ptrdiff_t j)
 }
 
 /* Rearranges a[lo .. hi] (inclusive) so that a[k] holds the value it would
- * hold sorted, with nothing larger before it and nothing smaller after. */
+ * hold sorted, with nothing larger before it and nothing smaller after:
+ * Floyd & Rivest 1975, "Algorithm 489: the algorithm SELECT", CACM
+ * 18:173.  On a large range it first selects within a small sample
+ * around the expected position, so that one partition of the whole range
+ * lands next to k (about n + min(k, n - k) comparisons, against about 3n
+ * for a median-of-three pivot when k is near a tail). */
 static void
 select_kth (double *a, ptrdiff_t lo, ptrdiff_t hi, ptrdiff_t k)
 {
-  while (hi - lo >= HL_SELECT_SMALL)
+  while (hi > lo)
     {
-      ptrdiff_t mid = lo + (hi - lo) / 2;
-      if (a[mid] < a[lo]) swap (a, mid, lo);
-      if (a[hi] < a[lo]) swap (a, hi, lo);
-      if (a[hi] < a[mid]) swap (a, hi, mid);
-      const double pivot = a[mid];
+      if (hi - lo > HL_SELECT_SAMPLE_ABOVE)
+        {
+          const double n = (double) (hi - lo + 1);
+          const double i = (double) (k - lo + 1);
+          const double z = log (n);
+          const double sample = 0.5 * exp (2.0 * z / 3.0);
+          const double sd = 0.5 * sqrt (z * sample * (n - sample) / n)
+                            * (i - n / 2.0 < 0.0 ? -1.0 : 1.0);
+          ptrdiff_t new_lo = (ptrdiff_t) fmax ((double) lo,
+                                               floor ((double) k - i * sample / n + sd));
+          ptrdiff_t new_hi = (ptrdiff_t) fmin ((double) hi,
+                                               floor ((double) k + (n - i) * sample / n + sd));
+          select_kth (a, new_lo, new_hi, k);
+        }
 
+      const double t = a[k];
       ptrdiff_t i = lo, j = hi;
-      while (i <= j)
+      swap (a, lo, k);
+      if (a[hi] > t)
+        swap (a, hi, lo);
+      while (i < j)
         {
-          while (a[i] < pivot)
-            i++;
-          while (a[j] > pivot)
-            j--;
-          if (i <= j)
-            {
-              swap (a, i, j);
-              i++;
-              j--;
-            }
-        }
-      /* Now a[lo .. j] <= pivot <= a[i .. hi], and a[j+1 .. i-1] == pivot. */
-      if (k <= j)
-        hi = j;
-      else if (k >= i)
-        lo = i;
-      else
-        return;
-    }
-
-  for (ptrdiff_t i = lo + 1; i <= hi; i++)
-    {
-      double v = a[i];
-      ptrdiff_t j = i - 1;
-      while (j >= lo && a[j] > v)
-        {
-          a[j + 1] = a[j];
+          swap (a, i, j);
+          i++;
           j--;
+          while (a[i] < t)
+            i++;
+          while (a[j] > t)
+            j--;
         }
-      a[j + 1] = v;
+      if (a[lo] == t)
+        swap (a, lo, j);
+      else
+        {
+          j++;
+          swap (a, j, hi);
+        }
+      if (j <= k)
+        lo = j + 1;
+      if (k <= j)
+        hi = j - 1;
     }
+}
+
+static ptrdiff_t
+rank_of (double p, size_t n)
+{
+  double h = (double) (n - 1) * fmin (fmax (p, 0.0), 1.0);
+  ptrdiff_t k = (ptrdiff_t) floor (h);
+  return k > (ptrdiff_t) n - 1 ? (ptrdiff_t) n - 1 : k;
+}
+
+/* Places the order statistics of probs[0 .. m-1] (ascending) within
+ * a[lo .. hi], the middle one first so that each side is searched only in
+ * its own part. */
+static void
+multiselect (double *a, size_t n, ptrdiff_t lo, ptrdiff_t hi,
+             const double *probs, size_t m)
+{
+  if (m == 0 || lo > hi)
+    return;
+  size_t mid = m / 2;
+  ptrdiff_t k = rank_of (probs[mid], n);
+  if (k >= lo && k <= hi)
+    select_kth (a, lo, hi, k);
+  multiselect (a, n, lo, k - 1 < hi ? k - 1 : hi, probs, mid);
+  multiselect (a, n, k + 1 > lo ? k + 1 : lo, hi, probs + mid + 1, m - mid - 1);
 }
 
 void
@@ -142,32 +175,42 @@ hl_quantiles_select (double *a, size_t n, const double *probs, size_t n_probs,
       return;
     }
 
-  /* Selecting in ascending order confines each search to what is left
-   * above the previous order statistic. */
-  ptrdiff_t lo = 0;
+  bool ascending = true;
+  for (size_t i = 1; i < n_probs; i++)
+    ascending = ascending && probs[i - 1] <= probs[i];
+
   const ptrdiff_t last = (ptrdiff_t) n - 1;
+  if (ascending)
+    multiselect (a, n, 0, last, probs, n_probs);
+
   for (size_t i = 0; i < n_probs; i++)
     {
-      double p = fmin (fmax (probs[i], 0.0), 1.0);
-      double h = (double) last * p;
-      ptrdiff_t k = (ptrdiff_t) floor (h);
-      double frac = h - (double) k;
-      if (k > last)
-        k = last;
-      if (k < lo)
-        lo = 0;   /* probs not ascending: search everything again */
-      select_kth (a, lo, last, k);
+      ptrdiff_t k = rank_of (probs[i], n);
+      double frac = (double) last * fmin (fmax (probs[i], 0.0), 1.0) - (double) k;
+      if (!ascending)
+        select_kth (a, 0, last, k);
 
+      /* The next order statistic is the least value above k, up to the
+       * next placed one (which bounds everything before it). */
+      ptrdiff_t bound = last;
+      for (size_t j = i + 1; ascending && j < n_probs; j++)
+        {
+          ptrdiff_t kj = rank_of (probs[j], n);
+          if (kj > k)
+            {
+              bound = kj;
+              break;
+            }
+        }
       double next = a[k];
       if (frac > 0.0 && k < last)
         {
           next = a[k + 1];
-          for (ptrdiff_t j = k + 2; j <= last; j++)
+          for (ptrdiff_t j = k + 2; j <= bound; j++)
             if (a[j] < next)
               next = a[j];
         }
       out[i] = a[k] + frac * (next - a[k]);
-      lo = k;
     }
 }
 

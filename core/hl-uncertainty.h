@@ -118,8 +118,8 @@ HlStatus hl_mc_run (HlMcWorkspace *ws, const HlModel *model,
                     HlMcInfo *info, HlError *err);
 
 /* Percentiles (Hyndman & Fan definition 7) of a[0 .. n-1], reordering a in
- * place.  probs ascending in [0, 1]; out gets one value per prob.  NaN
- * when n is 0. */
+ * place.  probs in [0, 1], ascending for speed (any order works); out gets
+ * one value per prob.  NaN when n is 0. */
 void hl_quantiles_select (double *a, size_t n, const double *probs,
                           size_t n_probs, double *out);
 

@@ -318,6 +318,11 @@ START_TEST (test_quantiles_vs_sort)
       hl_quantiles_select (a, n, p, 5, q);
       for (int j = 0; j < 5; j++)
         ck_assert_double_eq (q[j], type7_sorted (b, n, p[j]));
+      /* any order of the probabilities gives the same values */
+      double pr[4] = { 0.95, 0.5, 0.05, 0.7385 }, qr[4];
+      hl_quantiles_select (a, n, pr, 4, qr);
+      for (int j = 0; j < 4; j++)
+        ck_assert_double_eq (qr[j], type7_sorted (b, n, pr[j]));
       /* a is a permutation of the data */
       qsort (a, n, sizeof *a, cmp_double);
       ck_assert_int_eq (memcmp (a, b, n * sizeof *a), 0);
