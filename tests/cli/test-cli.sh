@@ -286,6 +286,11 @@ check "batch reports the second bad plan" err_has "truncated.hlplan:[0-9]"
 check "batch says nothing was written" err_has "2 of 3 plans failed"
 check "batch with a bad plan writes no file" no_file "$WORK/none.csv"
 
+run batch "$WORK/good.hlplan" --csv "$WORK/no-such-dir/out.csv"
+expect_rc 1 "batch into a folder that does not exist"
+check "batch into a missing folder names it" err_has "no-such-dir"
+check "batch into a missing folder writes nothing" no_file "$WORK/no-such-dir"
+
 echo "previous,table" >"$WORK/kept.csv"
 run batch "$WORK/good.hlplan" "$WORK/missing.hlplan" --csv "$WORK/kept.csv"
 expect_rc 1 "batch with a missing plan over an existing file"
@@ -396,6 +401,11 @@ expect_rc 0 "bench --quick"
 for n in 1 2 3 4 5; do
   check "bench --quick prints figure $n" out_has "^$n) .*target <= "
 done
+
+TMPDIR=$WORK/no-such-dir "$CLI" bench --quick >"$WORK/out" 2>"$WORK/err"
+rc=$?
+expect_rc 1 "bench --quick with a temporary folder that does not exist"
+check "bench names the temporary folder it cannot use" err_has "no-such-dir"
 
 echo "cli: $passed passed, $failed failed"
 [ "$failed" -eq 0 ]
