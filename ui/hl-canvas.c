@@ -40,6 +40,8 @@
 #define NATURAL_WIDTH_PX 900
 #define NATURAL_HEIGHT_PX 650
 #define DARK_LUMINANCE 0.5
+#define LEGEND_MIN_WIDTH_PX 640
+#define LEGEND_MIN_HEIGHT_PX 520
 
 struct _HlCanvas
 {
@@ -133,10 +135,15 @@ hl_canvas_rebuild (HlCanvas *self)
   gtk_widget_queue_draw (GTK_WIDGET (self));
 }
 
+static void hl_canvas_style (HlCanvas *self, HlRenderStyle *style);
+
 static void
 hl_canvas_fit_to (HlCanvas *self, int width, int height)
 {
-  hl_render_fit_view (&self->scene, width, height, FIT_MARGIN_PX, &self->view);
+  HlRenderStyle style;
+  hl_canvas_style (self, &style);
+  hl_render_fit_view_framed (&self->scene, &style, width, height, FIT_MARGIN_PX,
+                             &self->view);
   self->view_fitted = TRUE;
 }
 
@@ -583,6 +590,10 @@ hl_canvas_style (HlCanvas *self, HlRenderStyle *style)
       || gtk_style_context_lookup_color (ctx, "view_bg_color", &bg))
     style->bg = (HlRgba) { bg.red, bg.green, bg.blue, 1.0 };
   style->paint_background = TRUE;
+  /* In a small canvas the legend would hide the bones; the arrows carry
+   * their names anyway. */
+  style->show_legend = gtk_widget_get_width (GTK_WIDGET (self)) >= LEGEND_MIN_WIDTH_PX
+                       && gtk_widget_get_height (GTK_WIDGET (self)) >= LEGEND_MIN_HEIGHT_PX;
   style->hover_landmark = self->hover_landmark;
   style->selected_landmark = self->selected_landmark;
 }

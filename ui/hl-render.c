@@ -819,6 +819,36 @@ hl_render_fit_view (const HlScene *scene, double width, double height,
   hl_view_fit_box (view, x0, y0, x1, y1, width, height, margin);
 }
 
+/* Room kept clear of the bones for what is drawn around them. */
+#define FRAME_TOP_PX 62.0
+#define FRAME_BOTTOM_PX 52.0
+#define CAUTION_RESERVE_PX 40.0
+#define LEGEND_RESERVE_EM 17.0
+#define LEGEND_ASPECT_MIN 1.45
+#define FRAME_FULL_HEIGHT_PX 520.0
+#define FRAME_SMALL_RATIO 0.6
+
+void
+hl_render_fit_view_framed (const HlScene *scene, const HlRenderStyle *style,
+                           double width, double height, double margin,
+                           HlView *view)
+{
+  /* A small rectangle lets the frame overlap the picture a little more. */
+  double k = height < FRAME_FULL_HEIGHT_PX ? FRAME_SMALL_RATIO : 1.0;
+  double top = style->show_frame ? k * FRAME_TOP_PX : 0.0;
+  double bottom = style->show_frame ? k * FRAME_BOTTOM_PX : 0.0;
+  if (style->show_caution)
+    bottom += CAUTION_RESERVE_PX;
+  double right = 0.0;
+  double legend_w = LEGEND_RESERVE_EM * style->font_px;
+  if (style->show_legend && width - legend_w > LEGEND_ASPECT_MIN * (height - top - bottom))
+    right = legend_w;
+  if (height - top - bottom < 0.5 * height)
+    top = bottom = 0.0;
+  hl_render_fit_view (scene, width - right, height - top - bottom, margin, view);
+  view->ty += top;
+}
+
 /* ---- Text ----------------------------------------------------------------- */
 
 static void
@@ -863,6 +893,69 @@ label_size (cairo_t *cr, const char *text, double *w, double *h)
   cairo_font_extents (cr, &fe);
   *w = te.x_advance + 2.0 * LABEL_PAD_PX;
   *h = fe.ascent + fe.descent + LABEL_PAD_PX;
+}
+
+/* Labels and handles already on the picture, so that a new label can
+ * step aside instead of covering them. */
+#define PLACER_MAX 64
+
+typedef struct {
+  double x, y, w, h;
+} Rect;
+
+typedef struct {
+  Rect r[PLACER_MAX];
+  int n;
+} Placer;
+
+static void
+placer_add (Placer *pl, double x, double y, double w, double h)
+{
+  if (pl->n < PLACER_MAX)
+    pl->r[pl->n++] = (Rect) { x, y, w, h };
+}
+
+static double
+placer_overlap (const Placer *pl, double x, double y, double w, double h)
+{
+  double area = 0.0;
+  for (int i = 0; i < pl->n; i++)
+    {
+      const Rect *r = &pl->r[i];
+      double ox = fmin (x + w, r->x + r->w) - fmax (x, r->x);
+      double oy = fmin (y + h, r->y + r->h) - fmax (y, r->y);
+      if (ox > 0.0 && oy > 0.0)
+        area += ox * oy;
+    }
+  return area;
+}
+
+/* A label centred on (cx, cy), or moved up or down by whole lines to the
+ * nearest place where it covers nothing already placed. */
+static void
+label_place (cairo_t *cr, const HlRenderStyle *style, Placer *pl,
+             const char *text, double cx, double cy, HlRgba color)
+{
+  static const double shifts[][2] = {
+    { 0, 0 }, { 0, 1 }, { 0, -1 }, { 0.6, 0 }, { -0.6, 0 }, { 0, 2 }, { 0, -2 },
+    { 0.6, 1 }, { -0.6, 1 }, { 0.6, -1 }, { -0.6, -1 }, { 0, 3 }, { 0, -3 },
+  };
+  double w, h;
+  label_size (cr, text, &w, &h);
+  double bx = cx, by = cy, least = INFINITY;
+  for (size_t k = 0; k < N_ELEMENTS (shifts) && least > 0.0; k++)
+    {
+      double x = cx + shifts[k][0] * w, y = cy + shifts[k][1] * (h + 2.0);
+      double area = placer_overlap (pl, x - 0.5 * w, y - 0.5 * h, w, h);
+      if (area < least)
+        {
+          least = area;
+          bx = x;
+          by = y;
+        }
+    }
+  placer_add (pl, bx - 0.5 * w, by - 0.5 * h, w, h);
+  label_pill (cr, style, text, bx, by, color);
 }
 
 /* Splits text into at most WRAP_LINES_MAX lines of at most max_w px. */
@@ -1078,7 +1171,8 @@ draw_line_mm (cairo_t *cr, const HlView *view, HlVec2 a, HlVec2 b)
 
 static void
 draw_midline (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
-              const HlScene *scene, const Shapes *sh, double y_lo, double y_hi)
+              Placer *pl, const HlScene *scene, const Shapes *sh, double y_lo,
+              double y_hi)
 {
   if (!hl_landmarks_has (&scene->native, HL_LM_MIDLINE))
     return;
@@ -1097,7 +1191,7 @@ draw_midline (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
     {
       HlVec2 s = hl_view_to_screen (view, a);
       font (cr, style, 0.9, false);
-      label_pill (cr, style, _("Midline"), s.x, s.y - 10.0, style->fg);
+      label_place (cr, style, pl, _("Midline"), s.x, s.y - 10.0, style->fg);
     }
 }
 
@@ -1164,11 +1258,11 @@ force_short (HlForceKind kind)
   switch (kind)
     {
     case HL_FORCE_WEIGHT:
-      return _("W");
+      return _("Weight");
     case HL_FORCE_ABDUCTOR:
-      return _("Abd");
+      return _("Abductors");
     case HL_FORCE_JOINT:
-      return _("J");
+      return _("Joint");
     case HL_FORCE_CANE:
       return _("Cane");
     case HL_FORCE_LOAD_CONTRA:
@@ -1191,7 +1285,7 @@ force_is_push (HlForceKind kind)
 
 static void
 draw_forces (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
-             const HlScene *scene)
+             Placer *pl, const HlScene *scene)
 {
   const HlForceSet *fs = &scene->forces;
   for (int i = 0; i < fs->n; i++)
@@ -1225,7 +1319,7 @@ draw_forces (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
       HlVec2 free_end = push ? st : sh;
       HlVec2 away = vunit (push ? vsub (st, sh) : vsub (sh, st), v2 (0, 1));
       double reach = 0.5 * fabs (away.x) * w + 0.5 * fabs (away.y) * h + LABEL_GAP_PX;
-      label_pill (cr, style, text, free_end.x + away.x * reach,
+      label_place (cr, style, pl, text, free_end.x + away.x * reach,
                   free_end.y + away.y * reach, c);
     }
 }
@@ -1246,7 +1340,7 @@ right_angle_mark (cairo_t *cr, HlVec2 corner, HlVec2 u1, HlVec2 u2, double size)
 /* The abductor line of action, the weight line and the two moment arms. */
 static void
 draw_construction (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
-                   const HlScene *scene, double y_lo, double y_hi)
+                   Placer *pl, const HlScene *scene, double y_lo, double y_hi)
 {
   const HlForceSet *fs = &scene->forces;
   const HlResult *res = &scene->result;
@@ -1309,11 +1403,11 @@ draw_construction (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
   HlVec2 off = v2 (-to_hip.y, to_hip.x);
   if (off.y > 0)
     off = vmul (off, -1.0);
-  label_pill (cr, style, text, mid.x + off.x * 12.0, mid.y + off.y * 12.0 - 4.0,
+  label_place (cr, style, pl, text, mid.x + off.x * 12.0, mid.y + off.y * 12.0 - 4.0,
               style->fg);
   snprintf (text, sizeof text, _("weight arm %.1f mm"), res->bw_arm_mm);
   mid = vmul (vadd (sh, sw), 0.5);
-  label_pill (cr, style, text, mid.x, mid.y + 11.0, style->fg);
+  label_place (cr, style, pl, text, mid.x, mid.y + 11.0, style->fg);
 }
 
 static void
@@ -1362,7 +1456,7 @@ handle_shape (cairo_t *cr, HlVec2 s, bool required, double r)
 
 static void
 draw_handles (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
-              const HlScene *scene)
+              Placer *pl, const HlScene *scene)
 {
   cairo_set_dash (cr, NULL, 0, 0);
   for (int i = 0; i < HL_LM_COUNT; i++)
@@ -1421,7 +1515,7 @@ draw_handles (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
       font (cr, style, 1.0, i == style->selected_landmark);
       double w, h;
       label_size (cr, text, &w, &h);
-      label_pill (cr, style, text, s.x + 14.0 + 0.5 * w, s.y - 12.0, style->fg);
+      label_place (cr, style, pl, text, s.x + 14.0 + 0.5 * w, s.y - 12.0, style->fg);
     }
 }
 
@@ -1776,7 +1870,17 @@ hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
   hl_scene_bounds (scene, &x0, &y0, &x1, &y1);
   double y_hi = fmin (top.y, y1 + 20.0), y_lo = fmax (bottom.y, y0 - 20.0);
 
-  draw_midline (cr, view, style, scene, &sh, y_lo, y_hi);
+  /* Handles first in the placer: no label may cover one. */
+  Placer pl = { .n = 0 };
+  const double hr = HL_RENDER_HANDLE_RADIUS_PX + 2.0;
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    if (hl_landmarks_has (&scene->native, (HlLandmarkId) i))
+      {
+        HlVec2 s = hl_view_to_screen (view, scene->native.p[i]);
+        placer_add (&pl, s.x - hr, s.y - hr, 2.0 * hr, 2.0 * hr);
+      }
+
+  draw_midline (cr, view, style, &pl, scene, &sh, y_lo, y_hi);
   draw_pelvis (cr, view, style, &sh);
   draw_femur (cr, view, style, &sh.other_femur, false);
   draw_femur (cr, view, style, &sh.shown_femur, false);
@@ -1791,11 +1895,11 @@ hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
 
   if (scene->solved)
     {
-      draw_construction (cr, view, style, scene, y_lo, y_hi);
-      draw_forces (cr, view, style, scene);
+      draw_construction (cr, view, style, &pl, scene, y_lo, y_hi);
+      draw_forces (cr, view, style, &pl, scene);
     }
   draw_option_markers (cr, view, style, scene);
-  draw_handles (cr, view, style, scene);
+  draw_handles (cr, view, style, &pl, scene);
 
   if (style->show_frame)
     {
@@ -1875,11 +1979,7 @@ figure_draw (cairo_surface_t *surface, const HlPlan *plan, int option_index,
   HlScene scene;
   hl_scene_build (&scene, plan, option_index);
   HlView view;
-  /* Room for the side markers and title above and the caution, scale bars
-   * and legend below. */
-  const double top = 60.0, below = 110.0;
-  hl_render_fit_view (&scene, width, height - top - below, FIT_MARGIN_PX, &view);
-  view.ty += top;
+  hl_render_fit_view_framed (&scene, &style, width, height, FIT_MARGIN_PX, &view);
   hl_render_scene (cr, &scene, &view, &style, width, height);
   cairo_destroy (cr);
 }

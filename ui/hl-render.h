@@ -116,6 +116,13 @@ bool hl_scene_bounds (const HlScene *scene, double *x0, double *y0,
 void hl_render_fit_view (const HlScene *scene, double width, double height,
                          double margin, HlView *view);
 
+/* The same, keeping clear the bands of the frame (side markers, title,
+ * scale bars), the caution and, in a wide rectangle, a column for the
+ * legend, as `style` asks for them. */
+void hl_render_fit_view_framed (const HlScene *scene, const HlRenderStyle *style,
+                                double width, double height, double margin,
+                                HlView *view);
+
 /* Draws the scene.  `width` and `height` are the drawn area in px, for the
  * side markers, scale bar, legend and message boxes. */
 void hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
