@@ -100,7 +100,7 @@ typedef struct {
 static bool
 c_numeric_enter (HlCNumeric *scope)
 {
-  locale_t base = duplocale (LC_GLOBAL_LOCALE);
+  locale_t base = duplocale (uselocale ((locale_t) 0));
   if (base == (locale_t) 0)
     return false;
   scope->c = newlocale (LC_NUMERIC_MASK, "C", base);

@@ -16,6 +16,7 @@
 #include <fcntl.h>
 #include <locale.h>
 #include <math.h>
+#include <pthread.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -1509,6 +1510,88 @@ START_TEST (test_locale_independent)
 }
 END_TEST
 
+/* ---- Threads ------------------------------------------------------------ */
+
+#define HL_THREAD_ROUNDS 25
+
+typedef struct {
+  uint64_t seed;
+  const char *locale;     /* the thread's own locale, via uselocale */
+  char failure[512];      /* empty when every round passed */
+} HlThreadJob;
+
+/* Loads, saves and refuses files while another thread does the same under
+ * another locale: error capture and number formatting stay per thread. */
+static void *
+thread_job (void *data)
+{
+  HlThreadJob *job = data;
+  static const char bad[] = XML_DECL PLAN_OPEN CASE_OK "  <landmarks>\n"
+    "    <landmark name=\"hip-centre\" x-mm=\"abc\" y-mm=\"0\"/>\n" LM_MID LM_INS
+    "  </landmarks>\n" PLAN_CLOSE;
+  locale_t loc = newlocale (LC_ALL_MASK, job->locale, (locale_t) 0);
+  if (loc == (locale_t) 0)
+    {
+      snprintf (job->failure, sizeof job->failure, "locale %s is missing", job->locale);
+      return NULL;
+    }
+  locale_t old = uselocale (loc);
+  HlRand r = { job->seed };
+  for (int i = 0; i < HL_THREAD_ROUNDS && job->failure[0] == '\0'; i++)
+    {
+      HlPlan *plan = hl_plan_new ();
+      HlError err;
+      hl_error_clear (&err);
+      hl_plan_set_demo_landmarks (plan);
+      plan->mass_kg = rand_uniform (&r, 40.0, 140.0);
+      plan->landmarks.p[HL_LM_MIDLINE].y = rand_uniform (&r, -40.0, -25.0);
+      char *text = NULL;
+      size_t size = 0;
+      HlPlan *back = NULL;
+      if (hl_plan_to_buffer (plan, &text, &size, &err) != HL_OK
+          || hl_plan_load_buffer (text, size, "thread", &back, &err) != HL_OK)
+        snprintf (job->failure, sizeof job->failure, "round %d: %.400s", i, err.message);
+      else if (!same_double (back->mass_kg, plan->mass_kg)
+               || !same_double (back->landmarks.p[HL_LM_MIDLINE].y,
+                                plan->landmarks.p[HL_LM_MIDLINE].y))
+        snprintf (job->failure, sizeof job->failure, "round %d: values changed", i);
+      else if (has_decimal_comma (text))
+        snprintf (job->failure, sizeof job->failure, "round %d: a decimal comma", i);
+
+      HlPlan *none = NULL;
+      hl_error_clear (&err);
+      if (job->failure[0] == '\0'
+          && (hl_plan_load_buffer (bad, strlen (bad), "bad", &none, &err) != HL_ERR_PARSE
+              || strstr (err.message, "line 5, element <landmark name=\"hip-centre\">: "
+                         "attribute x-mm is 'abc'") == NULL))
+        snprintf (job->failure, sizeof job->failure, "round %d: wrong refusal: %.400s", i,
+                  err.message);
+      free (text);
+      hl_plan_free (plan);
+      hl_plan_free (back);
+    }
+  uselocale (old);
+  freelocale (loc);
+  return NULL;
+}
+
+START_TEST (test_threads)
+{
+  HlThreadJob jobs[2] = {
+    { HL_ROUND_TRIP_SEED + 1, "de_DE.UTF-8", "" },
+    { HL_ROUND_TRIP_SEED + 2, "C", "" },
+  };
+  pthread_t threads[2];
+  for (int i = 0; i < 2; i++)
+    ck_assert_int_eq (pthread_create (&threads[i], NULL, thread_job, &jobs[i]), 0);
+  for (int i = 0; i < 2; i++)
+    ck_assert_int_eq (pthread_join (threads[i], NULL), 0);
+  for (int i = 0; i < 2; i++)
+    ck_assert_msg (jobs[i].failure[0] == '\0', "thread in %s: %s", jobs[i].locale,
+                   jobs[i].failure);
+}
+END_TEST
+
 /* ---- Suite ------------------------------------------------------------- */
 
 #define N_OF(a) ((int) (sizeof (a) / sizeof (a)[0]))
@@ -1555,6 +1638,7 @@ plan_io_suite (void)
 
   tc = tcase_create ("locale");
   tcase_add_test (tc, test_locale_independent);
+  tcase_add_test (tc, test_threads);
   suite_add_tcase (s, tc);
   return s;
 }
