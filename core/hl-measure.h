@@ -6,7 +6,8 @@
  * All inputs are plan-frame landmarks in true millimetres.  Each measure is
  * NaN when the landmarks it needs are not placed.
  *
- *  - inter-teardrop line: through both teardrops;
+ *  - inter-teardrop line: through both teardrops; with only one teardrop
+ *    placed, a level line through it;
  *  - acetabular offset: distance from the hip centre to the perpendicular
  *    to the inter-teardrop line through that side's teardrop;
  *  - femoral offset: perpendicular distance from the hip centre to the

@@ -493,6 +493,12 @@ hl_plan_check (const HlPlan *plan, HlError *err)
                          _("A calibration has at most three points"));
 
   /* Aids and loads. */
+  if (plan->cane.hand != HL_HAND_CONTRALATERAL && plan->cane.hand != HL_HAND_IPSILATERAL)
+    return hl_error_set (err, HL_ERR_INVALID, "cane hand",
+                         _("The cane hand must be the opposite or the same-side hand"));
+  if ((int) plan->cane.unit < HL_FORCE_UNIT_N || plan->cane.unit > HL_FORCE_UNIT_KG)
+    return hl_error_set (err, HL_ERR_INVALID, "cane unit",
+                         _("Unknown unit for the cane force"));
   if (plan->cane.enabled)
     {
       if (!isfinite (plan->cane.value))

@@ -184,16 +184,6 @@ hl_model_prepare (HlModel *m, const HlPlan *plan, HlError *err)
   return HL_OK;
 }
 
-static HlStatus
-geometry_error (const HlModel *m, HlError *err, HlStatus st, const char *field,
-                const char *fmt, double value)
-{
-  (void) m;
-  char msg[HL_ERROR_MESSAGE_MAX];
-  snprintf (msg, sizeof msg, fmt, value);
-  return hl_error_set (err, st, field, "%s", msg);
-}
-
 HlStatus
 hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *err)
 {
@@ -204,6 +194,9 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
       cs = recon->cup_superior_mm;
       fo = hl_recon_total_offset (recon);
       fl = hl_recon_total_length (recon);
+      if (!isfinite (cm + cs + fo + fl))
+        return hl_error_set (err, HL_ERR_INVALID, "option",
+                             _("A reconstruction parameter is not a finite number"));
     }
 
   /* Relative to the new hip centre, pelvic points move by (+c_med, -c_sup)
@@ -213,7 +206,7 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
   const double xm = (m->midline.x + cm) - (m->midline.y - cs) * m->midline_slope;
 
   if (!(xm < 0.0))
-    return geometry_error (m, err, HL_ERR_DEGENERATE, "landmark midline",
+    return hl_error_set (err, HL_ERR_DEGENERATE, "landmark midline",
                            _("The midline lies %.1f mm lateral to the hip centre, on "
                              "the operated side: check the midline point, the hip "
                              "centre and the operated side"), xm);
@@ -230,7 +223,7 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
   else
     {
       if (len < HL_MIN_ABDUCTOR_LENGTH_MM)
-        return geometry_error (m, err, HL_ERR_DEGENERATE, "landmark abductor-origin",
+        return hl_error_set (err, HL_ERR_DEGENERATE, "landmark abductor-origin",
                                _("The abductor origin and insertion are %.1f mm apart "
                                  "(at least 20 mm needed): check the abductor origin "
                                  "and insertion"), len);
@@ -244,11 +237,11 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
   if (ra > -HL_MIN_ABDUCTOR_ARM_MM)
     {
       if (ra >= HL_MIN_ABDUCTOR_ARM_MM)
-        return geometry_error (m, err, HL_ERR_DEGENERATE, "landmark abductor-insertion",
+        return hl_error_set (err, HL_ERR_DEGENERATE, "landmark abductor-insertion",
                                _("The abductor line passes %.1f mm medial to the hip "
                                  "centre, so the abductors could not hold the pelvis: "
                                  "check the abductor origin and insertion"), ra);
-      return geometry_error (m, err, HL_ERR_DEGENERATE, "landmark abductor-insertion",
+      return hl_error_set (err, HL_ERR_DEGENERATE, "landmark abductor-insertion",
                              _("The abductor moment arm is %.1f mm: the abductor line "
                                "passes almost through the hip centre; check the "
                                "abductor origin and insertion"), fabs (ra));
