@@ -399,6 +399,8 @@ landmark_row_selected_cb (GtkListBox *list, GtkListBoxRow *row, HlWindow *self)
 {
   int id = row != NULL ? (int) row_landmark (GTK_WIDGET (row)) : -1;
 
+  if (self->disposing)
+    return;
   show_landmark_hint (self, id);
   if (self->syncing > 0)
     return;
@@ -542,7 +544,7 @@ option_row_selected_cb (GtkListBox *list, GtkListBoxRow *row, HlWindow *self)
 {
   int index;
 
-  if (self->syncing > 0 || row == NULL)
+  if (self->syncing > 0 || self->disposing || row == NULL)
     return;
   index = gtk_list_box_row_get_index (row) - 1;
   if (index != self->selected_option)
@@ -607,6 +609,7 @@ build_option_params (HlWindow *self)
       gtk_widget_add_css_class (unit, "dim-label");
       gtk_spin_button_set_digits (GTK_SPIN_BUTTON (spin), 1);
       gtk_spin_button_set_increments (GTK_SPIN_BUTTON (spin), 0.5, 5.0);
+      gtk_editable_set_width_chars (GTK_EDITABLE (spin), 7);
       gtk_widget_set_hexpand (spin, TRUE);
       gtk_accessible_update_property (GTK_ACCESSIBLE (spin),
                                       GTK_ACCESSIBLE_PROPERTY_LABEL, _(param->label), -1);

@@ -93,6 +93,7 @@ struct _HlWindow {
   int selected_option;       /* -1: native */
   guint syncing;             /* > 0 while widgets are set from the plan */
   gboolean dragging;
+  gboolean disposing;        /* template children are going away */
   gboolean close_confirmed;
   gboolean skip_close_guard;
   gboolean print_handles;

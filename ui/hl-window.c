@@ -307,6 +307,8 @@ landmark_drag_end_cb (HlCanvas *canvas, int id, gboolean cancelled,
 static void
 canvas_selected_landmark_cb (HlCanvas *canvas, GParamSpec *pspec, HlWindow *self)
 {
+  if (self->disposing)
+    return;
   hl_window_panel_select_landmark (self, hl_canvas_get_selected_landmark (canvas));
 }
 
@@ -315,7 +317,7 @@ canvas_selected_option_cb (HlCanvas *canvas, GParamSpec *pspec, HlWindow *self)
 {
   int index = hl_canvas_get_selected_option (canvas);
 
-  if (index != self->selected_option)
+  if (!self->disposing && index != self->selected_option)
     hl_window_select_option (self, index);
 }
 
@@ -349,6 +351,9 @@ hl_window_dispose (GObject *object)
 {
   HlWindow *self = HL_WINDOW (object);
 
+  /* Lists emit selection changes while their rows are removed. */
+  self->disposing = TRUE;
+  self->syncing++;
   if (self->chooser != NULL)
     {
       gtk_native_dialog_destroy (self->chooser);
