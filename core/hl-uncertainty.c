@@ -27,6 +27,7 @@ struct HlMcWorkspace {
   size_t max_options;
   double *values;        /* [(row * MC_QUANTITIES + q) * max_samples + sample] */
   size_t *lower_count;   /* per row: samples with a joint load below native */
+  HlNormalTable normal;
 };
 
 HlMcWorkspace *
@@ -44,6 +45,7 @@ hl_mc_workspace_new (size_t max_samples, size_t max_options)
   ws->max_options = max_options;
   ws->values = malloc (rows * MC_QUANTITIES * max_samples * sizeof *ws->values);
   ws->lower_count = calloc (rows, sizeof *ws->lower_count);
+  hl_normal_table_init (&ws->normal);
   if (ws->values == NULL || ws->lower_count == NULL)
     {
       hl_mc_workspace_free (ws);
@@ -263,18 +265,20 @@ check_run (const HlMcWorkspace *ws, const HlOption *options, size_t n_options,
 /* One sample's geometry into m (other fields as in the base).  False when
  * the sampled magnification is not positive. */
 static inline bool
-perturb (HlModel *m, const HlModel *base, HlRng *rng, double lsd, double asd,
-         double msd, double mag)
+perturb (HlModel *m, const HlModel *base, HlRng *rng, const HlNormalTable *nt,
+         double lsd, double asd, double msd, double mag)
 {
   HlVec2 o = base->origin, ins = base->insertion, mid = base->midline;
   HlVec2 u = base->u_fixed;
 
   if (lsd > 0.0)
     {
-      const double hx = lsd * hl_rng_normal (rng), hy = lsd * hl_rng_normal (rng);
-      const double ix = lsd * hl_rng_normal (rng), iy = lsd * hl_rng_normal (rng);
-      mid.x += lsd * hl_rng_normal (rng) - hx;
-      mid.y += lsd * hl_rng_normal (rng) - hy;
+      const double hx = lsd * hl_rng_normal_zig (rng, nt);
+      const double hy = lsd * hl_rng_normal_zig (rng, nt);
+      const double ix = lsd * hl_rng_normal_zig (rng, nt);
+      const double iy = lsd * hl_rng_normal_zig (rng, nt);
+      mid.x += lsd * hl_rng_normal_zig (rng, nt) - hx;
+      mid.y += lsd * hl_rng_normal_zig (rng, nt) - hy;
       ins.x += ix - hx;
       ins.y += iy - hy;
       if (base->angle_mode)
@@ -284,14 +288,14 @@ perturb (HlModel *m, const HlModel *base, HlRng *rng, double lsd, double asd,
         }
       else
         {
-          o.x += lsd * hl_rng_normal (rng) - hx;
-          o.y += lsd * hl_rng_normal (rng) - hy;
+          o.x += lsd * hl_rng_normal_zig (rng, nt) - hx;
+          o.y += lsd * hl_rng_normal_zig (rng, nt) - hy;
         }
     }
 
   if (asd > 0.0)
     {
-      const double d = asd * hl_rng_normal (rng);
+      const double d = asd * hl_rng_normal_zig (rng, nt);
       const double c = cos (d), sn = sin (d);
       const double rx = o.x - ins.x, ry = o.y - ins.y;
       o.x = ins.x + c * rx - sn * ry;
@@ -302,7 +306,7 @@ perturb (HlModel *m, const HlModel *base, HlRng *rng, double lsd, double asd,
 
   if (msd > 0.0)
     {
-      const double ms = mag + msd * hl_rng_normal (rng);
+      const double ms = mag + msd * hl_rng_normal_zig (rng, nt);
       if (!(ms > 0.0))
         return false;
       const double k = mag / ms;
@@ -344,7 +348,8 @@ hl_mc_run (HlMcWorkspace *ws, const HlModel *model, const HlOption *options,
 
   for (size_t j = 0; j < n; j++)
     {
-      bool ok = perturb (&m, model, &rng, lsd, asd, msd, s->magnification);
+      bool ok = perturb (&m, model, &rng, &ws->normal, lsd, asd, msd,
+                         s->magnification);
       for (size_t row = 0; ok && row < rows; row++)
         {
           HlResult r;

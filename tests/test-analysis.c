@@ -252,6 +252,49 @@ START_TEST (test_rng_moments)
 }
 END_TEST
 
+/* The ziggurat's normals against the normal distribution function
+ * Phi(z) = erfc(-z / sqrt 2) / 2 at points from the centre to beyond the
+ * ziggurat's tail start (3.44): the empirical share below z has SE
+ * sqrt(P (1 - P) / n), at most 0.0011 for n = 200,000; 5 SE. */
+#define ZIG_CDF_TOL_SE 5.0
+
+START_TEST (test_rng_ziggurat)
+{
+  static const double z[] = { -3.8, -3.0, -2.1, -1.0, -0.3, 0.0, 0.45, 1.3, 2.4, 3.6 };
+  size_t below[N_ELEMENTS (z)] = { 0 };
+  HlNormalTable t;
+  HlRng r, r2;
+  double sum = 0.0, sum2 = 0.0;
+
+  hl_normal_table_init (&t);
+  ck_assert_double_eq (t.x[1], 3.442619855899);
+  ck_assert_double_eq (t.x[HL_ZIGGURAT_BLOCKS], 0.0);
+  hl_rng_seed (&r, 4242);
+  hl_rng_seed (&r2, 4242);
+  for (int i = 0; i < RNG_N; i++)
+    {
+      double v = hl_rng_normal_zig (&r, &t);
+      ck_assert_double_eq (v, hl_rng_normal_zig (&r2, &t));
+      sum += v;
+      sum2 += v * v;
+      for (size_t k = 0; k < N_ELEMENTS (z); k++)
+        below[k] += v < z[k];
+    }
+  double mean = sum / RNG_N;
+  ck_assert_double_eq_tol (mean, 0.0, RNG_MEAN_TOL);
+  ck_assert_double_eq_tol (sum2 / RNG_N - mean * mean, 1.0, RNG_VAR_TOL);
+  for (size_t k = 0; k < N_ELEMENTS (z); k++)
+    {
+      double p = 0.5 * erfc (-z[k] / M_SQRT2);
+      double se = sqrt (p * (1.0 - p) / RNG_N);
+      ck_assert_double_eq_tol ((double) below[k] / RNG_N, p, ZIG_CDF_TOL_SE * se + 1e-12);
+    }
+  /* the tail beyond 3.44 is sampled: P(z < -3.8) + P(z > 3.6) = 2.3e-4,
+   * about 46 of 200,000 */
+  ck_assert_uint_gt (below[0] + (RNG_N - below[N_ELEMENTS (z) - 1]), 20);
+}
+END_TEST
+
 /* ---- Percentiles ------------------------------------------------------ */
 
 static int
@@ -1488,6 +1531,7 @@ analysis_suite (void)
   ADD_LOOP ("root interval", test_root_interval, N_ELEMENTS (interval_cases));
   ADD ("rng repeatable", test_rng_repeatable);
   ADD ("rng moments", test_rng_moments);
+  ADD ("rng ziggurat", test_rng_ziggurat);
   ADD ("quantiles definition", test_quantiles_definition);
   ADD_LOOP ("quantiles vs sort", test_quantiles_vs_sort, N_ELEMENTS (quantile_sizes));
   ADD ("capacity presets", test_capacity_presets);
