@@ -17,6 +17,9 @@
 
 #define BENCH_FIELD "benchmark"
 #define HL_BENCH_REPEATS_MAX 10000
+/* The femoral offset range of the timed sweep: a chart's planning window. */
+#define HL_BENCH_SWEEP_FROM_MM (-10.0)
+#define HL_BENCH_SWEEP_TO_MM 10.0
 
 static double
 now_ms (void)
@@ -64,7 +67,8 @@ hl_bench_analysis (const HlPlan *plan, int repeats, HlBenchResult *out,
     return st;
 
   const size_t rows = 1 + plan->n_options;
-  HlSweepSpec spec = { HL_SWEEP_FEMORAL_OFFSET, -10.0, 10.0, HL_BENCH_SWEEP_STEPS };
+  HlSweepSpec spec = { HL_SWEEP_FEMORAL_OFFSET, HL_BENCH_SWEEP_FROM_MM,
+                       HL_BENCH_SWEEP_TO_MM, HL_BENCH_SWEEP_STEPS };
   HlResult *results = malloc (rows * spec.n_steps * sizeof *results);
   HlMcSummary *summary = malloc (rows * sizeof *summary);
   HlMcWorkspace *ws = hl_mc_workspace_new (HL_MC_SAMPLES_DEFAULT, plan->n_options);

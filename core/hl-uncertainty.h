@@ -28,8 +28,9 @@
  * statistical packages", Am Stat 50:361-365; the default of R and NumPy):
  * with the n values sorted x_(0) <= ... <= x_(n-1), h = (n - 1) p and
  * Q(p) = x_(floor h) + (h - floor h) (x_(floor h + 1) - x_(floor h)).
- * The order statistics are found by selection (Hoare's FIND, CACM 4:321,
- * 1961) on the workspace, not by a full sort.
+ * The order statistics are found by selection (Floyd & Rivest 1975,
+ * CACM 18:173) on the workspace, not by a full sort.  Normals come from
+ * the ziggurat (hl-rng.h), its table kept in the workspace.
  */
 #pragma once
 
