@@ -121,7 +121,8 @@ for f in \
   "$SHARE/mime/packages/$APP_ID.xml" \
   "$SHARE/icons/hicolor/scalable/apps/$APP_ID.svg" \
   "$SHARE/icons/hicolor/symbolic/apps/$APP_ID-symbolic.svg" \
-  "$SHARE/man/man1/hiplever-cli.1"
+  "$SHARE/man/man1/hiplever-cli.1" \
+  "$SHARE/man/man1/hiplever.1"
 do
   check "installed: ${f#"$PREFIX"/}" test -s "$f"
 done
@@ -166,33 +167,50 @@ run schema xmllint --noout --schema "$PKGDATA/hiplever-plan.xsd" \
   "$WORK/summary.xml" "${examples[@]}"
 if [ "$rc" -eq 0 ]; then pass; else fail "summary and examples valid against the installed schema"; show schema; fi
 
-# ---- The manual page --------------------------------------------------------
+# ---- The manual pages -------------------------------------------------------
 
-MAN=$SHARE/man/man1/hiplever-cli.1
-run man groff -man -ww -z "$MAN"
-check "man page formats without warnings" test "$rc" -eq 0 -a ! -s "$WORK/man.err"
-check "man page: no unreplaced @VARIABLE@" test "$(grep -c '@[A-Z_]*@' "$MAN")" -eq 0
-grep '^\.I /' "$MAN" | sed 's/^\.I //' >"$WORK/man-files"
-check "man page: names files under the prefix" test -s "$WORK/man-files"
-while read -r f; do
-  check "man page FILES entry exists: $f" test -e "$f"
-done <"$WORK/man-files"
-check "man page: the caution" grep -q '^hiplever is a planning aid only\.' "$MAN"
+# man_page_checks PAGE: PAGE formats cleanly, names only installed files,
+# and states the caution.
+man_page_checks () {
+  local page=$1
+  local man=$SHARE/man/man1/$page
+  run "man-$page" groff -man -ww -z "$man"
+  check "$page formats without warnings" test "$rc" -eq 0 -a ! -s "$WORK/man-$page.err"
+  check "$page: no unreplaced @VARIABLE@" test "$(grep -c '@[A-Z_]*@' "$man")" -eq 0
+  grep '^\.I /' "$man" | sed 's/^\.I //' >"$WORK/$page-files"
+  check "$page: names files under the prefix" test -s "$WORK/$page-files"
+  while read -r f; do
+    check "$page FILES entry exists: $f" test -e "$f"
+  done <"$WORK/$page-files"
+  check "$page: the caution" grep -q '^hiplever is a planning aid only\.' "$man"
+}
 
-# Every subcommand and option the help lists is on the page.
+# man_options_checks PAGE HELP: every long option in the --help text HELP
+# (but GLib's own --help-* groups) is on the page.
+man_options_checks () {
+  local page=$1 help=$2
+  grep -o -- '--[a-z][a-z-]*' "$help" | grep -v -- '^--help-' | sort -u >"$WORK/$page-options"
+  check "$page: --help lists options" test -s "$WORK/$page-options"
+  while read -r opt; do
+    check "$page documents option '$opt'" \
+      grep -q -- "${opt//-/\\\\-}" "$SHARE/man/man1/$page"
+  done <"$WORK/$page-options"
+}
+
+man_page_checks hiplever-cli.1
+man_page_checks hiplever.1
+
+# Every subcommand and option the command line's help lists is on its page.
 run help "$CLI" --help
 check "hiplever-cli --help exits 0" test "$rc" -eq 0
 sed -n '/^Subcommands:/,/^Options:/p' "$WORK/help.out" \
   | sed -n 's/^  \([a-z][a-z-]*\) .*/\1/p; s/^  \([a-z][a-z-]*\)$/\1/p' >"$WORK/subcommands"
 check "hiplever-cli --help lists subcommands" test -s "$WORK/subcommands"
 while read -r sub; do
-  check "man page documents subcommand '$sub'" \
-    grep -Eq "^\.B[IR]? \"?$sub( |\"|\$)" "$MAN"
+  check "hiplever-cli.1 documents subcommand '$sub'" \
+    grep -Eq "^\.B[IR]? \"?$sub( |\"|\$)" "$SHARE/man/man1/hiplever-cli.1"
 done <"$WORK/subcommands"
-grep -o -- '--[a-z][a-z-]*' "$WORK/help.out" | sort -u >"$WORK/options"
-while read -r opt; do
-  check "man page documents option '$opt'" grep -q -- "${opt//-/\\\\-}" "$MAN"
-done <"$WORK/options"
+man_options_checks hiplever-cli.1 "$WORK/help.out"
 
 # ---- Desktop entry, software-centre entry, file type --------------------------
 
@@ -281,6 +299,9 @@ else
   run gui-version env -u DISPLAY -u WAYLAND_DISPLAY "$GUI" --version
   check "hiplever --version exits 0" test "$rc" -eq 0
   check "hiplever --version names $VERSION" grep -q "^hiplever $VERSION\b" "$WORK/gui-version.out"
+  run gui-help env -u DISPLAY -u WAYLAND_DISPLAY "$GUI" --help
+  check "hiplever --help exits 0" test "$rc" -eq 0
+  man_options_checks hiplever.1 "$WORK/gui-help.out"
   gui_screenshot shot-file "$EXAMPLES/demo.hlplan"
   # With no file the window opens the bundled demo, which it can only
   # have found under the prefix: the source tree is gone.
