@@ -10,6 +10,7 @@
 #include "config.h"
 
 #include <errno.h>
+#include <pthread.h>
 #include <fcntl.h>
 #include <limits.h>
 #include <locale.h>
@@ -1781,21 +1782,39 @@ check_root (HlReader *r, xmlNodePtr root, bool *is_summary)
   return check_format_version (r, root);
 }
 
+/* The schema is compiled once per process and only read afterwards:
+ * compiling it took most of the time of a load. */
+static pthread_once_t schema_once = PTHREAD_ONCE_INIT;
+static xmlSchemaPtr schema_compiled;
+
+static void
+schema_silent_cb (void *data, xmlErrorPtr error)
+{
+  (void) data;
+  (void) error;
+}
+
+static void
+schema_compile_once (void)
+{
+  xmlSchemaParserCtxtPtr pctxt = xmlSchemaNewMemParserCtxt (hl_schema_data,
+                                                            (int) hl_schema_data_len);
+  if (pctxt == NULL)
+    return;
+  xmlSchemaSetParserStructuredErrors (pctxt, schema_silent_cb, NULL);
+  schema_compiled = xmlSchemaParse (pctxt);
+  xmlSchemaFreeParserCtxt (pctxt);
+}
+
 static HlStatus
 validate_schema (HlReader *r, xmlDocPtr doc)
 {
   r->xml_error = false;
-  xmlSchemaParserCtxtPtr pctxt = xmlSchemaNewMemParserCtxt (hl_schema_data,
-                                                            (int) hl_schema_data_len);
-  if (pctxt == NULL)
-    return reader_fail_at (r, HL_ERR_NOMEM, 0, NULL, _("out of memory"));
-  xmlSchemaSetParserStructuredErrors (pctxt, xml_error_cb, r);
-  xmlSchemaPtr schema = xmlSchemaParse (pctxt);
-  xmlSchemaFreeParserCtxt (pctxt);
+  pthread_once (&schema_once, schema_compile_once);
+  xmlSchemaPtr schema = schema_compiled;
   if (schema == NULL)
     return reader_fail_at (r, HL_ERR_PARSE, 0, NULL,
-                           _("internal error: the built-in plan schema does not compile: %s"),
-                           r->xml_error ? r->xml_message : "");
+                           _("internal error: the built-in plan schema does not compile"));
 
   xmlSchemaValidCtxtPtr vctxt = xmlSchemaNewValidCtxt (schema);
   int rc = -1;
@@ -1805,7 +1824,6 @@ validate_schema (HlReader *r, xmlDocPtr doc)
       rc = xmlSchemaValidateDoc (vctxt, doc);
       xmlSchemaFreeValidCtxt (vctxt);
     }
-  xmlSchemaFree (schema);
   if (vctxt == NULL)
     return reader_fail_at (r, HL_ERR_NOMEM, 0, NULL, _("out of memory"));
   if (rc == 0)

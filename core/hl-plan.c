@@ -376,18 +376,33 @@ hl_plan_cane_force (const HlPlan *plan)
 
 /* ---- Range checks ----------------------------------------------------- */
 
+static inline bool
+in_range (double v, double lo, double hi)
+{
+  return isfinite (v) && v >= lo && v <= hi;
+}
+
+/* The message is only built when a value fails: the check runs on every
+ * prepare, on the hot path of batch runs. */
 static HlStatus
-check_range (double v, double lo, double hi, const char *field,
+range_error (double v, double lo, double hi, const char *field,
              const char *what, const char *unit, HlError *err)
 {
   if (!isfinite (v))
     return hl_error_set (err, HL_ERR_INVALID, field,
-                         _("%s is not a finite number"), what);
-  if (v < lo || v > hi)
-    return hl_error_set (err, HL_ERR_INVALID, field,
-                         _("%s is %.6g %s: it must be between %g and %g %s"),
-                         what, v, unit, lo, hi, unit);
-  return HL_OK;
+                         _("%s is not a finite number"), _(what));
+  return hl_error_set (err, HL_ERR_INVALID, field,
+                       _("%s is %.6g %s: it must be between %g and %g %s"),
+                       _(what), v, unit, lo, hi, unit);
+}
+
+static HlStatus
+check_range (double v, double lo, double hi, const char *field,
+             const char *what, const char *unit, HlError *err)
+{
+  if (in_range (v, lo, hi))
+    return HL_OK;
+  return range_error (v, lo, hi, field, what, unit, err);
 }
 
 static HlStatus
@@ -405,18 +420,20 @@ check_recon (const HlRecon *r, const char *option_name, HlError *err)
 
   for (size_t i = 0; i < sizeof linear / sizeof linear[0]; i++)
     {
+      if (in_range (linear[i].v, -HL_RECON_LINEAR_MAX_MM, HL_RECON_LINEAR_MAX_MM))
+        continue;
       snprintf (field, sizeof field, "option \"%s\" %s", option_name, linear[i].key);
       snprintf (what, sizeof what, _("The %s of option \"%s\""), _(linear[i].what),
                 option_name);
-      HlStatus st = check_range (linear[i].v, -HL_RECON_LINEAR_MAX_MM,
-                                 HL_RECON_LINEAR_MAX_MM, field, what, "mm", err);
-      if (st != HL_OK)
-        return st;
+      return range_error (linear[i].v, -HL_RECON_LINEAR_MAX_MM,
+                          HL_RECON_LINEAR_MAX_MM, field, what, "mm", err);
     }
 
+  if (in_range (r->neck_shaft_angle_deg, HL_NECK_SHAFT_MIN_DEG, HL_NECK_SHAFT_MAX_DEG))
+    return HL_OK;
   snprintf (field, sizeof field, "option \"%s\" neck-shaft-angle", option_name);
   snprintf (what, sizeof what, _("The neck-shaft angle of option \"%s\""), option_name);
-  return check_range (r->neck_shaft_angle_deg, HL_NECK_SHAFT_MIN_DEG,
+  return range_error (r->neck_shaft_angle_deg, HL_NECK_SHAFT_MIN_DEG,
                       HL_NECK_SHAFT_MAX_DEG, field, what, "deg", err);
 }
 
@@ -426,7 +443,7 @@ hl_plan_check (const HlPlan *plan, HlError *err)
   HlStatus st;
 
   if ((st = check_range (plan->mass_kg, HL_MASS_MIN_KG, HL_MASS_MAX_KG,
-                         "patient mass", _("The body mass"), "kg", err)))
+                         "patient mass", N_("The body mass"), "kg", err)))
     return st;
   if (plan->side != HL_SIDE_RIGHT && plan->side != HL_SIDE_LEFT)
     return hl_error_set (err, HL_ERR_INVALID, "operated side",
@@ -437,7 +454,7 @@ hl_plan_check (const HlPlan *plan, HlError *err)
                          _("Unknown stance-limb mass table"));
   double f = hl_plan_limb_fraction (plan);
   if ((st = check_range (f, 0.05, 0.35, "model limb-fraction",
-                         _("The stance-limb mass fraction"), "", err)))
+                         N_("The stance-limb mass fraction"), "", err)))
     return st;
   if (plan->model.bw_line != HL_BW_LINE_SEGMENTAL
       && plan->model.bw_line != HL_BW_LINE_MIDLINE)
@@ -445,10 +462,10 @@ hl_plan_check (const HlPlan *plan, HlError *err)
                          _("Unknown body-weight line method"));
   if ((st = check_range (plan->model.abductor_angle_deg, 30.0, 89.0,
                          "model abductor-angle",
-                         _("The abductor line angle"), "deg", err)))
+                         N_("The abductor line angle"), "deg", err)))
     return st;
   if ((st = check_range (plan->model.lean_mm, HL_LEAN_MIN_MM, HL_LEAN_MAX_MM,
-                         "model lean", _("The lateral trunk lean"), "mm", err)))
+                         "model lean", N_("The lateral trunk lean"), "mm", err)))
     return st;
 
   for (int i = 0; i < HL_LM_COUNT; i++)
@@ -462,19 +479,19 @@ hl_plan_check (const HlPlan *plan, HlError *err)
                                  _(landmark_info[i].label));
           continue;
         }
+      const HlVec2 p = plan->landmarks.p[i];
+      if (in_range (p.x, -HL_COORD_MAX_MM, HL_COORD_MAX_MM)
+          && in_range (p.y, -HL_COORD_MAX_MM, HL_COORD_MAX_MM))
+        continue;
       char field[HL_ERROR_FIELD_MAX];
       char what[128];
+      bool bad_x = !in_range (p.x, -HL_COORD_MAX_MM, HL_COORD_MAX_MM);
       snprintf (field, sizeof field, "landmark %s", landmark_info[i].key);
-      snprintf (what, sizeof what, _("The x coordinate of \"%s\""),
+      snprintf (what, sizeof what,
+                bad_x ? _("The x coordinate of \"%s\"") : _("The y coordinate of \"%s\""),
                 _(landmark_info[i].label));
-      if ((st = check_range (plan->landmarks.p[i].x, -HL_COORD_MAX_MM,
-                             HL_COORD_MAX_MM, field, what, "mm", err)))
-        return st;
-      snprintf (what, sizeof what, _("The y coordinate of \"%s\""),
-                _(landmark_info[i].label));
-      if ((st = check_range (plan->landmarks.p[i].y, -HL_COORD_MAX_MM,
-                             HL_COORD_MAX_MM, field, what, "mm", err)))
-        return st;
+      return range_error (bad_x ? p.x : p.y, -HL_COORD_MAX_MM, HL_COORD_MAX_MM,
+                          field, what, "mm", err);
     }
 
   /* Calibration: a typed factor must be plausible; marker and two-point
@@ -482,7 +499,7 @@ hl_plan_check (const HlPlan *plan, HlError *err)
   if (plan->calibration.method == HL_CAL_TYPED
       && (st = check_range (plan->calibration.magnification, 0.8, 1.6,
                             "calibration magnification",
-                            _("The typed magnification"), "", err)))
+                            N_("The typed magnification"), "", err)))
     return st;
   for (int i = 0; i < 3; i++)
     if (!isfinite (plan->calibration.points[i].x) || !isfinite (plan->calibration.points[i].y))
@@ -514,7 +531,7 @@ hl_plan_check (const HlPlan *plan, HlError *err)
                                "(%.1f N)"), cane_n, hl_plan_body_weight (plan));
       if ((st = check_range (plan->cane.distance_mm, 0.0, HL_DISTANCE_MAX_MM,
                              "cane distance",
-                             _("The cane hand's distance from the midline"),
+                             N_("The cane hand's distance from the midline"),
                              "mm", err)))
         return st;
     }
@@ -526,30 +543,30 @@ hl_plan_check (const HlPlan *plan, HlError *err)
   for (int h = 0; h < 2; h++)
     {
       if ((st = check_range (plan->loads.hand[h].mass_kg, 0.0, HL_HAND_LOAD_MAX_KG,
-                             hand_field[h], _(hand_what[h]), "kg", err)))
+                             hand_field[h], hand_what[h], "kg", err)))
         return st;
       if ((st = check_range (plan->loads.hand[h].distance_mm, 0.0,
                              HL_DISTANCE_MAX_MM, hand_field[h],
-                             _("The hand's distance from the midline"), "mm", err)))
+                             N_("The hand's distance from the midline"), "mm", err)))
         return st;
     }
   if ((st = check_range (plan->loads.midline_kg, 0.0, HL_HAND_LOAD_MAX_KG,
-                         "load midline", _("The load on the midline"), "kg", err)))
+                         "load midline", N_("The load on the midline"), "kg", err)))
     return st;
 
   /* Tolerances and capacity. */
   if ((st = check_range (plan->tol.global_offset_drop_mm, 0.0, 50.0,
                          "tolerance global-offset",
-                         _("The global offset tolerance"), "mm", err))
+                         N_("The global offset tolerance"), "mm", err))
       || (st = check_range (plan->tol.leg_length_mm, 0.0, 50.0,
                             "tolerance leg-length",
-                            _("The leg length tolerance"), "mm", err))
+                            N_("The leg length tolerance"), "mm", err))
       || (st = check_range (plan->tol.abductor_slack_mm, 0.0, 50.0,
                             "tolerance abductor-slack",
-                            _("The abductor slackening tolerance"), "mm", err))
+                            N_("The abductor slackening tolerance"), "mm", err))
       || (st = check_range (plan->capacity.torque_nm_per_kg, 0.05, 5.0,
                             "capacity torque",
-                            _("The abductor torque capacity"), "N m/kg", err)))
+                            N_("The abductor torque capacity"), "N m/kg", err)))
     return st;
 
   for (size_t i = 0; i < plan->n_options; i++)

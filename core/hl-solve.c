@@ -78,16 +78,35 @@ hl_flags_format (unsigned flags, const char *sep, char *buf, size_t size)
   return buf;
 }
 
+/* Effective femoral offset and length changes; the head length only adds
+ * trigonometry when it is non-zero (the common case is zero). */
+static inline void
+recon_femur_shift (const HlRecon *r, double *offset, double *length)
+{
+  *offset = r->femoral_offset_mm;
+  *length = r->femoral_length_mm;
+  if (r->head_length_mm != 0.0)
+    {
+      const double a = r->neck_shaft_angle_deg * DEG;
+      *offset += r->head_length_mm * sin (a);
+      *length -= r->head_length_mm * cos (a);
+    }
+}
+
 double
 hl_recon_total_offset (const HlRecon *r)
 {
-  return r->femoral_offset_mm + r->head_length_mm * sin (r->neck_shaft_angle_deg * DEG);
+  double offset, length;
+  recon_femur_shift (r, &offset, &length);
+  return offset;
 }
 
 double
 hl_recon_total_length (const HlRecon *r)
 {
-  return r->femoral_length_mm - r->head_length_mm * cos (r->neck_shaft_angle_deg * DEG);
+  double offset, length;
+  recon_femur_shift (r, &offset, &length);
+  return length;
 }
 
 static inline HlVec2
@@ -192,8 +211,7 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
     {
       cm = recon->cup_medial_mm;
       cs = recon->cup_superior_mm;
-      fo = hl_recon_total_offset (recon);
-      fl = hl_recon_total_length (recon);
+      recon_femur_shift (recon, &fo, &fl);
       if (!isfinite (cm + cs + fo + fl))
         return hl_error_set (err, HL_ERR_INVALID, "option",
                              _("A reconstruction parameter is not a finite number"));
@@ -213,23 +231,27 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
 
   const double dx = ix - ox, dy = iy - oy;
   const double len = sqrt (dx * dx + dy * dy);
-  double ux, uy, ra;
+  /* cross = (origin x (insertion - origin))_z = r_a |insertion - origin|:
+   * working with it spares the divisions that normalising u would cost. */
+  double ra, cross, ux, uy;
   if (m->angle_mode)
     {
       ux = m->u_fixed.x;
       uy = m->u_fixed.y;
       ra = ix * uy - iy * ux;
+      cross = ra;
     }
   else
     {
       if (len < HL_MIN_ABDUCTOR_LENGTH_MM)
         return hl_error_set (err, HL_ERR_DEGENERATE, "landmark abductor-origin",
-                               _("The abductor origin and insertion are %.1f mm apart "
-                                 "(at least 20 mm needed): check the abductor origin "
-                                 "and insertion"), len);
-      ux = dx / len;
-      uy = dy / len;
-      ra = ox * uy - oy * ux;
+                             _("The abductor origin and insertion are %.1f mm apart "
+                               "(at least 20 mm needed): check the abductor origin "
+                               "and insertion"), len);
+      ux = dx;
+      uy = dy;
+      cross = ox * dy - oy * dx;
+      ra = cross / len;
     }
 
   /* A working abductor line passes lateral to the hip centre, which gives
@@ -238,13 +260,13 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
     {
       if (ra >= HL_MIN_ABDUCTOR_ARM_MM)
         return hl_error_set (err, HL_ERR_DEGENERATE, "landmark abductor-insertion",
-                               _("The abductor line passes %.1f mm medial to the hip "
-                                 "centre, so the abductors could not hold the pelvis: "
-                                 "check the abductor origin and insertion"), ra);
+                             _("The abductor line passes %.1f mm medial to the hip "
+                               "centre, so the abductors could not hold the pelvis: "
+                               "check the abductor origin and insertion"), ra);
       return hl_error_set (err, HL_ERR_DEGENERATE, "landmark abductor-insertion",
-                             _("The abductor moment arm is %.1f mm: the abductor line "
-                               "passes almost through the hip centre; check the "
-                               "abductor origin and insertion"), fabs (ra));
+                           _("The abductor moment arm is %.1f mm: the abductor line "
+                             "passes almost through the hip centre; check the "
+                             "abductor origin and insertion"), fabs (ra));
     }
 
   const double xs = xm * m->bw_line_factor + m->lean_mm;
@@ -256,18 +278,21 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
                         - m->load_n[1] * (xm + m->load_dx[1])
                         - m->load_midline_n * xm;
 
+  /* F_a = -M / r_a; F_a u = k (ux, uy) with k = -M / cross, where (ux, uy)
+   * is the unnormalised line in the origin-insertion case. */
   unsigned flags = 0;
-  double fa = -moment / ra;
+  double k = -moment / cross;
   res->unbalanced_nmm = 0.0;
-  if (fa < 0.0)
+  if (k < 0.0)
     {
       res->unbalanced_nmm = moment;
-      fa = 0.0;
+      k = 0.0;
       flags |= HL_FLAG_ABDUCTORS_NOT_NEEDED;
     }
+  const double fa = m->angle_mode ? k : k * len;
 
-  const double jx = -fa * ux;
-  const double jy = -(fa * uy + fy_ext);
+  const double jx = -k * ux;
+  const double jy = -(k * uy + fy_ext);
 
   res->abductor_arm_mm = -ra;
   res->bw_arm_mm = fabs (xs);
