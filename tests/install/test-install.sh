@@ -100,6 +100,9 @@ fi
 pass
 echo "configure, build and install took $(( $(date +%s) - start )) s"
 
+# The example plans of the tree, to compare with what was installed.
+(cd "$COPY/data/examples" && ls -1 -- *.hlplan) >"$WORK/examples-source" 2>/dev/null
+
 # From here on only the prefix exists.
 rm -rf "$COPY" "$BUILD"
 
@@ -155,6 +158,9 @@ shopt -s nullglob
 examples=("$EXAMPLES"/*.hlplan)
 shopt -u nullglob
 check "installed examples: at least one" test "${#examples[@]}" -gt 0
+(cd "$EXAMPLES" && ls -1 -- *.hlplan) >"$WORK/examples-installed" 2>/dev/null
+run examples diff "$WORK/examples-source" "$WORK/examples-installed"
+if [ "$rc" -eq 0 ]; then pass; else fail "every data/examples/*.hlplan is installed (data/meson.build)"; show examples; fi
 run validate "$CLI" validate "${examples[@]}"
 if [ "$rc" -eq 0 ]; then pass; else fail "hiplever-cli validate every installed example (exit $rc)"; show validate; fi
 check "validate: one line per installed example (${#examples[@]})" \
