@@ -1190,6 +1190,8 @@ parser_error_cb (void *ctx, xmlErrorPtr e)
 {
   xmlParserCtxtPtr ctxt = ctx;
   xml_error_cb (ctxt ? ctxt->_private : NULL, e);
+  /* The first fatal error decides; scanning on costs seconds on a flood. */
+  if (ctxt != NULL && e != NULL && e->level >= XML_ERR_FATAL) xmlStopParser (ctxt);
 }
 
 /* A plan never has a DTD: stop at the DOCTYPE, before its internal subset

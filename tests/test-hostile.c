@@ -77,6 +77,8 @@
 /* Under the size cap, so that the parser itself meets the long value. */
 #define HL_LONG_ATTRIBUTE_BYTES (7L * HL_MIB)
 #define HL_DEEP_NESTING 10000
+/* Room left under the size cap for the declaration and the closing tags. */
+#define HL_FLOOD_MARGIN_BYTES 256
 #define HL_GARBAGE_BYTES (64L * 1024L)
 #define HL_GARBAGE_SEED 0x9e3779b97f4a7c15u
 /* 10 levels of 10 references: 10^10 characters if it were expanded. */
@@ -211,6 +213,20 @@ make_undeclared_entities (FILE *f, const Env *env)
   fputs ("  <notes>", f);
   for (int i = 0; i < 100000; i++)
     fputs ("&lol9;", f);
+  fputs ("</notes>\n</plan>\n", f);
+}
+
+/* References to an undeclared entity up to the size cap: millions of
+ * errors, unless the parser stops at the first. */
+static void
+make_entity_flood (FILE *f, const Env *env)
+{
+  fputs (xml_decl, f);
+  fputs (plan_open, f);
+  fputs ("  <notes>", f);
+  long room = (long) HL_PLAN_MAX_BYTES - HL_FLOOD_MARGIN_BYTES;
+  for (long n = 0; n + 3 <= room; n += 3)
+    fputs ("&a;", f);
   fputs ("</notes>\n</plan>\n", f);
 }
 
@@ -439,6 +455,8 @@ static const HostileCase cases[] = {
     HL_MUST_REFUSE, { "document type", "DOCTYPE", "entit" } },
   { "undeclared-entities.hlplan", make_undeclared_entities, HL_LOAD_FILE,
     HL_MUST_REFUSE, { "entity", "lol9", NULL } },
+  { "entity-flood.hlplan", make_entity_flood, HL_LOAD_FILE, HL_MUST_REFUSE,
+    { "entity", NULL, NULL } },
   { "external-entity-url.hlplan", make_external_entity_url, HL_LOAD_FILE,
     HL_MUST_REFUSE, { "document type", "DOCTYPE", "entit" } },
   { "external-entity-path.hlplan", make_external_entity_path, HL_LOAD_FILE,
