@@ -106,7 +106,7 @@ hl_application_handle_local_options (GApplication *app, GVariantDict *options)
   if (g_variant_dict_lookup (options, "size", "&s", &size)
       && !parse_size (size, &self->width, &self->height))
     {
-      g_printerr (_("hiplever: --size “%s” is not WIDTHxHEIGHT with each between %d and %d pixels\n"),
+      g_printerr (_("hiplever: --size '%s' is not WIDTHxHEIGHT with each between %d and %d pixels\n"),
                   size, HL_SIZE_MIN, HL_SIZE_MAX);
       return 2;
     }
@@ -224,9 +224,9 @@ hl_application_open (GApplication *app, GFile **files, int n_files, const char *
         {
           g_autofree char *name = g_file_get_parse_name (files[i]);
 
-          g_printerr (_("hiplever: could not open %s: line %d, %s: %s\n"),
-                      name, err.line, err.field[0] != '\0' ? err.field : "file",
-                      err.message);
+          g_autofree char *msg = hl_window_format_error (&err);
+
+          g_printerr (_("hiplever: could not open %s: %s\n"), name, msg);
           gtk_window_destroy (GTK_WINDOW (window));
           hl_application_finish (self, 1);
           return;

@@ -167,15 +167,22 @@ hl_window_show_open_chooser (HlWindow *self)
 
 /* ---- the guard ------------------------------------------------------ */
 
-static void
-guard_response_cb (GtkDialog *dialog, int response, HlWindow *self)
+typedef struct {
+  HlWindow *self;
+  HlAfterGuard then;
+  int response;
+} HlGuardAnswer;
+
+/* Runs once the dialog is gone: closing the window from inside the
+ * dialog's own response would free its parent under it. */
+static gboolean
+guard_answer_idle_cb (gpointer user_data)
 {
-  HlAfterGuard then = GPOINTER_TO_INT (g_object_get_data (G_OBJECT (dialog), HL_AFTER_KEY));
+  HlGuardAnswer *answer = user_data;
+  HlWindow *self = answer->self;
+  HlAfterGuard then = answer->then;
 
-  self->guard_dialog = NULL;
-  gtk_window_destroy (GTK_WINDOW (dialog));
-
-  switch (response)
+  switch (answer->response)
     {
     case GTK_RESPONSE_ACCEPT:
       if (self->file == NULL)
@@ -189,6 +196,22 @@ guard_response_cb (GtkDialog *dialog, int response, HlWindow *self)
     default:
       break;
     }
+  g_object_unref (self);
+  g_free (answer);
+  return G_SOURCE_REMOVE;
+}
+
+static void
+guard_response_cb (GtkDialog *dialog, int response, HlWindow *self)
+{
+  HlGuardAnswer *answer = g_new0 (HlGuardAnswer, 1);
+
+  answer->self = g_object_ref (self);
+  answer->then = GPOINTER_TO_INT (g_object_get_data (G_OBJECT (dialog), HL_AFTER_KEY));
+  answer->response = response;
+  self->guard_dialog = NULL;
+  gtk_window_destroy (GTK_WINDOW (dialog));
+  g_idle_add (guard_answer_idle_cb, answer);
 }
 
 static void

@@ -111,7 +111,6 @@ gboolean hl_window_is_modified (HlWindow *self);
 void hl_window_select_option (HlWindow *self, int index);
 void hl_window_show_error (HlWindow *self, const char *primary,
                            const char *secondary);
-char *hl_window_format_error (const HlError *err);
 
 /* hl-window-panel.c */
 void hl_window_panel_init (HlWindow *self);

@@ -7,6 +7,7 @@
 
 #define G_LOG_DOMAIN "hl-window"
 
+#include <string.h>
 #include <glib/gi18n.h>
 
 #include "hl-plan-io.h"
@@ -27,6 +28,9 @@ hl_window_format_error (const HlError *err)
   const char *msg = err->message[0] != '\0' ? err->message
                                              : hl_status_name (err->status);
 
+  /* File errors from the core already say where. */
+  if (strstr (msg, "line ") != NULL || (err->field[0] != '\0' && strstr (msg, err->field) != NULL))
+    return g_strdup (msg);
   if (err->line > 0 && err->field[0] != '\0')
     return g_strdup_printf (_("Line %d, %s: %s"), err->line, err->field, msg);
   if (err->line > 0)
@@ -71,7 +75,8 @@ hl_window_update_title (HlWindow *self)
     title = g_strdup_printf ("• %s — hiplever", label);
   else
     title = g_strdup_printf ("%s — hiplever", label);
-  gtk_window_set_title (GTK_WINDOW (self), title);
+  if (g_strcmp0 (gtk_window_get_title (GTK_WINDOW (self)), title) != 0)
+    gtk_window_set_title (GTK_WINDOW (self), title);
 }
 
 void
@@ -111,7 +116,8 @@ hl_window_update_status (HlWindow *self)
                               hl_plan_body_weight (self->plan));
       gtk_widget_remove_css_class (GTK_WIDGET (self->status_label), "error");
     }
-  gtk_label_set_text (self->status_label, text);
+  if (g_strcmp0 (gtk_label_get_text (self->status_label), text) != 0)
+    gtk_label_set_text (self->status_label, text);
 }
 
 /* The one path every change takes: solve once with the core, then show. */
@@ -310,6 +316,7 @@ canvas_selected_landmark_cb (HlCanvas *canvas, GParamSpec *pspec, HlWindow *self
   if (self->disposing)
     return;
   hl_window_panel_select_landmark (self, hl_canvas_get_selected_landmark (canvas));
+  self->handles_dirty = TRUE;
 }
 
 static void

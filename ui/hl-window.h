@@ -23,6 +23,8 @@ gboolean hl_window_load_file (HlWindow *self, GFile *file, gboolean report,
  * for a name. */
 void hl_window_set_plan (HlWindow *self, const HlPlan *plan);
 const HlPlan *hl_window_get_plan (HlWindow *self);
+/* An error in plain words with its line and field, for messages. */
+char *hl_window_format_error (const HlError *err);
 
 /* Writes the planning summary of the plan here when the window closes. */
 void hl_window_set_dump_path (HlWindow *self, const char *path);

@@ -17,7 +17,7 @@ set -eu
 
 if [ -z "${HL_GUI_INNER:-}" ]; then
   export HL_GUI_INNER=1
-  exec xvfb-run -a -s "-screen 0 1280x900x24" dbus-run-session -- sh "$0" "$@"
+  exec xvfb-run -a -s "-screen 0 ${HL_GUI_SCREEN:-1280x900}x24" dbus-run-session -- sh "$0" "$@"
 fi
 
 HIPLEVER=$1
@@ -190,7 +190,7 @@ hl_check_png () {
 # hl_grab NAME: the whole X screen as it is now, checked.
 hl_grab () {
   import -window root "$HL_TMP/$1.png" 2>/dev/null || hl_fail "could not grab the screen"
-  hl_check_png "$HL_TMP/$1.png" 1280 900
+  hl_check_png "$HL_TMP/$1.png" $(echo "${HL_GUI_SCREEN:-1280x900}" | tr x ' ')
   if [ -n "${HL_GUI_KEEP:-}" ]; then
     cp "$HL_TMP/$1.png" "$HL_GUI_KEEP/"
   fi

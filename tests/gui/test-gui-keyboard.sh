@@ -1,0 +1,64 @@
+#!/bin/sh
+# Select a landmark with the mouse and nudge it with the arrow keys; each
+# nudge is one undo step; the unsaved-changes guard; Ctrl+S.
+#
+# Copyright 2026 the hiplever developers
+# SPDX-License-Identifier: GPL-3.0-or-later
+#
+# Arrow keys move the selected landmark by 0.5 mm, with Shift by 5 mm
+# (ui.md); plan x points to the patient's left, which is screen right.
+. "$(dirname "$0")/hl-gui-lib.sh"
+
+plan="$HL_TMP/case.hlplan"
+cp "$HL_DEMO" "$plan"
+lm=abductor-origin
+base_x=$(xmllint --xpath "string(//*[local-name()='landmark'][@name='$lm']/@x-mm)" "$plan")
+base_y=$(xmllint --xpath "string(//*[local-name()='landmark'][@name='$lm']/@y-mm)" "$plan")
+
+# 1. nudges, one undo, then the guard: Ctrl+Q asks; Escape keeps the
+#    window; Ctrl+Q and Discard end it.
+hl_start nudge --dump-summary-on-exit "$HL_TMP/nudge.xml" "$plan"
+set -- $(hl_pos HANDLE $lm)
+[ $# -eq 2 ] || hl_fail "no position printed for $lm"
+xdotool mousemove --window "$HL_WID" "$1" "$2" click 1
+hl_settle
+for k in Right Right shift+Up shift+Left Down; do
+  hl_key "$k"
+  hl_settle
+done
+hl_grab after-nudges
+hl_key ctrl+z
+hl_settle
+hl_key ctrl+q
+sleep 1
+kill -0 "$HL_PID" 2>/dev/null || hl_fail "quit with unsaved changes did not ask first"
+hl_note "ok: the unsaved-changes question came up"
+hl_grab guard-dialog
+hl_key Escape
+sleep 0.5
+kill -0 "$HL_PID" 2>/dev/null || hl_fail "Cancel in the unsaved-changes question still quit"
+hl_note "ok: Cancel kept the window open"
+hl_quit_discarding
+
+x=$(hl_landmark "$HL_TMP/nudge.xml" $lm x-mm)
+y=$(hl_landmark "$HL_TMP/nudge.xml" $lm y-mm)
+# Right, Right, Shift+Left: +0.5 +0.5 -5; Shift+Up +5; Down -0.5 undone.
+hl_expect "x after two small steps right and one large step left" "$x" "~" "$(awk -v b="$base_x" 'BEGIN { print b + 0.5 + 0.5 - 5 }')"
+hl_expect "y after a large step up (the small step down undone)" "$y" "~" "$(awk -v b="$base_y" 'BEGIN { print b + 5 }')"
+grep -q "x-mm=\"$base_x\" y-mm=\"$base_y\"" "$plan" || hl_fail "discarding changed the file on disk"
+hl_note "ok: Discard left the file as it was"
+
+# 2. a nudge, Ctrl+S, then Ctrl+Q quits without asking.
+hl_start save "$plan"
+set -- $(hl_pos HANDLE $lm)
+xdotool mousemove --window "$HL_WID" "$1" "$2" click 1
+hl_settle
+hl_key shift+Right
+hl_settle
+hl_key ctrl+s
+sleep 0.5
+hl_key ctrl+q
+hl_wait_exit
+saved_x=$(xmllint --xpath "string(//*[local-name()='landmark'][@name='$lm']/@x-mm)" "$plan")
+hl_expect "the saved file has the nudged landmark" "$saved_x" "~" "$(awk -v b="$base_x" 'BEGIN { print b + 5 }')"
+echo "PASS"

@@ -1,0 +1,75 @@
+#!/bin/sh
+# The results table agrees with hiplever-cli solve on the same plans: every
+# figure as the window formats it is the CLI's figure rounded to the
+# window's digits, and the flags are the same.
+#
+# Copyright 2026 the hiplever developers
+# SPDX-License-Identifier: GPL-3.0-or-later
+. "$(dirname "$0")/hl-gui-lib.sh"
+CLI=$1
+
+compare () {
+  python3 - "$1" "$2" <<'PY'
+import csv, sys
+
+# window row key -> CLI column
+COLUMNS = {
+    "abductor-moment-arm": "abductor_arm_mm",
+    "body-weight-moment-arm": "bw_arm_mm",
+    "lever-ratio": "lever_ratio",
+    "abductor-force-n": "abductor_force_N",
+    "abductor-force-bw": "abductor_force_BW",
+    "joint-reaction-force-n": "jrf_N",
+    "joint-reaction-force-bw": "jrf_BW",
+    "joint-force-angle": "jrf_angle_deg",
+    "global-offset-change": "global_offset_change_mm",
+    "leg-length-change": "leg_length_change_mm",
+    "abductor-length-change": "abductor_length_change_mm",
+}
+# Both sides round; a figure may differ by half a unit in the last place
+# of each, and a little for binary floating point.
+FLOAT_SLACK = 1e-9
+
+def half_unit(text):
+    digits = len(text.split(".")[1]) if "." in text else 0
+    return 0.5 * 10.0 ** -digits
+
+win = list(csv.reader(open(sys.argv[1])))
+cli = list(csv.DictReader(open(sys.argv[2])))
+header = win[0]
+names = header[2:]
+if len(names) != len(cli):
+    sys.exit("window has %d columns, CLI %d rows" % (len(names), len(cli)))
+checked = 0
+for row in win[1:]:
+    key = row[0]
+    for j, cell in enumerate(row[2:]):
+        ref = cli[j]
+        if key == "flags":
+            a = sorted(f for f in cell.replace(";", " ").split() if f)
+            b = sorted(f for f in ref["flags"].replace(";", " ").replace("|", " ").split() if f)
+            if a != b:
+                sys.exit("%s flags: window %s, CLI %s" % (names[j], a, b))
+            checked += 1
+            continue
+        value = float(cell)
+        expected = float(ref[COLUMNS[key]])
+        tol = half_unit(cell) + half_unit(ref[COLUMNS[key]]) + FLOAT_SLACK
+        if abs(value - expected) > tol:
+            sys.exit("%s %s: window %s, CLI %s (tolerance %g)"
+                     % (names[j], key, cell, ref[COLUMNS[key]], tol))
+        checked += 1
+print("# ok: %d figures agree" % checked)
+PY
+}
+
+nocane="$HL_TMP/no-cane.hlplan"
+sed 's/<cane enabled="true"/<cane enabled="false"/' "$HL_DEMO" >"$nocane"
+for plan in "$HL_DEMO" "$SRCDIR/data/examples/demo-left.hlplan" "$nocane"; do
+  [ -f "$plan" ] || continue
+  "$HIPLEVER" --print-results "$plan" >"$HL_TMP/window.csv" || hl_fail "--print-results failed on $plan"
+  "$CLI" solve "$plan" --format csv >"$HL_TMP/cli.csv" || hl_fail "hiplever-cli solve failed on $plan"
+  hl_note "$(basename "$plan")"
+  compare "$HL_TMP/window.csv" "$HL_TMP/cli.csv" || hl_fail "the window and the CLI disagree on $plan"
+done
+echo "PASS"
