@@ -12,6 +12,7 @@
 #include <errno.h>
 #include <pthread.h>
 #include <fcntl.h>
+#include <inttypes.h>
 #include <limits.h>
 #include <locale.h>
 #include <math.h>
@@ -34,6 +35,7 @@
 #include "hl-i18n.h"
 #include "hl-plan-io.h"
 #include "hl-sha256.h"
+#include "hl-uncertainty.h"
 #include "hl-version.h"
 
 /* Generated from data/hiplever-plan.xsd by core/embed-text.py. */
@@ -87,6 +89,7 @@ static const char *const number_attrs[] = {
   "distance-mm", "global-offset-drop-mm", "leg-length-mm", "abductor-slack-mm",
   "torque-nm-per-kg", "cup-medial-mm", "cup-superior-mm", "femoral-offset-mm",
   "femoral-length-mm", "head-length-mm", "neck-shaft-angle-deg",
+  "landmark-sd-mm", "magnification-sd", "angle-sd-deg",
 };
 
 /* ---- Numbers in the C locale ------------------------------------------- */
@@ -436,6 +439,29 @@ put_enum (HlWriter *w, const char *attr, int value, const char *const *names,
   buf_puts (w->b, "\"");
 }
 
+/* The recorded Monte Carlo settings; the magnification is the calibration's
+ * and is not repeated.  hl_plan_check has vetted the numbers. */
+static void
+write_uncertainty (HlBuf *b, const HlMcSettings *mc)
+{
+  char num[HL_NUMBER_TEXT_MAX];
+  char line[160];
+
+  snprintf (line, sizeof line, "  <uncertainty samples=\"%zu\" seed=\"%" PRIu64 "\"",
+            mc->n_samples, mc->seed);
+  buf_puts (b, line);
+  format_number (num, mc->landmark_sd_mm);
+  buf_puts (b, " landmark-sd-mm=\"");
+  buf_puts (b, num);
+  format_number (num, mc->magnification_sd);
+  buf_puts (b, "\" magnification-sd=\"");
+  buf_puts (b, num);
+  format_number (num, mc->line_angle_sd_deg);
+  buf_puts (b, "\" angle-sd-deg=\"");
+  buf_puts (b, num);
+  buf_puts (b, "\"/>\n");
+}
+
 static void
 write_plan_element (HlWriter *w, const HlPlan *plan)
 {
@@ -548,6 +574,7 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
   buf_puts (b, "/>\n  <capacity");
   put_number (w, "torque-nm-per-kg", plan->capacity.torque_nm_per_kg, "capacity torque");
   buf_puts (b, "/>\n");
+  write_uncertainty (b, &plan->uncertainty);
 
   if (plan->n_options == 0)
     buf_puts (b, "  <options/>\n");
@@ -695,7 +722,8 @@ iso_date_valid (const char *s)
 }
 
 static void
-write_result (HlBuf *b, const HlResult *r, long index, const char *name)
+write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
+              const char *name)
 {
   if (index < 0)
     buf_puts (b, "  <result kind=\"native\"");
@@ -731,6 +759,14 @@ write_result (HlBuf *b, const HlResult *r, long index, const char *name)
   put_result_number (b, "acetabular-offset-change-mm", r->acetabular_offset_change_mm);
   put_result_number (b, "global-offset-change-mm", r->global_offset_change_mm);
   put_result_number (b, "abductor-length-change-mm", r->abductor_length_change_mm);
+  put_result_number (b, "jrf-bw-p05", mc->jrf_bw.p05);
+  put_result_number (b, "jrf-bw-p50", mc->jrf_bw.p50);
+  put_result_number (b, "jrf-bw-p95", mc->jrf_bw.p95);
+  put_result_number (b, "abductor-force-bw-p05", mc->abductor_force_bw.p05);
+  put_result_number (b, "abductor-force-bw-p50", mc->abductor_force_bw.p50);
+  put_result_number (b, "abductor-force-bw-p95", mc->abductor_force_bw.p95);
+  if (index >= 0)
+    put_result_number (b, "share-lower-than-native", mc->share_lower_jrf);
 
   buf_puts (b, " flags=\"");
   bool first = true;
@@ -775,6 +811,36 @@ solve_every_option (const HlPlan *plan, HlResult *results, HlError *err)
   return st;
 }
 
+/* The plan's Monte Carlo ranges; *out (1 + n_options entries) is malloc'd. */
+static HlStatus
+run_uncertainty (const HlPlan *plan, HlMcSummary **out, HlMcInfo *info, HlError *err)
+{
+  HlModel model;
+  HlMcSettings settings;
+  HlStatus st = hl_model_prepare (&model, plan, err);
+  if (st != HL_OK)
+    return st;
+  hl_mc_settings_for_plan (plan, &settings, NULL);
+
+  HlMcSummary *summary = calloc (1 + plan->n_options, sizeof *summary);
+  HlMcWorkspace *ws = hl_mc_workspace_new (settings.n_samples,
+                                           plan->n_options > 0 ? plan->n_options : 1);
+  if (summary == NULL || ws == NULL)
+    st = hl_error_set (err, HL_ERR_NOMEM, "uncertainty",
+                       _("Out of memory for the uncertainty samples"));
+  else
+    st = hl_mc_run (ws, &model, plan->options, plan->n_options, &settings,
+                    summary, info, err);
+  hl_mc_workspace_free (ws);
+  if (st != HL_OK)
+    {
+      free (summary);
+      return st;
+    }
+  *out = summary;
+  return HL_OK;
+}
+
 HlStatus
 hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
                       size_t *size, HlError *err)
@@ -803,6 +869,10 @@ hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
   if (results == NULL)
     return hl_error_set (err, HL_ERR_NOMEM, "", _("Out of memory while solving the plan"));
   st = solve_every_option (plan, results, err);
+  HlMcSummary *mc = NULL;
+  HlMcInfo mc_info = { 0 };
+  if (st == HL_OK)
+    st = run_uncertainty (plan, &mc, &mc_info, err);
   if (st != HL_OK)
     {
       free (results);
@@ -813,6 +883,7 @@ hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
   if (!c_numeric_enter (&scope))
     {
       free (results);
+      free (mc);
       return hl_error_set (err, HL_ERR_NOMEM, "", _("Cannot set up the C locale for numbers"));
     }
 
@@ -843,12 +914,16 @@ hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
       buf_puts (&b, date_iso);
       buf_puts (&b, "\" plan-sha256=\"");
       buf_puts (&b, hex);
-      buf_puts (&b, "\"/>\n");
+      snprintf (line, sizeof line,
+                "\" uncertainty-seed=\"%" PRIu64 "\" uncertainty-samples-used=\"%zu\""
+                " uncertainty-samples-dropped=\"%zu\"/>\n",
+                mc_info.seed, mc_info.n_used, mc_info.n_dropped);
+      buf_puts (&b, line);
       buf_append (&b, plan_text.data, plan_text.len);
       buf_puts (&b, "<results>\n");
-      write_result (&b, &results[0], -1, NULL);
+      write_result (&b, &results[0], &mc[0], -1, NULL);
       for (size_t i = 0; i < plan->n_options; i++)
-        write_result (&b, &results[1 + i], (long) i, plan->options[i].name);
+        write_result (&b, &results[1 + i], &mc[1 + i], (long) i, plan->options[i].name);
       buf_puts (&b, "</results>\n</planning-summary>\n");
     }
   if (plan_text.failed)
@@ -856,6 +931,7 @@ hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
   c_numeric_leave (&scope);
   buf_free (&plan_text);
   free (results);
+  free (mc);
   return finish_buffer (&b, w.status, out, size, err);
 }
 
@@ -1031,6 +1107,7 @@ typedef struct {
   xmlNodePtr midline_load;
   xmlNodePtr tolerances;
   xmlNodePtr capacity;
+  xmlNodePtr uncertainty;
   xmlNodePtr *option;
   size_t n_option;
 } HlPlanNodes;
@@ -1623,6 +1700,49 @@ read_options (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *nodes)
   return true;
 }
 
+/* A whole number attribute; the schema has checked its form and range
+ * (samples: positive, seed: unsigned 64-bit). */
+static bool
+get_count (HlReader *r, xmlNodePtr node, const char *attr, uint64_t *out)
+{
+  xmlChar *v = xmlGetNoNsProp (node, (const xmlChar *) attr);
+  if (v == NULL)
+    return true;
+  const char *t = (const char *) v;
+  while (is_xml_space (*t))
+    t++;
+  if (*t == '+')
+    t++;
+  char *end = NULL;
+  errno = 0;
+  unsigned long long n = is_digit (*t) ? strtoull (t, &end, 10) : 0;
+  bool ok = end != NULL && errno == 0;
+  while (ok && is_xml_space (*end))
+    end++;
+  ok = ok && *end == '\0';
+  if (ok)
+    *out = (uint64_t) n;
+  else
+    reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is '%.*s', not a whole number"),
+                 attr, HL_QUOTED_VALUE_MAX, (const char *) v);
+  xmlFree (v);
+  return ok;
+}
+
+static bool
+read_uncertainty (HlReader *r, xmlNodePtr node, HlPlan *plan)
+{
+  HlMcSettings *mc = &plan->uncertainty;
+  uint64_t samples = mc->n_samples;
+
+  if (!get_count (r, node, "samples", &samples) || !get_count (r, node, "seed", &mc->seed))
+    return false;
+  mc->n_samples = samples > SIZE_MAX ? SIZE_MAX : (size_t) samples;
+  return get_number (r, node, "landmark-sd-mm", false, &mc->landmark_sd_mm)
+         && get_number (r, node, "magnification-sd", false, &mc->magnification_sd)
+         && get_number (r, node, "angle-sd-deg", false, &mc->line_angle_sd_deg);
+}
+
 static bool
 read_plan_element (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *nodes)
 {
@@ -1656,6 +1776,8 @@ read_plan_element (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *node
           nodes->capacity = c;
           ok = get_number (r, c, "torque-nm-per-kg", false, &plan->capacity.torque_nm_per_kg);
         }
+      else if (node_is (c, "uncertainty"))
+        ok = read_uncertainty (r, c, plan), nodes->uncertainty = c;
       else if (node_is (c, "options"))
         ok = read_options (r, c, plan, nodes);
       else if (node_is (c, "notes"))
@@ -1716,6 +1838,7 @@ node_for_field (const HlPlanNodes *nodes, const HlPlan *plan, const char *field)
     { "load midline", nodes->midline_load },
     { "tolerance", nodes->tolerances },
     { "capacity", nodes->capacity },
+    { "uncertainty", nodes->uncertainty },
   };
   for (size_t i = 0; i < sizeof map / sizeof map[0]; i++)
     if (strncmp (field, map[i].prefix, strlen (map[i].prefix)) == 0)

@@ -12,6 +12,7 @@
 
 #include "hl-i18n.h"
 #include "hl-plan.h"
+#include "hl-uncertainty.h"
 
 static const HlLandmarkInfo landmark_info[HL_LM_COUNT] = {
   { HL_LM_HIP_CENTRE, "hip-centre", N_("Hip centre"),
@@ -174,6 +175,7 @@ plan_init_defaults (HlPlan *plan)
   plan->tol.leg_length_mm = HL_LEG_LENGTH_TOL_DEFAULT_MM;
   plan->tol.abductor_slack_mm = HL_ABDUCTOR_SLACK_DEFAULT_MM;
   plan->capacity.torque_nm_per_kg = HL_CAPACITY_DEFAULT_NM_PER_KG;
+  hl_mc_settings_init (&plan->uncertainty);
 }
 
 HlPlan *
@@ -567,6 +569,24 @@ hl_plan_check (const HlPlan *plan, HlError *err)
       || (st = check_range (plan->capacity.torque_nm_per_kg, 0.05, 5.0,
                             "capacity torque",
                             N_("The abductor torque capacity"), "N m/kg", err)))
+    return st;
+
+  /* Monte Carlo settings (the magnification is the calibration's). */
+  const HlMcSettings *mc = &plan->uncertainty;
+  if (mc->n_samples < 1 || mc->n_samples > HL_MC_PLAN_SAMPLES_MAX)
+    return hl_error_set (err, HL_ERR_INVALID, "uncertainty samples",
+                         _("The number of uncertainty samples is %zu: it must "
+                           "be between 1 and %d"), mc->n_samples,
+                         HL_MC_PLAN_SAMPLES_MAX);
+  if ((st = check_range (mc->landmark_sd_mm, 0.0, HL_MC_LANDMARK_SD_MM_MAX,
+                         "uncertainty landmark-sd",
+                         N_("The landmark placement error (SD)"), "mm", err))
+      || (st = check_range (mc->magnification_sd, 0.0, HL_MC_MAGNIFICATION_SD_MAX,
+                            "uncertainty magnification-sd",
+                            N_("The magnification error (SD)"), "", err))
+      || (st = check_range (mc->line_angle_sd_deg, 0.0, HL_MC_LINE_ANGLE_SD_DEG_MAX,
+                            "uncertainty angle-sd",
+                            N_("The abductor line angle error (SD)"), "deg", err)))
     return st;
 
   for (size_t i = 0; i < plan->n_options; i++)

@@ -18,6 +18,7 @@
 #pragma once
 
 #include <stdbool.h>
+#include "hl-mc-settings.h"
 #include "hl-types.h"
 
 #ifdef __cplusplus
@@ -254,6 +255,8 @@ typedef struct {
   HlTolerances tol;
   HlCapacity capacity;
   char notes[1024];            /* free text for the case, no identifiers */
+  HlMcSettings uncertainty;    /* Monte Carlo settings (hl-uncertainty.h);
+                                * its magnification comes from the calibration */
 
   /* owned */
   HlOption *options;

@@ -75,6 +75,24 @@ hl_mc_settings_init (HlMcSettings *s)
   s->line_angle_sd_deg = HL_MC_LINE_ANGLE_SD_DEG_DEFAULT;
 }
 
+void
+hl_mc_settings_for_plan (const HlPlan *plan, HlMcSettings *s, bool *m_assumed)
+{
+  bool assumed = false;
+
+  *s = plan->uncertainty;
+  if (hl_calibration_magnification (&plan->calibration, &s->magnification,
+                                    &assumed, NULL) != HL_OK
+      || !(s->magnification >= HL_MAGNIFICATION_MIN
+           && s->magnification <= HL_MAGNIFICATION_MAX))
+    {
+      s->magnification = HL_MAGNIFICATION_ASSUMED;
+      assumed = true;
+    }
+  if (m_assumed != NULL)
+    *m_assumed = assumed;
+}
+
 /* ---- Selection -------------------------------------------------------- */
 
 static inline void

@@ -36,6 +36,7 @@
 
 #include <stdbool.h>
 #include <stdint.h>
+#include "hl-mc-settings.h"
 #include "hl-rng.h"
 #include "hl-solve.h"
 
@@ -63,18 +64,17 @@ extern "C" {
 #define HL_MC_MAGNIFICATION_SD_MAX 0.2
 #define HL_MC_LINE_ANGLE_SD_DEG_MAX 30.0
 
-typedef struct {
-  uint64_t seed;
-  size_t n_samples;
-  double landmark_sd_mm;
-  double magnification_sd;
-  double magnification;       /* M in use for the plan (HL_MAGNIFICATION_ASSUMED
-                               * without calibration) */
-  double line_angle_sd_deg;
-} HlMcSettings;
+/* HlMcSettings: seed, samples, the three SDs and M (hl-mc-settings.h). */
 
 /* The defaults above, M = HL_MAGNIFICATION_ASSUMED. */
 void hl_mc_settings_init (HlMcSettings *settings);
+/* The plan's recorded settings with M from its calibration.  Without a
+ * calibration, or with one that cannot give a plausible M (too few points,
+ * M outside HL_MAGNIFICATION_MIN..MAX), M is
+ * HL_MAGNIFICATION_ASSUMED, as everywhere else, and *m_assumed (may be
+ * NULL) is set. */
+void hl_mc_settings_for_plan (const HlPlan *plan, HlMcSettings *settings,
+                              bool *m_assumed);
 
 typedef struct {
   double p05;

@@ -262,6 +262,15 @@ plans_equal (const HlPlan *a, const HlPlan *b, char *why, size_t size)
   SAME_D (tol.leg_length_mm);
   SAME_D (tol.abductor_slack_mm);
   SAME_D (capacity.torque_nm_per_kg);
+  SAME_I (uncertainty.n_samples);
+  if (a->uncertainty.seed != b->uncertainty.seed)
+    {
+      snprintf (why, size, "uncertainty.seed differs");
+      return false;
+    }
+  SAME_D (uncertainty.landmark_sd_mm);
+  SAME_D (uncertainty.magnification_sd);
+  SAME_D (uncertainty.line_angle_sd_deg);
   SAME_S (notes);
   SAME_I (n_options);
   for (size_t i = 0; i < a->n_options; i++)
@@ -475,6 +484,12 @@ random_plan (HlRand *r)
   plan->tol.leg_length_mm = rand_uniform (r, 1.0, 15.0);
   plan->tol.abductor_slack_mm = rand_uniform (r, 1.0, 15.0);
   plan->capacity.torque_nm_per_kg = rand_uniform (r, 0.5, 1.5);
+  /* Few samples keep the summaries quick; the seed uses all 64 bits. */
+  plan->uncertainty.n_samples = 1 + (size_t) rand_int (r, 500);
+  plan->uncertainty.seed = rand_next (r);
+  plan->uncertainty.landmark_sd_mm = rand_uniform (r, 0.0, 5.0);
+  plan->uncertainty.magnification_sd = rand_uniform (r, 0.0, 0.05);
+  plan->uncertainty.line_angle_sd_deg = rand_uniform (r, 0.0, 10.0);
 
   int n_options = rand_int (r, 6);
   for (int i = 0; i < n_options; i++)
