@@ -25,6 +25,7 @@ struct _HlApplication {
 
   char *screenshot_path;
   char *dump_path;
+  char *panel;               /* side panel page to show first */
   int width;                 /* 0: the window's default */
   int height;
   gboolean benchmark_drag;
@@ -41,6 +42,8 @@ static const GOptionEntry option_entries[] = {
     N_("Open the window, save it as a PNG image and quit"), N_("OUT.png") },
   { "size", 0, 0, G_OPTION_ARG_STRING, NULL,
     N_("Window size for --screenshot and --benchmark-drag"), N_("WxH") },
+  { "panel", 0, 0, G_OPTION_ARG_STRING, NULL,
+    N_("Side panel page to show first: case, landmarks, options or aids"), N_("PAGE") },
   { "dump-summary-on-exit", 0, 0, G_OPTION_ARG_FILENAME, NULL,
     N_("Write the planning summary of the open plan here on quitting (for tests)"), N_("FILE") },
   { "benchmark-drag", 0, 0, G_OPTION_ARG_NONE, NULL,
@@ -66,6 +69,8 @@ hl_application_finish (HlApplication *self, int status)
     self->exit_status = status;
   g_application_quit (G_APPLICATION (self));
 }
+
+static const char *const panel_names[] = { "case", "landmarks", "options", "aids", NULL };
 
 static gboolean
 parse_size (const char *text, int *w, int *h)
@@ -101,6 +106,13 @@ hl_application_handle_local_options (GApplication *app, GVariantDict *options)
     }
   g_variant_dict_lookup (options, "screenshot", "^ay", &self->screenshot_path);
   g_variant_dict_lookup (options, "dump-summary-on-exit", "^ay", &self->dump_path);
+  g_variant_dict_lookup (options, "panel", "s", &self->panel);
+  if (self->panel != NULL && !g_strv_contains (panel_names, self->panel))
+    {
+      g_printerr (_("hiplever: --panel '%s' is not one of case, landmarks, options, aids\n"),
+                  self->panel);
+      return 2;
+    }
   self->benchmark_drag = g_variant_dict_contains (options, "benchmark-drag");
   self->print_results = g_variant_dict_contains (options, "print-results");
   if (g_variant_dict_lookup (options, "size", "&s", &size)
@@ -163,6 +175,8 @@ hl_application_new_window (HlApplication *self)
     hl_window_set_dump_path (window, self->dump_path);
   if (self->print_handles)
     hl_window_set_print_handles (window, TRUE);
+  if (self->panel != NULL)
+    hl_window_show_panel (window, self->panel);
   return window;
 }
 
@@ -312,6 +326,7 @@ hl_application_finalize (GObject *object)
 
   g_free (self->screenshot_path);
   g_free (self->dump_path);
+  g_free (self->panel);
   G_OBJECT_CLASS (hl_application_parent_class)->finalize (object);
 }
 

@@ -123,7 +123,7 @@ format_change (const HlResultRow *row, double v, double native)
     return g_strdup ("");
   if (fabs (native) < HL_RESULTS_PERCENT_MIN_BASE)
     return g_strdup ("(—)");
-  return g_strdup_printf ("(%+.1f %%)", 100.0 * (v - native) / native);
+  return g_strdup_printf ("(%+.1f%%)", 100.0 * (v - native) / native);
 }
 
 static char *
@@ -197,8 +197,11 @@ hl_results_build_columns (HlResults *self, size_t n)
       int x = FIRST_COLUMN + 2 * (int) c;
 
       col.header = make_label ("results-header", 0.0f);
-      gtk_label_set_ellipsize (GTK_LABEL (col.header), PANGO_ELLIPSIZE_END);
+      gtk_label_set_wrap (GTK_LABEL (col.header), TRUE);
+      gtk_label_set_wrap_mode (GTK_LABEL (col.header), PANGO_WRAP_WORD_CHAR);
       gtk_label_set_width_chars (GTK_LABEL (col.header), 12);
+      gtk_label_set_max_width_chars (GTK_LABEL (col.header), 18);
+      gtk_widget_set_valign (col.header, GTK_ALIGN_END);
       gtk_grid_attach (grid, col.header, x, HEADER_ROW, 2, 1);
       for (guint r = 0; r < N_ROWS; r++)
         {
@@ -206,7 +209,7 @@ hl_results_build_columns (HlResults *self, size_t n)
           gtk_label_set_width_chars (GTK_LABEL (col.value[r]), 7);
           gtk_grid_attach (grid, col.value[r], x, FIRST_VALUE_ROW + (int) r, 1, 1);
           col.change[r] = make_label ("results-change", 0.0f);
-          gtk_label_set_width_chars (GTK_LABEL (col.change[r]), 9);
+          gtk_label_set_width_chars (GTK_LABEL (col.change[r]), 8);
           gtk_grid_attach (grid, col.change[r], x + 1, FIRST_VALUE_ROW + (int) r, 1, 1);
         }
       col.flags = make_label ("results-flags", 0.0f);

@@ -416,7 +416,7 @@ landmark_spin (HlWindow *self, HlLandmarkId id, const char *axis_label)
 
   gtk_spin_button_set_digits (GTK_SPIN_BUTTON (spin), 1);
   gtk_spin_button_set_increments (GTK_SPIN_BUTTON (spin), 0.5, 5.0);
-  gtk_editable_set_width_chars (GTK_EDITABLE (spin), 6);
+  gtk_editable_set_width_chars (GTK_EDITABLE (spin), 5);
   gtk_widget_set_valign (spin, GTK_ALIGN_CENTER);
   gtk_accessible_update_property (GTK_ACCESSIBLE (spin),
                                   GTK_ACCESSIBLE_PROPERTY_LABEL, axis_label, -1);
@@ -445,7 +445,7 @@ build_landmark_rows (HlWindow *self)
           gtk_widget_set_hexpand (title, TRUE);
         }
       else if (i < 3)
-        gtk_label_set_width_chars (GTK_LABEL (title), 9);
+        gtk_label_set_width_chars (GTK_LABEL (title), 8);
       gtk_box_append (GTK_BOX (header), title);
     }
   gtk_widget_add_css_class (header, "landmark-header");
@@ -599,12 +599,18 @@ build_option_params (HlWindow *self)
   for (int i = 0; i < HL_RECON_N_PARAMS; i++)
     {
       const HlReconParam *param = &recon_params[i];
+      GtkWidget *names = gtk_box_new (GTK_ORIENTATION_VERTICAL, 0);
       GtkWidget *label = gtk_label_new (_(param->label));
+      GtkWidget *sense = gtk_label_new (_(param->sense));
       GtkWidget *spin = gtk_spin_button_new_with_range (param->lower, param->upper, 0.5);
-      g_autofree char *unit_text = g_strdup_printf ("%s  %s", _(param->unit), _(param->sense));
-      GtkWidget *unit = gtk_label_new (unit_text);
+      GtkWidget *unit = gtk_label_new (_(param->unit));
 
       gtk_label_set_xalign (GTK_LABEL (label), 0.0f);
+      gtk_label_set_xalign (GTK_LABEL (sense), 0.0f);
+      gtk_widget_add_css_class (sense, "dim-label");
+      gtk_widget_add_css_class (sense, "caption");
+      gtk_box_append (GTK_BOX (names), label);
+      gtk_box_append (GTK_BOX (names), sense);
       gtk_label_set_xalign (GTK_LABEL (unit), 0.0f);
       gtk_widget_add_css_class (unit, "dim-label");
       gtk_spin_button_set_digits (GTK_SPIN_BUTTON (spin), 1);
@@ -615,7 +621,7 @@ build_option_params (HlWindow *self)
                                       GTK_ACCESSIBLE_PROPERTY_LABEL, _(param->label), -1);
       g_signal_connect (spin, "value-changed", G_CALLBACK (recon_param_cb),
                         (gpointer) param);
-      gtk_grid_attach (grid, label, 0, i + 1, 1, 1);
+      gtk_grid_attach (grid, names, 0, i + 1, 1, 1);
       gtk_grid_attach (grid, spin, 1, i + 1, 1, 1);
       gtk_grid_attach (grid, unit, 2, i + 1, 1, 1);
       self->recon_spin[i] = GTK_SPIN_BUTTON (spin);

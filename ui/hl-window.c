@@ -246,6 +246,16 @@ hl_window_load_file (HlWindow *self, GFile *file, gboolean report, HlError *err)
   return TRUE;
 }
 
+gboolean
+hl_window_show_panel (HlWindow *self, const char *name)
+{
+  g_return_val_if_fail (HL_IS_WINDOW (self), FALSE);
+  if (name == NULL || gtk_stack_get_child_by_name (self->panel_stack, name) == NULL)
+    return FALSE;
+  gtk_stack_set_visible_child_name (self->panel_stack, name);
+  return TRUE;
+}
+
 void
 hl_window_set_dump_path (HlWindow *self, const char *path)
 {

@@ -26,6 +26,9 @@ const HlPlan *hl_window_get_plan (HlWindow *self);
 /* An error in plain words with its line and field, for messages. */
 char *hl_window_format_error (const HlError *err);
 
+/* Shows a page of the side panel: "case", "landmarks", "options" or
+ * "aids"; FALSE for any other name. */
+gboolean hl_window_show_panel (HlWindow *self, const char *name);
 /* Writes the planning summary of the plan here when the window closes. */
 void hl_window_set_dump_path (HlWindow *self, const char *path);
 /* Closes without asking about unsaved changes (test and batch modes). */
