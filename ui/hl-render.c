@@ -84,7 +84,7 @@
 #define SCALE_BAR_MIN_PX 60.0
 #define SCALE_BAR_MAX_PX 170.0
 #define MOVED_MIN_MM 0.05
-#define WRAP_LINES_MAX 8
+#define WRAP_LINES_MAX 16
 #define FIT_MARGIN_PX 24.0
 /* Flattening of curves: invisible at this size, and faster than cairo's
  * default of 0.1 px. */
@@ -833,7 +833,10 @@ hl_render_fit_view (const HlScene *scene, double width, double height,
 /* Room kept clear of the bones for what is drawn around them. */
 #define FRAME_TOP_PX 62.0
 #define FRAME_BOTTOM_PX 52.0
-#define CAUTION_RESERVE_PX 40.0
+#define CAUTION_GLYPH_EM 0.55
+#define CAUTION_FONT_SCALE 0.85
+#define CAUTION_LINE_EM 1.15
+#define CAUTION_PAD_PX 10.0
 #define LEGEND_RESERVE_EM 17.0
 #define LEGEND_ASPECT_MIN 1.45
 #define FRAME_FULL_HEIGHT_PX 520.0
@@ -849,7 +852,14 @@ hl_render_fit_view_framed (const HlScene *scene, const HlRenderStyle *style,
   double top = style->show_frame ? k * FRAME_TOP_PX : 0.0;
   double bottom = style->show_frame ? k * FRAME_BOTTOM_PX : 0.0;
   if (style->show_caution)
-    bottom += CAUTION_RESERVE_PX;
+    {
+      /* The full caution wraps to a few lines; an average glyph is about
+       * half the font size wide. */
+      double chars_per_line = fmax ((width - 2.0 * BOX_MARGIN_PX)
+                                    / (CAUTION_GLYPH_EM * CAUTION_FONT_SCALE * style->font_px), 1.0);
+      double n = ceil (strlen (hl_caution_text ()) / chars_per_line);
+      bottom += n * CAUTION_LINE_EM * style->font_px + CAUTION_PAD_PX;
+    }
   double right = 0.0;
   double legend_w = LEGEND_RESERVE_EM * style->font_px;
   if (style->show_legend && width - legend_w > LEGEND_ASPECT_MIN * (height - top - bottom))
@@ -1829,10 +1839,10 @@ draw_caution (cairo_t *cr, const HlRenderStyle *style, double width,
               double height)
 {
   Wrapped lines;
-  font (cr, style, 0.85, false);
-  wrap_text (cr, hl_caution_short (), width - 2.0 * BOX_MARGIN_PX, &lines);
-  double lh = style->font_px * 1.15;
-  double bh = lines.n * lh + 10.0;
+  font (cr, style, CAUTION_FONT_SCALE, false);
+  wrap_text (cr, hl_caution_text (), width - 2.0 * BOX_MARGIN_PX, &lines);
+  double lh = style->font_px * CAUTION_LINE_EM;
+  double bh = lines.n * lh + CAUTION_PAD_PX;
   double y = height - bh;
 
   cairo_new_path (cr);

@@ -70,7 +70,7 @@ typedef struct {
   HlRgba bg;                 /* what lies under the drawing */
   bool paint_background;     /* fill with bg first (figures); the canvas lets
                               * the widget's own background show */
-  bool show_caution;         /* the short caution at the foot (exports) */
+  bool show_caution;         /* hl_caution_text () at the foot (exports) */
   bool show_frame;           /* R/L side markers, title and scale bars */
   bool show_legend;
   bool show_labels;          /* force values and moment arm lengths */
