@@ -207,7 +207,7 @@ gboolean
 hl_window_load_file (HlWindow *self, GFile *file, gboolean report, HlError *err)
 {
   g_autofree char *path = g_file_get_path (file);
-  g_autofree char *name = g_file_get_parse_name (file);
+  g_autofree char *name = g_file_get_basename (file);
   HlPlan *loaded = NULL;
   HlError local;
   HlStatus st;

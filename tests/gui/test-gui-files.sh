@@ -33,6 +33,51 @@ hl_key ctrl+q
 hl_wait_exit
 hl_note "ok: the window stayed after the load error and quit on Ctrl+Q"
 
+# The file chooser: typing a path that starts with "/" opens its location
+# field; Return accepts.
+choose () {
+  sleep 1
+  xdotool type --delay 20 "$1"
+  sleep 0.3
+  hl_key Return
+  sleep 1
+}
+
+# Ctrl+O on a broken file: a dialog, and the plan that was open stays.
+hl_start open-bad --dump-summary-on-exit "$HL_TMP/kept.xml" "$HL_DEMO"
+hl_key ctrl+o
+choose "$bad"
+hl_grab open-error-dialog
+hl_key Return
+sleep 0.5
+# Ctrl+E exports the planning summary, Ctrl+Shift+S saves under a name.
+hl_key ctrl+e
+choose "$HL_TMP/exported"
+hl_key ctrl+shift+s
+choose "$HL_TMP/saved-as"
+hl_key ctrl+q
+hl_wait_exit
+mass=$(xmllint --xpath "string(//*[local-name()='case']/@mass-kg)" "$HL_TMP/kept.xml")
+hl_expect "the open plan kept its body mass after the failed open" "$mass" "~" 72.5
+[ -s "$HL_TMP/exported.xml" ] || hl_fail "Ctrl+E wrote no summary (exported.xml)"
+xmllint --noout "$HL_TMP/exported.xml" || hl_fail "the exported summary is not well-formed"
+grep -q 'Planning aid only' "$HL_TMP/exported.xml" || hl_fail "the exported summary has no caution"
+hl_note "ok: Ctrl+E exported a summary with the caution, .xml added"
+[ -s "$HL_TMP/saved-as.hlplan" ] || hl_fail "Ctrl+Shift+S wrote no plan (saved-as.hlplan)"
+"$HIPLEVER" --print-results "$HL_TMP/saved-as.hlplan" >"$HL_TMP/saved.csv" \
+  || hl_fail "the plan saved under a name does not open"
+hl_note "ok: Ctrl+Shift+S saved a plan that opens, .hlplan added"
+
+# Ctrl+O on a good file replaces the plan.
+hl_start open-good --dump-summary-on-exit "$HL_TMP/left.xml" "$HL_DEMO"
+hl_key ctrl+o
+choose "$SRCDIR/data/examples/demo-left.hlplan"
+hl_key ctrl+q
+hl_wait_exit
+side=$(xmllint --xpath "string(//*[local-name()='case']/@operated-side)" "$HL_TMP/left.xml")
+[ "$side" = left ] || hl_fail "Ctrl+O did not open the left-hip plan (side '$side')"
+hl_note "ok: Ctrl+O opened another plan"
+
 # A planning summary opens as a plan too.
 "$HIPLEVER" --print-results --dump-summary-on-exit "$HL_TMP/summary.xml" "$HL_DEMO" >"$HL_TMP/a.csv"
 "$HIPLEVER" --print-results "$HL_TMP/summary.xml" >"$HL_TMP/b.csv" \

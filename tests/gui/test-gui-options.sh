@@ -18,6 +18,14 @@ hl_grab options-page
 hl_click add-option
 hl_settle
 hl_grab options-added
+# The shortcuts window comes with Ctrl+? and goes with Escape.
+hl_key ctrl+question
+timeout "$HL_WAIT_S" xdotool search --sync --onlyvisible --name '^Keyboard Shortcuts$' >/dev/null \
+  || hl_fail "Ctrl+? showed no shortcuts window"
+hl_grab shortcuts
+hl_note "ok: the shortcuts window is shown"
+hl_key Escape
+sleep 0.5
 hl_quit_discarding
 
 n=$(xmllint --xpath "count(//*[local-name()='result'][@kind='option'])" "$HL_TMP/options.xml")
