@@ -9,6 +9,8 @@
  * `xdotool mousemove --window`):
  *   HANDLE <landmark-key> <x> <y>   placed landmarks of the native hip
  *   WIDGET <name> <x> <y>           centres of the controls tests click
+ *                                   (page-*, cane-check, add-option,
+ *                                   mass-spin, lm-x-<key>, lm-y-<key>)
  *   FRAME <n>                       ends each block
  */
 #include "config.h"
@@ -119,6 +121,15 @@ hl_window_print_handles (HlWindow *self)
   print_widget (self, "canvas", GTK_WIDGET (self->canvas));
   print_widget (self, "cane-check", GTK_WIDGET (self->cane_check));
   print_widget (self, "add-option", GTK_WIDGET (self->add_option_button));
+  print_widget (self, "mass-spin", GTK_WIDGET (self->mass_spin));
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      g_autofree char *x = g_strdup_printf ("lm-x-%s", hl_landmark_info ((HlLandmarkId) i)->key);
+      g_autofree char *y = g_strdup_printf ("lm-y-%s", hl_landmark_info ((HlLandmarkId) i)->key);
+
+      print_widget (self, x, GTK_WIDGET (self->lm_x[i]));
+      print_widget (self, y, GTK_WIDGET (self->lm_y[i]));
+    }
   printf ("FRAME %u\n", ++frame);
   fflush (stdout);
 }

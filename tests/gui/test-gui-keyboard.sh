@@ -61,4 +61,49 @@ hl_key ctrl+q
 hl_wait_exit
 saved_x=$(xmllint --xpath "string(//*[local-name()='landmark'][@name='$lm']/@x-mm)" "$plan")
 hl_expect "the saved file has the nudged landmark" "$saved_x" "~" "$(awk -v b="$base_x" 'BEGIN { print b + 5 }')"
+
+# 3. the mass spin button: three steps up are one undo step.
+hl_start spin --dump-summary-on-exit "$HL_TMP/spin.xml" "$plan"
+set -- $(hl_pos WIDGET mass-spin)
+[ $# -eq 2 ] || hl_fail "no position printed for the mass spin button"
+xdotool mousemove --window "$HL_WID" "$1" "$2" click 1
+for k in Up Up Up; do
+  hl_key "$k"
+  sleep 0.2
+done
+# Back on the schematic so that Ctrl+Z is the plan's undo, not the text's.
+set -- $(hl_pos WIDGET canvas)
+xdotool mousemove --window "$HL_WID" "$1" $(($2 + 150)) click 1
+sleep 0.3
+title=$(xdotool getwindowname "$HL_WID")
+case "$title" in
+  "• "*) hl_note "ok: the title marks the change: $title" ;;
+  *) hl_fail "the spin button steps changed nothing (title '$title')" ;;
+esac
+hl_mark
+hl_key ctrl+z
+hl_settle
+title=$(xdotool getwindowname "$HL_WID")
+case "$title" in
+  "• "*) hl_fail "still marked modified after undo: $title" ;;
+  *) hl_note "ok: back to the saved state: $title" ;;
+esac
+hl_quit_discarding
+mass=$(xmllint --xpath "string(//*[local-name()='case']/@mass-kg)" "$HL_TMP/spin.xml")
+hl_expect "one Ctrl+Z undid three steps of the mass spin button" "$mass" "~" 72.5
+
+# 4. a coordinate typed into the landmark table.
+hl_start table --dump-summary-on-exit "$HL_TMP/table.xml" "$plan"
+hl_click page-landmarks
+hl_settle
+set -- $(hl_pos WIDGET lm-x-hip-centre)
+[ $# -eq 2 ] || hl_fail "no position printed for the hip centre's x"
+xdotool mousemove --window "$HL_WID" "$1" "$2" click 1
+hl_key ctrl+a
+xdotool type --delay 20 -- "-97.5"
+hl_key Return
+hl_settle
+hl_quit_discarding
+x=$(hl_landmark "$HL_TMP/table.xml" hip-centre x-mm)
+hl_expect "the typed hip centre x" "$x" "~" -97.5
 echo "PASS"
