@@ -33,6 +33,8 @@
 #include <libxml/xmlschemas.h>
 
 #include "hl-i18n.h"
+#include "hl-image.h"
+#include "hl-measure.h"
 #include "hl-plan-io.h"
 #include "hl-sha256.h"
 #include "hl-uncertainty.h"
@@ -90,6 +92,8 @@ static const char *const number_attrs[] = {
   "torque-nm-per-kg", "cup-medial-mm", "cup-superior-mm", "femoral-offset-mm",
   "femoral-length-mm", "head-length-mm", "neck-shaft-angle-deg",
   "landmark-sd-mm", "magnification-sd", "angle-sd-deg",
+  "pixel-spacing-mm", "origin-x-mm", "origin-y-mm", "brightness", "contrast",
+  "opacity",
 };
 
 /* ---- Numbers in the C locale ------------------------------------------- */
@@ -309,6 +313,7 @@ typedef struct {
   HlBuf *b;
   HlError *err;
   HlStatus status;   /* the first failure; later writes are skipped */
+  const char *base_file;  /* the file written: image paths relative to it */
 } HlWriter;
 
 static void
@@ -462,6 +467,35 @@ write_uncertainty (HlBuf *b, const HlMcSettings *mc)
   buf_puts (b, "\"/>\n");
 }
 
+/* The reference only, never the pixels; the path relative to the file
+ * being written where there is one. */
+static void
+write_radiograph (HlWriter *w, const HlRadiograph *rg)
+{
+  if (!rg->present || w->status != HL_OK)
+    return;
+  char path[HL_IMAGE_PATH_MAX];
+  HlStatus st = hl_image_relative_path (w->base_file, rg->path, path, sizeof path, w->err);
+  if (st != HL_OK)
+    {
+      w->status = st;
+      return;
+    }
+  buf_puts (w->b, "  <radiograph");
+  put_text_attr (w, "path", path, sizeof path, "radiograph path");
+  if (rg->sha256[0] != '\0')
+    put_text_attr (w, "sha256", rg->sha256, sizeof rg->sha256, "radiograph sha256");
+  put_number (w, "pixel-spacing-mm", rg->pixel_spacing_mm, "radiograph pixel-spacing");
+  put_number (w, "origin-x-mm", rg->origin_mm.x, "radiograph origin");
+  put_number (w, "origin-y-mm", rg->origin_mm.y, "radiograph origin");
+  put_number (w, "brightness", rg->brightness, "radiograph brightness");
+  put_number (w, "contrast", rg->contrast, "radiograph contrast");
+  buf_puts (w->b, rg->invert ? " invert=\"true\"" : " invert=\"false\"");
+  put_number (w, "opacity", rg->opacity, "radiograph opacity");
+  buf_puts (w->b, rg->schematic_visible ? " schematic-visible=\"true\"/>\n"
+                                        : " schematic-visible=\"false\"/>\n");
+}
+
 static void
 write_plan_element (HlWriter *w, const HlPlan *plan)
 {
@@ -539,6 +573,7 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
         }
       buf_puts (b, "  </calibration>\n");
     }
+  write_radiograph (w, &plan->radiograph);
 
   buf_puts (b, "  <aids>\n    <cane enabled=\"");
   buf_puts (b, plan->cane.enabled ? "true" : "false");
@@ -645,8 +680,9 @@ finish_buffer (HlBuf *b, HlStatus st, char **out, size_t *size, HlError *err)
   return HL_OK;
 }
 
-HlStatus
-hl_plan_to_buffer (const HlPlan *plan, char **out, size_t *size, HlError *err)
+static HlStatus
+plan_to_buffer_for (const HlPlan *plan, const char *base_file, char **out,
+                    size_t *size, HlError *err)
 {
   HlStatus st = check_for_writing (plan, err);
   if (st != HL_OK)
@@ -657,11 +693,17 @@ hl_plan_to_buffer (const HlPlan *plan, char **out, size_t *size, HlError *err)
     return hl_error_set (err, HL_ERR_NOMEM, "", _("Cannot set up the C locale for numbers"));
 
   HlBuf b = { 0 };
-  HlWriter w = { &b, err, HL_OK };
+  HlWriter w = { &b, err, HL_OK, base_file };
   buf_puts (&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
   write_plan_element (&w, plan);
   c_numeric_leave (&scope);
   return finish_buffer (&b, w.status, out, size, err);
+}
+
+HlStatus
+hl_plan_to_buffer (const HlPlan *plan, char **out, size_t *size, HlError *err)
+{
+  return plan_to_buffer_for (plan, NULL, out, size, err);
 }
 
 /* ---- The planning summary --------------------------------------------- */
@@ -721,9 +763,80 @@ iso_date_valid (const char *s)
          && p[3] == ':' && digits_at (p + 4, 2, &om) && oh <= 14 && om <= 59;
 }
 
+/* A measure only when its landmarks are placed. */
+static bool
+put_measure (HlBuf *b, const char *attr, double v)
+{
+  if (!isfinite (v))
+    return false;
+  put_result_number (b, attr, v);
+  return true;
+}
+
+/* <measures> of one result's landmarks; nothing when none can be taken. */
+static void
+write_measures (HlBuf *b, const HlPlan *plan, const HlRecon *recon)
+{
+  HlLandmarks lm;
+  HlMeasures ms;
+  if (recon == NULL)
+    lm = plan->landmarks;
+  else
+    hl_recon_landmarks (plan, recon, &lm);
+  hl_measure (&lm, plan->side, &ms);
+
+  HlBuf attrs = { 0 };
+  bool any = false;
+  const struct { const char *prefix; const HlSideMeasures *m; } sides[] = {
+    { "", &ms.operated }, { "other-", &ms.other },
+  };
+  for (size_t i = 0; i < 2; i++)
+    {
+      char name[64];
+      const HlSideMeasures *m = sides[i].m;
+      const struct { const char *key; double v; } values[] = {
+        { "acetabular-offset-mm", m->acetabular_offset_mm },
+        { "femoral-offset-mm", m->femoral_offset_mm },
+        { "global-offset-mm", m->global_offset_mm },
+        { "hip-centre-height-mm", m->hip_centre_height_mm },
+        { "leg-length-mm", m->leg_length_mm },
+      };
+      for (size_t k = 0; k < sizeof values / sizeof values[0]; k++)
+        {
+          snprintf (name, sizeof name, "%s%s", sides[i].prefix, values[k].key);
+          any |= put_measure (&attrs, name, values[k].v);
+        }
+    }
+  any |= put_measure (&attrs, "leg-length-difference-mm", ms.leg_length_difference_mm);
+  any |= put_measure (&attrs, "global-offset-difference-mm", ms.global_offset_difference_mm);
+  any |= put_measure (&attrs, "femoral-offset-difference-mm", ms.femoral_offset_difference_mm);
+  any |= put_measure (&attrs, "acetabular-offset-difference-mm",
+                      ms.acetabular_offset_difference_mm);
+  any |= put_measure (&attrs, "hip-centre-height-difference-mm",
+                      ms.hip_centre_height_difference_mm);
+  if (any)
+    {
+      double m;
+      bool assumed;
+      buf_puts (b, "    <measures");
+      buf_append (b, attrs.data, attrs.len);
+      if (hl_calibration_magnification (&plan->calibration, &m, &assumed, NULL) == HL_OK)
+        {
+          put_result_number (b, "magnification", m);
+          buf_puts (b, assumed ? " magnification-assumed=\"true\""
+                               : " magnification-assumed=\"false\"");
+        }
+      buf_puts (b, ms.side_contradiction ? " side-contradiction=\"true\"/>\n"
+                                         : " side-contradiction=\"false\"/>\n");
+    }
+  if (attrs.failed)
+    b->failed = true;
+  buf_free (&attrs);
+}
+
 static void
 write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
-              const char *name)
+              const char *name, const HlPlan *plan)
 {
   if (index < 0)
     buf_puts (b, "  <result kind=\"native\"");
@@ -780,11 +893,6 @@ write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
       }
   buf_puts (b, "\"");
 
-  if (first)
-    {
-      buf_puts (b, "/>\n");
-      return;
-    }
   buf_puts (b, ">\n");
   for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
     if (r->flags & bit)
@@ -795,6 +903,7 @@ write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
         buf_escaped (b, hl_flag_text ((HlFlag) bit), false);
         buf_puts (b, "</flag>\n");
       }
+  write_measures (b, plan, index < 0 ? NULL : &plan->options[index].recon);
   buf_puts (b, "  </result>\n");
 }
 
@@ -841,9 +950,9 @@ run_uncertainty (const HlPlan *plan, HlMcSummary **out, HlMcInfo *info, HlError 
   return HL_OK;
 }
 
-HlStatus
-hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
-                      size_t *size, HlError *err)
+static HlStatus
+summary_to_buffer_for (const HlPlan *plan, const char *date_iso, const char *base_file,
+                       char **out, size_t *size, HlError *err)
 {
   char now[HL_ISO_DATE_MAX];
   if (date_iso == NULL)
@@ -888,7 +997,7 @@ hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
     }
 
   HlBuf plan_text = { 0 };
-  HlWriter w = { &plan_text, err, HL_OK };
+  HlWriter w = { &plan_text, err, HL_OK, base_file };
   write_plan_element (&w, plan);
 
   HlBuf b = { 0 };
@@ -921,9 +1030,10 @@ hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
       buf_puts (&b, line);
       buf_append (&b, plan_text.data, plan_text.len);
       buf_puts (&b, "<results>\n");
-      write_result (&b, &results[0], &mc[0], -1, NULL);
+      write_result (&b, &results[0], &mc[0], -1, NULL, plan);
       for (size_t i = 0; i < plan->n_options; i++)
-        write_result (&b, &results[1 + i], &mc[1 + i], (long) i, plan->options[i].name);
+        write_result (&b, &results[1 + i], &mc[1 + i], (long) i, plan->options[i].name,
+                      plan);
       buf_puts (&b, "</results>\n</planning-summary>\n");
     }
   if (plan_text.failed)
@@ -933,6 +1043,13 @@ hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
   free (results);
   free (mc);
   return finish_buffer (&b, w.status, out, size, err);
+}
+
+HlStatus
+hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
+                      size_t *size, HlError *err)
+{
+  return summary_to_buffer_for (plan, date_iso, NULL, out, size, err);
 }
 
 /* ---- Atomic writing ----------------------------------------------------- */
@@ -1070,7 +1187,7 @@ hl_plan_save_file (const HlPlan *plan, const char *path, HlError *err)
 {
   char *text = NULL;
   size_t size = 0;
-  HlStatus st = hl_plan_to_buffer (plan, &text, &size, err);
+  HlStatus st = plan_to_buffer_for (plan, path, &text, &size, err);
   if (st != HL_OK)
     return st;
   st = hl_write_file_atomic (path, text, size, err);
@@ -1083,7 +1200,7 @@ hl_summary_save_file (const HlPlan *plan, const char *path, HlError *err)
 {
   char *text = NULL;
   size_t size = 0;
-  HlStatus st = hl_summary_to_buffer (plan, NULL, &text, &size, err);
+  HlStatus st = summary_to_buffer_for (plan, NULL, path, &text, &size, err);
   if (st != HL_OK)
     return st;
   st = hl_write_file_atomic (path, text, size, err);
@@ -1102,6 +1219,7 @@ typedef struct {
   xmlNodePtr landmarks;
   xmlNodePtr landmark[HL_LM_COUNT];
   xmlNodePtr calibration;
+  xmlNodePtr radiograph;
   xmlNodePtr cane;
   xmlNodePtr hand_load[2];
   xmlNodePtr midline_load;
@@ -1126,6 +1244,7 @@ typedef struct {
   xmlNodePtr xml_node;
   char xml_element[HL_QUOTED_VALUE_MAX];
   char xml_message[HL_ERROR_MESSAGE_MAX];
+  const char *base_file;     /* the plan file: image paths resolve against it */
 } HlReader;
 
 static void
@@ -1609,6 +1728,41 @@ read_calibration (HlReader *r, xmlNodePtr node, HlPlan *plan)
 }
 
 static bool
+read_radiograph (HlReader *r, xmlNodePtr node, HlPlan *plan)
+{
+  HlRadiograph *rg = &plan->radiograph;
+  char stored[HL_IMAGE_PATH_MAX];
+  hl_radiograph_init (rg);
+  if (!get_text_attr (r, node, "path", stored, sizeof stored))
+    return false;
+  xmlChar *hex = xmlGetNoNsProp (node, (const xmlChar *) "sha256");
+  if (hex != NULL)
+    {
+      snprintf (rg->sha256, sizeof rg->sha256, "%s", (const char *) hex);
+      xmlFree (hex);
+    }
+  if (!get_number (r, node, "pixel-spacing-mm", false, &rg->pixel_spacing_mm)
+      || !get_number (r, node, "origin-x-mm", false, &rg->origin_mm.x)
+      || !get_number (r, node, "origin-y-mm", false, &rg->origin_mm.y)
+      || !get_number (r, node, "brightness", false, &rg->brightness)
+      || !get_number (r, node, "contrast", false, &rg->contrast)
+      || !get_bool (r, node, "invert", &rg->invert)
+      || !get_number (r, node, "opacity", false, &rg->opacity)
+      || !get_bool (r, node, "schematic-visible", &rg->schematic_visible))
+    return false;
+  HlError resolve;
+  hl_error_clear (&resolve);
+  if (hl_image_resolve_path (r->base_file, stored, rg->path, sizeof rg->path, &resolve)
+      != HL_OK)
+    {
+      reader_fail (r, HL_ERR_PARSE, node, "%s", resolve.message);
+      return false;
+    }
+  rg->present = true;
+  return true;
+}
+
+static bool
 read_aids (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *nodes)
 {
   for (xmlNodePtr c = node->children; c != NULL; c = c->next)
@@ -1762,6 +1916,8 @@ read_plan_element (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *node
         ok = read_landmarks (r, c, plan, nodes), have_landmarks = true, nodes->landmarks = c;
       else if (node_is (c, "calibration"))
         ok = read_calibration (r, c, plan), nodes->calibration = c;
+      else if (node_is (c, "radiograph"))
+        ok = read_radiograph (r, c, plan), nodes->radiograph = c;
       else if (node_is (c, "aids"))
         ok = read_aids (r, c, plan, nodes);
       else if (node_is (c, "tolerances"))
@@ -1832,6 +1988,7 @@ node_for_field (const HlPlanNodes *nodes, const HlPlan *plan, const char *field)
     { "operated", nodes->case_ },
     { "model", nodes->model },
     { "calibration", nodes->calibration },
+    { "radiograph", nodes->radiograph },
     { "cane", nodes->cane },
     { "load contralateral", nodes->hand_load[HL_HAND_CONTRALATERAL] },
     { "load ipsilateral", nodes->hand_load[HL_HAND_IPSILATERAL] },
@@ -2095,13 +2252,14 @@ load_document (HlReader *r, const char *data, size_t size, HlPlan **out)
   return HL_OK;
 }
 
-HlStatus
-hl_plan_load_buffer (const char *data, size_t size, const char *name_for_errors,
-                     HlPlan **out, HlError *err)
+static HlStatus
+load_buffer_for (const char *data, size_t size, const char *name_for_errors,
+                 const char *base_file, HlPlan **out, HlError *err)
 {
   HlReader r;
   memset (&r, 0, sizeof r);
   r.name = name_for_errors;
+  r.base_file = base_file;
   r.err = err;
   hl_error_clear (err);
 
@@ -2122,6 +2280,13 @@ hl_plan_load_buffer (const char *data, size_t size, const char *name_for_errors,
   xmlSetStructuredErrorFunc (old_context, old_handler);
   c_numeric_leave (&scope);
   return st;
+}
+
+HlStatus
+hl_plan_load_buffer (const char *data, size_t size, const char *name_for_errors,
+                     HlPlan **out, HlError *err)
+{
+  return load_buffer_for (data, size, name_for_errors, NULL, out, err);
 }
 
 HlStatus
@@ -2194,7 +2359,7 @@ hl_plan_load_file (const char *path, HlPlan **out, HlError *err)
   if (st == HL_OK && data == NULL)
     st = hl_error_set (err, HL_ERR_NOMEM, path, _("Out of memory while reading \"%s\""), path);
   if (st == HL_OK)
-    st = hl_plan_load_buffer (data, len, path, out, err);
+    st = load_buffer_for (data, len, path, path, out, err);
   free (data);
   return st;
 }

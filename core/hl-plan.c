@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "hl-i18n.h"
+#include "hl-image.h"
 #include "hl-plan.h"
 #include "hl-uncertainty.h"
 
@@ -510,6 +511,8 @@ hl_plan_check (const HlPlan *plan, HlError *err)
   if (plan->calibration.n_points < 0 || plan->calibration.n_points > 3)
     return hl_error_set (err, HL_ERR_INVALID, "calibration points",
                          _("A calibration has at most three points"));
+  if ((st = hl_radiograph_check (&plan->radiograph, err)))
+    return st;
 
   /* Aids and loads. */
   if (plan->cane.hand != HL_HAND_CONTRALATERAL && plan->cane.hand != HL_HAND_IPSILATERAL)

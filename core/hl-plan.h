@@ -18,6 +18,7 @@
 #pragma once
 
 #include <stdbool.h>
+#include "hl-image-ref.h"
 #include "hl-mc-settings.h"
 #include "hl-types.h"
 
@@ -257,6 +258,7 @@ typedef struct {
   char notes[1024];            /* free text for the case, no identifiers */
   HlMcSettings uncertainty;    /* Monte Carlo settings (hl-uncertainty.h);
                                 * its magnification comes from the calibration */
+  HlRadiograph radiograph;     /* the image under the plan (hl-image.h) */
 
   /* owned */
   HlOption *options;

@@ -24,6 +24,7 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
+#include "hl-image.h"
 #include "hl-plan-io.h"
 #include "hl-sha256.h"
 #include "hl-solve.h"
@@ -272,6 +273,20 @@ plans_equal (const HlPlan *a, const HlPlan *b, char *why, size_t size)
   SAME_D (uncertainty.magnification_sd);
   SAME_D (uncertainty.line_angle_sd_deg);
   SAME_S (notes);
+  SAME_I (radiograph.present);
+  if (a->radiograph.present)
+    {
+      SAME_S (radiograph.path);
+      SAME_S (radiograph.sha256);
+      SAME_D (radiograph.pixel_spacing_mm);
+      SAME_D (radiograph.origin_mm.x);
+      SAME_D (radiograph.origin_mm.y);
+      SAME_D (radiograph.brightness);
+      SAME_D (radiograph.contrast);
+      SAME_I (radiograph.invert);
+      SAME_D (radiograph.opacity);
+      SAME_I (radiograph.schematic_visible);
+    }
   SAME_I (n_options);
   for (size_t i = 0; i < a->n_options; i++)
     {
@@ -368,6 +383,9 @@ random_text (HlRand *r, char *out, size_t size, size_t max_len, bool line_breaks
       len += n;
     }
 }
+
+/* Where random plans put their radiographs; "" for none. */
+static char radiograph_root[HL_PATH_MAX];
 
 static void
 place (HlPlan *plan, HlLandmarkId id, double sign, double hx, double hy, double x_lat,
@@ -507,6 +525,36 @@ random_plan (HlRand *r)
       ck_assert_int_ge (hl_plan_add_option (plan, name, &rc), 0);
     }
   random_text (r, plan->notes, sizeof plan->notes, 600, true);
+
+  /* A radiograph reference under radiograph_root, which must be an
+   * absolute folder without symbolic links: a file round trip stores the
+   * path relative to the plan and reads it back absolute. */
+  static const char *const image_names[] = {
+    "images/case 1.png", "images/sub/r\xc3\xb6ntgen.tif", "pelvis.jpeg", "images/a&b<c>.png",
+  };
+  if (radiograph_root[0] != '\0' && rand_chance (r, 0.6))
+    {
+      HlRadiograph *rg = &plan->radiograph;
+      hl_radiograph_init (rg);
+      rg->present = true;
+      const char *name = image_names[rand_int (r, (int) (sizeof image_names
+                                                         / sizeof image_names[0]))];
+      ck_assert_uint_lt (strlen (radiograph_root) + strlen (name) + 1, sizeof rg->path);
+      memcpy (rg->path, radiograph_root, strlen (radiograph_root));
+      rg->path[strlen (radiograph_root)] = '/';
+      strcpy (rg->path + strlen (radiograph_root) + 1, name);
+      if (rand_chance (r, 0.7))
+        for (int i = 0; i < 64; i++)
+          rg->sha256[i] = "0123456789abcdef"[rand_int (r, 16)];
+      rg->pixel_spacing_mm = rand_uniform (r, HL_PIXEL_SPACING_MIN_MM, HL_PIXEL_SPACING_MAX_MM);
+      rg->origin_mm.x = rand_uniform (r, -400.0, 100.0);
+      rg->origin_mm.y = rand_uniform (r, -100.0, 400.0);
+      rg->brightness = rand_uniform (r, HL_IMAGE_BRIGHTNESS_MIN, HL_IMAGE_BRIGHTNESS_MAX);
+      rg->contrast = rand_uniform (r, HL_IMAGE_CONTRAST_MIN, HL_IMAGE_CONTRAST_MAX);
+      rg->invert = rand_chance (r, 0.5);
+      rg->opacity = rand_uniform (r, 0.0, 1.0);
+      rg->schematic_visible = rand_chance (r, 0.5);
+    }
   return plan;
 }
 
@@ -527,6 +575,13 @@ START_TEST (test_round_trip_random)
 {
   HlRand r = { HL_ROUND_TRIP_SEED };
   char *dir = make_temp_dir ();
+  ck_assert_ptr_nonnull (realpath (dir, radiograph_root));
+  int n_radiographs = 0;
+  char sub[HL_PATH_MAX + 16];
+  snprintf (sub, sizeof sub, "%s/images", radiograph_root);
+  ck_assert_int_eq (mkdir (sub, 0700), 0);
+  snprintf (sub, sizeof sub, "%s/images/sub", radiograph_root);
+  ck_assert_int_eq (mkdir (sub, 0700), 0);
   char **paths = calloc (2 * HL_ROUND_TRIP_PLANS, sizeof *paths);
   ck_assert_ptr_nonnull (paths);
   int n_paths = 0;
@@ -567,6 +622,16 @@ START_TEST (test_round_trip_random)
                      path, err.message);
       ck_assert_msg (plans_equal (plan, from_file, why, sizeof why),
                      "plan %d differs after a file round trip: %s", i, why);
+      if (plan->radiograph.present)
+        {
+          /* On disk the path is relative to the plan's folder. */
+          char *saved = read_whole_file (path, NULL);
+          ck_assert_msg (strstr (saved, radiograph_root) == NULL,
+                         "plan %d: the saved radiograph path is not relative", i);
+          ck_assert_msg (strstr (saved, "<radiograph path=\"") != NULL, "plan %d", i);
+          free (saved);
+          n_radiographs++;
+        }
 
       snprintf (path, sizeof path, "%s/summary-%03d.xml", dir, i);
       ck_assert_msg (hl_summary_save_file (plan, path, &err) == HL_OK, "summary %s: %s",
@@ -596,6 +661,8 @@ START_TEST (test_round_trip_random)
 
   /* The random plans must exercise the flag output too. */
   ck_assert_msg (n_flagged > 0, "no random plan raised a flag");
+  ck_assert_msg (n_radiographs > 0, "no random plan held a radiograph");
+  radiograph_root[0] = '\0';
 
   xmllint_validate (paths, n_paths);
   for (int i = 0; i < n_paths; i++)

@@ -1,0 +1,52 @@
+/* hl-image-ref.h: the radiograph reference a plan holds (hl-image.h).
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Apart from hl-image.h so that hl-plan.h can hold one without including
+ * the functions that take a plan.
+ */
+#pragma once
+
+#include <stdbool.h>
+#include "hl-types.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+#define HL_IMAGE_PATH_MAX 1024   /* bytes, including the terminating NUL */
+
+/* Assumption: a typical digital radiograph detector pitch, 0.1 mm per
+ * pixel at the detector (from memory, not a published figure).  Type the
+ * value of the actual detector where it is known. */
+#define HL_PIXEL_SPACING_DEFAULT_MM 0.1
+#define HL_PIXEL_SPACING_MIN_MM 0.01
+#define HL_PIXEL_SPACING_MAX_MM 2.0
+
+/* Display adjustments: brightness adds, contrast multiplies about mid-grey,
+ * invert swaps black and white, opacity blends over the background. */
+#define HL_IMAGE_BRIGHTNESS_MIN (-1.0)
+#define HL_IMAGE_BRIGHTNESS_MAX 1.0
+#define HL_IMAGE_CONTRAST_MIN 0.1
+#define HL_IMAGE_CONTRAST_MAX 5.0
+
+/* The radiograph of a plan. */
+typedef struct {
+  bool present;                    /* false: no image; the rest is unused */
+  char path[HL_IMAGE_PATH_MAX];    /* as stored: absolute after loading a plan
+                                    * file, relative to the plan's folder in
+                                    * the file itself */
+  char sha256[65];                 /* 64 lower-case hex digits, or "" */
+  double pixel_spacing_mm;         /* image mm per pixel */
+  HlVec2 origin_mm;                /* plan frame, top-left corner of the image */
+  double brightness;               /* -1..1, 0 = as is */
+  double contrast;                 /* 0.1..5, 1 = as is */
+  bool invert;
+  double opacity;                  /* 0..1 */
+  bool schematic_visible;          /* draw the schematic bones over it */
+} HlRadiograph;
+
+#ifdef __cplusplus
+}
+#endif

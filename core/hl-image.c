@@ -1,0 +1,403 @@
+/* hl-image.c: the radiograph reference, its placement and its file.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#include <errno.h>
+#include <fcntl.h>
+#include <limits.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include "hl-i18n.h"
+#include "hl-image.h"
+#include "hl-measure.h"
+#include "hl-sha256.h"
+
+#define HL_SHA256_HEX_DIGITS 64
+#define HL_READ_CHUNK 65536
+
+void
+hl_radiograph_init (HlRadiograph *rg)
+{
+  memset (rg, 0, sizeof *rg);
+  rg->pixel_spacing_mm = HL_PIXEL_SPACING_DEFAULT_MM;
+  rg->contrast = 1.0;
+  rg->opacity = 1.0;
+  rg->schematic_visible = true;
+}
+
+static HlStatus
+check_in (double v, double lo, double hi, const char *field, const char *what,
+          HlError *err)
+{
+  if (!isfinite (v) || v < lo || v > hi)
+    return hl_error_set (err, HL_ERR_INVALID, field,
+                         _("%s is %g: it must lie between %g and %g"), what, v, lo, hi);
+  return HL_OK;
+}
+
+HlStatus
+hl_radiograph_check (const HlRadiograph *rg, HlError *err)
+{
+  HlStatus st;
+
+  if (!rg->present)
+    return HL_OK;
+  size_t len = strnlen (rg->path, sizeof rg->path);
+  if (len == 0 || len == sizeof rg->path)
+    return hl_error_set (err, HL_ERR_INVALID, "radiograph path",
+                         _("The radiograph has no file name, or one longer than %d bytes"),
+                         HL_IMAGE_PATH_MAX - 1);
+  for (size_t i = 0; i < len; i++)
+    if ((unsigned char) rg->path[i] < 0x20)
+      return hl_error_set (err, HL_ERR_INVALID, "radiograph path",
+                           _("The radiograph's file name holds a control character"));
+  size_t hex_len = strnlen (rg->sha256, sizeof rg->sha256);
+  if (hex_len != 0 && hex_len != HL_SHA256_HEX_DIGITS)
+    return hl_error_set (err, HL_ERR_INVALID, "radiograph sha256",
+                         _("The radiograph digest must be 64 hexadecimal digits"));
+  for (size_t i = 0; i < hex_len; i++)
+    if (!strchr ("0123456789abcdef", rg->sha256[i]))
+      return hl_error_set (err, HL_ERR_INVALID, "radiograph sha256",
+                           _("The radiograph digest must be 64 lower-case hexadecimal digits"));
+  if ((st = check_in (rg->pixel_spacing_mm, HL_PIXEL_SPACING_MIN_MM, HL_PIXEL_SPACING_MAX_MM,
+                      "radiograph pixel-spacing", _("The pixel spacing (mm)"), err))
+      || (st = check_in (rg->origin_mm.x, -HL_COORD_MAX_MM, HL_COORD_MAX_MM,
+                         "radiograph origin", _("The image origin x (mm)"), err))
+      || (st = check_in (rg->origin_mm.y, -HL_COORD_MAX_MM, HL_COORD_MAX_MM,
+                         "radiograph origin", _("The image origin y (mm)"), err))
+      || (st = check_in (rg->brightness, HL_IMAGE_BRIGHTNESS_MIN, HL_IMAGE_BRIGHTNESS_MAX,
+                         "radiograph brightness", _("The brightness"), err))
+      || (st = check_in (rg->contrast, HL_IMAGE_CONTRAST_MIN, HL_IMAGE_CONTRAST_MAX,
+                         "radiograph contrast", _("The contrast"), err))
+      || (st = check_in (rg->opacity, 0.0, 1.0, "radiograph opacity",
+                         _("The opacity"), err)))
+    return st;
+  return HL_OK;
+}
+
+/* ---- Frames ------------------------------------------------------------- */
+
+HlVec2
+hl_image_pixel_to_image_mm (const HlRadiograph *rg, double u, double v)
+{
+  return (HlVec2) { u * rg->pixel_spacing_mm, -v * rg->pixel_spacing_mm };
+}
+
+HlVec2
+hl_image_mm_to_plan (const HlRadiograph *rg, double m, HlVec2 image_mm)
+{
+  return (HlVec2) { rg->origin_mm.x + image_mm.x / m, rg->origin_mm.y + image_mm.y / m };
+}
+
+HlVec2
+hl_image_plan_to_image_mm (const HlRadiograph *rg, double m, HlVec2 plan)
+{
+  return (HlVec2) { (plan.x - rg->origin_mm.x) * m, (plan.y - rg->origin_mm.y) * m };
+}
+
+double
+hl_image_plan_mm_per_pixel (const HlRadiograph *rg, double m)
+{
+  return rg->pixel_spacing_mm / m;
+}
+
+double
+hl_image_display_magnification (const HlPlan *plan, bool *assumed)
+{
+  double m;
+  bool is_assumed;
+  if (hl_calibration_magnification (&plan->calibration, &m, &is_assumed, NULL) != HL_OK)
+    {
+      m = HL_MAGNIFICATION_ASSUMED;
+      is_assumed = true;
+    }
+  if (assumed != NULL)
+    *assumed = is_assumed;
+  return m;
+}
+
+HlStatus
+hl_image_placement (const HlPlan *plan, HlImagePlacement *out, HlError *err)
+{
+  if (!plan->radiograph.present)
+    return hl_error_set (err, HL_ERR_INVALID, "radiograph",
+                         _("The plan has no radiograph"));
+  double m;
+  bool assumed;
+  HlStatus st = hl_calibration_magnification (&plan->calibration, &m, &assumed, err);
+  if (st != HL_OK)
+    return st;
+  out->origin_mm = plan->radiograph.origin_mm;
+  out->mm_per_pixel = hl_image_plan_mm_per_pixel (&plan->radiograph, m);
+  out->magnification = m;
+  out->assumed = assumed;
+  return HL_OK;
+}
+
+static void
+rescale_landmarks (HlPlan *plan, double factor)
+{
+  HlVec2 o = plan->radiograph.origin_mm;
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      HlVec2 *p = &plan->landmarks.p[i];
+      p->x = o.x + (p->x - o.x) * factor;
+      p->y = o.y + (p->y - o.y) * factor;
+    }
+}
+
+HlStatus
+hl_image_apply_calibration (HlPlan *plan, const HlCalibration *cal, HlError *err)
+{
+  double m_new;
+  HlStatus st = hl_calibration_magnification (cal, &m_new, NULL, err);
+  if (st != HL_OK)
+    return st;
+  double m_old = hl_image_display_magnification (plan, NULL);
+  plan->calibration = *cal;
+  if (plan->radiograph.present)
+    rescale_landmarks (plan, m_old / m_new);
+  return HL_OK;
+}
+
+HlStatus
+hl_image_set_pixel_spacing (HlPlan *plan, double spacing_mm, HlError *err)
+{
+  HlStatus st = check_in (spacing_mm, HL_PIXEL_SPACING_MIN_MM, HL_PIXEL_SPACING_MAX_MM,
+                          "radiograph pixel-spacing", _("The pixel spacing (mm)"), err);
+  if (st != HL_OK)
+    return st;
+  double ratio = spacing_mm / plan->radiograph.pixel_spacing_mm;
+  double m_old = hl_image_display_magnification (plan, NULL);
+  for (int i = 0; i < 3; i++)
+    {
+      plan->calibration.points[i].x *= ratio;
+      plan->calibration.points[i].y *= ratio;
+    }
+  double m_new = hl_image_display_magnification (plan, NULL);
+  plan->radiograph.pixel_spacing_mm = spacing_mm;
+  if (plan->radiograph.present)
+    rescale_landmarks (plan, ratio * m_old / m_new);
+  return HL_OK;
+}
+
+void
+hl_image_attach (HlPlan *plan, const char *path, const char *sha256_hex,
+                 double spacing_mm, int width, int height)
+{
+  HlRadiograph *rg = &plan->radiograph;
+  hl_radiograph_init (rg);
+  rg->present = true;
+  snprintf (rg->path, sizeof rg->path, "%s", path);
+  snprintf (rg->sha256, sizeof rg->sha256, "%s", sha256_hex ? sha256_hex : "");
+  rg->pixel_spacing_mm = spacing_mm;
+
+  /* Centre the image on what is already drawn so both stay in view. */
+  double x0 = 0.0, x1 = 0.0, y0 = 0.0, y1 = 0.0;
+  bool any = false;
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    if (hl_landmarks_has (&plan->landmarks, (HlLandmarkId) i))
+      {
+        HlVec2 p = plan->landmarks.p[i];
+        x0 = any ? fmin (x0, p.x) : p.x;
+        x1 = any ? fmax (x1, p.x) : p.x;
+        y0 = any ? fmin (y0, p.y) : p.y;
+        y1 = any ? fmax (y1, p.y) : p.y;
+        any = true;
+      }
+  double k = hl_image_plan_mm_per_pixel (rg, hl_image_display_magnification (plan, NULL));
+  rg->origin_mm.x = 0.5 * (x0 + x1) - 0.5 * width * k;
+  rg->origin_mm.y = 0.5 * (y0 + y1) + 0.5 * height * k;
+}
+
+/* ---- Files -------------------------------------------------------------- */
+
+const char *
+hl_image_check_text (HlImageCheck check)
+{
+  switch (check)
+    {
+    case HL_IMAGE_OK:
+      return _("the radiograph is in place");
+    case HL_IMAGE_MISSING:
+      return _("the radiograph has been moved or is missing");
+    case HL_IMAGE_CHANGED:
+      return _("the radiograph has changed since the plan was saved");
+    case HL_IMAGE_UNREADABLE:
+      return _("the radiograph cannot be read");
+    default:
+      return "";
+    }
+}
+
+HlStatus
+hl_file_sha256_hex (const char *path, char hex[65], HlError *err)
+{
+  int fd = open (path, O_RDONLY | O_CLOEXEC | O_NOCTTY | O_NONBLOCK);
+  if (fd < 0)
+    return hl_error_set (err, HL_ERR_IO, path, _("Cannot open \"%s\": %s"), path,
+                         strerror (errno));
+  struct stat sb;
+  if (fstat (fd, &sb) != 0 || !S_ISREG (sb.st_mode))
+    {
+      close (fd);
+      return hl_error_set (err, HL_ERR_IO, path, _("\"%s\" is not a regular file"), path);
+    }
+  unsigned char *buf = malloc (HL_READ_CHUNK);
+  if (buf == NULL)
+    {
+      close (fd);
+      return hl_error_set (err, HL_ERR_NOMEM, path, _("Out of memory while reading \"%s\""),
+                           path);
+    }
+  HlSha256 ctx;
+  hl_sha256_init (&ctx);
+  HlStatus st = HL_OK;
+  for (;;)
+    {
+      ssize_t n = read (fd, buf, HL_READ_CHUNK);
+      if (n < 0 && errno == EINTR)
+        continue;
+      if (n < 0)
+        {
+          st = hl_error_set (err, HL_ERR_IO, path, _("Cannot read \"%s\": %s"), path,
+                             strerror (errno));
+          break;
+        }
+      if (n == 0)
+        break;
+      hl_sha256_update (&ctx, buf, (size_t) n);
+    }
+  free (buf);
+  close (fd);
+  if (st != HL_OK)
+    return st;
+  uint8_t digest[HL_SHA256_SIZE];
+  hl_sha256_final (&ctx, digest);
+  for (int i = 0; i < HL_SHA256_SIZE; i++)
+    snprintf (hex + 2 * i, 3, "%02x", digest[i]);
+  return HL_OK;
+}
+
+HlImageCheck
+hl_image_verify (const HlRadiograph *rg, char *message, size_t message_size)
+{
+  HlImageCheck check = HL_IMAGE_OK;
+  struct stat sb;
+  char hex[65];
+
+  if (stat (rg->path, &sb) != 0)
+    check = (errno == ENOENT || errno == ENOTDIR) ? HL_IMAGE_MISSING : HL_IMAGE_UNREADABLE;
+  else if (!S_ISREG (sb.st_mode) || access (rg->path, R_OK) != 0)
+    check = HL_IMAGE_UNREADABLE;
+  else if (hl_file_sha256_hex (rg->path, hex, NULL) != HL_OK)
+    check = HL_IMAGE_UNREADABLE;
+  else if (rg->sha256[0] != '\0' && strcmp (hex, rg->sha256) != 0)
+    check = HL_IMAGE_CHANGED;
+
+  if (message != NULL && message_size > 0)
+    {
+      const char *text = hl_image_check_text (check);
+      /* Capitalised for a sentence on its own. */
+      snprintf (message, message_size, "%c%s: \"%s\"", text[0] - ('a' - 'A'), text + 1,
+                rg->path);
+    }
+  return check;
+}
+
+/* The folder of `file` made absolute and free of "." and "..", in out. */
+static bool
+folder_of (const char *file, char *out, size_t size)
+{
+  const char *slash = strrchr (file, '/');
+  char dir[PATH_MAX];
+  if (slash == NULL)
+    snprintf (dir, sizeof dir, ".");
+  else if (slash == file)
+    snprintf (dir, sizeof dir, "/");
+  else
+    snprintf (dir, sizeof dir, "%.*s", (int) (slash - file), file);
+  char real[PATH_MAX];
+  if (realpath (dir, real) == NULL)
+    return false;
+  return (size_t) snprintf (out, size, "%s", real) < size;
+}
+
+HlStatus
+hl_image_resolve_path (const char *base_file, const char *path, char *out,
+                       size_t size, HlError *err)
+{
+  int n;
+  char dir[PATH_MAX];
+  if (path[0] == '/' || base_file == NULL)
+    n = snprintf (out, size, "%s", path);
+  else if (folder_of (base_file, dir, sizeof dir))
+    n = snprintf (out, size, "%s/%s", strcmp (dir, "/") == 0 ? "" : dir, path);
+  else
+    n = snprintf (out, size, "%s", path);
+  if (n < 0 || (size_t) n >= size)
+    return hl_error_set (err, HL_ERR_INVALID, "radiograph path",
+                         _("The radiograph's path is longer than %zu bytes"), size - 1);
+  return HL_OK;
+}
+
+HlStatus
+hl_image_relative_path (const char *base_file, const char *path, char *out,
+                        size_t size, HlError *err)
+{
+  char dir[PATH_MAX], target[PATH_MAX];
+  const char *slash = strrchr (path, '/');
+  char tdir[PATH_MAX];
+  int n;
+
+  if (slash == NULL)
+    snprintf (tdir, sizeof tdir, ".");
+  else
+    snprintf (tdir, sizeof tdir, "%.*s", slash == path ? 1 : (int) (slash - path), path);
+  if (base_file == NULL || !folder_of (base_file, dir, sizeof dir)
+      || realpath (tdir, target) == NULL)
+    {
+      n = snprintf (out, size, "%s", path);
+      goto done;
+    }
+
+  /* Common leading folders, then one ".." for each folder of the plan's
+   * left over. */
+  size_t common = 0, i = 0;
+  while (dir[i] != '\0' && dir[i] == target[i])
+    {
+      i++;
+      if ((dir[i] == '/' || dir[i] == '\0') && (target[i] == '/' || target[i] == '\0'))
+        common = i;
+    }
+  bool at_root = strcmp (dir, "/") == 0;
+  if (at_root)
+    common = 0;
+  char rel[PATH_MAX] = "";
+  size_t len = 0;
+  for (const char *p = dir + common; !at_root && *p != '\0' && len + 4 < sizeof rel; p++)
+    if (*p == '/')
+      len += (size_t) snprintf (rel + len, sizeof rel - len, "../");
+  const char *rest = target + common;
+  while (*rest == '/')
+    rest++;
+  if (*rest != '\0' && len < sizeof rel)
+    len += (size_t) snprintf (rel + len, sizeof rel - len, "%s/", rest);
+  n = snprintf (out, size, "%s%s", rel, slash ? slash + 1 : path);
+  if (len >= sizeof rel)
+    n = -1;
+
+done:
+  if (n < 0 || (size_t) n >= size)
+    return hl_error_set (err, HL_ERR_INVALID, "radiograph path",
+                         _("The radiograph's path is longer than %zu bytes"), size - 1);
+  return HL_OK;
+}
