@@ -26,33 +26,8 @@
 
 /* ---- Options and subcommands ------------------------------------------ */
 
-typedef struct {
-  const char *long_name;
-  char short_name;         /* 0 when there is none */
-  const char *arg_name;    /* NULL for a switch without a value */
-  const char *help;        /* N_() */
-} HlCliOption;
-
-#define HL_CLI_MAX_OPTIONS 8
-
-typedef struct {
-  const char *value[HL_CLI_MAX_OPTIONS];  /* NULL: not given; "" for a switch */
-  char **operands;
-  int n_operands;
-  bool help;
-} HlCliArgs;
-
-typedef struct HlCliCommand HlCliCommand;
-
-struct HlCliCommand {
-  const char *name;
-  const char *synopsis;        /* operands and options, for the help */
-  const char *summary;         /* N_() */
-  const HlCliOption *options;  /* ends with a row whose long_name is NULL */
-  int min_operands;
-  int max_operands;            /* -1: any number */
-  int (*run) (const HlCliCommand *cmd, const HlCliArgs *args);
-};
+/* HlCliOption, HlCliArgs and HlCliCommand are in hl-cli.h, shared with the
+ * analysis subcommands (hl-cli-analysis.c). */
 
 enum { SOLVE_OPT_FORMAT };
 enum { SUMMARY_OPT_OUTPUT };
@@ -114,6 +89,29 @@ static const HlCliCommand commands[] = {
     N_("Time the core: one solve, random what-if solves, loading plan files, "
        "a sweep and a Monte Carlo run; each figure with its target."),
     bench_options, 0, 0, cmd_bench },
+  { "inverse", "PLAN [--target-jrf BW] [--format text|csv]",
+    N_("Answer the inverse questions for the native hip and every option, "
+       "in words: the femoral offset that restores the native moment arm or "
+       "global offset, the cane force and the carried loads for a joint-load "
+       "target, the lean that brings demand within capacity."),
+    hl_cli_inverse_options, 1, 1, hl_cli_inverse },
+  { "sweep", "PLAN --param NAME --from A --to B --steps N [--csv]",
+    N_("Solve the native hip and every option over N evenly spaced values "
+       "of one parameter (both ends included)."),
+    hl_cli_sweep_options, 1, 1, hl_cli_sweep },
+  { "uncertainty", "PLAN [--samples N] [--seed S] [--csv]",
+    N_("Monte Carlo ranges (5th, 50th and 95th percentiles) of abductor "
+       "force and joint load, and the share of samples in which each option "
+       "lowers the joint load against native."),
+    hl_cli_uncertainty_options, 1, 1, hl_cli_uncertainty },
+  { "report", "PLAN -o OUT.pdf",
+    N_("Write the A4 PDF report (one or two pages): case, inputs, results, "
+       "ranges, schematic, charts, assumptions, sources and the caution."),
+    hl_cli_report_options, 1, 1, hl_cli_report },
+  { "figure", "PLAN -o OUT.svg|OUT.png [--size WxH] [--option N]",
+    N_("Draw the schematic with the force vectors; the format follows the "
+       "file name."),
+    hl_cli_figure_options, 1, 1, hl_cli_figure },
 };
 
 #define N_COMMANDS (sizeof commands / sizeof commands[0])

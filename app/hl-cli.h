@@ -72,5 +72,48 @@ int hl_cli_usage_error (const char *fmt, ...)
 /* Number of characters (UTF-8 code points) in s, for aligning tables. */
 size_t hl_cli_text_width (const char *s);
 
+/* ---- Subcommands ------------------------------------------------------- */
+
+typedef struct {
+  const char *long_name;
+  char short_name;         /* 0 when there is none */
+  const char *arg_name;    /* NULL for a switch without a value */
+  const char *help;        /* N_() */
+} HlCliOption;
+
+#define HL_CLI_MAX_OPTIONS 8
+
+typedef struct {
+  const char *value[HL_CLI_MAX_OPTIONS];  /* NULL: not given; "" for a switch */
+  char **operands;
+  int n_operands;
+  bool help;
+} HlCliArgs;
+
+typedef struct HlCliCommand HlCliCommand;
+
+struct HlCliCommand {
+  const char *name;
+  const char *synopsis;        /* operands and options, for the help */
+  const char *summary;         /* N_() */
+  const HlCliOption *options;  /* ends with a row whose long_name is NULL */
+  int min_operands;
+  int max_operands;            /* -1: any number */
+  int (*run) (const HlCliCommand *cmd, const HlCliArgs *args);
+};
+
+/* The analysis subcommands (hl-cli-analysis.c): their option tables and
+ * run functions, for rows of the table in hiplever-cli.c. */
+extern const HlCliOption hl_cli_inverse_options[];
+extern const HlCliOption hl_cli_sweep_options[];
+extern const HlCliOption hl_cli_uncertainty_options[];
+extern const HlCliOption hl_cli_report_options[];
+extern const HlCliOption hl_cli_figure_options[];
+int hl_cli_inverse (const HlCliCommand *cmd, const HlCliArgs *args);
+int hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args);
+int hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args);
+int hl_cli_report (const HlCliCommand *cmd, const HlCliArgs *args);
+int hl_cli_figure (const HlCliCommand *cmd, const HlCliArgs *args);
+
 /* The bench subcommand (hl-cli-bench.c). */
 int hl_cli_bench (bool quick);

@@ -1,0 +1,711 @@
+/* hl-cli-analysis.c: inverse, sweep, uncertainty, report and figure.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Rows of the subcommand table in hiplever-cli.c.  Usage errors (an
+ * unknown name, a value that is not a number, a missing option) exit with
+ * HL_CLI_EXIT_USAGE; values that parse but are out of range, plans that
+ * cannot be solved and outputs that cannot be written exit with
+ * HL_CLI_EXIT_INVALID.  Files are written atomically and only when all
+ * went well, so a failure never leaves a partial file.
+ */
+#include "config.h"
+
+#include <errno.h>
+#include <inttypes.h>
+#include <locale.h>
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "hl-analysis.h"
+#include "hl-chart.h"
+#include "hl-i18n.h"
+#include "hl-plan.h"
+#include "hl-plan-io.h"
+#include "hl-render.h"
+#include "hl-report.h"
+#include "hl-solve.h"
+#include "hl-version.h"
+#include "hl-cli.h"
+
+/* The figure's size when --size is not given, px (SVG: pt). */
+#define HL_CLI_FIGURE_WIDTH_DEFAULT 1200
+#define HL_CLI_FIGURE_HEIGHT_DEFAULT 900
+/* Decimals of the inverse answers in CSV: the root finder's tolerance is
+ * 1e-6 in the unknown. */
+#define HL_CLI_INVERSE_CSV_PRECISION 6
+#define HL_CLI_PERCENT 100.0
+
+/* ---- Option tables ------------------------------------------------------ */
+
+enum { INVERSE_OPT_TARGET, INVERSE_OPT_FORMAT };
+enum { SWEEP_OPT_PARAM, SWEEP_OPT_FROM, SWEEP_OPT_TO, SWEEP_OPT_STEPS, SWEEP_OPT_CSV };
+enum { MC_OPT_SAMPLES, MC_OPT_SEED, MC_OPT_CSV };
+enum { REPORT_OPT_OUTPUT };
+enum { FIGURE_OPT_OUTPUT, FIGURE_OPT_SIZE, FIGURE_OPT_OPTION };
+
+const HlCliOption hl_cli_inverse_options[] = {
+  { "target-jrf", 0, N_("BW"),
+    N_("the joint-load target of the cane and load questions, in multiples of "
+       "body weight (default 2.0: our default, a round figure below the "
+       "2.1-2.8 BW measured in static single-leg stance by Kotzar et al. 1991)") },
+  { "format", 0, N_("FORMAT"),
+    N_("text (the default: one sentence per answer) or csv (columns option,"
+       "question,site,status,value,unit,goal,achieved,lower,upper,at_limit,"
+       "range_limited,answer)") },
+  { NULL },
+};
+
+const HlCliOption hl_cli_sweep_options[] = {
+  { "param", 0, N_("NAME"),
+    N_("the parameter (required): cup_medial_mm, cup_superior_mm, "
+       "femoral_offset_mm, femoral_length_mm, head_length_mm, "
+       "neck_shaft_angle_deg, cane_force_n, cane_percent_bw, load_contra_kg, "
+       "load_ipsi_kg, load_midline_kg, lean_mm, mass_kg, abductor_angle_deg") },
+  { "from", 0, N_("A"), N_("the first value, in the parameter's unit (required)") },
+  { "to", 0, N_("B"), N_("the last value (required)") },
+  { "steps", 0, N_("N"), N_("the number of values, 2 or more (required)") },
+  { "csv", 0, NULL,
+    N_("CSV instead of the text table; header param,value,option,"
+       "abductor_arm_mm,bw_arm_mm,lever_ratio,abductor_force_N,"
+       "abductor_force_BW,jrf_N,jrf_BW,jrf_angle_deg,global_offset_change_mm,"
+       "leg_length_change_mm,abductor_length_change_mm,flags (the columns of "
+       "solve's CSV), then for each value native and every option") },
+  { NULL },
+};
+
+const HlCliOption hl_cli_uncertainty_options[] = {
+  { "samples", 0, N_("N"),
+    N_("the number of samples (default: the plan's, normally 4000)") },
+  { "seed", 0, N_("S"),
+    N_("the seed, a whole number (default: the plan's); the same seed gives "
+       "the same numbers") },
+  { "csv", 0, NULL,
+    N_("CSV: option,abductor_force_BW_p05,abductor_force_BW_p50,"
+       "abductor_force_BW_p95,jrf_BW_p05,jrf_BW_p50,jrf_BW_p95,jrf_N_p05,"
+       "jrf_N_p50,jrf_N_p95,share_lower_jrf_than_native") },
+  { NULL },
+};
+
+const HlCliOption hl_cli_report_options[] = {
+  { "output", 'o', N_("OUT.pdf"),
+    N_("where to write the report (required; written atomically)") },
+  { NULL },
+};
+
+const HlCliOption hl_cli_figure_options[] = {
+  { "output", 'o', N_("OUT.svg|OUT.png"),
+    N_("where to write the figure (required); the format follows the "
+       "extension") },
+  { "size", 0, N_("WxH"),
+    N_("width and height in px (SVG: pt), 64 to 8192 each (default 1200x900)") },
+  { "option", 0, N_("N"),
+    N_("the option drawn over the native hip: 1 for the first, 0 for the "
+       "native hip alone (default: 1 when the plan has options, else 0)") },
+  { NULL },
+};
+
+/* ---- Shared helpers ------------------------------------------------------ */
+
+/* A number in the C locale, the whole text. */
+static bool
+parse_double (const char *text, double *out)
+{
+  locale_t c = newlocale (LC_NUMERIC_MASK, "C", (locale_t) 0);
+  if (c == (locale_t) 0)
+    return false;
+  locale_t old = uselocale (c);
+  char *end = NULL;
+  errno = 0;
+  double v = strtod (text, &end);
+  bool ok = end != text && *end == '\0' && errno == 0;
+  uselocale (old);
+  freelocale (c);
+  if (ok)
+    *out = v;
+  return ok;
+}
+
+static bool
+parse_u64 (const char *text, uint64_t *out)
+{
+  char *end = NULL;
+  if (text[0] < '0' || text[0] > '9')
+    return false;
+  errno = 0;
+  unsigned long long v = strtoull (text, &end, 10);
+  if (end == text || *end != '\0' || errno != 0)
+    return false;
+  *out = (uint64_t) v;
+  return true;
+}
+
+static HlPlan *
+load_plan (const char *path)
+{
+  HlPlan *plan = NULL;
+  HlError err;
+
+  hl_error_clear (&err);
+  if (hl_plan_load_file (path, &plan, &err) != HL_OK)
+    {
+      hl_cli_report_error (path, NULL, &err);
+      return NULL;
+    }
+  return plan;
+}
+
+static bool
+prepare (const char *path, const HlPlan *plan, HlModel *model)
+{
+  HlError err;
+
+  hl_error_clear (&err);
+  if (hl_model_prepare (model, plan, &err) != HL_OK)
+    {
+      hl_cli_report_error (path, NULL, &err);
+      return false;
+    }
+  return true;
+}
+
+static const char *
+case_name (const HlPlan *plan, size_t row)
+{
+  return row == 0 ? "native" : plan->options[row - 1].name;
+}
+
+static int
+write_stdout (const char *path, const HlCliBuf *buf)
+{
+  if (buf->failed)
+    {
+      hl_cli_error (_("%s: out of memory"), path);
+      return HL_CLI_EXIT_INVALID;
+    }
+  fwrite (buf->data, 1, buf->len, stdout);
+  return HL_CLI_EXIT_OK;
+}
+
+static void
+buf_number (HlCliBuf *buf, int precision, double v)
+{
+  char num[HL_CLI_NUMBER_MAX];
+  if (isfinite (v))
+    hl_cli_buf_printf (buf, ",%s", hl_cli_format_fixed (num, sizeof num, precision, v));
+  else
+    hl_cli_buf_printf (buf, ",nan");
+}
+
+/* ---- inverse -------------------------------------------------------------- */
+
+typedef struct {
+  HlInverseKind kind;
+  HlLoadSite site;
+  const char *key;
+  bool options_only;
+} HlCliQuestion;
+
+static const HlCliQuestion questions[] = {
+  { HL_INVERSE_OFFSET_FOR_ARM, HL_LOAD_SITE_N, "offset-for-arm", true },
+  { HL_INVERSE_OFFSET_FOR_GLOBAL, HL_LOAD_SITE_N, "offset-for-global", true },
+  { HL_INVERSE_CANE_FOR_JRF, HL_LOAD_SITE_N, "cane-for-jrf", false },
+  { HL_INVERSE_LOAD_FOR_JRF, HL_LOAD_SITE_CONTRALATERAL, "load-for-jrf", false },
+  { HL_INVERSE_LOAD_FOR_JRF, HL_LOAD_SITE_IPSILATERAL, "load-for-jrf", false },
+  { HL_INVERSE_LOAD_FOR_JRF, HL_LOAD_SITE_MIDLINE, "load-for-jrf", false },
+  { HL_INVERSE_LEAN_FOR_CAPACITY, HL_LOAD_SITE_N, "lean-for-capacity", false },
+};
+
+static const char *const site_keys[] = { "contralateral", "ipsilateral", "midline" };
+
+static HlStatus
+ask (const HlCliQuestion *q, const HlModel *model, const HlPlan *plan,
+     const HlRecon *recon, double target, HlInverseAnswer *a, HlError *err)
+{
+  switch (q->kind)
+    {
+    case HL_INVERSE_OFFSET_FOR_ARM:
+      return hl_inverse_offset_for_arm (model, recon, NULL, a, err);
+    case HL_INVERSE_OFFSET_FOR_GLOBAL:
+      return hl_inverse_offset_for_global (model, recon, NULL, a, err);
+    case HL_INVERSE_CANE_FOR_JRF:
+      return hl_inverse_cane_for_jrf (model, recon, target, plan->cane.distance_mm, NULL,
+                                      a, err);
+    case HL_INVERSE_LOAD_FOR_JRF:
+      return hl_inverse_load_for_jrf (model, recon, q->site, target, NULL, a, err);
+    case HL_INVERSE_LEAN_FOR_CAPACITY:
+    case HL_INVERSE_N:
+    default:
+      break;
+    }
+  return hl_inverse_lean_for_capacity (model, recon, NULL, a, err);
+}
+
+static const char *
+answer_status_key (HlStatus st)
+{
+  return st == HL_OK ? "ok" : st == HL_ERR_NOT_REACHABLE ? "not-reachable" : "not-converged";
+}
+
+int
+hl_cli_inverse (const HlCliCommand *cmd, const HlCliArgs *args)
+{
+  const char *path = args->operands[0];
+  const char *format = args->value[INVERSE_OPT_FORMAT];
+  double target = HL_REPORT_TARGET_JRF_BW_DEFAULT;
+  bool csv;
+
+  if (format == NULL || strcmp (format, "text") == 0)
+    csv = false;
+  else if (strcmp (format, "csv") == 0)
+    csv = true;
+  else
+    return hl_cli_usage_error (_("%s: unknown format '%s' (use text or csv)"), cmd->name,
+                               format);
+  if (args->value[INVERSE_OPT_TARGET] != NULL
+      && !parse_double (args->value[INVERSE_OPT_TARGET], &target))
+    return hl_cli_usage_error (_("%s: --target-jrf '%s' is not a number"), cmd->name,
+                               args->value[INVERSE_OPT_TARGET]);
+  if (!(target >= HL_REPORT_TARGET_JRF_BW_MIN && target <= HL_REPORT_TARGET_JRF_BW_MAX))
+    {
+      hl_cli_error (_("%s: --target-jrf: %g x body weight is outside %g to %g"), cmd->name,
+                    target, HL_REPORT_TARGET_JRF_BW_MIN, HL_REPORT_TARGET_JRF_BW_MAX);
+      return HL_CLI_EXIT_INVALID;
+    }
+
+  HlPlan *plan = load_plan (path);
+  HlModel model;
+  if (plan == NULL || !prepare (path, plan, &model))
+    {
+      hl_plan_free (plan);
+      return HL_CLI_EXIT_INVALID;
+    }
+
+  HlCliBuf buf;
+  hl_cli_buf_init (&buf);
+  int status = HL_CLI_EXIT_OK;
+  if (csv)
+    hl_cli_buf_printf (&buf, "option,question,site,status,value,unit,goal,achieved,lower,"
+                             "upper,at_limit,range_limited,answer\n");
+  else
+    {
+      hl_cli_buf_printf (&buf, _("Plan: %s\nCase: %s\n"), path, plan->label);
+      hl_cli_buf_printf (&buf, _("Joint-load target: %.2f x body weight%s\n"), target,
+                         args->value[INVERSE_OPT_TARGET] == NULL
+                         ? _(" (our default; --target-jrf to change)") : "");
+    }
+
+  for (size_t row = 0; row <= plan->n_options && status == HL_CLI_EXIT_OK; row++)
+    {
+      const HlRecon *recon = row == 0 ? NULL : &plan->options[row - 1].recon;
+      if (!csv)
+        hl_cli_buf_printf (&buf, row == 0 ? "\n%s:\n" : _("\noption \"%s\":\n"),
+                           row == 0 ? _("native") : plan->options[row - 1].name);
+      for (size_t i = 0; i < sizeof questions / sizeof questions[0]; i++)
+        {
+          const HlCliQuestion *q = &questions[i];
+          HlInverseAnswer a;
+          HlError err;
+          char text[512];
+
+          if (q->options_only && recon == NULL)
+            continue;
+          hl_error_clear (&err);
+          HlStatus st = ask (q, &model, plan, recon, target, &a, &err);
+          if (st != HL_OK && st != HL_ERR_NOT_REACHABLE && st != HL_ERR_NOT_CONVERGED)
+            {
+              char context[HL_NAME_MAX + 32];
+              snprintf (context, sizeof context, row == 0 ? "%s" : _("option \"%s\""),
+                        row == 0 ? _("native") : plan->options[row - 1].name);
+              hl_cli_report_error (path, context, &err);
+              status = HL_CLI_EXIT_INVALID;
+              break;
+            }
+          hl_inverse_answer_format (&a, text, sizeof text);
+          if (!csv)
+            {
+              hl_cli_buf_printf (&buf, "  %s\n", text);
+              continue;
+            }
+          hl_cli_buf_csv_field (&buf, case_name (plan, row));
+          hl_cli_buf_printf (&buf, ",%s,%s,%s", q->key,
+                             q->site < HL_LOAD_SITE_N ? site_keys[q->site] : "",
+                             answer_status_key (st));
+          buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, st == HL_OK ? a.value : NAN);
+          hl_cli_buf_printf (&buf, ",%s", a.unit != NULL ? a.unit : "");
+          buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.goal);
+          buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.achieved);
+          buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.lower);
+          buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.upper);
+          hl_cli_buf_printf (&buf, ",%s,%s,", a.at_limit ? "true" : "false",
+                             a.range_limited ? "true" : "false");
+          hl_cli_buf_csv_field (&buf, text);
+          hl_cli_buf_append (&buf, "\n", 1);
+        }
+    }
+  if (status == HL_CLI_EXIT_OK && !csv)
+    hl_cli_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+  if (status == HL_CLI_EXIT_OK)
+    status = write_stdout (path, &buf);
+  hl_cli_buf_clear (&buf);
+  hl_plan_free (plan);
+  return status;
+}
+
+/* ---- sweep ------------------------------------------------------------------ */
+
+int
+hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
+{
+  const char *path = args->operands[0];
+  const char *name = args->value[SWEEP_OPT_PARAM];
+  const char *names[] = { "--param NAME", "--from A", "--to B", "--steps N" };
+  HlSweepSpec spec;
+  double steps;
+
+  for (int i = SWEEP_OPT_PARAM; i <= SWEEP_OPT_STEPS; i++)
+    if (args->value[i] == NULL)
+      return hl_cli_usage_error (_("%s: missing %s"), cmd->name, names[i]);
+  spec.param = hl_sweep_param_from_key (name);
+  if (spec.param == HL_SWEEP_N)
+    return hl_cli_usage_error (_("%s: unknown parameter '%s' (see --help for the names)"),
+                               cmd->name, name);
+  if (!parse_double (args->value[SWEEP_OPT_FROM], &spec.from))
+    return hl_cli_usage_error (_("%s: --from '%s' is not a number"), cmd->name,
+                               args->value[SWEEP_OPT_FROM]);
+  if (!parse_double (args->value[SWEEP_OPT_TO], &spec.to))
+    return hl_cli_usage_error (_("%s: --to '%s' is not a number"), cmd->name,
+                               args->value[SWEEP_OPT_TO]);
+  if (!parse_double (args->value[SWEEP_OPT_STEPS], &steps) || steps != floor (steps))
+    return hl_cli_usage_error (_("%s: --steps '%s' is not a whole number"), cmd->name,
+                               args->value[SWEEP_OPT_STEPS]);
+  if (!(steps >= 2 && steps <= HL_SWEEP_STEPS_MAX))
+    {
+      hl_cli_error (_("%s: --steps %g: a sweep needs 2 to %d values"), cmd->name, steps,
+                    HL_SWEEP_STEPS_MAX);
+      return HL_CLI_EXIT_INVALID;
+    }
+  spec.n_steps = (size_t) steps;
+
+  HlPlan *plan = load_plan (path);
+  HlModel model;
+  if (plan == NULL || !prepare (path, plan, &model))
+    {
+      hl_plan_free (plan);
+      return HL_CLI_EXIT_INVALID;
+    }
+
+  size_t n = (1 + plan->n_options) * spec.n_steps;
+  double *values = calloc (spec.n_steps, sizeof *values);
+  HlResult *results = calloc (n, sizeof *results);
+  HlStatus *st = calloc (n, sizeof *st);
+  int status = HL_CLI_EXIT_OK;
+  HlError err;
+  hl_error_clear (&err);
+  if (values == NULL || results == NULL || st == NULL)
+    {
+      hl_cli_error (_("%s: out of memory"), path);
+      status = HL_CLI_EXIT_INVALID;
+    }
+  else if (hl_sweep_run (plan, &model, &spec, values, results, st, n, &err) != HL_OK)
+    {
+      hl_cli_report_error (path, NULL, &err);
+      status = HL_CLI_EXIT_INVALID;
+    }
+
+  if (status == HL_CLI_EXIT_OK && args->value[SWEEP_OPT_CSV] != NULL)
+    {
+      char *csv = NULL;
+      size_t size = 0;
+      hl_error_clear (&err);
+      if (hl_sweep_to_csv (plan, &spec, values, results, st, &csv, &size, &err) != HL_OK)
+        {
+          hl_cli_report_error (path, NULL, &err);
+          status = HL_CLI_EXIT_INVALID;
+        }
+      else
+        fwrite (csv, 1, size, stdout);
+      free (csv);
+    }
+  else if (status == HL_CLI_EXIT_OK)
+    {
+      const HlSweepParamInfo *info = hl_sweep_param_info (spec.param);
+      HlCliBuf buf;
+      size_t name_w = strlen ("native");
+      char head[96];
+
+      for (size_t i = 0; i < plan->n_options; i++)
+        if (hl_cli_text_width (plan->options[i].name) > name_w)
+          name_w = hl_cli_text_width (plan->options[i].name);
+      hl_cli_buf_init (&buf);
+      hl_cli_buf_printf (&buf, _("Plan: %s\nSweep of %s (%s) from %g to %g in %zu values; "
+                                 "--csv gives every column.\n\n"),
+                         path, _(info->label), info->unit, spec.from, spec.to, spec.n_steps);
+      snprintf (head, sizeof head, "%s (%s)", info->key, info->unit);
+      hl_cli_buf_printf (&buf, "%14s  %-*s  %9s  %9s  %9s  %9s  %9s  %s\n", head,
+                         (int) name_w, _("case"), "arm_mm", "Fa_N", "Fa_BW", "J_N", "J_BW",
+                         _("flags"));
+      for (size_t step = 0; step < spec.n_steps; step++)
+        for (size_t row = 0; row <= plan->n_options; row++)
+          {
+            const HlResult *r = &results[row * spec.n_steps + step];
+            char flags[256];
+            size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
+            hl_cli_buf_printf (&buf, "%14.4f  %s%*s  %9.3f  %9.3f  %9.3f  %9.3f  %9.3f  %s\n",
+                               values[step], case_name (plan, row), (int) pad, "",
+                               r->abductor_arm_mm, r->abductor_force_n, r->abductor_force_bw,
+                               r->jrf_n, r->jrf_bw,
+                               hl_flags_format (r->flags, ";", flags, sizeof flags));
+          }
+      hl_cli_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+      status = write_stdout (path, &buf);
+      hl_cli_buf_clear (&buf);
+    }
+
+  free (values);
+  free (results);
+  free (st);
+  hl_plan_free (plan);
+  return status;
+}
+
+/* ---- uncertainty ------------------------------------------------------------ */
+
+int
+hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
+{
+  const char *path = args->operands[0];
+  const char *samples_text = args->value[MC_OPT_SAMPLES];
+  const char *seed_text = args->value[MC_OPT_SEED];
+  bool csv = args->value[MC_OPT_CSV] != NULL;
+  uint64_t seed = 0, samples = 0;
+
+  if (samples_text != NULL && !parse_u64 (samples_text, &samples))
+    return hl_cli_usage_error (_("%s: --samples '%s' is not a whole number"), cmd->name,
+                               samples_text);
+  if (seed_text != NULL && !parse_u64 (seed_text, &seed))
+    return hl_cli_usage_error (_("%s: --seed '%s' is not a whole number from 0 to "
+                                 "18446744073709551615"), cmd->name, seed_text);
+  if (samples_text != NULL && (samples < 1 || samples > HL_MC_SAMPLES_MAX))
+    {
+      hl_cli_error (_("%s: --samples %s: from 1 to %d samples"), cmd->name, samples_text,
+                    HL_MC_SAMPLES_MAX);
+      return HL_CLI_EXIT_INVALID;
+    }
+
+  HlPlan *plan = load_plan (path);
+  HlModel model;
+  if (plan == NULL || !prepare (path, plan, &model))
+    {
+      hl_plan_free (plan);
+      return HL_CLI_EXIT_INVALID;
+    }
+
+  HlMcSettings mc;
+  bool m_assumed;
+  hl_mc_settings_for_plan (plan, &mc, &m_assumed);
+  if (samples_text != NULL)
+    mc.n_samples = (size_t) samples;
+  if (seed_text != NULL)
+    mc.seed = seed;
+
+  HlMcSummary *summary = calloc (1 + plan->n_options, sizeof *summary);
+  HlMcWorkspace *ws = hl_mc_workspace_new (mc.n_samples,
+                                           plan->n_options > 0 ? plan->n_options : 1);
+  HlMcInfo info;
+  HlError err;
+  int status = HL_CLI_EXIT_OK;
+  hl_error_clear (&err);
+  if (summary == NULL || ws == NULL)
+    {
+      hl_cli_error (_("%s: out of memory for %zu samples"), path, mc.n_samples);
+      status = HL_CLI_EXIT_INVALID;
+    }
+  else if (hl_mc_run (ws, &model, plan->options, plan->n_options, &mc, summary, &info,
+                      &err) != HL_OK)
+    {
+      hl_cli_report_error (path, NULL, &err);
+      status = HL_CLI_EXIT_INVALID;
+    }
+  hl_mc_workspace_free (ws);
+
+  HlCliBuf buf;
+  hl_cli_buf_init (&buf);
+  if (status == HL_CLI_EXIT_OK && csv)
+    {
+      hl_cli_buf_printf (&buf, "option,abductor_force_BW_p05,abductor_force_BW_p50,"
+                               "abductor_force_BW_p95,jrf_BW_p05,jrf_BW_p50,jrf_BW_p95,"
+                               "jrf_N_p05,jrf_N_p50,jrf_N_p95,share_lower_jrf_than_native\n");
+      for (size_t row = 0; row <= plan->n_options; row++)
+        {
+          const HlMcSummary *s = &summary[row];
+          hl_cli_buf_csv_field (&buf, case_name (plan, row));
+          buf_number (&buf, 4, s->abductor_force_bw.p05);
+          buf_number (&buf, 4, s->abductor_force_bw.p50);
+          buf_number (&buf, 4, s->abductor_force_bw.p95);
+          buf_number (&buf, 4, s->jrf_bw.p05);
+          buf_number (&buf, 4, s->jrf_bw.p50);
+          buf_number (&buf, 4, s->jrf_bw.p95);
+          buf_number (&buf, 3, s->jrf_n.p05);
+          buf_number (&buf, 3, s->jrf_n.p50);
+          buf_number (&buf, 3, s->jrf_n.p95);
+          if (row == 0)
+            hl_cli_buf_printf (&buf, ",");
+          else
+            buf_number (&buf, 4, s->share_lower_jrf);
+          hl_cli_buf_append (&buf, "\n", 1);
+        }
+    }
+  else if (status == HL_CLI_EXIT_OK)
+    {
+      size_t name_w = strlen ("native");
+      for (size_t i = 0; i < plan->n_options; i++)
+        if (hl_cli_text_width (plan->options[i].name) > name_w)
+          name_w = hl_cli_text_width (plan->options[i].name);
+      hl_cli_buf_printf (&buf, _("Plan: %s\nCase: %s\n"), path, plan->label);
+      hl_cli_buf_printf (&buf, _("Seed %" PRIu64 "; %zu samples asked, %zu used, %zu "
+                                 "dropped (a row could not be solved)\n"),
+                         info.seed, mc.n_samples, info.n_used, info.n_dropped);
+      hl_cli_buf_printf (&buf, _("Errors (SD): landmark placement %g mm per coordinate, "
+                                 "magnification %g about M = %.3f%s, abductor line angle "
+                                 "%g deg\n"),
+                         mc.landmark_sd_mm, mc.magnification_sd, mc.magnification,
+                         m_assumed ? _(" (assumed)") : _(" (calibrated)"),
+                         mc.line_angle_sd_deg);
+      hl_cli_buf_printf (&buf, "%s\n\n",
+                         _("Percentiles 5th / 50th / 95th (Hyndman & Fan definition 7); "
+                           "native and options share each sample."));
+      hl_cli_buf_printf (&buf, "%-*s  %-24s  %-24s  %s\n", (int) name_w, _("case"),
+                         _("abductor force (xBW)"), _("joint force (xBW)"),
+                         _("lower joint force than native"));
+      for (size_t row = 0; row <= plan->n_options; row++)
+        {
+          const HlMcSummary *s = &summary[row];
+          char a[64], j[64];
+          snprintf (a, sizeof a, "%.3f / %.3f / %.3f", s->abductor_force_bw.p05,
+                    s->abductor_force_bw.p50, s->abductor_force_bw.p95);
+          snprintf (j, sizeof j, "%.3f / %.3f / %.3f", s->jrf_bw.p05, s->jrf_bw.p50,
+                    s->jrf_bw.p95);
+          size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
+          hl_cli_buf_printf (&buf, "%s%*s  %-24s  %-24s  ", case_name (plan, row),
+                             (int) pad, "", a, j);
+          if (row == 0)
+            hl_cli_buf_printf (&buf, "%s\n", _("(reference)"));
+          else
+            hl_cli_buf_printf (&buf, _("%.1f%% of samples\n"),
+                               HL_CLI_PERCENT * s->share_lower_jrf);
+        }
+      hl_cli_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+    }
+  if (status == HL_CLI_EXIT_OK)
+    status = write_stdout (path, &buf);
+  hl_cli_buf_clear (&buf);
+  free (summary);
+  hl_plan_free (plan);
+  return status;
+}
+
+/* ---- report ------------------------------------------------------------------ */
+
+int
+hl_cli_report (const HlCliCommand *cmd, const HlCliArgs *args)
+{
+  const char *path = args->operands[0];
+  const char *out = args->value[REPORT_OPT_OUTPUT];
+
+  if (out == NULL)
+    return hl_cli_usage_error (_("%s: missing -o OUT.pdf (where to write the report)"),
+                               cmd->name);
+
+  HlPlan *plan = load_plan (path);
+  if (plan == NULL)
+    return HL_CLI_EXIT_INVALID;
+
+  HlReportSettings settings;
+  HlError err;
+  hl_report_settings_init (&settings);
+  hl_error_clear (&err);
+  HlReport *report = hl_report_new (plan, &settings, &err);
+  hl_plan_free (plan);
+  if (report == NULL)
+    {
+      hl_cli_report_error (path, NULL, &err);
+      return HL_CLI_EXIT_INVALID;
+    }
+  unsigned char *pdf = NULL;
+  size_t size = 0;
+  HlStatus st = hl_report_pdf_to_buffer (report, &pdf, &size, &err);
+  hl_report_free (report);
+  if (st == HL_OK)
+    st = hl_write_file_atomic (out, pdf, size, &err);
+  free (pdf);
+  if (st != HL_OK)
+    {
+      hl_cli_report_error (st == HL_ERR_IO ? out : path, NULL, &err);
+      return HL_CLI_EXIT_INVALID;
+    }
+  return HL_CLI_EXIT_OK;
+}
+
+/* ---- figure ------------------------------------------------------------------ */
+
+int
+hl_cli_figure (const HlCliCommand *cmd, const HlCliArgs *args)
+{
+  const char *path = args->operands[0];
+  const char *out = args->value[FIGURE_OPT_OUTPUT];
+  const char *size_text = args->value[FIGURE_OPT_SIZE];
+  const char *option_text = args->value[FIGURE_OPT_OPTION];
+  int width = HL_CLI_FIGURE_WIDTH_DEFAULT, height = HL_CLI_FIGURE_HEIGHT_DEFAULT;
+  HlFigureFormat format;
+  uint64_t option = 0;
+
+  if (out == NULL)
+    return hl_cli_usage_error (_("%s: missing -o OUT.svg or -o OUT.png (where to write the "
+                                 "figure)"), cmd->name);
+  if (!hl_figure_format_from_path (out, &format))
+    return hl_cli_usage_error (_("%s: '%s' ends neither in .svg nor in .png"), cmd->name, out);
+  if (size_text != NULL)
+    {
+      char x = 0, tail = 0;
+      if (sscanf (size_text, "%d%c%d%c", &width, &x, &height, &tail) != 3 || x != 'x')
+        return hl_cli_usage_error (_("%s: --size '%s' is not WIDTHxHEIGHT (e.g. 1200x900)"),
+                                   cmd->name, size_text);
+      if (width < HL_FIGURE_SIZE_MIN || width > HL_FIGURE_SIZE_MAX
+          || height < HL_FIGURE_SIZE_MIN || height > HL_FIGURE_SIZE_MAX)
+        {
+          hl_cli_error (_("%s: --size %s: width and height must be %d to %d"), cmd->name,
+                        size_text, HL_FIGURE_SIZE_MIN, HL_FIGURE_SIZE_MAX);
+          return HL_CLI_EXIT_INVALID;
+        }
+    }
+  if (option_text != NULL && !parse_u64 (option_text, &option))
+    return hl_cli_usage_error (_("%s: --option '%s' is not a whole number"), cmd->name,
+                               option_text);
+
+  HlPlan *plan = load_plan (path);
+  if (plan == NULL)
+    return HL_CLI_EXIT_INVALID;
+  if (option_text == NULL)
+    option = plan->n_options > 0 ? 1 : 0;
+  if (option > plan->n_options)
+    {
+      hl_cli_error (_("%s: --option %s: the plan has %zu options (0 draws the native hip)"),
+                    path, option_text, plan->n_options);
+      hl_plan_free (plan);
+      return HL_CLI_EXIT_INVALID;
+    }
+
+  HlError err;
+  hl_error_clear (&err);
+  HlStatus st = hl_figure_save (plan, (int) option - 1, width, height, out, &err);
+  hl_plan_free (plan);
+  if (st != HL_OK)
+    {
+      hl_cli_report_error (st == HL_ERR_IO ? out : path, NULL, &err);
+      return HL_CLI_EXIT_INVALID;
+    }
+  return HL_CLI_EXIT_OK;
+}

@@ -1,0 +1,118 @@
+/* hl-report.h: the A4 PDF report, figures and sweep tables (cairo only).
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * The report is built in two steps, as the charts are: hl_report_new runs
+ * the core once (results, Monte Carlo ranges, inverse answers, chart
+ * sweeps) and keeps a copy of the plan; hl_report_draw_page then draws any
+ * page into any cairo context in points of an A4 page (a PDF surface, a
+ * print context, a preview), as often as needed.  Nothing here computes
+ * mechanics.
+ *
+ * Page 1: the case, the caution, the inputs, the results table with the
+ * changes against native and the 5-95% ranges, the flags in plain words,
+ * the capacity use and the inverse answers.  Page 2: the schematic with the
+ * force vectors, the charts, the assumptions and the sources.  Type and
+ * rows shrink a little when a plan has many options, so that the report
+ * keeps to two pages; the first HL_REPORT_OPTIONS_MAX options are shown.
+ *
+ * Every file is written atomically (rendered to memory, then
+ * hl_write_file_atomic), so a failure never leaves a partial file.
+ */
+#pragma once
+
+#include <stdbool.h>
+#include <stddef.h>
+#include <cairo.h>
+
+#include "hl-plan.h"
+#include "hl-types.h"
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+/* A4 in PostScript points (210 x 297 mm, rounded to whole points). */
+#define HL_REPORT_PAGE_WIDTH_PT 595.0
+#define HL_REPORT_PAGE_HEIGHT_PT 842.0
+#define HL_REPORT_PAGES_MAX 2
+/* Columns of the results table beyond native that fit an A4 page. */
+#define HL_REPORT_OPTIONS_MAX 6
+
+/* The joint-load target of the inverse questions, x body weight: our
+ * default, a round figure below the 2.1-2.8 BW measured in static
+ * single-leg stance (Kotzar et al. 1991, J Orthop Res 9:621-633). */
+#define HL_REPORT_TARGET_JRF_BW_DEFAULT 2.0
+#define HL_REPORT_TARGET_JRF_BW_MIN 0.5
+#define HL_REPORT_TARGET_JRF_BW_MAX 10.0
+
+typedef struct {
+  const char *date;        /* shown as the report's date; NULL: today (UTC) */
+  double target_jrf_bw;    /* for the cane and load questions */
+  bool uncertainty;        /* run the Monte Carlo: ranges and chart bands */
+  int figure_option;       /* option in the schematic: -1 native, or an index;
+                            * HL_REPORT_FIGURE_FIRST: the first option if any */
+} HlReportSettings;
+
+#define HL_REPORT_FIGURE_FIRST (-2)
+
+void hl_report_settings_init (HlReportSettings *settings);
+
+typedef struct HlReport HlReport;
+
+/* Runs the core for the report.  NULL with err set when the plan cannot be
+ * solved, a setting is out of range, or memory runs out. */
+HlReport *hl_report_new (const HlPlan *plan, const HlReportSettings *settings,
+                         HlError *err);
+void hl_report_free (HlReport *report);
+
+/* 1 or 2. */
+int hl_report_n_pages (const HlReport *report);
+
+/* Draws page `page` (0-based) with its origin at the top left, in points
+ * of an A4 page; the caller scales for anything else. */
+void hl_report_draw_page (const HlReport *report, cairo_t *cr, int page);
+
+/* The whole report as a PDF in memory; *out is malloc'd. */
+HlStatus hl_report_pdf_to_buffer (const HlReport *report, unsigned char **out,
+                                  size_t *size, HlError *err);
+/* hl_report_new, the PDF, and an atomic write to path. */
+HlStatus hl_report_save_pdf (const HlPlan *plan, const HlReportSettings *settings,
+                             const char *path, HlError *err);
+
+/* ---- Figures ---------------------------------------------------------- */
+
+typedef enum {
+  HL_FIGURE_FORMAT_PNG = 0,
+  HL_FIGURE_FORMAT_SVG,
+} HlFigureFormat;
+
+/* The format from a file name's extension (.png, .svg, any case); false
+ * for any other name. */
+bool hl_figure_format_from_path (const char *path, HlFigureFormat *format);
+
+/* The schematic with the force vectors of option `option_index` (-1 =
+ * native), width x height px (SVG: points), light style, with the caution;
+ * the size within HL_FIGURE_SIZE_MIN..MAX of hl-render.h.  *out is malloc'd. */
+HlStatus hl_figure_to_buffer (const HlPlan *plan, int option_index, int width,
+                              int height, HlFigureFormat format,
+                              unsigned char **out, size_t *size, HlError *err);
+/* The same written atomically to path, the format from its extension. */
+HlStatus hl_figure_save (const HlPlan *plan, int option_index, int width,
+                         int height, const char *path, HlError *err);
+
+/* ---- Sweep tables ----------------------------------------------------- */
+
+/* The report's four chart sweeps in one CSV table (the header of
+ * HL_SWEEP_CSV_HEADER in hl-chart.h; the param column tells them apart).
+ * *out is malloc'd and NUL-terminated. */
+HlStatus hl_report_sweeps_csv (const HlReport *report, char **out, size_t *size,
+                               HlError *err);
+
+/* Seconds the last hl_report_new took to run the core (for benchmarks). */
+double hl_report_compute_seconds (const HlReport *report);
+
+#ifdef __cplusplus
+}
+#endif
