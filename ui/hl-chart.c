@@ -25,7 +25,7 @@
 #define HL_CHART_X_TICKS 6
 #define HL_CHART_Y_TICKS 5
 /* Band fill opacity: several bands overlap and the curves stay legible. */
-#define HL_CHART_BAND_ALPHA 0.16
+#define HL_CHART_BAND_ALPHA 0.12
 #define HL_CHART_GRID_ALPHA 0.22
 #define HL_CHART_MARK_RADIUS 3.2
 #define HL_CHART_LEGEND_SAMPLE 22.0
@@ -78,8 +78,8 @@ hl_chart_kind_axis (HlChartKind kind)
 const char *
 hl_chart_quantity_axis (HlChartQuantity quantity)
 {
-  return quantity == HL_CHART_ABDUCTOR ? _("Abductor force (x body weight)")
-                                       : _("Joint reaction force (x body weight)");
+  return quantity == HL_CHART_ABDUCTOR ? _("Abductor force (xBW)")
+                                       : _("Joint reaction force (xBW)");
 }
 
 double

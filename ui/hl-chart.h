@@ -93,7 +93,8 @@ HlChartData *hl_chart_data_new (const HlPlan *plan, HlChartKind kind,
                                 const HlMcSettings *mc, HlError *err);
 void hl_chart_data_free (HlChartData *data);
 
-/* Plain words: the chart's title and its x axis with the unit. */
+/* Plain words: the chart's title, its x axis and its y axis with the units
+ * (xBW: multiples of body weight). */
 const char *hl_chart_kind_title (HlChartKind kind);
 const char *hl_chart_kind_axis (HlChartKind kind);
 const char *hl_chart_quantity_axis (HlChartQuantity quantity);
