@@ -72,6 +72,7 @@ struct _HlResults {
 
   GtkWidget *grid;
   GArray *columns;   /* of HlResultsColumn */
+  GtkWidget *common_error;   /* one message over all columns */
   int selected;      /* option index, -1 none */
 };
 
@@ -183,6 +184,11 @@ hl_results_clear_columns (HlResults *self)
       gtk_grid_remove (GTK_GRID (self->grid), col->error);
     }
   g_array_set_size (self->columns, 0);
+  if (self->common_error != NULL)
+    {
+      gtk_grid_remove (GTK_GRID (self->grid), self->common_error);
+      self->common_error = NULL;
+    }
 }
 
 static void
@@ -225,6 +231,12 @@ hl_results_build_columns (HlResults *self, size_t n)
       gtk_widget_set_visible (col.error, FALSE);
       g_array_append_val (self->columns, col);
     }
+  self->common_error = make_label ("results-error", 0.0f);
+  gtk_label_set_wrap (GTK_LABEL (self->common_error), TRUE);
+  gtk_widget_set_valign (self->common_error, GTK_ALIGN_START);
+  gtk_grid_attach (grid, self->common_error, FIRST_COLUMN, FIRST_VALUE_ROW,
+                   2 * (int) n, (int) N_ROWS + 1);
+  gtk_widget_set_visible (self->common_error, FALSE);
   hl_results_set_selected_option (self, self->selected);
 }
 
@@ -234,8 +246,23 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
 {
   g_return_if_fail (HL_IS_RESULTS (self));
 
+  gboolean common = n > 0;
+
   if (self->columns->len != n)
     hl_results_build_columns (self, n);
+
+  /* A plan that cannot be prepared fails every column the same way: say
+   * it once across the table. */
+  for (size_t c = 0; c < n && common; c++)
+    common = solved[c].status != HL_OK
+             && strcmp (solved[c].error.message, solved[0].error.message) == 0;
+  gtk_widget_set_visible (self->common_error, common);
+  if (common)
+    {
+      g_autofree char *msg = format_error (&solved[0]);
+
+      gtk_label_set_text (GTK_LABEL (self->common_error), msg);
+    }
 
   for (size_t c = 0; c < n; c++)
     {
@@ -266,7 +293,7 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
         }
 
       gtk_widget_set_visible (col->flags, ok);
-      gtk_widget_set_visible (col->error, !ok);
+      gtk_widget_set_visible (col->error, !ok && !common);
       if (ok)
         {
           g_autofree char *flags = format_flags (s->result.flags);
@@ -342,10 +369,9 @@ hl_results_format_csv (const HlPlan *plan, const HlSolved *solved, size_t n)
           g_autofree char *cell = NULL;
 
           g_string_append_c (s, ',');
-          if (solved[c].status == HL_OK)
-            cell = format_value (&rows[r], rows[r].get (&solved[c].result));
-          else
-            cell = format_error (&solved[c]);
+          if (solved[c].status != HL_OK)
+            continue;
+          cell = format_value (&rows[r], rows[r].get (&solved[c].result));
           csv_append_field (s, cell);
         }
       g_string_append_c (s, '\n');
@@ -360,6 +386,17 @@ hl_results_format_csv (const HlPlan *plan, const HlSolved *solved, size_t n)
       if (solved[c].status == HL_OK)
         csv_append_field (s, hl_flags_format (solved[c].result.flags, ";",
                                               buf, sizeof buf));
+    }
+  g_string_append (s, "\nerror,");
+  for (size_t c = 0; c < n; c++)
+    {
+      g_string_append_c (s, ',');
+      if (solved[c].status != HL_OK)
+        {
+          g_autofree char *msg = format_error (&solved[c]);
+
+          csv_append_field (s, msg);
+        }
     }
   g_string_append_c (s, '\n');
   return g_string_free (s, FALSE);

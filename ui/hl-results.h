@@ -39,7 +39,9 @@ void hl_results_set_selected_option (HlResults *self, int index);
 
 /* The table as CSV text, each number formatted exactly as the window shows
  * it (without the change in per cent): a header "quantity,unit,native,..."
- * then one line per quantity and a "flags" line of flag keys.  For tests. */
+ * then one line per quantity, a "flags" line of flag keys and an "error"
+ * line with the message of each column that could not be solved (whose
+ * other cells are empty).  For tests. */
 char *hl_results_format_csv (const HlPlan *plan, const HlSolved *solved,
                              size_t n);
 

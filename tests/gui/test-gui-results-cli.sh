@@ -45,6 +45,10 @@ for row in win[1:]:
     key = row[0]
     for j, cell in enumerate(row[2:]):
         ref = cli[j]
+        if key == "error":
+            if cell:
+                sys.exit("%s: the window could not solve it: %s" % (names[j], cell))
+            continue
         if key == "flags":
             a = sorted(f for f in cell.replace(";", " ").split() if f)
             b = sorted(f for f in ref["flags"].replace(";", " ").replace("|", " ").split() if f)
@@ -72,4 +76,17 @@ for plan in "$HL_DEMO" "$SRCDIR/data/examples/demo-left.hlplan" "$nocane"; do
   hl_note "$(basename "$plan")"
   compare "$HL_TMP/window.csv" "$HL_TMP/cli.csv" || hl_fail "the window and the CLI disagree on $plan"
 done
+# A plan that cannot be solved: the reason where the numbers would be.
+bad="$HL_TMP/midline-lateral.hlplan"
+sed 's|<landmark name="midline" x-mm="0"|<landmark name="midline" x-mm="-130"|' "$HL_DEMO" >"$bad"
+grep -q 'x-mm="-130"' "$bad" || hl_fail "could not move the midline"
+"$HIPLEVER" --print-results "$bad" >"$HL_TMP/bad.csv" || hl_fail "--print-results failed on $bad"
+python3 - "$HL_TMP/bad.csv" <<'PY' || hl_fail "the unsolvable plan is not reported in every column"
+import csv, sys
+rows = {r[0]: r[2:] for r in csv.reader(open(sys.argv[1]))}
+errors = rows["error"]
+assert errors and all("midline" in e for e in errors), errors
+assert all(v == "" for v in rows["joint-reaction-force-n"]), rows["joint-reaction-force-n"]
+print("# ok: every column says: " + errors[0])
+PY
 echo "PASS"
