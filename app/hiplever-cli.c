@@ -23,6 +23,7 @@
 #include "hl-solve.h"
 #include "hl-version.h"
 #include "hl-cli.h"
+#include "hl-cli-calibrate.h"
 
 /* ---- Options and subcommands ------------------------------------------ */
 
@@ -112,6 +113,9 @@ static const HlCliCommand commands[] = {
     N_("Draw the schematic with the force vectors; the format follows the "
        "file name."),
     hl_cli_figure_options, 1, 1, hl_cli_figure },
+  { "calibrate", "PLAN | --marker X1,Y1 X2,Y2 X3,Y3 [--diameter MM] | --two-point X1,Y1 X2,Y2 --distance MM",
+    N_("The radiograph magnification (measured / true) from a plan's calibration, or from points in image mm; says when it is assumed."),
+    hl_cli_calibrate_options, 0, 3, hl_cli_calibrate },
 };
 
 #define N_COMMANDS (sizeof commands / sizeof commands[0])
@@ -394,6 +398,7 @@ load_plan (const char *path)
       hl_cli_report_error (path, NULL, &err);
       return NULL;
     }
+  hl_cli_check_radiograph (path, plan);
   return plan;
 }
 
@@ -587,6 +592,7 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
         }
     }
 
+  hl_cli_print_measures (plan);
   hl_cli_fprintf (stdout, "\n%s %s\n", _("Caution:"), hl_caution_text ());
 }
 
