@@ -36,6 +36,7 @@
 #include "hl-image.h"
 #include "hl-measure.h"
 #include "hl-plan-io.h"
+#include "hl-plan-scan.h"
 #include "hl-sha256.h"
 #include "hl-uncertainty.h"
 #include "hl-version.h"
@@ -2137,6 +2138,8 @@ parse_document (HlReader *r, const char *data, size_t size, xmlDocPtr *out)
     return reader_fail_at (r, HL_ERR_PARSE, 0, NULL,
                            _("the file is %zu bytes, more than the %u bytes a plan may have"),
                            size, HL_PLAN_MAX_BYTES);
+  if (!hl_plan_scan_ok (data, size, r->name, r->err))
+    return r->status = HL_ERR_PARSE;
 
   xmlParserCtxtPtr ctxt = xmlNewParserCtxt ();
   if (ctxt == NULL || ctxt->sax == NULL)
