@@ -131,6 +131,13 @@ selected_option (HlWindow *self)
   return &self->plan->options[self->selected_option];
 }
 
+/* Ctrl+Z in a number field means the plan's undo, not the text's. */
+static void
+plan_undo_only (GtkSpinButton *spin)
+{
+  gtk_editable_set_enable_undo (GTK_EDITABLE (spin), FALSE);
+}
+
 static void
 set_spin (GtkSpinButton *spin, double value)
 {
@@ -418,6 +425,7 @@ landmark_spin (HlWindow *self, HlLandmarkId id, const char *axis_label)
   gtk_spin_button_set_increments (GTK_SPIN_BUTTON (spin), 0.5, 5.0);
   gtk_editable_set_width_chars (GTK_EDITABLE (spin), 5);
   gtk_widget_set_valign (spin, GTK_ALIGN_CENTER);
+  plan_undo_only (GTK_SPIN_BUTTON (spin));
   gtk_accessible_update_property (GTK_ACCESSIBLE (spin),
                                   GTK_ACCESSIBLE_PROPERTY_LABEL, axis_label, -1);
   g_object_set_data (G_OBJECT (spin), HL_LANDMARK_ID_KEY, GINT_TO_POINTER (id));
@@ -616,6 +624,7 @@ build_option_params (HlWindow *self)
       gtk_spin_button_set_digits (GTK_SPIN_BUTTON (spin), 1);
       gtk_spin_button_set_increments (GTK_SPIN_BUTTON (spin), 0.5, 5.0);
       gtk_editable_set_width_chars (GTK_EDITABLE (spin), 7);
+      plan_undo_only (GTK_SPIN_BUTTON (spin));
       gtk_widget_set_hexpand (spin, TRUE);
       gtk_accessible_update_property (GTK_ACCESSIBLE (spin),
                                       GTK_ACCESSIBLE_PROPERTY_LABEL, _(param->label), -1);
@@ -746,6 +755,8 @@ hl_window_panel_init (HlWindow *self)
 
   gtk_spin_button_set_increments (self->mass_spin, 0.5, 5.0);
   gtk_spin_button_set_increments (self->cane_value_spin, 1.0, 10.0);
+  plan_undo_only (self->mass_spin);
+  plan_undo_only (self->cane_value_spin);
   for (guint i = 0; i < G_N_ELEMENTS (spin_bindings); i++)
     {
       const HlSpinBinding *b = &spin_bindings[i];
@@ -753,6 +764,7 @@ hl_window_panel_init (HlWindow *self)
 
       gtk_spin_button_set_range (spin, b->lower, b->upper);
       gtk_spin_button_set_increments (spin, b->step, b->page);
+      plan_undo_only (spin);
       g_signal_connect (spin, "value-changed", G_CALLBACK (spin_binding_cb),
                         (gpointer) b);
     }

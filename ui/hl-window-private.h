@@ -98,6 +98,7 @@ struct _HlWindow {
   gboolean skip_close_guard;
   gboolean print_handles;
   gboolean handles_dirty;
+  guint handles_printed;
   gboolean use_pounds;
 };
 

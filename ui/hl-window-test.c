@@ -102,7 +102,6 @@ hl_window_print_handles (HlWindow *self)
   GtkWidget *switcher = gtk_widget_get_prev_sibling (GTK_WIDGET (self->panel_stack));
   GtkWidget *child;
   guint page = 0;
-  static guint frame;
 
   for (int i = 0; i < HL_LM_COUNT; i++)
     {
@@ -130,7 +129,7 @@ hl_window_print_handles (HlWindow *self)
       print_widget (self, x, GTK_WIDGET (self->lm_x[i]));
       print_widget (self, y, GTK_WIDGET (self->lm_y[i]));
     }
-  printf ("FRAME %u\n", ++frame);
+  printf ("FRAME %u\n", ++self->handles_printed);
   fflush (stdout);
 }
 

@@ -71,9 +71,7 @@ for k in Up Up Up; do
   hl_key "$k"
   sleep 0.2
 done
-# Back on the schematic so that Ctrl+Z is the plan's undo, not the text's.
-set -- $(hl_pos WIDGET canvas)
-xdotool mousemove --window "$HL_WID" "$1" $(($2 + 150)) click 1
+# Ctrl+Z with the focus still in the number field is the plan's undo.
 sleep 0.3
 title=$(xdotool getwindowname "$HL_WID")
 case "$title" in
