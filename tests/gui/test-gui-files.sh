@@ -68,9 +68,15 @@ hl_note "ok: Ctrl+E exported a summary with the caution, .xml added"
   || hl_fail "the plan saved under a name does not open"
 hl_note "ok: Ctrl+Shift+S saved a plan that opens, .hlplan added"
 
-# Ctrl+O on a good file replaces the plan.
+# Ctrl+O on a good file replaces the plan; with unsaved changes it asks
+# first, and Discard goes on to the file chooser.
 hl_start open-good --dump-summary-on-exit "$HL_TMP/left.xml" "$HL_DEMO"
+hl_key ctrl+shift+n
+hl_settle
 hl_key ctrl+o
+sleep 1
+hl_grab open-guard
+hl_key alt+d
 choose "$SRCDIR/data/examples/demo-left.hlplan"
 hl_key ctrl+q
 hl_wait_exit
