@@ -1465,6 +1465,17 @@ hl_figure_to_buffer (const HlPlan *plan, int option_index, int width, int height
                          _("There is no option %d: the plan has %zu."), option_index + 1,
                          plan->n_options);
 
+  /* A figure of a plan that cannot be solved would show only the reason;
+   * an export says so instead. */
+  HlScene scene;
+  hl_scene_build (&scene, plan, option_index);
+  if (!scene.solved)
+    {
+      if (err != NULL)
+        *err = scene.error;
+      return scene.error.status != HL_OK ? scene.error.status : HL_ERR_INVALID;
+    }
+
   HlMemStream m = { 0 };
   if (format == HL_FIGURE_FORMAT_SVG)
     {
