@@ -11,6 +11,7 @@
  *   WIDGET <name> <x> <y>           centres of the controls tests click
  *                                   (page-*, cane-check, add-option,
  *                                   mass-spin, lm-x-<key>, lm-y-<key>)
+ *   SELECTED <canvas> <table>       the landmark selected in each, or none
  *   FRAME <n>                       ends each block
  */
 #include "config.h"
@@ -129,6 +130,18 @@ hl_window_print_handles (HlWindow *self)
       print_widget (self, x, GTK_WIDGET (self->lm_x[i]));
       print_widget (self, y, GTK_WIDGET (self->lm_y[i]));
     }
+  {
+    int on_canvas = hl_canvas_get_selected_landmark (self->canvas);
+    GtkListBoxRow *row = gtk_list_box_get_selected_row (self->landmark_list);
+    int in_table = -1;
+
+    for (int i = 0; i < HL_LM_COUNT && row != NULL; i++)
+      if (self->lm_row[i] == GTK_WIDGET (row))
+        in_table = i;
+    printf ("SELECTED %s %s\n",
+            on_canvas >= 0 ? hl_landmark_info ((HlLandmarkId) on_canvas)->key : "none",
+            in_table >= 0 ? hl_landmark_info ((HlLandmarkId) in_table)->key : "none");
+  }
   printf ("FRAME %u\n", ++self->handles_printed);
   fflush (stdout);
 }

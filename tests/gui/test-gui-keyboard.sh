@@ -22,6 +22,9 @@ set -- $(hl_pos HANDLE $lm)
 [ $# -eq 2 ] || hl_fail "no position printed for $lm"
 xdotool mousemove --window "$HL_WID" "$1" "$2" click 1
 hl_settle
+sel=$(awk '$1 == "SELECTED" { s = $2 " " $3 } END { print s }' "$HL_OUT")
+[ "$sel" = "$lm $lm" ] || hl_fail "a click on the handle selected '$sel' (schematic, table)"
+hl_note "ok: the click selected $lm on the schematic and in the landmark table"
 for k in Right Right shift+Up shift+Left Down; do
   hl_key "$k"
   hl_settle
@@ -96,6 +99,12 @@ hl_click page-landmarks
 hl_settle
 set -- $(hl_pos WIDGET lm-x-hip-centre)
 [ $# -eq 2 ] || hl_fail "no position printed for the hip centre's x"
+# The row's name, left of its x field, selects it on the schematic too.
+xdotool mousemove --window "$HL_WID" $(($1 - 150)) "$2" click 1
+hl_settle
+sel=$(awk '$1 == "SELECTED" { s = $2 " " $3 } END { print s }' "$HL_OUT")
+[ "$sel" = "hip-centre hip-centre" ] || hl_fail "a click on the table row selected '$sel' (schematic, table)"
+hl_note "ok: the table row selected the hip centre on the schematic"
 xdotool mousemove --window "$HL_WID" "$1" "$2" click 1
 hl_key ctrl+a
 xdotool type --delay 20 -- "-97.5"
