@@ -69,7 +69,16 @@ PY
 
 nocane="$HL_TMP/no-cane.hlplan"
 sed 's/<cane enabled="true"/<cane enabled="false"/' "$HL_DEMO" >"$nocane"
-for plan in "$HL_DEMO" "$SRCDIR/data/examples/demo-left.hlplan" "$nocane"; do
+# The first option with a cup 9 mm medial and the femur 14 mm longer:
+# global offset down 9 mm and the leg 13 mm longer, both flagged.
+flagged="$HL_TMP/flagged.hlplan"
+sed '0,/cup-medial-mm="2" cup-superior-mm="1" femoral-offset-mm="0" femoral-length-mm="2"/s//cup-medial-mm="9" cup-superior-mm="1" femoral-offset-mm="0" femoral-length-mm="14"/' \
+  "$HL_DEMO" >"$flagged"
+"$HIPLEVER" --print-results "$flagged" >"$HL_TMP/flagged.csv" || hl_fail "--print-results failed on $flagged"
+grep -q '^flags,,,global-offset-reduced;leg-length,' "$HL_TMP/flagged.csv" \
+  || hl_fail "the flagged option shows no flags: $(grep '^flags' "$HL_TMP/flagged.csv")"
+hl_note "ok: $(grep '^flags' "$HL_TMP/flagged.csv")"
+for plan in "$HL_DEMO" "$SRCDIR/data/examples/demo-left.hlplan" "$nocane" "$flagged"; do
   [ -f "$plan" ] || continue
   "$HIPLEVER" --print-results "$plan" >"$HL_TMP/window.csv" || hl_fail "--print-results failed on $plan"
   "$CLI" solve "$plan" --format csv >"$HL_TMP/cli.csv" || hl_fail "hiplever-cli solve failed on $plan"
