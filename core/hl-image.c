@@ -346,6 +346,19 @@ hl_image_resolve_path (const char *base_file, const char *path, char *out,
   if (n < 0 || (size_t) n >= size)
     return hl_error_set (err, HL_ERR_INVALID, "radiograph path",
                          _("The radiograph's path is longer than %zu bytes"), size - 1);
+
+  /* Without "." and ".." where the folder exists: the same image gives
+   * the same path whichever plan refers to it. */
+  char folder[PATH_MAX];
+  if (folder_of (out, folder, sizeof folder))
+    {
+      const char *base = strrchr (out, '/');
+      char joined[PATH_MAX];
+      n = snprintf (joined, sizeof joined, "%s/%s", strcmp (folder, "/") == 0 ? "" : folder,
+                    base != NULL ? base + 1 : out);
+      if (n > 0 && (size_t) n < size)
+        memcpy (out, joined, (size_t) n + 1);
+    }
   return HL_OK;
 }
 
