@@ -53,10 +53,12 @@ static const HlResultRow rows[] = {
   { "abductor-length-change", N_("Abductor length change"), N_("mm"), 1, FALSE, get_abductor_length },
 };
 
+/* Flags come right under the option names, where a warning is seen
+ * before the numbers it qualifies. */
 #define N_ROWS G_N_ELEMENTS (rows)
 #define HEADER_ROW 0
-#define FIRST_VALUE_ROW 1
-#define FLAGS_ROW (FIRST_VALUE_ROW + (int) N_ROWS)
+#define FLAGS_ROW 1
+#define FIRST_VALUE_ROW 2
 #define FIRST_COLUMN 2   /* after the quantity and its unit */
 
 typedef struct {
@@ -220,21 +222,21 @@ hl_results_build_columns (HlResults *self, size_t n)
         }
       col.flags = make_label ("results-flags", 0.0f);
       gtk_label_set_wrap (GTK_LABEL (col.flags), TRUE);
-      gtk_label_set_max_width_chars (GTK_LABEL (col.flags), 22);
+      gtk_label_set_max_width_chars (GTK_LABEL (col.flags), 26);
       gtk_widget_set_valign (col.flags, GTK_ALIGN_START);
       gtk_grid_attach (grid, col.flags, x, FLAGS_ROW, 2, 1);
       col.error = make_label ("results-error", 0.0f);
       gtk_label_set_wrap (GTK_LABEL (col.error), TRUE);
       gtk_label_set_max_width_chars (GTK_LABEL (col.error), 22);
       gtk_widget_set_valign (col.error, GTK_ALIGN_START);
-      gtk_grid_attach (grid, col.error, x, FIRST_VALUE_ROW, 2, (int) N_ROWS + 1);
+      gtk_grid_attach (grid, col.error, x, FLAGS_ROW, 2, (int) N_ROWS + 1);
       gtk_widget_set_visible (col.error, FALSE);
       g_array_append_val (self->columns, col);
     }
   self->common_error = make_label ("results-error", 0.0f);
   gtk_label_set_wrap (GTK_LABEL (self->common_error), TRUE);
   gtk_widget_set_valign (self->common_error, GTK_ALIGN_START);
-  gtk_grid_attach (grid, self->common_error, FIRST_COLUMN, FIRST_VALUE_ROW,
+  gtk_grid_attach (grid, self->common_error, FIRST_COLUMN, FLAGS_ROW,
                    2 * (int) n, (int) N_ROWS + 1);
   gtk_widget_set_visible (self->common_error, FALSE);
   hl_results_set_selected_option (self, self->selected);
