@@ -70,11 +70,14 @@ show () { sed 's/^/    /' "$WORK/$1.out" "$WORK/$1.err" | tail -n 30; }
 
 copy_source () {
   mkdir -p "$COPY"
-  if [ -d "$SRC/.git" ] && command -v git >/dev/null 2>&1; then
-    # Tracked and new files, not the ignored build directories.
-    (cd "$SRC" && git ls-files -z --cached --others --exclude-standard) \
-      | (cd "$SRC" && xargs -0 sh -c 'for f; do [ -f "$f" ] && printf "%s\0" "$f"; done' sh) \
-      | (cd "$SRC" && tar --null -T - -cf -) | (cd "$COPY" && tar -xf -)
+  # Tracked and new files, not the ignored build directories; without git
+  # (or where git refuses the checkout), everything but build* and .git.
+  if command -v git >/dev/null 2>&1 \
+     && git -C "$SRC" ls-files -z --cached --others --exclude-standard \
+          >"$WORK/files" 2>/dev/null \
+     && [ -s "$WORK/files" ]; then
+    (cd "$SRC" && xargs -0 sh -c 'for f; do [ -f "$f" ] && printf "%s\0" "$f"; done' sh \
+       <"$WORK/files" | tar --null -T - -cf -) | (cd "$COPY" && tar -xf -)
   else
     (cd "$SRC" && tar --exclude='./build*' --exclude=./.git -cf - .) \
       | (cd "$COPY" && tar -xf -)
