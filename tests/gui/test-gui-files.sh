@@ -84,6 +84,12 @@ side=$(xmllint --xpath "string(//*[local-name()='case']/@operated-side)" "$HL_TM
 [ "$side" = left ] || hl_fail "Ctrl+O did not open the left-hip plan (side '$side')"
 hl_note "ok: Ctrl+O opened another plan"
 
+# HIPLEVER_DUMP_SUMMARY does what --dump-summary-on-exit does.
+HIPLEVER_DUMP_SUMMARY="$HL_TMP/env.xml" "$HIPLEVER" --print-results "$HL_DEMO" >/dev/null \
+  || hl_fail "--print-results failed"
+xmllint --noout "$HL_TMP/env.xml" || hl_fail "HIPLEVER_DUMP_SUMMARY wrote no summary"
+hl_note "ok: HIPLEVER_DUMP_SUMMARY wrote the summary"
+
 # A planning summary opens as a plan too.
 "$HIPLEVER" --print-results --dump-summary-on-exit "$HL_TMP/summary.xml" "$HL_DEMO" >"$HL_TMP/a.csv"
 "$HIPLEVER" --print-results "$HL_TMP/summary.xml" >"$HL_TMP/b.csv" \
