@@ -1459,6 +1459,27 @@ diagnose_value (HlReader *r, xmlNodePtr node, const char *attr, const char *valu
           return true;
         }
     }
+  if (strcmp (attr, "samples") == 0 || strcmp (attr, "seed") == 0)
+    {
+      bool samples = attr[1] == 'a';
+      const char *t = value;
+      bool digits = *t != '\0';
+      for (; *t != '\0'; t++)
+        digits = digits && is_digit (*t);
+      errno = 0;
+      unsigned long long n = digits ? strtoull (value, NULL, 10) : 0;
+      if (digits && errno == 0 && (!samples || (n >= 1 && n <= HL_MC_PLAN_SAMPLES_MAX)))
+        return false;
+      if (samples)
+        reader_fail (r, HL_ERR_PARSE, node,
+                     _("attribute samples is '%.*s', not a whole number from 1 to %d"),
+                     HL_QUOTED_VALUE_MAX, value, HL_MC_PLAN_SAMPLES_MAX);
+      else
+        reader_fail (r, HL_ERR_PARSE, node,
+                     _("attribute seed is '%.*s', not a whole number from 0 to "
+                       "18446744073709551615"), HL_QUOTED_VALUE_MAX, value);
+      return true;
+    }
   if (strcmp (attr, "enabled") == 0)
     {
       static const char *const booleans[] = { "true", "false", "1", "0" };

@@ -1136,6 +1136,23 @@ static const HlBadCase bad_cases[] = {
     "    <landmark name=\"abductor-insertion\" x-mm=\"-155\" y-mm=\"-8\" z-mm=\"3\"/>\n"
     "  </landmarks>\n" PLAN_CLOSE, NULL, HL_ERR_PARSE, 7,
     { "line 7", "<landmark name=\"abductor-insertion\">", "z-mm" }, NULL },
+  { "uncertainty SD out of range (hl_plan_check)",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK
+    "  <uncertainty samples=\"500\" seed=\"7\" landmark-sd-mm=\"25\"/>\n" PLAN_CLOSE,
+    NULL, HL_ERR_INVALID, 9, { "line 9", "<uncertainty>", "landmark placement error" }, NULL },
+  { "uncertainty angle SD negative (hl_plan_check)",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK
+    "  <uncertainty angle-sd-deg=\"-1\"/>\n" PLAN_CLOSE,
+    NULL, HL_ERR_INVALID, 9, { "line 9", "abductor line angle error" }, NULL },
+  { "uncertainty samples zero (schema)",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK "  <uncertainty samples=\"0\"/>\n" PLAN_CLOSE,
+    NULL, HL_ERR_PARSE, 9, { "line 9", "samples" }, NULL },
+  { "uncertainty samples over the limit (schema)",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK "  <uncertainty samples=\"200001\"/>\n"
+    PLAN_CLOSE, NULL, HL_ERR_PARSE, 9, { "line 9", "samples" }, NULL },
+  { "uncertainty seed negative (schema)",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK "  <uncertainty seed=\"-5\"/>\n" PLAN_CLOSE,
+    NULL, HL_ERR_PARSE, 9, { "line 9", "seed" }, NULL },
   { "unknown element",
     XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK "  <colour value=\"red\"/>\n" PLAN_CLOSE,
     NULL, HL_ERR_PARSE, 9, { "line 9", "colour" }, NULL },
