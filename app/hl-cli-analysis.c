@@ -444,7 +444,8 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
                                  "--csv gives every column.\n\n"),
                          path, _(info->label), info->unit, spec.from, spec.to, spec.n_steps);
       snprintf (head, sizeof head, "%s (%s)", info->key, info->unit);
-      hl_cli_buf_printf (&buf, "%14s  %-*s  %9s  %9s  %9s  %9s  %9s  %s\n", head,
+      int value_w = (int) strlen (head);
+      hl_cli_buf_printf (&buf, "%*s  %-*s  %9s  %9s  %9s  %9s  %9s  %s\n", value_w, head,
                          (int) name_w, _("case"), "arm_mm", "Fa_N", "Fa_BW", "J_N", "J_BW",
                          _("flags"));
       for (size_t step = 0; step < spec.n_steps; step++)
@@ -453,8 +454,8 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
             const HlResult *r = &results[row * spec.n_steps + step];
             char flags[256];
             size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
-            hl_cli_buf_printf (&buf, "%14.4f  %s%*s  %9.3f  %9.3f  %9.3f  %9.3f  %9.3f  %s\n",
-                               values[step], case_name (plan, row), (int) pad, "",
+            hl_cli_buf_printf (&buf, "%*.4f  %s%*s  %9.3f  %9.3f  %9.3f  %9.3f  %9.3f  %s\n",
+                               value_w, values[step], case_name (plan, row), (int) pad, "",
                                r->abductor_arm_mm, r->abductor_force_n, r->abductor_force_bw,
                                r->jrf_n, r->jrf_bw,
                                hl_flags_format (r->flags, ";", flags, sizeof flags));
