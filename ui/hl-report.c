@@ -49,6 +49,7 @@ static const double layout_scales[] = { 1.0, 0.93, 0.86, 0.8, 0.74, 0.68 };
 #define FIGURE_H 300.0
 #define CHART_H 118.0
 #define CHART_COLS 2
+#define RESULT_COL_MAX 96.0
 /* Room for one table cell's text. */
 #define CELL_MAX 160
 /* Figure drawing margin, px. */
@@ -905,7 +906,8 @@ block_results (HlLayout *L, double y, bool draw)
   if (t == NULL)
     return h;
   double label_w = 150.0;
-  double colw = (content_width () - label_w) / (n_cols - 1);
+  /* Few columns stay near their labels instead of spreading over the page. */
+  double colw = fmin (RESULT_COL_MAX, (content_width () - label_w) / (n_cols - 1));
   double widths[2 + HL_REPORT_OPTIONS_MAX];
   bool right[2 + HL_REPORT_OPTIONS_MAX];
   bool bold[32] = { false };
