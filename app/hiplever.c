@@ -22,6 +22,11 @@ main (int argc, char *argv[])
   bind_textdomain_codeset (GETTEXT_PACKAGE, "UTF-8");
   textdomain (GETTEXT_PACKAGE);
 
+  /* With the cairo renderer asked for, GDK would still load the whole GL
+   * stack (about 50 MB resident with Mesa) only to choose a visual. */
+  if (g_strcmp0 (g_getenv ("GSK_RENDERER"), "cairo") == 0 && g_getenv ("GDK_DEBUG") == NULL)
+    g_setenv ("GDK_DEBUG", "gl-disable", FALSE);
+
   app = hl_application_new (start_us);
   status = g_application_run (G_APPLICATION (app), argc, argv);
   return status != 0 ? status : hl_application_get_exit_status (app);

@@ -13,6 +13,7 @@ num='[0-9][0-9]*\.[0-9][0-9]*'
 grep -q "^benchmark-drag: 200 frames, 4 options" "$HL_TMP/bench.txt" || hl_fail "no header line"
 grep -q "^frame interval: median $num ms, p95 $num ms" "$HL_TMP/bench.txt" || hl_fail "no frame interval"
 grep -q "^frame time .*median $num ms, p95 $num ms" "$HL_TMP/bench.txt" || hl_fail "no frame time"
+grep -q "^frame CPU time .*median $num ms, p95 $num ms" "$HL_TMP/bench.txt" || hl_fail "no frame CPU time"
 grep -q "^startup to first frame: $num s" "$HL_TMP/bench.txt" || hl_fail "no startup time"
 grep -q "^resident memory: $num MB" "$HL_TMP/bench.txt" || hl_fail "no resident memory"
 echo "PASS"
