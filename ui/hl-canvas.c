@@ -23,6 +23,7 @@
 #include <glib/gi18n.h>
 
 #include "hl-canvas.h"
+#include "hl-image.h"
 #include "hl-render.h"
 
 /* Keyboard nudges, mm: ui.md. */
@@ -49,6 +50,7 @@ struct _HlCanvas
 
   /* borrowed */
   const HlPlan *plan;
+  HlUnderlay *underlay;
 
   /* owned */
   HlScene scene;
@@ -72,6 +74,9 @@ struct _HlCanvas
   double pan_tx0, pan_ty0;
 
   HlView zoom_start_view;
+
+  gboolean schematic_hidden;
+  gboolean click_placement;
 };
 
 G_DEFINE_FINAL_TYPE (HlCanvas, hl_canvas, GTK_TYPE_WIDGET)
@@ -89,6 +94,7 @@ enum {
   SIGNAL_LANDMARK_DRAG_BEGIN,
   SIGNAL_LANDMARK_MOVED,
   SIGNAL_LANDMARK_DRAG_END,
+  SIGNAL_PLAN_CLICKED,
   N_SIGNALS
 };
 
@@ -283,11 +289,64 @@ hl_canvas_zoom_by (HlCanvas *self, double factor)
                         0.5 * gtk_widget_get_height (GTK_WIDGET (self)));
 }
 
+void
+hl_canvas_set_underlay (HlCanvas *self, HlUnderlay *underlay)
+{
+  g_return_if_fail (HL_IS_CANVAS (self));
+  self->underlay = underlay;
+  gtk_widget_queue_draw (GTK_WIDGET (self));
+}
+
+void
+hl_canvas_set_schematic_visible (HlCanvas *self, gboolean visible)
+{
+  g_return_if_fail (HL_IS_CANVAS (self));
+  self->schematic_hidden = !visible;
+  gtk_widget_queue_draw (GTK_WIDGET (self));
+}
+
+static void hl_canvas_update_cursor (HlCanvas *self);
+
+void
+hl_canvas_set_click_placement (HlCanvas *self, gboolean enabled)
+{
+  g_return_if_fail (HL_IS_CANVAS (self));
+  self->click_placement = enabled;
+  hl_canvas_update_cursor (self);
+}
+
+gboolean
+hl_canvas_get_click_placement (HlCanvas *self)
+{
+  g_return_val_if_fail (HL_IS_CANVAS (self), FALSE);
+  return self->click_placement;
+}
+
+void
+hl_canvas_pan_by (HlCanvas *self, double dx, double dy)
+{
+  g_return_if_fail (HL_IS_CANVAS (self));
+  self->view.tx += dx;
+  self->view.ty += dy;
+  gtk_widget_queue_draw (GTK_WIDGET (self));
+}
+
+void
+hl_canvas_get_view (HlCanvas *self, double *scale, double *tx, double *ty)
+{
+  g_return_if_fail (HL_IS_CANVAS (self));
+  *scale = self->view.scale;
+  *tx = self->view.tx;
+  *ty = self->view.ty;
+}
+
 /* ---- Hover and drag ---------------------------------------------------- */
 
 static int
 hl_canvas_hit (HlCanvas *self, double x, double y)
 {
+  if (self->click_placement)
+    return -1;
   return hl_render_hit_landmark (self->plan, &self->view, x, y, HIT_RADIUS_PX);
 }
 
@@ -295,7 +354,9 @@ static void
 hl_canvas_update_cursor (HlCanvas *self)
 {
   const char *name = NULL;
-  if (self->drag_landmark >= 0 && self->drag_started)
+  if (self->click_placement)
+    name = "crosshair";
+  else if (self->drag_landmark >= 0 && self->drag_started)
     name = "grabbing";
   else if (self->hover_landmark >= 0)
     name = "grab";
@@ -421,6 +482,12 @@ static void
 click_released_cb (GtkGestureClick *gesture, int n_press, double x, double y,
                    HlCanvas *self)
 {
+  if (self->click_placement)
+    {
+      HlVec2 at = hl_view_to_plan (&self->view, (HlVec2) { x, y });
+      g_signal_emit (self, signals[SIGNAL_PLAN_CLICKED], 0, at.x, at.y);
+      return;
+    }
   if (hl_canvas_hit (self, x, y) < 0)
     hl_canvas_set_selected_landmark (self, -1);
 }
@@ -613,6 +680,17 @@ hl_canvas_snapshot (GtkWidget *widget, GtkSnapshot *snapshot)
   hl_canvas_style (self, &style);
   cairo_t *cr = gtk_snapshot_append_cairo (snapshot,
                                            &GRAPHENE_RECT_INIT (0, 0, width, height));
+  HlImagePlacement placement;
+  if (self->underlay != NULL && self->plan != NULL
+      && hl_image_placement (self->plan, &placement, NULL) == HL_OK)
+    {
+      cairo_set_source_rgb (cr, style.bg.r, style.bg.g, style.bg.b);
+      cairo_paint (cr);
+      hl_underlay_draw (self->underlay, cr, &self->view, placement.origin_mm,
+                        placement.mm_per_pixel, self->plan->radiograph.opacity);
+      style.paint_background = FALSE;
+    }
+  style.hide_schematic = self->schematic_hidden;
   hl_render_scene (cr, &self->scene, &self->view, &style, width, height);
   cairo_destroy (cr);
 }
@@ -718,6 +796,9 @@ hl_canvas_class_init (HlCanvasClass *klass)
   signals[SIGNAL_LANDMARK_DRAG_END] =
     g_signal_new ("landmark-drag-end", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST,
                   0, NULL, NULL, NULL, G_TYPE_NONE, 2, G_TYPE_INT, G_TYPE_BOOLEAN);
+  signals[SIGNAL_PLAN_CLICKED] =
+    g_signal_new ("plan-clicked", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST,
+                  0, NULL, NULL, NULL, G_TYPE_NONE, 2, G_TYPE_DOUBLE, G_TYPE_DOUBLE);
 
   gtk_widget_class_set_css_name (widget_class, "hl-canvas");
   gtk_widget_class_set_accessible_role (widget_class, GTK_ACCESSIBLE_ROLE_GROUP);

@@ -19,6 +19,11 @@
  * A keyboard nudge (arrow keys: 0.5 mm, Shift: 5 mm) emits begin, moved
  * and end in a row, so each nudge is one undo step.
  *
+ *  - "plan-clicked" (double x_mm, double y_mm): in click-placement mode
+ *    only, a primary click (press and release without a drag) at this
+ *    plan-frame point; calibration and guided placement use it.  In that
+ *    mode no landmark can be dragged (a drag pans).
+ *
  * Properties: "selected-landmark" (int, -1 = none), "selected-option"
  * (int, -1 = native only).
  */
@@ -26,6 +31,7 @@
 
 #include <gtk/gtk.h>
 #include "hl-plan.h"
+#include "hl-underlay.h"
 
 G_BEGIN_DECLS
 
@@ -50,5 +56,22 @@ void hl_canvas_fit (HlCanvas *self);
 gboolean hl_canvas_plan_to_widget (HlCanvas *self, double x_mm, double y_mm,
                                    double *x, double *y);
 void hl_canvas_zoom_by (HlCanvas *self, double factor);
+
+/* The radiograph drawn under the landmarks, placed by the plan's
+ * <radiograph> and calibration (hl_image_placement) with its opacity;
+ * borrowed, NULL for none.  Call again (or hl_canvas_plan_changed) after
+ * changing its adjustments. */
+void hl_canvas_set_underlay (HlCanvas *self, HlUnderlay *underlay);
+/* Draws the schematic bones (TRUE, the default) or only the forces and
+ * handles over the radiograph. */
+void hl_canvas_set_schematic_visible (HlCanvas *self, gboolean visible);
+/* Click-placement mode: clicks emit "plan-clicked", landmarks do not drag,
+ * the pointer is a crosshair. */
+void hl_canvas_set_click_placement (HlCanvas *self, gboolean enabled);
+gboolean hl_canvas_get_click_placement (HlCanvas *self);
+/* Moves the drawing by (dx, dy) px (the benchmark's pan). */
+void hl_canvas_pan_by (HlCanvas *self, double dx, double dy);
+/* The view (px per mm, offsets), for tests that compute screen points. */
+void hl_canvas_get_view (HlCanvas *self, double *scale, double *tx, double *ty);
 
 G_END_DECLS

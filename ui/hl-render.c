@@ -1908,12 +1908,15 @@ hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
         placer_add (&pl, s.x - hr, s.y - hr, 2.0 * hr, 2.0 * hr);
       }
 
-  draw_midline (cr, view, style, &pl, scene, &sh, y_lo, y_hi);
-  draw_pelvis (cr, view, style, &sh);
-  draw_femur (cr, view, style, &sh.other_femur, false);
-  draw_femur (cr, view, style, &sh.shown_femur, false);
-  draw_acetabula (cr, view, style, &sh);
-  if (scene->has_option)
+  if (!style->hide_schematic)
+    {
+      draw_midline (cr, view, style, &pl, scene, &sh, y_lo, y_hi);
+      draw_pelvis (cr, view, style, &sh);
+      draw_femur (cr, view, style, &sh.other_femur, false);
+      draw_femur (cr, view, style, &sh.shown_femur, false);
+      draw_acetabula (cr, view, style, &sh);
+    }
+  if (scene->has_option && !style->hide_schematic)
     {
       draw_femur (cr, view, style, &sh.native_femur, true);
       if (sh.shown_femur.ok)

@@ -74,6 +74,8 @@ typedef struct {
   bool show_frame;           /* R/L side markers, title and scale bars */
   bool show_legend;
   bool show_labels;          /* force values and moment arm lengths */
+  bool hide_schematic;       /* no bones, midline or cups: a radiograph
+                              * shows them (forces and handles stay) */
   int hover_landmark;        /* HlLandmarkId or -1 */
   int selected_landmark;     /* HlLandmarkId or -1 */
   double font_px;            /* base text size */

@@ -11,6 +11,7 @@
 #include <glib/gi18n.h>
 
 #include "hl-plan-io.h"
+#include "hl-radiograph-page.h"
 #include "hl-version.h"
 #include "hl-window-private.h"
 
@@ -137,6 +138,7 @@ hl_window_plan_edited (HlWindow *self)
   hl_window_update_title (self);
   hl_window_update_actions (self);
   hl_window_update_status (self);
+  hl_radiograph_page_plan_edited (self);
   self->handles_dirty = TRUE;
 }
 
@@ -457,6 +459,7 @@ hl_window_init (HlWindow *self)
                            G_CALLBACK (canvas_selected_option_cb), self, 0);
 
   hl_window_panel_init (self);
+  hl_radiograph_page_attach (self);
   hl_canvas_set_plan (self->canvas, self->plan);
   hl_window_panel_sync (self);
   hl_window_plan_edited (self);

@@ -1,0 +1,1145 @@
+/* hl-radiograph-page.c: the "Radiograph" page of the side panel.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#define G_LOG_DOMAIN "hl-radiograph-page"
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <glib/gi18n.h>
+
+#include "hl-image.h"
+#include "hl-measure.h"
+#include "hl-radiograph-page.h"
+#include "hl-underlay.h"
+#include "hl-version.h"
+#include "hl-window-private.h"
+
+#define PAGE_KEY "hl-radiograph-page"
+#define PAGE_NAME "radiograph"
+#define PAGE_SPACING 6
+#define MEASURE_DECIMALS 1
+#define MAGNIFICATION_DECIMALS 4
+/* Differences to the other side beyond this are marked (common practice
+ * for leg length; the same figure is used for the offsets as a prompt to
+ * look, not a threshold of any source). */
+#define DIFF_MARK_MM 5.0
+/* Spin ranges of our own. */
+#define DIAMETER_MAX_MM 100.0
+#define DISTANCE_MAX_MM 1000.0
+/* The benchmark: image size, frames, and the zoom and pan per frame. */
+#define BENCH_SIDE 4000
+#define BENCH_FRAMES 240
+#define BENCH_ZOOM_STEP 1.01
+#define BENCH_PAN_PX 6.0
+#define BENCH_P95 0.95
+
+enum { METHOD_NONE, METHOD_MARKER, METHOD_TWO_POINT, METHOD_TYPED, N_METHODS };
+
+struct _HlRadiographPage {
+  GtkBox parent_instance;
+
+  /* borrowed */
+  HlWindow *window;
+
+  /* built in code */
+  GtkWidget *image_banner;
+  GtkWidget *side_banner;
+  GtkWidget *file_label;
+  GtkWidget *import_button;
+  GtkWidget *schematic_check;
+  GtkWidget *brightness_scale;
+  GtkWidget *contrast_scale;
+  GtkWidget *invert_check;
+  GtkWidget *opacity_scale;
+  GtkWidget *spacing_spin;
+  GtkWidget *method_drop;
+  GtkWidget *size_spin;
+  GtkWidget *size_label;
+  GtkWidget *calibrate_button;
+  GtkWidget *calibrate_label;
+  GtkWidget *magnification_label;
+  GtkWidget *guide_button;
+  GtkWidget *guide_box;
+  GtkWidget *guide_label;
+  GtkWidget *skip_button;
+  GtkWidget *back_button;
+  GtkWidget *stop_button;
+  GtkWidget *measures_grid;
+  size_t grid_cases;
+
+  /* owned */
+  HlUnderlay *underlay;
+  char *loaded_path;         /* the reference the underlay was loaded for */
+  GtkNativeDialog *chooser;
+
+  /* state */
+  guint syncing;
+  gboolean calibrating;
+  int n_cal_points;
+  HlVec2 cal_points[3];      /* image mm */
+  gboolean guiding;
+  int guide_index;           /* HlLandmarkId asked for; kept when stopped */
+  gboolean benchmark;
+};
+
+G_DEFINE_FINAL_TYPE (HlRadiographPage, hl_radiograph_page, GTK_TYPE_BOX)
+
+static HlRadiographPage *
+page_of (HlWindow *window)
+{
+  return g_object_get_data (G_OBJECT (window), PAGE_KEY);
+}
+
+static HlPlan *
+plan_of (HlRadiographPage *self)
+{
+  return self->window->plan;
+}
+
+static int
+method_index (HlCalMethod m)
+{
+  switch (m)
+    {
+    case HL_CAL_MARKER:
+      return METHOD_MARKER;
+    case HL_CAL_TWO_POINT:
+      return METHOD_TWO_POINT;
+    case HL_CAL_TYPED:
+      return METHOD_TYPED;
+    case HL_CAL_ASSUMED:
+    default:
+      return METHOD_NONE;
+    }
+}
+
+static HlCalMethod
+method_of_index (guint i)
+{
+  static const HlCalMethod m[N_METHODS] = { HL_CAL_ASSUMED, HL_CAL_MARKER, HL_CAL_TWO_POINT,
+                                            HL_CAL_TYPED };
+  return i < N_METHODS ? m[i] : HL_CAL_ASSUMED;
+}
+
+static int
+points_needed (HlCalMethod m)
+{
+  return m == HL_CAL_MARKER ? 3 : m == HL_CAL_TWO_POINT ? 2 : 0;
+}
+
+static void
+set_banner (GtkWidget *banner, const char *text)
+{
+  gtk_widget_set_visible (banner, text != NULL);
+  if (text != NULL)
+    gtk_label_set_text (GTK_LABEL (banner), text);
+}
+
+/* ---- Loading the image ----------------------------------------------------- */
+
+static void
+drop_underlay (HlRadiographPage *self)
+{
+  hl_canvas_set_underlay (self->window->canvas, NULL);
+  g_clear_pointer (&self->underlay, hl_underlay_free);
+}
+
+/* Loads the plan's image when its reference changed; says what is wrong
+ * when it cannot be used, and the plan goes on without it. */
+static void
+sync_underlay (HlRadiographPage *self)
+{
+  const HlRadiograph *rg = &plan_of (self)->radiograph;
+  if (self->benchmark)
+    return;
+  if (!rg->present)
+    {
+      drop_underlay (self);
+      g_clear_pointer (&self->loaded_path, g_free);
+      set_banner (self->image_banner, NULL);
+      return;
+    }
+  if (g_strcmp0 (self->loaded_path, rg->path) == 0)
+    return;
+  g_free (self->loaded_path);
+  self->loaded_path = g_strdup (rg->path);
+  drop_underlay (self);
+
+  char message[HL_IMAGE_PATH_MAX + 128];
+  HlImageCheck check = hl_image_verify (rg, message, sizeof message);
+  HlError err;
+  hl_error_clear (&err);
+  if (check == HL_IMAGE_MISSING || check == HL_IMAGE_UNREADABLE)
+    {
+      g_autofree char *text = g_strdup_printf (_("%s. The plan is shown without it; "
+                                                 "import the image again to see it."),
+                                               message);
+      set_banner (self->image_banner, text);
+      g_printerr ("hiplever: %s\n", message);
+      return;
+    }
+  self->underlay = hl_underlay_new_from_file (rg->path, &err);
+  if (self->underlay == NULL)
+    {
+      g_autofree char *text = g_strdup_printf (_("%s The plan is shown without it."),
+                                               err.message);
+      set_banner (self->image_banner, text);
+      g_printerr ("hiplever: %s\n", err.message);
+      return;
+    }
+  if (check == HL_IMAGE_CHANGED)
+    {
+      g_autofree char *text = g_strdup_printf (_("%s. Check that it is this patient's "
+                                                 "image before relying on the landmarks."),
+                                               message);
+      set_banner (self->image_banner, text);
+      g_printerr ("hiplever: %s\n", message);
+    }
+  else
+    set_banner (self->image_banner, NULL);
+  hl_canvas_set_underlay (self->window->canvas, self->underlay);
+}
+
+static void
+import_file (HlRadiographPage *self, const char *path)
+{
+  HlError err;
+  hl_error_clear (&err);
+  HlUnderlay *ul = hl_underlay_new_from_file (path, &err);
+  char hex[65];
+  if (ul == NULL || hl_file_sha256_hex (path, hex, &err) != HL_OK)
+    {
+      g_autofree char *msg = hl_window_format_error (&err);
+      hl_window_show_error (self->window, _("Could not import the image"), msg);
+      hl_underlay_free (ul);
+      return;
+    }
+  if (!hl_window_begin_edit (self->window, NULL))
+    {
+      hl_underlay_free (ul);
+      return;
+    }
+  HlPlan *plan = plan_of (self);
+  double spacing = plan->radiograph.present ? plan->radiograph.pixel_spacing_mm
+                                            : HL_PIXEL_SPACING_DEFAULT_MM;
+  g_autofree char *abs = g_canonicalize_filename (path, NULL);
+  hl_image_attach (plan, abs, hex, spacing, hl_underlay_get_width (ul),
+                   hl_underlay_get_height (ul));
+  drop_underlay (self);
+  self->underlay = ul;
+  g_free (self->loaded_path);
+  self->loaded_path = g_strdup (plan->radiograph.path);
+  hl_canvas_set_underlay (self->window->canvas, ul);
+  set_banner (self->image_banner, NULL);
+  hl_window_plan_edited (self->window);
+}
+
+static void
+chooser_response_cb (GtkNativeDialog *dialog, int response, HlRadiographPage *self)
+{
+  if (response == GTK_RESPONSE_ACCEPT)
+    {
+      g_autoptr (GFile) file = gtk_file_chooser_get_file (GTK_FILE_CHOOSER (dialog));
+      g_autofree char *path = file != NULL ? g_file_get_path (file) : NULL;
+      if (path != NULL)
+        import_file (self, path);
+    }
+  gtk_native_dialog_destroy (dialog);
+  g_clear_object (&self->chooser);
+}
+
+static void
+import_clicked_cb (GtkButton *button, HlRadiographPage *self)
+{
+  if (self->chooser != NULL)
+    return;
+  GtkFileChooserNative *chooser =
+    gtk_file_chooser_native_new (_("Import a radiograph"), GTK_WINDOW (self->window),
+                                 GTK_FILE_CHOOSER_ACTION_OPEN, _("_Import"), _("_Cancel"));
+  static const struct { const char *name; const char *patterns[3]; } filters[] = {
+    { N_("Radiographs (PNG, JPEG, TIFF)"), { "*.png", "*.jp*g", "*.tif*" } },
+    { N_("PNG images"), { "*.png", NULL, NULL } },
+    { N_("JPEG images"), { "*.jpg", "*.jpeg", NULL } },
+    { N_("TIFF images"), { "*.tif", "*.tiff", NULL } },
+  };
+  for (size_t i = 0; i < G_N_ELEMENTS (filters); i++)
+    {
+      g_autoptr (GtkFileFilter) f = gtk_file_filter_new ();
+      gtk_file_filter_set_name (f, _(filters[i].name));
+      for (int k = 0; k < 3 && filters[i].patterns[k] != NULL; k++)
+        gtk_file_filter_add_pattern (f, filters[i].patterns[k]);
+      gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), f);
+    }
+  self->chooser = GTK_NATIVE_DIALOG (chooser);
+  g_signal_connect_object (chooser, "response", G_CALLBACK (chooser_response_cb), self, 0);
+  gtk_native_dialog_show (self->chooser);
+}
+
+/* ---- Display and spacing --------------------------------------------------- */
+
+static gboolean
+edit (HlRadiographPage *self, const char *field)
+{
+  return self->syncing == 0 && plan_of (self)->radiograph.present
+         && hl_window_begin_edit (self->window, field);
+}
+
+static void
+scale_changed_cb (GtkRange *range, HlRadiographPage *self)
+{
+  const char *field = g_object_get_data (G_OBJECT (range), "hl-field");
+  if (!edit (self, field))
+    return;
+  HlRadiograph *rg = &plan_of (self)->radiograph;
+  double v = gtk_range_get_value (range);
+  if (GTK_WIDGET (range) == self->brightness_scale)
+    rg->brightness = v;
+  else if (GTK_WIDGET (range) == self->contrast_scale)
+    rg->contrast = v;
+  else
+    rg->opacity = v;
+  hl_window_plan_edited (self->window);
+}
+
+static void
+toggle_cb (GtkCheckButton *check, HlRadiographPage *self)
+{
+  if (!edit (self, NULL))
+    return;
+  HlRadiograph *rg = &plan_of (self)->radiograph;
+  gboolean on = gtk_check_button_get_active (check);
+  if (GTK_WIDGET (check) == self->invert_check)
+    rg->invert = on;
+  else
+    rg->schematic_visible = on;
+  hl_window_plan_edited (self->window);
+}
+
+static void
+spacing_changed_cb (GtkSpinButton *spin, HlRadiographPage *self)
+{
+  if (!edit (self, "radiograph-spacing"))
+    return;
+  HlError err;
+  hl_error_clear (&err);
+  if (hl_image_set_pixel_spacing (plan_of (self), gtk_spin_button_get_value (spin), &err)
+      != HL_OK)
+    {
+      g_autofree char *msg = hl_window_format_error (&err);
+      hl_window_show_error (self->window, _("The pixel spacing was not changed"), msg);
+    }
+  hl_window_plan_edited (self->window);
+}
+
+/* ---- Calibration ------------------------------------------------------------ */
+
+static void
+set_click_mode (HlRadiographPage *self)
+{
+  hl_canvas_set_click_placement (self->window->canvas, self->calibrating || self->guiding);
+}
+
+static void
+stop_calibrating (HlRadiographPage *self)
+{
+  self->calibrating = FALSE;
+  self->n_cal_points = 0;
+  set_click_mode (self);
+}
+
+/* Replaces the calibration (one undo step); landmarks keep their pixels. */
+static void
+apply_calibration (HlRadiographPage *self, const HlCalibration *cal, const char *field)
+{
+  if (!hl_window_begin_edit (self->window, field))
+    return;
+  HlPlan *plan = plan_of (self);
+  HlError err;
+  hl_error_clear (&err);
+  /* A marker still without its points gives no magnification yet: it is
+   * recorded as chosen and the assumed 1.20 stands until it is placed. */
+  if (hl_image_apply_calibration (plan, cal, &err) != HL_OK)
+    plan->calibration = *cal;
+  hl_window_plan_edited (self->window);
+}
+
+static void
+method_changed_cb (GtkDropDown *drop, GParamSpec *pspec, HlRadiographPage *self)
+{
+  if (self->syncing > 0)
+    return;
+  stop_calibrating (self);
+  HlCalibration cal = plan_of (self)->calibration;
+  cal.method = method_of_index (gtk_drop_down_get_selected (drop));
+  if (cal.n_points < points_needed (cal.method))
+    cal.n_points = 0;
+  apply_calibration (self, &cal, NULL);
+}
+
+static void
+size_changed_cb (GtkSpinButton *spin, HlRadiographPage *self)
+{
+  if (self->syncing > 0)
+    return;
+  HlCalibration cal = plan_of (self)->calibration;
+  double v = gtk_spin_button_get_value (spin);
+  if (cal.method == HL_CAL_MARKER)
+    cal.marker_diameter_mm = v;
+  else if (cal.method == HL_CAL_TWO_POINT)
+    cal.known_distance_mm = v;
+  else if (cal.method == HL_CAL_TYPED)
+    cal.magnification = v;
+  else
+    return;
+  apply_calibration (self, &cal, "calibration-size");
+}
+
+static void
+calibrate_clicked_cb (GtkButton *button, HlRadiographPage *self)
+{
+  HlCalMethod m = plan_of (self)->calibration.method;
+  if (self->calibrating || points_needed (m) == 0)
+    {
+      stop_calibrating (self);
+      hl_radiograph_page_plan_edited (self->window);
+      return;
+    }
+  self->guiding = FALSE;
+  self->calibrating = TRUE;
+  self->n_cal_points = 0;
+  set_click_mode (self);
+  hl_radiograph_page_plan_edited (self->window);
+}
+
+static void
+calibration_click (HlRadiographPage *self, double x, double y)
+{
+  HlPlan *plan = plan_of (self);
+  double m = hl_image_display_magnification (plan, NULL);
+  int need = points_needed (plan->calibration.method);
+  self->cal_points[self->n_cal_points++] =
+    hl_image_plan_to_image_mm (&plan->radiograph, m, (HlVec2) { x, y });
+  if (self->n_cal_points < need)
+    {
+      hl_radiograph_page_plan_edited (self->window);
+      return;
+    }
+  HlCalibration cal = plan->calibration;
+  cal.n_points = need;
+  memcpy (cal.points, self->cal_points, sizeof cal.points);
+  stop_calibrating (self);
+  HlError err;
+  hl_error_clear (&err);
+  if (hl_calibration_magnification (&cal, NULL, NULL, &err) != HL_OK)
+    {
+      g_autofree char *msg = hl_window_format_error (&err);
+      hl_window_show_error (self->window, _("The calibration was not changed"), msg);
+      hl_radiograph_page_plan_edited (self->window);
+      return;
+    }
+  apply_calibration (self, &cal, NULL);
+}
+
+/* ---- Guided placement ------------------------------------------------------- */
+
+static void
+guide_show (HlRadiographPage *self)
+{
+  gtk_widget_set_visible (self->guide_box, self->guiding);
+  gtk_button_set_label (GTK_BUTTON (self->guide_button),
+                        self->guide_index > 0 && self->guide_index < HL_LM_COUNT
+                        ? _("Resume placing landmarks") : _("Place landmarks step by step"));
+  if (!self->guiding)
+    return;
+  const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) self->guide_index);
+  g_autofree char *text =
+    g_strdup_printf (_("Step %d of %d. Click on the image: %s (%s).\n%s"),
+                     self->guide_index + 1, HL_LM_COUNT, _(info->label),
+                     info->required ? _("required") : _("optional"), _(info->hint));
+  gtk_label_set_text (GTK_LABEL (self->guide_label), text);
+  gtk_widget_set_sensitive (self->back_button, self->guide_index > 0);
+  hl_canvas_set_selected_landmark (self->window->canvas, self->guide_index);
+}
+
+static void
+guide_stop (HlRadiographPage *self)
+{
+  self->guiding = FALSE;
+  set_click_mode (self);
+  guide_show (self);
+}
+
+static void
+guide_advance (HlRadiographPage *self, int step)
+{
+  self->guide_index += step;
+  if (self->guide_index < 0)
+    self->guide_index = 0;
+  if (self->guide_index >= HL_LM_COUNT)
+    {
+      self->guide_index = 0;
+      guide_stop (self);
+      return;
+    }
+  guide_show (self);
+}
+
+static void
+guide_clicked_cb (GtkButton *button, HlRadiographPage *self)
+{
+  stop_calibrating (self);
+  self->guiding = TRUE;
+  set_click_mode (self);
+  guide_show (self);
+}
+
+static void
+skip_clicked_cb (GtkButton *button, HlRadiographPage *self)
+{
+  guide_advance (self, 1);
+}
+
+static void
+back_clicked_cb (GtkButton *button, HlRadiographPage *self)
+{
+  guide_advance (self, -1);
+}
+
+static void
+stop_clicked_cb (GtkButton *button, HlRadiographPage *self)
+{
+  guide_stop (self);
+}
+
+static void
+guide_click (HlRadiographPage *self, double x, double y)
+{
+  HlLandmarkId id = (HlLandmarkId) self->guide_index;
+  hl_undo_break (self->window->undo);
+  if (!hl_window_begin_edit (self->window, NULL))
+    return;
+  hl_landmarks_set (&plan_of (self)->landmarks, id, x, y);
+  hl_window_panel_sync_landmark (self->window, id);
+  hl_window_plan_edited (self->window);
+  guide_advance (self, 1);
+}
+
+static void
+plan_clicked_cb (HlCanvas *canvas, double x, double y, HlRadiographPage *self)
+{
+  if (self->calibrating)
+    calibration_click (self, x, y);
+  else if (self->guiding)
+    guide_click (self, x, y);
+}
+
+/* ---- Measures ------------------------------------------------------------------ */
+
+static GtkWidget *
+grid_label (const char *text, gboolean heading)
+{
+  GtkWidget *l = gtk_label_new (text);
+  gtk_label_set_xalign (GTK_LABEL (l), heading ? 0.0f : 1.0f);
+  gtk_widget_add_css_class (l, heading ? "heading" : "numeric");
+  return l;
+}
+
+typedef struct {
+  const char *label;  /* N_() */
+  size_t offset;
+  size_t diff_offset;
+} MeasureRow;
+
+static const MeasureRow measure_rows[] = {
+  { N_("Acetabular offset (mm)"), G_STRUCT_OFFSET (HlSideMeasures, acetabular_offset_mm),
+    G_STRUCT_OFFSET (HlMeasures, acetabular_offset_difference_mm) },
+  { N_("Femoral offset (mm)"), G_STRUCT_OFFSET (HlSideMeasures, femoral_offset_mm),
+    G_STRUCT_OFFSET (HlMeasures, femoral_offset_difference_mm) },
+  { N_("Global offset (mm)"), G_STRUCT_OFFSET (HlSideMeasures, global_offset_mm),
+    G_STRUCT_OFFSET (HlMeasures, global_offset_difference_mm) },
+  { N_("Hip centre height (mm)"), G_STRUCT_OFFSET (HlSideMeasures, hip_centre_height_mm),
+    G_STRUCT_OFFSET (HlMeasures, hip_centre_height_difference_mm) },
+  { N_("Leg length (mm)"), G_STRUCT_OFFSET (HlSideMeasures, leg_length_mm),
+    G_STRUCT_OFFSET (HlMeasures, leg_length_difference_mm) },
+};
+
+static char *
+format_mm (double v, gboolean signed_value)
+{
+  if (!isfinite (v))
+    return g_strdup ("—");
+  return g_strdup_printf (signed_value ? "%+.*f" : "%.*f", MEASURE_DECIMALS, v);
+}
+
+/* Rows: each measure for the operated side and, below it, its difference
+ * to the other side, the target (marked beyond DIFF_MARK_MM); columns:
+ * native, each option, the other side. */
+static void
+sync_measures (HlRadiographPage *self, gboolean *contradiction)
+{
+  HlPlan *plan = plan_of (self);
+  size_t n_cases = 1 + plan->n_options;
+  GtkGrid *grid = GTK_GRID (self->measures_grid);
+  GtkWidget *child;
+  while ((child = gtk_widget_get_first_child (self->measures_grid)) != NULL)
+    gtk_grid_remove (grid, child);
+
+  gtk_grid_attach (grid, grid_label ("", TRUE), 0, 0, 1, 1);
+  for (size_t i = 0; i < n_cases; i++)
+    gtk_grid_attach (grid, grid_label (i == 0 ? _("Native") : plan->options[i - 1].name, TRUE),
+                     1 + (int) i, 0, 1, 1);
+  gtk_grid_attach (grid, grid_label (_("Other side"), TRUE), 1 + (int) n_cases, 0, 1, 1);
+
+  *contradiction = FALSE;
+  for (size_t i = 0; i < n_cases; i++)
+    {
+      HlLandmarks lm;
+      HlMeasures ms;
+      if (i == 0)
+        lm = plan->landmarks;
+      else
+        hl_recon_landmarks (plan, &plan->options[i - 1].recon, &lm);
+      hl_measure (&lm, plan->side, &ms);
+      if (i == 0)
+        *contradiction = ms.side_contradiction;
+      for (size_t r = 0; r < G_N_ELEMENTS (measure_rows); r++)
+        {
+          int row = 1 + 2 * (int) r;
+          double v = G_STRUCT_MEMBER (double, &ms.operated, measure_rows[r].offset);
+          double d = G_STRUCT_MEMBER (double, &ms, measure_rows[r].diff_offset);
+          if (i == 0)
+            {
+              gtk_grid_attach (grid, grid_label (_(measure_rows[r].label), TRUE), 0, row, 1, 1);
+              GtkWidget *dl = grid_label (_("  difference to the other side"), TRUE);
+              gtk_widget_add_css_class (dl, "dim-label");
+              gtk_grid_attach (grid, dl, 0, row + 1, 1, 1);
+              g_autofree char *o = format_mm (G_STRUCT_MEMBER (double, &ms.other,
+                                                               measure_rows[r].offset), FALSE);
+              gtk_grid_attach (grid, grid_label (o, FALSE), 1 + (int) n_cases, row, 1, 1);
+            }
+          g_autofree char *vt = format_mm (v, FALSE);
+          g_autofree char *dt = format_mm (d, TRUE);
+          gtk_grid_attach (grid, grid_label (vt, FALSE), 1 + (int) i, row, 1, 1);
+          GtkWidget *dw = grid_label (dt, FALSE);
+          gtk_widget_add_css_class (dw, isfinite (d) && fabs (d) > DIFF_MARK_MM ? "warning"
+                                                                                : "accent");
+          gtk_grid_attach (grid, dw, 1 + (int) i, row + 1, 1, 1);
+        }
+    }
+}
+
+/* ---- Refreshing ------------------------------------------------------------------ */
+
+void
+hl_radiograph_page_plan_edited (HlWindow *window)
+{
+  HlRadiographPage *self = page_of (window);
+  if (self == NULL || window->disposing)
+    return;
+  HlPlan *plan = plan_of (self);
+  const HlRadiograph *rg = &plan->radiograph;
+  self->syncing++;
+
+  sync_underlay (self);
+  if (self->underlay != NULL)
+    hl_underlay_set_adjust (self->underlay, rg->brightness, rg->contrast, rg->invert);
+  hl_canvas_set_schematic_visible (window->canvas, !rg->present || rg->schematic_visible);
+
+  g_autofree char *base = rg->present ? g_path_get_basename (rg->path) : NULL;
+  g_autofree char *file_text = rg->present
+    ? g_strdup_printf (_("Image: %s"), base)
+    : g_strdup (_("No radiograph: the schematic alone. Image files should be "
+                  "anonymised before import."));
+  gtk_label_set_text (GTK_LABEL (self->file_label), file_text);
+  gtk_widget_set_sensitive (self->schematic_check, rg->present);
+  gtk_widget_set_sensitive (self->brightness_scale, rg->present);
+  gtk_widget_set_sensitive (self->contrast_scale, rg->present);
+  gtk_widget_set_sensitive (self->invert_check, rg->present);
+  gtk_widget_set_sensitive (self->opacity_scale, rg->present);
+  gtk_widget_set_sensitive (self->spacing_spin, rg->present);
+  gtk_widget_set_sensitive (self->guide_button, rg->present);
+  if (rg->present)
+    {
+      gtk_check_button_set_active (GTK_CHECK_BUTTON (self->schematic_check), rg->schematic_visible);
+      gtk_range_set_value (GTK_RANGE (self->brightness_scale), rg->brightness);
+      gtk_range_set_value (GTK_RANGE (self->contrast_scale), rg->contrast);
+      gtk_check_button_set_active (GTK_CHECK_BUTTON (self->invert_check), rg->invert);
+      gtk_range_set_value (GTK_RANGE (self->opacity_scale), rg->opacity);
+      gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->spacing_spin), rg->pixel_spacing_mm);
+    }
+
+  const HlCalibration *cal = &plan->calibration;
+  gtk_drop_down_set_selected (GTK_DROP_DOWN (self->method_drop), method_index (cal->method));
+  GtkSpinButton *size = GTK_SPIN_BUTTON (self->size_spin);
+  gtk_widget_set_visible (self->size_spin, cal->method != HL_CAL_ASSUMED);
+  gtk_widget_set_visible (self->size_label, cal->method != HL_CAL_ASSUMED);
+  if (cal->method == HL_CAL_MARKER)
+    {
+      gtk_label_set_text (GTK_LABEL (self->size_label), _("Marker diameter (mm)"));
+      gtk_spin_button_set_range (size, 1.0, DIAMETER_MAX_MM);
+      gtk_spin_button_set_value (size, cal->marker_diameter_mm);
+    }
+  else if (cal->method == HL_CAL_TWO_POINT)
+    {
+      gtk_label_set_text (GTK_LABEL (self->size_label), _("Known distance (mm)"));
+      gtk_spin_button_set_range (size, 1.0, DISTANCE_MAX_MM);
+      gtk_spin_button_set_value (size, cal->known_distance_mm);
+    }
+  else if (cal->method == HL_CAL_TYPED)
+    {
+      gtk_label_set_text (GTK_LABEL (self->size_label), _("Magnification factor"));
+      gtk_spin_button_set_range (size, HL_MAGNIFICATION_MIN, HL_MAGNIFICATION_MAX);
+      gtk_spin_button_set_value (size, cal->magnification);
+    }
+  int need = points_needed (cal->method);
+  gtk_widget_set_visible (self->calibrate_button, need > 0);
+  gtk_widget_set_sensitive (self->calibrate_button, rg->present);
+  gtk_button_set_label (GTK_BUTTON (self->calibrate_button),
+                        self->calibrating ? _("Stop calibrating") : _("Calibrate on the image"));
+  if (self->calibrating)
+    {
+      g_autofree char *t = g_strdup_printf (
+        cal->method == HL_CAL_MARKER ? _("Click point %d of %d on the edge of the marker.")
+                                     : _("Click point %d of %d: the ends of the known distance."),
+        self->n_cal_points + 1, need);
+      gtk_label_set_text (GTK_LABEL (self->calibrate_label), t);
+    }
+  gtk_widget_set_visible (self->calibrate_label, self->calibrating);
+
+  bool assumed;
+  double m;
+  HlError err;
+  hl_error_clear (&err);
+  g_autofree char *mag = NULL;
+  if (hl_calibration_magnification (cal, &m, &assumed, &err) == HL_OK)
+    mag = assumed
+      ? g_strdup_printf (_("Magnification %.2f: assumed, not calibrated (mean AP pelvis "
+                           "magnification, Brew et al. 2012, J Arthroplasty 27:643-647)"), m)
+      : g_strdup_printf (_("Magnification %.*f (measured / true), calibrated"),
+                         MAGNIFICATION_DECIMALS, m);
+  else
+    mag = g_strdup_printf (_("Not calibrated yet (%s): the assumed %.2f is used, "
+                             "not calibrated"), err.message, HL_MAGNIFICATION_ASSUMED);
+  gtk_label_set_text (GTK_LABEL (self->magnification_label), mag);
+
+  gboolean contradiction;
+  sync_measures (self, &contradiction);
+  set_banner (self->side_banner, contradiction
+              ? _("The landmarks contradict the operated side: the operated hip centre lies "
+                  "on the other side of the midline. Check the operated side (Case page) and "
+                  "the landmarks.")
+              : NULL);
+  guide_show (self);
+  self->syncing--;
+}
+
+/* ---- Test hooks -------------------------------------------------------------------- */
+
+static void
+print_widget (HlWindow *window, const char *name, GtkWidget *widget)
+{
+  graphene_point_t in = GRAPHENE_POINT_INIT (gtk_widget_get_width (widget) / 2.0f,
+                                             gtk_widget_get_height (widget) / 2.0f);
+  graphene_point_t out;
+  double tx, ty;
+  if (!gtk_widget_get_mapped (widget)
+      || !gtk_widget_compute_point (widget, GTK_WIDGET (window), &in, &out))
+    return;
+  gtk_native_get_surface_transform (GTK_NATIVE (window), &tx, &ty);
+  printf ("WIDGET %s %.0f %.0f\n", name, out.x + tx, out.y + ty);
+}
+
+void
+hl_radiograph_page_print_handles (HlWindow *window)
+{
+  HlRadiographPage *self = page_of (window);
+  if (self == NULL)
+    return;
+  GtkWidget *switcher = gtk_widget_get_prev_sibling (GTK_WIDGET (window->panel_stack));
+  GtkWidget *parent = gtk_widget_get_parent (GTK_WIDGET (self));
+  int n = 0;
+  for (GtkWidget *c = switcher != NULL ? gtk_widget_get_first_child (switcher) : NULL; c != NULL;
+       c = gtk_widget_get_next_sibling (c), n++)
+    if (n == 4)
+      print_widget (window, "page-radiograph", c);
+  (void) parent;
+  print_widget (window, "radiograph-calibrate", self->calibrate_button);
+  print_widget (window, "radiograph-guide", self->guide_button);
+  print_widget (window, "radiograph-skip", self->skip_button);
+  print_widget (window, "radiograph-stop", self->stop_button);
+
+  graphene_point_t in = GRAPHENE_POINT_INIT (0, 0), out;
+  double tx, ty, scale, vx, vy;
+  if (gtk_widget_compute_point (GTK_WIDGET (window->canvas), GTK_WIDGET (window), &in, &out))
+    {
+      gtk_native_get_surface_transform (GTK_NATIVE (window), &tx, &ty);
+      hl_canvas_get_view (window->canvas, &scale, &vx, &vy);
+      printf ("VIEW %.9g %.9g %.9g %.9g %.9g\n", scale, vx, vy, out.x + tx, out.y + ty);
+    }
+  const HlPlan *plan = window->plan;
+  if (plan->radiograph.present)
+    {
+      double m = hl_image_display_magnification (plan, NULL);
+      printf ("RADIOGRAPH %.9g %.9g %.9g %.9g\n", plan->radiograph.origin_mm.x,
+              plan->radiograph.origin_mm.y, hl_image_plan_mm_per_pixel (&plan->radiograph, m),
+              m);
+    }
+}
+
+static gboolean
+test_import_cb (gpointer data)
+{
+  HlRadiographPage *self = data;
+  const char *path = g_getenv ("HIPLEVER_TEST_UNDERLAY");
+  if (path != NULL && path[0] != '\0')
+    import_file (self, path);
+  return G_SOURCE_REMOVE;
+}
+
+/* ---- Benchmark ------------------------------------------------------------------------ */
+
+typedef struct {
+  HlRadiographPage *self;
+  GdkFrameClock *clock;
+  gulong before_id, after_id;
+  gint64 paint_start_us;
+  GArray *paint_ms;
+  int frame;
+} Bench;
+
+static int
+compare_double (const void *a, const void *b)
+{
+  double x = *(const double *) a, y = *(const double *) b;
+  return (x > y) - (x < y);
+}
+
+static double
+quantile (GArray *a, double q)
+{
+  if (a->len == 0)
+    return NAN;
+  qsort (a->data, a->len, sizeof (double), compare_double);
+  size_t i = (size_t) floor (q * (a->len - 1) + 0.5);
+  return g_array_index (a, double, i);
+}
+
+static void
+bench_before_cb (GdkFrameClock *clock, Bench *b)
+{
+  b->paint_start_us = g_get_monotonic_time ();
+}
+
+static void
+bench_after_cb (GdkFrameClock *clock, Bench *b)
+{
+  double ms = (g_get_monotonic_time () - b->paint_start_us) / 1000.0;
+  if (b->frame > 1)
+    g_array_append_val (b->paint_ms, ms);
+}
+
+static gboolean
+bench_tick_cb (GtkWidget *widget, GdkFrameClock *clock, gpointer data)
+{
+  Bench *b = data;
+  HlCanvas *canvas = b->self->window->canvas;
+  if (b->frame == 0)
+    {
+      b->clock = clock;
+      b->before_id = g_signal_connect (clock, "before-paint", G_CALLBACK (bench_before_cb), b);
+      b->after_id = g_signal_connect (clock, "after-paint", G_CALLBACK (bench_after_cb), b);
+    }
+  if (b->frame >= BENCH_FRAMES)
+    {
+      printf ("benchmark-underlay: %d x %d image, %d frames of pan and zoom, canvas %d x %d\n",
+              BENCH_SIDE, BENCH_SIDE, BENCH_FRAMES, gtk_widget_get_width (GTK_WIDGET (canvas)),
+              gtk_widget_get_height (GTK_WIDGET (canvas)));
+      printf ("paint per frame: median %.2f ms, p95 %.2f ms (target median <= 8 ms)\n",
+              quantile (b->paint_ms, 0.5), quantile (b->paint_ms, BENCH_P95));
+      fflush (stdout);
+      g_signal_handler_disconnect (b->clock, b->before_id);
+      g_signal_handler_disconnect (b->clock, b->after_id);
+      g_array_unref (b->paint_ms);
+      GtkApplication *app = gtk_window_get_application (GTK_WINDOW (b->self->window));
+      g_free (b);
+      g_application_quit (G_APPLICATION (app));
+      return G_SOURCE_REMOVE;
+    }
+  /* Zoom in for the first half, out for the second, panning throughout. */
+  int half = BENCH_FRAMES / 2;
+  hl_canvas_zoom_by (canvas, b->frame < half ? BENCH_ZOOM_STEP : 1.0 / BENCH_ZOOM_STEP);
+  hl_canvas_pan_by (canvas, (b->frame % 40 < 20 ? 1.0 : -1.0) * BENCH_PAN_PX, BENCH_PAN_PX / 2);
+  b->frame++;
+  return G_SOURCE_CONTINUE;
+}
+
+/* A generated image: smooth shading with fine detail, so that no
+ * resampling can take a short cut on flat areas. */
+static cairo_surface_t *
+bench_image (void)
+{
+  cairo_surface_t *s = cairo_image_surface_create (CAIRO_FORMAT_RGB24, BENCH_SIDE, BENCH_SIDE);
+  cairo_surface_flush (s);
+  unsigned char *data = cairo_image_surface_get_data (s);
+  int stride = cairo_image_surface_get_stride (s);
+  for (int y = 0; y < BENCH_SIDE; y++)
+    {
+      guint32 *row = (guint32 *) (data + (gsize) y * stride);
+      for (int x = 0; x < BENCH_SIDE; x++)
+        {
+          guint v = (guint) ((x * 255) / BENCH_SIDE + ((x ^ y) & 31)) & 0xff;
+          row[x] = (v << 16) | (v << 8) | v;
+        }
+    }
+  cairo_surface_mark_dirty (s);
+  return s;
+}
+
+static gboolean
+bench_start_cb (gpointer data)
+{
+  HlRadiographPage *self = data;
+  cairo_surface_t *img = bench_image ();
+  HlPlan *plan = plan_of (self);
+  self->benchmark = TRUE;
+  drop_underlay (self);
+  self->underlay = hl_underlay_new_from_surface (img);
+  cairo_surface_destroy (img);
+  hl_image_attach (plan, "benchmark.png", NULL, HL_PIXEL_SPACING_DEFAULT_MM, BENCH_SIDE,
+                   BENCH_SIDE);
+  hl_canvas_set_underlay (self->window->canvas, self->underlay);
+  hl_window_plan_edited (self->window);
+  hl_canvas_fit (self->window->canvas);
+  Bench *b = g_new0 (Bench, 1);
+  b->self = self;
+  b->paint_ms = g_array_new (FALSE, FALSE, sizeof (double));
+  gtk_widget_add_tick_callback (GTK_WIDGET (self->window->canvas), bench_tick_cb, b, NULL);
+  return G_SOURCE_REMOVE;
+}
+
+/* ---- Building ----------------------------------------------------------------------------- */
+
+static GtkWidget *
+heading (const char *text)
+{
+  GtkWidget *l = gtk_label_new (text);
+  gtk_label_set_xalign (GTK_LABEL (l), 0.0f);
+  gtk_widget_add_css_class (l, "heading");
+  gtk_widget_set_margin_top (l, PAGE_SPACING);
+  return l;
+}
+
+static GtkWidget *
+wrap_label (const char *text)
+{
+  GtkWidget *l = gtk_label_new (text);
+  gtk_label_set_wrap (GTK_LABEL (l), TRUE);
+  gtk_label_set_xalign (GTK_LABEL (l), 0.0f);
+  gtk_label_set_max_width_chars (GTK_LABEL (l), 40);
+  return l;
+}
+
+static GtkWidget *
+add_scale (HlRadiographPage *self, GtkWidget *box, const char *label, double lo, double hi,
+           double step, const char *field)
+{
+  GtkWidget *row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
+  GtkWidget *l = gtk_label_new (label);
+  gtk_label_set_xalign (GTK_LABEL (l), 0.0f);
+  gtk_widget_set_size_request (l, 80, -1);
+  GtkWidget *s = gtk_scale_new_with_range (GTK_ORIENTATION_HORIZONTAL, lo, hi, step);
+  gtk_widget_set_hexpand (s, TRUE);
+  gtk_scale_set_draw_value (GTK_SCALE (s), TRUE);
+  gtk_scale_set_digits (GTK_SCALE (s), 2);
+  gtk_accessible_update_property (GTK_ACCESSIBLE (s), GTK_ACCESSIBLE_PROPERTY_LABEL, label, -1);
+  g_object_set_data (G_OBJECT (s), "hl-field", (gpointer) field);
+  g_signal_connect_object (s, "value-changed", G_CALLBACK (scale_changed_cb), self, 0);
+  gtk_box_append (GTK_BOX (row), l);
+  gtk_box_append (GTK_BOX (row), s);
+  gtk_box_append (GTK_BOX (box), row);
+  return s;
+}
+
+static void
+hl_radiograph_page_dispose (GObject *object)
+{
+  HlRadiographPage *self = HL_RADIOGRAPH_PAGE (object);
+  if (self->chooser != NULL)
+    {
+      gtk_native_dialog_destroy (self->chooser);
+      g_clear_object (&self->chooser);
+    }
+  G_OBJECT_CLASS (hl_radiograph_page_parent_class)->dispose (object);
+}
+
+static void
+hl_radiograph_page_finalize (GObject *object)
+{
+  HlRadiographPage *self = HL_RADIOGRAPH_PAGE (object);
+  /* The canvas borrowed the underlay; the window is going: it is not drawn
+   * again. */
+  g_clear_pointer (&self->underlay, hl_underlay_free);
+  g_free (self->loaded_path);
+  G_OBJECT_CLASS (hl_radiograph_page_parent_class)->finalize (object);
+}
+
+static void
+hl_radiograph_page_class_init (HlRadiographPageClass *klass)
+{
+  G_OBJECT_CLASS (klass)->dispose = hl_radiograph_page_dispose;
+  G_OBJECT_CLASS (klass)->finalize = hl_radiograph_page_finalize;
+}
+
+static void
+hl_radiograph_page_init (HlRadiographPage *self)
+{
+  self->guide_index = 0;
+}
+
+static GtkWidget *
+build (HlRadiographPage *self)
+{
+  GtkWidget *box = GTK_WIDGET (self);
+  gtk_orientable_set_orientation (GTK_ORIENTABLE (self), GTK_ORIENTATION_VERTICAL);
+  gtk_box_set_spacing (GTK_BOX (self), PAGE_SPACING);
+  gtk_widget_set_margin_start (box, 2 * PAGE_SPACING);
+  gtk_widget_set_margin_end (box, 2 * PAGE_SPACING);
+  gtk_widget_set_margin_top (box, 2 * PAGE_SPACING);
+  gtk_widget_set_margin_bottom (box, 2 * PAGE_SPACING);
+
+  self->image_banner = wrap_label ("");
+  gtk_widget_add_css_class (self->image_banner, "error");
+  gtk_widget_set_visible (self->image_banner, FALSE);
+  gtk_box_append (GTK_BOX (box), self->image_banner);
+  self->side_banner = wrap_label ("");
+  gtk_widget_add_css_class (self->side_banner, "warning");
+  gtk_widget_set_visible (self->side_banner, FALSE);
+  gtk_box_append (GTK_BOX (box), self->side_banner);
+
+  self->import_button = gtk_button_new_with_mnemonic (_("_Import radiograph…"));
+  g_signal_connect_object (self->import_button, "clicked", G_CALLBACK (import_clicked_cb), self, 0);
+  gtk_box_append (GTK_BOX (box), self->import_button);
+  self->file_label = wrap_label ("");
+  gtk_box_append (GTK_BOX (box), self->file_label);
+
+  gtk_box_append (GTK_BOX (box), heading (_("Display")));
+  self->schematic_check = gtk_check_button_new_with_label (_("Show the schematic drawing"));
+  g_signal_connect_object (self->schematic_check, "toggled", G_CALLBACK (toggle_cb), self, 0);
+  gtk_box_append (GTK_BOX (box), self->schematic_check);
+  self->brightness_scale = add_scale (self, box, _("Brightness"), HL_IMAGE_BRIGHTNESS_MIN,
+                                      HL_IMAGE_BRIGHTNESS_MAX, 0.05, "radiograph-brightness");
+  self->contrast_scale = add_scale (self, box, _("Contrast"), HL_IMAGE_CONTRAST_MIN,
+                                    HL_IMAGE_CONTRAST_MAX, 0.05, "radiograph-contrast");
+  self->opacity_scale = add_scale (self, box, _("Opacity"), 0.0, 1.0, 0.05, "radiograph-opacity");
+  self->invert_check = gtk_check_button_new_with_label (_("Invert (bone dark)"));
+  g_signal_connect_object (self->invert_check, "toggled", G_CALLBACK (toggle_cb), self, 0);
+  gtk_box_append (GTK_BOX (box), self->invert_check);
+
+  GtkWidget *row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
+  GtkWidget *l = wrap_label (_("Pixel spacing (image mm per pixel; 0.1 is an assumption, "
+                               "type the detector's value)"));
+  gtk_widget_set_hexpand (l, TRUE);
+  self->spacing_spin = gtk_spin_button_new_with_range (HL_PIXEL_SPACING_MIN_MM,
+                                                       HL_PIXEL_SPACING_MAX_MM, 0.001);
+  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->spacing_spin), 4);
+  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->spacing_spin), HL_PIXEL_SPACING_DEFAULT_MM);
+  g_signal_connect_object (self->spacing_spin, "value-changed", G_CALLBACK (spacing_changed_cb),
+                           self, 0);
+  gtk_box_append (GTK_BOX (row), l);
+  gtk_box_append (GTK_BOX (row), self->spacing_spin);
+  gtk_box_append (GTK_BOX (box), row);
+
+  gtk_box_append (GTK_BOX (box), heading (_("Calibration")));
+  static const char *const methods[N_METHODS + 1] = {
+    N_("None: assumed 1.20, not calibrated"), N_("Marker of known diameter"),
+    N_("Two points a known distance apart"), N_("Typed magnification factor"), NULL,
+  };
+  const char *translated[N_METHODS + 1];
+  for (int i = 0; i < N_METHODS; i++)
+    translated[i] = _(methods[i]);
+  translated[N_METHODS] = NULL;
+  self->method_drop = gtk_drop_down_new_from_strings (translated);
+  g_signal_connect_object (self->method_drop, "notify::selected", G_CALLBACK (method_changed_cb),
+                           self, 0);
+  gtk_box_append (GTK_BOX (box), self->method_drop);
+  row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
+  self->size_label = gtk_label_new ("");
+  gtk_widget_set_hexpand (self->size_label, TRUE);
+  gtk_label_set_xalign (GTK_LABEL (self->size_label), 0.0f);
+  self->size_spin = gtk_spin_button_new_with_range (1.0, DIAMETER_MAX_MM, 0.1);
+  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->size_spin), 3);
+  g_signal_connect_object (self->size_spin, "value-changed", G_CALLBACK (size_changed_cb), self, 0);
+  gtk_box_append (GTK_BOX (row), self->size_label);
+  gtk_box_append (GTK_BOX (row), self->size_spin);
+  gtk_box_append (GTK_BOX (box), row);
+  self->calibrate_button = gtk_button_new_with_label (_("Calibrate on the image"));
+  g_signal_connect_object (self->calibrate_button, "clicked", G_CALLBACK (calibrate_clicked_cb),
+                           self, 0);
+  gtk_box_append (GTK_BOX (box), self->calibrate_button);
+  self->calibrate_label = wrap_label ("");
+  gtk_box_append (GTK_BOX (box), self->calibrate_label);
+  self->magnification_label = wrap_label ("");
+  gtk_box_append (GTK_BOX (box), self->magnification_label);
+
+  gtk_box_append (GTK_BOX (box), heading (_("Landmarks")));
+  self->guide_button = gtk_button_new_with_label (_("Place landmarks step by step"));
+  g_signal_connect_object (self->guide_button, "clicked", G_CALLBACK (guide_clicked_cb), self, 0);
+  gtk_box_append (GTK_BOX (box), self->guide_button);
+  self->guide_box = gtk_box_new (GTK_ORIENTATION_VERTICAL, PAGE_SPACING);
+  self->guide_label = wrap_label ("");
+  gtk_box_append (GTK_BOX (self->guide_box), self->guide_label);
+  row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
+  self->back_button = gtk_button_new_with_label (_("Back"));
+  self->skip_button = gtk_button_new_with_label (_("Skip"));
+  self->stop_button = gtk_button_new_with_label (_("Stop"));
+  g_signal_connect_object (self->back_button, "clicked", G_CALLBACK (back_clicked_cb), self, 0);
+  g_signal_connect_object (self->skip_button, "clicked", G_CALLBACK (skip_clicked_cb), self, 0);
+  g_signal_connect_object (self->stop_button, "clicked", G_CALLBACK (stop_clicked_cb), self, 0);
+  gtk_box_append (GTK_BOX (row), self->back_button);
+  gtk_box_append (GTK_BOX (row), self->skip_button);
+  gtk_box_append (GTK_BOX (row), self->stop_button);
+  gtk_box_append (GTK_BOX (self->guide_box), row);
+  gtk_widget_set_visible (self->guide_box, FALSE);
+  gtk_box_append (GTK_BOX (box), self->guide_box);
+
+  gtk_box_append (GTK_BOX (box), heading (_("Radiographic measures")));
+  gtk_box_append (GTK_BOX (box),
+                  wrap_label (_("Operated side for native and each option; the difference "
+                                "to the other side is the target (0), marked beyond 5 mm.")));
+  self->measures_grid = gtk_grid_new ();
+  gtk_grid_set_column_spacing (GTK_GRID (self->measures_grid), 2 * PAGE_SPACING);
+  gtk_grid_set_row_spacing (GTK_GRID (self->measures_grid), 2);
+  GtkWidget *hscroll = gtk_scrolled_window_new ();
+  gtk_scrolled_window_set_policy (GTK_SCROLLED_WINDOW (hscroll), GTK_POLICY_AUTOMATIC,
+                                  GTK_POLICY_NEVER);
+  gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (hscroll), self->measures_grid);
+  gtk_box_append (GTK_BOX (box), hscroll);
+  gtk_box_append (GTK_BOX (box), wrap_label (hl_caution_short ()));
+
+  GtkWidget *scroll = gtk_scrolled_window_new ();
+  gtk_scrolled_window_set_policy (GTK_SCROLLED_WINDOW (scroll), GTK_POLICY_NEVER,
+                                  GTK_POLICY_AUTOMATIC);
+  gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (scroll), box);
+  return scroll;
+}
+
+void
+hl_radiograph_page_attach (HlWindow *window)
+{
+  HlRadiographPage *self = g_object_new (HL_TYPE_RADIOGRAPH_PAGE, NULL);
+  self->window = window;
+  GtkWidget *scroll = build (self);
+  gtk_stack_add_titled (window->panel_stack, scroll, PAGE_NAME, _("Radiograph"));
+  g_object_set_data (G_OBJECT (window), PAGE_KEY, self);
+  g_signal_connect_object (window->canvas, "plan-clicked", G_CALLBACK (plan_clicked_cb), self, 0);
+  if (g_getenv ("HIPLEVER_TEST_UNDERLAY") != NULL)
+    g_idle_add_full (G_PRIORITY_DEFAULT_IDLE, test_import_cb, g_object_ref (self), g_object_unref);
+  if (g_strcmp0 (g_getenv ("HIPLEVER_BENCHMARK_UNDERLAY"), "1") == 0)
+    g_idle_add_full (G_PRIORITY_DEFAULT_IDLE, bench_start_cb, g_object_ref (self), g_object_unref);
+}

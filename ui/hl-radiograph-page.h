@@ -1,0 +1,50 @@
+/* hl-radiograph-page.h: the side panel's "Radiograph" page.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Import of the patient's radiograph (PNG, JPEG, TIFF) under the
+ * schematic, its display (brightness, contrast, invert, opacity, the
+ * schematic shown or not), the pixel spacing, the calibration (a marker
+ * of known diameter, two points a known distance apart, a typed factor,
+ * or none: the assumed 1.20, said so), a calibrate mode in which the next
+ * clicks on the canvas place the calibration points, the guided placement
+ * of the landmarks one by one, and the radiographic measures of native and
+ * every option beside the other side.
+ *
+ * Every edit goes through the window (an undo step, then the one
+ * recompute path); the page computes nothing itself, it calls the core.
+ *
+ * Test hooks (environment):
+ *  - HIPLEVER_TEST_UNDERLAY=FILE imports FILE at start-up as if chosen in
+ *    the file chooser;
+ *  - HIPLEVER_BENCHMARK_UNDERLAY=1 pans and zooms over a generated
+ *    4000 x 4000 image, prints the median and 95th percentile frame times
+ *    and quits (hl_radiograph_page_run_benchmark).
+ */
+#pragma once
+
+#include <gtk/gtk.h>
+#include "hl-window.h"
+
+G_BEGIN_DECLS
+
+#define HL_TYPE_RADIOGRAPH_PAGE (hl_radiograph_page_get_type ())
+G_DECLARE_FINAL_TYPE (HlRadiographPage, hl_radiograph_page, HL, RADIOGRAPH_PAGE, GtkBox)
+
+/* Builds the page, adds it to the window's side panel as "radiograph" and
+ * connects it to the canvas.  Called once from the window's init. */
+void hl_radiograph_page_attach (HlWindow *window);
+
+/* From hl_window_plan_edited: refreshes the page, reloads the image when
+ * the plan's reference changed (a plan opened, an undo) and reports a
+ * moved or changed image. */
+void hl_radiograph_page_plan_edited (HlWindow *window);
+
+/* From the handle printer (HIPLEVER_TEST_PRINT_HANDLES): WIDGET lines for
+ * the page's controls and "VIEW scale tx ty x0 y0" (the canvas view and
+ * the canvas's top-left corner in window surface coordinates) and
+ * "RADIOGRAPH origin-x origin-y mm-per-pixel magnification". */
+void hl_radiograph_page_print_handles (HlWindow *window);
+
+G_END_DECLS
