@@ -13,7 +13,8 @@ cd "$here"
 
 packages="gcc pkg-config python3 meson ninja-build libgtk-4-dev libxml2-dev
 libxml2-utils check libgsl-dev gettext xvfb xauth xdotool dbus-x11
-poppler-utils imagemagick locales desktop-file-utils appstream"
+poppler-utils imagemagick locales desktop-file-utils appstream libgtk-4-bin
+valgrind clang libclang-rt-14-dev bsdutils"
 
 if [ "$(id -u)" -eq 0 ]; then sudo=""; else sudo="sudo"; fi
 
