@@ -115,12 +115,19 @@ typedef struct {
   size_t base_size;
 } Env;
 
+typedef enum {
+  HL_FILE_WRITTEN = 0,  /* written by `make` into the temporary folder */
+  HL_FILE_FIFO,         /* a named pipe with no writer: must not hang */
+  HL_FILE_SYSTEM,       /* `file` is an absolute path such as /dev/zero */
+} HlFileKind;
+
 typedef struct {
   const char *file;                 /* name in the temporary folder */
   void (*make) (FILE *f, const Env *env);
   HlLoadWay way;
   HlExpect expect;
   const char *words[3];             /* the message names the problem */
+  HlFileKind kind;
 } HostileCase;
 
 /* What the child reports. */
@@ -570,6 +577,12 @@ static const HostileCase cases[] = {
     { "well-formed", "XML", NULL } },
   { "truncated-utf8.hlplan", make_truncated_utf8, HL_LOAD_FILE, HL_MUST_REFUSE,
     { "well-formed", "UTF-8", "encoding" } },
+  { "fifo.hlplan", NULL, HL_LOAD_FILE, HL_MUST_REFUSE, { "regular file", NULL, NULL },
+    HL_FILE_FIFO },
+  { "/dev/zero", NULL, HL_LOAD_FILE, HL_MUST_REFUSE, { "regular file", NULL, NULL },
+    HL_FILE_SYSTEM },
+  { "/dev/urandom", NULL, HL_LOAD_FILE, HL_MUST_REFUSE, { "regular file", NULL, NULL },
+    HL_FILE_SYSTEM },
   { "utf16-bom.hlplan", make_utf16_bom, HL_LOAD_FILE, HL_REFUSE_OR_SAME,
     { "UTF-16", "encoding", NULL } },
   { "utf16-no-bom.hlplan", make_utf16_no_bom, HL_LOAD_FILE, HL_REFUSE_OR_SAME,
@@ -638,11 +651,12 @@ env_init (Env *env)
 }
 
 static void
-env_clear (Env *env, const char *file)
+env_clear (Env *env, const HostileCase *c)
 {
   char path[HL_PATH_MAX];
-  snprintf (path, sizeof path, "%s/%.200s", env->dir, file);
-  unlink (path);
+  snprintf (path, sizeof path, "%s/%.200s", env->dir, c->file);
+  if (c->kind != HL_FILE_SYSTEM)
+    unlink (path);
   unlink (env->secret);
   rmdir (env->dir);
   free (env->base);
@@ -753,10 +767,17 @@ START_TEST (test_hostile_file)
 
   char path[HL_PATH_MAX];
   snprintf (path, sizeof path, "%s/%.200s", env.dir, c->file);
-  FILE *f = fopen (path, "wb");
-  ck_assert_ptr_nonnull (f);
-  c->make (f, &env);
-  ck_assert_int_eq (fclose (f), 0);
+  if (c->kind == HL_FILE_SYSTEM)
+    snprintf (path, sizeof path, "%s", c->file);
+  else if (c->kind == HL_FILE_FIFO)
+    ck_assert_int_eq (mkfifo (path, 0600), 0);
+  else
+    {
+      FILE *f = fopen (path, "wb");
+      ck_assert_ptr_nonnull (f);
+      c->make (f, &env);
+      ck_assert_int_eq (fclose (f), 0);
+    }
 
   int watch = inotify_init1 (IN_NONBLOCK | IN_CLOEXEC);
   ck_assert_int_ge (watch, 0);
@@ -827,7 +848,7 @@ START_TEST (test_hostile_file)
       ck_assert_msg (named, "%s: the message does not say what is wrong (%s): %s",
                      c->file, c->words[0], o.err.message);
     }
-  env_clear (&env, c->file);
+  env_clear (&env, c);
 }
 END_TEST
 
