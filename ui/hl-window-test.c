@@ -9,7 +9,7 @@
  * `xdotool mousemove --window`):
  *   HANDLE <landmark-key> <x> <y>   placed landmarks of the native hip
  *   WIDGET <name> <x> <y>           centres of the controls tests click
- *                                   (page-*, cane-check, add-option,
+ *                                   (page-<name>, cane-check, add-option,
  *                                   mass-spin, lm-x-<key>, lm-y-<key>)
  *   SELECTED <canvas> <table>       the landmark selected in each, or none
  *   FRAME <n>                       ends each block
@@ -99,7 +99,7 @@ print_widget (HlWindow *self, const char *name, GtkWidget *widget)
 void
 hl_window_print_handles (HlWindow *self)
 {
-  static const char *pages[] = { "page-case", "page-landmarks", "page-options", "page-aids" };
+  g_autoptr(GListModel) pages = G_LIST_MODEL (gtk_stack_get_pages (self->panel_stack));
   const HlLandmarks *lm = &self->plan->landmarks;
   GtkWidget *switcher = gtk_widget_get_prev_sibling (GTK_WIDGET (self->panel_stack));
   GtkWidget *child;
@@ -115,10 +115,17 @@ hl_window_print_handles (HlWindow *self)
         continue;
       printf ("HANDLE %s %.0f %.0f\n", hl_landmark_info ((HlLandmarkId) i)->key, x, y);
     }
+  /* The switcher has one button per page, in the pages' order. */
   for (child = switcher != NULL ? gtk_widget_get_first_child (switcher) : NULL;
-       child != NULL && page < G_N_ELEMENTS (pages);
+       child != NULL && page < g_list_model_get_n_items (pages);
        child = gtk_widget_get_next_sibling (child), page++)
-    print_widget (self, pages[page], child);
+    {
+      g_autoptr(GObject) item = g_list_model_get_item (pages, page);
+      g_autofree char *name = g_strdup_printf ("page-%s",
+                                               gtk_stack_page_get_name (GTK_STACK_PAGE (item)));
+
+      print_widget (self, name, child);
+    }
   print_widget (self, "canvas", GTK_WIDGET (self->canvas));
   print_widget (self, "cane-check", GTK_WIDGET (self->cane_check));
   print_widget (self, "add-option", GTK_WIDGET (self->add_option_button));
