@@ -594,7 +594,6 @@ recon_param_cb (GtkSpinButton *spin, gpointer user_data)
   field = g_strdup_printf ("option %d %s", self->selected_option, param->key);
   if (!hl_window_begin_edit (self, field))
     return;
-  target = (double *) ((char *) &selected_option (self)->recon + param->offset);
   *target = value;
   hl_window_plan_edited (self);
 }

@@ -10,7 +10,9 @@
  *   HANDLE <landmark-key> <x> <y>   placed landmarks of the native hip
  *   WIDGET <name> <x> <y>           centres of the controls tests click
  *                                   (page-<name>, cane-check, add-option,
- *                                   mass-spin, lm-x-<key>, lm-y-<key>)
+ *                                   duplicate-option, remove-option,
+ *                                   option-name, mass-spin, lm-x-<key>,
+ *                                   lm-y-<key>)
  *   SELECTED <canvas> <table>       the landmark selected in each, or none
  *   FRAME <n>                       ends each block
  */
@@ -129,6 +131,9 @@ hl_window_print_handles (HlWindow *self)
   print_widget (self, "canvas", GTK_WIDGET (self->canvas));
   print_widget (self, "cane-check", GTK_WIDGET (self->cane_check));
   print_widget (self, "add-option", GTK_WIDGET (self->add_option_button));
+  print_widget (self, "duplicate-option", GTK_WIDGET (self->duplicate_option_button));
+  print_widget (self, "remove-option", GTK_WIDGET (self->remove_option_button));
+  print_widget (self, "option-name", GTK_WIDGET (self->option_name_entry));
   print_widget (self, "mass-spin", GTK_WIDGET (self->mass_spin));
   for (int i = 0; i < HL_LM_COUNT; i++)
     {

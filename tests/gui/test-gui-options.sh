@@ -28,6 +28,50 @@ hl_key Escape
 sleep 0.5
 hl_quit_discarding
 
+option_names () {
+  xmllint --xpath "//*[local-name()='options']/*[local-name()='option']/@name" "$1" \
+    | sed 's/ name=/\n/g' | tr -d '"' | sed '/^$/d' | tr '\n' '|'
+}
+
+# Duplicate the selected (first) option and rename the copy.
+hl_start rename --dump-summary-on-exit "$HL_TMP/renamed.xml" "$plan"
+hl_click page-options
+hl_settle
+hl_click duplicate-option
+hl_settle
+hl_click option-name
+hl_key ctrl+a
+xdotool type --delay 20 "Cemented stem"
+hl_key Tab
+hl_settle
+hl_grab options-renamed
+hl_quit_discarding
+names=$(option_names "$HL_TMP/renamed.xml")
+[ "$names" = "Standard stem|Lateralised stem +6 mm|Medialised cup 4 mm + long head|Cemented stem|" ] \
+  || hl_fail "after duplicate and rename: $names"
+hl_note "ok: duplicated and renamed: $names"
+cemented=$(xmllint --xpath "string(//*[local-name()='option'][@name='Cemented stem']/@femoral-length-mm)" "$HL_TMP/renamed.xml")
+hl_expect "the copy has the first option's femoral length change" "$cemented" "~" 2
+
+# Remove the selected option twice, then undo the last removal.
+hl_start remove --dump-summary-on-exit "$HL_TMP/removed.xml" "$plan"
+hl_click page-options
+hl_settle
+hl_click remove-option
+hl_settle
+hl_click remove-option
+hl_settle
+hl_mark
+hl_key ctrl+z
+hl_settle
+hl_quit_discarding
+names=$(option_names "$HL_TMP/removed.xml")
+# The first option goes, the selection moves to the next, which goes too;
+# undo brings that one back.
+[ "$names" = "Lateralised stem +6 mm|Medialised cup 4 mm + long head|" ] \
+  || hl_fail "after two removals and an undo: $names"
+hl_note "ok: removed twice and undone once: $names"
+
 n=$(xmllint --xpath "count(//*[local-name()='result'][@kind='option'])" "$HL_TMP/options.xml")
 hl_expect "two more options solved in the summary" "$n" "~" "$((n0 + 2))"
 name=$(xmllint --xpath "string(//*[local-name()='options']/*[local-name()='option'][last()]/@name)" "$HL_TMP/options.xml")
