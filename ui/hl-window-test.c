@@ -11,7 +11,8 @@
  *   WIDGET <name> <x> <y>           centres of the controls tests click
  *                                   (page-<name>, cane-check, add-option,
  *                                   duplicate-option, remove-option,
- *                                   option-name, mass-spin, lm-x-<key>,
+ *                                   option-name, mass-spin, mass-unit,
+ *                                   side, lm-x-<key>,
  *                                   lm-y-<key>)
  *   SELECTED <canvas> <table>       the landmark selected in each, or none
  *   FRAME <n>                       ends each block
@@ -135,6 +136,8 @@ hl_window_print_handles (HlWindow *self)
   print_widget (self, "remove-option", GTK_WIDGET (self->remove_option_button));
   print_widget (self, "option-name", GTK_WIDGET (self->option_name_entry));
   print_widget (self, "mass-spin", GTK_WIDGET (self->mass_spin));
+  print_widget (self, "mass-unit", GTK_WIDGET (self->mass_unit_drop));
+  print_widget (self, "side", GTK_WIDGET (self->side_drop));
   for (int i = 0; i < HL_LM_COUNT; i++)
     {
       g_autofree char *x = g_strdup_printf ("lm-x-%s", hl_landmark_info ((HlLandmarkId) i)->key);
