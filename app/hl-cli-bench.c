@@ -126,8 +126,9 @@ random_recon (HlBenchRng *rng, HlRecon *r)
   r->femoral_offset_mm = rng_uniform (rng, HL_BENCH_RECON_MIN_MM, HL_BENCH_RECON_MAX_MM);
   r->femoral_length_mm = rng_uniform (rng, HL_BENCH_RECON_MIN_MM, HL_BENCH_RECON_MAX_MM);
   r->head_length_mm = rng_uniform (rng, HL_BENCH_HEAD_MIN_MM, HL_BENCH_HEAD_MAX_MM);
-  r->neck_shaft_angle_deg = rng_uniform (rng, HL_BENCH_NECK_MIN_DEG,
-                                         HL_BENCH_NECK_MAX_DEG);
+  /* Stems are specified in whole degrees of neck-shaft angle. */
+  r->neck_shaft_angle_deg = floor (rng_uniform (rng, HL_BENCH_NECK_MIN_DEG,
+                                                HL_BENCH_NECK_MAX_DEG + 1.0));
 }
 
 /* The demo geometry with three options, a cane and loads in both hands

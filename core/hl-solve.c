@@ -78,6 +78,96 @@ hl_flags_format (unsigned flags, const char *sep, char *buf, size_t size)
   return buf;
 }
 
+/* sin and cos of whole-degree neck-shaft angles, HL_NECK_SHAFT_MIN_DEG to
+ * HL_NECK_SHAFT_MAX_DEG: stems are specified in whole degrees, so what-if
+ * loops rarely need the library's trigonometry.  The values are those of
+ * sin (a * DEG) and cos (a * DEG), printed to 17 digits. */
+#define HL_NECK_TABLE_FIRST 90
+#define HL_NECK_TABLE_LAST 170
+static const double neck_sin_cos[HL_NECK_TABLE_LAST - HL_NECK_TABLE_FIRST + 1][2] = {
+  { 1.0, 6.123233995736766e-17 },  /* 90 deg */
+  { 0.9998476951563913, -0.017452406437283477 },  /* 91 deg */
+  { 0.9993908270190958, -0.034899496702500955 },  /* 92 deg */
+  { 0.9986295347545738, -0.05233595624294384 },  /* 93 deg */
+  { 0.9975640502598242, -0.06975647374412533 },  /* 94 deg */
+  { 0.9961946980917455, -0.08715574274765824 },  /* 95 deg */
+  { 0.9945218953682733, -0.10452846326765355 },  /* 96 deg */
+  { 0.9925461516413221, -0.12186934340514737 },  /* 97 deg */
+  { 0.9902680687415704, -0.13917310096006535 },  /* 98 deg */
+  { 0.9876883405951378, -0.1564344650402308 },  /* 99 deg */
+  { 0.984807753012208, -0.1736481776669303 },  /* 100 deg */
+  { 0.981627183447664, -0.1908089953765448 },  /* 101 deg */
+  { 0.9781476007338057, -0.20791169081775934 },  /* 102 deg */
+  { 0.9743700647852352, -0.22495105434386503 },  /* 103 deg */
+  { 0.9702957262759965, -0.24192189559966779 },  /* 104 deg */
+  { 0.9659258262890683, -0.25881904510252085 },  /* 105 deg */
+  { 0.9612616959383189, -0.27563735581699905 },  /* 106 deg */
+  { 0.9563047559630355, -0.29237170472273666 },  /* 107 deg */
+  { 0.9510565162951536, -0.30901699437494734 },  /* 108 deg */
+  { 0.9455185755993168, -0.32556815445715664 },  /* 109 deg */
+  { 0.9396926207859084, -0.3420201433256687 },  /* 110 deg */
+  { 0.9335804264972017, -0.35836794954530027 },  /* 111 deg */
+  { 0.9271838545667874, -0.37460659341591207 },  /* 112 deg */
+  { 0.9205048534524403, -0.39073112848927377 },  /* 113 deg */
+  { 0.9135454576426009, -0.40673664307580026 },  /* 114 deg */
+  { 0.90630778703665, -0.42261826174069933 },  /* 115 deg */
+  { 0.8987940462991669, -0.4383711467890775 },  /* 116 deg */
+  { 0.8910065241883679, -0.4539904997395467 },  /* 117 deg */
+  { 0.8829475928589269, -0.4694715627858909 },  /* 118 deg */
+  { 0.8746197071393959, -0.484809620246337 },  /* 119 deg */
+  { 0.8660254037844387, -0.4999999999999998 },  /* 120 deg */
+  { 0.8571673007021123, -0.5150380749100543 },  /* 121 deg */
+  { 0.8480480961564261, -0.5299192642332048 },  /* 122 deg */
+  { 0.8386705679454239, -0.5446390350150271 },  /* 123 deg */
+  { 0.8290375725550417, -0.5591929034707467 },  /* 124 deg */
+  { 0.8191520442889917, -0.5735764363510462 },  /* 125 deg */
+  { 0.8090169943749475, -0.587785252292473 },  /* 126 deg */
+  { 0.7986355100472927, -0.6018150231520484 },  /* 127 deg */
+  { 0.788010753606722, -0.6156614753256583 },  /* 128 deg */
+  { 0.777145961456971, -0.6293203910498373 },  /* 129 deg */
+  { 0.766044443118978, -0.6427876096865394 },  /* 130 deg */
+  { 0.7547095802227721, -0.6560590289905072 },  /* 131 deg */
+  { 0.7431448254773942, -0.6691306063588582 },  /* 132 deg */
+  { 0.7313537016191706, -0.6819983600624984 },  /* 133 deg */
+  { 0.7193398003386511, -0.6946583704589974 },  /* 134 deg */
+  { 0.7071067811865476, -0.7071067811865475 },  /* 135 deg */
+  { 0.6946583704589971, -0.7193398003386512 },  /* 136 deg */
+  { 0.6819983600624986, -0.7313537016191705 },  /* 137 deg */
+  { 0.6691306063588583, -0.743144825477394 },  /* 138 deg */
+  { 0.6560590289905073, -0.754709580222772 },  /* 139 deg */
+  { 0.6427876096865395, -0.7660444431189779 },  /* 140 deg */
+  { 0.6293203910498374, -0.7771459614569709 },  /* 141 deg */
+  { 0.6156614753256584, -0.7880107536067219 },  /* 142 deg */
+  { 0.6018150231520482, -0.7986355100472929 },  /* 143 deg */
+  { 0.5877852522924732, -0.8090169943749473 },  /* 144 deg */
+  { 0.5735764363510459, -0.8191520442889919 },  /* 145 deg */
+  { 0.5591929034707469, -0.8290375725550416 },  /* 146 deg */
+  { 0.5446390350150273, -0.8386705679454239 },  /* 147 deg */
+  { 0.5299192642332049, -0.848048096156426 },  /* 148 deg */
+  { 0.5150380749100544, -0.8571673007021122 },  /* 149 deg */
+  { 0.49999999999999994, -0.8660254037844387 },  /* 150 deg */
+  { 0.48480962024633717, -0.8746197071393957 },  /* 151 deg */
+  { 0.4694715627858907, -0.882947592858927 },  /* 152 deg */
+  { 0.45399049973954686, -0.8910065241883678 },  /* 153 deg */
+  { 0.4383711467890773, -0.898794046299167 },  /* 154 deg */
+  { 0.4226182617406995, -0.9063077870366499 },  /* 155 deg */
+  { 0.40673664307580043, -0.9135454576426008 },  /* 156 deg */
+  { 0.39073112848927377, -0.9205048534524404 },  /* 157 deg */
+  { 0.37460659341591224, -0.9271838545667873 },  /* 158 deg */
+  { 0.3583679495453002, -0.9335804264972017 },  /* 159 deg */
+  { 0.3420201433256689, -0.9396926207859083 },  /* 160 deg */
+  { 0.3255681544571566, -0.9455185755993168 },  /* 161 deg */
+  { 0.3090169943749475, -0.9510565162951535 },  /* 162 deg */
+  { 0.2923717047227366, -0.9563047559630355 },  /* 163 deg */
+  { 0.2756373558169992, -0.9612616959383189 },  /* 164 deg */
+  { 0.258819045102521, -0.9659258262890682 },  /* 165 deg */
+  { 0.24192189559966773, -0.9702957262759965 },  /* 166 deg */
+  { 0.2249510543438652, -0.9743700647852351 },  /* 167 deg */
+  { 0.20791169081775931, -0.9781476007338057 },  /* 168 deg */
+  { 0.19080899537654497, -0.981627183447664 },  /* 169 deg */
+  { 0.17364817766693028, -0.984807753012208 },  /* 170 deg */
+};
+
 /* Effective femoral offset and length changes; the head length only adds
  * trigonometry when it is non-zero (the common case is zero). */
 static inline void
@@ -87,9 +177,20 @@ recon_femur_shift (const HlRecon *r, double *offset, double *length)
   *length = r->femoral_length_mm;
   if (r->head_length_mm != 0.0)
     {
-      const double a = r->neck_shaft_angle_deg * DEG;
-      *offset += r->head_length_mm * sin (a);
-      *length -= r->head_length_mm * cos (a);
+      const double deg = r->neck_shaft_angle_deg;
+      double sa, ca;
+      if (deg >= HL_NECK_TABLE_FIRST && deg <= HL_NECK_TABLE_LAST && deg == (int) deg)
+        {
+          sa = neck_sin_cos[(int) deg - HL_NECK_TABLE_FIRST][0];
+          ca = neck_sin_cos[(int) deg - HL_NECK_TABLE_FIRST][1];
+        }
+      else
+        {
+          sa = sin (deg * DEG);
+          ca = cos (deg * DEG);
+        }
+      *offset += r->head_length_mm * sa;
+      *length -= r->head_length_mm * ca;
     }
 }
 
@@ -186,6 +287,11 @@ hl_model_prepare (HlModel *m, const HlPlan *plan, HlError *err)
   m->native_global_offset_mm = meas.operated.global_offset_mm;
   m->other_global_offset_mm = meas.other.global_offset_mm;
   m->native_leg_length_difference_mm = meas.leg_length_difference_mm;
+  m->go_drop_base = 0.0;
+  if (isfinite (m->other_global_offset_mm) && isfinite (m->native_global_offset_mm))
+    m->go_drop_base = m->other_global_offset_mm - m->native_global_offset_mm;
+  m->lld_base = isfinite (m->native_leg_length_difference_mm)
+                ? m->native_leg_length_difference_mm : 0.0;
 
   double dx = m->insertion.x - m->origin.x, dy = m->insertion.y - m->origin.y;
   m->native_abductor_length_mm = sqrt (dx * dx + dy * dy);
@@ -314,17 +420,9 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
   res->abductor_length_change_mm = len - m->native_abductor_length_mm;
 
   /* Against the other hip where it is measured, else against native. */
-  double go_drop = -res->global_offset_change_mm;
-  if (isfinite (m->other_global_offset_mm) && isfinite (m->native_global_offset_mm))
-    go_drop = m->other_global_offset_mm
-              - (m->native_global_offset_mm + res->global_offset_change_mm);
-  if (go_drop > m->tol.global_offset_drop_mm)
+  if (m->go_drop_base - res->global_offset_change_mm > m->tol.global_offset_drop_mm)
     flags |= HL_FLAG_GLOBAL_OFFSET_REDUCED;
-
-  double lld = res->leg_length_change_mm;
-  if (isfinite (m->native_leg_length_difference_mm))
-    lld += m->native_leg_length_difference_mm;
-  if (fabs (lld) > m->tol.leg_length_mm)
+  if (fabs (m->lld_base + res->leg_length_change_mm) > m->tol.leg_length_mm)
     flags |= HL_FLAG_LEG_LENGTH;
 
   if (res->abductor_length_change_mm < -m->tol.abductor_slack_mm)

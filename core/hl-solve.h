@@ -87,6 +87,12 @@ typedef struct {
   double native_leg_length_difference_mm; /* operated - other, NaN when not measured */
   double capacity_nmm;               /* abductor torque capacity, N mm */
   double capacity_force_n;           /* capacity_nmm over the native arm */
+  /* Flag references, derived from the measures above: the global offset
+   * drop is go_drop_base - change (the other hip's global offset minus
+   * native's where both are measured, else 0), the leg length difference
+   * lld_base + change (native's where measured, else 0). */
+  double go_drop_base;
+  double lld_base;
   HlTolerances tol;
   double side_sign;                  /* -1 right hip, +1 left hip */
   HlVec2 hip_centre;                 /* native, plan frame */

@@ -1379,6 +1379,21 @@ START_TEST (test_forces_balance)
 }
 END_TEST
 
+/* The head-length shift uses a table for whole-degree neck-shaft angles and
+ * libm otherwise; both must give the same numbers as sin and cos of the
+ * angle, to the last bit for the table (its values were printed from them). */
+START_TEST (test_neck_table)
+{
+  const double deg = 90.0 + _i * 0.5;   /* whole and half degrees, 90..170 */
+  HlRecon r;
+  hl_recon_init (&r);
+  r.head_length_mm = 1.0;
+  r.neck_shaft_angle_deg = deg;
+  ck_assert_double_eq (hl_recon_total_offset (&r), sin (deg * (M_PI / 180.0)));
+  ck_assert_double_eq (hl_recon_total_length (&r), -cos (deg * (M_PI / 180.0)));
+}
+END_TEST
+
 static Suite *
 solve_suite (void)
 {
@@ -1416,6 +1431,7 @@ solve_suite (void)
   ADD_LOOP ("solve-errors", test_solve_errors, 2);
   ADD_LOOP ("solve-all", test_solve_all, 1);
   ADD_LOOP ("forces-balance", test_forces_balance, 2);
+  ADD_LOOP ("neck-table", test_neck_table, 161);
 
 #undef ADD_LOOP
 #undef ADD_TABLE
