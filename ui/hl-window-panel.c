@@ -704,6 +704,13 @@ hl_window_panel_sync_options (HlWindow *self)
     }
   else
     {
+      HlRecon neutral;
+
+      /* The native hip: no change in any parameter. */
+      hl_recon_init (&neutral);
+      for (int i = 0; i < HL_RECON_N_PARAMS; i++)
+        set_spin (self->recon_spin[i],
+                  *(double *) ((char *) &neutral + recon_params[i].offset));
       gtk_editable_set_text (GTK_EDITABLE (self->option_name_entry), "");
       gtk_label_set_text (self->option_hint_label,
                           self->plan->n_options > 0
