@@ -762,16 +762,15 @@ hl_radiograph_page_print_handles (HlWindow *window)
   if (self == NULL)
     return;
   GtkWidget *switcher = gtk_widget_get_prev_sibling (GTK_WIDGET (window->panel_stack));
-  GtkWidget *parent = gtk_widget_get_parent (GTK_WIDGET (self));
   int n = 0;
   for (GtkWidget *c = switcher != NULL ? gtk_widget_get_first_child (switcher) : NULL; c != NULL;
        c = gtk_widget_get_next_sibling (c), n++)
     if (n == 4)
       print_widget (window, "page-radiograph", c);
-  (void) parent;
   print_widget (window, "radiograph-calibrate", self->calibrate_button);
   print_widget (window, "radiograph-guide", self->guide_button);
   print_widget (window, "radiograph-skip", self->skip_button);
+  print_widget (window, "radiograph-back", self->back_button);
   print_widget (window, "radiograph-stop", self->stop_button);
 
   graphene_point_t in = GRAPHENE_POINT_INIT (0, 0), out;
@@ -1006,6 +1005,7 @@ static GtkWidget *
 build (HlRadiographPage *self)
 {
   GtkWidget *box = GTK_WIDGET (self);
+  GtkWidget *row;
   gtk_orientable_set_orientation (GTK_ORIENTABLE (self), GTK_ORIENTATION_VERTICAL);
   gtk_box_set_spacing (GTK_BOX (self), PAGE_SPACING);
   gtk_widget_set_margin_start (box, 2 * PAGE_SPACING);
@@ -1027,33 +1027,6 @@ build (HlRadiographPage *self)
   gtk_box_append (GTK_BOX (box), self->import_button);
   self->file_label = wrap_label ("");
   gtk_box_append (GTK_BOX (box), self->file_label);
-
-  gtk_box_append (GTK_BOX (box), heading (_("Display")));
-  self->schematic_check = gtk_check_button_new_with_label (_("Show the schematic drawing"));
-  g_signal_connect_object (self->schematic_check, "toggled", G_CALLBACK (toggle_cb), self, 0);
-  gtk_box_append (GTK_BOX (box), self->schematic_check);
-  self->brightness_scale = add_scale (self, box, _("Brightness"), HL_IMAGE_BRIGHTNESS_MIN,
-                                      HL_IMAGE_BRIGHTNESS_MAX, 0.05, "radiograph-brightness");
-  self->contrast_scale = add_scale (self, box, _("Contrast"), HL_IMAGE_CONTRAST_MIN,
-                                    HL_IMAGE_CONTRAST_MAX, 0.05, "radiograph-contrast");
-  self->opacity_scale = add_scale (self, box, _("Opacity"), 0.0, 1.0, 0.05, "radiograph-opacity");
-  self->invert_check = gtk_check_button_new_with_label (_("Invert (bone dark)"));
-  g_signal_connect_object (self->invert_check, "toggled", G_CALLBACK (toggle_cb), self, 0);
-  gtk_box_append (GTK_BOX (box), self->invert_check);
-
-  GtkWidget *row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
-  GtkWidget *l = wrap_label (_("Pixel spacing (image mm per pixel; 0.1 is an assumption, "
-                               "type the detector's value)"));
-  gtk_widget_set_hexpand (l, TRUE);
-  self->spacing_spin = gtk_spin_button_new_with_range (HL_PIXEL_SPACING_MIN_MM,
-                                                       HL_PIXEL_SPACING_MAX_MM, 0.001);
-  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->spacing_spin), 4);
-  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->spacing_spin), HL_PIXEL_SPACING_DEFAULT_MM);
-  g_signal_connect_object (self->spacing_spin, "value-changed", G_CALLBACK (spacing_changed_cb),
-                           self, 0);
-  gtk_box_append (GTK_BOX (row), l);
-  gtk_box_append (GTK_BOX (row), self->spacing_spin);
-  gtk_box_append (GTK_BOX (box), row);
 
   gtk_box_append (GTK_BOX (box), heading (_("Calibration")));
   static const char *const methods[N_METHODS + 1] = {
@@ -1107,6 +1080,33 @@ build (HlRadiographPage *self)
   gtk_box_append (GTK_BOX (self->guide_box), row);
   gtk_widget_set_visible (self->guide_box, FALSE);
   gtk_box_append (GTK_BOX (box), self->guide_box);
+
+  gtk_box_append (GTK_BOX (box), heading (_("Display")));
+  self->schematic_check = gtk_check_button_new_with_label (_("Show the schematic drawing"));
+  g_signal_connect_object (self->schematic_check, "toggled", G_CALLBACK (toggle_cb), self, 0);
+  gtk_box_append (GTK_BOX (box), self->schematic_check);
+  self->brightness_scale = add_scale (self, box, _("Brightness"), HL_IMAGE_BRIGHTNESS_MIN,
+                                      HL_IMAGE_BRIGHTNESS_MAX, 0.05, "radiograph-brightness");
+  self->contrast_scale = add_scale (self, box, _("Contrast"), HL_IMAGE_CONTRAST_MIN,
+                                    HL_IMAGE_CONTRAST_MAX, 0.05, "radiograph-contrast");
+  self->opacity_scale = add_scale (self, box, _("Opacity"), 0.0, 1.0, 0.05, "radiograph-opacity");
+  self->invert_check = gtk_check_button_new_with_label (_("Invert (bone dark)"));
+  g_signal_connect_object (self->invert_check, "toggled", G_CALLBACK (toggle_cb), self, 0);
+  gtk_box_append (GTK_BOX (box), self->invert_check);
+
+  row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
+  GtkWidget *l = wrap_label (_("Pixel spacing (image mm per pixel; 0.1 is an assumption, "
+                               "type the detector's value)"));
+  gtk_widget_set_hexpand (l, TRUE);
+  self->spacing_spin = gtk_spin_button_new_with_range (HL_PIXEL_SPACING_MIN_MM,
+                                                       HL_PIXEL_SPACING_MAX_MM, 0.001);
+  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->spacing_spin), 4);
+  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->spacing_spin), HL_PIXEL_SPACING_DEFAULT_MM);
+  g_signal_connect_object (self->spacing_spin, "value-changed", G_CALLBACK (spacing_changed_cb),
+                           self, 0);
+  gtk_box_append (GTK_BOX (row), l);
+  gtk_box_append (GTK_BOX (row), self->spacing_spin);
+  gtk_box_append (GTK_BOX (box), row);
 
   gtk_box_append (GTK_BOX (box), heading (_("Radiographic measures")));
   gtk_box_append (GTK_BOX (box),
