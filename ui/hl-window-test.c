@@ -12,6 +12,8 @@
  *                                   (page-<name>, cane-check, add-option,
  *                                   duplicate-option, remove-option,
  *                                   option-name, mass-spin, mass-unit,
+ *                                   caution-toggle, caution-short or
+ *                                   caution-full (whichever is shown),
  *                                   side, lm-x-<key>,
  *                                   lm-y-<key>)
  *   SELECTED <canvas> <table>       the landmark selected in each, or none
@@ -130,6 +132,10 @@ hl_window_print_handles (HlWindow *self)
       print_widget (self, name, child);
     }
   print_widget (self, "canvas", GTK_WIDGET (self->canvas));
+  print_widget (self, "caution-toggle", GTK_WIDGET (self->caution_toggle));
+  if (gtk_revealer_get_reveal_child (self->caution_revealer))
+    print_widget (self, "caution-full", GTK_WIDGET (self->caution_full_label));
+  print_widget (self, "caution-short", GTK_WIDGET (self->caution_short_label));
   print_widget (self, "cane-check", GTK_WIDGET (self->cane_check));
   print_widget (self, "add-option", GTK_WIDGET (self->add_option_button));
   print_widget (self, "duplicate-option", GTK_WIDGET (self->duplicate_option_button));

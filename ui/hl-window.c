@@ -351,6 +351,7 @@ caution_toggled_cb (GtkToggleButton *button, HlWindow *self)
   gtk_widget_set_visible (GTK_WIDGET (self->caution_short_label), !expanded);
   gtk_button_set_label (GTK_BUTTON (button),
                         expanded ? _("Collapse") : _("Show full caution"));
+  self->handles_dirty = TRUE;
 }
 
 /* ---- life ----------------------------------------------------------- */

@@ -28,6 +28,30 @@ hl_key Escape
 sleep 0.5
 hl_quit_discarding
 
+# The caution strip collapses to its one line and comes back; it is never
+# gone.
+hl_start caution "$plan"
+last_block () {
+  awk 'BEGIN { n = 0 } $1 == "FRAME" { n++ } { line[n] = line[n] "\n" $0 } END { print line[n - 1] }' "$HL_OUT"
+}
+last_block | grep -q '^WIDGET caution-full ' || hl_fail "the full caution is not shown at start"
+last_block | grep -q '^WIDGET caution-short ' && hl_fail "the short caution shows beside the full one"
+hl_click caution-toggle
+sleep 0.6
+hl_mark
+xdotool mousemove --window "$HL_WID" 5 5
+sleep 0.6
+hl_grab caution-collapsed
+last_block | grep -q '^WIDGET caution-short ' || hl_fail "the collapsed strip has no caution line"
+last_block | grep -q '^WIDGET caution-full ' && hl_fail "the collapsed strip still shows the full caution"
+hl_note "ok: collapsed to the one-line caution"
+hl_click caution-toggle
+sleep 0.8
+last_block | grep -q '^WIDGET caution-full ' || hl_fail "the full caution did not come back"
+hl_note "ok: expanded again to the full caution"
+hl_key ctrl+q
+hl_wait_exit
+
 option_names () {
   xmllint --xpath "//*[local-name()='options']/*[local-name()='option']/@name" "$1" \
     | sed 's/ name=/\n/g' | tr -d '"' | sed '/^$/d' | tr '\n' '|'
