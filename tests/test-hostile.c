@@ -59,19 +59,25 @@
 #define HL_HOSTILE_MAX_SECONDS 1.0
 #define HL_HOSTILE_MAX_MEMORY_KB (50L * 1024L)
 
-/* Under AddressSanitizer every allocation carries shadow memory and freed
- * blocks sit in quarantine, and every access is checked: its
- * documentation gives about 2x time and 3x memory as typical (from
- * memory).  The limits are widened by this factor there, not dropped. */
+/* Under AddressSanitizer every access is checked (about 2x time is typical,
+ * from memory), so the time limit is widened there.  Its memory is not
+ * compared at all: redzones around every block and the quarantine of freed
+ * blocks multiply the footprint of libxml2's many small allocations (the
+ * largest plan the loader takes: 21 MB in the normal build, 226-390 MB
+ * under ASan).  The normal build asserts the memory limit. */
 #if defined(__SANITIZE_ADDRESS__)
-# define HL_HOSTILE_SANITIZER_FACTOR 4.0
+# define HL_HOSTILE_UNDER_ASAN 1
 #elif defined(__has_feature)
 # if __has_feature(address_sanitizer)
-#  define HL_HOSTILE_SANITIZER_FACTOR 4.0
+#  define HL_HOSTILE_UNDER_ASAN 1
 # endif
 #endif
-#ifndef HL_HOSTILE_SANITIZER_FACTOR
-# define HL_HOSTILE_SANITIZER_FACTOR 1.0
+#ifdef HL_HOSTILE_UNDER_ASAN
+# define HL_HOSTILE_TIME_FACTOR 4.0
+# define HL_HOSTILE_CHECK_MEMORY false
+#else
+# define HL_HOSTILE_TIME_FACTOR 1.0
+# define HL_HOSTILE_CHECK_MEMORY true
 #endif
 
 /* A load still running after this is a hang: the child is killed. */
@@ -822,9 +828,9 @@ START_TEST (test_hostile_file)
                  env.secret);
   ck_assert_msg (!hl_test_contains_ci (o.err.message, HL_SECRET_MARKER),
                  "%s: the secret file's text is in the message", c->file);
-  ck_assert_msg (o.seconds < HL_HOSTILE_MAX_SECONDS * HL_HOSTILE_SANITIZER_FACTOR,
+  ck_assert_msg (o.seconds < HL_HOSTILE_MAX_SECONDS * HL_HOSTILE_TIME_FACTOR,
                  "%s: %.3f s to answer", c->file, o.seconds);
-  ck_assert_msg (memory_kb < (long) (HL_HOSTILE_MAX_MEMORY_KB * HL_HOSTILE_SANITIZER_FACTOR),
+  ck_assert_msg (!HL_HOSTILE_CHECK_MEMORY || memory_kb < HL_HOSTILE_MAX_MEMORY_KB,
                  "%s: %ld kB more memory", c->file, memory_kb);
 
   if (o.status == HL_OK)
