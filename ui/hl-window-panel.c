@@ -224,7 +224,13 @@ side_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
   hl_undo_break (self->undo);
   if (!hl_window_begin_edit (self, NULL))
     return;
-  hl_plan_mirror (self->plan);
+  /* Over a radiograph the landmarks must stay on their pixels: the side
+   * only names which hip they belong to.  On the schematic, mirroring keeps
+   * the drawing of the operated hip where it belongs. */
+  if (self->plan->radiograph.present)
+    self->plan->side = side;
+  else
+    hl_plan_mirror (self->plan);
   hl_window_panel_sync (self);
   hl_window_plan_edited (self);
   hl_canvas_fit (self->canvas);
