@@ -490,9 +490,12 @@ hl_plan_check (const HlPlan *plan, HlError *err)
       char what[128];
       bool bad_x = !in_range (p.x, -HL_COORD_MAX_MM, HL_COORD_MAX_MM);
       snprintf (field, sizeof field, "landmark %s", landmark_info[i].key);
-      snprintf (what, sizeof what,
-                bad_x ? _("The x coordinate of \"%s\"") : _("The y coordinate of \"%s\""),
-                _(landmark_info[i].label));
+      if (bad_x)
+        snprintf (what, sizeof what, _("The x coordinate of \"%s\""),
+                  _(landmark_info[i].label));
+      else
+        snprintf (what, sizeof what, _("The y coordinate of \"%s\""),
+                  _(landmark_info[i].label));
       return range_error (bad_x ? p.x : p.y, -HL_COORD_MAX_MM, HL_COORD_MAX_MM,
                           field, what, "mm", err);
     }
