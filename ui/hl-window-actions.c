@@ -246,6 +246,7 @@ hl_window_guard (HlWindow *self, HlAfterGuard then)
                           _("_Save"), GTK_RESPONSE_ACCEPT,
                           NULL);
   gtk_dialog_set_default_response (GTK_DIALOG (dialog), GTK_RESPONSE_ACCEPT);
+  gtk_window_set_title (GTK_WINDOW (dialog), _("Unsaved changes"));
   g_object_set_data (G_OBJECT (dialog), HL_AFTER_KEY, GINT_TO_POINTER (then));
   g_signal_connect_object (dialog, "response", G_CALLBACK (guard_response_cb), self, 0);
   self->guard_dialog = dialog;

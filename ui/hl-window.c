@@ -59,6 +59,7 @@ hl_window_show_error (HlWindow *self, const char *primary,
                                    "%s", primary);
   gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog),
                                             "%s", secondary);
+  gtk_window_set_title (GTK_WINDOW (dialog), _("Error"));
   g_signal_connect (dialog, "response",
                     G_CALLBACK (error_dialog_response_cb), NULL);
   gtk_window_present (GTK_WINDOW (dialog));

@@ -129,11 +129,25 @@ hl_key () {
 # when it comes; waits for the program to end and checks its status.
 hl_quit_discarding () {
   hl_key ctrl+q
-  sleep 0.5
-  if kill -0 "$HL_PID" 2>/dev/null; then
-    hl_key alt+d
-  fi
+  i=0
+  while kill -0 "$HL_PID" 2>/dev/null; do
+    if xdotool search --onlyvisible --name '^Unsaved changes$' >/dev/null 2>&1; then
+      sleep 0.2
+      hl_key alt+d
+      break
+    fi
+    i=$((i + 1))
+    [ "$i" -le $((HL_WAIT_S * 10)) ] || hl_fail "neither quit nor asked about unsaved changes"
+    sleep 0.1
+  done
   hl_wait_exit
+}
+
+# hl_wait_dialog TITLE: waits until a window of that title is shown.
+hl_wait_dialog () {
+  timeout "$HL_WAIT_S" xdotool search --sync --onlyvisible --name "^$1\$" >/dev/null \
+    || hl_fail "no '$1' window came up"
+  sleep 0.2
 }
 
 hl_wait_exit () {

@@ -25,6 +25,7 @@ hl_note "ok: $(cat "$HL_TMP/err.log")"
 
 # Interactive: a dialog says why; closing it leaves the window usable.
 hl_start bad-open --dump-summary-on-exit "$HL_TMP/after.xml" "$bad"
+hl_wait_dialog Error
 hl_grab load-error-dialog
 hl_key Return
 sleep 0.5
@@ -36,7 +37,9 @@ hl_note "ok: the window stayed after the load error and quit on Ctrl+Q"
 # The file chooser: typing a path that starts with "/" opens its location
 # field; Return accepts.
 choose () {
-  sleep 1
+  hl_wait_dialog "$1"
+  shift
+  sleep 0.5
   xdotool type --delay 20 "$1"
   sleep 0.3
   hl_key Return
@@ -46,15 +49,16 @@ choose () {
 # Ctrl+O on a broken file: a dialog, and the plan that was open stays.
 hl_start open-bad --dump-summary-on-exit "$HL_TMP/kept.xml" "$HL_DEMO"
 hl_key ctrl+o
-choose "$bad"
+choose "Open a Plan" "$bad"
+hl_wait_dialog Error
 hl_grab open-error-dialog
 hl_key Return
 sleep 0.5
 # Ctrl+E exports the planning summary, Ctrl+Shift+S saves under a name.
 hl_key ctrl+e
-choose "$HL_TMP/exported"
+choose "Export the Planning Summary" "$HL_TMP/exported"
 hl_key ctrl+shift+s
-choose "$HL_TMP/saved-as"
+choose "Save the Plan" "$HL_TMP/saved-as"
 hl_key ctrl+q
 hl_wait_exit
 mass=$(xmllint --xpath "string(//*[local-name()='case']/@mass-kg)" "$HL_TMP/kept.xml")
@@ -74,10 +78,10 @@ hl_start open-good --dump-summary-on-exit "$HL_TMP/left.xml" "$HL_DEMO"
 hl_key ctrl+shift+n
 hl_settle
 hl_key ctrl+o
-sleep 1
+hl_wait_dialog "Unsaved changes"
 hl_grab open-guard
 hl_key alt+d
-choose "$SRCDIR/data/examples/demo-left.hlplan"
+choose "Open a Plan" "$SRCDIR/data/examples/demo-left.hlplan"
 hl_key ctrl+q
 hl_wait_exit
 side=$(xmllint --xpath "string(//*[local-name()='case']/@operated-side)" "$HL_TMP/left.xml")

@@ -33,7 +33,7 @@ hl_grab after-nudges
 hl_key ctrl+z
 hl_settle
 hl_key ctrl+q
-sleep 1
+hl_wait_dialog "Unsaved changes"
 kill -0 "$HL_PID" 2>/dev/null || hl_fail "quit with unsaved changes did not ask first"
 hl_note "ok: the unsaved-changes question came up"
 hl_grab guard-dialog
