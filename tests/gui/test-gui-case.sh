@@ -6,7 +6,8 @@
 #
 # Changing the side mirrors every landmark about the plan's x = 0, so every
 # result stays the same (hl-plan.h).  A pound is 0.45359237 kg exactly
-# (the international avoirdupois pound).
+# (the international avoirdupois pound of the 1959 international yard and
+# pound agreement).
 . "$(dirname "$0")/hl-gui-lib.sh"
 
 plan="$HL_TMP/case.hlplan"
