@@ -85,6 +85,20 @@ for plan in "$HL_DEMO" "$SRCDIR/data/examples/demo-left.hlplan" "$nocane" "$flag
   hl_note "$(basename "$plan")"
   compare "$HL_TMP/window.csv" "$HL_TMP/cli.csv" || hl_fail "the window and the CLI disagree on $plan"
 done
+# The window writes numbers the way the user's locale does (where a
+# German locale is installed: a decimal comma); files stay in C.
+de=$(locale -a 2>/dev/null | grep -i '^de_DE\.utf-\?8$' | head -n 1 || true)
+if [ -n "$de" ]; then
+  LC_ALL=$de "$HIPLEVER" --print-results --dump-summary-on-exit "$HL_TMP/de.xml" "$HL_DEMO" \
+    >"$HL_TMP/de.csv" || hl_fail "--print-results failed in $de"
+  grep -q '^abductor-moment-arm,mm,"52,5","52,4"' "$HL_TMP/de.csv" \
+    || hl_fail "no decimal commas in $de: $(grep '^abductor-moment-arm' "$HL_TMP/de.csv")"
+  grep -q 'abductor-arm-mm="52\.5' "$HL_TMP/de.xml" || hl_fail "the summary written in $de is not in C numbers"
+  hl_note "ok: $de: $(grep '^abductor-moment-arm' "$HL_TMP/de.csv"); the summary keeps C numbers"
+else
+  hl_note "skip: no German locale installed for the locale check"
+fi
+
 # A plan that cannot be solved: the reason where the numbers would be.
 bad="$HL_TMP/midline-lateral.hlplan"
 sed 's|<landmark name="midline" x-mm="0"|<landmark name="midline" x-mm="-130"|' "$HL_DEMO" >"$bad"
