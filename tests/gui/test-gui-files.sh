@@ -72,6 +72,24 @@ hl_note "ok: Ctrl+E exported a summary with the caution, .xml added"
   || hl_fail "the plan saved under a name does not open"
 hl_note "ok: Ctrl+Shift+S saved a plan that opens, .hlplan added"
 
+# A save that fails says so and the plan stays modified: nothing can be
+# created in /proc, not even by root.
+hl_start save-fails "$HL_DEMO"
+hl_key ctrl+shift+n
+hl_settle
+hl_key ctrl+shift+s
+choose "Save the Plan" "/proc/hiplever-test-plan"
+hl_wait_dialog Error
+hl_grab save-error-dialog
+hl_key Return
+sleep 0.5
+title=$(xdotool getwindowname "$HL_WID")
+case "$title" in
+  "• "*) hl_note "ok: after the failed save the plan is still marked modified: $title" ;;
+  *) hl_fail "the failed save cleared the modified mark: $title" ;;
+esac
+hl_quit_discarding
+
 # Ctrl+O on a good file replaces the plan; with unsaved changes it asks
 # first, and Discard goes on to the file chooser.
 hl_start open-good --dump-summary-on-exit "$HL_TMP/left.xml" "$HL_DEMO"
