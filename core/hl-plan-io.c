@@ -1080,8 +1080,57 @@ current_umask (void)
   return mask;
 }
 
-HlStatus
-hl_write_file_atomic (const char *path, const void *data, size_t size, HlError *err)
+static HlStatus write_file_atomic (const char *path, const void *data, size_t size,
+                                   bool keep_backup, HlError *err);
+
+/* Keeps the file at path as path HL_PLAN_BACKUP_SUFFIX: a hard link, so
+ * the file itself is never missing, or a copy where the file system has no
+ * links.  Returns 0 or an errno value. */
+static int
+keep_previous_version (const char *path)
+{
+  struct stat st;
+  if (lstat (path, &st) != 0)
+    return errno == ENOENT ? 0 : errno;
+  /* A link is replaced by the rename, its target stays as it was. */
+  if (!S_ISREG (st.st_mode))
+    return 0;
+  size_t n = strlen (path) + sizeof HL_PLAN_BACKUP_SUFFIX;
+  char *backup = malloc (n);
+  if (backup == NULL)
+    return ENOMEM;
+  snprintf (backup, n, "%s" HL_PLAN_BACKUP_SUFFIX, path);
+  int e = 0;
+  if (unlink (backup) != 0 && errno != ENOENT)
+    e = errno;
+  else if (link (path, backup) != 0)
+    {
+      e = errno;
+      if (e == EPERM || e == EOPNOTSUPP || e == EMLINK || e == ENOSYS)
+        {
+          FILE *f = fopen (path, "rb");
+          char *copy = f != NULL ? malloc ((size_t) st.st_size + 1) : NULL;
+          if (f == NULL)
+            e = errno;
+          else if (copy == NULL)
+            e = ENOMEM;
+          else if (fread (copy, 1, (size_t) st.st_size, f) != (size_t) st.st_size)
+            e = EIO;
+          else
+            e = write_file_atomic (backup, copy, (size_t) st.st_size, false, NULL) == HL_OK
+                ? 0 : EIO;
+          free (copy);
+          if (f != NULL)
+            fclose (f);
+        }
+    }
+  free (backup);
+  return e;
+}
+
+static HlStatus
+write_file_atomic (const char *path, const void *data, size_t size, bool keep_backup,
+                   HlError *err)
 {
   const char *slash = strrchr (path, '/');
   const char *base = slash ? slash + 1 : path;
@@ -1155,6 +1204,11 @@ hl_write_file_atomic (const char *path, const void *data, size_t size, HlError *
   if (e != 0)
     st = hl_error_set (err, HL_ERR_IO, path, _("Cannot save \"%s\": %s"), path,
                        strerror (e));
+  else if (keep_backup && (e = keep_previous_version (path)) != 0)
+    st = hl_error_set (err, HL_ERR_IO, path,
+                       _("Cannot save \"%s\": the previous version could not be kept as "
+                         "\"%s" HL_PLAN_BACKUP_SUFFIX "\": %s; the file was not changed"),
+                       path, path, strerror (e));
   else if (rename (tmp, path) != 0)
     {
       e = errno;
@@ -1180,6 +1234,32 @@ hl_write_file_atomic (const char *path, const void *data, size_t size, HlError *
     }
   free (dir);
   free (tmp);
+  return st;
+}
+
+HlStatus
+hl_write_file_atomic (const char *path, const void *data, size_t size, HlError *err)
+{
+  return write_file_atomic (path, data, size, false, err);
+}
+
+HlStatus
+hl_write_file_atomic_backup (const char *path, const void *data, size_t size,
+                             HlError *err)
+{
+  return write_file_atomic (path, data, size, true, err);
+}
+
+HlStatus
+hl_plan_save_file_backup (const HlPlan *plan, const char *path, HlError *err)
+{
+  char *text = NULL;
+  size_t size = 0;
+  HlStatus st = plan_to_buffer_for (plan, path, &text, &size, err);
+  if (st != HL_OK)
+    return st;
+  st = hl_write_file_atomic_backup (path, text, size, err);
+  free (text);
   return st;
 }
 

@@ -47,6 +47,10 @@ HlStatus hl_plan_to_buffer (const HlPlan *plan, char **out, size_t *size,
 /* Atomic save. */
 HlStatus hl_plan_save_file (const HlPlan *plan, const char *path,
                             HlError *err);
+/* Atomic save that first keeps the file being replaced as
+ * path HL_PLAN_BACKUP_SUFFIX (see hl_write_file_atomic_backup). */
+HlStatus hl_plan_save_file_backup (const HlPlan *plan, const char *path,
+                                   HlError *err);
 
 /* The planning summary: the plan plus results for native and every option,
  * their flags, the caution text and provenance (program version, model
@@ -60,6 +64,18 @@ HlStatus hl_summary_save_file (const HlPlan *plan, const char *path,
 /* Atomically writes `size` bytes to path (temp file, fsync, rename). */
 HlStatus hl_write_file_atomic (const char *path, const void *data,
                                size_t size, HlError *err);
+
+/* The previous version kept by a save with backup: PLAN.hlplan~ */
+#define HL_PLAN_BACKUP_SUFFIX "~"
+
+/* As hl_write_file_atomic, but once the new bytes are safely in the
+ * temporary file and before the rename, an existing regular file at path
+ * is kept as path HL_PLAN_BACKUP_SUFFIX (a hard link, or a copy where the
+ * file system has no links), replacing an older backup.  The save stays
+ * atomic: when it fails, path is unchanged.  When the backup cannot be
+ * made the save is refused (HL_ERR_IO) and path is unchanged too. */
+HlStatus hl_write_file_atomic_backup (const char *path, const void *data,
+                                      size_t size, HlError *err);
 
 #ifdef __cplusplus
 }
