@@ -908,19 +908,6 @@ write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
   buf_puts (b, "  </result>\n");
 }
 
-static HlStatus
-solve_every_option (const HlPlan *plan, HlResult *results, HlError *err)
-{
-  HlModel model;
-  HlStatus st = hl_model_prepare (&model, plan, err);
-  if (st != HL_OK)
-    return st;
-  st = hl_model_solve (&model, NULL, &results[0], err);
-  for (size_t i = 0; st == HL_OK && i < plan->n_options; i++)
-    st = hl_model_solve (&model, &plan->options[i].recon, &results[1 + i], err);
-  return st;
-}
-
 /* The plan's Monte Carlo ranges; *out (1 + n_options entries) is malloc'd. */
 static HlStatus
 run_uncertainty (const HlPlan *plan, HlMcSummary **out, HlMcInfo *info, HlError *err)
@@ -978,7 +965,7 @@ summary_to_buffer_for (const HlPlan *plan, const char *date_iso, const char *bas
   HlResult *results = calloc (1 + plan->n_options, sizeof *results);
   if (results == NULL)
     return hl_error_set (err, HL_ERR_NOMEM, "", _("Out of memory while solving the plan"));
-  st = solve_every_option (plan, results, err);
+  st = hl_plan_solve_all (plan, results, err);
   HlMcSummary *mc = NULL;
   HlMcInfo mc_info = { 0 };
   if (st == HL_OK)
