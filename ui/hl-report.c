@@ -1026,7 +1026,7 @@ block_capacity (HlLayout *L, double y, bool draw)
                               case_name (r, row));
   if (len < sizeof line)
     snprintf (line + len, sizeof line - len, "%s",
-              _(". Above 100% the pelvis cannot be held level in stance."));
+              /* xgettext:no-c-format */ _(". Above 100% the pelvis cannot be held level in stance."));
   double h = heading (L, _("Abductor capacity"), y, draw);
   h += wrap_text (L->cr, line, content_left (), y + h, content_width (), TYPE_BODY * L->s,
                   false, ink, false, draw);
