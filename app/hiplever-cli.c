@@ -346,18 +346,18 @@ case_name (const HlPlan *plan, size_t i)
 }
 
 static void
-csv_header (HlCliBuf *buf, bool with_plan)
+csv_header (HlBuf *buf, bool with_plan)
 {
   if (with_plan)
-    hl_cli_buf_printf (buf, "plan,");
-  hl_cli_buf_printf (buf, "option");
+    hl_buf_printf (buf, "plan,");
+  hl_buf_printf (buf, "option");
   for (size_t c = 0; c < N_COLUMNS; c++)
-    hl_cli_buf_printf (buf, ",%s", result_columns[c].csv);
-  hl_cli_buf_printf (buf, ",flags\n");
+    hl_buf_printf (buf, ",%s", result_columns[c].csv);
+  hl_buf_printf (buf, ",flags\n");
 }
 
 static void
-csv_rows (HlCliBuf *buf, const char *plan_name, const HlPlan *plan,
+csv_rows (HlBuf *buf, const char *plan_name, const HlPlan *plan,
           const HlResult *results)
 {
   for (size_t i = 0; i <= plan->n_options; i++)
@@ -367,20 +367,20 @@ csv_rows (HlCliBuf *buf, const char *plan_name, const HlPlan *plan,
 
       if (plan_name != NULL)
         {
-          hl_cli_buf_csv_field (buf, plan_name);
-          hl_cli_buf_append (buf, ",", 1);
+          hl_buf_csv_field (buf, plan_name);
+          hl_buf_append (buf, ",", 1);
         }
-      hl_cli_buf_csv_field (buf, case_name (plan, i));
+      hl_buf_csv_field (buf, case_name (plan, i));
       for (size_t c = 0; c < N_COLUMNS; c++)
-        hl_cli_buf_printf (buf, ",%s",
+        hl_buf_printf (buf, ",%s",
                            hl_cli_format_fixed (num, sizeof num,
                                                 result_columns[c].precision,
                                                 column_value (&result_columns[c],
                                                               &results[i])));
       hl_flags_format (results[i].flags, ";", flags, sizeof flags);
-      hl_cli_buf_append (buf, ",", 1);
-      hl_cli_buf_csv_field (buf, flags);
-      hl_cli_buf_append (buf, "\n", 1);
+      hl_buf_append (buf, ",", 1);
+      hl_buf_csv_field (buf, flags);
+      hl_buf_append (buf, "\n", 1);
     }
 }
 
@@ -654,9 +654,9 @@ cmd_solve (const HlCliCommand *cmd, const HlCliArgs *args)
 
   if (format == FORMAT_CSV)
     {
-      HlCliBuf buf;
+      HlBuf buf;
 
-      hl_cli_buf_init (&buf);
+      hl_buf_init (&buf);
       csv_header (&buf, false);
       csv_rows (&buf, NULL, plan, results);
       if (buf.failed)
@@ -668,7 +668,7 @@ cmd_solve (const HlCliCommand *cmd, const HlCliArgs *args)
         {
           fwrite (buf.data, 1, buf.len, stdout);
         }
-      hl_cli_buf_clear (&buf);
+      hl_buf_clear (&buf);
     }
   else
     {
@@ -745,13 +745,13 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
   bool progress = isatty (STDERR_FILENO);
   bool progress_shown = false;
   int n_failed = 0;
-  HlCliBuf buf;
+  HlBuf buf;
 
   if (out == NULL)
     return hl_cli_usage_error (_("%s: missing --csv OUT (where to write the "
                                  "table)"), cmd->name);
 
-  hl_cli_buf_init (&buf);
+  hl_buf_init (&buf);
   csv_header (&buf, true);
 
   for (int i = 0; i < args->n_operands; i++)
@@ -806,7 +806,7 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
           status = HL_CLI_EXIT_INVALID;
         }
     }
-  hl_cli_buf_clear (&buf);
+  hl_buf_clear (&buf);
   return status;
 }
 
@@ -833,7 +833,10 @@ int
 main (int argc, char **argv)
 {
   setlocale (LC_ALL, "");
-  bindtextdomain (GETTEXT_PACKAGE, HL_LOCALEDIR);
+  /* Uninstalled runs (the tests) use the catalogues built in the build tree. */
+  const char *localedir = getenv ("HIPLEVER_LOCALEDIR");
+  bindtextdomain (GETTEXT_PACKAGE, localedir != NULL && localedir[0] != '\0' ? localedir
+                                                                              : HL_LOCALEDIR);
   bind_textdomain_codeset (GETTEXT_PACKAGE, "UTF-8");
   textdomain (GETTEXT_PACKAGE);
 

@@ -178,7 +178,7 @@ case_name (const HlPlan *plan, size_t row)
 }
 
 static int
-write_stdout (const char *path, const HlCliBuf *buf)
+write_stdout (const char *path, const HlBuf *buf)
 {
   if (buf->failed)
     {
@@ -190,13 +190,13 @@ write_stdout (const char *path, const HlCliBuf *buf)
 }
 
 static void
-buf_number (HlCliBuf *buf, int precision, double v)
+buf_number (HlBuf *buf, int precision, double v)
 {
   char num[HL_CLI_NUMBER_MAX];
   if (isfinite (v))
-    hl_cli_buf_printf (buf, ",%s", hl_cli_format_fixed (num, sizeof num, precision, v));
+    hl_buf_printf (buf, ",%s", hl_cli_format_fixed (num, sizeof num, precision, v));
   else
-    hl_cli_buf_printf (buf, ",nan");
+    hl_buf_printf (buf, ",nan");
 }
 
 /* ---- inverse -------------------------------------------------------------- */
@@ -283,16 +283,16 @@ hl_cli_inverse (const HlCliCommand *cmd, const HlCliArgs *args)
       return HL_CLI_EXIT_INVALID;
     }
 
-  HlCliBuf buf;
-  hl_cli_buf_init (&buf);
+  HlBuf buf;
+  hl_buf_init (&buf);
   int status = HL_CLI_EXIT_OK;
   if (csv)
-    hl_cli_buf_printf (&buf, "option,question,site,status,value,unit,goal,achieved,lower,"
+    hl_buf_printf (&buf, "option,question,site,status,value,unit,goal,achieved,lower,"
                              "upper,at_limit,range_limited,answer\n");
   else
     {
-      hl_cli_buf_printf (&buf, _("Plan: %s\nCase: %s\n"), path, plan->label);
-      hl_cli_buf_printf (&buf, _("Joint-load target: %.2f x body weight%s\n"), target,
+      hl_buf_printf (&buf, _("Plan: %s\nCase: %s\n"), path, plan->label);
+      hl_buf_printf (&buf, _("Joint-load target: %.2f x body weight%s\n"), target,
                          args->value[INVERSE_OPT_TARGET] == NULL
                          ? _(" (our default; --target-jrf to change)") : "");
     }
@@ -301,7 +301,7 @@ hl_cli_inverse (const HlCliCommand *cmd, const HlCliArgs *args)
     {
       const HlRecon *recon = row == 0 ? NULL : &plan->options[row - 1].recon;
       if (!csv)
-        hl_cli_buf_printf (&buf, row == 0 ? "\n%s:\n" : _("\noption \"%s\":\n"),
+        hl_buf_printf (&buf, row == 0 ? "\n%s:\n" : _("\noption \"%s\":\n"),
                            row == 0 ? _("native") : plan->options[row - 1].name);
       for (size_t i = 0; i < sizeof questions / sizeof questions[0]; i++)
         {
@@ -326,30 +326,30 @@ hl_cli_inverse (const HlCliCommand *cmd, const HlCliArgs *args)
           hl_inverse_answer_format (&a, text, sizeof text);
           if (!csv)
             {
-              hl_cli_buf_printf (&buf, "  %s\n", text);
+              hl_buf_printf (&buf, "  %s\n", text);
               continue;
             }
-          hl_cli_buf_csv_field (&buf, case_name (plan, row));
-          hl_cli_buf_printf (&buf, ",%s,%s,%s", q->key,
+          hl_buf_csv_field (&buf, case_name (plan, row));
+          hl_buf_printf (&buf, ",%s,%s,%s", q->key,
                              q->site < HL_LOAD_SITE_N ? site_keys[q->site] : "",
                              answer_status_key (st));
           buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, st == HL_OK ? a.value : NAN);
-          hl_cli_buf_printf (&buf, ",%s", a.unit != NULL ? a.unit : "");
+          hl_buf_printf (&buf, ",%s", a.unit != NULL ? a.unit : "");
           buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.goal);
           buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.achieved);
           buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.lower);
           buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.upper);
-          hl_cli_buf_printf (&buf, ",%s,%s,", a.at_limit ? "true" : "false",
+          hl_buf_printf (&buf, ",%s,%s,", a.at_limit ? "true" : "false",
                              a.range_limited ? "true" : "false");
-          hl_cli_buf_csv_field (&buf, text);
-          hl_cli_buf_append (&buf, "\n", 1);
+          hl_buf_csv_field (&buf, text);
+          hl_buf_append (&buf, "\n", 1);
         }
     }
   if (status == HL_CLI_EXIT_OK && !csv)
-    hl_cli_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+    hl_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
   if (status == HL_CLI_EXIT_OK)
     status = write_stdout (path, &buf);
-  hl_cli_buf_clear (&buf);
+  hl_buf_clear (&buf);
   hl_plan_free (plan);
   return status;
 }
@@ -432,20 +432,20 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
   else if (status == HL_CLI_EXIT_OK)
     {
       const HlSweepParamInfo *info = hl_sweep_param_info (spec.param);
-      HlCliBuf buf;
+      HlBuf buf;
       size_t name_w = strlen ("native");
       char head[96];
 
       for (size_t i = 0; i < plan->n_options; i++)
         if (hl_cli_text_width (plan->options[i].name) > name_w)
           name_w = hl_cli_text_width (plan->options[i].name);
-      hl_cli_buf_init (&buf);
-      hl_cli_buf_printf (&buf, _("Plan: %s\nSweep of %s (%s) from %g to %g in %zu values; "
+      hl_buf_init (&buf);
+      hl_buf_printf (&buf, _("Plan: %s\nSweep of %s (%s) from %g to %g in %zu values; "
                                  "--csv gives every column.\n\n"),
                          path, _(info->label), info->unit, spec.from, spec.to, spec.n_steps);
       snprintf (head, sizeof head, "%s (%s)", info->key, info->unit);
       int value_w = (int) strlen (head);
-      hl_cli_buf_printf (&buf, "%*s  %-*s  %9s  %9s  %9s  %9s  %9s  %s\n", value_w, head,
+      hl_buf_printf (&buf, "%*s  %-*s  %9s  %9s  %9s  %9s  %9s  %s\n", value_w, head,
                          (int) name_w, _("case"), "arm_mm", "Fa_N", "Fa_BW", "J_N", "J_BW",
                          _("flags"));
       for (size_t step = 0; step < spec.n_steps; step++)
@@ -454,15 +454,15 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
             const HlResult *r = &results[row * spec.n_steps + step];
             char flags[256];
             size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
-            hl_cli_buf_printf (&buf, "%*.4f  %s%*s  %9.3f  %9.3f  %9.3f  %9.3f  %9.3f  %s\n",
+            hl_buf_printf (&buf, "%*.4f  %s%*s  %9.3f  %9.3f  %9.3f  %9.3f  %9.3f  %s\n",
                                value_w, values[step], case_name (plan, row), (int) pad, "",
                                r->abductor_arm_mm, r->abductor_force_n, r->abductor_force_bw,
                                r->jrf_n, r->jrf_bw,
                                hl_flags_format (r->flags, ";", flags, sizeof flags));
           }
-      hl_cli_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+      hl_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
       status = write_stdout (path, &buf);
-      hl_cli_buf_clear (&buf);
+      hl_buf_clear (&buf);
     }
 
   free (values);
@@ -532,17 +532,17 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
     }
   hl_mc_workspace_free (ws);
 
-  HlCliBuf buf;
-  hl_cli_buf_init (&buf);
+  HlBuf buf;
+  hl_buf_init (&buf);
   if (status == HL_CLI_EXIT_OK && csv)
     {
-      hl_cli_buf_printf (&buf, "option,abductor_force_BW_p05,abductor_force_BW_p50,"
+      hl_buf_printf (&buf, "option,abductor_force_BW_p05,abductor_force_BW_p50,"
                                "abductor_force_BW_p95,jrf_BW_p05,jrf_BW_p50,jrf_BW_p95,"
                                "jrf_N_p05,jrf_N_p50,jrf_N_p95,share_lower_jrf_than_native\n");
       for (size_t row = 0; row <= plan->n_options; row++)
         {
           const HlMcSummary *s = &summary[row];
-          hl_cli_buf_csv_field (&buf, case_name (plan, row));
+          hl_buf_csv_field (&buf, case_name (plan, row));
           buf_number (&buf, 4, s->abductor_force_bw.p05);
           buf_number (&buf, 4, s->abductor_force_bw.p50);
           buf_number (&buf, 4, s->abductor_force_bw.p95);
@@ -553,10 +553,10 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
           buf_number (&buf, 3, s->jrf_n.p50);
           buf_number (&buf, 3, s->jrf_n.p95);
           if (row == 0)
-            hl_cli_buf_printf (&buf, ",");
+            hl_buf_printf (&buf, ",");
           else
             buf_number (&buf, 4, s->share_lower_jrf);
-          hl_cli_buf_append (&buf, "\n", 1);
+          hl_buf_append (&buf, "\n", 1);
         }
     }
   else if (status == HL_CLI_EXIT_OK)
@@ -565,20 +565,20 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
       for (size_t i = 0; i < plan->n_options; i++)
         if (hl_cli_text_width (plan->options[i].name) > name_w)
           name_w = hl_cli_text_width (plan->options[i].name);
-      hl_cli_buf_printf (&buf, _("Plan: %s\nCase: %s\n"), path, plan->label);
-      hl_cli_buf_printf (&buf, _("Seed %" PRIu64 "; %zu samples asked, %zu used, %zu "
+      hl_buf_printf (&buf, _("Plan: %s\nCase: %s\n"), path, plan->label);
+      hl_buf_printf (&buf, _("Seed %" PRIu64 "; %zu samples asked, %zu used, %zu "
                                  "dropped (a row could not be solved)\n"),
                          info.seed, mc.n_samples, info.n_used, info.n_dropped);
-      hl_cli_buf_printf (&buf, _("Errors (SD): landmark placement %g mm per coordinate, "
+      hl_buf_printf (&buf, _("Errors (SD): landmark placement %g mm per coordinate, "
                                  "magnification %g about M = %.3f%s, abductor line angle "
                                  "%g deg\n"),
                          mc.landmark_sd_mm, mc.magnification_sd, mc.magnification,
                          m_assumed ? _(" (assumed)") : _(" (calibrated)"),
                          mc.line_angle_sd_deg);
-      hl_cli_buf_printf (&buf, "%s\n\n",
+      hl_buf_printf (&buf, "%s\n\n",
                          _("Percentiles 5th / 50th / 95th (Hyndman & Fan definition 7); "
                            "native and options share each sample."));
-      hl_cli_buf_printf (&buf, "%-*s  %-24s  %-24s  %s\n", (int) name_w, _("case"),
+      hl_buf_printf (&buf, "%-*s  %-24s  %-24s  %s\n", (int) name_w, _("case"),
                          _("abductor force (xBW)"), _("joint force (xBW)"),
                          _("lower joint force than native"));
       for (size_t row = 0; row <= plan->n_options; row++)
@@ -590,19 +590,19 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
           snprintf (j, sizeof j, "%.3f / %.3f / %.3f", s->jrf_bw.p05, s->jrf_bw.p50,
                     s->jrf_bw.p95);
           size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
-          hl_cli_buf_printf (&buf, "%s%*s  %-24s  %-24s  ", case_name (plan, row),
+          hl_buf_printf (&buf, "%s%*s  %-24s  %-24s  ", case_name (plan, row),
                              (int) pad, "", a, j);
           if (row == 0)
-            hl_cli_buf_printf (&buf, "%s\n", _("(reference)"));
+            hl_buf_printf (&buf, "%s\n", _("(reference)"));
           else
-            hl_cli_buf_printf (&buf, _("%.1f%% of samples\n"),
+            hl_buf_printf (&buf, _("%.1f%% of samples\n"),
                                HL_CLI_PERCENT * s->share_lower_jrf);
         }
-      hl_cli_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+      hl_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
     }
   if (status == HL_CLI_EXIT_OK)
     status = write_stdout (path, &buf);
-  hl_cli_buf_clear (&buf);
+  hl_buf_clear (&buf);
   free (summary);
   hl_plan_free (plan);
   return status;

@@ -12,7 +12,6 @@
 #include "hl-i18n.h"
 #include "hl-cli.h"
 
-#define HL_CLI_BUF_MIN_CAP 4096
 
 /* Created once and never changed, so sharing it is re-entrant. */
 static locale_t
@@ -84,94 +83,6 @@ hl_cli_format_fixed (char *buf, size_t size, int precision, double value)
   if (buf[0] == '-' && strspn (buf + 1, "0.") == strlen (buf + 1))
     memmove (buf, buf + 1, strlen (buf));
   return buf;
-}
-
-void
-hl_cli_buf_init (HlCliBuf *buf)
-{
-  memset (buf, 0, sizeof *buf);
-}
-
-void
-hl_cli_buf_clear (HlCliBuf *buf)
-{
-  free (buf->data);
-  hl_cli_buf_init (buf);
-}
-
-static bool
-buf_reserve (HlCliBuf *buf, size_t extra)
-{
-  if (buf->failed)
-    return false;
-  if (buf->len + extra + 1 <= buf->cap)
-    return true;
-
-  size_t cap = buf->cap > 0 ? buf->cap : HL_CLI_BUF_MIN_CAP;
-  while (cap < buf->len + extra + 1)
-    cap *= 2;
-
-  char *data = realloc (buf->data, cap);
-  if (data == NULL)
-    {
-      buf->failed = true;
-      return false;
-    }
-  buf->data = data;
-  buf->cap = cap;
-  return true;
-}
-
-void
-hl_cli_buf_append (HlCliBuf *buf, const char *s, size_t n)
-{
-  if (!buf_reserve (buf, n))
-    return;
-  memcpy (buf->data + buf->len, s, n);
-  buf->len += n;
-  buf->data[buf->len] = '\0';
-}
-
-void
-hl_cli_buf_printf (HlCliBuf *buf, const char *fmt, ...)
-{
-  va_list ap;
-
-  va_start (ap, fmt);
-  int n = hl_cli_vsnprintf (NULL, 0, fmt, ap);
-  va_end (ap);
-  if (n < 0)
-    {
-      buf->failed = true;
-      return;
-    }
-  if (!buf_reserve (buf, (size_t) n))
-    return;
-
-  va_start (ap, fmt);
-  hl_cli_vsnprintf (buf->data + buf->len, (size_t) n + 1, fmt, ap);
-  va_end (ap);
-  buf->len += (size_t) n;
-}
-
-void
-hl_cli_buf_csv_field (HlCliBuf *buf, const char *field)
-{
-  if (strpbrk (field, ",\"\r\n") == NULL)
-    {
-      hl_cli_buf_append (buf, field, strlen (field));
-      return;
-    }
-
-  hl_cli_buf_append (buf, "\"", 1);
-  for (const char *p = field; *p != '\0'; p++)
-    {
-      if (*p == '"')
-        hl_cli_buf_append (buf, "\"\"", 2);
-      else
-        hl_cli_buf_append (buf, p, 1);
-    }
-  hl_cli_buf_append (buf, "\"", 1);
 }
 
 /* Returns s past `prefix` and `sep` when s starts with both, else s. */

@@ -9,6 +9,8 @@
  */
 #pragma once
 
+#include "hl-buf.h"
+
 #include <stdarg.h>
 #include <stdbool.h>
 #include <stddef.h>
@@ -27,23 +29,6 @@ typedef enum {
 
 /* Room for one formatted number. */
 #define HL_CLI_NUMBER_MAX 64
-
-/* A growable NUL-terminated byte buffer. */
-typedef struct {
-  char *data;
-  size_t len;
-  size_t cap;
-  bool failed;   /* out of memory at some point: the contents are incomplete */
-} HlCliBuf;
-
-void hl_cli_buf_init (HlCliBuf *buf);
-void hl_cli_buf_clear (HlCliBuf *buf);
-void hl_cli_buf_append (HlCliBuf *buf, const char *s, size_t n);
-void hl_cli_buf_printf (HlCliBuf *buf, const char *fmt, ...)
-  __attribute__ ((format (printf, 2, 3)));
-/* Appends `field` as one CSV field, quoted as RFC 4180 asks when it holds a
- * comma, a double quote, CR or LF. */
-void hl_cli_buf_csv_field (HlCliBuf *buf, const char *field);
 
 /* C-locale formatting. */
 int hl_cli_vfprintf (FILE *out, const char *fmt, va_list ap)

@@ -32,6 +32,7 @@
 #include <libxml/xmlerror.h>
 #include <libxml/xmlschemas.h>
 
+#include "hl-buf.h"
 #include "hl-i18n.h"
 #include "hl-image.h"
 #include "hl-measure.h"
@@ -242,50 +243,6 @@ parse_number (const char *text, double *out)
 
 /* ---- A growing text buffer -------------------------------------------- */
 
-typedef struct {
-  char *data;
-  size_t len;
-  size_t cap;
-  bool failed;   /* out of memory: every later append is a no-op */
-} HlBuf;
-
-static void
-buf_append (HlBuf *b, const char *s, size_t n)
-{
-  if (b->failed)
-    return;
-  if (b->len + n + 1 > b->cap)
-    {
-      size_t cap = b->cap ? b->cap : 4096;
-      while (cap < b->len + n + 1)
-        cap *= 2;
-      char *grown = realloc (b->data, cap);
-      if (grown == NULL)
-        {
-          b->failed = true;
-          return;
-        }
-      b->data = grown;
-      b->cap = cap;
-    }
-  memcpy (b->data + b->len, s, n);
-  b->len += n;
-  b->data[b->len] = '\0';
-}
-
-static void
-buf_puts (HlBuf *b, const char *s)
-{
-  buf_append (b, s, strlen (s));
-}
-
-static void
-buf_free (HlBuf *b)
-{
-  free (b->data);
-  memset (b, 0, sizeof *b);
-}
-
 /* Escapes for an attribute value (in_attr) or element text.  Tabs and line
  * breaks in attributes, and carriage returns anywhere, are written as
  * character references so that a reader's normalisation keeps them. */
@@ -296,14 +253,14 @@ buf_escaped (HlBuf *b, const char *s, bool in_attr)
     {
       switch (*s)
         {
-        case '&': buf_puts (b, "&amp;"); break;
-        case '<': buf_puts (b, "&lt;"); break;
-        case '>': buf_puts (b, "&gt;"); break;
-        case '"': buf_puts (b, in_attr ? "&quot;" : "\""); break;
-        case '\r': buf_puts (b, "&#13;"); break;
-        case '\n': buf_puts (b, in_attr ? "&#10;" : "\n"); break;
-        case '\t': buf_puts (b, in_attr ? "&#9;" : "\t"); break;
-        default: buf_append (b, s, 1); break;
+        case '&': hl_buf_puts (b, "&amp;"); break;
+        case '<': hl_buf_puts (b, "&lt;"); break;
+        case '>': hl_buf_puts (b, "&gt;"); break;
+        case '"': hl_buf_puts (b, in_attr ? "&quot;" : "\""); break;
+        case '\r': hl_buf_puts (b, "&#13;"); break;
+        case '\n': hl_buf_puts (b, in_attr ? "&#10;" : "\n"); break;
+        case '\t': hl_buf_puts (b, in_attr ? "&#9;" : "\t"); break;
+        default: hl_buf_append (b, s, 1); break;
         }
     }
 }
@@ -385,11 +342,11 @@ put_text_attr (HlWriter *w, const char *attr, const char *s, size_t size,
       writer_fail (w, HL_ERR_INVALID, field, what);
       return;
     }
-  buf_puts (w->b, " ");
-  buf_puts (w->b, attr);
-  buf_puts (w->b, "=\"");
+  hl_buf_puts (w->b, " ");
+  hl_buf_puts (w->b, attr);
+  hl_buf_puts (w->b, "=\"");
   buf_escaped (w->b, s, true);
-  buf_puts (w->b, "\"");
+  hl_buf_puts (w->b, "\"");
 }
 
 static void
@@ -406,11 +363,11 @@ put_number (HlWriter *w, const char *attr, double v, const char *field)
     }
   char num[HL_NUMBER_TEXT_MAX];
   format_number (num, v);
-  buf_puts (w->b, " ");
-  buf_puts (w->b, attr);
-  buf_puts (w->b, "=\"");
-  buf_puts (w->b, num);
-  buf_puts (w->b, "\"");
+  hl_buf_puts (w->b, " ");
+  hl_buf_puts (w->b, attr);
+  hl_buf_puts (w->b, "=\"");
+  hl_buf_puts (w->b, num);
+  hl_buf_puts (w->b, "\"");
 }
 
 static void
@@ -418,11 +375,11 @@ put_result_number (HlBuf *b, const char *attr, double v)
 {
   char num[HL_NUMBER_TEXT_MAX];
   format_number (num, v);
-  buf_puts (b, " ");
-  buf_puts (b, attr);
-  buf_puts (b, "=\"");
-  buf_puts (b, num);
-  buf_puts (b, "\"");
+  hl_buf_puts (b, " ");
+  hl_buf_puts (b, attr);
+  hl_buf_puts (b, "=\"");
+  hl_buf_puts (b, num);
+  hl_buf_puts (b, "\"");
 }
 
 static void
@@ -438,11 +395,11 @@ put_enum (HlWriter *w, const char *attr, int value, const char *const *names,
       writer_fail (w, HL_ERR_INVALID, field, what);
       return;
     }
-  buf_puts (w->b, " ");
-  buf_puts (w->b, attr);
-  buf_puts (w->b, "=\"");
-  buf_puts (w->b, names[value]);
-  buf_puts (w->b, "\"");
+  hl_buf_puts (w->b, " ");
+  hl_buf_puts (w->b, attr);
+  hl_buf_puts (w->b, "=\"");
+  hl_buf_puts (w->b, names[value]);
+  hl_buf_puts (w->b, "\"");
 }
 
 /* The recorded Monte Carlo settings; the magnification is the calibration's
@@ -455,17 +412,17 @@ write_uncertainty (HlBuf *b, const HlMcSettings *mc)
 
   snprintf (line, sizeof line, "  <uncertainty samples=\"%zu\" seed=\"%" PRIu64 "\"",
             mc->n_samples, mc->seed);
-  buf_puts (b, line);
+  hl_buf_puts (b, line);
   format_number (num, mc->landmark_sd_mm);
-  buf_puts (b, " landmark-sd-mm=\"");
-  buf_puts (b, num);
+  hl_buf_puts (b, " landmark-sd-mm=\"");
+  hl_buf_puts (b, num);
   format_number (num, mc->magnification_sd);
-  buf_puts (b, "\" magnification-sd=\"");
-  buf_puts (b, num);
+  hl_buf_puts (b, "\" magnification-sd=\"");
+  hl_buf_puts (b, num);
   format_number (num, mc->line_angle_sd_deg);
-  buf_puts (b, "\" angle-sd-deg=\"");
-  buf_puts (b, num);
-  buf_puts (b, "\"/>\n");
+  hl_buf_puts (b, "\" angle-sd-deg=\"");
+  hl_buf_puts (b, num);
+  hl_buf_puts (b, "\"/>\n");
 }
 
 /* The reference only, never the pixels; the path relative to the file
@@ -482,7 +439,7 @@ write_radiograph (HlWriter *w, const HlRadiograph *rg)
       w->status = st;
       return;
     }
-  buf_puts (w->b, "  <radiograph");
+  hl_buf_puts (w->b, "  <radiograph");
   put_text_attr (w, "path", path, sizeof path, "radiograph path");
   if (rg->sha256[0] != '\0')
     put_text_attr (w, "sha256", rg->sha256, sizeof rg->sha256, "radiograph sha256");
@@ -491,9 +448,9 @@ write_radiograph (HlWriter *w, const HlRadiograph *rg)
   put_number (w, "origin-y-mm", rg->origin_mm.y, "radiograph origin");
   put_number (w, "brightness", rg->brightness, "radiograph brightness");
   put_number (w, "contrast", rg->contrast, "radiograph contrast");
-  buf_puts (w->b, rg->invert ? " invert=\"true\"" : " invert=\"false\"");
+  hl_buf_puts (w->b, rg->invert ? " invert=\"true\"" : " invert=\"false\"");
   put_number (w, "opacity", rg->opacity, "radiograph opacity");
-  buf_puts (w->b, rg->schematic_visible ? " schematic-visible=\"true\"/>\n"
+  hl_buf_puts (w->b, rg->schematic_visible ? " schematic-visible=\"true\"/>\n"
                                         : " schematic-visible=\"false\"/>\n");
 }
 
@@ -505,22 +462,22 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
 
   snprintf (line, sizeof line, "<plan xmlns=\"%s\" format-version=\"%d\">\n",
             HL_PLAN_NAMESPACE, HL_PLAN_FORMAT_VERSION);
-  buf_puts (b, line);
+  hl_buf_puts (b, line);
 
-  buf_puts (b, "  <case");
+  hl_buf_puts (b, "  <case");
   put_text_attr (w, "label", plan->label, sizeof plan->label, "case label");
   put_number (w, "mass-kg", plan->mass_kg, "patient mass");
   put_enum (w, "operated-side", (int) plan->side, side_names, N_NAMES (side_names),
             "operated side");
-  buf_puts (b, "/>\n");
+  hl_buf_puts (b, "/>\n");
 
   const HlLimbTableInfo *limb = hl_limb_table_info (plan->model.limb_table);
   if (limb == NULL)
     writer_fail (w, HL_ERR_INVALID, "model limb-table",
                  _("the stance-limb mass table is unknown"));
-  buf_puts (b, "  <model limb-table=\"");
-  buf_puts (b, limb ? limb->key : "");
-  buf_puts (b, "\"");
+  hl_buf_puts (b, "  <model limb-table=\"");
+  hl_buf_puts (b, limb ? limb->key : "");
+  hl_buf_puts (b, "\"");
   put_number (w, "limb-fraction", plan->model.limb_fraction_custom, "model limb-fraction");
   put_enum (w, "body-weight-line", (int) plan->model.bw_line, bw_line_names,
             N_NAMES (bw_line_names), "model body-weight-line");
@@ -529,9 +486,9 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
   put_number (w, "abductor-angle-deg", plan->model.abductor_angle_deg,
               "model abductor-angle");
   put_number (w, "lean-mm", plan->model.lean_mm, "model lean");
-  buf_puts (b, "/>\n");
+  hl_buf_puts (b, "/>\n");
 
-  buf_puts (b, "  <landmarks>\n");
+  hl_buf_puts (b, "  <landmarks>\n");
   for (int i = 0; i < HL_LM_COUNT; i++)
     {
       if (!hl_landmarks_has (&plan->landmarks, (HlLandmarkId) i))
@@ -539,17 +496,17 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
       const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) i);
       char field[HL_ERROR_FIELD_MAX];
       snprintf (field, sizeof field, "landmark %s", info->key);
-      buf_puts (b, "    <landmark name=\"");
-      buf_puts (b, info->key);
-      buf_puts (b, "\"");
+      hl_buf_puts (b, "    <landmark name=\"");
+      hl_buf_puts (b, info->key);
+      hl_buf_puts (b, "\"");
       put_number (w, "x-mm", plan->landmarks.p[i].x, field);
       put_number (w, "y-mm", plan->landmarks.p[i].y, field);
-      buf_puts (b, "/>\n");
+      hl_buf_puts (b, "/>\n");
     }
-  buf_puts (b, "  </landmarks>\n");
+  hl_buf_puts (b, "  </landmarks>\n");
 
   const HlCalibration *cal = &plan->calibration;
-  buf_puts (b, "  <calibration");
+  hl_buf_puts (b, "  <calibration");
   put_enum (w, "method", (int) cal->method, cal_method_names,
             N_NAMES (cal_method_names), "calibration method");
   put_number (w, "magnification", cal->magnification, "calibration magnification");
@@ -561,68 +518,68 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
     writer_fail (w, HL_ERR_INVALID, "calibration points",
                  _("the number of calibration points is not between 0 and 3"));
   if (cal->n_points <= 0)
-    buf_puts (b, "/>\n");
+    hl_buf_puts (b, "/>\n");
   else
     {
-      buf_puts (b, ">\n");
+      hl_buf_puts (b, ">\n");
       for (int i = 0; i < cal->n_points && i < 3; i++)
         {
-          buf_puts (b, "    <point");
+          hl_buf_puts (b, "    <point");
           put_number (w, "x-mm", cal->points[i].x, "calibration point");
           put_number (w, "y-mm", cal->points[i].y, "calibration point");
-          buf_puts (b, "/>\n");
+          hl_buf_puts (b, "/>\n");
         }
-      buf_puts (b, "  </calibration>\n");
+      hl_buf_puts (b, "  </calibration>\n");
     }
   write_radiograph (w, &plan->radiograph);
 
-  buf_puts (b, "  <aids>\n    <cane enabled=\"");
-  buf_puts (b, plan->cane.enabled ? "true" : "false");
-  buf_puts (b, "\"");
+  hl_buf_puts (b, "  <aids>\n    <cane enabled=\"");
+  hl_buf_puts (b, plan->cane.enabled ? "true" : "false");
+  hl_buf_puts (b, "\"");
   put_enum (w, "hand", (int) plan->cane.hand, hand_names, N_NAMES (hand_names),
             "cane hand");
   put_enum (w, "unit", (int) plan->cane.unit, force_unit_names,
             N_NAMES (force_unit_names), "cane unit");
   put_number (w, "value", plan->cane.value, "cane force");
   put_number (w, "distance-mm", plan->cane.distance_mm, "cane distance");
-  buf_puts (b, "/>\n");
+  hl_buf_puts (b, "/>\n");
   for (int h = 0; h < 2; h++)
     {
       const char *field = h == HL_HAND_CONTRALATERAL ? "load contralateral"
                                                      : "load ipsilateral";
-      buf_puts (b, "    <hand-load hand=\"");
-      buf_puts (b, hand_names[h]);
-      buf_puts (b, "\"");
+      hl_buf_puts (b, "    <hand-load hand=\"");
+      hl_buf_puts (b, hand_names[h]);
+      hl_buf_puts (b, "\"");
       put_number (w, "mass-kg", plan->loads.hand[h].mass_kg, field);
       put_number (w, "distance-mm", plan->loads.hand[h].distance_mm, field);
-      buf_puts (b, "/>\n");
+      hl_buf_puts (b, "/>\n");
     }
-  buf_puts (b, "    <midline-load");
+  hl_buf_puts (b, "    <midline-load");
   put_number (w, "mass-kg", plan->loads.midline_kg, "load midline");
-  buf_puts (b, "/>\n  </aids>\n");
+  hl_buf_puts (b, "/>\n  </aids>\n");
 
-  buf_puts (b, "  <tolerances");
+  hl_buf_puts (b, "  <tolerances");
   put_number (w, "global-offset-drop-mm", plan->tol.global_offset_drop_mm,
               "tolerance global-offset");
   put_number (w, "leg-length-mm", plan->tol.leg_length_mm, "tolerance leg-length");
   put_number (w, "abductor-slack-mm", plan->tol.abductor_slack_mm,
               "tolerance abductor-slack");
-  buf_puts (b, "/>\n  <capacity");
+  hl_buf_puts (b, "/>\n  <capacity");
   put_number (w, "torque-nm-per-kg", plan->capacity.torque_nm_per_kg, "capacity torque");
-  buf_puts (b, "/>\n");
+  hl_buf_puts (b, "/>\n");
   write_uncertainty (b, &plan->uncertainty);
 
   if (plan->n_options == 0)
-    buf_puts (b, "  <options/>\n");
+    hl_buf_puts (b, "  <options/>\n");
   else
     {
-      buf_puts (b, "  <options>\n");
+      hl_buf_puts (b, "  <options>\n");
       for (size_t i = 0; i < plan->n_options; i++)
         {
           const HlOption *o = &plan->options[i];
           char field[HL_ERROR_FIELD_MAX];
           snprintf (field, sizeof field, "option %zu", i + 1);
-          buf_puts (b, "    <option");
+          hl_buf_puts (b, "    <option");
           put_text_attr (w, "name", o->name, sizeof o->name, field);
           put_number (w, "cup-medial-mm", o->recon.cup_medial_mm, field);
           put_number (w, "cup-superior-mm", o->recon.cup_superior_mm, field);
@@ -630,9 +587,9 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
           put_number (w, "femoral-length-mm", o->recon.femoral_length_mm, field);
           put_number (w, "head-length-mm", o->recon.head_length_mm, field);
           put_number (w, "neck-shaft-angle-deg", o->recon.neck_shaft_angle_deg, field);
-          buf_puts (b, "/>\n");
+          hl_buf_puts (b, "/>\n");
         }
-      buf_puts (b, "  </options>\n");
+      hl_buf_puts (b, "  </options>\n");
     }
 
   const char *problem = text_problem (plan->notes, sizeof plan->notes);
@@ -644,11 +601,11 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
     }
   else
     {
-      buf_puts (b, "  <notes>");
+      hl_buf_puts (b, "  <notes>");
       buf_escaped (b, plan->notes, false);
-      buf_puts (b, "</notes>\n");
+      hl_buf_puts (b, "</notes>\n");
     }
-  buf_puts (b, "</plan>\n");
+  hl_buf_puts (b, "</plan>\n");
 }
 
 /* Runs the range checks a reader applies, so that nothing is written that
@@ -672,7 +629,7 @@ finish_buffer (HlBuf *b, HlStatus st, char **out, size_t *size, HlError *err)
     st = hl_error_set (err, HL_ERR_NOMEM, "", _("Out of memory while writing the plan"));
   if (st != HL_OK)
     {
-      buf_free (b);
+      hl_buf_clear (b);
       return st;
     }
   *out = b->data;
@@ -695,7 +652,7 @@ plan_to_buffer_for (const HlPlan *plan, const char *base_file, char **out,
 
   HlBuf b = { 0 };
   HlWriter w = { &b, err, HL_OK, base_file };
-  buf_puts (&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
+  hl_buf_puts (&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
   write_plan_element (&w, plan);
   c_numeric_leave (&scope);
   return finish_buffer (&b, w.status, out, size, err);
@@ -819,20 +776,20 @@ write_measures (HlBuf *b, const HlPlan *plan, const HlRecon *recon)
     {
       double m;
       bool assumed;
-      buf_puts (b, "    <measures");
-      buf_append (b, attrs.data, attrs.len);
+      hl_buf_puts (b, "    <measures");
+      hl_buf_append (b, attrs.data, attrs.len);
       if (hl_calibration_magnification (&plan->calibration, &m, &assumed, NULL) == HL_OK)
         {
           put_result_number (b, "magnification", m);
-          buf_puts (b, assumed ? " magnification-assumed=\"true\""
+          hl_buf_puts (b, assumed ? " magnification-assumed=\"true\""
                                : " magnification-assumed=\"false\"");
         }
-      buf_puts (b, ms.side_contradiction ? " side-contradiction=\"true\"/>\n"
+      hl_buf_puts (b, ms.side_contradiction ? " side-contradiction=\"true\"/>\n"
                                          : " side-contradiction=\"false\"/>\n");
     }
   if (attrs.failed)
     b->failed = true;
-  buf_free (&attrs);
+  hl_buf_clear (&attrs);
 }
 
 static void
@@ -840,16 +797,16 @@ write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
               const char *name, const HlPlan *plan)
 {
   if (index < 0)
-    buf_puts (b, "  <result kind=\"native\"");
+    hl_buf_puts (b, "  <result kind=\"native\"");
   else
     {
       char num[32];
       snprintf (num, sizeof num, "%ld", index);
-      buf_puts (b, "  <result kind=\"option\" option-index=\"");
-      buf_puts (b, num);
-      buf_puts (b, "\" option-name=\"");
+      hl_buf_puts (b, "  <result kind=\"option\" option-index=\"");
+      hl_buf_puts (b, num);
+      hl_buf_puts (b, "\" option-name=\"");
       buf_escaped (b, name, true);
-      buf_puts (b, "\"");
+      hl_buf_puts (b, "\"");
     }
   put_result_number (b, "abductor-arm-mm", r->abductor_arm_mm);
   put_result_number (b, "body-weight-arm-mm", r->bw_arm_mm);
@@ -861,9 +818,9 @@ write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
   put_result_number (b, "joint-force-n", r->jrf_n);
   put_result_number (b, "joint-force-bw", r->jrf_bw);
   put_result_number (b, "joint-force-angle-deg", hl_result_jrf_angle_deg (r));
-  buf_puts (b, " joint-force-sense=\"");
+  hl_buf_puts (b, " joint-force-sense=\"");
   buf_escaped (b, hl_result_jrf_sense (r), true);
-  buf_puts (b, "\"");
+  hl_buf_puts (b, "\"");
   put_result_number (b, "external-moment-nmm", r->moment_ext_nmm);
   put_result_number (b, "unbalanced-moment-nmm", r->unbalanced_nmm);
   put_result_number (b, "weight-line-x-mm", r->x_s_mm);
@@ -882,30 +839,30 @@ write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
   if (index >= 0)
     put_result_number (b, "share-lower-than-native", mc->share_lower_jrf);
 
-  buf_puts (b, " flags=\"");
+  hl_buf_puts (b, " flags=\"");
   bool first = true;
   for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
     if (r->flags & bit)
       {
         if (!first)
-          buf_puts (b, " ");
-        buf_puts (b, hl_flag_key ((HlFlag) bit));
+          hl_buf_puts (b, " ");
+        hl_buf_puts (b, hl_flag_key ((HlFlag) bit));
         first = false;
       }
-  buf_puts (b, "\"");
+  hl_buf_puts (b, "\"");
 
-  buf_puts (b, ">\n");
+  hl_buf_puts (b, ">\n");
   for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
     if (r->flags & bit)
       {
-        buf_puts (b, "    <flag key=\"");
-        buf_puts (b, hl_flag_key ((HlFlag) bit));
-        buf_puts (b, "\">");
+        hl_buf_puts (b, "    <flag key=\"");
+        hl_buf_puts (b, hl_flag_key ((HlFlag) bit));
+        hl_buf_puts (b, "\">");
         buf_escaped (b, hl_flag_text ((HlFlag) bit), false);
-        buf_puts (b, "</flag>\n");
+        hl_buf_puts (b, "</flag>\n");
       }
   write_measures (b, plan, index < 0 ? NULL : &plan->options[index].recon);
-  buf_puts (b, "  </result>\n");
+  hl_buf_puts (b, "  </result>\n");
 }
 
 /* The plan's Monte Carlo ranges; *out (1 + n_options entries) is malloc'd. */
@@ -996,38 +953,38 @@ summary_to_buffer_for (const HlPlan *plan, const char *date_iso, const char *bas
       /* The digest covers "<plan " to "</plan>" without the final newline. */
       hl_sha256_hex (plan_text.data, plan_text.len - 1, hex);
 
-      buf_puts (&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
+      hl_buf_puts (&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
       snprintf (line, sizeof line,
                 "<planning-summary xmlns=\"%s\" format-version=\"%d\">\n",
                 HL_PLAN_NAMESPACE, HL_PLAN_FORMAT_VERSION);
-      buf_puts (&b, line);
-      buf_puts (&b, "<caution>");
+      hl_buf_puts (&b, line);
+      hl_buf_puts (&b, "<caution>");
       buf_escaped (&b, hl_caution_text (), false);
-      buf_puts (&b, "</caution>\n<provenance program-version=\"");
+      hl_buf_puts (&b, "</caution>\n<provenance program-version=\"");
       buf_escaped (&b, hl_program_version (), true);
-      buf_puts (&b, "\" model-version=\"");
+      hl_buf_puts (&b, "\" model-version=\"");
       buf_escaped (&b, HL_MODEL_VERSION, true);
-      buf_puts (&b, "\" created=\"");
-      buf_puts (&b, date_iso);
-      buf_puts (&b, "\" plan-sha256=\"");
-      buf_puts (&b, hex);
+      hl_buf_puts (&b, "\" created=\"");
+      hl_buf_puts (&b, date_iso);
+      hl_buf_puts (&b, "\" plan-sha256=\"");
+      hl_buf_puts (&b, hex);
       snprintf (line, sizeof line,
                 "\" uncertainty-seed=\"%" PRIu64 "\" uncertainty-samples-used=\"%zu\""
                 " uncertainty-samples-dropped=\"%zu\"/>\n",
                 mc_info.seed, mc_info.n_used, mc_info.n_dropped);
-      buf_puts (&b, line);
-      buf_append (&b, plan_text.data, plan_text.len);
-      buf_puts (&b, "<results>\n");
+      hl_buf_puts (&b, line);
+      hl_buf_append (&b, plan_text.data, plan_text.len);
+      hl_buf_puts (&b, "<results>\n");
       write_result (&b, &results[0], &mc[0], -1, NULL, plan);
       for (size_t i = 0; i < plan->n_options; i++)
         write_result (&b, &results[1 + i], &mc[1 + i], (long) i, plan->options[i].name,
                       plan);
-      buf_puts (&b, "</results>\n</planning-summary>\n");
+      hl_buf_puts (&b, "</results>\n</planning-summary>\n");
     }
   if (plan_text.failed)
     b.failed = true;
   c_numeric_leave (&scope);
-  buf_free (&plan_text);
+  hl_buf_clear (&plan_text);
   free (results);
   free (mc);
   return finish_buffer (&b, w.status, out, size, err);
@@ -1194,8 +1151,8 @@ write_file_atomic (const char *path, const void *data, size_t size, bool keep_ba
   else if (keep_backup && (e = keep_previous_version (path)) != 0)
     st = hl_error_set (err, HL_ERR_IO, path,
                        _("Cannot save \"%s\": the previous version could not be kept as "
-                         "\"%s" HL_PLAN_BACKUP_SUFFIX "\": %s; the file was not changed"),
-                       path, path, strerror (e));
+                         "\"%s%s\": %s; the file was not changed"),
+                       path, path, HL_PLAN_BACKUP_SUFFIX, strerror (e));
   else if (rename (tmp, path) != 0)
     {
       e = errno;

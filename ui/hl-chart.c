@@ -11,6 +11,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "hl-buf.h"
 #include "hl-chart.h"
 #include "hl-i18n.h"
 
@@ -855,63 +856,8 @@ hl_chart_draw_legend (cairo_t *cr, const HlChartData *d, const HlChartStyle *sty
 
 /* ---- CSV ------------------------------------------------------------------ */
 
-typedef struct {
-  char *data;
-  size_t len, cap;
-  bool failed;
-} HlCsvBuf;
-
 static void
-csv_append (HlCsvBuf *b, const char *s, size_t n)
-{
-  if (b->failed)
-    return;
-  if (b->len + n + 1 > b->cap)
-    {
-      size_t cap = b->cap ? b->cap : 4096;
-      while (cap < b->len + n + 1)
-        cap *= 2;
-      char *p = realloc (b->data, cap);
-      if (p == NULL)
-        {
-          b->failed = true;
-          return;
-        }
-      b->data = p;
-      b->cap = cap;
-    }
-  memcpy (b->data + b->len, s, n);
-  b->len += n;
-  b->data[b->len] = '\0';
-}
-
-static void
-csv_puts (HlCsvBuf *b, const char *s)
-{
-  csv_append (b, s, strlen (s));
-}
-
-/* RFC 4180: quoted when it holds a comma, a quote, CR or LF. */
-static void
-csv_field (HlCsvBuf *b, const char *s)
-{
-  if (strpbrk (s, ",\"\r\n") == NULL)
-    {
-      csv_puts (b, s);
-      return;
-    }
-  csv_puts (b, "\"");
-  for (const char *p = s; *p != '\0'; p++)
-    {
-      csv_append (b, p, 1);
-      if (*p == '"')
-        csv_append (b, "\"", 1);
-    }
-  csv_puts (b, "\"");
-}
-
-static void
-csv_number (HlCsvBuf *b, double v, int precision)
+csv_number (HlBuf *b, double v, int precision)
 {
   char num[64];
   if (!isfinite (v))
@@ -924,7 +870,7 @@ csv_number (HlCsvBuf *b, double v, int precision)
       if (*p == '-' && strspn (p + 1, "0.") == strlen (p + 1))
         memmove (p, p + 1, strlen (p));
     }
-  csv_puts (b, num);
+  hl_buf_puts (b, num);
 }
 
 HlStatus
@@ -943,9 +889,10 @@ hl_sweep_to_csv (const HlPlan *plan, const HlSweepSpec *spec, const double *valu
                          _("Cannot set up the C locale for numbers"));
   locale_t old = uselocale (c_locale);
 
-  HlCsvBuf b = { 0 };
+  HlBuf b;
+  hl_buf_init (&b);
   size_t rows = 1 + plan->n_options;
-  csv_puts (&b, HL_SWEEP_CSV_HEADER "\n");
+  hl_buf_puts (&b, HL_SWEEP_CSV_HEADER "\n");
   for (size_t step = 0; step < spec->n_steps; step++)
     for (size_t row = 0; row < rows; row++)
       {
@@ -954,10 +901,10 @@ hl_sweep_to_csv (const HlPlan *plan, const HlSweepSpec *spec, const double *valu
         char num[64];
         char flags[256];
 
-        csv_puts (&b, info->key);
+        hl_buf_puts (&b, info->key);
         snprintf (num, sizeof num, ",%.6g,", values[step]);
-        csv_puts (&b, num);
-        csv_field (&b, row == 0 ? "native" : plan->options[row - 1].name);
+        hl_buf_puts (&b, num);
+        hl_buf_csv_field (&b, row == 0 ? "native" : plan->options[row - 1].name);
         double cols[] = {
           r->abductor_arm_mm, r->bw_arm_mm, r->lever_ratio, r->abductor_force_n,
           r->abductor_force_bw, r->jrf_n, r->jrf_bw, hl_result_jrf_angle_deg (r),
@@ -967,12 +914,12 @@ hl_sweep_to_csv (const HlPlan *plan, const HlSweepSpec *spec, const double *valu
         for (size_t c = 0; c < sizeof cols / sizeof cols[0]; c++)
           csv_number (&b, ok ? cols[c] : NAN, c == 2 ? HL_CSV_RATIO_PRECISION
                                                      : HL_CSV_PRECISION);
-        csv_puts (&b, ",");
+        hl_buf_puts (&b, ",");
         if (ok)
-          csv_field (&b, hl_flags_format (r->flags, ";", flags, sizeof flags));
+          hl_buf_csv_field (&b, hl_flags_format (r->flags, ";", flags, sizeof flags));
         else
-          csv_puts (&b, "not-solved");
-        csv_puts (&b, "\n");
+          hl_buf_puts (&b, "not-solved");
+        hl_buf_puts (&b, "\n");
       }
 
   uselocale (old);
