@@ -11,6 +11,7 @@
 #include <glib/gi18n.h>
 
 #include "hl-application.h"
+#include "hl-autosave.h"
 #include "hl-resources.h"
 #include "hl-plan-io.h"
 #include "hl-version.h"
@@ -190,6 +191,8 @@ hl_application_start_mode (HlApplication *self, HlWindow *window)
     hl_window_run_screenshot (window, self->screenshot_path);
   else if (self->print_results)
     hl_window_run_print_results (window);
+  else
+    hl_autosave_offer_recovery (window);
 }
 
 static gboolean

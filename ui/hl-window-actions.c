@@ -10,6 +10,7 @@
 
 #include <glib/gi18n.h>
 
+#include "hl-autosave.h"
 #include "hl-plan-io.h"
 #include "hl-window-private.h"
 
@@ -48,8 +49,8 @@ save_to (HlWindow *self, GFile *file)
   hl_error_clear (&err);
   if (path == NULL)
     hl_error_set (&err, HL_ERR_IO, "file", "%s", _("only local files can be saved"));
-  else
-    hl_plan_save_file (self->plan, path, &err);
+  else if (!hl_autosave_target_is_newer (path, &err))
+    hl_plan_save_file_backup (self->plan, path, &err);
 
   if (err.status != HL_OK)
     {
@@ -64,6 +65,7 @@ save_to (HlWindow *self, GFile *file)
 
   g_set_object (&self->file, file);
   self->saved_revision = self->revision;
+  hl_autosave_saved (self);
   hl_window_plan_edited (self);
   return TRUE;
 }
@@ -259,6 +261,7 @@ hl_window_close_request (HlWindow *self)
   if (self->close_confirmed || self->skip_close_guard || !hl_window_is_modified (self))
     {
       hl_window_write_dump (self);
+      hl_autosave_closed (self);
       return FALSE;
     }
   hl_window_guard (self, HL_AFTER_CLOSE);
@@ -445,7 +448,7 @@ save_action_cb (GtkWidget *widget, const char *name, GVariant *param)
 
   if (self->file == NULL)
     hl_window_save_as (self, HL_AFTER_NOTHING);
-  else
+  else if (!hl_autosave_confirm_save (self))
     save_to (self, self->file);
 }
 

@@ -11,6 +11,7 @@
 #include <glib/gi18n.h>
 
 #include "hl-plan-io.h"
+#include "hl-autosave.h"
 #include "hl-radiograph-page.h"
 #include "hl-version.h"
 #include "hl-window-private.h"
@@ -71,7 +72,11 @@ hl_window_update_title (HlWindow *self)
   const char *label = self->plan->label[0] != '\0' ? self->plan->label
                                                     : _("Untitled case");
   g_autofree char *title = NULL;
+  g_autofree char *recovered = hl_autosave_is_recovered (self)
+                               ? g_strdup_printf (_("%s (recovered)"), label) : NULL;
 
+  if (recovered != NULL)
+    label = recovered;
   /* The product name stays last so tests and window lists can find it. */
   if (hl_window_is_modified (self))
     title = g_strdup_printf ("• %s — hiplever", label);
@@ -181,6 +186,7 @@ hl_window_replace_plan (HlWindow *self, const HlPlan *plan, GFile *file)
       return;
     }
   g_set_object (&self->file, file);
+  hl_autosave_plan_replaced (self);
   hl_undo_clear (self->undo);
   self->revision = ++self->next_revision;
   self->saved_revision = self->revision;
@@ -462,6 +468,7 @@ hl_window_init (HlWindow *self)
 
   hl_window_panel_init (self);
   hl_radiograph_page_attach (self);
+  hl_autosave_attach (self);
   hl_canvas_set_plan (self->canvas, self->plan);
   hl_window_panel_sync (self);
   hl_window_plan_edited (self);
