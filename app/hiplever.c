@@ -6,6 +6,7 @@
 #include "config.h"
 
 #include <locale.h>
+#include <stdlib.h>
 #include <glib/gi18n.h>
 
 #include "hl-application.h"
@@ -18,7 +19,10 @@ main (int argc, char *argv[])
   int status;
 
   setlocale (LC_ALL, "");
-  bindtextdomain (GETTEXT_PACKAGE, HL_LOCALEDIR);
+  /* Uninstalled runs (the tests) use the catalogues built in the build tree. */
+  const char *localedir = getenv ("HIPLEVER_LOCALEDIR");
+  bindtextdomain (GETTEXT_PACKAGE, localedir != NULL && localedir[0] != '\0' ? localedir
+                                                                              : HL_LOCALEDIR);
   bind_textdomain_codeset (GETTEXT_PACKAGE, "UTF-8");
   textdomain (GETTEXT_PACKAGE);
 
