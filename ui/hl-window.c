@@ -237,7 +237,11 @@ hl_window_load_file (HlWindow *self, GFile *file, gboolean report, HlError *err)
         {
           g_autofree char *primary = g_strdup_printf (_("Could not open “%s”"), name);
           g_autofree char *secondary = hl_window_format_error (&local);
-          g_autofree char *text = g_strdup_printf (_("%s\n\nThe plan that was open is unchanged."),
+          g_autofree char *text = g_strdup_printf (local.status == HL_ERR_VERSION
+                                                   ? _("%s\n\nThe file is left as it is and is "
+                                                       "never written over; the plan that was "
+                                                       "open is unchanged.")
+                                                   : _("%s\n\nThe plan that was open is unchanged."),
                                                    secondary);
 
           hl_window_show_error (self, primary, text);
