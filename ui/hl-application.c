@@ -44,7 +44,7 @@ static const GOptionEntry option_entries[] = {
   { "size", 0, 0, G_OPTION_ARG_STRING, NULL,
     N_("Window size for --screenshot and --benchmark-drag"), N_("WxH") },
   { "panel", 0, 0, G_OPTION_ARG_STRING, NULL,
-    N_("Side panel page to show first: case, landmarks, options, aids or radiograph"), N_("PAGE") },
+    N_("Side panel page to show first: case, landmarks, options, aids, radiograph or analysis"), N_("PAGE") },
   { "dump-summary-on-exit", 0, 0, G_OPTION_ARG_FILENAME, NULL,
     N_("Write the planning summary of the open plan here on quitting (for tests)"), N_("FILE") },
   { "benchmark-drag", 0, 0, G_OPTION_ARG_NONE, NULL,
@@ -71,7 +71,8 @@ hl_application_finish (HlApplication *self, int status)
   g_application_quit (G_APPLICATION (self));
 }
 
-static const char *const panel_names[] = { "case", "landmarks", "options", "aids", "radiograph", NULL };
+static const char *const panel_names[] = { "case", "landmarks", "options", "aids", "radiograph",
+                                           "analysis", NULL };
 
 static gboolean
 parse_size (const char *text, int *w, int *h)
@@ -110,7 +111,7 @@ hl_application_handle_local_options (GApplication *app, GVariantDict *options)
   g_variant_dict_lookup (options, "panel", "s", &self->panel);
   if (self->panel != NULL && !g_strv_contains (panel_names, self->panel))
     {
-      g_printerr (_("hiplever: --panel '%s' is not one of case, landmarks, options, aids, radiograph\n"),
+      g_printerr (_("hiplever: --panel '%s' is not one of case, landmarks, options, aids, radiograph, analysis\n"),
                   self->panel);
       return 2;
     }
@@ -298,6 +299,10 @@ hl_application_startup (GApplication *app)
     { "win.save", { "<Control>s", NULL } },
     { "win.save-as", { "<Control><Shift>s", NULL } },
     { "win.export-summary", { "<Control>e", NULL } },
+    { "win.export-report", { "<Control><Shift>e", NULL } },
+    { "win.print", { "<Control>p", NULL } },
+    { "win.show-results", { "<Alt>1", NULL } },
+    { "win.show-charts", { "<Alt>2", NULL } },
     { "win.undo", { "<Control>z", NULL } },
     { "win.redo", { "<Control><Shift>z", "<Control>y", NULL } },
     { "win.fit-view", { "<Control>0", NULL } },

@@ -61,10 +61,32 @@ static const HlResultRow rows[] = {
 #define FIRST_VALUE_ROW 2
 #define FIRST_COLUMN 2   /* after the quantity and its unit */
 
+/* Monte Carlo rows, each right under the figure it qualifies. */
+typedef enum {
+  RANGE_ABDUCTOR,
+  RANGE_JRF,
+  RANGE_SHARE_LOWER,
+  N_RANGE_ROWS
+} HlRangeRow;
+
+static const struct {
+  const char *after;      /* key of the row above */
+  const char *label;
+  const char *unit;
+} range_rows[N_RANGE_ROWS] = {
+  { "abductor-force-bw", N_("  5–95% range"), N_("× BW") },
+  { "joint-reaction-force-bw", N_("  5–95% range"), N_("× BW") },
+  { "joint-reaction-force-bw", N_("  Lower than native in"), /* xgettext:no-c-format */ N_("% of samples") },
+};
+#define RANGE_DIGITS 2
+#define SHARE_DIGITS 0
+#define NOTE_ROW (FIRST_VALUE_ROW + (int) (N_ROWS + N_RANGE_ROWS))
+
 typedef struct {
   GtkWidget *header;
   GtkWidget *value[N_ROWS];
   GtkWidget *change[N_ROWS];
+  GtkWidget *range[N_RANGE_ROWS];
   GtkWidget *flags;
   GtkWidget *error;
 } HlResultsColumn;
@@ -76,6 +98,12 @@ struct _HlResults {
   GArray *columns;   /* of HlResultsColumn */
   GtkWidget *common_error;   /* one message over all columns */
   int selected;      /* option index, -1 none */
+  HlMcSummary *ranges;       /* n_ranges columns, NULL: none shown */
+  size_t n_ranges;
+  gboolean *column_ok;       /* of the last update, for the ranges */
+  GtkWidget *range_label[N_RANGE_ROWS];
+  GtkWidget *range_unit[N_RANGE_ROWS];
+  GtkWidget *range_note;
 };
 
 G_DEFINE_FINAL_TYPE (HlResults, hl_results, GTK_TYPE_WIDGET)
@@ -158,6 +186,53 @@ format_error (const HlSolved *s)
   return g_strdup_printf (_("Cannot solve: %s"), msg);
 }
 
+static guint
+row_index (const char *key)
+{
+  for (guint r = 0; r < N_ROWS; r++)
+    if (g_str_equal (rows[r].key, key))
+      return r;
+  g_return_val_if_reached (N_ROWS - 1);
+}
+
+static int
+value_row_y (guint r)
+{
+  int y = FIRST_VALUE_ROW + (int) r;
+
+  for (guint k = 0; k < N_RANGE_ROWS; k++)
+    if (row_index (range_rows[k].after) < r)
+      y++;
+  return y;
+}
+
+static int
+range_row_y (guint k)
+{
+  int y = value_row_y (row_index (range_rows[k].after)) + 1;
+
+  for (guint j = 0; j < k; j++)
+    if (g_str_equal (range_rows[j].after, range_rows[k].after))
+      y++;
+  return y;
+}
+
+static char *
+format_range (const HlMcSummary *s, guint k, gboolean native)
+{
+  const HlPercentiles *p = k == RANGE_ABDUCTOR ? &s->abductor_force_bw : &s->jrf_bw;
+
+  if (k == RANGE_SHARE_LOWER)
+    return native || !isfinite (s->share_lower_jrf)
+           ? g_strdup ("") : g_strdup_printf ("%.*f%%", SHARE_DIGITS, 100.0 * s->share_lower_jrf);
+  if (!isfinite (p->p05) || !isfinite (p->p95))
+    return g_strdup ("");
+  return g_strdup_printf ("%.*f–%.*f", RANGE_DIGITS, p->p05, RANGE_DIGITS, p->p95);
+}
+
+static void hl_results_show_ranges (HlResults *self);
+static void csv_append_field (GString *s, const char *text);
+
 static GtkWidget *
 make_label (const char *css, float xalign)
 {
@@ -182,6 +257,8 @@ hl_results_clear_columns (HlResults *self)
           gtk_grid_remove (GTK_GRID (self->grid), col->value[r]);
           gtk_grid_remove (GTK_GRID (self->grid), col->change[r]);
         }
+      for (guint k = 0; k < N_RANGE_ROWS; k++)
+        gtk_grid_remove (GTK_GRID (self->grid), col->range[k]);
       gtk_grid_remove (GTK_GRID (self->grid), col->flags);
       gtk_grid_remove (GTK_GRID (self->grid), col->error);
     }
@@ -215,10 +292,17 @@ hl_results_build_columns (HlResults *self, size_t n)
         {
           col.value[r] = make_label ("results-value", 1.0f);
           gtk_label_set_width_chars (GTK_LABEL (col.value[r]), 7);
-          gtk_grid_attach (grid, col.value[r], x, FIRST_VALUE_ROW + (int) r, 1, 1);
+          gtk_grid_attach (grid, col.value[r], x, value_row_y (r), 1, 1);
           col.change[r] = make_label ("results-change", 0.0f);
           gtk_label_set_width_chars (GTK_LABEL (col.change[r]), 8);
-          gtk_grid_attach (grid, col.change[r], x + 1, FIRST_VALUE_ROW + (int) r, 1, 1);
+          gtk_grid_attach (grid, col.change[r], x + 1, value_row_y (r), 1, 1);
+        }
+      for (guint k = 0; k < N_RANGE_ROWS; k++)
+        {
+          col.range[k] = make_label ("results-range", 1.0f);
+          gtk_widget_add_css_class (col.range[k], "dim-label");
+          gtk_grid_attach (grid, col.range[k], x, range_row_y (k), 1, 1);
+          gtk_widget_set_visible (col.range[k], FALSE);
         }
       col.flags = make_label ("results-flags", 0.0f);
       gtk_label_set_wrap (GTK_LABEL (col.flags), TRUE);
@@ -229,7 +313,7 @@ hl_results_build_columns (HlResults *self, size_t n)
       gtk_label_set_wrap (GTK_LABEL (col.error), TRUE);
       gtk_label_set_max_width_chars (GTK_LABEL (col.error), 22);
       gtk_widget_set_valign (col.error, GTK_ALIGN_START);
-      gtk_grid_attach (grid, col.error, x, FLAGS_ROW, 2, (int) N_ROWS + 1);
+      gtk_grid_attach (grid, col.error, x, FLAGS_ROW, 2, (int) (N_ROWS + N_RANGE_ROWS) + 1);
       gtk_widget_set_visible (col.error, FALSE);
       g_array_append_val (self->columns, col);
     }
@@ -237,7 +321,13 @@ hl_results_build_columns (HlResults *self, size_t n)
   gtk_label_set_wrap (GTK_LABEL (self->common_error), TRUE);
   gtk_widget_set_valign (self->common_error, GTK_ALIGN_START);
   gtk_grid_attach (grid, self->common_error, FIRST_COLUMN, FLAGS_ROW,
-                   2 * (int) n, (int) N_ROWS + 1);
+                   2 * (int) n, (int) (N_ROWS + N_RANGE_ROWS) + 1);
+  self->column_ok = g_renew (gboolean, self->column_ok, MAX (n, 1));
+  /* The note spans the columns there are now. */
+  g_object_ref (self->range_note);
+  gtk_grid_remove (grid, self->range_note);
+  gtk_grid_attach (grid, self->range_note, 0, NOTE_ROW, FIRST_COLUMN + 2 * (int) n, 1);
+  g_object_unref (self->range_note);
   gtk_widget_set_visible (self->common_error, FALSE);
   hl_results_set_selected_option (self, self->selected);
 }
@@ -294,6 +384,7 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
           gtk_label_set_text (GTK_LABEL (col->change[r]), change != NULL ? change : "");
         }
 
+      self->column_ok[c] = ok;
       gtk_widget_set_visible (col->flags, ok);
       gtk_widget_set_visible (col->error, !ok && !common);
       if (ok)
@@ -313,6 +404,102 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
           gtk_label_set_text (GTK_LABEL (col->error), msg);
         }
     }
+  hl_results_show_ranges (self);
+}
+
+static void
+hl_results_show_ranges (HlResults *self)
+{
+  gboolean shown = self->ranges != NULL && self->n_ranges == self->columns->len;
+
+  for (guint k = 0; k < N_RANGE_ROWS; k++)
+    {
+      gtk_widget_set_visible (self->range_label[k], shown);
+      gtk_widget_set_visible (self->range_unit[k], shown);
+    }
+  for (guint c = 0; c < self->columns->len; c++)
+    {
+      HlResultsColumn *col = &g_array_index (self->columns, HlResultsColumn, c);
+
+      for (guint k = 0; k < N_RANGE_ROWS; k++)
+        {
+          g_autofree char *text = NULL;
+          gboolean visible = shown && self->column_ok[c];
+
+          gtk_widget_set_visible (col->range[k], visible);
+          if (!visible)
+            continue;
+          text = format_range (&self->ranges[c], k, c == 0);
+          gtk_label_set_text (GTK_LABEL (col->range[k]), text);
+        }
+    }
+}
+
+void
+hl_results_set_ranges (HlResults *self, const HlMcSummary *ranges, size_t n,
+                       const char *note)
+{
+  g_return_if_fail (HL_IS_RESULTS (self));
+
+  g_clear_pointer (&self->ranges, g_free);
+  self->n_ranges = 0;
+  if (ranges != NULL && n > 0)
+    {
+      self->ranges = g_memdup2 (ranges, n * sizeof *ranges);
+      self->n_ranges = n;
+    }
+  gtk_label_set_text (GTK_LABEL (self->range_note), note != NULL ? note : "");
+  gtk_widget_set_visible (self->range_note, note != NULL && note[0] != '\0');
+  hl_results_show_ranges (self);
+}
+
+char *
+hl_results_format_ranges_csv (HlResults *self)
+{
+  static const char *const keys[] = {
+    "abductor-force-bw-p05", "abductor-force-bw-p95",
+    "joint-reaction-force-bw-p05", "joint-reaction-force-bw-p95",
+  };
+  GString *s = g_string_new (NULL);
+
+  g_return_val_if_fail (HL_IS_RESULTS (self), NULL);
+  if (self->ranges == NULL || self->n_ranges != self->columns->len)
+    return g_string_free (s, FALSE);
+  for (guint k = 0; k < G_N_ELEMENTS (keys); k++)
+    {
+      g_string_append_printf (s, "%s,", keys[k]);
+      csv_append_field (s, _("× BW"));
+      for (size_t c = 0; c < self->n_ranges; c++)
+        {
+          const HlMcSummary *m = &self->ranges[c];
+          const HlPercentiles *p = k < 2 ? &m->abductor_force_bw : &m->jrf_bw;
+          double v = k % 2 == 0 ? p->p05 : p->p95;
+
+          g_string_append_c (s, ',');
+          if (self->column_ok[c] && isfinite (v))
+            {
+              g_autofree char *cell = g_strdup_printf ("%.*f", RANGE_DIGITS, v);
+
+              csv_append_field (s, cell);
+            }
+        }
+      g_string_append_c (s, '\n');
+    }
+  g_string_append (s, "lower-jrf-than-native,%");
+  for (size_t c = 0; c < self->n_ranges; c++)
+    {
+      double v = self->ranges[c].share_lower_jrf;
+
+      g_string_append_c (s, ',');
+      if (c > 0 && self->column_ok[c] && isfinite (v))
+        {
+          g_autofree char *cell = g_strdup_printf ("%.*f", SHARE_DIGITS, 100.0 * v);
+
+          csv_append_field (s, cell);
+        }
+    }
+  g_string_append_c (s, '\n');
+  return g_string_free (s, FALSE);
 }
 
 void
@@ -419,6 +606,8 @@ hl_results_finalize (GObject *object)
   HlResults *self = HL_RESULTS (object);
 
   g_array_unref (self->columns);
+  g_free (self->ranges);
+  g_free (self->column_ok);
   G_OBJECT_CLASS (hl_results_parent_class)->finalize (object);
 }
 
@@ -454,9 +643,31 @@ hl_results_init (HlResults *self)
 
       gtk_label_set_text (GTK_LABEL (label), _(rows[r].label));
       gtk_label_set_text (GTK_LABEL (unit), rows[r].unit[0] != '\0' ? _(rows[r].unit) : "");
-      gtk_grid_attach (grid, label, 0, FIRST_VALUE_ROW + (int) r, 1, 1);
-      gtk_grid_attach (grid, unit, 1, FIRST_VALUE_ROW + (int) r, 1, 1);
+      gtk_grid_attach (grid, label, 0, value_row_y (r), 1, 1);
+      gtk_grid_attach (grid, unit, 1, value_row_y (r), 1, 1);
     }
+  for (guint k = 0; k < N_RANGE_ROWS; k++)
+    {
+      GtkWidget *label = make_label ("results-quantity", 0.0f);
+      GtkWidget *unit = make_label ("results-unit", 0.0f);
+
+      gtk_label_set_text (GTK_LABEL (label), _(range_rows[k].label));
+      gtk_label_set_text (GTK_LABEL (unit), _(range_rows[k].unit));
+      gtk_widget_add_css_class (label, "dim-label");
+      gtk_grid_attach (grid, label, 0, range_row_y (k), 1, 1);
+      gtk_grid_attach (grid, unit, 1, range_row_y (k), 1, 1);
+      gtk_widget_set_visible (label, FALSE);
+      gtk_widget_set_visible (unit, FALSE);
+      self->range_label[k] = label;
+      self->range_unit[k] = unit;
+    }
+  self->range_note = make_label ("results-note", 0.0f);
+  gtk_label_set_wrap (GTK_LABEL (self->range_note), TRUE);
+  gtk_label_set_max_width_chars (GTK_LABEL (self->range_note), 90);
+  gtk_widget_add_css_class (self->range_note, "dim-label");
+  gtk_widget_add_css_class (self->range_note, "caption");
+  gtk_grid_attach (grid, self->range_note, 0, NOTE_ROW, FIRST_COLUMN, 1);
+  gtk_widget_set_visible (self->range_note, FALSE);
   {
     GtkWidget *label = make_label ("results-quantity", 0.0f);
 

@@ -13,6 +13,7 @@
 
 #include <gtk/gtk.h>
 #include "hl-solve.h"
+#include "hl-uncertainty.h"
 
 G_BEGIN_DECLS
 
@@ -34,6 +35,19 @@ GtkWidget *hl_results_new (void);
 /* `solved` holds 1 + plan->n_options columns; copied as text, not kept. */
 void hl_results_update (HlResults *self, const HlPlan *plan,
                         const HlSolved *solved, size_t n);
+/* The Monte Carlo 5-95% ranges of abductor force and joint load, and the
+ * share of samples with a lower joint load than native, shown right under
+ * those figures; ranges[0] is native.  NULL, or a count that is not the
+ * table's, hides them.  `note` (may be NULL) is shown under the table: the
+ * samples and errors behind the ranges, or why there are none.  Copied. */
+void hl_results_set_ranges (HlResults *self, const HlMcSummary *ranges,
+                            size_t n, const char *note);
+/* The ranges shown, as CSV lines in the layout of hl_results_format_csv
+ * (rows abductor-force-bw-p05, abductor-force-bw-p95,
+ * joint-reaction-force-bw-p05, joint-reaction-force-bw-p95 and
+ * lower-jrf-than-native in %), each number as the window shows it; empty
+ * when none are shown.  For tests. */
+char *hl_results_format_ranges_csv (HlResults *self);
 /* Highlights an option's column (-1: none). */
 void hl_results_set_selected_option (HlResults *self, int index);
 

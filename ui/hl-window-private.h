@@ -100,6 +100,10 @@ struct _HlWindow {
   gboolean handles_dirty;
   guint handles_printed;
   gboolean use_pounds;
+
+  /* the analysis (hl-analysis-panel.c, hl-charts-view.c, hl-export.c) */
+  GtkStack *lower_stack;     /* "results" and "charts" under the schematic */
+  GtkWidget *charts_view;    /* HlChartsView */
 };
 
 /* hl-window.c */

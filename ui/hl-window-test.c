@@ -32,6 +32,7 @@
 
 #include "hl-application.h"
 #include "hl-plan-io.h"
+#include "hl-analysis-panel.h"
 #include "hl-radiograph-page.h"
 #include "hl-window-private.h"
 
@@ -165,6 +166,7 @@ hl_window_print_handles (HlWindow *self)
             in_table >= 0 ? hl_landmark_info ((HlLandmarkId) in_table)->key : "none");
   }
   hl_radiograph_page_print_handles (self);
+  hl_analysis_print_handles (self);
   printf ("FRAME %u\n", ++self->handles_printed);
   fflush (stdout);
 }
@@ -342,8 +344,10 @@ print_results_idle_cb (gpointer user_data)
   HlWindow *self = HL_WINDOW (user_data);
   g_autofree char *csv = hl_results_format_csv (self->plan, self->solved,
                                                 1 + self->plan->n_options);
+  g_autofree char *ranges = hl_results_format_ranges_csv (self->results);
 
   fputs (csv, stdout);
+  fputs (ranges, stdout);
   fflush (stdout);
   hl_window_write_dump (self);
   hl_application_finish (window_app (self), 0);

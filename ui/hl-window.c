@@ -12,6 +12,9 @@
 
 #include "hl-plan-io.h"
 #include "hl-autosave.h"
+#include "hl-analysis-panel.h"
+#include "hl-charts-view.h"
+#include "hl-export.h"
 #include "hl-radiograph-page.h"
 #include "hl-version.h"
 #include "hl-window-private.h"
@@ -145,6 +148,7 @@ hl_window_plan_edited (HlWindow *self)
   hl_window_update_actions (self);
   hl_window_update_status (self);
   hl_radiograph_page_plan_edited (self);
+  hl_analysis_plan_edited (self);
   self->handles_dirty = TRUE;
 }
 
@@ -425,6 +429,7 @@ hl_window_class_init (HlWindowClass *klass)
 
   g_type_ensure (HL_TYPE_CANVAS);
   g_type_ensure (HL_TYPE_RESULTS);
+  g_type_ensure (HL_TYPE_CHARTS_VIEW);
 
   gtk_widget_class_set_template_from_resource (widget_class,
                                                "/org/hiplever/Hiplever/hl-window.ui");
@@ -436,6 +441,8 @@ hl_window_class_init (HlWindowClass *klass)
   gtk_widget_class_bind_template_child (widget_class, HlWindow, results);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, panel_stack);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, status_label);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, lower_stack);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, charts_view);
   hl_window_panel_bind_template (widget_class);
   hl_window_actions_class_init (widget_class);
 }
@@ -472,6 +479,8 @@ hl_window_init (HlWindow *self)
 
   hl_window_panel_init (self);
   hl_radiograph_page_attach (self);
+  hl_analysis_attach (self);
+  hl_export_attach (self);
   hl_autosave_attach (self);
   hl_canvas_set_plan (self->canvas, self->plan);
   hl_window_panel_sync (self);

@@ -1,0 +1,918 @@
+/* hl-analysis-panel.c: the "Analysis" page of the side panel, the ranges
+ * of the results table and the charts' recompute.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#define G_LOG_DOMAIN "hl-analysis-panel"
+
+#include <inttypes.h>
+#include <math.h>
+#include <stdio.h>
+#include <glib/gi18n.h>
+
+#include "hl-analysis-panel.h"
+#include "hl-capacity.h"
+#include "hl-charts-view.h"
+#include "hl-report.h"
+#include "hl-uncertainty.h"
+#include "hl-version.h"
+#include "hl-window-private.h"
+
+#define PAGE_NAME "analysis"
+#define PAGE_KEY "hl-analysis-panel"
+#define PAGE_SPACING 6
+#define ANSWER_MAX 512
+/* An answer this close to the plan's value is already in the plan: the
+ * root finder's own tolerance (hl-root.h). */
+#define APPLY_SAME_TOL HL_ROOT_EPSABS_DEFAULT
+/* A capacity torque this close to a preset is that preset (N m/kg): the
+ * presets are shown to two decimals, plan files keep more. */
+#define CAPACITY_MATCH_TOL 5e-4
+#define TARGET_STEP_BW 0.05
+#define TARGET_PAGE_BW 0.5
+#define TARGET_DIGITS 2
+#define PERCENT 100.0
+
+static const struct {
+  const char *key;
+  HlInverseKind kind;
+  HlLoadSite site;
+  gboolean options_only;
+} questions[HL_QUESTION_N] = {
+  { "offset-for-arm", HL_INVERSE_OFFSET_FOR_ARM, HL_LOAD_SITE_N, TRUE },
+  { "offset-for-global", HL_INVERSE_OFFSET_FOR_GLOBAL, HL_LOAD_SITE_N, TRUE },
+  { "cane-for-jrf", HL_INVERSE_CANE_FOR_JRF, HL_LOAD_SITE_N, FALSE },
+  { "load-contralateral", HL_INVERSE_LOAD_FOR_JRF, HL_LOAD_SITE_CONTRALATERAL, FALSE },
+  { "load-ipsilateral", HL_INVERSE_LOAD_FOR_JRF, HL_LOAD_SITE_IPSILATERAL, FALSE },
+  { "load-midline", HL_INVERSE_LOAD_FOR_JRF, HL_LOAD_SITE_MIDLINE, FALSE },
+  { "lean-for-capacity", HL_INVERSE_LEAN_FOR_CAPACITY, HL_LOAD_SITE_N, FALSE },
+};
+
+typedef struct {
+  GtkWidget *box;
+  GtkWidget *text;
+  GtkWidget *action;
+  GtkWidget *apply;
+} HlAnswerRow;
+
+struct _HlAnalysisPanel {
+  GtkBox parent_instance;
+
+  /* borrowed */
+  HlWindow *window;
+
+  /* built in code */
+  GtkWidget *scroll;           /* the page in the side panel */
+  GtkWidget *for_label;
+  GtkWidget *target_spin;
+  GtkWidget *error_label;
+  HlAnswerRow rows[HL_QUESTION_N];
+  GtkWidget *capacity_drop;
+  GtkWidget *capacity_source;
+  GtkWidget *capacity_force_label;
+  GtkWidget *capacity_grid;
+  size_t capacity_rows;
+
+  /* owned */
+  HlMcWorkspace *ws;
+  size_t ws_samples;
+  size_t ws_options;
+  HlMcSummary *summary;
+  size_t summary_len;
+
+  /* state */
+  HlInverseAnswer answers[HL_QUESTION_N];
+  gboolean asked[HL_QUESTION_N];
+  guint ranges_idle;
+  guint syncing;
+};
+
+G_DEFINE_FINAL_TYPE (HlAnalysisPanel, hl_analysis_panel, GTK_TYPE_BOX)
+
+const char *
+hl_question_key (HlQuestion question)
+{
+  g_return_val_if_fail (question < HL_QUESTION_N, "");
+  return questions[question].key;
+}
+
+static HlAnalysisPanel *
+panel_of (HlWindow *window)
+{
+  return g_object_get_data (G_OBJECT (window), PAGE_KEY);
+}
+
+static const HlRecon *
+selected_recon (HlWindow *window)
+{
+  if (window->selected_option < 0 || (size_t) window->selected_option >= window->plan->n_options)
+    return NULL;
+  return &window->plan->options[window->selected_option].recon;
+}
+
+static char *
+format_error (const HlError *err)
+{
+  return hl_window_format_error (err);
+}
+
+/* ---- the 5-95% ranges of the results table ------------------------- */
+
+static gboolean
+ensure_workspace (HlAnalysisPanel *self, size_t samples, size_t options)
+{
+  options = MAX (options, 1);
+  if (self->ws != NULL && samples <= self->ws_samples && options <= self->ws_options)
+    return TRUE;
+  g_clear_pointer (&self->ws, hl_mc_workspace_free);
+  self->ws = hl_mc_workspace_new (samples, options);
+  self->ws_samples = self->ws != NULL ? samples : 0;
+  self->ws_options = self->ws != NULL ? options : 0;
+  return self->ws != NULL;
+}
+
+static void
+run_ranges (HlAnalysisPanel *self)
+{
+  HlWindow *window = self->window;
+  const HlPlan *plan = window->plan;
+  size_t n = 1 + plan->n_options;
+  g_autofree char *note = NULL;
+  HlMcSettings mc;
+  HlMcInfo info;
+  HlModel model;
+  HlError err;
+  bool m_assumed = false;
+
+  hl_error_clear (&err);
+  hl_mc_settings_for_plan (plan, &mc, &m_assumed);
+  if (window->solved[0].status != HL_OK
+      || hl_model_prepare (&model, plan, &err) != HL_OK)
+    {
+      /* The table already says why the plan cannot be solved. */
+      hl_results_set_ranges (window->results, NULL, 0, NULL);
+      return;
+    }
+  if (n > self->summary_len)
+    {
+      self->summary = g_renew (HlMcSummary, self->summary, n);
+      self->summary_len = n;
+    }
+  if (!ensure_workspace (self, mc.n_samples, plan->n_options))
+    hl_error_set (&err, HL_ERR_NOMEM, "uncertainty", "%s",
+                  _("there is not enough memory for the Monte Carlo samples"));
+  else
+    hl_mc_run (self->ws, &model, plan->options, plan->n_options, &mc, self->summary,
+               &info, &err);
+  if (err.status != HL_OK)
+    {
+      g_autofree char *msg = format_error (&err);
+
+      note = g_strdup_printf (_("No 5–95%% ranges: %s"), msg);
+      hl_results_set_ranges (window->results, NULL, 0, note);
+      return;
+    }
+  note = g_strdup_printf (_("5–95%% ranges from %zu Monte Carlo samples (seed %" PRIu64 "): "
+                            "landmark placement error SD %.1f mm, magnification SD %.3f "
+                            "about %.3f%s, abductor line angle SD %.1f°.%s"),
+                          info.n_used, info.seed, mc.landmark_sd_mm, mc.magnification_sd,
+                          mc.magnification,
+                          m_assumed ? _(" (assumed: no usable calibration)") : "",
+                          mc.line_angle_sd_deg,
+                          info.n_dropped > 0 ? _(" Samples that could not be solved were left out.") : "");
+  hl_results_set_ranges (window->results, self->summary, n, note);
+}
+
+static gboolean
+ranges_idle_cb (gpointer user_data)
+{
+  HlAnalysisPanel *self = user_data;
+
+  self->ranges_idle = 0;
+  if (!self->window->disposing)
+    run_ranges (self);
+  return G_SOURCE_REMOVE;
+}
+
+/* ---- the inverse answers -------------------------------------------- */
+
+static const char *
+site_words (HlLoadSite site)
+{
+  switch (site)
+    {
+    case HL_LOAD_SITE_CONTRALATERAL:
+      return _("in the opposite hand");
+    case HL_LOAD_SITE_IPSILATERAL:
+      return _("in the same-side hand");
+    case HL_LOAD_SITE_MIDLINE:
+    case HL_LOAD_SITE_N:
+    default:
+      break;
+    }
+  return _("on the midline");
+}
+
+static double *
+load_of (HlPlan *plan, HlLoadSite site)
+{
+  if (site == HL_LOAD_SITE_MIDLINE)
+    return &plan->loads.midline_kg;
+  return &plan->loads.hand[site == HL_LOAD_SITE_IPSILATERAL ? HL_HAND_IPSILATERAL
+                                                             : HL_HAND_CONTRALATERAL].mass_kg;
+}
+
+/* What Apply would change, or NULL (and why in *why) when nothing. */
+static char *
+apply_words (HlAnalysisPanel *self, HlQuestion q, const char **why)
+{
+  HlWindow *window = self->window;
+  HlPlan *plan = window->plan;
+  const HlInverseAnswer *a = &self->answers[q];
+  double v = a->value;
+
+  *why = NULL;
+  if (!self->asked[q])
+    return NULL;
+  if (a->status != HL_OK || !isfinite (v))
+    {
+      *why = _("Nothing to apply.");
+      return NULL;
+    }
+  switch (questions[q].kind)
+    {
+    case HL_INVERSE_OFFSET_FOR_ARM:
+    case HL_INVERSE_OFFSET_FOR_GLOBAL:
+      {
+        const HlOption *option = &plan->options[window->selected_option];
+
+        if (fabs (option->recon.femoral_offset_mm - v) <= APPLY_SAME_TOL)
+          break;
+        return g_strdup_printf (_("Apply sets the femoral offset change of “%s” to %+.1f mm."),
+                                option->name, v);
+      }
+    case HL_INVERSE_CANE_FOR_JRF:
+      {
+        double in_unit = hl_force_from_newtons (v, plan->cane.unit, plan->mass_kg);
+        gboolean same = (plan->cane.enabled && plan->cane.hand == HL_HAND_CONTRALATERAL
+                         && fabs (hl_plan_cane_force (plan) - v) <= APPLY_SAME_TOL)
+                        || (!plan->cane.enabled && v <= APPLY_SAME_TOL);
+
+        if (same)
+          break;
+        if (v <= APPLY_SAME_TOL)
+          return g_strdup (_("Apply takes the cane away, for every option."));
+        switch (plan->cane.unit)
+          {
+          case HL_FORCE_UNIT_PERCENT_BW:
+            return g_strdup_printf (_("Apply sets the cane to %.1f%% of body weight in the opposite hand, for every option."),
+                                    in_unit);
+          case HL_FORCE_UNIT_KG:
+            return g_strdup_printf (_("Apply sets the cane to %.1f kg on a scale in the opposite hand, for every option."),
+                                    in_unit);
+          case HL_FORCE_UNIT_N:
+          default:
+            return g_strdup_printf (_("Apply sets the cane to %.0f N in the opposite hand, for every option."),
+                                    in_unit);
+          }
+      }
+    case HL_INVERSE_LOAD_FOR_JRF:
+      if (a->at_limit)
+        {
+          *why = _("Nothing to apply: the target holds over the whole range.");
+          return NULL;
+        }
+      if (fabs (*load_of (plan, questions[q].site) - v) <= APPLY_SAME_TOL)
+        break;
+      return g_strdup_printf (_("Apply sets the load %s to %.1f kg, for every option."),
+                              site_words (questions[q].site), v);
+    case HL_INVERSE_LEAN_FOR_CAPACITY:
+      if (fabs (plan->model.lean_mm - v) <= APPLY_SAME_TOL)
+        break;
+      return g_strdup_printf (_("Apply sets the lateral trunk lean to %.1f mm, for every option."),
+                              v);
+    case HL_INVERSE_N:
+    default:
+      return NULL;
+    }
+  *why = _("Already in the plan.");
+  return NULL;
+}
+
+static void
+show_answers (HlAnalysisPanel *self)
+{
+  for (int q = 0; q < HL_QUESTION_N; q++)
+    {
+      HlAnswerRow *row = &self->rows[q];
+      g_autofree char *words = NULL;
+      const char *why = NULL;
+      char text[ANSWER_MAX];
+
+      gtk_widget_set_visible (row->box, self->asked[q]);
+      if (!self->asked[q])
+        continue;
+      hl_inverse_answer_format (&self->answers[q], text, sizeof text);
+      gtk_label_set_text (GTK_LABEL (row->text), text);
+      words = apply_words (self, (HlQuestion) q, &why);
+      gtk_label_set_text (GTK_LABEL (row->action), words != NULL ? words : why);
+      gtk_widget_set_sensitive (row->apply, words != NULL);
+      {
+        g_autofree char *label = g_strdup_printf ("%s %s", _("Apply:"),
+                                                  words != NULL ? words : why);
+
+        gtk_accessible_update_property (GTK_ACCESSIBLE (row->apply),
+                                        GTK_ACCESSIBLE_PROPERTY_LABEL, label, -1);
+      }
+    }
+}
+
+static void
+compute_answers (HlAnalysisPanel *self)
+{
+  HlWindow *window = self->window;
+  const HlPlan *plan = window->plan;
+  const HlRecon *recon = selected_recon (window);
+  double target = gtk_spin_button_get_value (GTK_SPIN_BUTTON (self->target_spin));
+  g_autofree char *who = NULL;
+  HlModel model;
+  HlError err;
+
+  if (recon != NULL)
+    who = g_strdup_printf (_("For the selected option, “%s”. Select another in the Options page or on the schematic."),
+                           plan->options[window->selected_option].name);
+  else
+    who = g_strdup (_("For the native hip (no option selected). Select an option for its femoral offset answers."));
+  gtk_label_set_text (GTK_LABEL (self->for_label), who);
+
+  hl_error_clear (&err);
+  memset (self->asked, 0, sizeof self->asked);
+  if (hl_model_prepare (&model, plan, &err) == HL_OK)
+    {
+      for (int q = 0; q < HL_QUESTION_N && err.status == HL_OK; q++)
+        {
+          HlInverseAnswer *a = &self->answers[q];
+          HlStatus st;
+
+          if (questions[q].options_only && recon == NULL)
+            continue;
+          switch (questions[q].kind)
+            {
+            case HL_INVERSE_OFFSET_FOR_ARM:
+              st = hl_inverse_offset_for_arm (&model, recon, NULL, a, &err);
+              break;
+            case HL_INVERSE_OFFSET_FOR_GLOBAL:
+              st = hl_inverse_offset_for_global (&model, recon, NULL, a, &err);
+              break;
+            case HL_INVERSE_CANE_FOR_JRF:
+              st = hl_inverse_cane_for_jrf (&model, recon, target, plan->cane.distance_mm,
+                                            NULL, a, &err);
+              break;
+            case HL_INVERSE_LOAD_FOR_JRF:
+              st = hl_inverse_load_for_jrf (&model, recon, questions[q].site, target, NULL,
+                                            a, &err);
+              break;
+            case HL_INVERSE_LEAN_FOR_CAPACITY:
+            case HL_INVERSE_N:
+            default:
+              st = hl_inverse_lean_for_capacity (&model, recon, NULL, a, &err);
+              break;
+            }
+          /* Not reachable and not converged are answers; anything else
+           * is a failure of the model. */
+          if (st == HL_OK || st == HL_ERR_NOT_REACHABLE || st == HL_ERR_NOT_CONVERGED)
+            {
+              hl_error_clear (&err);
+              self->asked[q] = TRUE;
+            }
+        }
+    }
+  if (err.status != HL_OK)
+    {
+      g_autofree char *msg = format_error (&err);
+      g_autofree char *text = g_strdup_printf (_("No answers: %s"), msg);
+
+      memset (self->asked, 0, sizeof self->asked);
+      gtk_label_set_text (GTK_LABEL (self->error_label), text);
+    }
+  gtk_widget_set_visible (self->error_label, err.status != HL_OK);
+  show_answers (self);
+}
+
+/* ---- applying ------------------------------------------------------- */
+
+gboolean
+hl_analysis_apply (HlWindow *window, HlQuestion q)
+{
+  HlAnalysisPanel *self = panel_of (window);
+  g_autofree char *words = NULL;
+  const char *why;
+  HlPlan *plan;
+  double v;
+
+  g_return_val_if_fail (self != NULL && q < HL_QUESTION_N, FALSE);
+  words = apply_words (self, q, &why);
+  if (words == NULL)
+    return FALSE;
+  hl_undo_break (window->undo);
+  if (!hl_window_begin_edit (window, NULL))
+    return FALSE;
+  plan = window->plan;
+  v = self->answers[q].value;
+  switch (questions[q].kind)
+    {
+    case HL_INVERSE_OFFSET_FOR_ARM:
+    case HL_INVERSE_OFFSET_FOR_GLOBAL:
+      plan->options[window->selected_option].recon.femoral_offset_mm = v;
+      break;
+    case HL_INVERSE_CANE_FOR_JRF:
+      plan->cane.enabled = v > APPLY_SAME_TOL;
+      if (plan->cane.enabled)
+        {
+          plan->cane.hand = HL_HAND_CONTRALATERAL;
+          plan->cane.value = hl_force_from_newtons (v, plan->cane.unit, plan->mass_kg);
+        }
+      break;
+    case HL_INVERSE_LOAD_FOR_JRF:
+      *load_of (plan, questions[q].site) = v;
+      break;
+    case HL_INVERSE_LEAN_FOR_CAPACITY:
+    case HL_INVERSE_N:
+    default:
+      plan->model.lean_mm = v;
+      break;
+    }
+  hl_undo_break (window->undo);
+  hl_window_panel_sync (window);
+  hl_window_plan_edited (window);
+  {
+    g_autofree char *status = g_strdup_printf (_("Applied: %s Undo with Ctrl+Z."), words);
+
+    gtk_label_set_text (window->status_label, status);
+  }
+  return TRUE;
+}
+
+static void
+apply_clicked_cb (GtkButton *button, HlAnalysisPanel *self)
+{
+  for (int q = 0; q < HL_QUESTION_N; q++)
+    if (self->rows[q].apply == GTK_WIDGET (button))
+      hl_analysis_apply (self->window, (HlQuestion) q);
+}
+
+static void
+target_changed_cb (GtkSpinButton *spin, HlAnalysisPanel *self)
+{
+  if (self->syncing == 0 && !self->window->disposing)
+    compute_answers (self);
+}
+
+/* ---- capacity ------------------------------------------------------- */
+
+static guint
+capacity_preset_of (const HlPlan *plan)
+{
+  for (int p = 0; p < HL_CAPACITY_PRESET_N; p++)
+    if (fabs (hl_capacity_preset_info ((HlCapacityPreset) p)->torque_nm_per_kg
+              - plan->capacity.torque_nm_per_kg) <= CAPACITY_MATCH_TOL)
+      return (guint) p;
+  return HL_CAPACITY_PRESET_N;
+}
+
+static GtkWidget *
+grid_label (const char *text, gboolean heading, float xalign)
+{
+  GtkWidget *label = gtk_label_new (text);
+
+  gtk_label_set_xalign (GTK_LABEL (label), xalign);
+  gtk_label_set_wrap (GTK_LABEL (label), TRUE);
+  if (heading)
+    gtk_widget_add_css_class (label, "heading");
+  return label;
+}
+
+static void
+show_capacity (HlAnalysisPanel *self)
+{
+  HlWindow *window = self->window;
+  const HlPlan *plan = window->plan;
+  size_t n = 1 + plan->n_options;
+  guint preset = capacity_preset_of (plan);
+  GtkGrid *grid = GTK_GRID (self->capacity_grid);
+  GtkWidget *child;
+  HlModel model;
+  HlError err;
+
+  self->syncing++;
+  gtk_drop_down_set_selected (GTK_DROP_DOWN (self->capacity_drop), preset);
+  self->syncing--;
+  if (preset < HL_CAPACITY_PRESET_N)
+    gtk_label_set_text (GTK_LABEL (self->capacity_source),
+                        hl_capacity_preset_info ((HlCapacityPreset) preset)->source);
+  else
+    {
+      g_autofree char *text = g_strdup_printf (_("%.2f N m/kg, a value of the plan (change it on the Case page)."),
+                                               plan->capacity.torque_nm_per_kg);
+
+      gtk_label_set_text (GTK_LABEL (self->capacity_source), text);
+    }
+
+  hl_error_clear (&err);
+  if (hl_model_prepare (&model, plan, &err) == HL_OK)
+    {
+      g_autofree char *text = g_strdup_printf (_("%.2f N m/kg × %.1f kg over the native abductor moment arm of %.1f mm: a capacity of %.0f N (%.2f × body weight)."),
+                                               plan->capacity.torque_nm_per_kg, plan->mass_kg,
+                                               model.native_abductor_arm_mm, model.capacity_force_n,
+                                               model.capacity_force_n * model.inv_body_weight);
+
+      gtk_label_set_text (GTK_LABEL (self->capacity_force_label), text);
+    }
+  else
+    gtk_label_set_text (GTK_LABEL (self->capacity_force_label), "");
+
+  while ((child = gtk_widget_get_first_child (self->capacity_grid)) != NULL)
+    gtk_grid_remove (grid, child);
+  gtk_grid_attach (grid, grid_label (_("Demand over capacity"), TRUE, 0.0f), 0, 0, 3, 1);
+  for (size_t c = 0; c < n; c++)
+    {
+      const HlSolved *s = &window->solved[c];
+      const char *name = c == 0 ? _("Native") : plan->options[c - 1].name;
+      g_autofree char *value = NULL;
+      const char *words;
+      GtkWidget *v;
+
+      if (s->status != HL_OK)
+        {
+          value = g_strdup ("—");
+          words = _("cannot be solved");
+        }
+      else if (!isfinite (s->result.demand))
+        {
+          value = g_strdup ("—");
+          words = _("no capacity set");
+        }
+      else
+        {
+          value = g_strdup_printf ("%.0f%%", PERCENT * s->result.demand);
+          if (s->result.demand > HL_DEMAND_LIMIT)
+            words = _("above capacity: the pelvis cannot be held level (a positive Trendelenburg sign or a compensating lean)");
+          else if (s->result.abductor_force_n <= 0.0)
+            words = _("abductors not needed in this posture");
+          else
+            words = _("within capacity");
+        }
+      v = grid_label (value, FALSE, 1.0f);
+      if (s->status == HL_OK && isfinite (s->result.demand) && s->result.demand > HL_DEMAND_LIMIT)
+        gtk_widget_add_css_class (v, "error");
+      gtk_grid_attach (grid, grid_label (name, FALSE, 0.0f), 0, (int) c + 1, 1, 1);
+      gtk_grid_attach (grid, v, 1, (int) c + 1, 1, 1);
+      gtk_grid_attach (grid, grid_label (words, FALSE, 0.0f), 2, (int) c + 1, 1, 1);
+    }
+  self->capacity_rows = n;
+}
+
+static void
+capacity_preset_cb (GtkDropDown *drop, GParamSpec *pspec, HlAnalysisPanel *self)
+{
+  HlWindow *window = self->window;
+  guint preset = gtk_drop_down_get_selected (drop);
+  double torque;
+
+  if (self->syncing > 0 || window->disposing || preset >= HL_CAPACITY_PRESET_N)
+    return;
+  torque = hl_capacity_preset_info ((HlCapacityPreset) preset)->torque_nm_per_kg;
+  if (torque == window->plan->capacity.torque_nm_per_kg)
+    return;
+  hl_undo_break (window->undo);
+  if (!hl_window_begin_edit (window, NULL))
+    return;
+  window->plan->capacity.torque_nm_per_kg = torque;
+  hl_undo_break (window->undo);
+  hl_window_panel_sync (window);
+  hl_window_plan_edited (window);
+}
+
+/* ---- the window's hooks --------------------------------------------- */
+
+void
+hl_analysis_plan_edited (HlWindow *window)
+{
+  HlAnalysisPanel *self = panel_of (window);
+
+  if (self == NULL || window->disposing)
+    return;
+  /* While dragging, the ranges follow once the frame is drawn. */
+  if (window->dragging)
+    {
+      if (self->ranges_idle == 0)
+        self->ranges_idle = g_idle_add (ranges_idle_cb, self);
+    }
+  else
+    {
+      g_clear_handle_id (&self->ranges_idle, g_source_remove);
+      run_ranges (self);
+    }
+  compute_answers (self);
+  show_capacity (self);
+  if (window->charts_view != NULL)
+    hl_charts_view_plan_changed (HL_CHARTS_VIEW (window->charts_view));
+}
+
+double
+hl_analysis_get_target_bw (HlWindow *window)
+{
+  HlAnalysisPanel *self = panel_of (window);
+
+  if (self == NULL)
+    return HL_REPORT_TARGET_JRF_BW_DEFAULT;
+  return gtk_spin_button_get_value (GTK_SPIN_BUTTON (self->target_spin));
+}
+
+static void
+selected_option_cb (GObject *canvas, GParamSpec *pspec, HlAnalysisPanel *self)
+{
+  if (!self->window->disposing)
+    compute_answers (self);
+}
+
+static void
+show_lower_cb (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  HlWindow *window = user_data;
+
+  if (window->lower_stack != NULL)
+    gtk_stack_set_visible_child_name (window->lower_stack,
+                                      g_str_equal (g_action_get_name (G_ACTION (action)),
+                                                   "show-charts") ? "charts" : "results");
+}
+
+static void
+show_analysis_cb (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  hl_window_show_panel (HL_WINDOW (user_data), PAGE_NAME);
+}
+
+static const GActionEntry lower_actions[] = {
+  { "show-results", show_lower_cb, NULL, NULL, NULL, { 0 } },
+  { "show-charts", show_lower_cb, NULL, NULL, NULL, { 0 } },
+  { "show-analysis", show_analysis_cb, NULL, NULL, NULL, { 0 } },
+};
+
+static GtkWidget *
+caption (const char *text)
+{
+  GtkWidget *label = gtk_label_new (text);
+
+  gtk_label_set_xalign (GTK_LABEL (label), 0.0f);
+  gtk_label_set_wrap (GTK_LABEL (label), TRUE);
+  gtk_widget_add_css_class (label, "dim-label");
+  gtk_widget_add_css_class (label, "caption");
+  return label;
+}
+
+static GtkWidget *
+heading (const char *text)
+{
+  GtkWidget *label = gtk_label_new (text);
+
+  gtk_label_set_xalign (GTK_LABEL (label), 0.0f);
+  gtk_label_set_wrap (GTK_LABEL (label), TRUE);
+  gtk_widget_add_css_class (label, "heading");
+  return label;
+}
+
+static void
+build (HlAnalysisPanel *self)
+{
+  GtkBox *box = GTK_BOX (self);
+  GtkWidget *target_row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
+  GtkWidget *target_label = gtk_label_new (_("Joint-load target"));
+  g_autoptr(GtkStringList) presets = gtk_string_list_new (NULL);
+  g_autofree char *target_note = NULL;
+
+  gtk_box_append (box, heading (_("Inverse answers")));
+  self->for_label = caption ("");
+  gtk_box_append (box, self->for_label);
+
+  gtk_label_set_xalign (GTK_LABEL (target_label), 0.0f);
+  gtk_widget_set_hexpand (target_label, TRUE);
+  self->target_spin = gtk_spin_button_new_with_range (HL_REPORT_TARGET_JRF_BW_MIN,
+                                                      HL_REPORT_TARGET_JRF_BW_MAX,
+                                                      TARGET_STEP_BW);
+  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->target_spin), TARGET_DIGITS);
+  gtk_spin_button_set_increments (GTK_SPIN_BUTTON (self->target_spin), TARGET_STEP_BW,
+                                  TARGET_PAGE_BW);
+  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->target_spin),
+                             HL_REPORT_TARGET_JRF_BW_DEFAULT);
+  gtk_accessible_update_property (GTK_ACCESSIBLE (self->target_spin),
+                                  GTK_ACCESSIBLE_PROPERTY_LABEL, _("Joint-load target"), -1);
+  g_signal_connect (self->target_spin, "value-changed", G_CALLBACK (target_changed_cb), self);
+  gtk_box_append (GTK_BOX (target_row), target_label);
+  gtk_box_append (GTK_BOX (target_row), self->target_spin);
+  gtk_box_append (GTK_BOX (target_row), gtk_label_new (_("× BW")));
+  gtk_box_append (box, target_row);
+  target_note = g_strdup_printf (_("For the cane and load answers. Default %.1f × body weight: a round figure of ours below the 2.1–2.8 × BW measured in static single-leg stance (Kotzar et al. 1991, J Orthop Res 9:621-633)."),
+                                 HL_REPORT_TARGET_JRF_BW_DEFAULT);
+  gtk_box_append (box, caption (target_note));
+
+  self->error_label = caption ("");
+  gtk_widget_remove_css_class (self->error_label, "dim-label");
+  gtk_widget_add_css_class (self->error_label, "error");
+  gtk_widget_set_visible (self->error_label, FALSE);
+  gtk_box_append (box, self->error_label);
+
+  for (int q = 0; q < HL_QUESTION_N; q++)
+    {
+      HlAnswerRow *row = &self->rows[q];
+      GtkWidget *words = gtk_box_new (GTK_ORIENTATION_VERTICAL, 2);
+
+      row->box = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
+      gtk_widget_add_css_class (row->box, "analysis-answer");
+      row->text = gtk_label_new (NULL);
+      gtk_label_set_xalign (GTK_LABEL (row->text), 0.0f);
+      gtk_label_set_wrap (GTK_LABEL (row->text), TRUE);
+      gtk_label_set_selectable (GTK_LABEL (row->text), FALSE);
+      row->action = caption ("");
+      gtk_box_append (GTK_BOX (words), row->text);
+      gtk_box_append (GTK_BOX (words), row->action);
+      gtk_widget_set_hexpand (words, TRUE);
+      row->apply = gtk_button_new_with_label (_("Apply"));
+      gtk_widget_set_valign (row->apply, GTK_ALIGN_CENTER);
+      g_signal_connect (row->apply, "clicked", G_CALLBACK (apply_clicked_cb), self);
+      gtk_box_append (GTK_BOX (row->box), words);
+      gtk_box_append (GTK_BOX (row->box), row->apply);
+      gtk_box_append (box, row->box);
+    }
+
+  gtk_box_append (box, gtk_separator_new (GTK_ORIENTATION_HORIZONTAL));
+  gtk_box_append (box, heading (_("Abductor capacity")));
+  for (int p = 0; p < HL_CAPACITY_PRESET_N; p++)
+    gtk_string_list_append (presets, _(hl_capacity_preset_info ((HlCapacityPreset) p)->label));
+  gtk_string_list_append (presets, _("Another value (type it on the Case page)"));
+  self->capacity_drop = gtk_drop_down_new (G_LIST_MODEL (g_object_ref (presets)), NULL);
+  gtk_accessible_update_property (GTK_ACCESSIBLE (self->capacity_drop),
+                                  GTK_ACCESSIBLE_PROPERTY_LABEL, _("Abductor capacity preset"), -1);
+  g_signal_connect (self->capacity_drop, "notify::selected", G_CALLBACK (capacity_preset_cb), self);
+  gtk_box_append (box, self->capacity_drop);
+  self->capacity_source = caption ("");
+  gtk_box_append (box, self->capacity_source);
+  gtk_box_append (box, caption (hl_capacity_assumption_text ()));
+  self->capacity_force_label = caption ("");
+  gtk_widget_remove_css_class (self->capacity_force_label, "dim-label");
+  gtk_box_append (box, self->capacity_force_label);
+  self->capacity_grid = gtk_grid_new ();
+  gtk_grid_set_column_spacing (GTK_GRID (self->capacity_grid), 8);
+  gtk_grid_set_row_spacing (GTK_GRID (self->capacity_grid), 2);
+  gtk_box_append (box, self->capacity_grid);
+
+  gtk_box_append (box, gtk_separator_new (GTK_ORIENTATION_HORIZONTAL));
+  gtk_box_append (box, caption (hl_caution_short ()));
+}
+
+void
+hl_analysis_attach (HlWindow *window)
+{
+  HlAnalysisPanel *self = g_object_new (HL_TYPE_ANALYSIS_PANEL,
+                                        "orientation", GTK_ORIENTATION_VERTICAL,
+                                        "spacing", PAGE_SPACING, NULL);
+
+  self->window = window;
+  build (self);
+  self->scroll = gtk_scrolled_window_new ();
+  gtk_scrolled_window_set_policy (GTK_SCROLLED_WINDOW (self->scroll), GTK_POLICY_NEVER,
+                                  GTK_POLICY_AUTOMATIC);
+  gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (self->scroll), GTK_WIDGET (self));
+  gtk_stack_add_titled (window->panel_stack, self->scroll, PAGE_NAME, _("Analysis"));
+  g_object_set_data (G_OBJECT (window), PAGE_KEY, self);
+  g_signal_connect_object (window->canvas, "notify::selected-option",
+                           G_CALLBACK (selected_option_cb), self, 0);
+  g_action_map_add_action_entries (G_ACTION_MAP (window), lower_actions,
+                                   G_N_ELEMENTS (lower_actions), window);
+  if (window->charts_view != NULL)
+    hl_charts_view_set_plan (HL_CHARTS_VIEW (window->charts_view), window->plan);
+}
+
+/* ---- test hooks ----------------------------------------------------- */
+
+static void
+print_widget (HlWindow *window, const char *name, GtkWidget *widget)
+{
+  graphene_point_t in, out;
+  double tx, ty;
+
+  if (widget == NULL || !gtk_widget_get_mapped (widget))
+    return;
+  in = GRAPHENE_POINT_INIT (gtk_widget_get_width (widget) / 2.0f,
+                            gtk_widget_get_height (widget) / 2.0f);
+  if (!gtk_widget_compute_point (widget, GTK_WIDGET (window), &in, &out))
+    return;
+  gtk_native_get_surface_transform (GTK_NATIVE (window), &tx, &ty);
+  printf ("WIDGET %s %.0f %.0f\n", name, out.x + tx, out.y + ty);
+}
+
+/* The stack switcher's button of the page holding `child`. */
+static void
+print_switcher_button (HlWindow *window, const char *name, GtkStack *stack, GtkWidget *child)
+{
+  GtkWidget *switcher = gtk_widget_get_prev_sibling (GTK_WIDGET (stack));
+  g_autoptr(GtkSelectionModel) pages = gtk_stack_get_pages (stack);
+  GtkWidget *button = switcher != NULL ? gtk_widget_get_first_child (switcher) : NULL;
+  guint n = g_list_model_get_n_items (G_LIST_MODEL (pages));
+
+  for (guint i = 0; i < n && button != NULL; i++, button = gtk_widget_get_next_sibling (button))
+    {
+      GtkStackPage *page = g_list_model_get_item (G_LIST_MODEL (pages), i);
+      gboolean found = gtk_stack_page_get_child (page) == child;
+
+      g_object_unref (page);
+      if (found)
+        {
+          print_widget (window, name, button);
+          return;
+        }
+    }
+}
+
+void
+hl_analysis_print_handles (HlWindow *window)
+{
+  HlAnalysisPanel *self = panel_of (window);
+
+  if (self == NULL)
+    return;
+  print_switcher_button (window, "page-analysis", window->panel_stack, self->scroll);
+  if (window->lower_stack != NULL)
+    {
+      print_switcher_button (window, "lower-results", window->lower_stack,
+                             gtk_stack_get_child_by_name (window->lower_stack, "results"));
+      print_switcher_button (window, "lower-charts", window->lower_stack,
+                             gtk_stack_get_child_by_name (window->lower_stack, "charts"));
+    }
+  if (window->charts_view != NULL)
+    {
+      HlChartsView *charts = HL_CHARTS_VIEW (window->charts_view);
+      const char *error = hl_charts_view_get_error (charts);
+
+      print_widget (window, "chart-kind", hl_charts_view_get_kind_drop (charts));
+      printf ("CHARTS %d %u %s\n", (int) hl_charts_view_get_kind (charts),
+              hl_charts_view_get_compute_count (charts), error != NULL ? "error" : "ok");
+    }
+  print_widget (window, "analysis-target", self->target_spin);
+  print_widget (window, "capacity-preset", self->capacity_drop);
+  for (int q = 0; q < HL_QUESTION_N; q++)
+    {
+      const HlInverseAnswer *a = &self->answers[q];
+      g_autofree char *name = g_strdup_printf ("apply-%s", questions[q].key);
+      const char *status = !self->asked[q] ? "none"
+                           : a->status == HL_OK ? "ok"
+                           : a->status == HL_ERR_NOT_REACHABLE ? "not-reachable" : "not-converged";
+
+      print_widget (window, name, self->rows[q].apply);
+      printf ("ANSWER %s %s %.9g %d\n", questions[q].key, status,
+              self->asked[q] && a->status == HL_OK ? a->value : NAN,
+              gtk_widget_get_sensitive (self->rows[q].apply));
+    }
+}
+
+/* ---- GObject -------------------------------------------------------- */
+
+static void
+hl_analysis_panel_dispose (GObject *object)
+{
+  HlAnalysisPanel *self = HL_ANALYSIS_PANEL (object);
+
+  g_clear_handle_id (&self->ranges_idle, g_source_remove);
+  G_OBJECT_CLASS (hl_analysis_panel_parent_class)->dispose (object);
+}
+
+static void
+hl_analysis_panel_finalize (GObject *object)
+{
+  HlAnalysisPanel *self = HL_ANALYSIS_PANEL (object);
+
+  g_clear_pointer (&self->ws, hl_mc_workspace_free);
+  g_clear_pointer (&self->summary, g_free);
+  G_OBJECT_CLASS (hl_analysis_panel_parent_class)->finalize (object);
+}
+
+static void
+hl_analysis_panel_class_init (HlAnalysisPanelClass *klass)
+{
+  GObjectClass *object_class = G_OBJECT_CLASS (klass);
+
+  object_class->dispose = hl_analysis_panel_dispose;
+  object_class->finalize = hl_analysis_panel_finalize;
+}
+
+static void
+hl_analysis_panel_init (HlAnalysisPanel *self)
+{
+  gtk_widget_set_margin_start (GTK_WIDGET (self), 10);
+  gtk_widget_set_margin_end (GTK_WIDGET (self), 10);
+  gtk_widget_set_margin_top (GTK_WIDGET (self), 8);
+  gtk_widget_set_margin_bottom (GTK_WIDGET (self), 8);
+}

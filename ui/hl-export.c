@@ -1,0 +1,603 @@
+/* hl-export.c: the window's report, figure, sweep-table and print actions.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ */
+#include "config.h"
+
+#define G_LOG_DOMAIN "hl-export"
+
+#include <stdlib.h>
+#include <string.h>
+#include <glib/gi18n.h>
+
+#include "hl-analysis-panel.h"
+#include "hl-export.h"
+#include "hl-plan-io.h"
+#include "hl-render.h"
+#include "hl-report.h"
+#include "hl-version.h"
+#include "hl-window-private.h"
+
+#define EXPORT_KEY "hl-export"
+/* Comment lines of a CSV file wrap at this many characters. */
+#define CSV_COMMENT_WIDTH 76
+#define DIALOG_SPACING 8
+#define DIALOG_MARGIN 14
+#define FIGURE_SIZE_STEP 50
+#define FIGURE_SIZE_PAGE 200
+
+typedef enum {
+  EXPORT_REPORT,
+  EXPORT_FIGURE,
+  EXPORT_SWEEPS,
+} HlExportKind;
+
+typedef struct {
+  HlWindow *window;            /* borrowed: the export lives on the window */
+  GtkNativeDialog *chooser;
+  GtkWidget *size_dialog;
+  GtkWidget *width_spin;
+  GtkWidget *height_spin;
+  GtkWidget *option_drop;
+  int figure_width;
+  int figure_height;
+  int figure_option;           /* -1 native, else an option index */
+  HlReport *print_report;      /* while a print runs */
+  GtkPrintOperation *print_op;
+} HlExport;
+
+static void
+hl_export_free (gpointer data)
+{
+  HlExport *ex = data;
+
+  if (ex->chooser != NULL)
+    {
+      gtk_native_dialog_destroy (ex->chooser);
+      g_clear_object (&ex->chooser);
+    }
+  g_clear_pointer (&ex->print_report, hl_report_free);
+  g_clear_object (&ex->print_op);
+  g_free (ex);
+}
+
+/* ---- helpers -------------------------------------------------------- */
+
+static void
+show_failure (HlExport *ex, GFile *file, const char *what, const HlError *err)
+{
+  g_autofree char *name = g_file_get_parse_name (file);
+  g_autofree char *primary = g_strdup_printf (_("Could not export the %s to “%s”"), what, name);
+  g_autofree char *msg = hl_window_format_error (err);
+  g_autofree char *secondary = g_strdup_printf (_("%s\n\nNothing was written; the plan is unchanged."),
+                                                msg);
+
+  hl_window_show_error (ex->window, primary, secondary);
+}
+
+static void
+say_written (HlExport *ex, const char *what, GFile *file)
+{
+  g_autofree char *name = g_file_get_parse_name (file);
+  g_autofree char *text = g_strdup_printf (_("%s written to %s"), what, name);
+
+  gtk_label_set_text (ex->window->status_label, text);
+}
+
+static char *
+suggested_name (HlExport *ex, const char *suffix)
+{
+  const HlPlan *plan = ex->window->plan;
+  g_autofree char *safe = g_strdup (plan->label[0] != '\0' ? plan->label : _("case"));
+
+  g_strdelimit (safe, "/\\:", '-');
+  return g_strconcat (safe, suffix, NULL);
+}
+
+/* Adds `ext` when the name has no extension of that kind. */
+static GFile *
+with_extension (GFile *file, const char *ext)
+{
+  g_autofree char *base = g_file_get_basename (file);
+  g_autofree char *lower = base != NULL ? g_ascii_strdown (base, -1) : NULL;
+  g_autoptr(GFile) parent = NULL;
+  g_autofree char *name = NULL;
+
+  if (lower == NULL || g_str_has_suffix (lower, ext))
+    return g_object_ref (file);
+  parent = g_file_get_parent (file);
+  name = g_strconcat (base, ext, NULL);
+  return parent != NULL ? g_file_get_child (parent, name) : g_file_new_for_path (name);
+}
+
+static GtkFileFilter *
+filter_new (const char *name, const char *pattern)
+{
+  GtkFileFilter *filter = gtk_file_filter_new ();
+
+  gtk_file_filter_set_name (filter, name);
+  gtk_file_filter_add_pattern (filter, pattern);
+  return filter;
+}
+
+static void
+report_settings (HlExport *ex, HlReportSettings *settings)
+{
+  HlWindow *window = ex->window;
+
+  hl_report_settings_init (settings);
+  settings->target_jrf_bw = hl_analysis_get_target_bw (window);
+  settings->figure_option = window->selected_option >= 0
+                            && (size_t) window->selected_option < window->plan->n_options
+                            ? window->selected_option : -1;
+}
+
+static char *
+local_path (GFile *file, HlError *err)
+{
+  char *path = g_file_get_path (file);
+
+  if (path == NULL)
+    hl_error_set (err, HL_ERR_IO, "file", "%s", _("only local files can be written"));
+  return path;
+}
+
+/* ---- the sweep table ------------------------------------------------ */
+
+static void
+append_comment (GString *s, const char *text)
+{
+  g_auto(GStrv) words = g_strsplit (text, " ", -1);
+  gsize line = 0;
+
+  g_string_append (s, "#");
+  for (guint i = 0; words[i] != NULL; i++)
+    {
+      gsize len = g_utf8_strlen (words[i], -1);
+
+      if (len == 0)
+        continue;
+      if (line > 0 && line + 1 + len > CSV_COMMENT_WIDTH)
+        {
+          g_string_append (s, "\n#");
+          line = 0;
+        }
+      g_string_append_c (s, ' ');
+      g_string_append (s, words[i]);
+      line += 1 + len;
+    }
+  g_string_append_c (s, '\n');
+}
+
+char *
+hl_export_sweeps_csv (const HlPlan *plan, HlError *err)
+{
+  HlReportSettings settings;
+  HlReport *report;
+  GString *s;
+  char *csv = NULL;
+  size_t size = 0;
+  g_autofree char *who = NULL;
+
+  hl_report_settings_init (&settings);
+  /* The table carries the curves, not the bands. */
+  settings.uncertainty = false;
+  report = hl_report_new (plan, &settings, err);
+  if (report == NULL)
+    return NULL;
+  if (hl_report_sweeps_csv (report, &csv, &size, err) != HL_OK)
+    {
+      hl_report_free (report);
+      return NULL;
+    }
+  hl_report_free (report);
+
+  s = g_string_sized_new (size + 1024);
+  who = g_strdup_printf (_("hiplever %s: chart sweeps of “%s”, native and every option (units in the column names; xBW: multiples of body weight)."),
+                         hl_program_version (), plan->label);
+  append_comment (s, who);
+  append_comment (s, hl_caution_text ());
+  g_string_append_len (s, csv, (gssize) size);
+  free (csv);
+  return g_string_free (s, FALSE);
+}
+
+/* ---- choosing a file ------------------------------------------------ */
+
+static void
+write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filter)
+{
+  HlWindow *window = ex->window;
+  g_autoptr(GFile) file = NULL;
+  g_autofree char *path = NULL;
+  const char *what = NULL;
+  const char *done = NULL;
+  HlError err;
+
+  hl_error_clear (&err);
+  switch (kind)
+    {
+    case EXPORT_REPORT:
+      {
+        HlReportSettings settings;
+
+        what = _("report");
+        done = _("Report");
+        file = with_extension (chosen, ".pdf");
+        report_settings (ex, &settings);
+        if ((path = local_path (file, &err)) != NULL)
+          hl_report_save_pdf (window->plan, &settings, path, &err);
+      }
+      break;
+    case EXPORT_FIGURE:
+      {
+        g_autofree char *base = g_file_get_basename (chosen);
+        HlFigureFormat format;
+        const char *filter_name = filter != NULL ? gtk_file_filter_get_name (filter) : NULL;
+
+        what = _("figure");
+        done = _("Figure");
+        /* No known extension: the one of the filter chosen, else PNG. */
+        if (base != NULL && hl_figure_format_from_path (base, &format))
+          file = g_object_ref (chosen);
+        else
+          file = with_extension (chosen, filter_name != NULL && strstr (filter_name, "SVG") != NULL
+                                         ? ".svg" : ".png");
+        if ((path = local_path (file, &err)) != NULL)
+          hl_figure_save (window->plan, ex->figure_option, ex->figure_width, ex->figure_height,
+                          path, &err);
+      }
+      break;
+    case EXPORT_SWEEPS:
+    default:
+      {
+        g_autofree char *csv = NULL;
+
+        what = _("sweep table");
+        done = _("Sweep table");
+        file = with_extension (chosen, ".csv");
+        if ((path = local_path (file, &err)) != NULL
+            && (csv = hl_export_sweeps_csv (window->plan, &err)) != NULL)
+          hl_write_file_atomic (path, csv, strlen (csv), &err);
+      }
+      break;
+    }
+  if (err.status != HL_OK)
+    show_failure (ex, file, what, &err);
+  else
+    say_written (ex, done, file);
+}
+
+static void
+chooser_response_cb (GtkNativeDialog *dialog, int response, HlExport *ex)
+{
+  HlExportKind kind = GPOINTER_TO_INT (g_object_get_data (G_OBJECT (dialog), "hl-export-kind"));
+  g_autoptr(GFile) chosen = NULL;
+  g_autoptr(GtkFileFilter) filter = NULL;
+
+  if (response == GTK_RESPONSE_ACCEPT)
+    {
+      chosen = gtk_file_chooser_get_file (GTK_FILE_CHOOSER (dialog));
+      filter = gtk_file_chooser_get_filter (GTK_FILE_CHOOSER (dialog));
+    }
+  if (ex->chooser == dialog)
+    {
+      gtk_native_dialog_destroy (dialog);
+      g_clear_object (&ex->chooser);
+    }
+  if (chosen != NULL)
+    write_file (ex, kind, chosen, filter);
+}
+
+static void
+choose_file (HlExport *ex, HlExportKind kind)
+{
+  GtkFileChooserNative *chooser;
+  g_autofree char *name = NULL;
+  const char *title;
+
+  switch (kind)
+    {
+    case EXPORT_REPORT:
+      title = _("Export the Report");
+      name = suggested_name (ex, "-report.pdf");
+      break;
+    case EXPORT_FIGURE:
+      title = _("Export the Figure");
+      name = suggested_name (ex, "-figure.png");
+      break;
+    case EXPORT_SWEEPS:
+    default:
+      title = _("Export the Sweeps");
+      name = suggested_name (ex, "-sweeps.csv");
+      break;
+    }
+  chooser = gtk_file_chooser_native_new (title, GTK_WINDOW (ex->window),
+                                         GTK_FILE_CHOOSER_ACTION_SAVE,
+                                         _("_Export"), _("_Cancel"));
+  if (kind == EXPORT_REPORT)
+    {
+      g_autoptr(GtkFileFilter) pdf = filter_new (_("PDF documents (*.pdf)"), "*.pdf");
+
+      gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), pdf);
+    }
+  else if (kind == EXPORT_FIGURE)
+    {
+      g_autoptr(GtkFileFilter) png = filter_new (_("PNG images (*.png)"), "*.png");
+      g_autoptr(GtkFileFilter) svg = filter_new (_("SVG drawings (*.svg)"), "*.svg");
+
+      gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), png);
+      gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), svg);
+    }
+  else
+    {
+      g_autoptr(GtkFileFilter) csv = filter_new (_("CSV tables (*.csv)"), "*.csv");
+
+      gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), csv);
+    }
+  gtk_file_chooser_set_current_name (GTK_FILE_CHOOSER (chooser), name);
+  gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (chooser), TRUE);
+  g_object_set_data (G_OBJECT (chooser), "hl-export-kind", GINT_TO_POINTER (kind));
+  g_signal_connect (chooser, "response", G_CALLBACK (chooser_response_cb), ex);
+  if (ex->chooser != NULL)
+    {
+      gtk_native_dialog_destroy (ex->chooser);
+      g_clear_object (&ex->chooser);
+    }
+  ex->chooser = GTK_NATIVE_DIALOG (chooser);
+  gtk_native_dialog_show (ex->chooser);
+}
+
+/* ---- the figure's size ---------------------------------------------- */
+
+static void
+size_dialog_response_cb (GtkDialog *dialog, int response, HlExport *ex)
+{
+  if (response == GTK_RESPONSE_ACCEPT)
+    {
+      ex->figure_width = gtk_spin_button_get_value_as_int (GTK_SPIN_BUTTON (ex->width_spin));
+      ex->figure_height = gtk_spin_button_get_value_as_int (GTK_SPIN_BUTTON (ex->height_spin));
+      ex->figure_option = (int) gtk_drop_down_get_selected (GTK_DROP_DOWN (ex->option_drop)) - 1;
+    }
+  ex->size_dialog = NULL;
+  gtk_window_destroy (GTK_WINDOW (dialog));
+  if (response == GTK_RESPONSE_ACCEPT)
+    choose_file (ex, EXPORT_FIGURE);
+}
+
+static GtkWidget *
+size_spin (int value, const char *label)
+{
+  GtkWidget *spin = gtk_spin_button_new_with_range (HL_FIGURE_SIZE_MIN, HL_FIGURE_SIZE_MAX,
+                                                    FIGURE_SIZE_STEP);
+
+  gtk_spin_button_set_increments (GTK_SPIN_BUTTON (spin), FIGURE_SIZE_STEP, FIGURE_SIZE_PAGE);
+  gtk_spin_button_set_value (GTK_SPIN_BUTTON (spin), value);
+  gtk_accessible_update_property (GTK_ACCESSIBLE (spin), GTK_ACCESSIBLE_PROPERTY_LABEL, label, -1);
+  return spin;
+}
+
+static GtkWidget *
+grid_label (const char *text)
+{
+  GtkWidget *label = gtk_label_new_with_mnemonic (text);
+
+  gtk_label_set_xalign (GTK_LABEL (label), 0.0f);
+  return label;
+}
+
+static void
+show_size_dialog (HlExport *ex)
+{
+  HlWindow *window = ex->window;
+  const HlPlan *plan = window->plan;
+  g_autoptr(GtkStringList) options = gtk_string_list_new (NULL);
+  GtkWidget *dialog, *grid, *label, *note;
+  int option = window->selected_option >= 0
+               && (size_t) window->selected_option < plan->n_options ? window->selected_option : -1;
+
+  if (ex->size_dialog != NULL)
+    {
+      gtk_window_present (GTK_WINDOW (ex->size_dialog));
+      return;
+    }
+  /* GtkDialog is current API in GTK 4.8. */
+  dialog = gtk_dialog_new_with_buttons (_("Export Figure"), GTK_WINDOW (window),
+                                        GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
+                                        _("_Cancel"), GTK_RESPONSE_CANCEL,
+                                        _("_Choose File…"), GTK_RESPONSE_ACCEPT, NULL);
+  gtk_dialog_set_default_response (GTK_DIALOG (dialog), GTK_RESPONSE_ACCEPT);
+  grid = gtk_grid_new ();
+  gtk_grid_set_row_spacing (GTK_GRID (grid), DIALOG_SPACING);
+  gtk_grid_set_column_spacing (GTK_GRID (grid), DIALOG_SPACING);
+  gtk_widget_set_margin_start (grid, DIALOG_MARGIN);
+  gtk_widget_set_margin_end (grid, DIALOG_MARGIN);
+  gtk_widget_set_margin_top (grid, DIALOG_MARGIN);
+  gtk_widget_set_margin_bottom (grid, DIALOG_MARGIN);
+
+  ex->width_spin = size_spin (ex->figure_width, _("Width"));
+  ex->height_spin = size_spin (ex->figure_height, _("Height"));
+  label = grid_label (_("_Width"));
+  gtk_label_set_mnemonic_widget (GTK_LABEL (label), ex->width_spin);
+  gtk_grid_attach (GTK_GRID (grid), label, 0, 0, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), ex->width_spin, 1, 0, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), grid_label (_("px (SVG: pt)")), 2, 0, 1, 1);
+  label = grid_label (_("_Height"));
+  gtk_label_set_mnemonic_widget (GTK_LABEL (label), ex->height_spin);
+  gtk_grid_attach (GTK_GRID (grid), label, 0, 1, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), ex->height_spin, 1, 1, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), grid_label (_("px (SVG: pt)")), 2, 1, 1, 1);
+
+  gtk_string_list_append (options, _("Native hip alone"));
+  for (size_t i = 0; i < plan->n_options; i++)
+    gtk_string_list_append (options, plan->options[i].name);
+  ex->option_drop = gtk_drop_down_new (G_LIST_MODEL (g_object_ref (options)), NULL);
+  gtk_drop_down_set_selected (GTK_DROP_DOWN (ex->option_drop), (guint) (option + 1));
+  label = grid_label (_("_Drawn over the native hip"));
+  gtk_label_set_mnemonic_widget (GTK_LABEL (label), ex->option_drop);
+  gtk_grid_attach (GTK_GRID (grid), label, 0, 2, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), ex->option_drop, 1, 2, 2, 1);
+  note = gtk_label_new (_("The schematic with the force vectors, light style, with the caution at its foot. The format follows the file name: .png or .svg."));
+  gtk_label_set_wrap (GTK_LABEL (note), TRUE);
+  gtk_label_set_max_width_chars (GTK_LABEL (note), 50);
+  gtk_label_set_xalign (GTK_LABEL (note), 0.0f);
+  gtk_widget_add_css_class (note, "dim-label");
+  gtk_grid_attach (GTK_GRID (grid), note, 0, 3, 3, 1);
+  gtk_box_append (GTK_BOX (gtk_dialog_get_content_area (GTK_DIALOG (dialog))), grid);
+
+  g_signal_connect (dialog, "response", G_CALLBACK (size_dialog_response_cb), ex);
+  ex->size_dialog = dialog;
+  gtk_window_present (GTK_WINDOW (dialog));
+}
+
+/* ---- printing ------------------------------------------------------- */
+
+static void
+begin_print_cb (GtkPrintOperation *op, GtkPrintContext *context, HlExport *ex)
+{
+  gtk_print_operation_set_n_pages (op, hl_report_n_pages (ex->print_report));
+}
+
+static void
+draw_page_cb (GtkPrintOperation *op, GtkPrintContext *context, int page, HlExport *ex)
+{
+  cairo_t *cr = gtk_print_context_get_cairo_context (context);
+  double w = gtk_print_context_get_width (context);
+  double h = gtk_print_context_get_height (context);
+  double scale = MIN (w / HL_REPORT_PAGE_WIDTH_PT, h / HL_REPORT_PAGE_HEIGHT_PT);
+
+  if (ex->print_report == NULL || !(scale > 0.0))
+    return;
+  cairo_save (cr);
+  /* Centred in the printable area, the A4 page's proportions kept. */
+  cairo_translate (cr, (w - scale * HL_REPORT_PAGE_WIDTH_PT) / 2.0,
+                   (h - scale * HL_REPORT_PAGE_HEIGHT_PT) / 2.0);
+  cairo_scale (cr, scale, scale);
+  hl_report_draw_page (ex->print_report, cr, page);
+  cairo_restore (cr);
+}
+
+static void
+print_done_cb (GtkPrintOperation *op, GtkPrintOperationResult result, HlExport *ex)
+{
+  g_clear_pointer (&ex->print_report, hl_report_free);
+  g_clear_object (&ex->print_op);
+  if (result == GTK_PRINT_OPERATION_RESULT_ERROR)
+    {
+      g_autoptr(GError) error = NULL;
+
+      gtk_print_operation_get_error (op, &error);
+      hl_window_show_error (ex->window, _("Could not print the report"),
+                            error != NULL ? error->message : _("The printing system gave no reason."));
+    }
+  else if (result == GTK_PRINT_OPERATION_RESULT_APPLY)
+    gtk_label_set_text (ex->window->status_label, _("Report sent to the printer"));
+}
+
+static void
+print_report (HlExport *ex)
+{
+  HlWindow *window = ex->window;
+  GtkPrintOperation *op;
+  g_autoptr(GtkPageSetup) setup = NULL;
+  g_autoptr(GError) error = NULL;
+  GtkPaperSize *a4;
+  HlReportSettings settings;
+  GtkPrintOperationAction action = GTK_PRINT_OPERATION_ACTION_PRINT_DIALOG;
+  GtkPrintOperationResult result;
+  const char *export_to = g_getenv ("HIPLEVER_TEST_PRINT_TO");
+  HlError err;
+
+  if (ex->print_report != NULL)
+    return;
+  hl_error_clear (&err);
+  report_settings (ex, &settings);
+  ex->print_report = hl_report_new (window->plan, &settings, &err);
+  if (ex->print_report == NULL)
+    {
+      g_autofree char *msg = hl_window_format_error (&err);
+
+      hl_window_show_error (window, _("Could not print the report"), msg);
+      return;
+    }
+
+  /* Kept until "done": an operation with a dialog runs on after this returns. */
+  op = ex->print_op = gtk_print_operation_new ();
+  setup = gtk_page_setup_new ();
+  a4 = gtk_paper_size_new (GTK_PAPER_NAME_A4);
+  gtk_page_setup_set_paper_size_and_default_margins (setup, a4);
+  gtk_paper_size_free (a4);
+  gtk_print_operation_set_default_page_setup (op, setup);
+  gtk_print_operation_set_job_name (op, window->plan->label[0] != '\0' ? window->plan->label
+                                                                       : _("hiplever report"));
+  gtk_print_operation_set_allow_async (op, TRUE);
+  g_signal_connect (op, "begin-print", G_CALLBACK (begin_print_cb), ex);
+  g_signal_connect (op, "draw-page", G_CALLBACK (draw_page_cb), ex);
+  g_signal_connect (op, "done", G_CALLBACK (print_done_cb), ex);
+  if (export_to != NULL && export_to[0] != '\0')
+    {
+      action = GTK_PRINT_OPERATION_ACTION_EXPORT;
+      gtk_print_operation_set_export_filename (op, export_to);
+    }
+  /* "done" may come before run returns, and drops the operation. */
+  g_object_ref (op);
+  result = gtk_print_operation_run (op, action, GTK_WINDOW (window), &error);
+  g_object_unref (op);
+  if (result == GTK_PRINT_OPERATION_RESULT_ERROR)
+    {
+      g_clear_pointer (&ex->print_report, hl_report_free);
+      g_clear_object (&ex->print_op);
+      hl_window_show_error (window, _("Could not print the report"),
+                            error != NULL ? error->message : _("The printing system gave no reason."));
+    }
+  else if (action == GTK_PRINT_OPERATION_ACTION_EXPORT)
+    gtk_label_set_text (window->status_label, _("Report printed to a file"));
+}
+
+/* ---- actions -------------------------------------------------------- */
+
+static void
+export_report_cb (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  choose_file (user_data, EXPORT_REPORT);
+}
+
+static void
+export_figure_cb (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  show_size_dialog (user_data);
+}
+
+static void
+export_sweeps_cb (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  choose_file (user_data, EXPORT_SWEEPS);
+}
+
+static void
+print_cb (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  print_report (user_data);
+}
+
+static const GActionEntry export_actions[] = {
+  { "export-report", export_report_cb, NULL, NULL, NULL, { 0 } },
+  { "export-figure", export_figure_cb, NULL, NULL, NULL, { 0 } },
+  { "export-sweeps", export_sweeps_cb, NULL, NULL, NULL, { 0 } },
+  { "print", print_cb, NULL, NULL, NULL, { 0 } },
+};
+
+void
+hl_export_attach (HlWindow *window)
+{
+  HlExport *ex = g_new0 (HlExport, 1);
+
+  ex->window = window;
+  ex->figure_width = HL_EXPORT_FIGURE_WIDTH_DEFAULT;
+  ex->figure_height = HL_EXPORT_FIGURE_HEIGHT_DEFAULT;
+  ex->figure_option = -1;
+  g_object_set_data_full (G_OBJECT (window), EXPORT_KEY, ex, hl_export_free);
+  g_action_map_add_action_entries (G_ACTION_MAP (window), export_actions,
+                                   G_N_ELEMENTS (export_actions), ex);
+}

@@ -1,0 +1,49 @@
+/* hl-export.h: the window's report, figure, sweep-table and print actions.
+ *
+ * Copyright 2026 the hiplever developers
+ * SPDX-License-Identifier: GPL-3.0-or-later
+ *
+ * Window actions (in the header-bar menu, with the accelerators of
+ * hl-application.c):
+ *
+ *  win.export-report   "Export Report (PDF)…": the two-page A4 report of
+ *                      hl-report.h, with the analysis page's joint-load
+ *                      target and the selected option in the schematic;
+ *  win.export-figure   "Export Figure (SVG/PNG)…": a small dialog for the
+ *                      size (default 1600 x 1200) and the option drawn, then
+ *                      the file; the format follows the extension;
+ *  win.export-sweeps   "Export Sweeps (CSV)…": the report's four chart
+ *                      sweeps in one table, the caution first as "# "
+ *                      comment lines;
+ *  win.print           "Print…": the report through GtkPrintOperation, each
+ *                      A4 page scaled to the printable area.
+ *
+ * Files are chosen with GtkFileChooserNative, written atomically
+ * (hl_write_file_atomic), and every failure is said in a dialog with the
+ * file and the reason.  Every export carries the caution of hl-version.h.
+ *
+ * Test hook (environment): HIPLEVER_TEST_PRINT_TO=FILE.pdf makes "Print…"
+ * run the same print operation without its dialog, exporting the pages
+ * to FILE (GTK_PRINT_OPERATION_ACTION_EXPORT).
+ */
+#pragma once
+
+#include <gtk/gtk.h>
+#include "hl-plan.h"
+#include "hl-window.h"
+
+G_BEGIN_DECLS
+
+/* The figure's size when the dialog opens, px (SVG: pt). */
+#define HL_EXPORT_FIGURE_WIDTH_DEFAULT 1600
+#define HL_EXPORT_FIGURE_HEIGHT_DEFAULT 1200
+
+/* Adds the actions to the window; called once from its init. */
+void hl_export_attach (HlWindow *window);
+
+/* The sweep table as written by "Export Sweeps (CSV)…": the caution and
+ * the case as leading "# " lines, then hl_report_sweeps_csv's table.
+ * NULL with err set when the plan cannot be solved. */
+char *hl_export_sweeps_csv (const HlPlan *plan, HlError *err);
+
+G_END_DECLS
