@@ -30,6 +30,7 @@
 #include <unistd.h>
 #include <glib/gi18n.h>
 
+#include "hl-a11y.h"
 #include "hl-application.h"
 #include "hl-plan-io.h"
 #include "hl-analysis-panel.h"
@@ -285,7 +286,7 @@ screenshot_timeout_cb (gpointer user_data)
 {
   HlShot *shot = user_data;
   g_autoptr(GError) error = NULL;
-  int status = 0;
+  int status = hl_a11y_run_test_hooks (GTK_WIDGET (shot->self));
 
   if (!save_window_png (shot->self, shot->path, &error))
     {

@@ -10,6 +10,7 @@
 #include <string.h>
 #include <glib/gi18n.h>
 
+#include "hl-a11y.h"
 #include "hl-plan-io.h"
 #include "hl-autosave.h"
 #include "hl-analysis-panel.h"
@@ -482,6 +483,7 @@ hl_window_init (HlWindow *self)
   hl_analysis_attach (self);
   hl_export_attach (self);
   hl_autosave_attach (self);
+  hl_a11y_label_controls (GTK_WIDGET (self));
   hl_canvas_set_plan (self->canvas, self->plan);
   hl_window_panel_sync (self);
   hl_window_plan_edited (self);
