@@ -38,7 +38,7 @@ HL_OUT=
 HL_WID=
 
 # Seconds to wait for the window and for each printed frame.
-HL_WAIT_S=20
+HL_WAIT_S=${HL_WAIT_S:-20}
 
 hl_cleanup () {
   if [ -n "$HL_PID" ] && kill -0 "$HL_PID" 2>/dev/null; then

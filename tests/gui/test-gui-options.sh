@@ -20,8 +20,8 @@ hl_settle
 hl_grab options-added
 # The shortcuts window comes with Ctrl+? and goes with Escape.
 hl_key ctrl+question
-timeout "$HL_WAIT_S" xdotool search --sync --onlyvisible --name '^Keyboard Shortcuts$' >/dev/null \
-  || hl_fail "Ctrl+? showed no shortcuts window"
+hl_wait_dialog "Keyboard Shortcuts"
+sleep 0.5
 hl_grab shortcuts
 hl_note "ok: the shortcuts window is shown"
 hl_key Escape
@@ -36,17 +36,15 @@ last_block () {
 }
 last_block | grep -q '^WIDGET caution-full ' || hl_fail "the full caution is not shown at start"
 last_block | grep -q '^WIDGET caution-short ' && hl_fail "the short caution shows beside the full one"
-hl_click caution-toggle
-sleep 0.6
 hl_mark
-xdotool mousemove --window "$HL_WID" 5 5
-sleep 0.6
+hl_click caution-toggle
+hl_settle
 hl_grab caution-collapsed
 last_block | grep -q '^WIDGET caution-short ' || hl_fail "the collapsed strip has no caution line"
 last_block | grep -q '^WIDGET caution-full ' && hl_fail "the collapsed strip still shows the full caution"
 hl_note "ok: collapsed to the one-line caution"
 hl_click caution-toggle
-sleep 0.8
+hl_settle
 last_block | grep -q '^WIDGET caution-full ' || hl_fail "the full caution did not come back"
 hl_note "ok: expanded again to the full caution"
 hl_key ctrl+q
