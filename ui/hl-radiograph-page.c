@@ -1065,8 +1065,8 @@ build (HlRadiographPage *self)
   g_signal_connect_object (self->guide_button, "clicked", G_CALLBACK (guide_clicked_cb), self, 0);
   gtk_box_append (GTK_BOX (box), self->guide_button);
   self->guide_box = gtk_box_new (GTK_ORIENTATION_VERTICAL, PAGE_SPACING);
-  self->guide_label = wrap_label ("");
-  gtk_box_append (GTK_BOX (self->guide_box), self->guide_label);
+  /* The buttons come first so that they stay put under the pointer while
+   * the question below them changes length from step to step. */
   row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
   self->back_button = gtk_button_new_with_label (_("Back"));
   self->skip_button = gtk_button_new_with_label (_("Skip"));
@@ -1078,6 +1078,8 @@ build (HlRadiographPage *self)
   gtk_box_append (GTK_BOX (row), self->skip_button);
   gtk_box_append (GTK_BOX (row), self->stop_button);
   gtk_box_append (GTK_BOX (self->guide_box), row);
+  self->guide_label = wrap_label ("");
+  gtk_box_append (GTK_BOX (self->guide_box), self->guide_label);
   gtk_widget_set_visible (self->guide_box, FALSE);
   gtk_box_append (GTK_BOX (box), self->guide_box);
 
