@@ -88,6 +88,23 @@ xdotool mousemove --window "$HL_WID" "$hip_sx" "$hip_sy" click 1
 hl_settle
 set -- $(last SELECTED)
 [ "$2" = midline ] || hl_fail "after the hip centre the guided placement asks for $2"
+# Skip twice and step back once: the buttons stay where they are while the
+# question changes, so repeated clicks land on them.
+for want in abductor-origin abductor-insertion; do
+  sleep "$CLICK_GAP_S"
+  hl_mark
+  hl_click radiograph-skip
+  hl_settle
+  set -- $(last SELECTED)
+  [ "$2" = "$want" ] || hl_fail "Skip went to $2, not $want"
+done
+sleep "$CLICK_GAP_S"
+hl_mark
+hl_click radiograph-back
+hl_settle
+set -- $(last SELECTED)
+[ "$2" = abductor-origin ] || hl_fail "Back went to $2, not the abductor origin"
+hl_note "ok: Skip, Skip, Back step through the landmarks"
 sleep "$CLICK_GAP_S"
 hl_mark
 hl_click radiograph-stop
