@@ -14,6 +14,7 @@
 #include "hl-autosave.h"
 #include "hl-resources.h"
 #include "hl-plan-io.h"
+#include "hl-settings.h"
 #include "hl-version.h"
 #include "hl-window.h"
 
@@ -171,6 +172,10 @@ hl_application_new_window (HlApplication *self)
 {
   HlWindow *window = hl_window_new (GTK_APPLICATION (self));
 
+  /* Batch runs read the settings (units, size) but never write them. */
+  hl_settings_init (!(self->benchmark_drag || self->screenshot_path != NULL
+                      || self->print_results));
+  hl_settings_attach (window);
   if (self->width > 0)
     gtk_window_set_default_size (GTK_WINDOW (window), self->width, self->height);
   if (self->dump_path != NULL)
@@ -219,6 +224,7 @@ hl_application_activate (GApplication *app)
   demo = load_demo ();
   if (demo != NULL)
     {
+      hl_settings_apply_model_defaults (demo);
       hl_window_set_plan (window, demo);
       hl_plan_free (demo);
     }

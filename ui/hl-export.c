@@ -16,6 +16,7 @@
 #include "hl-plan-io.h"
 #include "hl-render.h"
 #include "hl-report.h"
+#include "hl-settings.h"
 #include "hl-version.h"
 #include "hl-window-private.h"
 
@@ -339,6 +340,7 @@ choose_file (HlExport *ex, HlExportKind kind)
   gtk_file_chooser_set_current_name (GTK_FILE_CHOOSER (chooser), name);
   gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (chooser), TRUE);
   g_object_set_data (G_OBJECT (chooser), "hl-export-kind", GINT_TO_POINTER (kind));
+  hl_settings_track_chooser (chooser);
   g_signal_connect (chooser, "response", G_CALLBACK (chooser_response_cb), ex);
   if (ex->chooser != NULL)
     {

@@ -12,6 +12,7 @@
 
 #include "hl-autosave.h"
 #include "hl-plan-io.h"
+#include "hl-settings.h"
 #include "hl-window-private.h"
 
 #define HL_AFTER_KEY "hl-after-guard"
@@ -162,6 +163,7 @@ hl_window_show_open_chooser (HlWindow *self)
   gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), plans);
   gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), summaries);
   gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (chooser), TRUE);
+  hl_settings_track_chooser (chooser);
   g_signal_connect_object (chooser, "response", G_CALLBACK (open_response_cb), self, 0);
   set_chooser (self, chooser);
   gtk_native_dialog_show (GTK_NATIVE_DIALOG (chooser));
@@ -296,6 +298,7 @@ hl_window_save_as (HlWindow *self, HlAfterGuard then)
                                          GTK_FILE_CHOOSER_ACTION_SAVE,
                                          _("_Save"), _("_Cancel"));
   gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), plans);
+  hl_settings_track_chooser (chooser);
   if (self->file != NULL)
     gtk_file_chooser_set_file (GTK_FILE_CHOOSER (chooser), self->file, NULL);
   else
@@ -472,6 +475,7 @@ export_action_cb (GtkWidget *widget, const char *name, GVariant *param)
   gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), filter);
   gtk_file_chooser_set_current_name (GTK_FILE_CHOOSER (chooser), suggested);
   gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (chooser), TRUE);
+  hl_settings_track_chooser (chooser);
   g_signal_connect_object (chooser, "response", G_CALLBACK (export_response_cb), self, 0);
   set_chooser (self, chooser);
   gtk_native_dialog_show (GTK_NATIVE_DIALOG (chooser));
