@@ -166,6 +166,15 @@ hl_window_print_handles (HlWindow *self)
             on_canvas >= 0 ? hl_landmark_info ((HlLandmarkId) on_canvas)->key : "none",
             in_table >= 0 ? hl_landmark_info ((HlLandmarkId) in_table)->key : "none");
   }
+  if (g_strcmp0 (g_getenv ("HIPLEVER_TEST_PRINT_A11Y"), "1") == 0)
+    {
+      /* What a screen reader is told, as GTK holds it (needs GTK_A11Y=test):
+       * the check against "" returns the value it holds. */
+      g_autofree char *label = gtk_test_accessible_check_property (GTK_ACCESSIBLE (self->canvas),
+                                                                   GTK_ACCESSIBLE_PROPERTY_LABEL, "");
+
+      printf ("ACCESSIBLE canvas %s\n", label != NULL ? label : "");
+    }
   hl_radiograph_page_print_handles (self);
   hl_analysis_print_handles (self);
   printf ("FRAME %u\n", ++self->handles_printed);
