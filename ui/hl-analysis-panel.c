@@ -468,7 +468,10 @@ static void
 target_changed_cb (GtkSpinButton *spin, HlAnalysisPanel *self)
 {
   if (self->syncing == 0 && !self->window->disposing)
-    compute_answers (self);
+    {
+      compute_answers (self);
+      self->window->handles_dirty = TRUE;
+    }
 }
 
 /* ---- capacity ------------------------------------------------------- */
@@ -639,6 +642,19 @@ selected_option_cb (GObject *canvas, GParamSpec *pspec, HlAnalysisPanel *self)
     compute_answers (self);
 }
 
+/* The handle printer prints after frames in which something moved. */
+static void
+moved_cb (GObject *object, GParamSpec *pspec, HlWindow *window)
+{
+  window->handles_dirty = TRUE;
+}
+
+static void
+scrolled_cb (GtkAdjustment *adjustment, HlWindow *window)
+{
+  window->handles_dirty = TRUE;
+}
+
 static void
 show_lower_cb (GSimpleAction *action, GVariant *param, gpointer user_data)
 {
@@ -793,7 +809,18 @@ hl_analysis_attach (HlWindow *window)
   g_action_map_add_action_entries (G_ACTION_MAP (window), lower_actions,
                                    G_N_ELEMENTS (lower_actions), window);
   if (window->charts_view != NULL)
-    hl_charts_view_set_plan (HL_CHARTS_VIEW (window->charts_view), window->plan);
+    {
+      hl_charts_view_set_plan (HL_CHARTS_VIEW (window->charts_view), window->plan);
+      g_signal_connect_object (window->charts_view, "notify::kind", G_CALLBACK (moved_cb),
+                               window, 0);
+      g_signal_connect_object (window->charts_view, "notify::show-bands", G_CALLBACK (moved_cb),
+                               window, 0);
+    }
+  if (window->lower_stack != NULL)
+    g_signal_connect_object (window->lower_stack, "notify::visible-child", G_CALLBACK (moved_cb),
+                             window, 0);
+  g_signal_connect_object (gtk_scrolled_window_get_vadjustment (GTK_SCROLLED_WINDOW (self->scroll)),
+                           "value-changed", G_CALLBACK (scrolled_cb), window, 0);
 }
 
 /* ---- test hooks ----------------------------------------------------- */
@@ -857,9 +884,20 @@ hl_analysis_print_handles (HlWindow *window)
       HlChartsView *charts = HL_CHARTS_VIEW (window->charts_view);
       const char *error = hl_charts_view_get_error (charts);
 
+      graphene_point_t in = GRAPHENE_POINT_INIT (0, 0), out;
+      double tx, ty;
+
       print_widget (window, "chart-kind", hl_charts_view_get_kind_drop (charts));
       printf ("CHARTS %d %u %s\n", (int) hl_charts_view_get_kind (charts),
               hl_charts_view_get_compute_count (charts), error != NULL ? "error" : "ok");
+      if (gtk_widget_get_mapped (window->charts_view)
+          && gtk_widget_compute_point (window->charts_view, GTK_WIDGET (window), &in, &out))
+        {
+          gtk_native_get_surface_transform (GTK_NATIVE (window), &tx, &ty);
+          printf ("AREA charts-view %.0f %.0f %d %d\n", out.x + tx, out.y + ty,
+                  gtk_widget_get_width (window->charts_view),
+                  gtk_widget_get_height (window->charts_view));
+        }
     }
   print_widget (window, "analysis-target", self->target_spin);
   print_widget (window, "capacity-preset", self->capacity_drop);

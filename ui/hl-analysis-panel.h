@@ -76,7 +76,8 @@ gboolean hl_analysis_apply (HlWindow *window, HlQuestion question);
 /* From the handle printer (HIPLEVER_TEST_PRINT_HANDLES): WIDGET lines for
  * page-analysis, lower-results, lower-charts, chart-kind, analysis-target,
  * capacity-preset and apply-<question key>; "CHARTS <kind> <runs of the
- * core> <ok|error>"; and one line per question
+ * core> <ok|error>"; "AREA charts-view x y width height" while the charts
+ * are shown; and one line per question
  *   ANSWER <key> <ok|not-reachable|not-converged|none> <value> <applicable>
  * with the value to full precision (nan without an answer). */
 void hl_analysis_print_handles (HlWindow *window);

@@ -358,6 +358,8 @@ size_dialog_response_cb (GtkDialog *dialog, int response, HlExport *ex)
 {
   if (response == GTK_RESPONSE_ACCEPT)
     {
+      gtk_spin_button_update (GTK_SPIN_BUTTON (ex->width_spin));
+      gtk_spin_button_update (GTK_SPIN_BUTTON (ex->height_spin));
       ex->figure_width = gtk_spin_button_get_value_as_int (GTK_SPIN_BUTTON (ex->width_spin));
       ex->figure_height = gtk_spin_button_get_value_as_int (GTK_SPIN_BUTTON (ex->height_spin));
       ex->figure_option = (int) gtk_drop_down_get_selected (GTK_DROP_DOWN (ex->option_drop)) - 1;
@@ -375,7 +377,13 @@ size_spin (int value, const char *label)
                                                     FIGURE_SIZE_STEP);
 
   gtk_spin_button_set_increments (GTK_SPIN_BUTTON (spin), FIGURE_SIZE_STEP, FIGURE_SIZE_PAGE);
+  GtkEditable *text;
+
   gtk_spin_button_set_value (GTK_SPIN_BUTTON (spin), value);
+  /* Return in a size field accepts the dialog. */
+  text = gtk_editable_get_delegate (GTK_EDITABLE (spin));
+  if (GTK_IS_TEXT (text))
+    gtk_text_set_activates_default (GTK_TEXT (text), TRUE);
   gtk_accessible_update_property (GTK_ACCESSIBLE (spin), GTK_ACCESSIBLE_PROPERTY_LABEL, label, -1);
   return spin;
 }
