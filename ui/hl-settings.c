@@ -395,5 +395,12 @@ hl_settings_track_chooser (GtkFileChooserNative *chooser)
 
       gtk_file_chooser_set_current_folder (GTK_FILE_CHOOSER (chooser), folder, NULL);
     }
+  hl_settings_remember_chooser (chooser);
+}
+
+void
+hl_settings_remember_chooser (GtkFileChooserNative *chooser)
+{
+  g_return_if_fail (GTK_IS_FILE_CHOOSER_NATIVE (chooser));
   g_signal_connect (chooser, "response", G_CALLBACK (chooser_response_cb), NULL);
 }

@@ -48,6 +48,9 @@ void hl_settings_apply_model_defaults (HlPlan *plan);
  * file chosen.  Call before connecting the caller's own "response"
  * handler; a later gtk_file_chooser_set_file still wins. */
 void hl_settings_track_chooser (GtkFileChooserNative *chooser);
+/* Only records the folder of what the user chooses: for choosers that
+ * start at a file of their own (Save As of a plan that has a file). */
+void hl_settings_remember_chooser (GtkFileChooserNative *chooser);
 
 /* Writes pending changes now (on quitting). */
 void hl_settings_flush (void);

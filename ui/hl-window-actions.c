@@ -298,11 +298,17 @@ hl_window_save_as (HlWindow *self, HlAfterGuard then)
                                          GTK_FILE_CHOOSER_ACTION_SAVE,
                                          _("_Save"), _("_Cancel"));
   gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), plans);
-  hl_settings_track_chooser (chooser);
+  /* A plan with a file starts in that file's folder, not the last one. */
   if (self->file != NULL)
-    gtk_file_chooser_set_file (GTK_FILE_CHOOSER (chooser), self->file, NULL);
+    {
+      hl_settings_remember_chooser (chooser);
+      gtk_file_chooser_set_file (GTK_FILE_CHOOSER (chooser), self->file, NULL);
+    }
   else
-    gtk_file_chooser_set_current_name (GTK_FILE_CHOOSER (chooser), name);
+    {
+      hl_settings_track_chooser (chooser);
+      gtk_file_chooser_set_current_name (GTK_FILE_CHOOSER (chooser), name);
+    }
   gtk_native_dialog_set_modal (GTK_NATIVE_DIALOG (chooser), TRUE);
   g_object_set_data (G_OBJECT (chooser), HL_AFTER_KEY, GINT_TO_POINTER (then));
   g_signal_connect_object (chooser, "response", G_CALLBACK (save_as_response_cb), self, 0);
