@@ -664,15 +664,17 @@ hl_radiograph_page_plan_edited (HlWindow *window)
   gtk_widget_set_sensitive (self->opacity_scale, rg->present);
   gtk_widget_set_sensitive (self->spacing_spin, rg->present);
   gtk_widget_set_sensitive (self->guide_button, rg->present);
-  if (rg->present)
-    {
-      gtk_check_button_set_active (GTK_CHECK_BUTTON (self->schematic_check), rg->schematic_visible);
-      gtk_range_set_value (GTK_RANGE (self->brightness_scale), rg->brightness);
-      gtk_range_set_value (GTK_RANGE (self->contrast_scale), rg->contrast);
-      gtk_check_button_set_active (GTK_CHECK_BUTTON (self->invert_check), rg->invert);
-      gtk_range_set_value (GTK_RANGE (self->opacity_scale), rg->opacity);
-      gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->spacing_spin), rg->pixel_spacing_mm);
-    }
+  /* Without an image the (insensitive) controls show what an import
+   * starts with. */
+  HlRadiograph defaults;
+  hl_radiograph_init (&defaults);
+  const HlRadiograph *shown = rg->present ? rg : &defaults;
+  gtk_check_button_set_active (GTK_CHECK_BUTTON (self->schematic_check), shown->schematic_visible);
+  gtk_range_set_value (GTK_RANGE (self->brightness_scale), shown->brightness);
+  gtk_range_set_value (GTK_RANGE (self->contrast_scale), shown->contrast);
+  gtk_check_button_set_active (GTK_CHECK_BUTTON (self->invert_check), shown->invert);
+  gtk_range_set_value (GTK_RANGE (self->opacity_scale), shown->opacity);
+  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->spacing_spin), shown->pixel_spacing_mm);
 
   const HlCalibration *cal = &plan->calibration;
   gtk_drop_down_set_selected (GTK_DROP_DOWN (self->method_drop), method_index (cal->method));
