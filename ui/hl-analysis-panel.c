@@ -24,6 +24,10 @@
 #define PAGE_NAME "analysis"
 #define PAGE_KEY "hl-analysis-panel"
 #define PAGE_SPACING 6
+#define PAGE_MARGIN_X 10
+#define PAGE_MARGIN_Y 8
+#define LINE_SPACING 2
+#define GRID_COLUMN_SPACING 8
 #define ANSWER_MAX 512
 /* An answer this close to the plan's value is already in the plan: the
  * root finder's own tolerance (hl-root.h). */
@@ -744,7 +748,7 @@ build (HlAnalysisPanel *self)
   for (int q = 0; q < HL_QUESTION_N; q++)
     {
       HlAnswerRow *row = &self->rows[q];
-      GtkWidget *words = gtk_box_new (GTK_ORIENTATION_VERTICAL, 2);
+      GtkWidget *words = gtk_box_new (GTK_ORIENTATION_VERTICAL, LINE_SPACING);
 
       row->box = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
       gtk_widget_add_css_class (row->box, "analysis-answer");
@@ -781,8 +785,8 @@ build (HlAnalysisPanel *self)
   gtk_widget_remove_css_class (self->capacity_force_label, "dim-label");
   gtk_box_append (box, self->capacity_force_label);
   self->capacity_grid = gtk_grid_new ();
-  gtk_grid_set_column_spacing (GTK_GRID (self->capacity_grid), 8);
-  gtk_grid_set_row_spacing (GTK_GRID (self->capacity_grid), 2);
+  gtk_grid_set_column_spacing (GTK_GRID (self->capacity_grid), GRID_COLUMN_SPACING);
+  gtk_grid_set_row_spacing (GTK_GRID (self->capacity_grid), LINE_SPACING);
   gtk_box_append (box, self->capacity_grid);
 
   gtk_box_append (box, gtk_separator_new (GTK_ORIENTATION_HORIZONTAL));
@@ -949,8 +953,8 @@ hl_analysis_panel_class_init (HlAnalysisPanelClass *klass)
 static void
 hl_analysis_panel_init (HlAnalysisPanel *self)
 {
-  gtk_widget_set_margin_start (GTK_WIDGET (self), 10);
-  gtk_widget_set_margin_end (GTK_WIDGET (self), 10);
-  gtk_widget_set_margin_top (GTK_WIDGET (self), 8);
-  gtk_widget_set_margin_bottom (GTK_WIDGET (self), 8);
+  gtk_widget_set_margin_start (GTK_WIDGET (self), PAGE_MARGIN_X);
+  gtk_widget_set_margin_end (GTK_WIDGET (self), PAGE_MARGIN_X);
+  gtk_widget_set_margin_top (GTK_WIDGET (self), PAGE_MARGIN_Y);
+  gtk_widget_set_margin_bottom (GTK_WIDGET (self), PAGE_MARGIN_Y);
 }
