@@ -25,7 +25,9 @@ SRCDIR=$2
 shift 2
 
 export LC_ALL=C TZ=UTC GSK_RENDERER=cairo NO_AT_BRIDGE=1 GTK_A11Y=none
-HL_TMP=$(mktemp -d)
+# Under /var/tmp when possible: the file chooser lists the folders on a
+# typed path, and a crowded /tmp makes it cancel its own listing.
+HL_TMP=$(mktemp -d /var/tmp/hlgui.XXXXXX 2>/dev/null || mktemp -d)
 export HOME="$HL_TMP/home" XDG_CONFIG_HOME="$HL_TMP/config" \
        XDG_DATA_HOME="$HL_TMP/data" XDG_CACHE_HOME="$HL_TMP/cache" \
        XDG_STATE_HOME="$HL_TMP/state" XDG_RUNTIME_DIR="$HL_TMP/runtime"
