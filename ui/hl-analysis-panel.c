@@ -318,7 +318,10 @@ show_answers (HlAnalysisPanel *self)
 
       gtk_widget_set_visible (row->box, self->asked[q]);
       if (!self->asked[q])
-        continue;
+        {
+          gtk_widget_set_sensitive (row->apply, FALSE);
+          continue;
+        }
       hl_inverse_answer_format (&self->answers[q], text, sizeof text);
       gtk_label_set_text (GTK_LABEL (row->text), text);
       words = apply_words (self, (HlQuestion) q, &why);

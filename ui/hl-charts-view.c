@@ -93,7 +93,10 @@ update_info (HlChartsView *self)
   else
     {
       gtk_widget_remove_css_class (self->info_label, "error");
-      if (self->data != NULL && self->data->bands != NULL)
+      if (self->kind == HL_CHART_FEMORAL_OFFSET && self->plan != NULL
+          && self->plan->n_options == 0)
+        text = g_strdup (_("Only the native hip: add a reconstruction option to chart its femoral offset change."));
+      else if (self->data != NULL && self->data->bands != NULL)
         text = g_strdup_printf (_("Bands: %zu Monte Carlo samples at each of %zu points, seed %" PRIu64),
                                 self->data->band_samples, self->data->n_band_steps,
                                 self->data->band_info.seed);
@@ -491,7 +494,8 @@ hl_charts_view_init (HlChartsView *self)
   gtk_box_append (GTK_BOX (bands_row), self->bands_check);
   self->info_label = gtk_label_new (NULL);
   gtk_label_set_xalign (GTK_LABEL (self->info_label), 0.0f);
-  gtk_label_set_ellipsize (GTK_LABEL (self->info_label), PANGO_ELLIPSIZE_END);
+  gtk_label_set_wrap (GTK_LABEL (self->info_label), TRUE);
+  gtk_label_set_wrap_mode (GTK_LABEL (self->info_label), PANGO_WRAP_WORD_CHAR);
   gtk_widget_set_hexpand (self->info_label, TRUE);
   gtk_widget_add_css_class (self->info_label, "dim-label");
   gtk_widget_add_css_class (self->info_label, "caption");

@@ -231,4 +231,21 @@ if hl_cmp "$arm" "~" "$native_arm"; then
   hl_fail "after undo the arm still equals native's ($arm)"
 fi
 hl_note "ok: after undo the arm is $arm mm again (native $native_arm mm)"
+
+# ---- a plan that cannot be solved ----------------------------------------
+# No answers and no charts, each saying why; nothing to apply.
+bad="$HL_TMP/midline-lateral.hlplan"
+sed 's|<landmark name="midline" x-mm="0"|<landmark name="midline" x-mm="-130"|' "$HL_DEMO" >"$bad"
+grep -q 'x-mm="-130"' "$bad" || hl_fail "could not move the midline"
+hl_start unsolvable --panel analysis "$bad"
+hl_key alt+2
+hl_settle
+hl_grab unsolvable
+state=$(awk '$1 == "CHARTS" { s = $4 } END { print s }' "$HL_OUT")
+[ "$state" = "error" ] || hl_fail "the charts of an unsolvable plan say '$state'"
+n=$(awk '$1 == "ANSWER" { last[$2] = $3 " " $5 } END { for (k in last) if (last[k] != "none 0") n++; print n + 0 }' "$HL_OUT")
+hl_expect "answers or Apply buttons for an unsolvable plan" "$n" "~" 0
+hl_key ctrl+q
+hl_wait_exit
+hl_note "ok: an unsolvable plan gives no answers and no charts, and the window quits cleanly"
 echo "PASS"
