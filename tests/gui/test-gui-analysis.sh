@@ -220,6 +220,14 @@ hl_key ctrl+z
 hl_settle
 [ "$(hl_last ANSWER offset-for-arm 5)" = "1" ] || hl_fail "after Ctrl+Z the answer is still in the plan"
 hl_grab undone
+# Without the test hook Ctrl+P shows the print dialog; Escape cancels it.
+hl_key ctrl+p
+hl_wait_dialog Print
+hl_grab print-dialog
+hl_key Escape
+sleep 0.5
+kill -0 "$HL_PID" 2>/dev/null || hl_fail "the program ended after the print dialog was cancelled"
+hl_note "ok: the print dialog came and went"
 hl_quit_discarding
 offset=$(xmllint --xpath "string(//*[local-name()='options']/*[local-name()='option'][1]/@femoral-offset-mm)" "$HL_TMP/undone.xml")
 HL_TOL=1e-9
@@ -245,6 +253,13 @@ state=$(awk '$1 == "CHARTS" { s = $4 } END { print s }' "$HL_OUT")
 [ "$state" = "error" ] || hl_fail "the charts of an unsolvable plan say '$state'"
 n=$(awk '$1 == "ANSWER" { last[$2] = $3 " " $5 } END { for (k in last) if (last[k] != "none 0") n++; print n + 0 }' "$HL_OUT")
 hl_expect "answers or Apply buttons for an unsolvable plan" "$n" "~" 0
+# Printing it: a dialog says why there is no report.
+hl_key ctrl+p
+hl_wait_dialog Error
+hl_grab print-error
+hl_key Return
+sleep 0.5
+kill -0 "$HL_PID" 2>/dev/null || hl_fail "the program ended after a print that could not be made"
 hl_key ctrl+q
 hl_wait_exit
 hl_note "ok: an unsolvable plan gives no answers and no charts, and the window quits cleanly"
