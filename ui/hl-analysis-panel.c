@@ -14,6 +14,7 @@
 #include <glib/gi18n.h>
 
 #include "hl-analysis-panel.h"
+#include "hl-answer.h"
 #include "hl-capacity.h"
 #include "hl-charts-view.h"
 #include "hl-report.h"
@@ -29,9 +30,6 @@
 #define LINE_SPACING 2
 #define GRID_COLUMN_SPACING 8
 #define ANSWER_MAX 512
-/* An answer this close to the plan's value is already in the plan: the
- * root finder's own tolerance (hl-root.h). */
-#define APPLY_SAME_TOL HL_ROOT_EPSABS_DEFAULT
 /* A capacity torque this close to a preset is that preset (N m/kg): the
  * presets are shown to two decimals, plan files keep more. */
 #define CAPACITY_MATCH_TOL 5e-4
@@ -39,21 +37,6 @@
 #define TARGET_PAGE_BW 0.5
 #define TARGET_DIGITS 2
 #define PERCENT 100.0
-
-static const struct {
-  const char *key;
-  HlInverseKind kind;
-  HlLoadSite site;
-  gboolean options_only;
-} questions[HL_QUESTION_N] = {
-  { "offset-for-arm", HL_INVERSE_OFFSET_FOR_ARM, HL_LOAD_SITE_N, TRUE },
-  { "offset-for-global", HL_INVERSE_OFFSET_FOR_GLOBAL, HL_LOAD_SITE_N, TRUE },
-  { "cane-for-jrf", HL_INVERSE_CANE_FOR_JRF, HL_LOAD_SITE_N, FALSE },
-  { "load-contralateral", HL_INVERSE_LOAD_FOR_JRF, HL_LOAD_SITE_CONTRALATERAL, FALSE },
-  { "load-ipsilateral", HL_INVERSE_LOAD_FOR_JRF, HL_LOAD_SITE_IPSILATERAL, FALSE },
-  { "load-midline", HL_INVERSE_LOAD_FOR_JRF, HL_LOAD_SITE_MIDLINE, FALSE },
-  { "lean-for-capacity", HL_INVERSE_LEAN_FOR_CAPACITY, HL_LOAD_SITE_N, FALSE },
-};
 
 typedef struct {
   GtkWidget *box;
@@ -95,13 +78,6 @@ struct _HlAnalysisPanel {
 };
 
 G_DEFINE_FINAL_TYPE (HlAnalysisPanel, hl_analysis_panel, GTK_TYPE_BOX)
-
-const char *
-hl_question_key (HlQuestion question)
-{
-  g_return_val_if_fail (question < HL_QUESTION_N, "");
-  return questions[question].key;
-}
 
 static HlAnalysisPanel *
 panel_of (HlWindow *window)
@@ -220,54 +196,44 @@ site_words (HlLoadSite site)
   return _("on the midline");
 }
 
-static double *
-load_of (HlPlan *plan, HlLoadSite site)
-{
-  if (site == HL_LOAD_SITE_MIDLINE)
-    return &plan->loads.midline_kg;
-  return &plan->loads.hand[site == HL_LOAD_SITE_IPSILATERAL ? HL_HAND_IPSILATERAL
-                                                             : HL_HAND_CONTRALATERAL].mass_kg;
-}
-
 /* What Apply would change, or NULL (and why in *why) when nothing. */
 static char *
 apply_words (HlAnalysisPanel *self, HlQuestion q, const char **why)
 {
   HlWindow *window = self->window;
-  HlPlan *plan = window->plan;
+  const HlPlan *plan = window->plan;
   const HlInverseAnswer *a = &self->answers[q];
   double v = a->value;
 
   *why = NULL;
   if (!self->asked[q])
     return NULL;
-  if (a->status != HL_OK || !isfinite (v))
+  switch (hl_answer_apply_state (plan, window->selected_option, q, a))
     {
+    case HL_APPLY_CHANGES:
+      break;
+    case HL_APPLY_ALREADY:
+      *why = _("Already in the plan.");
+      return NULL;
+    case HL_APPLY_WHOLE_RANGE:
+      *why = _("Nothing to apply: the target holds over the whole range.");
+      return NULL;
+    case HL_APPLY_NO_ANSWER:
+    default:
       *why = _("Nothing to apply.");
       return NULL;
     }
-  switch (questions[q].kind)
+  switch (hl_question_kind (q))
     {
     case HL_INVERSE_OFFSET_FOR_ARM:
     case HL_INVERSE_OFFSET_FOR_GLOBAL:
-      {
-        const HlOption *option = &plan->options[window->selected_option];
-
-        if (fabs (option->recon.femoral_offset_mm - v) <= APPLY_SAME_TOL)
-          break;
-        return g_strdup_printf (_("Apply sets the femoral offset change of “%s” to %+.1f mm."),
-                                option->name, v);
-      }
+      return g_strdup_printf (_("Apply sets the femoral offset change of “%s” to %+.1f mm."),
+                              plan->options[window->selected_option].name, v);
     case HL_INVERSE_CANE_FOR_JRF:
       {
         double in_unit = hl_force_from_newtons (v, plan->cane.unit, plan->mass_kg);
-        gboolean same = (plan->cane.enabled && plan->cane.hand == HL_HAND_CONTRALATERAL
-                         && fabs (hl_plan_cane_force (plan) - v) <= APPLY_SAME_TOL)
-                        || (!plan->cane.enabled && v <= APPLY_SAME_TOL);
 
-        if (same)
-          break;
-        if (v <= APPLY_SAME_TOL)
+        if (v <= HL_ANSWER_SAME_TOL)
           return g_strdup (_("Apply takes the cane away, for every option."));
         switch (plan->cane.unit)
           {
@@ -284,26 +250,14 @@ apply_words (HlAnalysisPanel *self, HlQuestion q, const char **why)
           }
       }
     case HL_INVERSE_LOAD_FOR_JRF:
-      if (a->at_limit)
-        {
-          *why = _("Nothing to apply: the target holds over the whole range.");
-          return NULL;
-        }
-      if (fabs (*load_of (plan, questions[q].site) - v) <= APPLY_SAME_TOL)
-        break;
       return g_strdup_printf (_("Apply sets the load %s to %.1f kg, for every option."),
-                              site_words (questions[q].site), v);
+                              site_words (hl_question_site (q)), v);
     case HL_INVERSE_LEAN_FOR_CAPACITY:
-      if (fabs (plan->model.lean_mm - v) <= APPLY_SAME_TOL)
-        break;
-      return g_strdup_printf (_("Apply sets the lateral trunk lean to %.1f mm, for every option."),
-                              v);
     case HL_INVERSE_N:
     default:
-      return NULL;
+      break;
     }
-  *why = _("Already in the plan.");
-  return NULL;
+  return g_strdup_printf (_("Apply sets the lateral trunk lean to %.1f mm, for every option."), v);
 }
 
 static void
@@ -364,30 +318,9 @@ compute_answers (HlAnalysisPanel *self)
           HlInverseAnswer *a = &self->answers[q];
           HlStatus st;
 
-          if (questions[q].options_only && recon == NULL)
+          if (hl_question_needs_option ((HlQuestion) q) && recon == NULL)
             continue;
-          switch (questions[q].kind)
-            {
-            case HL_INVERSE_OFFSET_FOR_ARM:
-              st = hl_inverse_offset_for_arm (&model, recon, NULL, a, &err);
-              break;
-            case HL_INVERSE_OFFSET_FOR_GLOBAL:
-              st = hl_inverse_offset_for_global (&model, recon, NULL, a, &err);
-              break;
-            case HL_INVERSE_CANE_FOR_JRF:
-              st = hl_inverse_cane_for_jrf (&model, recon, target, plan->cane.distance_mm,
-                                            NULL, a, &err);
-              break;
-            case HL_INVERSE_LOAD_FOR_JRF:
-              st = hl_inverse_load_for_jrf (&model, recon, questions[q].site, target, NULL,
-                                            a, &err);
-              break;
-            case HL_INVERSE_LEAN_FOR_CAPACITY:
-            case HL_INVERSE_N:
-            default:
-              st = hl_inverse_lean_for_capacity (&model, recon, NULL, a, &err);
-              break;
-            }
+          st = hl_question_ask ((HlQuestion) q, &model, plan, recon, target, a, &err);
           /* Not reachable and not converged are answers; anything else
            * is a failure of the model. */
           if (st == HL_OK || st == HL_ERR_NOT_REACHABLE || st == HL_ERR_NOT_CONVERGED)
@@ -417,8 +350,6 @@ hl_analysis_apply (HlWindow *window, HlQuestion q)
   HlAnalysisPanel *self = panel_of (window);
   g_autofree char *words = NULL;
   const char *why;
-  HlPlan *plan;
-  double v;
 
   g_return_val_if_fail (self != NULL && q < HL_QUESTION_N, FALSE);
   words = apply_words (self, q, &why);
@@ -427,31 +358,7 @@ hl_analysis_apply (HlWindow *window, HlQuestion q)
   hl_undo_break (window->undo);
   if (!hl_window_begin_edit (window, NULL))
     return FALSE;
-  plan = window->plan;
-  v = self->answers[q].value;
-  switch (questions[q].kind)
-    {
-    case HL_INVERSE_OFFSET_FOR_ARM:
-    case HL_INVERSE_OFFSET_FOR_GLOBAL:
-      plan->options[window->selected_option].recon.femoral_offset_mm = v;
-      break;
-    case HL_INVERSE_CANE_FOR_JRF:
-      plan->cane.enabled = v > APPLY_SAME_TOL;
-      if (plan->cane.enabled)
-        {
-          plan->cane.hand = HL_HAND_CONTRALATERAL;
-          plan->cane.value = hl_force_from_newtons (v, plan->cane.unit, plan->mass_kg);
-        }
-      break;
-    case HL_INVERSE_LOAD_FOR_JRF:
-      *load_of (plan, questions[q].site) = v;
-      break;
-    case HL_INVERSE_LEAN_FOR_CAPACITY:
-    case HL_INVERSE_N:
-    default:
-      plan->model.lean_mm = v;
-      break;
-    }
+  hl_answer_apply (window->plan, window->selected_option, q, &self->answers[q]);
   hl_undo_break (window->undo);
   hl_window_panel_sync (window);
   hl_window_plan_edited (window);
@@ -911,13 +818,13 @@ hl_analysis_print_handles (HlWindow *window)
   for (int q = 0; q < HL_QUESTION_N; q++)
     {
       const HlInverseAnswer *a = &self->answers[q];
-      g_autofree char *name = g_strdup_printf ("apply-%s", questions[q].key);
+      g_autofree char *name = g_strdup_printf ("apply-%s", hl_question_key ((HlQuestion) q));
       const char *status = !self->asked[q] ? "none"
                            : a->status == HL_OK ? "ok"
                            : a->status == HL_ERR_NOT_REACHABLE ? "not-reachable" : "not-converged";
 
       print_widget (window, name, self->rows[q].apply);
-      printf ("ANSWER %s %s %.9g %d\n", questions[q].key, status,
+      printf ("ANSWER %s %s %.9g %d\n", hl_question_key ((HlQuestion) q), status,
               self->asked[q] && a->status == HL_OK ? a->value : NAN,
               gtk_widget_get_sensitive (self->rows[q].apply));
     }

@@ -34,28 +34,13 @@
 #pragma once
 
 #include <gtk/gtk.h>
-#include "hl-inverse.h"
+#include "hl-answer.h"
 #include "hl-window.h"
 
 G_BEGIN_DECLS
 
 #define HL_TYPE_ANALYSIS_PANEL (hl_analysis_panel_get_type ())
 G_DECLARE_FINAL_TYPE (HlAnalysisPanel, hl_analysis_panel, HL, ANALYSIS_PANEL, GtkBox)
-
-/* The questions of the page, in its order. */
-typedef enum {
-  HL_QUESTION_OFFSET_FOR_ARM = 0,
-  HL_QUESTION_OFFSET_FOR_GLOBAL,
-  HL_QUESTION_CANE_FOR_JRF,
-  HL_QUESTION_LOAD_CONTRA,
-  HL_QUESTION_LOAD_IPSI,
-  HL_QUESTION_LOAD_MIDLINE,
-  HL_QUESTION_LEAN_FOR_CAPACITY,
-  HL_QUESTION_N
-} HlQuestion;
-
-/* Stable names ("offset-for-arm", "load-contralateral" ...) for tests. */
-const char *hl_question_key (HlQuestion question);
 
 /* Builds the page, adds it to the side panel as "analysis" and connects
  * the charts view; called once from the window's init. */
