@@ -75,6 +75,7 @@ struct _HlAnalysisPanel {
   gboolean asked[HL_QUESTION_N];
   guint ranges_idle;
   guint syncing;
+  gboolean stale;      /* edited while hidden: answers follow when shown */
 };
 
 G_DEFINE_FINAL_TYPE (HlAnalysisPanel, hl_analysis_panel, GTK_TYPE_BOX)
@@ -533,10 +534,27 @@ hl_analysis_plan_edited (HlWindow *window)
       g_clear_handle_id (&self->ranges_idle, g_source_remove);
       run_ranges (self);
     }
-  compute_answers (self);
-  show_capacity (self);
   if (window->charts_view != NULL)
     hl_charts_view_plan_changed (HL_CHARTS_VIEW (window->charts_view));
+  /* The answers and capacity wait until the page is shown: relaying out
+   * their labels on every frame of a drag cost more than the drawing. */
+  self->stale = !gtk_widget_get_mapped (GTK_WIDGET (self));
+  if (self->stale)
+    return;
+  compute_answers (self);
+  show_capacity (self);
+}
+
+static void
+panel_map_cb (GtkWidget *widget, gpointer user_data)
+{
+  HlAnalysisPanel *self = HL_ANALYSIS_PANEL (widget);
+
+  if (!self->stale)
+    return;
+  self->stale = FALSE;
+  compute_answers (self);
+  show_capacity (self);
 }
 
 double
@@ -552,8 +570,12 @@ hl_analysis_get_target_bw (HlWindow *window)
 static void
 selected_option_cb (GObject *canvas, GParamSpec *pspec, HlAnalysisPanel *self)
 {
-  if (!self->window->disposing)
+  if (self->window->disposing)
+    return;
+  if (gtk_widget_get_mapped (GTK_WIDGET (self)))
     compute_answers (self);
+  else
+    self->stale = TRUE;
 }
 
 /* The handle printer prints after frames in which something moved. */
@@ -720,6 +742,7 @@ hl_analysis_attach (HlWindow *window)
   g_object_set_data (G_OBJECT (window), PAGE_KEY, self);
   g_signal_connect_object (window->canvas, "notify::selected-option",
                            G_CALLBACK (selected_option_cb), self, 0);
+  g_signal_connect (self, "map", G_CALLBACK (panel_map_cb), NULL);
   g_action_map_add_action_entries (G_ACTION_MAP (window), lower_actions,
                                    G_N_ELEMENTS (lower_actions), window);
   if (window->charts_view != NULL)

@@ -80,6 +80,7 @@ struct _HlRadiographPage {
 
   /* state */
   guint syncing;
+  gboolean stale;      /* edited while hidden: update when shown */
   gboolean calibrating;
   int n_cal_points;
   HlVec2 cal_points[3];      /* image mm */
@@ -651,6 +652,15 @@ hl_radiograph_page_plan_edited (HlWindow *window)
     hl_underlay_set_adjust (self->underlay, rg->brightness, rg->contrast, rg->invert);
   hl_canvas_set_schematic_visible (window->canvas, !rg->present || rg->schematic_visible);
 
+  /* The page's own controls and measures wait until it is shown: updating
+   * them on every frame of a drag cost more than drawing the frame. */
+  self->stale = !gtk_widget_get_mapped (GTK_WIDGET (self));
+  if (self->stale)
+    {
+      self->syncing--;
+      return;
+    }
+
   g_autofree char *base = rg->present ? g_path_get_basename (rg->path) : NULL;
   g_autofree char *file_text = rg->present
     ? g_strdup_printf (_("Image: %s"), base)
@@ -1133,6 +1143,15 @@ build (HlRadiographPage *self)
   return scroll;
 }
 
+static void
+page_map_cb (GtkWidget *widget, gpointer user_data)
+{
+  HlRadiographPage *self = HL_RADIOGRAPH_PAGE (widget);
+
+  if (self->stale)
+    hl_radiograph_page_plan_edited (self->window);
+}
+
 void
 hl_radiograph_page_attach (HlWindow *window)
 {
@@ -1142,6 +1161,7 @@ hl_radiograph_page_attach (HlWindow *window)
   gtk_stack_add_titled (window->panel_stack, scroll, PAGE_NAME, _("Radiograph"));
   g_object_set_data (G_OBJECT (window), PAGE_KEY, self);
   g_signal_connect_object (window->canvas, "plan-clicked", G_CALLBACK (plan_clicked_cb), self, 0);
+  g_signal_connect (self, "map", G_CALLBACK (page_map_cb), NULL);
   if (g_getenv ("HIPLEVER_TEST_UNDERLAY") != NULL)
     g_idle_add_full (G_PRIORITY_DEFAULT_IDLE, test_import_cb, g_object_ref (self), g_object_unref);
   if (g_strcmp0 (g_getenv ("HIPLEVER_BENCHMARK_UNDERLAY"), "1") == 0)
