@@ -290,10 +290,9 @@ hl_charts_view_snapshot (GtkWidget *widget, GtkSnapshot *snapshot)
   cairo_t *cr;
 
   gtk_widget_snapshot_child (widget, self->bar, snapshot);
+  /* Computed on map and on plan changes while mapped: never here. */
   if (width <= 0 || h <= 0)
     return;
-  if (self->stale)
-    hl_charts_view_compute (self);
 
   chart_style (self, &style);
   cr = gtk_snapshot_append_cairo (snapshot, &GRAPHENE_RECT_INIT (0, (float) top, (float) width,
