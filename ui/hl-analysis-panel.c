@@ -345,6 +345,8 @@ compute_answers (HlAnalysisPanel *self)
 
 /* ---- applying ------------------------------------------------------- */
 
+static void show_capacity (HlAnalysisPanel *self);
+
 gboolean
 hl_analysis_apply (HlWindow *window, HlQuestion q)
 {
@@ -353,6 +355,13 @@ hl_analysis_apply (HlWindow *window, HlQuestion q)
   const char *why;
 
   g_return_val_if_fail (self != NULL && q < HL_QUESTION_N, FALSE);
+  /* A hidden page's answers may be of an earlier plan. */
+  if (self->stale)
+    {
+      self->stale = FALSE;
+      compute_answers (self);
+      show_capacity (self);
+    }
   words = apply_words (self, q, &why);
   if (words == NULL)
     return FALSE;
