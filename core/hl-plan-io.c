@@ -1109,7 +1109,11 @@ write_file_atomic (const char *path, const void *data, size_t size, bool keep_ba
   if (fd < 0)
     {
       int e = errno;
-      if (e == ENOENT || e == ENOTDIR)
+      struct stat dir_st;
+      /* Some file systems (/proc) answer ENOENT for a folder that exists
+       * but takes no new files. */
+      bool dir_exists = stat (dir, &dir_st) == 0 && S_ISDIR (dir_st.st_mode);
+      if ((e == ENOENT || e == ENOTDIR) && !dir_exists)
         st = hl_error_set (err, HL_ERR_IO, path,
                            _("Cannot save \"%s\": the folder \"%s\" does not exist"),
                            path, dir);
