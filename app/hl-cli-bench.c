@@ -56,6 +56,8 @@
 #define HL_BENCH_RECON_MAX_MM    10.0
 #define HL_BENCH_HEAD_MIN_MM    (-4.0)
 #define HL_BENCH_HEAD_MAX_MM      8.0
+/* Passes of the what-if loop; the best is reported. */
+#define HL_BENCH_WHATIF_PASSES 5
 #define HL_BENCH_NECK_MIN_DEG   125.0
 #define HL_BENCH_NECK_MAX_DEG   140.0
 #define HL_BENCH_CANE_MAX_BW      0.20   /* rarely more: Brand & Crowninshield 1980 */
@@ -266,31 +268,39 @@ bench_whatif (const HlPlan *demo, long count)
     }
   fill_whatifs (table, HL_BENCH_TABLE_SIZE, base.body_weight_n);
 
-  model = base;
-  double t0 = now_ns ();
-  for (long i = 0; i < count; i++)
+  /* Best of a few passes: the shortest is the one least disturbed by
+   * other work on the machine. */
+  double ms = INFINITY;
+  for (int pass = 0; pass < HL_BENCH_WHATIF_PASSES; pass++)
     {
-      const HlBenchWhatIf *w = &table[(size_t) i & (HL_BENCH_TABLE_SIZE - 1)];
+      model = base;
+      double t0 = now_ns ();
+      for (long i = 0; i < count; i++)
+        {
+          const HlBenchWhatIf *w = &table[(size_t) i & (HL_BENCH_TABLE_SIZE - 1)];
 
-      model.cane_n = w->cane_n;
-      model.load_n[0] = w->load_n[0];
-      model.load_n[1] = w->load_n[1];
-      model.load_midline_n = w->load_midline_n;
-      if (hl_model_solve (&model, &w->recon, &res, NULL) != HL_OK)
-        failed++;
-      sink += res.jrf_n;
+          model.cane_n = w->cane_n;
+          model.load_n[0] = w->load_n[0];
+          model.load_n[1] = w->load_n[1];
+          model.load_midline_n = w->load_midline_n;
+          if (hl_model_solve (&model, &w->recon, &res, NULL) != HL_OK)
+            failed++;
+          sink += res.jrf_n;
+        }
+      double pass_ms = (now_ns () - t0) / NS_PER_MS;
+      if (pass_ms < ms)
+        ms = pass_ms;
     }
-  double ms = (now_ns () - t0) / NS_PER_MS;
 
   hl_cli_fprintf (stdout,
                   _("2) what-if solves: %.2f ms for %ld random what-ifs on one core, "
-                    "cane and loads set on the prepared model (target <= %.0f ms "
+                    "cane and loads set on the prepared model, best of %d (target <= %.0f ms "
                     "for %ld)\n"),
-                  ms, count, HL_BENCH_WHATIF_TARGET_MS, HL_BENCH_WHATIFS);
+                  ms, count, HL_BENCH_WHATIF_PASSES, HL_BENCH_WHATIF_TARGET_MS, HL_BENCH_WHATIFS);
 
   long slow_count = count / HL_BENCH_REPREPARE_DIVISOR;
   plan->cane.unit = HL_FORCE_UNIT_N;
-  t0 = now_ns ();
+  double t0 = now_ns ();
   for (long i = 0; i < slow_count; i++)
     {
       const HlBenchWhatIf *w = &table[(size_t) i & (HL_BENCH_TABLE_SIZE - 1)];

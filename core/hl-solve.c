@@ -387,7 +387,9 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
   /* F_a = -M / r_a; F_a u = k (ux, uy) with k = -M / cross, where (ux, uy)
    * is the unnormalised line in the origin-insertion case. */
   unsigned flags = 0;
-  double k = -moment / cross;
+  const double inv_cross = 1.0 / cross;
+  const double arm_scale = m->angle_mode ? 1.0 : len;   /* cross = r_a arm_scale */
+  double k = -moment * inv_cross;
   res->unbalanced_nmm = 0.0;
   if (k < 0.0)
     {
@@ -395,14 +397,14 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
       k = 0.0;
       flags |= HL_FLAG_ABDUCTORS_NOT_NEEDED;
     }
-  const double fa = m->angle_mode ? k : k * len;
+  const double fa = k * arm_scale;
 
   const double jx = -k * ux;
   const double jy = -(k * uy + fy_ext);
 
   res->abductor_arm_mm = -ra;
   res->bw_arm_mm = fabs (xs);
-  res->lever_ratio = res->bw_arm_mm / res->abductor_arm_mm;
+  res->lever_ratio = -res->bw_arm_mm * arm_scale * inv_cross;
   res->abductor_force_n = fa;
   res->abductor_force_bw = fa * m->inv_body_weight;
   res->jrf_x_n = jx;
