@@ -451,6 +451,25 @@ check_target (HlInverseKind kind, double target_bw, HlError *err)
   return HL_OK;
 }
 
+/* The search range has collapsed to its lower end (beyond it the abductors
+ * are no longer needed): the answer is that end where it meets the goal. */
+static HlStatus
+answer_at_lower (Goal *g, double lower, HlInverseAnswer *a, HlError *err)
+{
+  double f;
+  HlStatus st;
+
+  a->lower = a->upper = lower;
+  if ((st = goal_function (lower, g, &f, err)))
+    return st;
+  a->achieved = f + g->goal;
+  if (f > 0.0)
+    return not_reachable (g, a, err);
+  a->value = lower;
+  a->at_limit = true;
+  return HL_OK;
+}
+
 HlStatus
 hl_inverse_cane_for_jrf (const HlModel *model, const HlRecon *option,
                          double target_bw, double distance_mm,
@@ -479,20 +498,8 @@ hl_inverse_cane_for_jrf (const HlModel *model, const HlRecon *option,
   double upper = s.upper;
   if ((st = limit_to_need (&g, &s, s.lower, &upper, &a->range_limited, err)))
     return finish (a, st);
-  if (upper <= s.lower)
-    {
-      /* The abductors are not needed even without a cane. */
-      double f;
-      a->lower = a->upper = s.lower;
-      if ((st = goal_function (s.lower, &g, &f, err)))
-        return finish (a, st);
-      a->achieved = f + g.goal;
-      if (f > 0.0)
-        return finish (a, not_reachable (&g, a, err));
-      a->value = s.lower;
-      a->at_limit = true;
-      return finish (a, HL_OK);
-    }
+  if (upper <= s.lower)   /* the abductors are not needed even without a cane */
+    return finish (a, answer_at_lower (&g, s.lower, a, err));
   return finish (a, seek (&g, SEEK_FIRST_MET, &s, s.lower, upper, a, err));
 }
 
@@ -523,18 +530,7 @@ hl_inverse_load_for_jrf (const HlModel *model, const HlRecon *option,
   if ((st = limit_to_need (&g, &s, s.lower, &upper, &a->range_limited, err)))
     return finish (a, st);
   if (upper <= s.lower)
-    {
-      double f;
-      a->lower = a->upper = s.lower;
-      if ((st = goal_function (s.lower, &g, &f, err)))
-        return finish (a, st);
-      a->achieved = f + g.goal;
-      if (f > 0.0)
-        return finish (a, not_reachable (&g, a, err));
-      a->value = s.lower;
-      a->at_limit = true;
-      return finish (a, HL_OK);
-    }
+    return finish (a, answer_at_lower (&g, s.lower, a, err));
   return finish (a, seek (&g, SEEK_KEEPS_MET, &s, s.lower, upper, a, err));
 }
 
