@@ -386,22 +386,6 @@ csv_rows (HlBuf *buf, const char *plan_name, const HlPlan *plan,
 
 /* ---- Loading and solving ----------------------------------------------- */
 
-static HlPlan *
-load_plan (const char *path)
-{
-  HlPlan *plan = NULL;
-  HlError err;
-
-  hl_error_clear (&err);
-  if (hl_plan_load_file (path, &plan, &err) != HL_OK)
-    {
-      hl_cli_report_error (path, NULL, &err);
-      return NULL;
-    }
-  hl_cli_check_radiograph (path, plan);
-  return plan;
-}
-
 /* Native and every option; the caller frees the array.  NULL on failure,
  * with the message printed (naming the option at fault). */
 static HlResult *
@@ -619,7 +603,7 @@ cmd_solve (const HlCliCommand *cmd, const HlCliArgs *args)
     return hl_cli_usage_error (_("%s: unknown format '%s' (use text, csv or xml)"),
                                cmd->name, format_name);
 
-  HlPlan *plan = load_plan (path);
+  HlPlan *plan = hl_cli_load_plan (path);
   if (plan == NULL)
     return HL_CLI_EXIT_INVALID;
 
@@ -692,7 +676,7 @@ cmd_summary (const HlCliCommand *cmd, const HlCliArgs *args)
     return hl_cli_usage_error (_("%s: missing -o OUT.xml (where to write the "
                                  "summary)"), cmd->name);
 
-  HlPlan *plan = load_plan (path);
+  HlPlan *plan = hl_cli_load_plan (path);
   if (plan == NULL)
     return HL_CLI_EXIT_INVALID;
 
@@ -719,7 +703,7 @@ cmd_validate (const HlCliCommand *cmd, const HlCliArgs *args)
   for (int i = 0; i < args->n_operands; i++)
     {
       const char *path = args->operands[i];
-      HlPlan *plan = load_plan (path);
+      HlPlan *plan = hl_cli_load_plan (path);
       HlResult *results = plan != NULL ? solve_plan (path, plan) : NULL;
 
       if (results != NULL)
@@ -760,7 +744,7 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
 
       if (progress_shown)
         hl_cli_fprintf (stderr, "\r");
-      HlPlan *plan = load_plan (path);
+      HlPlan *plan = hl_cli_load_plan (path);
       HlResult *results = plan != NULL ? solve_plan (path, plan) : NULL;
 
       if (results != NULL)

@@ -142,21 +142,6 @@ parse_u64 (const char *text, uint64_t *out)
   return true;
 }
 
-static HlPlan *
-load_plan (const char *path)
-{
-  HlPlan *plan = NULL;
-  HlError err;
-
-  hl_error_clear (&err);
-  if (hl_plan_load_file (path, &plan, &err) != HL_OK)
-    {
-      hl_cli_report_error (path, NULL, &err);
-      return NULL;
-    }
-  return plan;
-}
-
 static bool
 prepare (const char *path, const HlPlan *plan, HlModel *model)
 {
@@ -275,7 +260,7 @@ hl_cli_inverse (const HlCliCommand *cmd, const HlCliArgs *args)
       return HL_CLI_EXIT_INVALID;
     }
 
-  HlPlan *plan = load_plan (path);
+  HlPlan *plan = hl_cli_load_plan (path);
   HlModel model;
   if (plan == NULL || !prepare (path, plan, &model))
     {
@@ -389,7 +374,7 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
     }
   spec.n_steps = (size_t) steps;
 
-  HlPlan *plan = load_plan (path);
+  HlPlan *plan = hl_cli_load_plan (path);
   HlModel model;
   if (plan == NULL || !prepare (path, plan, &model))
     {
@@ -496,7 +481,7 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
       return HL_CLI_EXIT_INVALID;
     }
 
-  HlPlan *plan = load_plan (path);
+  HlPlan *plan = hl_cli_load_plan (path);
   HlModel model;
   if (plan == NULL || !prepare (path, plan, &model))
     {
@@ -620,7 +605,7 @@ hl_cli_report (const HlCliCommand *cmd, const HlCliArgs *args)
     return hl_cli_usage_error (_("%s: missing -o OUT.pdf (where to write the report)"),
                                cmd->name);
 
-  HlPlan *plan = load_plan (path);
+  HlPlan *plan = hl_cli_load_plan (path);
   if (plan == NULL)
     return HL_CLI_EXIT_INVALID;
 
@@ -686,7 +671,7 @@ hl_cli_figure (const HlCliCommand *cmd, const HlCliArgs *args)
     return hl_cli_usage_error (_("%s: --option '%s' is not a whole number"), cmd->name,
                                option_text);
 
-  HlPlan *plan = load_plan (path);
+  HlPlan *plan = hl_cli_load_plan (path);
   if (plan == NULL)
     return HL_CLI_EXIT_INVALID;
   if (option_text == NULL)

@@ -11,6 +11,8 @@
 
 #include "hl-i18n.h"
 #include "hl-cli.h"
+#include "hl-cli-calibrate.h"
+#include "hl-plan-io.h"
 
 
 /* Created once and never changed, so sharing it is re-entrant. */
@@ -165,4 +167,20 @@ hl_cli_text_width (const char *s)
     if ((*p & 0xC0) != 0x80)
       n++;
   return n;
+}
+
+HlPlan *
+hl_cli_load_plan (const char *path)
+{
+  HlPlan *plan = NULL;
+  HlError err;
+
+  hl_error_clear (&err);
+  if (hl_plan_load_file (path, &plan, &err) != HL_OK)
+    {
+      hl_cli_report_error (path, NULL, &err);
+      return NULL;
+    }
+  hl_cli_check_radiograph (path, plan);
+  return plan;
 }

@@ -10,6 +10,7 @@
 #pragma once
 
 #include "hl-buf.h"
+#include "hl-plan.h"
 
 #include <stdarg.h>
 #include <stdbool.h>
@@ -44,6 +45,9 @@ const char *hl_cli_format_fixed (char *buf, size_t size, int precision,
 /* "hiplever-cli: FILE:LINE: FIELD: MESSAGE" on stderr; the line is left
  * out when the error has none (0), the field when it is empty.  `context`
  * (may be NULL) is put before the field, e.g. an option's name. */
+/* Loads a plan, reporting a failure on stderr (NULL then), and says on
+ * stderr when its radiograph has moved or changed. */
+HlPlan *hl_cli_load_plan (const char *path);
 void hl_cli_report_error (const char *file, const char *context,
                           const HlError *err);
 /* "hiplever-cli: MESSAGE" on stderr. */
