@@ -2304,6 +2304,17 @@ load_document (HlReader *r, const char *data, size_t size, HlPlan **out)
   return HL_OK;
 }
 
+/* Plans are UTF-8: the writer never writes anything else.  A UTF-16 or
+ * UTF-32 file (with a byte-order mark, or a NUL among its first bytes, as
+ * "<" has in those encodings) is refused before any parsing. */
+static bool
+is_wide_encoding (const unsigned char *d, size_t n)
+{
+  if (n >= 2 && ((d[0] == 0xFF && d[1] == 0xFE) || (d[0] == 0xFE && d[1] == 0xFF)))
+    return true;
+  return n >= 2 && (d[0] == 0x00 || d[1] == 0x00);
+}
+
 static HlStatus
 load_buffer_for (const char *data, size_t size, const char *name_for_errors,
                  const char *base_file, HlPlan **out, HlError *err)
@@ -2314,6 +2325,12 @@ load_buffer_for (const char *data, size_t size, const char *name_for_errors,
   r.base_file = base_file;
   r.err = err;
   hl_error_clear (err);
+
+  if (is_wide_encoding ((const unsigned char *) data, size))
+    return hl_error_set (err, HL_ERR_PARSE, name_for_errors ? name_for_errors : "",
+                         _("%s: the file is in a UTF-16 or UTF-32 encoding; plan files "
+                           "are UTF-8: save it again with UTF-8 encoding"),
+                         name_for_errors ? name_for_errors : _("the plan"));
 
   xmlInitParser ();
 
