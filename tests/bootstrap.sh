@@ -11,10 +11,15 @@ mode=${1:-demo}
 here=$(cd "$(dirname "$0")/.." && pwd)
 cd "$here"
 
+# What the build, the program and the tests use.  The GTK runtime's usual
+# companions (icons, SVG loader, a font, the accessibility bus, MIME data)
+# are named because the install leaves out recommended packages.
 packages="gcc pkg-config python3 meson ninja-build libgtk-4-dev libxml2-dev
 libxml2-utils check libgsl-dev gettext xvfb xauth xdotool dbus-x11
 poppler-utils imagemagick locales desktop-file-utils appstream libgtk-4-bin
-valgrind clang libclang-rt-14-dev bsdutils"
+valgrind clang libclang-rt-14-dev bsdutils
+adwaita-icon-theme librsvg2-common fonts-dejavu-core at-spi2-core dbus
+shared-mime-info libglib2.0-bin"
 
 if [ "$(id -u)" -eq 0 ]; then sudo=""; else sudo="sudo"; fi
 
