@@ -1198,17 +1198,25 @@ hl_write_file_atomic_backup (const char *path, const void *data, size_t size,
   return write_file_atomic (path, data, size, true, err);
 }
 
+/* Writes text the caller no longer needs, then frees it; a failure to make
+ * the text (st) is passed on. */
+static HlStatus
+write_owned_text (HlStatus st, const char *path, char *text, size_t size, bool backup,
+                  HlError *err)
+{
+  if (st == HL_OK)
+    st = write_file_atomic (path, text, size, backup, err);
+  free (text);
+  return st;
+}
+
 HlStatus
 hl_plan_save_file_backup (const HlPlan *plan, const char *path, HlError *err)
 {
   char *text = NULL;
   size_t size = 0;
   HlStatus st = plan_to_buffer_for (plan, path, &text, &size, err);
-  if (st != HL_OK)
-    return st;
-  st = hl_write_file_atomic_backup (path, text, size, err);
-  free (text);
-  return st;
+  return write_owned_text (st, path, text, size, true, err);
 }
 
 HlStatus
@@ -1217,11 +1225,7 @@ hl_plan_save_file (const HlPlan *plan, const char *path, HlError *err)
   char *text = NULL;
   size_t size = 0;
   HlStatus st = plan_to_buffer_for (plan, path, &text, &size, err);
-  if (st != HL_OK)
-    return st;
-  st = hl_write_file_atomic (path, text, size, err);
-  free (text);
-  return st;
+  return write_owned_text (st, path, text, size, false, err);
 }
 
 HlStatus
@@ -1230,11 +1234,7 @@ hl_summary_save_file (const HlPlan *plan, const char *path, HlError *err)
   char *text = NULL;
   size_t size = 0;
   HlStatus st = summary_to_buffer_for (plan, NULL, path, &text, &size, err);
-  if (st != HL_OK)
-    return st;
-  st = hl_write_file_atomic (path, text, size, err);
-  free (text);
-  return st;
+  return write_owned_text (st, path, text, size, false, err);
 }
 
 /* ---- Reading ------------------------------------------------------------ */
