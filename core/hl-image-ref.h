@@ -47,6 +47,18 @@ typedef struct {
   bool schematic_visible;          /* draw the schematic bones over it */
 } HlRadiograph;
 
+/* No image, the display defaults in place. */
+void hl_radiograph_init (HlRadiograph *rg);
+
+/* Range checks: a path with no NUL or control bytes, a digest of 64 hex
+ * digits or none, spacing, origin and adjustments in range. */
+HlStatus hl_radiograph_check (const HlRadiograph *rg, HlError *err);
+
+/* HL_OK when v is finite and within [lo, hi]; else HL_ERR_INVALID naming
+ * `field`, with "WHAT is V: it must lie between LO and HI". */
+HlStatus hl_check_range (double v, double lo, double hi, const char *field,
+                         const char *what, HlError *err);
+
 #ifdef __cplusplus
 }
 #endif

@@ -32,13 +32,6 @@
 extern "C" {
 #endif
 
-/* No image, the display defaults in place. */
-void hl_radiograph_init (HlRadiograph *rg);
-
-/* Range checks: a path with no NUL or control bytes, a digest of 64 hex
- * digits or none, spacing, origin and adjustments in range. */
-HlStatus hl_radiograph_check (const HlRadiograph *rg, HlError *err);
-
 /* Pixel <-> image mm <-> plan mm, as in the header comment. */
 HlVec2 hl_image_pixel_to_image_mm (const HlRadiograph *rg, double u, double v);
 HlVec2 hl_image_mm_to_plan (const HlRadiograph *rg, double m, HlVec2 image_mm);

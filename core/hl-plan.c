@@ -11,9 +11,7 @@
 #include <string.h>
 
 #include "hl-i18n.h"
-#include "hl-image.h"
 #include "hl-plan.h"
-#include "hl-uncertainty.h"
 
 static const HlLandmarkInfo landmark_info[HL_LM_COUNT] = {
   { HL_LM_HIP_CENTRE, "hip-centre", N_("Hip centre"),

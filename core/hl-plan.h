@@ -184,9 +184,7 @@ typedef enum {
   HL_CAL_TWO_POINT,     /* two points a known distance apart */
 } HlCalMethod;
 
-/* Mean AP pelvis magnification 119.8% (range 117-123.4%): Brew et al. 2012,
- * J Arthroplasty 27:643-647. */
-#define HL_MAGNIFICATION_ASSUMED 1.20
+/* HL_MAGNIFICATION_ASSUMED (1.20, Brew et al. 2012) is in hl-types.h. */
 /* A 25 mm calibration sphere: common practice. */
 #define HL_MARKER_DIAMETER_DEFAULT 25.0
 
@@ -313,7 +311,7 @@ HlStatus hl_plan_check (const HlPlan *plan, HlError *err);
 #define HL_DISTANCE_MAX_MM 1000.0    /* hand distances, a sanity limit */
 #define HL_LEAN_MIN_MM (-100.0)
 #define HL_LEAN_MAX_MM 200.0
-#define HL_COORD_MAX_MM 2000.0       /* |landmark coordinate| limit */
+/* HL_COORD_MAX_MM (|landmark coordinate| limit) is in hl-types.h. */
 
 /* Standard gravity, m/s^2. */
 #define HL_GRAVITY 9.80665

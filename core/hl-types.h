@@ -60,6 +60,11 @@ typedef enum {
 
 const char *hl_side_name (HlSide side);   /* "right", "left" */
 
+/* Mean AP pelvis magnification 119.8% (range 117-123.4%): Brew et al. 2012,
+ * J Arthroplasty 27:643-647. */
+#define HL_MAGNIFICATION_ASSUMED 1.20
+#define HL_COORD_MAX_MM 2000.0       /* |landmark coordinate| limit */
+
 #ifdef __cplusplus
 }
 #endif
