@@ -58,9 +58,6 @@ HlStatus hl_calibration_magnification (const HlCalibration *cal, double *m,
 HlStatus hl_circle_through (HlVec2 a, HlVec2 b, HlVec2 c, HlVec2 *centre,
                             double *radius, HlError *err);
 
-#define HL_MAGNIFICATION_MIN 0.8
-#define HL_MAGNIFICATION_MAX 1.6
-
 #ifdef __cplusplus
 }
 #endif

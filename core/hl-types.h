@@ -63,6 +63,13 @@ const char *hl_side_name (HlSide side);   /* "right", "left" */
 /* Mean AP pelvis magnification 119.8% (range 117-123.4%): Brew et al. 2012,
  * J Arthroplasty 27:643-647. */
 #define HL_MAGNIFICATION_ASSUMED 1.20
+/* The magnification accepted from any calibration source (typed, marker,
+ * two points, or the image file).  A projection radiograph is always
+ * magnified (M >= 1: the film or detector lies behind the patient); 1.5
+ * lies far beyond the published range of AP pelvis films (117-123.4%,
+ * Brew et al. 2012, above).  The bounds are common practice. */
+#define HL_MAGNIFICATION_MIN 1.0
+#define HL_MAGNIFICATION_MAX 1.5
 #define HL_COORD_MAX_MM 2000.0       /* |landmark coordinate| limit */
 
 #ifdef __cplusplus
