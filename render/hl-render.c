@@ -684,8 +684,8 @@ scene_recon (const HlScene *scene)
   return &scene->plan->options[scene->option_index].recon;
 }
 
-void
-hl_scene_build (HlScene *scene, const HlPlan *plan, int option_index)
+static bool
+scene_init (HlScene *scene, const HlPlan *plan, int option_index)
 {
   memset (scene, 0, sizeof *scene);
   scene->plan = plan;
@@ -694,7 +694,7 @@ hl_scene_build (HlScene *scene, const HlPlan *plan, int option_index)
     {
       hl_error_set (&scene->error, HL_ERR_INVALID, "plan", "%s",
                     _("There is no plan to draw."));
-      return;
+      return false;
     }
   scene->native = plan->landmarks;
   scene->shown = plan->landmarks;
@@ -704,13 +704,46 @@ hl_scene_build (HlScene *scene, const HlPlan *plan, int option_index)
       scene->option_index = option_index;
       hl_recon_landmarks (plan, scene_recon (scene), &scene->shown);
     }
+  return true;
+}
 
+void
+hl_scene_build (HlScene *scene, const HlPlan *plan, int option_index)
+{
+  if (!scene_init (scene, plan, option_index))
+    return;
   if (hl_model_prepare (&scene->model, plan, &scene->error) != HL_OK)
     return;
   scene->prepared = true;
   if (hl_model_solve (&scene->model, scene_recon (scene), &scene->result,
                       &scene->error) != HL_OK)
     return;
+  hl_model_forces (&scene->model, plan, scene_recon (scene), &scene->result,
+                   &scene->forces);
+  scene->solved = true;
+}
+
+void
+hl_scene_build_solved (HlScene *scene, const HlPlan *plan, int option_index,
+                       const HlModel *model, HlStatus status,
+                       const HlResult *result, const HlError *error)
+{
+  if (!scene_init (scene, plan, option_index))
+    return;
+  if (model == NULL || status != HL_OK)
+    {
+      if (error != NULL)
+        scene->error = *error;
+      if (model != NULL)
+        {
+          scene->model = *model;
+          scene->prepared = true;
+        }
+      return;
+    }
+  scene->model = *model;
+  scene->prepared = true;
+  scene->result = *result;
   hl_model_forces (&scene->model, plan, scene_recon (scene), &scene->result,
                    &scene->forces);
   scene->solved = true;

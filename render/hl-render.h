@@ -108,6 +108,14 @@ typedef struct {
  * and the reason in scene->error. */
 void hl_scene_build (HlScene *scene, const HlPlan *plan, int option_index);
 
+/* The same from the model the caller prepared and what hl_model_solve
+ * gave for this option (status, result, error), so a plan solved once is
+ * not solved again for the drawing.  `model` NULL: it could not be
+ * prepared, `error` says why. */
+void hl_scene_build_solved (HlScene *scene, const HlPlan *plan, int option_index,
+                            const HlModel *model, HlStatus status,
+                            const HlResult *result, const HlError *error);
+
 /* The plan-frame box around the placed landmarks and the drawn bones.
  * Returns false (and a default box around the origin) when nothing is
  * placed. */

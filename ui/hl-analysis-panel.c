@@ -63,17 +63,9 @@ struct _HlAnalysisPanel {
   GtkWidget *capacity_grid;
   size_t capacity_rows;
 
-  /* owned */
-  HlMcWorkspace *ws;
-  size_t ws_samples;
-  size_t ws_options;
-  HlMcSummary *summary;
-  size_t summary_len;
-
   /* state */
   HlInverseAnswer answers[HL_QUESTION_N];
   gboolean asked[HL_QUESTION_N];
-  guint ranges_idle;
   guint syncing;
   gboolean stale;      /* edited while hidden: answers follow when shown */
 };
@@ -89,93 +81,15 @@ panel_of (HlWindow *window)
 static const HlRecon *
 selected_recon (HlWindow *window)
 {
-  if (window->selected_option < 0 || (size_t) window->selected_option >= window->plan->n_options)
+  if (hl_window_selected_option (window) < 0 || (size_t) hl_window_selected_option (window) >= window->plan->n_options)
     return NULL;
-  return &window->plan->options[window->selected_option].recon;
+  return &window->plan->options[hl_window_selected_option (window)].recon;
 }
 
 static char *
 format_error (const HlError *err)
 {
   return hl_window_format_error (err);
-}
-
-/* ---- the 5-95% ranges of the results table ------------------------- */
-
-static gboolean
-ensure_workspace (HlAnalysisPanel *self, size_t samples, size_t options)
-{
-  options = MAX (options, 1);
-  if (self->ws != NULL && samples <= self->ws_samples && options <= self->ws_options)
-    return TRUE;
-  g_clear_pointer (&self->ws, hl_mc_workspace_free);
-  self->ws = hl_mc_workspace_new (samples, options);
-  self->ws_samples = self->ws != NULL ? samples : 0;
-  self->ws_options = self->ws != NULL ? options : 0;
-  return self->ws != NULL;
-}
-
-static void
-run_ranges (HlAnalysisPanel *self)
-{
-  HlWindow *window = self->window;
-  const HlPlan *plan = window->plan;
-  size_t n = 1 + plan->n_options;
-  g_autofree char *note = NULL;
-  HlMcSettings mc;
-  HlMcInfo info;
-  HlModel model;
-  HlError err;
-  bool m_assumed = false;
-
-  hl_error_clear (&err);
-  hl_mc_settings_for_plan (plan, &mc, &m_assumed);
-  if (window->solved[0].status != HL_OK
-      || hl_model_prepare (&model, plan, &err) != HL_OK)
-    {
-      /* The table already says why the plan cannot be solved. */
-      hl_results_set_ranges (window->results, NULL, 0, NULL);
-      return;
-    }
-  if (n > self->summary_len)
-    {
-      self->summary = g_renew (HlMcSummary, self->summary, n);
-      self->summary_len = n;
-    }
-  if (!ensure_workspace (self, mc.n_samples, plan->n_options))
-    hl_error_set (&err, HL_ERR_NOMEM, "uncertainty", "%s",
-                  _("there is not enough memory for the Monte Carlo samples"));
-  else
-    hl_mc_run (self->ws, &model, plan->options, plan->n_options, &mc, self->summary,
-               &info, &err);
-  if (err.status != HL_OK)
-    {
-      g_autofree char *msg = format_error (&err);
-
-      note = g_strdup_printf (_("No 5–95%% ranges: %s"), msg);
-      hl_results_set_ranges (window->results, NULL, 0, note);
-      return;
-    }
-  note = g_strdup_printf (_("5–95%% ranges from %zu Monte Carlo samples (seed %" PRIu64 "): "
-                            "landmark placement error SD %.1f mm, magnification SD %.3f "
-                            "about %.3f%s, abductor line angle SD %.1f°.%s"),
-                          info.n_used, info.seed, mc.landmark_sd_mm, mc.magnification_sd,
-                          mc.magnification,
-                          m_assumed ? _(" (assumed: no usable calibration)") : "",
-                          mc.line_angle_sd_deg,
-                          info.n_dropped > 0 ? _(" Samples that could not be solved were left out.") : "");
-  hl_results_set_ranges (window->results, self->summary, n, note);
-}
-
-static gboolean
-ranges_idle_cb (gpointer user_data)
-{
-  HlAnalysisPanel *self = user_data;
-
-  self->ranges_idle = 0;
-  if (!self->window->disposing)
-    run_ranges (self);
-  return G_SOURCE_REMOVE;
 }
 
 /* ---- the inverse answers -------------------------------------------- */
@@ -209,7 +123,7 @@ apply_words (HlAnalysisPanel *self, HlQuestion q, const char **why)
   *why = NULL;
   if (!self->asked[q])
     return NULL;
-  switch (hl_answer_apply_state (plan, window->selected_option, q, a))
+  switch (hl_answer_apply_state (plan, hl_window_selected_option (window), q, a))
     {
     case HL_APPLY_CHANGES:
       break;
@@ -229,7 +143,7 @@ apply_words (HlAnalysisPanel *self, HlQuestion q, const char **why)
     case HL_INVERSE_OFFSET_FOR_ARM:
     case HL_INVERSE_OFFSET_FOR_GLOBAL:
       return g_strdup_printf (_("Apply sets the femoral offset change of “%s” to %+.1f mm."),
-                              plan->options[window->selected_option].name, v);
+                              plan->options[hl_window_selected_option (window)].name, v);
     case HL_INVERSE_CANE_FOR_JRF:
       {
         double in_unit = hl_force_from_newtons (v, plan->cane.unit, plan->mass_kg);
@@ -300,19 +214,20 @@ compute_answers (HlAnalysisPanel *self)
   const HlRecon *recon = selected_recon (window);
   double target = gtk_spin_button_get_value (GTK_SPIN_BUTTON (self->target_spin));
   g_autofree char *who = NULL;
-  HlModel model;
+  const HlModel *model;
   HlError err;
 
   if (recon != NULL)
     who = g_strdup_printf (_("For the selected option, “%s”. Select another in the Options page or on the schematic."),
-                           plan->options[window->selected_option].name);
+                           plan->options[hl_window_selected_option (window)].name);
   else
     who = g_strdup (_("For the native hip (no option selected). Select an option for its femoral offset answers."));
   gtk_label_set_text (GTK_LABEL (self->for_label), who);
 
   hl_error_clear (&err);
   memset (self->asked, 0, sizeof self->asked);
-  if (hl_model_prepare (&model, plan, &err) == HL_OK)
+  model = hl_document_get_model (window->document, &err);
+  if (model != NULL)
     {
       for (int q = 0; q < HL_QUESTION_N && err.status == HL_OK; q++)
         {
@@ -321,7 +236,7 @@ compute_answers (HlAnalysisPanel *self)
 
           if (hl_question_needs_option ((HlQuestion) q) && recon == NULL)
             continue;
-          st = hl_question_ask ((HlQuestion) q, &model, plan, recon, target, a, &err);
+          st = hl_question_ask ((HlQuestion) q, model, plan, recon, target, a, &err);
           /* Not reachable and not converged are answers; anything else
            * is a failure of the model. */
           if (st == HL_OK || st == HL_ERR_NOT_REACHABLE || st == HL_ERR_NOT_CONVERGED)
@@ -365,11 +280,11 @@ hl_analysis_apply (HlWindow *window, HlQuestion q)
   words = apply_words (self, q, &why);
   if (words == NULL)
     return FALSE;
-  hl_undo_break (window->undo);
+  hl_document_break_coalescing (window->document);
   if (!hl_window_begin_edit (window, NULL))
     return FALSE;
-  hl_answer_apply (window->plan, window->selected_option, q, &self->answers[q]);
-  hl_undo_break (window->undo);
+  hl_answer_apply (window->plan, hl_window_selected_option (window), q, &self->answers[q]);
+  hl_document_break_coalescing (window->document);
   hl_window_panel_sync (window);
   hl_window_plan_edited (window);
   {
@@ -431,8 +346,8 @@ show_capacity (HlAnalysisPanel *self)
   guint preset = capacity_preset_of (plan);
   GtkGrid *grid = GTK_GRID (self->capacity_grid);
   GtkWidget *child;
-  HlModel model;
-  HlError err;
+  const HlSolved *solved = hl_document_get_solved (window->document, NULL);
+  const HlModel *model;
 
   self->syncing++;
   gtk_drop_down_set_selected (GTK_DROP_DOWN (self->capacity_drop), preset);
@@ -448,13 +363,13 @@ show_capacity (HlAnalysisPanel *self)
       gtk_label_set_text (GTK_LABEL (self->capacity_source), text);
     }
 
-  hl_error_clear (&err);
-  if (hl_model_prepare (&model, plan, &err) == HL_OK)
+  model = hl_document_get_model (window->document, NULL);
+  if (model != NULL)
     {
       g_autofree char *text = g_strdup_printf (_("%.2f N m/kg × %.1f kg over the native abductor moment arm of %.1f mm: a capacity of %.0f N (%.2f × body weight)."),
                                                plan->capacity.torque_nm_per_kg, plan->mass_kg,
-                                               model.native_abductor_arm_mm, model.capacity_force_n,
-                                               model.capacity_force_n * model.inv_body_weight);
+                                               model->native_abductor_arm_mm, model->capacity_force_n,
+                                               model->capacity_force_n * model->inv_body_weight);
 
       gtk_label_set_text (GTK_LABEL (self->capacity_force_label), text);
     }
@@ -466,7 +381,7 @@ show_capacity (HlAnalysisPanel *self)
   gtk_grid_attach (grid, grid_label (_("Demand over capacity"), TRUE, 0.0f), 0, 0, 3, 1);
   for (size_t c = 0; c < n; c++)
     {
-      const HlSolved *s = &window->solved[c];
+      const HlSolved *s = &solved[c];
       const char *name = c == 0 ? _("Native") : plan->options[c - 1].name;
       g_autofree char *value = NULL;
       const char *words;
@@ -514,11 +429,11 @@ capacity_preset_cb (GtkDropDown *drop, GParamSpec *pspec, HlAnalysisPanel *self)
   torque = hl_capacity_preset_info ((HlCapacityPreset) preset)->torque_nm_per_kg;
   if (torque == window->plan->capacity.torque_nm_per_kg)
     return;
-  hl_undo_break (window->undo);
+  hl_document_break_coalescing (window->document);
   if (!hl_window_begin_edit (window, NULL))
     return;
   window->plan->capacity.torque_nm_per_kg = torque;
-  hl_undo_break (window->undo);
+  hl_document_break_coalescing (window->document);
   hl_window_panel_sync (window);
   hl_window_plan_edited (window);
 }
@@ -532,19 +447,6 @@ hl_analysis_plan_edited (HlWindow *window)
 
   if (self == NULL || window->disposing)
     return;
-  /* While dragging, the ranges follow once the frame is drawn. */
-  if (window->dragging)
-    {
-      if (self->ranges_idle == 0)
-        self->ranges_idle = g_idle_add (ranges_idle_cb, self);
-    }
-  else
-    {
-      g_clear_handle_id (&self->ranges_idle, g_source_remove);
-      run_ranges (self);
-    }
-  if (window->charts_view != NULL)
-    hl_charts_view_plan_changed (HL_CHARTS_VIEW (window->charts_view));
   /* The answers and capacity wait until the page is shown: relaying out
    * their labels on every frame of a drag cost more than the drawing. */
   self->stale = !gtk_widget_get_mapped (GTK_WIDGET (self));
@@ -590,6 +492,12 @@ selected_option_cb (GObject *canvas, GParamSpec *pspec, HlAnalysisPanel *self)
 /* The handle printer prints after frames in which something moved. */
 static void
 moved_cb (GObject *object, GParamSpec *pspec, HlWindow *window)
+{
+  window->handles_dirty = TRUE;
+}
+
+static void
+computed_cb (GObject *charts_view, HlWindow *window)
 {
   window->handles_dirty = TRUE;
 }
@@ -756,7 +664,9 @@ hl_analysis_attach (HlWindow *window)
                                    G_N_ELEMENTS (lower_actions), window);
   if (window->charts_view != NULL)
     {
-      hl_charts_view_set_plan (HL_CHARTS_VIEW (window->charts_view), window->plan);
+      hl_charts_view_set_document (HL_CHARTS_VIEW (window->charts_view), window->document);
+      g_signal_connect_object (window->charts_view, "computed", G_CALLBACK (computed_cb),
+                               window, 0);
       g_signal_connect_object (window->charts_view, "notify::kind", G_CALLBACK (moved_cb),
                                window, 0);
       g_signal_connect_object (window->charts_view, "notify::show-bands", G_CALLBACK (moved_cb),
@@ -865,31 +775,8 @@ hl_analysis_print_handles (HlWindow *window)
 /* ---- GObject -------------------------------------------------------- */
 
 static void
-hl_analysis_panel_dispose (GObject *object)
-{
-  HlAnalysisPanel *self = HL_ANALYSIS_PANEL (object);
-
-  g_clear_handle_id (&self->ranges_idle, g_source_remove);
-  G_OBJECT_CLASS (hl_analysis_panel_parent_class)->dispose (object);
-}
-
-static void
-hl_analysis_panel_finalize (GObject *object)
-{
-  HlAnalysisPanel *self = HL_ANALYSIS_PANEL (object);
-
-  g_clear_pointer (&self->ws, hl_mc_workspace_free);
-  g_clear_pointer (&self->summary, g_free);
-  G_OBJECT_CLASS (hl_analysis_panel_parent_class)->finalize (object);
-}
-
-static void
 hl_analysis_panel_class_init (HlAnalysisPanelClass *klass)
 {
-  GObjectClass *object_class = G_OBJECT_CLASS (klass);
-
-  object_class->dispose = hl_analysis_panel_dispose;
-  object_class->finalize = hl_analysis_panel_finalize;
 }
 
 static void

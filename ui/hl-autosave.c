@@ -86,9 +86,9 @@ write_info (HlWindow *self, const char *id, GError **error)
   g_key_file_set_int64 (kf, HL_AUTOSAVE_GROUP, "pid", getpid ());
   if (boot != NULL)
     g_key_file_set_string (kf, HL_AUTOSAVE_GROUP, "boot-id", boot);
-  if (self->file != NULL)
+  if (hl_document_get_file (self->document) != NULL)
     {
-      g_autofree char *original = g_file_get_path (self->file);
+      g_autofree char *original = g_file_get_path (hl_document_get_file (self->document));
 
       if (original != NULL)
         g_key_file_set_string (kf, HL_AUTOSAVE_GROUP, "original", original);
@@ -113,7 +113,7 @@ forget (HlWindow *self, HlAutosave *a)
   a->has_file = FALSE;
   a->recovered = FALSE;
   a->confirmed = FALSE;
-  a->autosaved_revision = self->revision;
+  a->autosaved_revision = hl_document_get_revision (self->document);
 }
 
 /* ---- the timer ------------------------------------------------------ */
@@ -137,7 +137,7 @@ autosave_tick_cb (gpointer user_data)
         forget (self, a);
       return G_SOURCE_CONTINUE;
     }
-  if (a->has_file && a->autosaved_revision == self->revision)
+  if (a->has_file && a->autosaved_revision == hl_document_get_revision (self->document))
     return G_SOURCE_CONTINUE;
 
   dir = autosave_dir ();
@@ -160,7 +160,7 @@ autosave_tick_cb (gpointer user_data)
       return G_SOURCE_CONTINUE;
     }
   a->has_file = TRUE;
-  a->autosaved_revision = self->revision;
+  a->autosaved_revision = hl_document_get_revision (self->document);
   return G_SOURCE_CONTINUE;
 }
 
@@ -199,7 +199,7 @@ hl_autosave_attach (HlWindow *self)
 
   a->id = g_strdup_printf ("%d-%u-%" G_GINT64_FORMAT, (int) getpid (), ++windows,
                            g_get_real_time ());
-  a->autosaved_revision = self->revision;
+  a->autosaved_revision = hl_document_get_revision (self->document);
   a->timer = g_timeout_add_seconds (interval_seconds (), autosave_tick_cb, self);
   g_object_set_data_full (G_OBJECT (self), HL_AUTOSAVE_KEY, a, autosave_free);
 }
@@ -286,9 +286,9 @@ hl_autosave_confirm_save (HlWindow *self)
   g_autofree char *secondary = NULL;
   GtkWidget *dialog;
 
-  if (a == NULL || !a->recovered || a->confirmed || self->file == NULL)
+  if (a == NULL || !a->recovered || a->confirmed || hl_document_get_file (self->document) == NULL)
     return FALSE;
-  name = g_file_get_parse_name (self->file);
+  name = g_file_get_parse_name (hl_document_get_file (self->document));
   secondary = g_strdup_printf (_("The file holds the version saved before the program ended; "
                                  "the recovered plan has the later changes. The file's "
                                  "present version is kept as “%s%s”."),
@@ -451,10 +451,9 @@ recover (HlWindow *self, HlOrphan *o)
   a->has_file = TRUE;
   a->recovered = TRUE;
   a->confirmed = FALSE;
-  a->autosaved_revision = self->revision;
+  a->autosaved_revision = hl_document_get_revision (self->document);
   /* Modified: no revision of this window was ever saved. */
-  self->saved_revision = 0;
-  hl_window_plan_edited (self);
+  hl_document_mark_unsaved (self->document);
 }
 
 typedef struct {

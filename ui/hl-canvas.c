@@ -51,6 +51,7 @@ struct _HlCanvas
   /* borrowed */
   const HlPlan *plan;
   HlUnderlay *underlay;
+  HlDocument *document;     /* its results are drawn: no solve of our own */
 
   /* owned */
   HlScene scene;
@@ -136,7 +137,22 @@ hl_canvas_update_accessible (HlCanvas *self)
 static void
 hl_canvas_rebuild (HlCanvas *self)
 {
-  hl_scene_build (&self->scene, self->plan, self->selected_option);
+  if (self->document != NULL)
+    {
+      size_t n;
+      const HlSolved *solved = hl_document_get_solved (self->document, &n);
+      HlError err;
+      const HlModel *model = hl_document_get_model (self->document, &err);
+      size_t col = self->selected_option >= 0 ? (size_t) self->selected_option + 1 : 0;
+
+      if (col >= n)
+        col = 0;
+      hl_scene_build_solved (&self->scene, self->plan, self->selected_option, model,
+                             solved[col].status, &solved[col].result,
+                             model != NULL ? &solved[col].error : &err);
+    }
+  else
+    hl_scene_build (&self->scene, self->plan, self->selected_option);
   hl_canvas_update_accessible (self);
   gtk_widget_queue_draw (GTK_WIDGET (self));
 }
@@ -182,6 +198,40 @@ hl_canvas_set_plan (HlCanvas *self, const HlPlan *plan)
   /* A new plan is a new picture: fit it now, or at the first allocation. */
   self->view_fitted = FALSE;
   hl_canvas_fit (self);
+}
+
+static void
+document_changed_cb (HlDocument *document, guint what, HlCanvas *self)
+{
+  if (what & HL_DOCUMENT_CHANGED_SELECTION)
+    {
+      int index = hl_document_get_selected_option (document);
+
+      if (index != self->selected_option)
+        {
+          self->selected_option = index;
+          g_object_notify_by_pspec (G_OBJECT (self), properties[PROP_SELECTED_OPTION]);
+          what |= HL_DOCUMENT_CHANGED_RESULTS;
+        }
+    }
+  if (what & HL_DOCUMENT_CHANGED_REPLACED)
+    hl_canvas_set_plan (self, hl_document_get_plan (document));
+  else if (what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_RESULTS))
+    hl_canvas_plan_changed (self);
+}
+
+void
+hl_canvas_set_document (HlCanvas *self, HlDocument *document)
+{
+  g_return_if_fail (HL_IS_CANVAS (self));
+  g_return_if_fail (document == NULL || HL_IS_DOCUMENT (document));
+  if (self->document != NULL)
+    g_signal_handlers_disconnect_by_data (self->document, self);
+  self->document = document;
+  if (document != NULL)
+    g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), self, 0);
+  self->selected_option = document != NULL ? hl_document_get_selected_option (document) : -1;
+  hl_canvas_set_plan (self, document != NULL ? hl_document_get_plan (document) : NULL);
 }
 
 void

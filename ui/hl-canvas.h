@@ -30,6 +30,7 @@
 #pragma once
 
 #include <gtk/gtk.h>
+#include "hl-document.h"
 #include "hl-plan.h"
 #include "hl-underlay.h"
 
@@ -40,7 +41,13 @@ G_DECLARE_FINAL_TYPE (HlCanvas, hl_canvas, HL, CANVAS, GtkWidget)
 
 GtkWidget *hl_canvas_new (void);
 
-/* The plan is borrowed: it must outlive the canvas or be replaced. */
+/* Draws the document's plan with its results (solved once per edit by the
+ * document, never again here) and follows its "changed" signal: the
+ * plan, the selected option, a new plan (fitted).  Borrowed: it must
+ * outlive the canvas. */
+void hl_canvas_set_document (HlCanvas *self, HlDocument *document);
+/* Without a document: the plan is borrowed (it must outlive the canvas or
+ * be replaced) and solved here. */
 void hl_canvas_set_plan (HlCanvas *self, const HlPlan *plan);
 /* Call after every edit of the plan: recomputes and redraws. */
 void hl_canvas_plan_changed (HlCanvas *self);

@@ -44,15 +44,20 @@ struct _HlChartsView {
 
   /* borrowed */
   const HlPlan *plan;
+  HlDocument *document;
 
   /* owned */
   HlChartData *data;
   char *error;
+  GCancellable *cancel;         /* of the one computation running */
 
   /* state */
   HlChartKind kind;
   gboolean show_bands;
   gboolean stale;
+  gboolean running;
+  gboolean wanted;              /* a newer state waits for the running one */
+  guint generation;             /* of the plan and settings charted */
   guint compute_count;
   guint syncing;
 };
@@ -67,6 +72,13 @@ enum {
 };
 
 static GParamSpec *properties[N_PROPS];
+
+enum {
+  SIGNAL_COMPUTED,
+  N_SIGNALS
+};
+
+static guint signals[N_SIGNALS];
 
 /* ---- computing ------------------------------------------------------ */
 
@@ -106,35 +118,124 @@ update_info (HlChartsView *self)
   gtk_label_set_text (GTK_LABEL (self->info_label), text);
 }
 
+/* One computation, on a copy of the plan in a worker thread. */
+typedef struct {
+  HlPlan *plan;
+  HlChartKind kind;
+  gboolean bands;
+  HlMcSettings mc;
+  guint generation;
+  HlChartData *data;
+  HlError err;
+} HlChartJob;
+
+static void
+chart_job_free (gpointer user_data)
+{
+  HlChartJob *job = user_data;
+
+  hl_plan_free (job->plan);
+  g_clear_pointer (&job->data, hl_chart_data_free);
+  g_free (job);
+}
+
+static void
+chart_thread_cb (GTask *task, gpointer source, gpointer user_data, GCancellable *cancel)
+{
+  HlChartJob *job = user_data;
+
+  if (g_cancellable_is_cancelled (cancel))
+    return;
+  job->data = hl_chart_data_new (job->plan, job->kind, HL_CHART_STEPS_DEFAULT,
+                                 HL_CHART_BAND_STEPS_DEFAULT,
+                                 job->bands ? &job->mc : NULL, &job->err);
+}
+
+static void hl_charts_view_compute (HlChartsView *self);
+
+static void
+chart_done_cb (GObject *source, GAsyncResult *result, gpointer user_data)
+{
+  HlChartsView *self = HL_CHARTS_VIEW (source);
+  GTask *task = G_TASK (result);
+  HlChartJob *job = g_task_get_task_data (task);
+
+  self->running = FALSE;
+  g_clear_object (&self->cancel);
+  /* Only the numbers of the plan as it is now are shown. */
+  if (!g_cancellable_is_cancelled (g_task_get_cancellable (task))
+      && job->generation == self->generation)
+    {
+      g_clear_pointer (&self->data, hl_chart_data_free);
+      g_clear_pointer (&self->error, g_free);
+      self->data = g_steal_pointer (&job->data);
+      self->compute_count++;
+      if (self->data == NULL)
+        self->error = format_error (&job->err);
+      update_info (self);
+      gtk_widget_queue_draw (GTK_WIDGET (self));
+      g_signal_emit (self, signals[SIGNAL_COMPUTED], 0);
+    }
+  if (self->wanted && gtk_widget_get_mapped (GTK_WIDGET (self)))
+    hl_charts_view_compute (self);
+}
+
+/* Starts the core for the plan as it is now; the drawing keeps the last
+ * numbers until these come.  With one running, that one is cancelled and
+ * this runs when it ends: never more than one at a time. */
 static void
 hl_charts_view_compute (HlChartsView *self)
 {
-  HlMcSettings mc;
-  HlError err;
+  g_autoptr(GTask) task = NULL;
+  HlChartJob *job;
 
-  g_clear_pointer (&self->data, hl_chart_data_free);
-  g_clear_pointer (&self->error, g_free);
   self->stale = FALSE;
-  if (self->plan != NULL)
+  if (self->running)
     {
-      hl_error_clear (&err);
-      hl_mc_settings_for_plan (self->plan, &mc, NULL);
-      /* The bands are smooth: fewer samples than a full run do. */
-      mc.n_samples = MIN (mc.n_samples, (size_t) HL_CHART_BAND_SAMPLES_DEFAULT);
-      self->data = hl_chart_data_new (self->plan, self->kind, HL_CHART_STEPS_DEFAULT,
-                                      HL_CHART_BAND_STEPS_DEFAULT,
-                                      self->show_bands ? &mc : NULL, &err);
-      self->compute_count++;
-      if (self->data == NULL)
-        self->error = format_error (&err);
+      g_cancellable_cancel (self->cancel);
+      self->wanted = TRUE;
+      return;
     }
-  update_info (self);
-  gtk_widget_queue_draw (GTK_WIDGET (self));
+  self->wanted = FALSE;
+  if (self->plan == NULL)
+    {
+      g_clear_pointer (&self->data, hl_chart_data_free);
+      g_clear_pointer (&self->error, g_free);
+      update_info (self);
+      gtk_widget_queue_draw (GTK_WIDGET (self));
+      return;
+    }
+  job = g_new0 (HlChartJob, 1);
+  job->plan = hl_plan_copy (self->plan);
+  job->kind = self->kind;
+  job->bands = self->show_bands;
+  job->generation = self->generation;
+  hl_error_clear (&job->err);
+  hl_mc_settings_for_plan (self->plan, &job->mc, NULL);
+  /* The bands are smooth: fewer samples than a full run do. */
+  job->mc.n_samples = MIN (job->mc.n_samples, (size_t) HL_CHART_BAND_SAMPLES_DEFAULT);
+  if (job->plan == NULL)
+    {
+      chart_job_free (job);
+      g_clear_pointer (&self->data, hl_chart_data_free);
+      g_free (self->error);
+      self->error = g_strdup (_("there is not enough memory for the charts"));
+      update_info (self);
+      return;
+    }
+  self->running = TRUE;
+  self->cancel = g_cancellable_new ();
+  task = g_task_new (self, self->cancel, chart_done_cb, NULL);
+  g_task_set_source_tag (task, hl_charts_view_compute);
+  g_task_set_task_data (task, job, chart_job_free);
+  g_task_set_check_cancellable (task, FALSE);
+  g_task_run_in_thread (task, chart_thread_cb);
 }
 
 static void
 hl_charts_view_invalidate (HlChartsView *self)
 {
+  self->generation++;
   self->stale = TRUE;
   if (gtk_widget_get_mapped (GTK_WIDGET (self)))
     hl_charts_view_compute (self);
@@ -154,6 +255,30 @@ hl_charts_view_set_plan (HlChartsView *self, const HlPlan *plan)
   g_return_if_fail (HL_IS_CHARTS_VIEW (self));
   self->plan = plan;
   hl_charts_view_invalidate (self);
+}
+
+static void
+document_changed_cb (HlDocument *document, guint what, HlChartsView *self)
+{
+  if (what & HL_DOCUMENT_CHANGED_PLAN)
+    hl_charts_view_invalidate (self);
+}
+
+void
+hl_charts_view_set_document (HlChartsView *self, HlDocument *document)
+{
+  g_return_if_fail (HL_IS_CHARTS_VIEW (self));
+  g_return_if_fail (HL_IS_DOCUMENT (document));
+  self->document = document;
+  g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), self, 0);
+  hl_charts_view_set_plan (self, hl_document_get_plan (document));
+}
+
+gboolean
+hl_charts_view_get_busy (HlChartsView *self)
+{
+  g_return_val_if_fail (HL_IS_CHARTS_VIEW (self), FALSE);
+  return self->running || (self->stale && gtk_widget_get_mapped (GTK_WIDGET (self)));
 }
 
 void
@@ -416,6 +541,9 @@ hl_charts_view_dispose (GObject *object)
 {
   HlChartsView *self = HL_CHARTS_VIEW (object);
 
+  if (self->cancel != NULL)
+    g_cancellable_cancel (self->cancel);
+  self->wanted = FALSE;
   g_clear_pointer (&self->bar, gtk_widget_unparent);
   G_OBJECT_CLASS (hl_charts_view_parent_class)->dispose (object);
 }
@@ -427,6 +555,7 @@ hl_charts_view_finalize (GObject *object)
 
   g_clear_pointer (&self->data, hl_chart_data_free);
   g_clear_pointer (&self->error, g_free);
+  g_clear_object (&self->cancel);
   G_OBJECT_CLASS (hl_charts_view_parent_class)->finalize (object);
 }
 
@@ -453,6 +582,9 @@ hl_charts_view_class_init (HlChartsViewClass *klass)
     g_param_spec_boolean ("show-bands", NULL, NULL, TRUE,
                           G_PARAM_READWRITE | G_PARAM_EXPLICIT_NOTIFY | G_PARAM_STATIC_STRINGS);
   g_object_class_install_properties (object_class, N_PROPS, properties);
+  signals[SIGNAL_COMPUTED] = g_signal_new ("computed", G_TYPE_FROM_CLASS (klass),
+                                           G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
+                                           G_TYPE_NONE, 0);
 
   gtk_widget_class_set_css_name (widget_class, "hlchartsview");
   gtk_widget_class_set_accessible_role (widget_class, GTK_ACCESSIBLE_ROLE_IMG);

@@ -12,7 +12,11 @@
  *
  * The numbers come from the core through hl_chart_data_new, run once per
  * plan change (at once while the view is shown, else when it is next
- * shown), never per frame; drawing (hl_chart_draw) computes nothing.
+ * shown) in a worker thread on a copy of the plan, never per frame and
+ * never on the main thread: the drawing keeps the last numbers until the
+ * new ones come, a computation that an edit overtakes is cancelled and
+ * its numbers dropped.  Drawing (hl_chart_draw) computes nothing.
+ * "computed" is emitted each time new numbers are shown.
  * Colours follow the widget's own colour, so the charts suit light and
  * dark themes.
  */
@@ -20,6 +24,7 @@
 
 #include <gtk/gtk.h>
 #include "hl-chart.h"
+#include "hl-document.h"
 #include "hl-plan.h"
 
 G_BEGIN_DECLS
@@ -30,6 +35,10 @@ G_DECLARE_FINAL_TYPE (HlChartsView, hl_charts_view, HL, CHARTS_VIEW, GtkWidget)
 GtkWidget  *hl_charts_view_new             (void);
 /* The plan charted, borrowed: it must outlive the view or be replaced. */
 void        hl_charts_view_set_plan        (HlChartsView *self, const HlPlan *plan);
+/* Charts the document's plan and follows its changes.  Borrowed. */
+void        hl_charts_view_set_document    (HlChartsView *self, HlDocument *document);
+/* TRUE while numbers for the plan as it is now are still to come. */
+gboolean    hl_charts_view_get_busy        (HlChartsView *self);
 /* The plan changed: recompute now when shown, else when next shown. */
 void        hl_charts_view_plan_changed    (HlChartsView *self);
 void        hl_charts_view_set_kind        (HlChartsView *self, HlChartKind kind);

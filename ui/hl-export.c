@@ -129,9 +129,9 @@ report_settings (HlExport *ex, HlReportSettings *settings)
 
   hl_report_settings_init (settings);
   settings->target_jrf_bw = hl_analysis_get_target_bw (window);
-  settings->figure_option = window->selected_option >= 0
-                            && (size_t) window->selected_option < window->plan->n_options
-                            ? window->selected_option : -1;
+  settings->figure_option = hl_window_selected_option (window) >= 0
+                            && (size_t) hl_window_selected_option (window) < window->plan->n_options
+                            ? hl_window_selected_option (window) : -1;
 }
 
 static char *
@@ -404,8 +404,8 @@ show_size_dialog (HlExport *ex)
   const HlPlan *plan = window->plan;
   g_autoptr(GtkStringList) options = gtk_string_list_new (NULL);
   GtkWidget *dialog, *grid, *label, *note;
-  int option = window->selected_option >= 0
-               && (size_t) window->selected_option < plan->n_options ? window->selected_option : -1;
+  int option = hl_window_selected_option (window) >= 0
+               && (size_t) hl_window_selected_option (window) < plan->n_options ? hl_window_selected_option (window) : -1;
 
   if (ex->size_dialog != NULL)
     {

@@ -241,6 +241,14 @@ import_file (HlRadiographPage *self, const char *path)
   hl_window_plan_edited (self->window);
 }
 
+void
+hl_radiograph_page_import (HlWindow *window, const char *path)
+{
+  HlRadiographPage *self = page_of (window);
+  if (self != NULL)
+    import_file (self, path);
+}
+
 static void
 chooser_response_cb (GtkNativeDialog *dialog, int response, HlRadiographPage *self)
 {
@@ -522,7 +530,7 @@ static void
 guide_click (HlRadiographPage *self, double x, double y)
 {
   HlLandmarkId id = (HlLandmarkId) self->guide_index;
-  hl_undo_break (self->window->undo);
+  hl_document_break_coalescing (self->window->document);
   if (!hl_window_begin_edit (self->window, NULL))
     return;
   hl_landmarks_set (&plan_of (self)->landmarks, id, x, y);

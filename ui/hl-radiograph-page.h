@@ -41,6 +41,10 @@ void hl_radiograph_page_attach (HlWindow *window);
  * moved or changed image. */
 void hl_radiograph_page_plan_edited (HlWindow *window);
 
+/* Imports the image file at `path` as if chosen in the file chooser (the
+ * drag benchmark). */
+void hl_radiograph_page_import (HlWindow *window, const char *path);
+
 /* From the handle printer (HIPLEVER_TEST_PRINT_HANDLES): WIDGET lines for
  * the page's controls and "VIEW scale tx ty x0 y0" (the canvas view and
  * the canvas's top-left corner in window surface coordinates) and

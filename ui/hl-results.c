@@ -108,35 +108,6 @@ struct _HlResults {
 
 G_DEFINE_FINAL_TYPE (HlResults, hl_results, GTK_TYPE_WIDGET)
 
-size_t
-hl_results_solve (const HlPlan *plan, HlSolved *out)
-{
-  HlModel model;
-  HlError err;
-  HlStatus st;
-  size_t n = 1 + plan->n_options;
-
-  hl_error_clear (&err);
-  st = hl_model_prepare (&model, plan, &err);
-  for (size_t i = 0; i < n; i++)
-    {
-      HlSolved *s = &out[i];
-
-      memset (&s->result, 0, sizeof s->result);
-      hl_error_clear (&s->error);
-      if (st != HL_OK)
-        {
-          s->status = st;
-          s->error = err;
-          continue;
-        }
-      s->status = hl_model_solve (&model,
-                                  i == 0 ? NULL : &plan->options[i - 1].recon,
-                                  &s->result, &s->error);
-    }
-  return n;
-}
-
 static char *
 format_value (const HlResultRow *row, double v)
 {
@@ -500,6 +471,38 @@ hl_results_format_ranges_csv (HlResults *self)
     }
   g_string_append_c (s, '\n');
   return g_string_free (s, FALSE);
+}
+
+static void
+document_changed_cb (HlDocument *document, guint what, HlResults *self)
+{
+  if (what & (HL_DOCUMENT_CHANGED_RESULTS | HL_DOCUMENT_CHANGED_OPTIONS))
+    {
+      size_t n;
+      const HlSolved *solved = hl_document_get_solved (document, &n);
+
+      hl_results_update (self, hl_document_get_plan (document), solved, n);
+    }
+  if (what & (HL_DOCUMENT_CHANGED_RESULTS | HL_DOCUMENT_CHANGED_ANALYSIS))
+    {
+      const char *note;
+      size_t n;
+      const HlMcSummary *ranges = hl_document_get_ranges (document, &n, &note, NULL);
+
+      hl_results_set_ranges (self, ranges, n, note);
+    }
+  if (what & (HL_DOCUMENT_CHANGED_SELECTION | HL_DOCUMENT_CHANGED_RESULTS))
+    hl_results_set_selected_option (self, hl_document_get_selected_option (document));
+}
+
+void
+hl_results_set_document (HlResults *self, HlDocument *document)
+{
+  g_return_if_fail (HL_IS_RESULTS (self));
+  g_return_if_fail (HL_IS_DOCUMENT (document));
+  g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), self, 0);
+  document_changed_cb (document, HL_DOCUMENT_CHANGED_RESULTS | HL_DOCUMENT_CHANGED_ANALYSIS,
+                       self);
 }
 
 void

@@ -12,26 +12,19 @@
 #pragma once
 
 #include <gtk/gtk.h>
+#include "hl-document.h"
 #include "hl-solve.h"
 #include "hl-uncertainty.h"
 
 G_BEGIN_DECLS
 
-/* One solved column: native (index 0) or option index - 1. */
-typedef struct {
-  HlStatus status;
-  HlError error;
-  HlResult result;
-} HlSolved;
-
-/* Solves native and every option with the core; `out` has room for
- * 1 + plan->n_options.  Returns the number of columns filled. */
-size_t hl_results_solve (const HlPlan *plan, HlSolved *out);
-
 #define HL_TYPE_RESULTS (hl_results_get_type ())
 G_DECLARE_FINAL_TYPE (HlResults, hl_results, HL, RESULTS, GtkWidget)
 
 GtkWidget *hl_results_new (void);
+/* Shows the document's results, ranges and selected option and follows
+ * its "changed" signal.  Borrowed: it must outlive the table. */
+void hl_results_set_document (HlResults *self, HlDocument *document);
 /* `solved` holds 1 + plan->n_options columns; copied as text, not kept. */
 void hl_results_update (HlResults *self, const HlPlan *plan,
                         const HlSolved *solved, size_t n);

@@ -64,10 +64,9 @@ save_to (HlWindow *self, GFile *file)
       return FALSE;
     }
 
-  g_set_object (&self->file, file);
-  self->saved_revision = self->revision;
+  /* The autosave goes first: the title that follows is no longer "recovered". */
   hl_autosave_saved (self);
-  hl_window_plan_edited (self);
+  hl_document_set_saved (self->document, file);
   return TRUE;
 }
 
@@ -189,9 +188,9 @@ guard_answer_idle_cb (gpointer user_data)
   switch (answer->response)
     {
     case GTK_RESPONSE_ACCEPT:
-      if (self->file == NULL)
+      if (hl_document_get_file (self->document) == NULL)
         hl_window_save_as (self, then);
-      else if (save_to (self, self->file))
+      else if (save_to (self, hl_document_get_file (self->document)))
         continue_after_guard (self, then);
       break;
     case GTK_RESPONSE_REJECT:
@@ -299,10 +298,10 @@ hl_window_save_as (HlWindow *self, HlAfterGuard then)
                                          _("_Save"), _("_Cancel"));
   gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), plans);
   /* A plan with a file starts in that file's folder, not the last one. */
-  if (self->file != NULL)
+  if (hl_document_get_file (self->document) != NULL)
     {
       hl_settings_remember_chooser (chooser);
-      gtk_file_chooser_set_file (GTK_FILE_CHOOSER (chooser), self->file, NULL);
+      gtk_file_chooser_set_file (GTK_FILE_CHOOSER (chooser), hl_document_get_file (self->document), NULL);
     }
   else
     {
@@ -368,7 +367,7 @@ hl_window_add_option (HlWindow *self)
       if (!used)
         name = g_steal_pointer (&candidate);
     }
-  hl_undo_break (self->undo);
+  hl_document_break_coalescing (self->document);
   if (!hl_window_begin_edit (self, NULL))
     return;
   index = hl_plan_add_option (self->plan, name, NULL);
@@ -377,7 +376,7 @@ hl_window_add_option (HlWindow *self)
       hl_window_show_error (self, _("Out of memory"), _("The option was not added."));
       return;
     }
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_OPTIONS);
   hl_window_select_option (self, (int) index);
 }
 
@@ -386,60 +385,50 @@ hl_window_duplicate_option (HlWindow *self)
 {
   long index;
 
-  if (self->selected_option < 0)
+  if (hl_window_selected_option (self) < 0)
     return;
-  hl_undo_break (self->undo);
+  hl_document_break_coalescing (self->document);
   if (!hl_window_begin_edit (self, NULL))
     return;
-  index = hl_plan_duplicate_option (self->plan, (size_t) self->selected_option);
+  index = hl_plan_duplicate_option (self->plan, (size_t) hl_window_selected_option (self));
   if (index < 0)
     {
       hl_window_show_error (self, _("Out of memory"), _("The option was not duplicated."));
       return;
     }
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_OPTIONS);
   hl_window_select_option (self, (int) index);
 }
 
 void
 hl_window_remove_option (HlWindow *self)
 {
-  int index = self->selected_option;
+  int index = hl_window_selected_option (self);
 
   if (index < 0 || (size_t) index >= self->plan->n_options)
     return;
-  hl_undo_break (self->undo);
+  hl_document_break_coalescing (self->document);
   if (!hl_window_begin_edit (self, NULL))
     return;
   hl_plan_remove_option (self->plan, (size_t) index);
   if ((size_t) index >= self->plan->n_options)
     index = (int) self->plan->n_options - 1;
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_OPTIONS);
   hl_window_select_option (self, index);
 }
 
 /* ---- undo ----------------------------------------------------------- */
 
-static void
-after_history_step (HlWindow *self)
-{
-  hl_window_panel_sync (self);
-  hl_window_select_option (self, self->selected_option);
-  hl_window_plan_edited (self);
-}
-
 void
 hl_window_undo (HlWindow *self)
 {
-  if (hl_undo_undo (self->undo, self->plan, &self->revision))
-    after_history_step (self);
+  hl_document_undo (self->document);
 }
 
 void
 hl_window_redo (HlWindow *self)
 {
-  if (hl_undo_redo (self->undo, self->plan, &self->revision))
-    after_history_step (self);
+  hl_document_redo (self->document);
 }
 
 /* ---- action callbacks ----------------------------------------------- */
@@ -455,10 +444,10 @@ save_action_cb (GtkWidget *widget, const char *name, GVariant *param)
 {
   HlWindow *self = HL_WINDOW (widget);
 
-  if (self->file == NULL)
+  if (hl_document_get_file (self->document) == NULL)
     hl_window_save_as (self, HL_AFTER_NOTHING);
   else if (!hl_autosave_confirm_save (self))
-    save_to (self, self->file);
+    save_to (self, hl_document_get_file (self->document));
 }
 
 static void

@@ -4,7 +4,8 @@
  * SPDX-License-Identifier: GPL-3.0-or-later
  *
  * Every control writes straight into the plan after recording an undo step
- * and then takes the one recompute path, hl_window_plan_edited().
+ * and then ends the edit (hl_window_end_edit): the document solves once
+ * and every view follows its "changed" signal.
  */
 #include "config.h"
 
@@ -125,10 +126,10 @@ plan_enum (HlPlan *plan, size_t offset)
 static HlOption *
 selected_option (HlWindow *self)
 {
-  if (self->selected_option < 0
-      || (size_t) self->selected_option >= self->plan->n_options)
+  if (hl_window_selected_option (self) < 0
+      || (size_t) hl_window_selected_option (self) >= self->plan->n_options)
     return NULL;
-  return &self->plan->options[self->selected_option];
+  return &self->plan->options[hl_window_selected_option (self)];
 }
 
 /* Ctrl+Z in a number field means the plan's undo, not the text's. */
@@ -190,7 +191,7 @@ label_changed_cb (GtkEditable *editable, HlWindow *self)
   if (!hl_window_begin_edit (self, "label"))
     return;
   g_strlcpy (self->plan->label, text, sizeof self->plan->label);
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
 static void
@@ -202,7 +203,7 @@ mass_changed_cb (GtkSpinButton *spin, HlWindow *self)
   if (self->syncing > 0 || !hl_window_begin_edit (self, "mass"))
     return;
   self->plan->mass_kg = kg;
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
 static void
@@ -221,7 +222,7 @@ side_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
 
   if (self->syncing > 0 || side == self->plan->side)
     return;
-  hl_undo_break (self->undo);
+  hl_document_break_coalescing (self->document);
   if (!hl_window_begin_edit (self, NULL))
     return;
   /* Over a radiograph the landmarks must stay on their pixels: the side
@@ -232,7 +233,7 @@ side_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
   else
     hl_plan_mirror (self->plan);
   hl_window_panel_sync (self);
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_GEOMETRY | HL_DOCUMENT_CHANGED_VALUES);
   hl_canvas_fit (self->canvas);
 }
 
@@ -246,11 +247,11 @@ limb_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
   if (self->syncing > 0 || table >= HL_LIMB_N
       || table == (guint) self->plan->model.limb_table)
     return;
-  hl_undo_break (self->undo);
+  hl_document_break_coalescing (self->document);
   if (!hl_window_begin_edit (self, NULL))
     return;
   self->plan->model.limb_table = (HlLimbTable) table;
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
 static void
@@ -266,7 +267,7 @@ spin_binding_cb (GtkSpinButton *spin, gpointer user_data)
   if (!hl_window_begin_edit (self, b->field))
     return;
   *target = value;
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
 static void
@@ -279,11 +280,11 @@ drop_binding_cb (GtkDropDown *drop, GParamSpec *pspec, gpointer user_data)
 
   if (self->syncing > 0 || *target == value)
     return;
-  hl_undo_break (self->undo);
+  hl_document_break_coalescing (self->document);
   if (!hl_window_begin_edit (self, NULL))
     return;
   *target = value;
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
 /* ---- aids ----------------------------------------------------------- */
@@ -295,11 +296,11 @@ cane_toggled_cb (GtkCheckButton *check, HlWindow *self)
 
   if (self->syncing > 0 || on == self->plan->cane.enabled)
     return;
-  hl_undo_break (self->undo);
+  hl_document_break_coalescing (self->document);
   if (!hl_window_begin_edit (self, NULL))
     return;
   self->plan->cane.enabled = on;
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
 static void
@@ -312,7 +313,7 @@ cane_value_cb (GtkSpinButton *spin, HlWindow *self)
   if (!hl_window_begin_edit (self, "cane-value"))
     return;
   self->plan->cane.value = value;
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
 /* The same force in the new unit, so changing the unit changes nothing. */
@@ -325,7 +326,7 @@ cane_unit_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
 
   if (self->syncing > 0 || unit == cane->unit)
     return;
-  hl_undo_break (self->undo);
+  hl_document_break_coalescing (self->document);
   if (!hl_window_begin_edit (self, NULL))
     return;
   newtons = hl_force_to_newtons (cane->value, cane->unit, self->plan->mass_kg);
@@ -334,7 +335,7 @@ cane_unit_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
   self->syncing++;
   sync_cane_value (self);
   self->syncing--;
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
 /* ---- landmarks ------------------------------------------------------ */
@@ -366,7 +367,7 @@ landmark_coord_cb (GtkSpinButton *spin, HlWindow *self)
     return;
   hl_landmarks_set (lm, id, x, y);
   hl_window_panel_sync_landmark (self, id);
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_GEOMETRY);
 }
 
 static void
@@ -378,7 +379,7 @@ landmark_placed_cb (GtkCheckButton *check, HlWindow *self)
 
   if (self->syncing > 0 || on == hl_landmarks_has (lm, id))
     return;
-  hl_undo_break (self->undo);
+  hl_document_break_coalescing (self->document);
   if (!hl_window_begin_edit (self, NULL))
     return;
   if (on)
@@ -387,7 +388,7 @@ landmark_placed_cb (GtkCheckButton *check, HlWindow *self)
   else
     hl_landmarks_unset (lm, id);
   hl_window_panel_sync_landmark (self, id);
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_GEOMETRY);
 }
 
 static void
@@ -561,7 +562,7 @@ option_row_selected_cb (GtkListBox *list, GtkListBoxRow *row, HlWindow *self)
   if (self->syncing > 0 || self->disposing || row == NULL)
     return;
   index = gtk_list_box_row_get_index (row) - 1;
-  if (index != self->selected_option)
+  if (index != hl_window_selected_option (self))
     hl_window_select_option (self, index);
 }
 
@@ -574,12 +575,12 @@ option_name_cb (GtkEditable *editable, HlWindow *self)
 
   if (self->syncing > 0 || option == NULL || g_strcmp0 (text, option->name) == 0)
     return;
-  field = g_strdup_printf ("option %d name", self->selected_option);
+  field = g_strdup_printf ("option %d name", hl_window_selected_option (self));
   if (!hl_window_begin_edit (self, field))
     return;
   hl_option_set_name (option, text);
   hl_window_panel_sync_options (self);
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_OPTIONS);
 }
 
 static void
@@ -597,11 +598,11 @@ recon_param_cb (GtkSpinButton *spin, gpointer user_data)
   target = (double *) ((char *) &option->recon + param->offset);
   if (*target == value)
     return;
-  field = g_strdup_printf ("option %d %s", self->selected_option, param->key);
+  field = g_strdup_printf ("option %d %s", hl_window_selected_option (self), param->key);
   if (!hl_window_begin_edit (self, field))
     return;
   *target = value;
-  hl_window_plan_edited (self);
+  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
 static void
@@ -693,7 +694,7 @@ hl_window_panel_sync_options (HlWindow *self)
           gtk_label_set_text (GTK_LABEL (label), self->plan->options[i].name);
         }
     }
-  row = gtk_list_box_get_row_at_index (self->option_list, self->selected_option + 1);
+  row = gtk_list_box_get_row_at_index (self->option_list, hl_window_selected_option (self) + 1);
   gtk_list_box_select_row (self->option_list, row);
 
   gtk_widget_set_sensitive (self->option_params, option != NULL);

@@ -6,8 +6,8 @@
 #pragma once
 
 #include "hl-canvas.h"
+#include "hl-document.h"
 #include "hl-results.h"
-#include "hl-undo.h"
 #include "hl-window.h"
 
 G_BEGIN_DECLS
@@ -76,23 +76,18 @@ struct _HlWindow {
   GtkSpinButton *recon_spin[HL_RECON_N_PARAMS];
 
   /* owned */
-  HlPlan *plan;
-  HlSolved *solved;          /* 1 + plan->n_options columns */
-  size_t solved_capacity;
-  HlUndo *undo;
-  guint64 revision;          /* of the current state of the plan */
-  guint64 saved_revision;
-  guint64 next_revision;
-  GFile *file;               /* NULL: never saved under a name */
+  HlDocument *document;      /* the plan, its history, results, analysis */
   char *dump_path;
+
+  /* borrowed */
+  HlPlan *plan;              /* the document's: written only between
+                              * hl_window_begin_edit and hl_window_end_edit */
   GtkNativeDialog *chooser;
   GtkWidget *guard_dialog;
   HlAfterGuard after_guard;
 
   /* state */
-  int selected_option;       /* -1: native */
   guint syncing;             /* > 0 while widgets are set from the plan */
-  gboolean dragging;
   gboolean disposing;        /* template children are going away */
   gboolean close_confirmed;
   gboolean skip_close_guard;
@@ -107,8 +102,11 @@ struct _HlWindow {
 };
 
 /* hl-window.c */
-void hl_window_plan_edited (HlWindow *self);
 gboolean hl_window_begin_edit (HlWindow *self, const char *field);
+void hl_window_end_edit (HlWindow *self, HlDocumentChange what);
+/* hl_window_end_edit for an edit of any part of the plan. */
+void hl_window_plan_edited (HlWindow *self);
+int hl_window_selected_option (HlWindow *self);
 void hl_window_replace_plan (HlWindow *self, const HlPlan *plan, GFile *file);
 void hl_window_update_title (HlWindow *self);
 void hl_window_update_actions (HlWindow *self);

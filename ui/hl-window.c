@@ -25,25 +25,26 @@ G_DEFINE_FINAL_TYPE (HlWindow, hl_window, GTK_TYPE_APPLICATION_WINDOW)
 gboolean
 hl_window_is_modified (HlWindow *self)
 {
-  return self->revision != self->saved_revision;
+  return hl_document_is_modified (self->document);
 }
 
 char *
 hl_window_format_error (const HlError *err)
 {
-  const char *msg = err->message[0] != '\0' ? err->message
-                                             : hl_status_name (err->status);
+  return hl_document_format_error (err);
+}
 
-  /* File errors from the core already say where. */
-  if (strstr (msg, "line ") != NULL || (err->field[0] != '\0' && strstr (msg, err->field) != NULL))
-    return g_strdup (msg);
-  if (err->line > 0 && err->field[0] != '\0')
-    return g_strdup_printf (_("Line %d, %s: %s"), err->line, err->field, msg);
-  if (err->line > 0)
-    return g_strdup_printf (_("Line %d: %s"), err->line, msg);
-  if (err->field[0] != '\0')
-    return g_strdup_printf ("%s: %s", err->field, msg);
-  return g_strdup (msg);
+int
+hl_window_selected_option (HlWindow *self)
+{
+  return hl_document_get_selected_option (self->document);
+}
+
+HlDocument *
+hl_window_get_document (HlWindow *self)
+{
+  g_return_val_if_fail (HL_IS_WINDOW (self), NULL);
+  return self->document;
 }
 
 static void
@@ -94,11 +95,11 @@ void
 hl_window_update_actions (HlWindow *self)
 {
   GtkWidget *w = GTK_WIDGET (self);
-  gboolean has_option = self->selected_option >= 0
-                        && (size_t) self->selected_option < self->plan->n_options;
+  int selected = hl_window_selected_option (self);
+  gboolean has_option = selected >= 0 && (size_t) selected < self->plan->n_options;
 
-  gtk_widget_action_set_enabled (w, "win.undo", hl_undo_can_undo (self->undo));
-  gtk_widget_action_set_enabled (w, "win.redo", hl_undo_can_redo (self->undo));
+  gtk_widget_action_set_enabled (w, "win.undo", hl_document_can_undo (self->document));
+  gtk_widget_action_set_enabled (w, "win.redo", hl_document_can_redo (self->document));
   gtk_widget_action_set_enabled (w, "win.duplicate-option", has_option);
   gtk_widget_action_set_enabled (w, "win.remove-option", has_option);
 }
@@ -108,14 +109,16 @@ hl_window_update_status (HlWindow *self)
 {
   g_autofree char *where = NULL;
   g_autofree char *text = NULL;
+  GFile *file = hl_document_get_file (self->document);
+  const HlSolved *solved = hl_document_get_solved (self->document, NULL);
 
-  if (self->file != NULL)
-    where = g_file_get_parse_name (self->file);
+  if (file != NULL)
+    where = g_file_get_parse_name (file);
   else
     where = g_strdup (_("not saved under a name yet"));
-  if (self->solved[0].status != HL_OK)
+  if (solved[0].status != HL_OK)
     {
-      g_autofree char *msg = hl_window_format_error (&self->solved[0].error);
+      g_autofree char *msg = hl_window_format_error (&solved[0].error);
 
       text = g_strdup_printf (_("Plan: %s  ·  Cannot solve: %s"), where, msg);
       gtk_widget_add_css_class (GTK_WIDGET (self->status_label), "error");
@@ -131,76 +134,74 @@ hl_window_update_status (HlWindow *self)
     gtk_label_set_text (self->status_label, text);
 }
 
-/* The one path every change takes: solve once with the core, then show. */
-void
-hl_window_plan_edited (HlWindow *self)
+/* What every change of the document does to the window itself; the
+ * views under it follow the document on their own. */
+static void
+document_changed_cb (HlDocument *document, guint what, HlWindow *self)
 {
-  size_t n = 1 + self->plan->n_options;
-
-  if (n > self->solved_capacity)
+  if (self->disposing)
+    return;
+  if (what & (HL_DOCUMENT_CHANGED_VALUES | HL_DOCUMENT_CHANGED_OPTIONS
+              | HL_DOCUMENT_CHANGED_SELECTION | HL_DOCUMENT_CHANGED_REPLACED))
+    hl_window_panel_sync (self);
+  else if (what & HL_DOCUMENT_CHANGED_GEOMETRY)
+    for (int i = 0; i < HL_LM_COUNT; i++)
+      hl_window_panel_sync_landmark (self, (HlLandmarkId) i);
+  if (what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_FILE
+              | HL_DOCUMENT_CHANGED_RESULTS))
     {
-      self->solved = g_renew (HlSolved, self->solved, n);
-      self->solved_capacity = n;
+      hl_window_update_title (self);
+      hl_window_update_status (self);
     }
-  hl_results_solve (self->plan, self->solved);
-  hl_results_update (self->results, self->plan, self->solved, n);
-  hl_canvas_plan_changed (self->canvas);
-  hl_window_update_title (self);
   hl_window_update_actions (self);
-  hl_window_update_status (self);
-  hl_radiograph_page_plan_edited (self);
-  hl_analysis_plan_edited (self);
+  if (what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_RESULTS))
+    {
+      hl_radiograph_page_plan_edited (self);
+      hl_analysis_plan_edited (self);
+    }
   self->handles_dirty = TRUE;
 }
 
-/* Records the plan as it is now as one undo step, then bumps the revision;
- * `field` coalesces repeated edits of one control. */
+static void
+document_error_cb (HlDocument *document, const char *primary, const char *secondary,
+                   HlWindow *self)
+{
+  hl_window_show_error (self, primary, secondary);
+}
+
+/* For the pages not yet on the document's signal: an edit of any kind. */
+void
+hl_window_plan_edited (HlWindow *self)
+{
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
+}
+
+void
+hl_window_end_edit (HlWindow *self, HlDocumentChange what)
+{
+  hl_document_end_edit (self->document, what);
+}
+
+/* Records the plan as it is now as one undo step; `field` coalesces
+ * repeated edits of one control. */
 gboolean
 hl_window_begin_edit (HlWindow *self, const char *field)
 {
-  if (!hl_undo_record (self->undo, self->plan, self->revision, field))
-    {
-      hl_window_show_error (self, _("Out of memory"),
-                            _("The edit was not made because the undo step could not be recorded."));
-      return FALSE;
-    }
-  self->revision = ++self->next_revision;
-  return TRUE;
+  return hl_document_begin_edit (self->document, field) != NULL;
 }
 
 void
 hl_window_select_option (HlWindow *self, int index)
 {
-  if (index < 0 || (size_t) index >= self->plan->n_options)
-    index = -1;
-  self->selected_option = index;
-  hl_canvas_set_selected_option (self->canvas, index);
-  hl_results_set_selected_option (self->results, index);
-  hl_window_panel_sync_options (self);
-  hl_window_update_actions (self);
+  hl_document_select_option (self->document, index);
 }
 
 /* A whole new plan: undo history goes, the view is fitted again. */
 void
 hl_window_replace_plan (HlWindow *self, const HlPlan *plan, GFile *file)
 {
-  if (hl_plan_assign (self->plan, plan) != HL_OK)
-    {
-      hl_window_show_error (self, _("Out of memory"),
-                            _("The plan could not be taken over."));
-      return;
-    }
-  g_set_object (&self->file, file);
-  hl_autosave_plan_replaced (self);
-  hl_undo_clear (self->undo);
-  self->revision = ++self->next_revision;
-  self->saved_revision = self->revision;
-  self->selected_option = self->plan->n_options > 0 ? 0 : -1;
-  hl_canvas_set_plan (self->canvas, self->plan);
-  hl_window_panel_sync (self);
-  hl_window_select_option (self, self->selected_option);
-  hl_window_plan_edited (self);
-  hl_canvas_fit (self->canvas);
+  if (hl_document_replace (self->document, plan, file))
+    hl_autosave_plan_replaced (self);
 }
 
 void
@@ -304,38 +305,20 @@ hl_window_set_print_handles (HlWindow *self, gboolean print)
 static void
 landmark_drag_begin_cb (HlCanvas *canvas, int id, HlWindow *self)
 {
-  hl_undo_break (self->undo);
-  if (hl_window_begin_edit (self, NULL))
-    self->dragging = TRUE;
+  hl_document_begin_drag (self->document);
 }
 
 static void
 landmark_moved_cb (HlCanvas *canvas, int id, double x, double y, HlWindow *self)
 {
-  if (id < 0 || id >= HL_LM_COUNT)
-    return;
-  /* A move without a begin (should not happen) is still one undo step. */
-  if (!self->dragging && !hl_window_begin_edit (self, NULL))
-    return;
-  hl_landmarks_set (&self->plan->landmarks, (HlLandmarkId) id, x, y);
-  hl_window_panel_sync_landmark (self, (HlLandmarkId) id);
-  hl_window_plan_edited (self);
+  hl_document_move_landmark (self->document, (HlLandmarkId) id, x, y);
 }
 
 static void
 landmark_drag_end_cb (HlCanvas *canvas, int id, gboolean cancelled,
                       HlWindow *self)
 {
-  self->dragging = FALSE;
-  hl_undo_break (self->undo);
-  if (cancelled)
-    {
-      guint64 revision;
-
-      if (hl_undo_drop_last (self->undo, &revision))
-        self->revision = revision;
-      hl_window_plan_edited (self);
-    }
+  hl_document_end_drag (self->document, cancelled);
 }
 
 static void
@@ -352,7 +335,7 @@ canvas_selected_option_cb (HlCanvas *canvas, GParamSpec *pspec, HlWindow *self)
 {
   int index = hl_canvas_get_selected_option (canvas);
 
-  if (!self->disposing && index != self->selected_option)
+  if (!self->disposing && index != hl_window_selected_option (self))
     hl_window_select_option (self, index);
 }
 
@@ -409,10 +392,7 @@ hl_window_finalize (GObject *object)
 {
   HlWindow *self = HL_WINDOW (object);
 
-  g_clear_pointer (&self->undo, hl_undo_free);
-  g_clear_pointer (&self->plan, hl_plan_free);
-  g_clear_pointer (&self->solved, g_free);
-  g_clear_object (&self->file);
+  g_clear_object (&self->document);
   g_clear_pointer (&self->dump_path, g_free);
   G_OBJECT_CLASS (hl_window_parent_class)->finalize (object);
 }
@@ -453,13 +433,8 @@ hl_window_init (HlWindow *self)
 {
   gtk_widget_init_template (GTK_WIDGET (self));
 
-  self->plan = hl_plan_new ();
-  self->undo = hl_undo_new (HL_UNDO_DEFAULT_LIMIT);
-  self->selected_option = -1;
-  self->solved_capacity = 1;
-  self->solved = g_new0 (HlSolved, self->solved_capacity);
-  if (self->plan == NULL)
-    g_error ("out of memory creating the plan");
+  self->document = hl_document_new ();
+  self->plan = (HlPlan *) hl_document_get_plan (self->document);
 
   gtk_label_set_text (self->caution_short_label, hl_caution_short ());
   gtk_label_set_text (self->caution_full_label, hl_caution_text ());
@@ -478,13 +453,18 @@ hl_window_init (HlWindow *self)
   g_signal_connect_object (self->canvas, "notify::selected-option",
                            G_CALLBACK (canvas_selected_option_cb), self, 0);
 
+  hl_canvas_set_document (self->canvas, self->document);
+  hl_results_set_document (self->results, self->document);
   hl_window_panel_init (self);
   hl_radiograph_page_attach (self);
   hl_analysis_attach (self);
   hl_export_attach (self);
   hl_autosave_attach (self);
   hl_a11y_label_controls (GTK_WIDGET (self));
-  hl_canvas_set_plan (self->canvas, self->plan);
+  g_signal_connect_object (self->document, "changed",
+                           G_CALLBACK (document_changed_cb), self, 0);
+  g_signal_connect_object (self->document, "error",
+                           G_CALLBACK (document_error_cb), self, 0);
   hl_window_panel_sync (self);
   hl_window_plan_edited (self);
 }

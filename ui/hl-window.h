@@ -7,6 +7,7 @@
 
 #include <gtk/gtk.h>
 #include "hl-plan.h"
+#include "hl-ui-types.h"
 
 G_BEGIN_DECLS
 
@@ -23,6 +24,8 @@ gboolean hl_window_load_file (HlWindow *self, GFile *file, gboolean report,
  * for a name. */
 void hl_window_set_plan (HlWindow *self, const HlPlan *plan);
 const HlPlan *hl_window_get_plan (HlWindow *self);
+/* The document the window shows: the plan, its history, its results. */
+HlDocument *hl_window_get_document (HlWindow *self);
 /* An error in plain words with its line and field, for messages. */
 char *hl_window_format_error (const HlError *err);
 
