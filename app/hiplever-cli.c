@@ -477,6 +477,8 @@ print_context (const char *path, const HlPlan *plan)
     hl_cli_fprintf (stdout, _("Cane: %s hand, %.1f N, %.1f mm from the midline\n"),
                     hand_name[plan->cane.hand == HL_HAND_IPSILATERAL],
                     hl_plan_cane_force (plan), plan->cane.distance_mm);
+  if (hl_plan_cane_note (plan) != NULL)
+    hl_cli_fprintf (stdout, "  %s\n", hl_plan_cane_note (plan));
   for (int h = 0; h < 2; h++)
     if (plan->loads.hand[h].mass_kg > 0.0)
       hl_cli_fprintf (stdout,
@@ -573,6 +575,12 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
             hl_cli_fprintf (stdout, _(" (unbalanced moment %.3f N m)"),
                             fabs (r->unbalanced_nmm) / HL_CLI_NMM_PER_NM);
           hl_cli_fprintf (stdout, "\n");
+          if (bit == HL_FLAG_IMPLAUSIBLE)
+            {
+              char why[4 * HL_ERROR_MESSAGE_MAX];
+              hl_implausible_describe_all (r, "\n    - ", why, sizeof why);
+              hl_cli_fprintf (stdout, "    - %s\n", why);
+            }
         }
     }
 

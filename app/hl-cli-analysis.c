@@ -280,6 +280,7 @@ hl_cli_inverse (const HlCliCommand *cmd, const HlCliArgs *args)
       hl_buf_printf (&buf, _("Joint-load target: %.2f x body weight%s\n"), target,
                          args->value[INVERSE_OPT_TARGET] == NULL
                          ? _(" (our default; --target-jrf to change)") : "");
+      hl_buf_printf (&buf, "%s\n", hl_inverse_caveat ());
     }
 
   for (size_t row = 0; row <= plan->n_options && status == HL_CLI_EXIT_OK; row++)

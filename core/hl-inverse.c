@@ -566,6 +566,14 @@ site_words (HlLoadSite site)
     }
 }
 
+const char *
+hl_inverse_caveat (void)
+{
+  return _("The answers about loads, the cane and a lean are planning estimates "
+           "of a static model, for the surgeon: they are not advice to the "
+           "patient on what to carry, how to use a cane or how to walk.");
+}
+
 char *
 hl_inverse_answer_format (const HlInverseAnswer *a, char *buf, size_t size)
 {
@@ -618,42 +626,49 @@ hl_inverse_answer_format (const HlInverseAnswer *a, char *buf, size_t size)
       break;
     case HL_INVERSE_CANE_FOR_JRF:
       if (ok && a->at_limit)
-        snprintf (buf, size, _("The joint load is already at or below %.2f x body "
-                               "weight without a cane."), a->goal);
+        snprintf (buf, size, _("In this static model the estimated joint load is "
+                               "already at or below %.2f x body weight without a "
+                               "cane."), a->goal);
       else if (ok)
-        snprintf (buf, size, _("A cane force of %.0f N (%.1f%% of body weight) in the "
-                               "opposite hand brings the joint load down to %.2f x "
-                               "body weight."), a->value, 100.0 * a->value / bw, a->goal);
+        snprintf (buf, size, _("In this static model, a cane force of %.0f N (%.1f%% "
+                               "of body weight) in the opposite hand would bring the "
+                               "estimated joint load down to %.2f x body weight."), a->value, 100.0 * a->value / bw, a->goal);
       else
-        snprintf (buf, size, _("Not reachable in range: no cane force from %.0f to "
-                               "%.0f N brings the joint load down to %.2f x body "
-                               "weight (the lowest is %.2f)%s."), a->lower, a->upper,
+        snprintf (buf, size, _("Not reachable in range: in this static model no cane "
+                               "force from %.0f to %.0f N brings the estimated joint "
+                               "load down to %.2f x body weight (the lowest is "
+                               "%.2f)%s."), a->lower, a->upper,
                   a->goal, a->achieved,
                   a->range_limited ? _("; beyond that the abductors are no longer "
                                        "needed and this model does not apply") : "");
       break;
     case HL_INVERSE_LOAD_FOR_JRF:
       if (ok && a->at_limit)
-        snprintf (buf, size, _("Any load up to %.1f kg %s keeps the joint load at or "
-                               "below %.2f x body weight%s."), a->value,
+        snprintf (buf, size, _("In this static model, any load up to %.1f kg %s would "
+                               "keep the estimated joint load at or below %.2f x body "
+                               "weight%s."), a->value,
                   site_words (a->site), a->goal,
                   a->range_limited ? _(" (beyond it the abductors are no longer "
                                        "needed and this model does not apply)") : "");
       else if (ok)
-        snprintf (buf, size, _("A load of up to %.1f kg %s keeps the joint load at or "
-                               "below %.2f x body weight."), a->value,
+        snprintf (buf, size, _("In this static model, a load of up to %.1f kg %s "
+                               "would keep the estimated joint load at or below %.2f x "
+                               "body weight."), a->value,
                   site_words (a->site), a->goal);
       else
-        snprintf (buf, size, _("Not reachable: even with no load %s the joint load is "
-                               "above %.2f x body weight."), site_words (a->site),
+        snprintf (buf, size, _("Not reachable: in this static model, even with no "
+                               "load %s the estimated joint load is above %.2f x body "
+                               "weight."), site_words (a->site),
                   a->goal);
       break;
     case HL_INVERSE_LEAN_FOR_CAPACITY:
       if (ok && a->at_limit)
-        snprintf (buf, size, _("Abductor demand is within capacity without a lean."));
+        snprintf (buf, size, _("In this static model the estimated abductor demand is "
+                               "within capacity without a lean."));
       else if (ok)
-        snprintf (buf, size, _("A lateral trunk lean of %.1f mm towards the operated side "
-                               "brings abductor demand within capacity."), a->value);
+        snprintf (buf, size, _("In this static model, a lateral trunk lean of %.1f mm "
+                               "towards the operated side would bring the estimated "
+                               "abductor demand within capacity."), a->value);
       else
         snprintf (buf, size, _("Not reachable in range: no lean from %.0f to %.0f mm "
                                "brings abductor demand within capacity."), a->lower,

@@ -137,6 +137,10 @@ HlStatus hl_inverse_lean_for_capacity (const HlModel *model, const HlRecon *opti
                                        const HlInverseSettings *settings,
                                        HlInverseAnswer *answer, HlError *err);
 
+/* One sentence that goes with every list of answers: they are planning
+ * estimates, never advice to the patient. */
+const char *hl_inverse_caveat (void);
+
 /* The answer in one plain sentence (English, through gettext) into buf;
  * returns buf. */
 char *hl_inverse_answer_format (const HlInverseAnswer *answer, char *buf,

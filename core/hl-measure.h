@@ -1,4 +1,4 @@
-/* hl-measure.h: radiographic measures and magnification (model.md s. 8).
+/* hl-measure.h: radiographic measures (model.md s. 8).
  *
  * Copyright 2026 the hiplever developers
  * SPDX-License-Identifier: GPL-3.0-or-later
@@ -48,15 +48,7 @@ typedef struct {
 /* Measures on a set of plan-frame landmarks of a plan of side `side`. */
 void hl_measure (const HlLandmarks *lm, HlSide side, HlMeasures *out);
 
-/* Magnification factor M (measured / true) from a calibration.  HL_CAL_ASSUMED
- * gives HL_MAGNIFICATION_ASSUMED and sets *assumed.  Fails on too few or
- * collinear marker points, or a non-positive size. */
-HlStatus hl_calibration_magnification (const HlCalibration *cal, double *m,
-                                       bool *assumed, HlError *err);
-
-/* Circle through three points; fails when they are (nearly) collinear. */
-HlStatus hl_circle_through (HlVec2 a, HlVec2 b, HlVec2 c, HlVec2 *centre,
-                            double *radius, HlError *err);
+/* The magnification of a calibration: hl-calibration.h (through hl-plan.h). */
 
 #ifdef __cplusplus
 }

@@ -509,7 +509,13 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
   hl_buf_puts (b, "  <calibration");
   put_enum (w, "method", (int) cal->method, cal_method_names,
             N_NAMES (cal_method_names), "calibration method");
-  put_number (w, "magnification", cal->magnification, "calibration magnification");
+  /* A marker or two-point calibration records the magnification its points
+   * give, so that a later edit of the points or of the number is caught on
+   * load (the landmarks were scaled with it). */
+  double recorded_m = cal->magnification;
+  if (hl_calibration_complete (cal))
+    (void) hl_calibration_magnification (cal, &recorded_m, NULL, NULL);
+  put_number (w, "magnification", recorded_m, "calibration magnification");
   put_number (w, "marker-diameter-mm", cal->marker_diameter_mm,
               "calibration marker diameter");
   put_number (w, "known-distance-mm", cal->known_distance_mm,
@@ -859,6 +865,13 @@ write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
         hl_buf_puts (b, hl_flag_key ((HlFlag) bit));
         hl_buf_puts (b, "\">");
         buf_escaped (b, hl_flag_text ((HlFlag) bit), false);
+        if (bit == HL_FLAG_IMPLAUSIBLE)
+          {
+            char why[4 * HL_ERROR_MESSAGE_MAX];
+            hl_implausible_describe_all (r, " ", why, sizeof why);
+            hl_buf_puts (b, " ");
+            buf_escaped (b, why, false);
+          }
         hl_buf_puts (b, "</flag>\n");
       }
   write_measures (b, plan, index < 0 ? NULL : &plan->options[index].recon);
@@ -1774,6 +1787,31 @@ read_calibration (HlReader *r, xmlNodePtr node, HlPlan *plan)
         return false;
       cal->n_points++;
     }
+
+  /* The points must agree with the magnification the file records: the
+   * landmarks were scaled with that one.  An implausible magnification is
+   * left to hl_plan_check, which names it. */
+  double from_points;
+  if (hl_calibration_complete (cal)
+      && hl_calibration_magnification (cal, &from_points, NULL, NULL) == HL_OK)
+    {
+      xmlChar *recorded = xmlGetNoNsProp (node, (const xmlChar *) "magnification");
+      bool has_recorded = recorded != NULL;
+      xmlFree (recorded);
+      if (has_recorded
+          && !(fabs (from_points - cal->magnification) <= HL_MAGNIFICATION_AGREE_TOL))
+        {
+          reader_fail (r, HL_ERR_PARSE, node,
+                       _("the calibration points give a magnification of %.3f, but "
+                         "the plan records %.3f: the points or the magnification "
+                         "were changed after the landmarks were scaled, so the "
+                         "landmarks may be at the wrong scale; correct the "
+                         "magnification attribute or the points so they agree"),
+                       from_points, cal->magnification);
+          return false;
+        }
+      cal->magnification = from_points;
+    }
   return true;
 }
 
@@ -2231,6 +2269,72 @@ parse_document (HlReader *r, const char *data, size_t size, xmlDocPtr *out)
   return HL_OK;
 }
 
+/* Before the schema: a plan without its case or its required landmarks
+ * gets a message in plain words, not the schema's. */
+#define HL_LEAST_LANDMARKS \
+  N_("place at least the hip centre, the midline and the abductor insertion")
+
+static HlStatus
+check_plan_outline (HlReader *r, xmlNodePtr plan_node)
+{
+  xmlNodePtr case_node = NULL, landmarks = NULL;
+  for (xmlNodePtr c = plan_node->children; c != NULL; c = c->next)
+    {
+      if (c->type != XML_ELEMENT_NODE)
+        continue;
+      if (case_node == NULL && node_is (c, "case"))
+        case_node = c;
+      else if (landmarks == NULL && node_is (c, "landmarks"))
+        landmarks = c;
+    }
+  if (case_node == NULL)
+    return reader_fail (r, HL_ERR_PARSE, plan_node,
+                        _("the plan has no case: give the case label, the body "
+                          "mass and the operated side (a <case> element)"));
+  if (landmarks == NULL)
+    return reader_fail (r, HL_ERR_PARSE, plan_node,
+                        _("the plan has no landmarks: %s"), _(HL_LEAST_LANDMARKS));
+
+  bool placed[HL_LM_COUNT] = { false };
+  int n_placed = 0;
+  for (xmlNodePtr c = landmarks->children; c != NULL; c = c->next)
+    {
+      if (c->type != XML_ELEMENT_NODE || !node_is (c, "landmark"))
+        continue;
+      xmlChar *key = xmlGetNoNsProp (c, (const xmlChar *) "name");
+      HlLandmarkId id = hl_landmark_from_key (key ? (const char *) key : "");
+      xmlFree (key);
+      n_placed++;
+      if (id != HL_LM_COUNT)
+        placed[id] = true;
+    }
+  if (n_placed == 0)
+    return reader_fail (r, HL_ERR_PARSE, landmarks,
+                        _("the plan has no landmarks: %s"), _(HL_LEAST_LANDMARKS));
+
+  char missing[256] = "";
+  size_t used = 0;
+  int n_missing = 0;
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) i);
+      if (!info->required || placed[i])
+        continue;
+      int n = snprintf (missing + used, sizeof missing - used, "%s%s (%s)",
+                        n_missing ? ", " : "", _(info->label), info->key);
+      if (n > 0 && (size_t) n < sizeof missing - used)
+        used += (size_t) n;
+      n_missing++;
+    }
+  if (n_missing > 0)
+    return reader_fail (r, HL_ERR_PARSE, landmarks,
+                        ngettext ("the plan lacks the required landmark %s: %s",
+                                  "the plan lacks the required landmarks %s: %s",
+                                  (unsigned long) n_missing),
+                        missing, _(HL_LEAST_LANDMARKS));
+  return HL_OK;
+}
+
 /* Everything after the bytes are in memory; called with the thread's
  * numbers in the C locale and libxml2's error output redirected. */
 static HlStatus
@@ -2243,7 +2347,13 @@ load_document (HlReader *r, const char *data, size_t size, HlPlan **out)
 
   bool is_summary = false;
   xmlNodePtr root = xmlDocGetRootElement (doc);
-  if ((st = check_root (r, root, &is_summary)) != HL_OK
+  xmlNodePtr outline = root;
+  if ((st = check_root (r, root, &is_summary)) == HL_OK && is_summary)
+    for (outline = root->children; outline != NULL; outline = outline->next)
+      if (outline->type == XML_ELEMENT_NODE && node_is (outline, "plan"))
+        break;
+  if (st != HL_OK
+      || (outline != NULL && (st = check_plan_outline (r, outline)) != HL_OK)
       || (st = validate_schema (r, doc)) != HL_OK)
     {
       xmlFreeDoc (doc);

@@ -375,6 +375,20 @@ hl_plan_cane_force (const HlPlan *plan)
   return hl_force_to_newtons (plan->cane.value, plan->cane.unit, plan->mass_kg);
 }
 
+const char *
+hl_plan_cane_note (const HlPlan *plan)
+{
+  if (!plan->cane.enabled || plan->cane.hand != HL_HAND_IPSILATERAL)
+    return NULL;
+  /* Neumann 1998, Phys Ther 78:490-501 (abstract): a cane in the opposite
+   * hand cut abductor activity by about 31%; one in the same-side hand
+   * changed nothing. */
+  return _("The cane is in the hand on the operated side: held in the other "
+           "hand it helps the hip more (a cane in the opposite hand lowered "
+           "abductor activity by about 31%, one in the same-side hand changed "
+           "nothing: Neumann 1998, Phys Ther 78:490-501).");
+}
+
 /* ---- Range checks ----------------------------------------------------- */
 
 static inline bool
@@ -498,12 +512,16 @@ hl_plan_check (const HlPlan *plan, HlError *err)
                           field, what, "mm", err);
     }
 
-  /* Calibration: a typed factor must be plausible; marker and two-point
-   * calibrations are checked when their magnification is computed. */
+  /* Calibration: a typed factor must be plausible, and so must the
+   * magnification of a marker or two-point calibration once all its points
+   * are placed (a half-placed one is still being edited). */
   if (plan->calibration.method == HL_CAL_TYPED
-      && (st = check_range (plan->calibration.magnification, 0.8, 1.6,
-                            "calibration magnification",
+      && (st = check_range (plan->calibration.magnification, HL_MAGNIFICATION_MIN,
+                            HL_MAGNIFICATION_MAX, "calibration magnification",
                             N_("The typed magnification"), "", err)))
+    return st;
+  if (hl_calibration_complete (&plan->calibration)
+      && (st = hl_calibration_magnification (&plan->calibration, NULL, NULL, err)))
     return st;
   for (int i = 0; i < 3; i++)
     if (!isfinite (plan->calibration.points[i].x) || !isfinite (plan->calibration.points[i].y))

@@ -18,6 +18,7 @@
 #pragma once
 
 #include <stdbool.h>
+#include "hl-calibration.h"
 #include "hl-image-ref.h"
 #include "hl-mc-settings.h"
 #include "hl-types.h"
@@ -177,28 +178,7 @@ typedef struct {
 
 /* ---- Calibration ------------------------------------------------------ */
 
-typedef enum {
-  HL_CAL_ASSUMED = 0,   /* no calibration: M = HL_MAGNIFICATION_ASSUMED, said so */
-  HL_CAL_TYPED,         /* magnification typed by the user */
-  HL_CAL_MARKER,        /* a sphere of known diameter: circle through three edge points */
-  HL_CAL_TWO_POINT,     /* two points a known distance apart */
-} HlCalMethod;
-
-/* HL_MAGNIFICATION_ASSUMED (1.20, Brew et al. 2012) is in hl-types.h. */
-/* A 25 mm calibration sphere: common practice. */
-#define HL_MARKER_DIAMETER_DEFAULT 25.0
-
-typedef struct {
-  HlCalMethod method;
-  double magnification;        /* HL_CAL_TYPED: the typed factor */
-  double marker_diameter_mm;   /* HL_CAL_MARKER: true diameter */
-  double known_distance_mm;    /* HL_CAL_TWO_POINT: true distance */
-  /* Measured points, in millimetres on the radiograph (image mm, not yet
-   * corrected for magnification): three on the marker edge, or the first
-   * two for HL_CAL_TWO_POINT. */
-  HlVec2 points[3];
-  int n_points;
-} HlCalibration;
+/* HlCalMethod and HlCalibration are in hl-calibration.h. */
 
 /* ---- Reconstruction options ------------------------------------------ */
 
@@ -293,6 +273,10 @@ double hl_plan_limb_fraction (const HlPlan *plan);
 double hl_plan_body_weight (const HlPlan *plan);
 /* The cane's upward force on the body in N (0 when disabled). */
 double hl_plan_cane_force (const HlPlan *plan);
+/* A plain note when the cane is in the hand on the operated side (the
+ * other hand helps the hip more: Neumann 1998, Phys Ther 78:490-501,
+ * model.md section 9); NULL otherwise. */
+const char *hl_plan_cane_note (const HlPlan *plan);
 /* Converts a cane force `value` in `unit` to N for a body mass. */
 double hl_force_to_newtons (double value, HlForceUnit unit, double mass_kg);
 double hl_force_from_newtons (double newtons, HlForceUnit unit, double mass_kg);

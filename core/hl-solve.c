@@ -32,7 +32,22 @@ static const struct { const char *key; const char *text; } flag_words[] = {
   { "over-capacity",
     N_("Abductor demand above capacity: the pelvis cannot be held level in "
        "stance (positive Trendelenburg sign or a compensating lean)") },
+  { "implausible",
+    N_("Implausible geometry: check the landmarks and the option (the "
+       "reasons follow)") },
 };
+
+static const char *const implausible_short[] = {
+  N_("abductor moment arm outside about 30-90 mm"),
+  N_("hip centre medial to the teardrop"),
+  N_("cup moved more than 15 mm"),
+  N_("leg length change beyond 20 mm"),
+  N_("lever ratio outside about 1-4"),
+  N_("joint force more than 40 degrees from vertical"),
+};
+
+/* tan (HL_PLAUSIBLE_JRF_ANGLE_DEG): the hot path compares components. */
+#define TAN_JRF_ANGLE_LIMIT 0.83909963117728
 
 static int
 flag_index (HlFlag flag)
@@ -71,6 +86,106 @@ hl_flags_format (unsigned flags, const char *sep, char *buf, size_t size)
         continue;
       int n = snprintf (buf + used, size - used, "%s%s", used ? sep : "",
                         flag_words[i].key);
+      if (n < 0 || (size_t) n >= size - used)
+        break;
+      used += (size_t) n;
+    }
+  return buf;
+}
+
+static int
+implausible_index (HlImplausible why)
+{
+  for (int i = 0; (1u << i) <= HL_IMPLAUSIBLE_LAST; i++)
+    if ((unsigned) why == (1u << i))
+      return i;
+  return -1;
+}
+
+const char *
+hl_implausible_short (HlImplausible why)
+{
+  int i = implausible_index (why);
+  return i < 0 ? "" : _(implausible_short[i]);
+}
+
+char *
+hl_implausible_describe (const HlResult *res, HlImplausible why, char *buf,
+                         size_t size)
+{
+  if (size == 0)
+    return buf;
+  buf[0] = '\0';
+  switch (why)
+    {
+    case HL_IMPLAUSIBLE_ABDUCTOR_ARM:
+      snprintf (buf, size,
+                _("The abductor moment arm is %.1f mm, outside the %.0f-%.0f mm "
+                  "of an adult hip (typically 50-60 mm; limits common practice): "
+                  "check the hip centre and the abductor origin and insertion."),
+                res->abductor_arm_mm, HL_PLAUSIBLE_ABDUCTOR_ARM_MIN_MM,
+                HL_PLAUSIBLE_ABDUCTOR_ARM_MAX_MM);
+      break;
+    case HL_IMPLAUSIBLE_TEARDROP:
+      snprintf (buf, size,
+                _("The hip centre lies %.1f mm medial to the teardrop, beyond "
+                  "the medial wall of the acetabulum (common practice): check "
+                  "the hip centre, the teardrop and the cup medialisation."),
+                res->teardrop_lateral_mm);
+      break;
+    case HL_IMPLAUSIBLE_CUP_SHIFT:
+      snprintf (buf, size,
+                _("The cup moves %.1f mm medially and %.1f mm upwards: more "
+                  "than the %.0f mm a reconstruction usually moves it (common "
+                  "practice); check the option."),
+                -res->acetabular_offset_change_mm, res->cup_height_change_mm,
+                HL_PLAUSIBLE_CUP_SHIFT_MM);
+      break;
+    case HL_IMPLAUSIBLE_LEG_LENGTH:
+      snprintf (buf, size,
+                _("The leg length changes by %+.1f mm: more than the %.0f mm a "
+                  "reconstruction usually changes it (common practice); check "
+                  "the option."),
+                res->leg_length_change_mm, HL_PLAUSIBLE_LEG_LENGTH_MM);
+      break;
+    case HL_IMPLAUSIBLE_LEVER_RATIO:
+      snprintf (buf, size,
+                _("The lever ratio is %.2f, outside about %.0f-%.0f (about 3 in "
+                  "Pauwels 1976, near 2 for a typical adult hip; limits common "
+                  "practice): check the midline, the hip centre and the "
+                  "abductor landmarks."),
+                res->lever_ratio, HL_PLAUSIBLE_LEVER_RATIO_MIN,
+                HL_PLAUSIBLE_LEVER_RATIO_MAX);
+      break;
+    case HL_IMPLAUSIBLE_JRF_ANGLE:
+      snprintf (buf, size,
+                _("The joint force is %.1f degrees from vertical, more than %.0f "
+                  "(about 16 degrees in single-leg stance, Pauwels 1976; limit "
+                  "common practice): check the abductor line and the loads."),
+                hl_result_jrf_angle_deg (res), HL_PLAUSIBLE_JRF_ANGLE_DEG);
+      break;
+    default:
+      break;
+    }
+  return buf;
+}
+
+char *
+hl_implausible_describe_all (const HlResult *res, const char *sep, char *buf,
+                             size_t size)
+{
+  size_t used = 0;
+  char one[HL_ERROR_MESSAGE_MAX];
+
+  if (size == 0)
+    return buf;
+  buf[0] = '\0';
+  for (unsigned bit = 1; bit != 0 && bit <= HL_IMPLAUSIBLE_LAST; bit <<= 1)
+    {
+      if (!(res->implausible & bit))
+        continue;
+      hl_implausible_describe (res, (HlImplausible) bit, one, sizeof one);
+      int n = snprintf (buf + used, size - used, "%s%s", used ? sep : "", one);
       if (n < 0 || (size_t) n >= size - used)
         break;
       used += (size_t) n;
@@ -280,6 +395,9 @@ hl_model_prepare (HlModel *m, const HlPlan *plan, HlError *err)
     }
   m->load_midline_n = plan->loads.midline_kg * HL_GRAVITY;
   m->tol = plan->tol;
+  m->teardrop_x = NAN;
+  if (hl_landmarks_has (lm, HL_LM_TEARDROP))
+    m->teardrop_x = to_solver (m->side_sign, hc, lm->p[HL_LM_TEARDROP]).x;
 
   HlMeasures meas;
   hl_measure (lm, plan->side, &meas);
@@ -432,6 +550,28 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
   if (res->demand > 1.0)
     flags |= HL_FLAG_OVER_CAPACITY;
 
+  /* Plausibility: wide limits, each named in hl-solve.h. */
+  unsigned why = 0;
+  res->cup_height_change_mm = cs;
+  res->teardrop_lateral_mm = m->teardrop_x + cm;
+  if (!(res->abductor_arm_mm >= HL_PLAUSIBLE_ABDUCTOR_ARM_MIN_MM
+        && res->abductor_arm_mm <= HL_PLAUSIBLE_ABDUCTOR_ARM_MAX_MM))
+    why |= HL_IMPLAUSIBLE_ABDUCTOR_ARM;
+  if (res->teardrop_lateral_mm > 0.0)
+    why |= HL_IMPLAUSIBLE_TEARDROP;
+  if (fabs (cm) > HL_PLAUSIBLE_CUP_SHIFT_MM || fabs (cs) > HL_PLAUSIBLE_CUP_SHIFT_MM)
+    why |= HL_IMPLAUSIBLE_CUP_SHIFT;
+  if (fabs (res->leg_length_change_mm) > HL_PLAUSIBLE_LEG_LENGTH_MM)
+    why |= HL_IMPLAUSIBLE_LEG_LENGTH;
+  if (!(res->lever_ratio >= HL_PLAUSIBLE_LEVER_RATIO_MIN
+        && res->lever_ratio <= HL_PLAUSIBLE_LEVER_RATIO_MAX))
+    why |= HL_IMPLAUSIBLE_LEVER_RATIO;
+  if (fabs (jx) > TAN_JRF_ANGLE_LIMIT * fabs (jy))
+    why |= HL_IMPLAUSIBLE_JRF_ANGLE;
+  if (why != 0)
+    flags |= HL_FLAG_IMPLAUSIBLE;
+
+  res->implausible = why;
   res->flags = flags;
   return HL_OK;
 }

@@ -46,8 +46,41 @@ typedef enum {
   HL_FLAG_ABDUCTORS_NOT_NEEDED  = 1u << 2,  /* F_a would be negative */
   HL_FLAG_ABDUCTOR_SLACK        = 1u << 3,  /* shortened beyond tol */
   HL_FLAG_OVER_CAPACITY         = 1u << 4,  /* demand over capacity > 1 */
-  HL_FLAG_LAST                  = 1u << 4,
+  HL_FLAG_IMPLAUSIBLE           = 1u << 5,  /* any HlImplausible bit set */
+  HL_FLAG_LAST                  = 1u << 5,
 } HlFlag;
+
+/* Why a result is flagged "implausible": geometry no adult hip or usual
+ * reconstruction has, most often a misplaced landmark or a mistyped option.
+ * The limits are deliberately wide; each says where it comes from. */
+typedef enum {
+  HL_IMPLAUSIBLE_ABDUCTOR_ARM  = 1u << 0,  /* outside the arm limits below */
+  HL_IMPLAUSIBLE_TEARDROP      = 1u << 1,  /* hip centre medial to the teardrop */
+  HL_IMPLAUSIBLE_CUP_SHIFT     = 1u << 2,  /* cup moved beyond the limit */
+  HL_IMPLAUSIBLE_LEG_LENGTH    = 1u << 3,  /* |leg length change| beyond the limit */
+  HL_IMPLAUSIBLE_LEVER_RATIO   = 1u << 4,  /* outside the ratio limits */
+  HL_IMPLAUSIBLE_JRF_ANGLE     = 1u << 5,  /* joint force beyond the angle limit */
+  HL_IMPLAUSIBLE_LAST          = 1u << 5,
+} HlImplausible;
+
+/* Abductor moment arm about 30-90 mm: typical adult arms are 50-60 mm
+ * (model.md section 2, from memory); the wide limits are common practice. */
+#define HL_PLAUSIBLE_ABDUCTOR_ARM_MIN_MM 30.0
+#define HL_PLAUSIBLE_ABDUCTOR_ARM_MAX_MM 90.0
+/* A cup moved more than 15 mm medially, laterally, up or down: common
+ * practice (a reconstruction restores the centre within a few mm). */
+#define HL_PLAUSIBLE_CUP_SHIFT_MM 15.0
+/* A leg length change beyond 20 mm: common practice. */
+#define HL_PLAUSIBLE_LEG_LENGTH_MM 20.0
+/* Lever ratio (body-weight lever arm over abductor moment arm) about 1-4:
+ * Pauwels 1976 gives about 3, model.md's typical geometry about 2; the
+ * limits are common practice. */
+#define HL_PLAUSIBLE_LEVER_RATIO_MIN 1.0
+#define HL_PLAUSIBLE_LEVER_RATIO_MAX 4.0
+/* The joint force about 16 degrees from vertical in single-leg stance
+ * (Pauwels, Biomechanics of the Normal and Diseased Hip, Springer 1976);
+ * beyond 40 degrees: common practice. */
+#define HL_PLAUSIBLE_JRF_ANGLE_DEG 40.0
 
 /* A stable short key ("global-offset-reduced") for CSV and files. */
 const char *hl_flag_key (HlFlag flag);
@@ -94,6 +127,8 @@ typedef struct {
   double go_drop_base;
   double lld_base;
   HlTolerances tol;
+  double teardrop_x;                 /* operated teardrop, solver frame; NaN
+                                      * when not placed */
   double side_sign;                  /* -1 right hip, +1 left hip */
   HlVec2 hip_centre;                 /* native, plan frame */
 } HlModel;
@@ -119,8 +154,25 @@ typedef struct {
   double acetabular_offset_change_mm;
   double global_offset_change_mm;
   double abductor_length_change_mm;
+  double cup_height_change_mm;  /* + superior, the option's cup height */
+  double teardrop_lateral_mm;   /* operated teardrop lateral of the hip centre
+                                 * (negative: medial, as it should be); NaN
+                                 * when the teardrop is not placed */
   unsigned flags;             /* HlFlag bits */
+  unsigned implausible;       /* HlImplausible bits (HL_FLAG_IMPLAUSIBLE) */
 } HlResult;
+
+/* A short line for one HlImplausible bit ("abductor moment arm outside
+ * 30-90 mm"). */
+const char *hl_implausible_short (HlImplausible why);
+/* The full sentence for one bit of res->implausible: the value, the limit,
+ * where the limit comes from and what to check.  Returns buf. */
+char *hl_implausible_describe (const HlResult *res, HlImplausible why,
+                               char *buf, size_t size);
+/* Every reason of res->implausible, full sentences joined by `sep`.
+ * Returns buf ("" when there is none). */
+char *hl_implausible_describe_all (const HlResult *res, const char *sep,
+                                   char *buf, size_t size);
 
 /* Validates the plan (hl_plan_check and the native geometry) and fills the
  * model.  Fails with the landmark or field at fault. */

@@ -977,7 +977,7 @@ block_flags (HlLayout *L, double y, bool draw)
 {
   const HlReport *r = L->r;
   double h = heading (L, _("Flags in plain words"), y, draw);
-  char line[1024];
+  char line[6144];
 
   for (size_t row = 0; row <= r->n_shown; row++)
     {
@@ -990,6 +990,12 @@ block_flags (HlLayout *L, double y, bool draw)
           if ((res->flags & bit) == 0 || len >= sizeof line)
             continue;
           len += (size_t) snprintf (line + len, sizeof line - len, "%s", hl_flag_text ((HlFlag) bit));
+          if (bit == HL_FLAG_IMPLAUSIBLE && len < sizeof line)
+            {
+              char why[4 * HL_ERROR_MESSAGE_MAX];
+              hl_implausible_describe_all (res, " ", why, sizeof why);
+              len += (size_t) snprintf (line + len, sizeof line - len, ": %s", why);
+            }
           if (bit == HL_FLAG_ABDUCTORS_NOT_NEEDED && len < sizeof line)
             len += (size_t) snprintf (line + len, sizeof line - len,
                                       _(" (unbalanced moment %.2f N m)"),
@@ -1002,6 +1008,10 @@ block_flags (HlLayout *L, double y, bool draw)
       h += wrap_text (L->cr, line, content_left (), y + h, content_width (),
                       TYPE_BODY * L->s, false, ink, false, draw);
     }
+  const char *cane_note = hl_plan_cane_note (r->plan);
+  if (cane_note != NULL)
+    h += wrap_text (L->cr, cane_note, content_left (), y + h, content_width (),
+                    TYPE_BODY * L->s, false, ink, false, draw);
   return h;
 }
 
@@ -1044,6 +1054,8 @@ block_inverse (HlLayout *L, double y, bool draw)
             r->settings.target_jrf_bw);
   double h = heading (L, title, y, draw);
   double name_w = 96.0;
+  h += wrap_text (L->cr, hl_inverse_caveat (), content_left (), y + h, content_width (),
+                  TYPE_BODY * L->s, false, ink, false, draw);
 
   for (size_t i = 0; i < r->n_answers; i++)
     {

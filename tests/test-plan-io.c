@@ -466,6 +466,13 @@ random_plan (HlRand *r)
   cal->marker_diameter_mm = rand_uniform (r, 20.0, 30.0);
   cal->known_distance_mm = rand_uniform (r, 50.0, 150.0);
   cal->n_points = rand_int (r, 4);
+  /* Random points of a complete marker or two-point calibration would give
+   * a random magnification, which the check refuses: keep those
+   * calibrations half placed here (complete ones are tested on their own). */
+  if (cal->method == HL_CAL_MARKER && cal->n_points > 2)
+    cal->n_points = 2;
+  if (cal->method == HL_CAL_TWO_POINT && cal->n_points > 1)
+    cal->n_points = 1;
   for (int i = 0; i < cal->n_points; i++)
     {
       cal->points[i].x = rand_chance (r, 0.2)
@@ -1076,10 +1083,64 @@ static const HlBadCase bad_cases[] = {
     HL_ERR_PARSE, 2, { "format-version", "missing" }, NULL },
   { "missing hip centre",
     XML_DECL PLAN_OPEN CASE_OK "  <landmarks>\n" LM_MID LM_INS "  </landmarks>\n" PLAN_CLOSE,
-    NULL, HL_ERR_PARSE, 4, { "line 4, element <landmarks>", "hip-centre", "missing" }, NULL },
+    NULL, HL_ERR_PARSE, 4, { "line 4, element <landmarks>", "hip-centre",
+                             "place at least the hip centre, the midline and the abductor insertion" },
+    "Expected is" },
   { "missing abductor insertion",
     XML_DECL PLAN_OPEN CASE_OK "  <landmarks>\n" LM_HIP LM_MID "  </landmarks>\n" PLAN_CLOSE,
-    NULL, HL_ERR_PARSE, 4, { "abductor-insertion", "missing" }, NULL },
+    NULL, HL_ERR_PARSE, 4, { "abductor-insertion", "lacks the required landmark" }, NULL },
+  /* An empty or incomplete plan is told in plain words, not schema text. */
+  { "no landmarks element",
+    XML_DECL PLAN_OPEN CASE_OK PLAN_CLOSE, NULL, HL_ERR_PARSE, 2,
+    { "the plan has no landmarks: place at least the hip centre, the midline and "
+      "the abductor insertion" }, "Expected is" },
+  { "empty landmarks element",
+    XML_DECL PLAN_OPEN CASE_OK "  <landmarks/>\n" PLAN_CLOSE, NULL, HL_ERR_PARSE, 4,
+    { "the plan has no landmarks: place at least the hip centre, the midline and "
+      "the abductor insertion" }, "Expected is" },
+  { "only the midline",
+    XML_DECL PLAN_OPEN CASE_OK "  <landmarks>\n" LM_MID "  </landmarks>\n" PLAN_CLOSE,
+    NULL, HL_ERR_PARSE, 4, { "landmarks Hip centre (hip-centre), Abductor insertion "
+                             "(abductor-insertion)", "place at least" }, "Expected is" },
+  { "an empty plan element",
+    XML_DECL "<plan xmlns=\"urn:hiplever:plan\" format-version=\"1\"/>\n", NULL,
+    HL_ERR_PARSE, 2, { "the plan has no case", "operated side" }, "Expected is" },
+  { "a summary whose plan has no landmarks",
+    XML_DECL "<planning-summary xmlns=\"urn:hiplever:plan\" format-version=\"1\">\n"
+    PLAN_OPEN CASE_OK PLAN_CLOSE "</planning-summary>\n", NULL, HL_ERR_PARSE, 3,
+    { "the plan has no landmarks" }, "Expected is" },
+  /* Magnification limits 1.0-1.5 (HL_MAGNIFICATION_MIN/MAX): AP pelvis
+   * magnification 117-123.4% (Brew et al. 2012, J Arthroplasty
+   * 27:643-647); the margin is common practice.  Each calibration method. */
+  { "typed magnification below 1.0",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK
+    "  <calibration method=\"typed\" magnification=\"0.95\"/>\n" PLAN_CLOSE,
+    NULL, HL_ERR_INVALID, 9, { "magnification", "0.95", "between 1 and 1.5" }, NULL },
+  { "typed magnification above 1.5",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK
+    "  <calibration method=\"typed\" magnification=\"1.55\"/>\n" PLAN_CLOSE,
+    NULL, HL_ERR_INVALID, 9, { "magnification", "1.55", "between 1 and 1.5" }, NULL },
+  { "marker calibration at 1.7",   /* radius 21.25 mm over a 25 mm sphere */
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK
+    "  <calibration method=\"marker\" marker-diameter-mm=\"25\">\n"
+    "    <point x-mm=\"21.25\" y-mm=\"0\"/>\n    <point x-mm=\"0\" y-mm=\"21.25\"/>\n"
+    "    <point x-mm=\"-21.25\" y-mm=\"0\"/>\n  </calibration>\n" PLAN_CLOSE,
+    NULL, HL_ERR_INVALID, 9, { "magnification comes out at 1.700", "1.00 and 1.50" }, NULL },
+  { "two-point calibration at 0.9",   /* 90 mm apart, 100 mm true */
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK
+    "  <calibration method=\"two-point\" known-distance-mm=\"100\">\n"
+    "    <point x-mm=\"0\" y-mm=\"0\"/>\n    <point x-mm=\"90\" y-mm=\"0\"/>\n"
+    "  </calibration>\n" PLAN_CLOSE,
+    NULL, HL_ERR_INVALID, 9, { "magnification comes out at 0.900", "1.00 and 1.50" }, NULL },
+  /* Points giving 1.300 (radius 16.25 mm, 25 mm sphere) under a recorded
+   * 1.2: the landmarks were scaled with another magnification. */
+  { "calibration points contradict the recorded magnification",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK
+    "  <calibration method=\"marker\" magnification=\"1.2\" marker-diameter-mm=\"25\">\n"
+    "    <point x-mm=\"16.25\" y-mm=\"0\"/>\n    <point x-mm=\"0\" y-mm=\"16.25\"/>\n"
+    "    <point x-mm=\"-16.25\" y-mm=\"0\"/>\n  </calibration>\n" PLAN_CLOSE,
+    NULL, HL_ERR_PARSE, 9, { "line 9", "give a magnification of 1.300",
+                             "records 1.200" }, NULL },
   { "text where a number belongs",
     XML_DECL PLAN_OPEN CASE_OK "  <landmarks>\n"
     "    <landmark name=\"hip-centre\" x-mm=\"abc\" y-mm=\"0\"/>\n" LM_MID LM_INS
@@ -1273,6 +1334,51 @@ START_TEST (test_bad_input)
   check_refusal (c, st, &err, out, sentinel, path);
   remove_tree (dir);
   free (text);
+}
+END_TEST
+
+/* A marker or two-point calibration records the magnification its points
+ * give: written, read back, and a file that agrees to the shown 3 decimals
+ * loads.  The limits 1.0 and 1.5 themselves are accepted. */
+START_TEST (test_calibration_records_magnification)
+{
+  static const char agree[] = XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK
+    "  <calibration method=\"marker\" magnification=\"1.3004\" marker-diameter-mm=\"25\">\n"
+    "    <point x-mm=\"16.25\" y-mm=\"0\"/>\n    <point x-mm=\"0\" y-mm=\"16.25\"/>\n"
+    "    <point x-mm=\"-16.25\" y-mm=\"0\"/>\n  </calibration>\n" PLAN_CLOSE;
+  HlPlan *plan = NULL;
+  HlError err;
+  hl_error_clear (&err);
+  ck_assert_msg (hl_plan_load_buffer (agree, strlen (agree), "agree", &plan, &err) == HL_OK,
+                 "%s", err.message);
+  /* radius 16.25 mm over a 25 mm sphere: 1.3 exactly */
+  ck_assert_double_eq_tol (plan->calibration.magnification, 1.3, 1e-12);
+
+  /* A typed value left over from before the marker is replaced on save by
+   * the marker's own magnification. */
+  plan->calibration.magnification = 1.17;
+  char *text = NULL;
+  size_t size = 0;
+  ck_assert_int_eq (hl_plan_to_buffer (plan, &text, &size, &err), HL_OK);
+  ck_assert_msg (strstr (text, "magnification=\"1.3\"") != NULL, "%s", text);
+  HlPlan *again = NULL;
+  ck_assert_msg (hl_plan_load_buffer (text, size, "again", &again, &err) == HL_OK,
+                 "%s", err.message);
+  free (text);
+  hl_plan_free (again);
+
+  /* The limits: two points 100 and 150 mm apart over 100 mm. */
+  static const double at_limit[] = { 100.0, 150.0 };
+  for (size_t i = 0; i < sizeof at_limit / sizeof at_limit[0]; i++)
+    {
+      plan->calibration.method = HL_CAL_TWO_POINT;
+      plan->calibration.known_distance_mm = 100.0;
+      plan->calibration.n_points = 2;
+      plan->calibration.points[0] = (HlVec2) { 0.0, 0.0 };
+      plan->calibration.points[1] = (HlVec2) { at_limit[i], 0.0 };
+      ck_assert_msg (hl_plan_check (plan, &err) == HL_OK, "%g: %s", at_limit[i], err.message);
+    }
+  hl_plan_free (plan);
 }
 END_TEST
 
@@ -1724,6 +1830,7 @@ plan_io_suite (void)
 
   tc = tcase_create ("bad-input");
   tcase_add_test (tc, test_bad_input_base_is_good);
+  tcase_add_test (tc, test_calibration_records_magnification);
   tcase_add_loop_test (tc, test_bad_input, 0, N_OF (bad_cases));
   tcase_add_test (tc, test_truncated);
   tcase_add_test (tc, test_size_cap);

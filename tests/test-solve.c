@@ -851,6 +851,158 @@ START_TEST (test_flags)
 }
 END_TEST
 
+/* ---- Plausibility ----------------------------------------------------- */
+
+/* Each limit of hl-solve.h just inside and just beyond, one at a time, on
+ * the base geometry (arm 52.84 mm, lever ratio 2.14, joint force 13.8 deg:
+ * none flagged).  The limits are common practice (the arm from model.md's
+ * typical 50-60 mm, the ratio near Pauwels 1976's about 3, the angle near
+ * his 16 deg); the numbers are worked by hand beside each case. */
+typedef struct {
+  const char *name;
+  double line_x;          /* a vertical abductor line at this x_lat (arm = x), or NAN */
+  double midline_x;       /* NAN: the base midline */
+  double teardrop_x;      /* operated teardrop x_lat at y 5, or NAN: not placed */
+  HlRecon recon;
+  unsigned expect;        /* HlImplausible bits */
+} PlausibleCase;
+
+#define NO_RECON { 0, 0, 0, 0, 0, 135 }
+static const PlausibleCase plausible_cases[] = {
+  { "base geometry", NAN, NAN, NAN, NO_RECON, 0 },
+  /* a vertical line at x_lat 31 mm has a 31 mm arm; the ratio 113.23 / 31
+   * = 3.65 stays within 4 */
+  { "arm 31 mm", 31.0, NAN, NAN, NO_RECON, 0 },
+  { "arm 29 mm", 29.0, NAN, NAN, NO_RECON, HL_IMPLAUSIBLE_ABDUCTOR_ARM },
+  { "arm 89 mm", 89.0, NAN, NAN, NO_RECON, 0 },
+  { "arm 91 mm", 91.0, NAN, NAN, NO_RECON, HL_IMPLAUSIBLE_ABDUCTOR_ARM },
+  /* teardrop 10 mm medial: a cup 9.5 mm medial leaves it 0.5 mm medial,
+   * 10.5 mm puts the hip centre 0.5 mm medial to it */
+  { "teardrop, cup 9.5 mm medial", NAN, NAN, -10.0, { 9.5, 0, 0, 0, 0, 135 }, 0 },
+  { "teardrop, cup 10.5 mm medial", NAN, NAN, -10.0, { 10.5, 0, 0, 0, 0, 135 },
+    HL_IMPLAUSIBLE_TEARDROP },
+  { "native hip centre medial to the teardrop", NAN, NAN, 2.0, NO_RECON,
+    HL_IMPLAUSIBLE_TEARDROP },
+  /* the cup 14.9 / 15.1 mm medially (no teardrop placed), up or down */
+  { "cup 14.9 mm medial", NAN, NAN, NAN, { 14.9, 0, 0, 0, 0, 135 }, 0 },
+  { "cup 15.1 mm medial", NAN, NAN, NAN, { 15.1, 0, 0, 0, 0, 135 },
+    HL_IMPLAUSIBLE_CUP_SHIFT },
+  { "cup 15.1 mm lateral", NAN, NAN, NAN, { -15.1, 0, 0, 0, 0, 135 },
+    HL_IMPLAUSIBLE_CUP_SHIFT },
+  { "cup 14.9 mm up", NAN, NAN, NAN, { 0, 14.9, 0, 0, 0, 135 }, 0 },
+  { "cup 15.1 mm down", NAN, NAN, NAN, { 0, -15.1, 0, 0, 0, 135 },
+    HL_IMPLAUSIBLE_CUP_SHIFT },
+  /* leg length: femur 19.9 / 20.1 mm longer or shorter */
+  { "leg +19.9 mm", NAN, NAN, NAN, { 0, 0, 0, 19.9, 0, 135 }, 0 },
+  { "leg +20.1 mm", NAN, NAN, NAN, { 0, 0, 0, 20.1, 0, 135 }, HL_IMPLAUSIBLE_LEG_LENGTH },
+  { "leg -20.1 mm", NAN, NAN, NAN, { 0, 0, 0, -20.1, 0, 135 }, HL_IMPLAUSIBLE_LEG_LENGTH },
+  /* lever ratio = (-x_m / 0.839) / 52.843533: midline -45 -> 1.0150,
+   * -44 -> 0.9924, -177 -> 3.9923, -178 -> 4.0148 */
+  { "ratio 1.015", NAN, -45.0, NAN, NO_RECON, 0 },
+  { "ratio 0.992", NAN, -44.0, NAN, NO_RECON, HL_IMPLAUSIBLE_LEVER_RATIO },
+  { "ratio 3.992", NAN, -177.0, NAN, NO_RECON, 0 },
+  { "ratio 4.015", NAN, -178.0, NAN, NO_RECON, HL_IMPLAUSIBLE_LEVER_RATIO },
+};
+
+START_TEST (test_plausible)
+{
+  const PlausibleCase *c = &plausible_cases[_i];
+  HlPlan *plan = hl_test_base_plan (HL_SIDE_RIGHT);
+  HlResult res;
+
+  if (isfinite (c->line_x))
+    {
+      hl_test_place (plan, HL_LM_ABDUCTOR_ORIGIN, c->line_x, 85.0);
+      hl_test_place (plan, HL_LM_ABDUCTOR_INSERTION, c->line_x, -10.0);
+    }
+  if (isfinite (c->midline_x))
+    hl_test_place (plan, HL_LM_MIDLINE, c->midline_x, HL_TEST_MIDLINE_Y);
+  if (isfinite (c->teardrop_x))
+    hl_test_place (plan, HL_LM_TEARDROP, c->teardrop_x, 5.0);
+  hl_test_solve (plan, &c->recon, &res);
+  ck_assert_msg (res.implausible == c->expect, "%s: implausible %#x, expected %#x",
+                 c->name, res.implausible, c->expect);
+  ck_assert_int_eq ((res.flags & HL_FLAG_IMPLAUSIBLE) != 0, c->expect != 0);
+
+  /* Each reason is said with its value and its limit. */
+  char text[HL_ERROR_MESSAGE_MAX];
+  for (unsigned why = 1; why <= HL_IMPLAUSIBLE_LAST; why <<= 1)
+    if (res.implausible & why)
+      {
+        hl_implausible_describe (&res, (HlImplausible) why, text, sizeof text);
+        ck_assert_msg (strstr (text, "common practice") != NULL, "%s: %s", c->name, text);
+        ck_assert_uint_gt (strlen (hl_implausible_short ((HlImplausible) why)), 0);
+      }
+  if (c->expect == HL_IMPLAUSIBLE_ABDUCTOR_ARM)
+    {
+      hl_implausible_describe (&res, HL_IMPLAUSIBLE_ABDUCTOR_ARM, text, sizeof text);
+      ck_assert_msg (strstr (text, "30-90 mm") != NULL, "%s", text);
+    }
+  if (c->expect == HL_IMPLAUSIBLE_LEVER_RATIO)
+    {
+      hl_implausible_describe (&res, HL_IMPLAUSIBLE_LEVER_RATIO, text, sizeof text);
+      ck_assert_msg (strstr (text, "1-4") != NULL, "%s", text);
+    }
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* The joint force angle: flagged exactly when the angle the core reports is
+ * beyond 40 degrees (about 16 in Pauwels 1976; the limit common practice).
+ * Set abductor line angles from 30 to 87.5 degrees to the horizontal sweep
+ * the joint force across the limit. */
+START_TEST (test_plausible_jrf_angle)
+{
+  HlPlan *plan = hl_test_base_plan (HL_SIDE_RIGHT);
+  bool seen_flagged = false, seen_clear = false;
+
+  plan->model.abductor_line = HL_ABDUCTOR_LINE_ANGLE;
+  for (double deg = 30.0; deg <= 89.0; deg += 2.5)
+    {
+      HlResult res;
+      plan->model.abductor_angle_deg = deg;
+      hl_test_solve (plan, NULL, &res);
+      double angle = hl_result_jrf_angle_deg (&res);
+      bool flagged = (res.implausible & HL_IMPLAUSIBLE_JRF_ANGLE) != 0;
+      ck_assert_msg (flagged == (angle > HL_PLAUSIBLE_JRF_ANGLE_DEG),
+                     "line %.1f deg: joint force %.3f deg, flagged %d", deg, angle, flagged);
+      seen_flagged |= flagged;
+      seen_clear |= !flagged;
+      if (flagged)
+        {
+          char text[HL_ERROR_MESSAGE_MAX];
+          hl_implausible_describe (&res, HL_IMPLAUSIBLE_JRF_ANGLE, text, sizeof text);
+          ck_assert_msg (strstr (text, "40") != NULL && strstr (text, "Pauwels") != NULL,
+                         "%s", text);
+        }
+    }
+  ck_assert_msg (seen_flagged && seen_clear, "the sweep did not cross the limit");
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* A cane in the same-side hand gets the note of Neumann 1998 (Phys Ther
+ * 78:490-501: an ipsilateral cane changed abductor activity not at all);
+ * the opposite hand and no cane get none. */
+START_TEST (test_cane_note)
+{
+  HlPlan *plan = hl_test_base_plan (HL_SIDE_RIGHT);
+
+  ck_assert_ptr_null (hl_plan_cane_note (plan));
+  plan->cane.enabled = true;
+  plan->cane.hand = HL_HAND_CONTRALATERAL;
+  ck_assert_ptr_null (hl_plan_cane_note (plan));
+  plan->cane.hand = HL_HAND_IPSILATERAL;
+  const char *note = hl_plan_cane_note (plan);
+  ck_assert_ptr_nonnull (note);
+  ck_assert_msg (strstr (note, "other hand") != NULL && strstr (note, "Neumann 1998") != NULL,
+                 "%s", note);
+  plan->cane.enabled = false;
+  ck_assert_ptr_null (hl_plan_cane_note (plan));
+  hl_plan_free (plan);
+}
+END_TEST
+
 /* ---- Capacity --------------------------------------------------------- */
 
 /* Demand = abductor torque / capacity, capacity = torque per kg x mass.
@@ -1425,6 +1577,9 @@ solve_suite (void)
   ADD_LOOP ("flag-defaults", test_flag_defaults, 1);
   ADD_TABLE ("flags", test_flags, flag_cases);
   ADD_TABLE ("flags-other-hip", test_flags_other_hip, other_hip_cases);
+  ADD_TABLE ("plausible", test_plausible, plausible_cases);
+  ADD_LOOP ("plausible-jrf-angle", test_plausible_jrf_angle, 1);
+  ADD_LOOP ("cane-note", test_cane_note, 1);
   ADD_TABLE ("capacity", test_capacity, capacity_cases);
   ADD_TABLE ("errors", test_errors, error_cases);
   ADD_TABLE ("accepted", test_accepted, accept_cases);

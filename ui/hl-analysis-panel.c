@@ -564,6 +564,7 @@ build (HlAnalysisPanel *self)
   g_autofree char *target_note = NULL;
 
   gtk_box_append (box, heading (_("Inverse answers")));
+  gtk_box_append (box, caption (hl_inverse_caveat ()));
   self->for_label = caption ("");
   gtk_box_append (box, self->for_label);
 

@@ -129,9 +129,10 @@ format_change (const HlResultRow *row, double v, double native)
 }
 
 static char *
-format_flags (unsigned flags)
+format_flags (const HlResult *res)
 {
   GString *s = g_string_new (NULL);
+  unsigned flags = res->flags;
 
   for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
     {
@@ -140,6 +141,15 @@ format_flags (unsigned flags)
       if (s->len > 0)
         g_string_append_c (s, '\n');
       g_string_append_printf (s, "• %s", _(hl_flag_text ((HlFlag) bit)));
+      for (unsigned why = 1; bit == HL_FLAG_IMPLAUSIBLE && why != 0
+           && why <= HL_IMPLAUSIBLE_LAST; why <<= 1)
+        if (res->implausible & why)
+          {
+            char text[HL_ERROR_MESSAGE_MAX];
+            g_string_append_printf (s, "\n  – %s",
+                                    hl_implausible_describe (res, (HlImplausible) why,
+                                                             text, sizeof text));
+          }
     }
   if (s->len == 0)
     g_string_append (s, _("No flags"));
@@ -360,7 +370,7 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
       gtk_widget_set_visible (col->error, !ok && !common);
       if (ok)
         {
-          g_autofree char *flags = format_flags (s->result.flags);
+          g_autofree char *flags = format_flags (&s->result);
 
           gtk_label_set_text (GTK_LABEL (col->flags), flags);
           if (s->result.flags != 0)

@@ -729,6 +729,20 @@ hl_window_panel_sync_options (HlWindow *self)
 
 /* ---- all ------------------------------------------------------------ */
 
+/* The cane's caption: how much people put through a cane, and the plain
+ * note of the core when the cane is in the hand on the operated side. */
+void
+hl_window_panel_sync_cane_note (HlWindow *self)
+{
+  const char *usual = _("Patients rarely put more than about 20 per cent of body "
+                        "weight through a cane (Brand and Crowninshield 1980).");
+  const char *note = hl_plan_cane_note (self->plan);
+  g_autofree char *text = note != NULL ? g_strdup_printf ("%s\n%s", note, usual)
+                                       : g_strdup (usual);
+  if (g_strcmp0 (gtk_label_get_text (self->cane_note_label), text) != 0)
+    gtk_label_set_text (self->cane_note_label, text);
+}
+
 void
 hl_window_panel_sync (HlWindow *self)
 {
@@ -827,6 +841,7 @@ hl_window_panel_bind_template (GtkWidgetClass *widget_class)
   gtk_widget_class_bind_template_child (widget_class, HlWindow, option_hint_label);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_check);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_hand_drop);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_note_label);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_value_spin);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_unit_drop);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_distance_spin);

@@ -59,6 +59,7 @@ struct _HlWindow {
   /* aids page */
   GtkCheckButton *cane_check;
   GtkDropDown *cane_hand_drop;
+  GtkLabel *cane_note_label;
   GtkSpinButton *cane_value_spin;
   GtkDropDown *cane_unit_drop;
   GtkSpinButton *cane_distance_spin;
@@ -118,6 +119,7 @@ void hl_window_show_error (HlWindow *self, const char *primary,
 /* hl-window-panel.c */
 void hl_window_panel_init (HlWindow *self);
 void hl_window_panel_sync (HlWindow *self);
+void hl_window_panel_sync_cane_note (HlWindow *self);
 void hl_window_panel_sync_landmark (HlWindow *self, HlLandmarkId id);
 void hl_window_panel_sync_options (HlWindow *self);
 void hl_window_panel_select_landmark (HlWindow *self, int id);

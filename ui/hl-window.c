@@ -158,6 +158,7 @@ document_changed_cb (HlDocument *document, guint what, HlWindow *self)
     {
       hl_radiograph_page_plan_edited (self);
       hl_analysis_plan_edited (self);
+      hl_window_panel_sync_cane_note (self);
     }
   self->handles_dirty = TRUE;
 }

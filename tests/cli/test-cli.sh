@@ -394,6 +394,62 @@ else
   fail "the de_DE.UTF-8 locale is missing (tests/bootstrap.sh generates it)"
 fi
 
+# ---- plausibility guards -----------------------------------------------------------------
+
+# Magnification 1.0-1.5 from any calibration (HL_MAGNIFICATION_MIN/MAX; Brew
+# et al. 2012, J Arthroplasty 27:643-647 measured 1.17-1.234; the margin is
+# common practice): refused with exit 1, naming the magnification.
+run calibrate --two-point 0,0 160,0 --distance 100
+expect_rc 1 "calibrate: two points giving 1.6"
+check "calibrate names the magnification 1.600" err_has "magnification comes out at 1.600"
+run calibrate --marker 20,10 10,20 0,10
+expect_rc 1 "calibrate: a marker giving 0.8"
+check "calibrate names the magnification 0.800" err_has "magnification comes out at 0.800"
+run calibrate --two-point 0,0 150,0 --distance 100
+expect_rc 0 "calibrate: two points giving 1.5, the upper limit"
+sed 's/<calibration method="marker" magnification="1.2"/<calibration method="typed" magnification="1.6"/' \
+  "$DEMO" >"$WORK/typed16.hlplan"
+run solve "$WORK/typed16.hlplan"
+expect_rc 1 "solve: a typed magnification of 1.6"
+check "solve names the typed magnification" err_has "typed magnification is 1.6"
+# Calibration points that contradict the recorded magnification (the
+# demo's marker gives 1.2).
+sed 's/<calibration method="marker" magnification="1.2"/<calibration method="marker" magnification="1.25"/' \
+  "$DEMO" >"$WORK/contradict.hlplan"
+run validate "$WORK/contradict.hlplan"
+expect_rc 1 "validate: calibration points against the recorded magnification"
+check "the contradiction names both magnifications" err_has "1.200, but the plan records 1.250"
+
+# Implausible geometry: the demo's third option with the cup 40 mm medial
+# (limit 15 mm, common practice) carries the key "implausible" in the CSV
+# and the reasons in the text.
+sed 's/cup-medial-mm="4"/cup-medial-mm="40"/' "$DEMO" >"$WORK/implausible.hlplan"
+run solve "$WORK/implausible.hlplan" --format csv
+expect_rc 0 "solve --format csv of an implausible option"
+check "the CSV flags carry 'implausible'" grep -qE '^Medialised cup[^,]*,.*(^|[,;])implausible$' "$WORK/out"
+check "the plausible options carry no 'implausible'" sh -c "! grep -E '^(native|Standard stem),' '$WORK/out' | grep -q implausible"
+run solve "$WORK/implausible.hlplan"
+check "the text says which limit" out_has "more than the 15 mm a reconstruction usually moves it (common practice)"
+
+# A cane in the same-side hand: the note of Neumann 1998.
+sed 's/hand="contralateral" unit="percent-bw"/hand="ipsilateral" unit="percent-bw"/' "$DEMO" >"$WORK/ipsi.hlplan"
+run solve "$WORK/ipsi.hlplan"
+check "solve notes the same-side cane" out_has "held in the other hand it helps the hip more"
+run solve "$DEMO"
+check "no cane note for the opposite hand" out_lacks "held in the other hand"
+
+# Inverse answers about loads are planning estimates, not advice.
+run inverse "$DEMO"
+check "inverse says the answers are planning estimates" out_has "planning estimates of a static model"
+check "inverse says they are not advice to the patient" out_has "not advice to the patient"
+
+# An empty or incomplete plan gets plain words, not schema text.
+printf '<?xml version="1.0"?>\n<plan xmlns="urn:hiplever:plan" format-version="1">\n  <case label="x" mass-kg="70" operated-side="right"/>\n</plan>\n' >"$WORK/nolm.hlplan"
+run validate "$WORK/nolm.hlplan"
+expect_rc 1 "validate: a plan without landmarks"
+check "no landmarks: plain words" err_has "the plan has no landmarks: place at least the hip centre, the midline and the abductor insertion"
+check "no landmarks: no schema text" sh -c "! grep -q 'Expected is' '$WORK/err'"
+
 # ---- bench, as a smoke test (figures are not judged) ------------------------------------
 
 run bench --quick
