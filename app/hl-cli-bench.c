@@ -18,6 +18,7 @@
 #include <time.h>
 #include <unistd.h>
 
+#include "hl-batch.h"
 #include "hl-bench.h"
 #include "hl-i18n.h"
 #include "hl-plan.h"
@@ -43,6 +44,7 @@
 /* Targets, printed beside the figures. */
 #define HL_BENCH_SOLVE_TARGET_NS   50.0
 #define HL_BENCH_WHATIF_TARGET_MS  20.0
+#define HL_BENCH_BATCH_TARGET_MS    8.0
 #define HL_BENCH_FILES_TARGET_S     5.0
 
 /* Random what-if inputs are drawn beforehand into a table this size (a
@@ -242,6 +244,82 @@ fill_whatifs (HlBenchWhatIf *table, size_t n, double body_weight_n)
     }
 }
 
+/* The what-if table as a structure of arrays for hl_model_solve_batch(). */
+enum {
+  BATCH_CM, BATCH_CS, BATCH_FO, BATCH_FL, BATCH_HEAD, BATCH_NECK,
+  BATCH_CANE, BATCH_LOAD0, BATCH_LOAD1, BATCH_LOAD_MID, BATCH_N_IN
+};
+enum {
+  BATCH_ARM, BATCH_LEVER, BATCH_FA, BATCH_JX, BATCH_JY, BATCH_J, BATCH_ANGLE,
+  BATCH_N_OUT
+};
+
+/* The same what-ifs as the per-solve loop (the table cycled to `count`),
+ * solved in table-sized batches; the best of the passes in ms, or a
+ * negative value when out of memory. */
+static double
+bench_batch (const HlModel *model, const HlBenchWhatIf *table, long count,
+             long *refused)
+{
+  const size_t n = HL_BENCH_TABLE_SIZE;
+  double *in = malloc (BATCH_N_IN * n * sizeof *in);
+  double *out = malloc (BATCH_N_OUT * n * sizeof *out);
+  volatile double sink = 0.0;
+  double ms = INFINITY;
+
+  if (in == NULL || out == NULL)
+    {
+      free (in);
+      free (out);
+      return -1.0;
+    }
+  for (size_t i = 0; i < n; i++)
+    {
+      const HlBenchWhatIf *w = &table[i];
+      in[BATCH_CM * n + i] = w->recon.cup_medial_mm;
+      in[BATCH_CS * n + i] = w->recon.cup_superior_mm;
+      in[BATCH_FO * n + i] = w->recon.femoral_offset_mm;
+      in[BATCH_FL * n + i] = w->recon.femoral_length_mm;
+      in[BATCH_HEAD * n + i] = w->recon.head_length_mm;
+      in[BATCH_NECK * n + i] = w->recon.neck_shaft_angle_deg;
+      in[BATCH_CANE * n + i] = w->cane_n;
+      in[BATCH_LOAD0 * n + i] = w->load_n[0];
+      in[BATCH_LOAD1 * n + i] = w->load_n[1];
+      in[BATCH_LOAD_MID * n + i] = w->load_midline_n;
+    }
+  const HlBatchInput bin = {
+    in + BATCH_CM * n, in + BATCH_CS * n, in + BATCH_FO * n, in + BATCH_FL * n,
+    in + BATCH_HEAD * n, in + BATCH_NECK * n, in + BATCH_CANE * n,
+    { in + BATCH_LOAD0 * n, in + BATCH_LOAD1 * n }, in + BATCH_LOAD_MID * n,
+  };
+  const HlBatchOutput bout = {
+    out + BATCH_ARM * n, out + BATCH_LEVER * n, out + BATCH_FA * n,
+    out + BATCH_JX * n, out + BATCH_JY * n, out + BATCH_J * n,
+    out + BATCH_ANGLE * n,
+  };
+
+  *refused = 0;
+  for (int pass = 0; pass < HL_BENCH_WHATIF_PASSES; pass++)
+    {
+      long pass_refused = 0;
+      double t0 = now_ns ();
+      for (long done = 0; done < count; done += (long) n)
+        {
+          size_t chunk = count - done < (long) n ? (size_t) (count - done) : n;
+          pass_refused += (long) hl_model_solve_batch (model, &bin, &bout, chunk);
+          sink += bout.jrf_n[chunk - 1] + bout.jrf_angle_deg[chunk - 1];
+        }
+      double pass_ms = (now_ns () - t0) / NS_PER_MS;
+      if (pass_ms < ms)
+        ms = pass_ms;
+      *refused = pass_refused;
+    }
+  (void) sink;
+  free (in);
+  free (out);
+  return ms;
+}
+
 /* 2) random what-ifs: the fast way sets the prepared model's force fields
  * directly; re-preparing from the plan is timed beside it for comparison. */
 static bool
@@ -297,6 +375,23 @@ bench_whatif (const HlPlan *demo, long count)
                     "cane and loads set on the prepared model, best of %d (target <= %.0f ms "
                     "for %ld)\n"),
                   ms, count, HL_BENCH_WHATIF_PASSES, HL_BENCH_WHATIF_TARGET_MS, HL_BENCH_WHATIFS);
+
+  long refused = 0;
+  double batch_ms = bench_batch (&base, table, count, &refused);
+  if (batch_ms < 0.0)
+    {
+      hl_cli_error (_("bench: out of memory"));
+      free (table);
+      hl_plan_free (plan);
+      return false;
+    }
+  failed += refused;
+  hl_cli_fprintf (stdout,
+                  _("batch what-ifs: %.2f ms for the same %ld what-ifs on one core, "
+                    "structure of arrays with the joint force angle, best of %d "
+                    "(target <= %.0f ms for %ld)\n"),
+                  batch_ms, count, HL_BENCH_WHATIF_PASSES, HL_BENCH_BATCH_TARGET_MS,
+                  HL_BENCH_WHATIFS);
 
   long slow_count = count / HL_BENCH_REPREPARE_DIVISOR;
   plan->cane.unit = HL_FORCE_UNIT_N;

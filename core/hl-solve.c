@@ -12,6 +12,7 @@
 #include "hl-i18n.h"
 #include "hl-measure.h"
 #include "hl-solve.h"
+#include "hl-solve-private.h"
 
 #define DEG (M_PI / 180.0)
 /* Steeper than this and the teardrops cannot be meant as a horizontal
@@ -193,13 +194,8 @@ hl_implausible_describe_all (const HlResult *res, const char *sep, char *buf,
   return buf;
 }
 
-/* sin and cos of whole-degree neck-shaft angles, HL_NECK_SHAFT_MIN_DEG to
- * HL_NECK_SHAFT_MAX_DEG: stems are specified in whole degrees, so what-if
- * loops rarely need the library's trigonometry.  The values are those of
- * sin (a * DEG) and cos (a * DEG), printed to 17 digits. */
-#define HL_NECK_TABLE_FIRST 90
-#define HL_NECK_TABLE_LAST 170
-static const double neck_sin_cos[HL_NECK_TABLE_LAST - HL_NECK_TABLE_FIRST + 1][2] = {
+/* The whole-degree sines and cosines of hl-solve-private.h. */
+const double hl_neck_sin_cos[HL_NECK_TABLE_LAST - HL_NECK_TABLE_FIRST + 1][2] = {
   { 1.0, 6.123233995736766e-17 },  /* 90 deg */
   { 0.9998476951563913, -0.017452406437283477 },  /* 91 deg */
   { 0.9993908270190958, -0.034899496702500955 },  /* 92 deg */
@@ -283,37 +279,11 @@ static const double neck_sin_cos[HL_NECK_TABLE_LAST - HL_NECK_TABLE_FIRST + 1][2
   { 0.17364817766693028, -0.984807753012208 },  /* 170 deg */
 };
 
-/* Effective femoral offset and length changes; the head length only adds
- * trigonometry when it is non-zero (the common case is zero). */
-static inline void
-recon_femur_shift (const HlRecon *r, double *offset, double *length)
-{
-  *offset = r->femoral_offset_mm;
-  *length = r->femoral_length_mm;
-  if (r->head_length_mm != 0.0)
-    {
-      const double deg = r->neck_shaft_angle_deg;
-      double sa, ca;
-      if (deg >= HL_NECK_TABLE_FIRST && deg <= HL_NECK_TABLE_LAST && deg == (int) deg)
-        {
-          sa = neck_sin_cos[(int) deg - HL_NECK_TABLE_FIRST][0];
-          ca = neck_sin_cos[(int) deg - HL_NECK_TABLE_FIRST][1];
-        }
-      else
-        {
-          sa = sin (deg * DEG);
-          ca = cos (deg * DEG);
-        }
-      *offset += r->head_length_mm * sa;
-      *length -= r->head_length_mm * ca;
-    }
-}
-
 double
 hl_recon_total_offset (const HlRecon *r)
 {
   double offset, length;
-  recon_femur_shift (r, &offset, &length);
+  hl_recon_femur_shift (r, &offset, &length);
   return offset;
 }
 
@@ -321,7 +291,7 @@ double
 hl_recon_total_length (const HlRecon *r)
 {
   double offset, length;
-  recon_femur_shift (r, &offset, &length);
+  hl_recon_femur_shift (r, &offset, &length);
   return length;
 }
 
@@ -435,7 +405,7 @@ hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *
     {
       cm = recon->cup_medial_mm;
       cs = recon->cup_superior_mm;
-      recon_femur_shift (recon, &fo, &fl);
+      hl_recon_femur_shift (recon, &fo, &fl);
       if (!isfinite (cm + cs + fo + fl))
         return hl_error_set (err, HL_ERR_INVALID, "option",
                              _("A reconstruction parameter is not a finite number"));

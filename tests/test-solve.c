@@ -24,10 +24,12 @@
 #include "config.h"
 
 #include <math.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
+#include "hl-batch.h"
 #include "hl-test-util.h"
 
 #define N_ELEMENTS(a) (sizeof (a) / sizeof ((a)[0]))
@@ -1546,6 +1548,165 @@ START_TEST (test_neck_table)
 }
 END_TEST
 
+/* ---- The batch solve ---------------------------------------------------- */
+
+/* hl_model_solve_batch() against hl_model_solve() what-if by what-if:
+ * random reconstructions (whole and fractional neck-shaft angles, zero and
+ * non-zero head lengths), random aids and loads up to twice body weight
+ * (so that the joint force turns through the whole quadrant), some
+ * what-ifs the solve refuses, for both hips, the abductor line by points
+ * and by angle, the forces given per what-if and taken from the model. */
+#define BATCH_N 1000
+#define BATCH_TOL_REL 1e-12
+#define BATCH_SEED UINT64_C(0x9E3779B97F4A7C15)
+
+static double
+batch_uniform (uint64_t *state, double lo, double hi)
+{
+  /* splitmix64 (Steele, Lea & Flood 2014, OOPSLA) */
+  uint64_t z = (*state += UINT64_C(0x9E3779B97F4A7C15));
+  z = (z ^ (z >> 30)) * UINT64_C(0xBF58476D1CE4E5B9);
+  z = (z ^ (z >> 27)) * UINT64_C(0x94D049BB133111EB);
+  z ^= z >> 31;
+  return lo + (hi - lo) * ((double) (z >> 11) * 0x1.0p-53);
+}
+
+static void
+batch_ck_rel (double got, double want, const char *what, size_t i)
+{
+  double scale = fmax (fabs (got), fabs (want));
+  ck_assert_msg (fabs (got - want) <= BATCH_TOL_REL * scale,
+                 "what-if %zu: %s %.17g from the batch, %.17g from the solve",
+                 i, what, got, want);
+}
+
+START_TEST (test_batch)
+{
+  const bool angle_line = _i & 1, per_whatif_forces = _i & 2;
+  HlPlan *plan = hl_test_base_plan (_i & 4 ? HL_SIDE_LEFT : HL_SIDE_RIGHT);
+  HlModel model;
+  HlError err;
+  static double in[10][BATCH_N], out[7][BATCH_N];
+  uint64_t state = BATCH_SEED + (uint64_t) _i;
+
+  if (angle_line)
+    plan->model.abductor_line = HL_ABDUCTOR_LINE_ANGLE;
+  plan->cane.enabled = true;
+  plan->cane.unit = HL_FORCE_UNIT_N;
+  plan->cane.value = 100.0;
+  plan->cane.distance_mm = 260.0;
+  plan->loads.hand[HL_HAND_IPSILATERAL] = (HlHandLoad) { 3.0, 220.0 };
+  plan->loads.hand[HL_HAND_CONTRALATERAL] = (HlHandLoad) { 2.0, 210.0 };
+  plan->loads.midline_kg = 1.5;
+  hl_error_clear (&err);
+  ck_assert_msg (hl_model_prepare (&model, plan, &err) == HL_OK, "%s", err.message);
+
+  const double bw = model.body_weight_n;
+  for (size_t i = 0; i < BATCH_N; i++)
+    {
+      /* cup and femur moves up to 60 mm: some lines pass through the hip
+       * centre or the midline crosses it, and the solve refuses them */
+      const double reach = i % 10 == 0 ? 60.0 : 10.0;
+      for (int k = 0; k < 4; k++)
+        in[k][i] = batch_uniform (&state, -reach, reach);
+      in[4][i] = i % 3 == 0 ? 0.0 : batch_uniform (&state, -4.0, 8.0);
+      in[5][i] = i % 4 == 0 ? batch_uniform (&state, 120.0, 140.0)
+                            : floor (batch_uniform (&state, 85.0, 176.0));
+      in[6][i] = batch_uniform (&state, 0.0, 2.0 * bw);
+      for (int k = 7; k < 10; k++)
+        in[k][i] = batch_uniform (&state, 0.0, 0.2 * bw);
+    }
+  in[0][7] = NAN;       /* not a finite number: refused */
+
+  const HlBatchInput bin = {
+    in[0], in[1], in[2], in[3], in[4], in[5],
+    per_whatif_forces ? in[6] : NULL,
+    { per_whatif_forces ? in[7] : NULL, per_whatif_forces ? in[8] : NULL },
+    per_whatif_forces ? in[9] : NULL,
+  };
+  const HlBatchOutput bout = { out[0], out[1], out[2], out[3], out[4], out[5], out[6] };
+  size_t refused = hl_model_solve_batch (&model, &bin, &bout, BATCH_N);
+
+  size_t want_refused = 0;
+  for (size_t i = 0; i < BATCH_N; i++)
+    {
+      HlModel m = model;
+      HlRecon r;
+      HlResult res;
+      hl_recon_init (&r);
+      r.cup_medial_mm = in[0][i];
+      r.cup_superior_mm = in[1][i];
+      r.femoral_offset_mm = in[2][i];
+      r.femoral_length_mm = in[3][i];
+      r.head_length_mm = in[4][i];
+      r.neck_shaft_angle_deg = in[5][i];
+      if (per_whatif_forces)
+        {
+          m.cane_n = in[6][i];
+          m.load_n[0] = in[7][i];
+          m.load_n[1] = in[8][i];
+          m.load_midline_n = in[9][i];
+        }
+      if (hl_model_solve (&m, &r, &res, NULL) != HL_OK)
+        {
+          want_refused++;
+          for (int k = 0; k < 7; k++)
+            ck_assert_msg (isnan (out[k][i]), "what-if %zu: refused, output %d not NaN", i, k);
+          continue;
+        }
+      batch_ck_rel (out[0][i], res.abductor_arm_mm, "abductor arm", i);
+      batch_ck_rel (out[1][i], res.lever_ratio, "lever ratio", i);
+      batch_ck_rel (out[2][i], res.abductor_force_n, "abductor force", i);
+      batch_ck_rel (out[3][i], res.jrf_x_n, "joint force x", i);
+      batch_ck_rel (out[4][i], res.jrf_y_n, "joint force y", i);
+      batch_ck_rel (out[5][i], res.jrf_n, "joint force", i);
+      batch_ck_rel (out[6][i], hl_result_jrf_angle_deg (&res), "joint force angle", i);
+    }
+  ck_assert_uint_eq (refused, want_refused);
+  /* the cases must reach both outcomes and the whole quadrant */
+  ck_assert_uint_gt (want_refused, 0);
+  ck_assert_uint_lt (want_refused, BATCH_N / 4);
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* The batch's arctangent over the whole quadrant against the C library's,
+ * through the joint force angle: J = (k ux, ...) with the cane swept from
+ * none to twice body weight turns J from near vertical through horizontal
+ * to upwards. */
+START_TEST (test_batch_angle_range)
+{
+  HlPlan *plan = hl_test_base_plan (HL_SIDE_RIGHT);
+  HlModel model;
+  HlError err;
+  enum { N = 4001 };
+  static double zero[N], neck[N], cane[N], out[7][N];
+
+  hl_error_clear (&err);
+  ck_assert_msg (hl_model_prepare (&model, plan, &err) == HL_OK, "%s", err.message);
+  for (size_t i = 0; i < N; i++)
+    {
+      zero[i] = 0.0;
+      neck[i] = 135.0;
+      cane[i] = 3.0 * model.body_weight_n * (double) i / (N - 1);
+    }
+  const HlBatchInput bin = { zero, zero, zero, zero, zero, neck, cane, { NULL, NULL }, NULL };
+  const HlBatchOutput bout = { out[0], out[1], out[2], out[3], out[4], out[5], out[6] };
+  ck_assert_uint_eq (hl_model_solve_batch (&model, &bin, &bout, N), 0);
+  double lo = 90.0, hi = 0.0;
+  for (size_t i = 0; i < N; i++)
+    {
+      double want = atan2 (fabs (out[3][i]), fabs (out[4][i])) * (180.0 / M_PI);
+      batch_ck_rel (out[6][i], want, "joint force angle", i);
+      lo = fmin (lo, out[6][i]);
+      hi = fmax (hi, out[6][i]);
+    }
+  ck_assert_double_lt (lo, 1.0);
+  ck_assert_double_gt (hi, 80.0);
+  hl_plan_free (plan);
+}
+END_TEST
+
 static Suite *
 solve_suite (void)
 {
@@ -1587,6 +1748,8 @@ solve_suite (void)
   ADD_LOOP ("solve-all", test_solve_all, 1);
   ADD_LOOP ("forces-balance", test_forces_balance, 2);
   ADD_LOOP ("neck-table", test_neck_table, 161);
+  ADD_LOOP ("batch", test_batch, 8);
+  ADD_LOOP ("batch-angle-range", test_batch_angle_range, 1);
 
 #undef ADD_LOOP
 #undef ADD_TABLE
