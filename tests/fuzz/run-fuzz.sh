@@ -2,11 +2,14 @@
 # Builds the fuzz targets with clang (libFuzzer, AddressSanitizer,
 # UndefinedBehaviorSanitizer) straight from the core sources and runs them.
 #
-#   sh tests/fuzz/run-fuzz.sh [--seconds N] [--target load|core|all]
-#                             [--workdir DIR] [--config-h FILE]
+#   sh tests/fuzz/run-fuzz.sh [--seconds N] [--target NAME|all]
+#                             [--workdir DIR] [--config-h FILE] [--parallel]
 #
 # --seconds   run time of each target (default 30: the CI short run of
 #             about 60 s for both)
+# --target    one target (tests/fuzz/hl-fuzz-NAME.c) or all of them
+# --parallel  run the targets at the same time instead of one after the
+#             other (each still for --seconds of wall-clock time)
 # --workdir   where objects, the growing corpus and crash files go
 #             (default /tmp/hiplever-fuzz); reused between runs, so a long
 #             run keeps its corpus
@@ -27,6 +30,7 @@ seconds=30
 target=all
 workdir=/tmp/hiplever-fuzz
 config_h=""
+parallel=0
 
 while [ $# -gt 0 ]; do
   case "$1" in
@@ -34,13 +38,22 @@ while [ $# -gt 0 ]; do
   --target) target=$2; shift 2 ;;
   --workdir) workdir=$2; shift 2 ;;
   --config-h) config_h=$2; shift 2 ;;
+  --parallel) parallel=1; shift ;;
   *) echo "run-fuzz: unknown argument $1" >&2; exit 2 ;;
   esac
 done
+# Every tests/fuzz/hl-fuzz-NAME.c but the replay driver is a target.
+all_targets=$(for f in "$here"/tests/fuzz/hl-fuzz-*.c; do
+  n=$(basename "$f" .c); n=${n#hl-fuzz-}
+  [ "$n" = replay ] || printf '%s ' "$n"
+done)
 case "$target" in
-load|core) targets=$target ;;
-all) targets="load core" ;;
-*) echo "run-fuzz: --target must be load, core or all" >&2; exit 2 ;;
+all) targets=$all_targets ;;
+*)
+  case " $all_targets " in
+  *" $target "*) targets=$target ;;
+  *) echo "run-fuzz: --target must be one of: $all_targets all" >&2; exit 2 ;;
+  esac ;;
 esac
 case "$seconds" in
 ''|*[!0-9]*) echo "run-fuzz: --seconds must be a whole number" >&2; exit 2 ;;
@@ -112,35 +125,61 @@ for t in $targets; do
     $xml_libs -lm -o "fuzz-$t"
 done
 
-status=0
-for t in $targets; do
+# run_target T: runs target T, writes its figures to result-T and
+# returns nonzero on a finding.
+run_target () {
+  t=$1
   mkdir -p "corpus-$t" "artifacts-$t"
+  seeds=""
+  for d in "$here/tests/fuzz/corpus/$t" "$here/tests/fuzz/regressions/$t"; do
+    [ -d "$d" ] && seeds="$seeds $d"
+  done
   case $t in
   load)
-    seeds="$here/tests/fuzz/regressions/load"
     [ -d "$here/data/examples" ] && seeds="$seeds $here/data/examples"
     extra="-dict=plan.dict -max_len=65536"
     ;;
-  core)
-    seeds="$here/tests/fuzz/corpus/core $here/tests/fuzz/regressions/core"
-    extra="-max_len=2048"
-    ;;
+  core) extra="-max_len=2048" ;;
+  *) extra="-max_len=1048576" ;;
   esac
   echo "run-fuzz: $t for $seconds s"
+  before=$(ls "artifacts-$t" | wc -l)
+  start=$(date +%s)
   # -rss_limit_mb and -timeout make a memory blow-up or a hang a finding.
   # shellcheck disable=SC2086
   if LC_ALL=C TZ=UTC ASAN_OPTIONS=detect_leaks=1 \
      UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
-     nice -n 10 "./fuzz-$t" -max_total_time="$seconds" -timeout=10 -rss_limit_mb=512 \
-       -print_final_stats=1 -artifact_prefix="artifacts-$t/" \
+     nice -n "${FUZZ_NICE:-10}" "./fuzz-$t" -max_total_time="$seconds" -timeout=10 \
+       -rss_limit_mb=512 -print_final_stats=1 -artifact_prefix="artifacts-$t/" \
        $extra "corpus-$t" $seeds > "fuzz-$t.log" 2>&1; then
     result="no crash, hang or leak"
+    rc=0
   else
     result="FAILED: see $workdir/fuzz-$t.log and $workdir/artifacts-$t/"
-    status=1
+    rc=1
     tail -n 60 "fuzz-$t.log" >&2
   fi
+  end=$(date +%s)
   execs=$(sed -n 's/^stat::number_of_executed_units: *//p' "fuzz-$t.log" | tail -n 1)
-  echo "run-fuzz: $t: ${execs:-?} executions, corpus $(ls "corpus-$t" | wc -l) files: $result"
-done
+  findings=$(( $(ls "artifacts-$t" | wc -l) - before ))
+  line="run-fuzz: $t: ${execs:-?} executions in $((end - start)) s, corpus $(ls "corpus-$t" | wc -l) files, $findings new findings: $result"
+  echo "$line" | tee "result-$t"
+  return $rc
+}
+
+status=0
+if [ "$parallel" = 1 ]; then
+  pids=""
+  for t in $targets; do
+    run_target "$t" &
+    pids="$pids $!"
+  done
+  for p in $pids; do
+    wait "$p" || status=1
+  done
+else
+  for t in $targets; do
+    run_target "$t" || status=1
+  done
+fi
 exit $status
