@@ -15,6 +15,7 @@
 #include <stddef.h>
 #include <stdlib.h>
 #include <string.h>
+#include <time.h>
 #include <unistd.h>
 
 #include "hl-i18n.h"
@@ -32,7 +33,7 @@
 
 enum { SOLVE_OPT_FORMAT };
 enum { SUMMARY_OPT_OUTPUT };
-enum { BATCH_OPT_CSV };
+enum { BATCH_OPT_CSV, BATCH_OPT_KEEP_GOING };
 enum { BENCH_OPT_QUICK };
 
 static const HlCliOption solve_options[] = {
@@ -44,14 +45,20 @@ static const HlCliOption solve_options[] = {
 
 static const HlCliOption summary_options[] = {
   { "output", 'o', N_("OUT.xml"),
-    N_("where to write the planning summary (required; written atomically)") },
+    N_("where to write the planning summary (required; written atomically; "
+       "- for standard output)") },
   { NULL },
 };
 
 static const HlCliOption batch_options[] = {
   { "csv", 0, N_("OUT"),
-    N_("where to write the table (required); written only when every plan "
-       "succeeds") },
+    N_("where to write the table (required; - for standard output, where the "
+       "rows go out as the plans are solved); without --keep-going a file is "
+       "written only when every plan succeeds") },
+  { "keep-going", 0, NULL,
+    N_("go on after a plan fails: OUT holds the plans that solved, and "
+       "OUT-failures (\"-failures\" before the extension: results-failures.csv) "
+       "the columns plan,error; exit status 3 when some failed") },
   { NULL },
 };
 
@@ -81,10 +88,11 @@ static const HlCliCommand commands[] = {
     N_("Load, check and solve each plan; print \"PLAN: valid (N options)\" "
        "or what is wrong."),
     no_options, 1, -1, cmd_validate },
-  { "batch", "PLAN... --csv OUT",
+  { "batch", "PLAN... --csv OUT [--keep-going]",
     N_("Solve many plans into one CSV table with a first column \"plan\". "
        "If any plan fails, each failure is reported, nothing is written and "
-       "the exit status is 1."),
+       "the exit status is 1 (but see --keep-going). Each plan has a time "
+       "budget of 10 s for loading and solving."),
     batch_options, 1, -1, cmd_batch },
   { "bench", "[--quick]",
     N_("Time the core: one solve, random what-if solves, loading plan files, "
@@ -165,6 +173,9 @@ print_help (void)
   hl_cli_fprintf (stdout, "  2  %s\n",
                   _("usage error: unknown subcommand or option, or a missing "
                     "argument"));
+  hl_cli_fprintf (stdout, "  3  %s\n",
+                  _("batch --keep-going: some plans failed (listed in the "
+                    "failures table)"));
   hl_cli_fprintf (stdout, "\n%s\n", hl_caution_text ());
 }
 
@@ -684,14 +695,31 @@ cmd_summary (const HlCliCommand *cmd, const HlCliArgs *args)
     return hl_cli_usage_error (_("%s: missing -o OUT.xml (where to write the "
                                  "summary)"), cmd->name);
 
+  int status = hl_cli_check_output (cmd->name, out, true, args->operands,
+                                    args->n_operands);
+  if (status != HL_CLI_EXIT_OK)
+    return status;
   HlPlan *plan = hl_cli_load_plan (path);
   if (plan == NULL)
     return HL_CLI_EXIT_INVALID;
 
   HlError err;
   hl_error_clear (&err);
-  HlStatus st = hl_summary_save_file (plan, out, &err);
+  HlStatus st;
+  if (hl_cli_is_stdout (out))
+    {
+      char *xml = NULL;
+      size_t size = 0;
+      st = hl_summary_to_buffer (plan, NULL, &xml, &size, &err);
+      if (st == HL_OK)
+        status = hl_cli_write_output (out, xml, size);
+      free (xml);
+    }
+  else
+    st = hl_summary_save_file (plan, out, &err);
   hl_plan_free (plan);
+  if (status != HL_CLI_EXIT_OK)
+    return status;
   if (st != HL_OK)
     {
       /* An I/O failure is the output's; anything else is the plan's. */
@@ -730,35 +758,252 @@ cmd_validate (const HlCliCommand *cmd, const HlCliArgs *args)
 
 /* ---- batch ------------------------------------------------------------- */
 
+/* Where the table goes: a file written atomically as it grows, or
+ * standard output. */
+typedef struct {
+  const char *path;
+  HlOutFile *file;   /* NULL for standard output */
+  int status;        /* the first failure's exit status */
+} BatchOut;
+
+static int
+batch_out_open (BatchOut *o, const char *path)
+{
+  o->path = path;
+  o->file = NULL;
+  o->status = HL_CLI_EXIT_OK;
+  if (hl_cli_is_stdout (path))
+    return HL_CLI_EXIT_OK;
+  HlError err;
+  hl_error_clear (&err);
+  if (hl_out_file_open (path, false, &o->file, &err) != HL_OK)
+    {
+      hl_cli_report_error (path, NULL, &err);
+      return HL_CLI_EXIT_INVALID;
+    }
+  return HL_CLI_EXIT_OK;
+}
+
+/* Writes and empties buf. */
+static void
+batch_out_put (BatchOut *o, HlBuf *buf)
+{
+  if (buf->failed && o->status == HL_CLI_EXIT_OK)
+    {
+      hl_cli_error (_("%s: out of memory"), o->path);
+      o->status = HL_CLI_EXIT_INVALID;
+    }
+  if (o->status == HL_CLI_EXIT_OK && buf->len > 0)
+    {
+      HlError err;
+      hl_error_clear (&err);
+      if (o->file == NULL)
+        {
+          if (fwrite (buf->data, 1, buf->len, stdout) != buf->len)
+            o->status = HL_CLI_EXIT_INVALID;
+        }
+      else if (hl_out_file_write (o->file, buf->data, buf->len, &err) != HL_OK)
+        {
+          hl_cli_report_error (o->path, NULL, &err);
+          o->status = HL_CLI_EXIT_INVALID;
+        }
+    }
+  hl_buf_clear (buf);
+  hl_buf_init (buf);
+}
+
+/* Keeps the file (commit) or leaves what was there (abort). */
+static int
+batch_out_close (BatchOut *o, bool keep)
+{
+  if (o->file == NULL)
+    return o->status;
+  if (!keep || o->status != HL_CLI_EXIT_OK)
+    {
+      hl_out_file_abort (o->file);
+      return o->status;
+    }
+  HlError err;
+  hl_error_clear (&err);
+  if (hl_out_file_commit (o->file, &err) != HL_OK)
+    {
+      hl_cli_report_error (o->path, NULL, &err);
+      return HL_CLI_EXIT_INVALID;
+    }
+  return HL_CLI_EXIT_OK;
+}
+
+/* OUT with "-failures" before the extension: results.csv gives
+ * results-failures.csv, results gives results-failures.  Malloc'd. */
+static char *
+failures_path (const char *out)
+{
+  const char *slash = strrchr (out, '/');
+  const char *base = slash != NULL ? slash + 1 : out;
+  const char *dot = strrchr (base, '.');
+  if (dot == NULL || dot == base)
+    dot = base + strlen (base);
+  size_t n = strlen (out) + sizeof HL_CLI_FAILURES_SUFFIX;
+  char *path = malloc (n);
+  if (path != NULL)
+    snprintf (path, n, "%.*s" HL_CLI_FAILURES_SUFFIX "%s", (int) (dot - out), out, dot);
+  return path;
+}
+
+static double
+seconds_now (void)
+{
+  struct timespec ts;
+  clock_gettime (CLOCK_MONOTONIC, &ts);
+  return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
+}
+
+/* Loads and solves one plan of a batch; on failure err says why, with the
+ * option at fault in front. */
+static HlResult *
+batch_solve (const char *path, HlPlan **plan_out, HlError *err)
+{
+  HlPlan *plan = NULL;
+  double start = seconds_now ();
+
+  *plan_out = NULL;
+  if (hl_plan_load_file (path, &plan, err) != HL_OK)
+    return NULL;
+  HlModel model;
+  HlResult *results = NULL;
+  if (hl_model_prepare (&model, plan, err) == HL_OK)
+    {
+      results = calloc (plan->n_options + 1, sizeof *results);
+      if (results == NULL)
+        hl_error_set (err, HL_ERR_NOMEM, "", "%s", _("out of memory"));
+    }
+  for (size_t i = 0; results != NULL && i <= plan->n_options; i++)
+    {
+      const HlRecon *recon = i == 0 ? NULL : &plan->options[i - 1].recon;
+      HlError step;
+      hl_error_clear (&step);
+      if (hl_model_solve (&model, recon, &results[i], &step) != HL_OK)
+        {
+          char context[HL_NAME_MAX + HL_CLI_NUMBER_MAX];
+          if (i == 0)
+            snprintf (context, sizeof context, "%s", _("native"));
+          else
+            snprintf (context, sizeof context, _("option \"%s\""),
+                      plan->options[i - 1].name);
+          hl_error_set (err, step.status, step.field, "%s: %s", context, step.message);
+          free (results);
+          results = NULL;
+        }
+    }
+  double took = seconds_now () - start;
+  if (results != NULL && took > HL_CLI_BATCH_PLAN_SECONDS)
+    {
+      hl_error_set (err, HL_ERR_INVALID, "",
+                    _("loading and solving took %.1f s, over the time budget of %d s "
+                      "per plan"), took, HL_CLI_BATCH_PLAN_SECONDS);
+      free (results);
+      results = NULL;
+    }
+  if (results == NULL)
+    {
+      hl_plan_free (plan);
+      return NULL;
+    }
+  *plan_out = plan;
+  return results;
+}
+
 static int
 cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
 {
   const char *out = args->value[BATCH_OPT_CSV];
+  bool keep_going = args->value[BATCH_OPT_KEEP_GOING] != NULL;
   bool progress = isatty (STDERR_FILENO);
   bool progress_shown = false;
   int n_failed = 0;
-  HlBuf buf;
 
   if (out == NULL)
     return hl_cli_usage_error (_("%s: missing --csv OUT (where to write the "
                                  "table)"), cmd->name);
+  int status = hl_cli_check_output (cmd->name, out, true, args->operands,
+                                    args->n_operands);
+  if (status != HL_CLI_EXIT_OK)
+    return status;
 
+  /* The failures table, with --keep-going and a file for the table. */
+  char *fail_path = NULL;
+  BatchOut fail_out = { 0 };
+  HlBuf fail_buf;
+  hl_buf_init (&fail_buf);
+  if (keep_going && !hl_cli_is_stdout (out))
+    {
+      fail_path = failures_path (out);
+      if (fail_path == NULL)
+        {
+          hl_cli_error (_("%s: out of memory"), cmd->name);
+          return HL_CLI_EXIT_INVALID;
+        }
+      status = hl_cli_check_output (cmd->name, fail_path, false, args->operands,
+                                    args->n_operands);
+      if (status == HL_CLI_EXIT_OK)
+        status = batch_out_open (&fail_out, fail_path);
+      if (status != HL_CLI_EXIT_OK)
+        {
+          free (fail_path);
+          return status;
+        }
+      hl_buf_puts (&fail_buf, "plan,error\n");
+    }
+
+  BatchOut table;
+  status = batch_out_open (&table, out);
+  if (status != HL_CLI_EXIT_OK)
+    {
+      if (fail_path != NULL)
+        batch_out_close (&fail_out, false);
+      free (fail_path);
+      return status;
+    }
+  HlBuf buf;
   hl_buf_init (&buf);
   csv_header (&buf, true);
+  batch_out_put (&table, &buf);
 
   for (int i = 0; i < args->n_operands; i++)
     {
       const char *path = args->operands[i];
+      HlPlan *plan = NULL;
+      HlError err;
 
       if (progress_shown)
         hl_cli_fprintf (stderr, "\r");
-      HlPlan *plan = hl_cli_load_plan (path);
-      HlResult *results = plan != NULL ? solve_plan (path, plan) : NULL;
-
+      hl_error_clear (&err);
+      HlResult *results = batch_solve (path, &plan, &err);
       if (results != NULL)
-        csv_rows (&buf, path, plan, results);
+        {
+          hl_cli_check_radiograph (path, plan);
+          /* Without --keep-going a file is dropped after the first failure,
+           * so its rows need not be written. */
+          if (keep_going || n_failed == 0 || table.file == NULL)
+            {
+              csv_rows (&buf, path, plan, results);
+              batch_out_put (&table, &buf);
+            }
+        }
       else
-        n_failed++;
+        {
+          n_failed++;
+          hl_cli_report_error (path, NULL, &err);
+          if (fail_path != NULL)
+            {
+              hl_buf_csv_field (&fail_buf, path);
+              hl_buf_append (&fail_buf, ",", 1);
+              hl_buf_csv_field (&fail_buf, err.message[0] != '\0'
+                                           ? err.message : hl_status_name (err.status));
+              hl_buf_append (&fail_buf, "\n", 1);
+              batch_out_put (&fail_out, &fail_buf);
+            }
+        }
       free (results);
       hl_plan_free (plan);
 
@@ -770,36 +1015,53 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
     }
   if (progress_shown)
     hl_cli_fprintf (stderr, "\n");
+  hl_buf_clear (&buf);
 
-  int status = HL_CLI_EXIT_OK;
+  if (keep_going)
+    {
+      status = batch_out_close (&table, true);
+      if (fail_path != NULL)
+        {
+          batch_out_put (&fail_out, &fail_buf);
+          int fs = batch_out_close (&fail_out, true);
+          if (status == HL_CLI_EXIT_OK)
+            status = fs;
+        }
+      hl_buf_clear (&fail_buf);
+      if (status == HL_CLI_EXIT_OK && n_failed > 0)
+        {
+          if (fail_path != NULL)
+            hl_cli_error (ngettext ("%s: %d of %d plan failed; the table of the others "
+                                    "is in %s, the failures in %s",
+                                    "%s: %d of %d plans failed; the table of the others "
+                                    "is in %s, the failures in %s", args->n_operands),
+                          cmd->name, n_failed, args->n_operands, out, fail_path);
+          else
+            hl_cli_error (ngettext ("%s: %d of %d plan failed",
+                                    "%s: %d of %d plans failed", args->n_operands),
+                          cmd->name, n_failed, args->n_operands);
+          status = HL_CLI_EXIT_PARTIAL;
+        }
+      free (fail_path);
+      return status;
+    }
+
   if (n_failed > 0)
     {
-      hl_cli_error (ngettext ("%s: %d of %d plan failed; nothing was written "
-                              "to %s",
-                              "%s: %d of %d plans failed; nothing was written "
-                              "to %s", args->n_operands),
-                    cmd->name, n_failed, args->n_operands, out);
-      status = HL_CLI_EXIT_INVALID;
+      batch_out_close (&table, false);
+      if (table.file != NULL)
+        hl_cli_error (ngettext ("%s: %d of %d plan failed; nothing was written "
+                                "to %s",
+                                "%s: %d of %d plans failed; nothing was written "
+                                "to %s", args->n_operands),
+                      cmd->name, n_failed, args->n_operands, out);
+      else
+        hl_cli_error (ngettext ("%s: %d of %d plan failed",
+                                "%s: %d of %d plans failed", args->n_operands),
+                      cmd->name, n_failed, args->n_operands);
+      return HL_CLI_EXIT_INVALID;
     }
-  else if (buf.failed)
-    {
-      hl_cli_error (_("%s: out of memory; nothing was written to %s"),
-                    cmd->name, out);
-      status = HL_CLI_EXIT_INVALID;
-    }
-  else
-    {
-      HlError err;
-
-      hl_error_clear (&err);
-      if (hl_write_file_atomic (out, buf.data, buf.len, &err) != HL_OK)
-        {
-          hl_cli_report_error (out, NULL, &err);
-          status = HL_CLI_EXIT_INVALID;
-        }
-    }
-  hl_buf_clear (&buf);
-  return status;
+  return batch_out_close (&table, true);
 }
 
 /* ---- bench ------------------------------------------------------------- */

@@ -91,14 +91,15 @@ const HlCliOption hl_cli_uncertainty_options[] = {
 
 const HlCliOption hl_cli_report_options[] = {
   { "output", 'o', N_("OUT.pdf"),
-    N_("where to write the report (required; written atomically)") },
+    N_("where to write the report (required; written atomically; not - : "
+       "a PDF is not written to standard output)") },
   { NULL },
 };
 
 const HlCliOption hl_cli_figure_options[] = {
   { "output", 'o', N_("OUT.svg|OUT.png"),
     N_("where to write the figure (required); the format follows the "
-       "extension") },
+       "extension (not - : a figure is not written to standard output)") },
   { "size", 0, N_("WxH"),
     N_("width and height in px (SVG: pt), 64 to 8192 each (default 1200x900)") },
   { "option", 0, N_("N"),
@@ -605,6 +606,10 @@ hl_cli_report (const HlCliCommand *cmd, const HlCliArgs *args)
   if (out == NULL)
     return hl_cli_usage_error (_("%s: missing -o OUT.pdf (where to write the report)"),
                                cmd->name);
+  int status = hl_cli_check_output (cmd->name, out, false, args->operands,
+                                    args->n_operands);
+  if (status != HL_CLI_EXIT_OK)
+    return status;
 
   HlPlan *plan = hl_cli_load_plan (path);
   if (plan == NULL)
@@ -652,6 +657,10 @@ hl_cli_figure (const HlCliCommand *cmd, const HlCliArgs *args)
   if (out == NULL)
     return hl_cli_usage_error (_("%s: missing -o OUT.svg or -o OUT.png (where to write the "
                                  "figure)"), cmd->name);
+  int status = hl_cli_check_output (cmd->name, out, false, args->operands,
+                                    args->n_operands);
+  if (status != HL_CLI_EXIT_OK)
+    return status;
   if (!hl_figure_format_from_path (out, &format))
     return hl_cli_usage_error (_("%s: '%s' ends neither in .svg nor in .png"), cmd->name, out);
   if (size_text != NULL)

@@ -184,3 +184,62 @@ hl_cli_load_plan (const char *path)
   hl_cli_check_radiograph (path, plan);
   return plan;
 }
+
+/* ---- Output files ------------------------------------------------------ */
+
+bool
+hl_cli_is_stdout (const char *out)
+{
+  return out != NULL && strcmp (out, "-") == 0;
+}
+
+int
+hl_cli_check_output (const char *command, const char *out, bool stdout_ok,
+                     char *const *inputs, int n_inputs)
+{
+  if (hl_cli_is_stdout (out))
+    {
+      if (stdout_ok)
+        return HL_CLI_EXIT_OK;
+      return hl_cli_usage_error (_("%s: '-' (standard output) is only for text "
+                                   "outputs; give a file name"), command);
+    }
+  for (int i = 0; i < n_inputs; i++)
+    if (hl_file_same (out, inputs[i]))
+      {
+        hl_cli_error (_("%s: the output %s is the input %s: refused, so that the "
+                        "input is not overwritten; nothing was written"),
+                      command, out, inputs[i]);
+        return HL_CLI_EXIT_INVALID;
+      }
+  HlError err;
+  hl_error_clear (&err);
+  if (hl_output_path_check (out, &err) != HL_OK)
+    {
+      hl_cli_report_error (out, NULL, &err);
+      return HL_CLI_EXIT_INVALID;
+    }
+  return HL_CLI_EXIT_OK;
+}
+
+int
+hl_cli_write_output (const char *out, const void *data, size_t size)
+{
+  if (hl_cli_is_stdout (out))
+    {
+      if (size > 0 && fwrite (data, 1, size, stdout) != size)
+        {
+          hl_cli_error (_("could not write to standard output"));
+          return HL_CLI_EXIT_INVALID;
+        }
+      return HL_CLI_EXIT_OK;
+    }
+  HlError err;
+  hl_error_clear (&err);
+  if (hl_write_file_atomic (out, data, size, &err) != HL_OK)
+    {
+      hl_cli_report_error (out, NULL, &err);
+      return HL_CLI_EXIT_INVALID;
+    }
+  return HL_CLI_EXIT_OK;
+}

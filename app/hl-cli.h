@@ -26,7 +26,14 @@ typedef enum {
   HL_CLI_EXIT_OK = 0,
   HL_CLI_EXIT_INVALID = 1,   /* invalid input, or an output that could not be written */
   HL_CLI_EXIT_USAGE = 2,     /* unknown subcommand or option, missing argument */
+  HL_CLI_EXIT_PARTIAL = 3,   /* batch --keep-going: some plans failed */
 } HlCliExit;
+
+/* batch: the failures table beside OUT, and each plan's time budget for
+ * loading and solving (checked after each; loading is itself bounded by
+ * the 8 MiB file and 64-option limits), s. */
+#define HL_CLI_FAILURES_SUFFIX "-failures"
+#define HL_CLI_BATCH_PLAN_SECONDS 10
 
 /* Room for one formatted number. */
 #define HL_CLI_NUMBER_MAX 64
@@ -57,6 +64,19 @@ void hl_cli_error (const char *fmt, ...)
  * HL_CLI_EXIT_USAGE. */
 int hl_cli_usage_error (const char *fmt, ...)
   __attribute__ ((format (printf, 1, 2)));
+
+/* Output files (-o, --csv).  "-" is standard output, for text outputs
+ * only (stdout_ok); an output that is the same file as one of the inputs
+ * (same device and inode) is refused, and so is a path that is not a
+ * regular file or a new name (hl-file-write.h).  hl_cli_check_output runs
+ * before any work; it returns HL_CLI_EXIT_OK or the exit status with the
+ * message printed. */
+bool hl_cli_is_stdout (const char *out);
+int hl_cli_check_output (const char *command, const char *out, bool stdout_ok,
+                         char *const *inputs, int n_inputs);
+/* Writes to out atomically, or to standard output for "-"; returns an
+ * exit status, the message printed on failure. */
+int hl_cli_write_output (const char *out, const void *data, size_t size);
 
 /* Number of characters (UTF-8 code points) in s, for aligning tables. */
 size_t hl_cli_text_width (const char *s);

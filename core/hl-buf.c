@@ -110,12 +110,19 @@ hl_buf_printf (HlBuf *b, const char *fmt, ...)
 void
 hl_buf_csv_field (HlBuf *b, const char *field)
 {
+  /* A text cell that a spreadsheet would run as a formula gets a leading
+   * apostrophe (OWASP, "CSV Injection"). */
+  bool formula = field[0] != '\0' && strchr ("=+-@\t\r", field[0]) != NULL;
   if (strpbrk (field, ",\"\r\n") == NULL)
     {
+      if (formula)
+        hl_buf_append (b, "'", 1);
       hl_buf_puts (b, field);
       return;
     }
   hl_buf_append (b, "\"", 1);
+  if (formula)
+    hl_buf_append (b, "'", 1);
   for (const char *p = field; *p != '\0'; p++)
     {
       hl_buf_append (b, p, 1);

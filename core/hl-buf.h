@@ -37,8 +37,11 @@ void hl_buf_printf (HlBuf *b, const char *fmt, ...)
   __attribute__ ((format (printf, 2, 3)));
 void hl_buf_vprintf (HlBuf *b, const char *fmt, va_list ap)
   __attribute__ ((format (printf, 2, 0)));
-/* One CSV field, quoted as RFC 4180 asks when it holds a comma, a quote,
- * CR or LF. */
+/* One CSV text field, quoted as RFC 4180 asks when it holds a comma, a
+ * quote, CR or LF.  A field that begins with =, +, -, @, a tab or a CR
+ * gets a leading apostrophe, as the OWASP CSV-injection guidance asks, so
+ * that a spreadsheet does not run it as a formula: use it for text (names,
+ * flags, messages), never for numbers. */
 void hl_buf_csv_field (HlBuf *b, const char *field);
 
 #ifdef __cplusplus

@@ -51,7 +51,6 @@ extern const size_t hl_schema_data_len;
 #define HL_ROUND_TRIP_DIGITS_MAX 17
 #define HL_ISO_DATE_MAX 40
 #define HL_QUOTED_VALUE_MAX 40        /* bytes of a bad value quoted in a message */
-#define HL_FILE_MODE 0644
 #define HL_XML_PARSE_OPTIONS (XML_PARSE_NONET | XML_PARSE_BIG_LINES)
 
 const char *
@@ -1010,207 +1009,6 @@ hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
   return summary_to_buffer_for (plan, date_iso, NULL, out, size, err);
 }
 
-/* ---- Atomic writing ----------------------------------------------------- */
-
-/* The process umask without changing it (umask() would, for a moment, for
- * every thread); Linux reports it in /proc/self/status. */
-static mode_t
-current_umask (void)
-{
-  FILE *f = fopen ("/proc/self/status", "re");
-  if (f != NULL)
-    {
-      char line[256];
-      while (fgets (line, sizeof line, f) != NULL)
-        {
-          unsigned mask;
-          if (sscanf (line, "Umask: %o", &mask) == 1)
-            {
-              fclose (f);
-              return (mode_t) mask;
-            }
-        }
-      fclose (f);
-    }
-  mode_t mask = umask (022);
-  umask (mask);
-  return mask;
-}
-
-static HlStatus write_file_atomic (const char *path, const void *data, size_t size,
-                                   bool keep_backup, HlError *err);
-
-/* Keeps the file at path as path HL_PLAN_BACKUP_SUFFIX: a hard link, so
- * the file itself is never missing, or a copy where the file system has no
- * links.  Returns 0 or an errno value. */
-static int
-keep_previous_version (const char *path)
-{
-  struct stat st;
-  if (lstat (path, &st) != 0)
-    return errno == ENOENT ? 0 : errno;
-  /* A link is replaced by the rename, its target stays as it was. */
-  if (!S_ISREG (st.st_mode))
-    return 0;
-  size_t n = strlen (path) + sizeof HL_PLAN_BACKUP_SUFFIX;
-  char *backup = malloc (n);
-  if (backup == NULL)
-    return ENOMEM;
-  snprintf (backup, n, "%s" HL_PLAN_BACKUP_SUFFIX, path);
-  int e = 0;
-  if (unlink (backup) != 0 && errno != ENOENT)
-    e = errno;
-  else if (link (path, backup) != 0)
-    {
-      e = errno;
-      if (e == EPERM || e == EOPNOTSUPP || e == EMLINK || e == ENOSYS)
-        {
-          FILE *f = fopen (path, "rb");
-          char *copy = f != NULL ? malloc ((size_t) st.st_size + 1) : NULL;
-          if (f == NULL)
-            e = errno;
-          else if (copy == NULL)
-            e = ENOMEM;
-          else if (fread (copy, 1, (size_t) st.st_size, f) != (size_t) st.st_size)
-            e = EIO;
-          else
-            e = write_file_atomic (backup, copy, (size_t) st.st_size, false, NULL) == HL_OK
-                ? 0 : EIO;
-          free (copy);
-          if (f != NULL)
-            fclose (f);
-        }
-    }
-  free (backup);
-  return e;
-}
-
-static HlStatus
-write_file_atomic (const char *path, const void *data, size_t size, bool keep_backup,
-                   HlError *err)
-{
-  const char *slash = strrchr (path, '/');
-  const char *base = slash ? slash + 1 : path;
-  if (*base == '\0')
-    return hl_error_set (err, HL_ERR_IO, path,
-                         _("Cannot save \"%s\": the name ends in a slash, it names a "
-                           "folder, not a file"), path);
-
-  size_t dir_len = slash == NULL ? 1 : (slash == path ? 1 : (size_t) (slash - path));
-  size_t tmp_size = dir_len + strlen (base) + sizeof "/..XXXXXX";
-  char *dir = malloc (dir_len + 1);
-  char *tmp = malloc (tmp_size);
-  if (dir == NULL || tmp == NULL)
-    {
-      free (dir);
-      free (tmp);
-      return hl_error_set (err, HL_ERR_NOMEM, path, _("Out of memory while saving"));
-    }
-  if (slash == NULL)
-    memcpy (dir, ".", 2);
-  else if (slash == path)
-    memcpy (dir, "/", 2);
-  else
-    {
-      memcpy (dir, path, dir_len);
-      dir[dir_len] = '\0';
-    }
-  snprintf (tmp, tmp_size, "%s/.%s.XXXXXX", strcmp (dir, "/") == 0 ? "" : dir, base);
-
-  HlStatus st = HL_OK;
-  int fd = mkstemp (tmp);
-  if (fd < 0)
-    {
-      int e = errno;
-      struct stat dir_st;
-      /* Some file systems (/proc) answer ENOENT for a folder that exists
-       * but takes no new files. */
-      bool dir_exists = stat (dir, &dir_st) == 0 && S_ISDIR (dir_st.st_mode);
-      if ((e == ENOENT || e == ENOTDIR) && !dir_exists)
-        st = hl_error_set (err, HL_ERR_IO, path,
-                           _("Cannot save \"%s\": the folder \"%s\" does not exist"),
-                           path, dir);
-      else
-        st = hl_error_set (err, HL_ERR_IO, path,
-                           _("Cannot save \"%s\": cannot create a file in \"%s\": %s"),
-                           path, dir, strerror (e));
-      free (dir);
-      free (tmp);
-      return st;
-    }
-  fcntl (fd, F_SETFD, FD_CLOEXEC);
-
-  const char *p = data;
-  size_t left = size;
-  int e = 0;
-  if (fchmod (fd, HL_FILE_MODE & ~current_umask ()) != 0)
-    e = errno;
-  while (e == 0 && left > 0)
-    {
-      ssize_t n = write (fd, p, left);
-      if (n < 0 && errno == EINTR)
-        continue;
-      if (n <= 0)
-        {
-          e = n < 0 ? errno : EIO;
-          break;
-        }
-      p += n;
-      left -= (size_t) n;
-    }
-  if (e == 0 && fsync (fd) != 0)
-    e = errno;
-  if (close (fd) != 0 && e == 0)
-    e = errno;
-  if (e != 0)
-    st = hl_error_set (err, HL_ERR_IO, path, _("Cannot save \"%s\": %s"), path,
-                       strerror (e));
-  else if (keep_backup && (e = keep_previous_version (path)) != 0)
-    st = hl_error_set (err, HL_ERR_IO, path,
-                       _("Cannot save \"%s\": the previous version could not be kept as "
-                         "\"%s%s\": %s; the file was not changed"),
-                       path, path, HL_PLAN_BACKUP_SUFFIX, strerror (e));
-  else if (rename (tmp, path) != 0)
-    {
-      e = errno;
-      if (e == EISDIR)
-        st = hl_error_set (err, HL_ERR_IO, path,
-                           _("Cannot save \"%s\": a folder of that name is in the way"),
-                           path);
-      else
-        st = hl_error_set (err, HL_ERR_IO, path, _("Cannot save \"%s\": %s"), path,
-                           strerror (e));
-    }
-  if (st != HL_OK)
-    unlink (tmp);
-  else
-    {
-      /* The rename itself is durable once the folder is flushed. */
-      int dfd = open (dir, O_RDONLY | O_DIRECTORY | O_CLOEXEC);
-      if (dfd >= 0)
-        {
-          fsync (dfd);
-          close (dfd);
-        }
-    }
-  free (dir);
-  free (tmp);
-  return st;
-}
-
-HlStatus
-hl_write_file_atomic (const char *path, const void *data, size_t size, HlError *err)
-{
-  return write_file_atomic (path, data, size, false, err);
-}
-
-HlStatus
-hl_write_file_atomic_backup (const char *path, const void *data, size_t size,
-                             HlError *err)
-{
-  return write_file_atomic (path, data, size, true, err);
-}
-
 /* Writes text the caller no longer needs, then frees it; a failure to make
  * the text (st) is passed on. */
 static HlStatus
@@ -1218,7 +1016,8 @@ write_owned_text (HlStatus st, const char *path, char *text, size_t size, bool b
                   HlError *err)
 {
   if (st == HL_OK)
-    st = write_file_atomic (path, text, size, backup, err);
+    st = backup ? hl_write_file_atomic_backup (path, text, size, err)
+                : hl_write_file_atomic (path, text, size, err);
   free (text);
   return st;
 }

@@ -18,6 +18,7 @@
  */
 #pragma once
 
+#include "hl-file-write.h"
 #include "hl-plan.h"
 #include "hl-solve.h"
 
@@ -60,22 +61,6 @@ HlStatus hl_summary_to_buffer (const HlPlan *plan, const char *date_iso,
                                char **out, size_t *size, HlError *err);
 HlStatus hl_summary_save_file (const HlPlan *plan, const char *path,
                                HlError *err);
-
-/* Atomically writes `size` bytes to path (temp file, fsync, rename). */
-HlStatus hl_write_file_atomic (const char *path, const void *data,
-                               size_t size, HlError *err);
-
-/* The previous version kept by a save with backup: PLAN.hlplan~ */
-#define HL_PLAN_BACKUP_SUFFIX "~"
-
-/* As hl_write_file_atomic, but once the new bytes are safely in the
- * temporary file and before the rename, an existing regular file at path
- * is kept as path HL_PLAN_BACKUP_SUFFIX (a hard link, or a copy where the
- * file system has no links), replacing an older backup.  The save stays
- * atomic: when it fails, path is unchanged.  When the backup cannot be
- * made the save is refused (HL_ERR_IO) and path is unchanged too. */
-HlStatus hl_write_file_atomic_backup (const char *path, const void *data,
-                                      size_t size, HlError *err);
 
 #ifdef __cplusplus
 }

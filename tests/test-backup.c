@@ -247,8 +247,8 @@ fault_case (size_t i, bool backup)
        match[HL_PATH_MAX + sizeof HL_PLAN_NAME];
   snprintf (path, sizeof path, "%s/" HL_PLAN_NAME, dir);
   snprintf (bak, sizeof bak, "%s" HL_PLAN_BACKUP_SUFFIX, path);
-  /* The temporary file is ".case.hlplan.XXXXXX" in the same folder. */
-  snprintf (match, sizeof match, "%s/." HL_PLAN_NAME ".", dir);
+  /* The temporary file is ".hlXXXXXX" in the same folder. */
+  snprintf (match, sizeof match, "%s/.hl", dir);
   save_version (path, 0);
   save_version (path, 1);
   size_t old_size = 0, bak_size = 0;

@@ -1,0 +1,181 @@
+#!/usr/bin/env bash
+# test-cli-trust.sh: hiplever-cli never harms what is at an output path,
+# "-" is standard output for text, batch --keep-going.
+#
+# Copyright 2026 the hiplever developers
+# SPDX-License-Identifier: GPL-3.0-or-later
+#
+# Usage: test-cli-trust.sh CLI SOURCE_DIR
+# Every pipe, link and file written over is the test's own, in a
+# temporary folder.
+set -u
+export LC_ALL=C TZ=UTC
+
+if [ $# -ne 2 ]; then
+  echo "usage: $0 CLI SOURCE_DIR" >&2
+  exit 2
+fi
+CLI=$(cd "$(dirname "$1")" && pwd)/$(basename "$1")
+SRC=$(cd "$2" && pwd)
+XSD=$SRC/data/hiplever-plan.xsd
+WORK=$(mktemp -d "${TMPDIR:-/tmp}/hiplever-cli-trust.XXXXXX")
+trap 'rm -rf "$WORK"' EXIT
+cd "$WORK" || exit 1
+
+passed=0
+failed=0
+pass () { passed=$((passed + 1)); }
+fail () { failed=$((failed + 1)); echo "FAIL: $*"; }
+check () {
+  local what=$1
+  shift
+  if "$@"; then pass; else fail "$what"; fi
+}
+run () {
+  "$CLI" "$@" >"$WORK/out" 2>"$WORK/err"
+  rc=$?
+}
+expect_rc () {
+  if [ "$rc" -eq "$1" ]; then pass; else
+    fail "$2: exit status $rc, expected $1 (stderr: $(head -c 300 "$WORK/err"))"; fi
+}
+err_has () { grep -q -e "$1" "$WORK/err"; }
+is_fifo () { [ -p "$1" ]; }
+is_link () { [ -L "$1" ]; }
+only_names () { [ "$(ls -A | tr '\n' ' ')" = "$1" ]; }
+
+cp "$SRC/data/examples/demo.hlplan" plan.hlplan
+cp "$SRC/data/examples/minimal.hlplan" other.hlplan
+printf 'not a plan\n' > bad.hlplan
+
+# A named pipe and a link to one are refused and left as they are, for
+# every command that writes a file.
+mkfifo pipe
+ln -s pipe to-pipe
+for target in pipe to-pipe; do
+  run summary plan.hlplan -o "$target"
+  expect_rc 1 "summary -o $target"
+  check "summary -o $target: says named pipe" err_has "named pipe"
+  run batch plan.hlplan --csv "$target"
+  expect_rc 1 "batch --csv $target"
+  run report plan.hlplan -o "$target"
+  expect_rc 1 "report -o $target"
+done
+run figure plan.hlplan -o pipe.svg
+expect_rc 0 "figure to a new name"
+rm -f pipe.svg
+mkfifo pipe.svg
+run figure plan.hlplan -o pipe.svg
+expect_rc 1 "figure -o a pipe"
+check "pipe stays a pipe" is_fifo pipe
+check "pipe.svg stays a pipe" is_fifo pipe.svg
+check "the link stays a link" is_link to-pipe
+check "no temporary file left" only_names "bad.hlplan err other.hlplan out pipe pipe.svg plan.hlplan to-pipe "
+rm -f pipe pipe.svg to-pipe
+
+# A folder is refused.
+mkdir folder.xml
+run summary plan.hlplan -o folder.xml
+expect_rc 1 "summary -o a folder"
+check "summary -o folder: says folder" err_has "folder"
+rmdir folder.xml
+
+# A link to a regular file: the target is written, the link stays.
+printf 'old\n' > real.xml
+ln -s real.xml alias.xml
+run summary plan.hlplan -o alias.xml
+expect_rc 0 "summary -o a link to a file"
+check "the link stays" is_link alias.xml
+check "the target holds the summary" grep -q "planning-summary" real.xml
+rm -f alias.xml real.xml
+
+# The output onto an input is refused, for every command with -o or --csv;
+# the plan is unchanged.
+cp plan.hlplan plan.orig
+ln -s plan.hlplan plan-link.hlplan
+for args in "summary plan.hlplan -o plan.hlplan" "summary plan.hlplan -o plan-link.hlplan" \
+            "report plan.hlplan -o plan.hlplan" "figure plan.hlplan -o plan.hlplan" \
+            "batch other.hlplan plan.hlplan --csv plan.hlplan" \
+            "batch plan.hlplan --keep-going --csv plan-link.hlplan"; do
+  # shellcheck disable=SC2086
+  run $args
+  if [ "$rc" -ne 0 ] && cmp -s plan.hlplan plan.orig; then pass; else
+    fail "$args: exit $rc, or the plan changed"; fi
+done
+run summary plan.hlplan -o plan.hlplan
+check "says the output is the input" err_has "is the input"
+rm -f plan-link.hlplan plan.orig
+
+# "-" is standard output for the text outputs, and no file named "-".
+run summary plan.hlplan -o -
+expect_rc 0 "summary -o -"
+check "summary -o - writes the summary to stdout" grep -q "<planning-summary" out
+check "summary -o -: the XML is valid" xmllint --noout --schema "$XSD" out 2>/dev/null
+check "no file named -" test ! -e ./-
+run batch plan.hlplan other.hlplan --csv -
+expect_rc 0 "batch --csv -"
+check "batch --csv - writes the table" grep -q "^plan,option," out
+check "batch --csv -: every plan" grep -q "^other.hlplan," out
+run report plan.hlplan -o -
+expect_rc 2 "report -o - is refused (PDF)"
+run figure plan.hlplan -o -
+expect_rc 2 "figure -o - is refused"
+check "no file named -" test ! -e ./-
+
+# An existing file keeps its mode.
+printf 'old\n' > kept.xml
+chmod 600 kept.xml
+run summary plan.hlplan -o kept.xml
+expect_rc 0 "summary over a 0600 file"
+check "0600 stays 0600" test "$(stat -c %a kept.xml)" = 600
+printf 'old\n' > kept.csv
+chmod 640 kept.csv
+run batch plan.hlplan --csv kept.csv
+check "0640 stays 0640" test "$(stat -c %a kept.csv)" = 640
+rm -f kept.xml kept.csv
+
+# A name of 255 bytes (NAME_MAX on the usual file systems).
+long=$(printf 'n%.0s' $(seq 1 251)).xml
+run summary plan.hlplan -o "$long"
+expect_rc 0 "summary to a 255-byte name"
+check "the 255-byte file holds the summary" grep -q "planning-summary" "$long"
+run summary plan.hlplan -o "$long"
+expect_rc 0 "summary over a 255-byte name"
+rm -f "$long"
+
+# batch --keep-going: the table of the plans that solved, the failures
+# beside it, exit status 3.
+run batch plan.hlplan bad.hlplan other.hlplan --keep-going --csv res.csv
+expect_rc 3 "batch --keep-going with a bad plan"
+check "res.csv has plan.hlplan" grep -q "^plan.hlplan,native," res.csv
+check "res.csv has other.hlplan" grep -q "^other.hlplan,native," res.csv
+check "res.csv has no bad.hlplan" bash -c '! grep -q "^bad.hlplan" res.csv'
+check "failures header" test "$(head -n 1 res-failures.csv)" = "plan,error"
+check "failures row" grep -q "^bad.hlplan," res-failures.csv
+check "failures: two lines" test "$(wc -l < res-failures.csv)" = 2
+check "says where the failures are" err_has "res-failures.csv"
+run batch plan.hlplan other.hlplan --keep-going --csv res.csv
+expect_rc 0 "batch --keep-going, all good"
+check "failures table with the header only" test "$(cat res-failures.csv)" = "plan,error"
+run batch plan.hlplan bad.hlplan --keep-going --csv noext
+expect_rc 3 "batch --keep-going, a name without extension"
+check "noext-failures" test -s noext-failures
+run batch plan.hlplan bad.hlplan --csv strict.csv
+expect_rc 1 "batch without --keep-going"
+check "without --keep-going nothing is written" test ! -e strict.csv
+
+# CSV injection (OWASP): text cells that a spreadsheet would run get a
+# leading apostrophe; negative numbers stay numbers.
+sed 's/"Standard stem"/"=HYPERLINK(1)"/; s/"Lateralised stem +6 mm"/"-2+3"/' plan.hlplan > inj.hlplan
+run solve inj.hlplan --format csv
+expect_rc 0 "solve a plan with formula-like option names"
+check "=HYPERLINK gets an apostrophe" grep -q "^'=HYPERLINK(1),52" out
+check "-2+3 gets an apostrophe" grep -q "^'-2+3,56" out
+check "negative numbers stay numbers" grep -q ",-2.000," out
+run batch inj.hlplan --csv inj.csv
+check "batch: =HYPERLINK gets an apostrophe" grep -q "^inj.hlplan,'=HYPERLINK(1)," inj.csv
+run sweep inj.hlplan --param femoral_offset_mm --from -2 --to 2 --steps 3 --csv
+check "sweep: =HYPERLINK gets an apostrophe" grep -q "^femoral_offset_mm,-2,'=HYPERLINK(1)," out
+
+echo "cli-trust: $passed passed, $failed failed"
+[ "$failed" -eq 0 ]
