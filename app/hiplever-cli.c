@@ -124,6 +124,11 @@ static const HlCliCommand commands[] = {
   { "calibrate", "PLAN | --marker X1,Y1 X2,Y2 X3,Y3 [--diameter MM] | --two-point X1,Y1 X2,Y2 --distance MM",
     N_("The radiograph magnification (measured / true) from a plan's calibration, or from points in image mm; says when it is assumed."),
     hl_cli_calibrate_options, 0, 3, hl_cli_calibrate },
+  { "image", "FILE",
+    N_("What the program reads from an image file (DICOM, PNG, TIFF or JPEG): "
+       "format, size, bits, the spacing and where it comes from, the window. "
+       "Nothing identifying is printed."),
+    hl_cli_image_options, 1, 1, hl_cli_image },
 };
 
 #define N_COMMANDS (sizeof commands / sizeof commands[0])

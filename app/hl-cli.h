@@ -124,5 +124,9 @@ int hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args);
 int hl_cli_report (const HlCliCommand *cmd, const HlCliArgs *args);
 int hl_cli_figure (const HlCliCommand *cmd, const HlCliArgs *args);
 
+/* The image subcommand (hl-cli-image.c). */
+extern const HlCliOption hl_cli_image_options[];
+int hl_cli_image (const HlCliCommand *cmd, const HlCliArgs *args);
+
 /* The bench subcommand (hl-cli-bench.c). */
 int hl_cli_bench (bool quick);
