@@ -5,7 +5,7 @@
  */
 #include "config.h"
 
-#include "hl-dicom.h"
+#include "hl-gray-image.h"
 #include "hl-i18n.h"
 
 bool

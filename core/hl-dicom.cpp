@@ -46,7 +46,7 @@
 #include <gdcmTrace.h>
 #include <gdcmTransferSyntax.h>
 
-#include "hl-dicom.h"
+#include "hl-gray-image.h"
 #include "hl-i18n.h"
 
 /* All frames of a file are decoded by GDCM before the first is kept:

@@ -20,7 +20,6 @@
 #include <png.h>
 #include <tiffio.h>
 
-#include "hl-dicom.h"
 #include "hl-gray-image.h"
 #include "hl-i18n.h"
 #include "hl-image-ref.h"

@@ -144,6 +144,12 @@ const char *hl_spacing_source_label (HlSpacingSource s);
 
 /* ---- For the readers ---------------------------------------------------- */
 
+/* The DICOM reader (hl-dicom.cpp over GDCM, or hl-dicom-none.c in a build
+ * without it), called by hl_gray_image_load() after the file's size and
+ * its "DICM" preamble have been checked: the first frame, technical
+ * elements only; *out is a new image on success. */
+HlStatus hl_dicom_read (const char *path, HlGrayImage **out, HlError *err);
+
 /* A zeroed image of w x h with its pixel buffer; NULL when out of memory. */
 HlGrayImage *hl_gray_image_alloc (HlImageFormat f, int w, int h);
 /* Checks w and h against zero and the limits; message names `path`. */
