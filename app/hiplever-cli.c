@@ -407,41 +407,20 @@ csv_rows (HlBuf *buf, const char *plan_name, const HlPlan *plan,
 static HlResult *
 solve_plan (const char *path, const HlPlan *plan)
 {
-  HlModel model;
   HlError err;
-
-  hl_error_clear (&err);
-  if (hl_model_prepare (&model, plan, &err) != HL_OK)
-    {
-      hl_cli_report_error (path, NULL, &err);
-      return NULL;
-    }
-
   HlResult *results = calloc (plan->n_options + 1, sizeof *results);
+
   if (results == NULL)
     {
       hl_cli_error (_("%s: out of memory"), path);
       return NULL;
     }
-
-  for (size_t i = 0; i <= plan->n_options; i++)
+  hl_error_clear (&err);
+  if (hl_plan_solve_all (plan, results, &err) != HL_OK)
     {
-      const HlRecon *recon = i == 0 ? NULL : &plan->options[i - 1].recon;
-
-      hl_error_clear (&err);
-      if (hl_model_solve (&model, recon, &results[i], &err) != HL_OK)
-        {
-          char context[HL_NAME_MAX + HL_CLI_NUMBER_MAX];
-
-          if (i == 0)
-            snprintf (context, sizeof context, "%s", _("native"));
-          else
-            snprintf (context, sizeof context, _("option \"%s\""),
-                      plan->options[i - 1].name);
-          hl_cli_report_error (path, context, &err);
-          free (results);
-          return NULL;
-        }
+      hl_cli_report_error (path, NULL, &err);
+      free (results);
+      return NULL;
     }
   return results;
 }

@@ -674,6 +674,54 @@ hl_force_label (HlForceKind kind)
   return _(labels[kind]);
 }
 
+void
+hl_solve_refusal (HlError *err, const HlPlan *plan, size_t row)
+{
+  if (err == NULL)
+    return;
+  char field[HL_ERROR_FIELD_MAX + HL_NAME_MAX + 32];
+  char where[HL_NAME_MAX + 16];
+  if (row == 0)
+    snprintf (where, sizeof where, "%s", _("native"));
+  else
+    snprintf (where, sizeof where, _("option \"%s\""), plan->options[row - 1].name);
+  if (err->field[0] != '\0')
+    snprintf (field, sizeof field, "%s: %s", where, err->field);
+  else
+    snprintf (field, sizeof field, "%s", where);
+  /* cut to the room there is (an option name is at most HL_NAME_MAX) */
+  size_t n = strlen (field);
+  if (n >= sizeof err->field)
+    n = sizeof err->field - 1;
+  memcpy (err->field, field, n);
+  err->field[n] = '\0';
+}
+
+HlStatus
+hl_model_solve_rows (const HlModel *model, const HlPlan *plan,
+                     HlResult *results, HlStatus *status, HlError *errors)
+{
+  HlStatus first = HL_OK;
+
+  for (size_t i = 0; i <= plan->n_options; i++)
+    {
+      HlError *e = errors != NULL ? &errors[i] : NULL;
+      hl_error_clear (e);
+      HlStatus st = hl_model_solve (model, i == 0 ? NULL : &plan->options[i - 1].recon,
+                                    &results[i], e);
+      if (st != HL_OK)
+        {
+          memset (&results[i], 0, sizeof results[i]);
+          hl_solve_refusal (e, plan, i);
+          if (first == HL_OK)
+            first = st;
+        }
+      if (status != NULL)
+        status[i] = st;
+    }
+  return first;
+}
+
 HlStatus
 hl_plan_solve_all (const HlPlan *plan, HlResult *results, HlError *err)
 {
@@ -681,17 +729,15 @@ hl_plan_solve_all (const HlPlan *plan, HlResult *results, HlError *err)
   HlStatus st = hl_model_prepare (&model, plan, err);
   if (st != HL_OK)
     return st;
-  st = hl_model_solve (&model, NULL, &results[0], err);
-  for (size_t i = 0; st == HL_OK && i < plan->n_options; i++)
+  for (size_t i = 0; i <= plan->n_options; i++)
     {
-      st = hl_model_solve (&model, &plan->options[i].recon, &results[i + 1], err);
-      if (st != HL_OK && err != NULL)
+      st = hl_model_solve (&model, i == 0 ? NULL : &plan->options[i - 1].recon,
+                           &results[i], err);
+      if (st != HL_OK)
         {
-          char msg[HL_ERROR_MESSAGE_MAX];
-          snprintf (msg, sizeof msg, "%s", err->message);
-          hl_error_set (err, st, err->field, _("Option \"%s\": %s"),
-                        plan->options[i].name, msg);
+          hl_solve_refusal (err, plan, i);
+          return st;
         }
     }
-  return st;
+  return HL_OK;
 }

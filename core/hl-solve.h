@@ -235,7 +235,22 @@ void hl_model_forces (const HlModel *model, const HlPlan *plan,
 
 const char *hl_force_label (HlForceKind kind);
 
-/* Convenience: prepare and solve native and every option.  `results` has
+/* The one wording of a refused solve of row `row` (0 native, i option i),
+ * for every output (the window, the report, the CLI's text, CSV and XML):
+ * the row goes in front of the field, so that `err` reads "option "NAME":
+ * landmark abductor-insertion" / "The abductor moment arm is ...". */
+void hl_solve_refusal (HlError *err, const HlPlan *plan, size_t row);
+
+/* Solves native and every option of `plan` with its prepared model, each
+ * row on its own: results[i], status[i] and errors[i] for row i (0 native;
+ * status and errors may be NULL), a refused row zeroed and worded by
+ * hl_solve_refusal().  Returns HL_OK or the first refused row's status. */
+HlStatus hl_model_solve_rows (const HlModel *model, const HlPlan *plan,
+                              HlResult *results, HlStatus *status,
+                              HlError *errors);
+
+/* Prepares and solves native and every option, stopping at the first
+ * failure (a refused row worded by hl_solve_refusal()).  `results` has
  * room for 1 + plan->n_options; results[0] is native. */
 HlStatus hl_plan_solve_all (const HlPlan *plan, HlResult *results,
                             HlError *err);

@@ -32,7 +32,7 @@ typedef enum {
   HL_ERR_VERSION,        /* a file is newer than this program understands */
 } HlStatus;
 
-#define HL_ERROR_FIELD_MAX   96
+#define HL_ERROR_FIELD_MAX   192   /* room for "option "NAME": landmark KEY" */
 #define HL_ERROR_MESSAGE_MAX 512
 
 /* Where and why something failed.  `field` names the landmark, parameter or

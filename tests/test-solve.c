@@ -1451,6 +1451,29 @@ START_TEST (test_solve_errors)
   ck_assert_msg (hl_test_error_names_landmark (&err, HL_LM_ABDUCTOR_INSERTION),
                  "\"%s: %s\" does not name the insertion", err.field, err.message);
 
+  /* The same refusal through the one "native and every option": the row
+   * goes in front of the landmark, the sentence stays, whichever way. */
+  char sentence[HL_ERROR_MESSAGE_MAX];
+  snprintf (sentence, sizeof sentence, "%s", err.message);
+  hl_recon_init (&recon);
+  ck_assert_int_eq (hl_plan_add_option (plan, "Fine", &recon), 0);
+  recon.femoral_offset_mm = -10.0;
+  ck_assert_int_eq (hl_plan_add_option (plan, "Too far in", &recon), 1);
+  HlResult rows[3];
+  HlStatus row_status[3];
+  HlError row_err[3];
+  ck_assert_int_eq (hl_model_solve_rows (&model, plan, rows, row_status, row_err),
+                    HL_ERR_DEGENERATE);
+  ck_assert_int_eq (row_status[0], HL_OK);
+  ck_assert_int_eq (row_status[1], HL_OK);
+  ck_assert_int_eq (row_status[2], HL_ERR_DEGENERATE);
+  ck_assert_str_eq (row_err[2].field, "option \"Too far in\": landmark abductor-insertion");
+  ck_assert_str_eq (row_err[2].message, sentence);
+  hl_error_clear (&err);
+  ck_assert_int_eq (hl_plan_solve_all (plan, rows, &err), HL_ERR_DEGENERATE);
+  ck_assert_str_eq (err.field, row_err[2].field);
+  ck_assert_str_eq (err.message, sentence);
+
   hl_recon_init (&recon);
   recon.cup_superior_mm = NAN;
   hl_error_clear (&err);

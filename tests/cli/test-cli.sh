@@ -255,6 +255,25 @@ run summary "$WORK/degenerate.hlplan" -o "$WORK/degenerate.xml"
 expect_rc 1 "summary of a geometry that cannot be solved"
 check "summary of an unsolvable geometry writes no file" no_file "$WORK/degenerate.xml"
 
+# One option that cannot be solved (its femur moved until the abductor line
+# passes 0.2 mm from the hip centre): every output format words the refusal
+# the same way, naming the option and the landmark.
+sed -E 's/(name="Standard stem" cup-medial-mm="2" cup-superior-mm="1") femoral-offset-mm="0" femoral-length-mm="2"/\1 femoral-offset-mm="-50" femoral-length-mm="-48"/' \
+  "$DEMO" >"$WORK/refused-option.hlplan"
+check "refused-option.hlplan differs from the demo" differ "$DEMO" "$WORK/refused-option.hlplan"
+refusal="^hiplever-cli: $WORK/refused-option.hlplan: option \"Standard stem\": landmark abductor-insertion: The abductor moment arm is 0.2 mm"
+for fmt in text csv xml; do
+  run solve "$WORK/refused-option.hlplan" --format $fmt
+  expect_rc 1 "solve --format $fmt with an option that cannot be solved"
+  check "solve --format $fmt names the option and the landmark" err_has "$refusal"
+  cp "$WORK/err" "$WORK/refusal-$fmt"
+done
+check "solve words a refusal alike in text and csv" cmp -s "$WORK/refusal-text" "$WORK/refusal-csv"
+check "solve words a refusal alike in text and xml" cmp -s "$WORK/refusal-text" "$WORK/refusal-xml"
+run summary "$WORK/refused-option.hlplan" -o "$WORK/refused.xml"
+expect_rc 1 "summary with an option that cannot be solved"
+check "summary words a refusal as solve does" cmp -s "$WORK/refusal-text" "$WORK/err"
+
 run validate "$WORK/good.hlplan" "$WORK/bad-number.hlplan"
 expect_rc 1 "validate a good and a bad file"
 check "validate still reports the good file" out_has "good.hlplan: valid ("
