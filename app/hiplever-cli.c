@@ -10,6 +10,7 @@
  */
 #include "config.h"
 
+#include <ctype.h>
 #include <locale.h>
 #include <math.h>
 #include <stddef.h>
@@ -104,7 +105,7 @@ static const HlCliCommand commands[] = {
        "global offset, the cane force and the carried loads for a joint-load "
        "target, the lean that brings demand within capacity."),
     hl_cli_inverse_options, 1, 1, hl_cli_inverse },
-  { "sweep", "PLAN --param NAME --from A --to B --steps N [--csv]",
+  { "sweep", "PLAN --param NAME --from A --to B --steps N [--mode add|set] [--csv]",
     N_("Solve the native hip and every option over N evenly spaced values "
        "of one parameter (both ends included)."),
     hl_cli_sweep_options, 1, 1, hl_cli_sweep },
@@ -223,7 +224,12 @@ parse_args (const HlCliCommand *cmd, int argc, char **argv, HlCliArgs *args)
       const char *inline_value = NULL;
       int opt;
 
-      if (only_operands || a[0] != '-' || a[1] == '\0')
+      /* A negative number ("-10,0", "-.5") is a value, never an option:
+       * no option has a digit for its short name. */
+      bool negative_number = a[0] == '-'
+                             && (isdigit ((unsigned char) a[1])
+                                 || (a[1] == '.' && isdigit ((unsigned char) a[2])));
+      if (only_operands || a[0] != '-' || a[1] == '\0' || negative_number)
         {
           argv[args->n_operands++] = argv[i];
           continue;

@@ -41,7 +41,8 @@
 /* ---- Option tables ------------------------------------------------------ */
 
 enum { INVERSE_OPT_TARGET, INVERSE_OPT_FORMAT };
-enum { SWEEP_OPT_PARAM, SWEEP_OPT_FROM, SWEEP_OPT_TO, SWEEP_OPT_STEPS, SWEEP_OPT_CSV };
+enum { SWEEP_OPT_PARAM, SWEEP_OPT_FROM, SWEEP_OPT_TO, SWEEP_OPT_STEPS, SWEEP_OPT_CSV,
+       SWEEP_OPT_MODE };
 enum { MC_OPT_SAMPLES, MC_OPT_SEED, MC_OPT_CSV };
 enum { REPORT_OPT_OUTPUT };
 enum { FIGURE_OPT_OUTPUT, FIGURE_OPT_SIZE, FIGURE_OPT_OPTION };
@@ -73,6 +74,10 @@ const HlCliOption hl_cli_sweep_options[] = {
        "abductor_force_BW,jrf_N,jrf_BW,jrf_angle_deg,global_offset_change_mm,"
        "leg_length_change_mm,abductor_length_change_mm,flags (the columns of "
        "solve's CSV), then for each value native and every option") },
+  { "mode", 0, N_("add|set"),
+    N_("for a reconstruction parameter: set (the default) replaces each "
+       "option's own setting with the value; add adds the value to each "
+       "option's own setting (from -5 to 5 around what each option plans)") },
   { NULL },
 };
 
@@ -352,6 +357,15 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
   HlSweepSpec spec;
   double steps;
 
+  memset (&spec, 0, sizeof spec);
+  spec.mode = HL_SWEEP_MODE_SET;
+  const char *mode = args->value[SWEEP_OPT_MODE];
+  if (mode != NULL && strcmp (mode, "add") == 0)
+    spec.mode = HL_SWEEP_MODE_ADD;
+  else if (mode != NULL && strcmp (mode, "set") != 0)
+    return hl_cli_usage_error (_("%s: --mode '%s' is neither add nor set"), cmd->name,
+                               mode);
+
   for (int i = SWEEP_OPT_PARAM; i <= SWEEP_OPT_STEPS; i++)
     if (args->value[i] == NULL)
       return hl_cli_usage_error (_("%s: missing %s"), cmd->name, names[i]);
@@ -428,8 +442,15 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
           name_w = hl_cli_text_width (plan->options[i].name);
       hl_buf_init (&buf);
       hl_buf_printf (&buf, _("Plan: %s\nSweep of %s (%s) from %g to %g in %zu values; "
-                                 "--csv gives every column.\n\n"),
+                                 "--csv gives every column.\n"),
                          path, _(info->label), info->unit, spec.from, spec.to, spec.n_steps);
+      if (info->per_option)
+        hl_buf_printf (&buf, "%s\n", spec.mode == HL_SWEEP_MODE_ADD
+                       ? _("Mode add: each value is added to every option's own "
+                           "setting; the native row is the reference.")
+                       : _("Mode set: each value replaces every option's own "
+                           "setting; the native row is the reference."));
+      hl_buf_printf (&buf, "\n");
       snprintf (head, sizeof head, "%s (%s)", info->key, info->unit);
       int value_w = (int) strlen (head);
       hl_buf_printf (&buf, "%*s  %-*s  %9s  %9s  %9s  %9s  %9s  %s\n", value_w, head,

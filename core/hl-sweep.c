@@ -100,6 +100,21 @@ hl_sweep_value (const HlSweepSpec *spec, size_t step)
   return spec->from + (spec->to - spec->from) * ((double) step / (double) (spec->n_steps - 1));
 }
 
+static double
+recon_get (const HlRecon *r, HlSweepParam param)
+{
+  switch (param)
+    {
+    case HL_SWEEP_CUP_MEDIAL: return r->cup_medial_mm;
+    case HL_SWEEP_CUP_SUPERIOR: return r->cup_superior_mm;
+    case HL_SWEEP_FEMORAL_OFFSET: return r->femoral_offset_mm;
+    case HL_SWEEP_FEMORAL_LENGTH: return r->femoral_length_mm;
+    case HL_SWEEP_HEAD_LENGTH: return r->head_length_mm;
+    case HL_SWEEP_NECK_SHAFT_ANGLE: return r->neck_shaft_angle_deg;
+    default: return 0.0;
+    }
+}
+
 static void
 recon_set (HlRecon *r, HlSweepParam param, double v)
 {
@@ -213,7 +228,31 @@ check_spec (const HlPlan *plan, const HlModel *model, const HlSweepSpec *spec,
   if (spec->param == HL_SWEEP_CANE_FORCE_N)
     max = model->body_weight_n;
   double lo = fmin (spec->from, spec->to), hi = fmax (spec->from, spec->to);
-  if (lo < info->min || hi > max)
+  if (spec->mode != HL_SWEEP_MODE_SET && spec->mode != HL_SWEEP_MODE_ADD)
+    return hl_error_set (err, HL_ERR_INVALID, field, _("Unknown sweep mode %d"),
+                         (int) spec->mode);
+  if (spec->mode == HL_SWEEP_MODE_ADD && !info->per_option)
+    return hl_error_set (err, HL_ERR_INVALID, field,
+                         _("%s is not a setting of the options, so it cannot be "
+                           "added to their own settings: sweep it with mode set"),
+                         _(info->label));
+  if (spec->mode == HL_SWEEP_MODE_ADD)
+    {
+      for (size_t i = 0; i < plan->n_options; i++)
+        {
+          double own = recon_get (&plan->options[i].recon, spec->param);
+          if (own + lo < info->min || own + hi > max)
+            return hl_error_set (err, HL_ERR_INVALID, field,
+                                 _("Added to the %g %s of option \"%s\", the sweep "
+                                   "of %s from %g to %g %s reaches %g to %g %s, "
+                                   "beyond the accepted range %g to %g %s"),
+                                 own, info->unit, plan->options[i].name,
+                                 _(info->label), spec->from, spec->to, info->unit,
+                                 own + lo, own + hi, info->unit, info->min, max,
+                                 info->unit);
+        }
+    }
+  else if (lo < info->min || hi > max)
     return hl_error_set (err, HL_ERR_INVALID, field,
                          _("The sweep range of %s, %g to %g %s, leaves the accepted "
                            "range %g to %g %s"), _(info->label), spec->from,
@@ -301,7 +340,9 @@ hl_sweep_run (const HlPlan *plan, const HlModel *model,
             {
               HlRecon recon = plan->options[row - 1].recon;
               if (info->per_option)
-                recon_set (&recon, spec->param, v);
+                recon_set (&recon, spec->param,
+                           spec->mode == HL_SWEEP_MODE_ADD
+                           ? recon_get (&recon, spec->param) + v : v);
               st = hl_model_solve (&m, &recon, r, &step_err);
             }
 

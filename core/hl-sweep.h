@@ -8,9 +8,11 @@
  * option at each value.  The prepared model is perturbed directly, so a
  * step costs one solve per row and nothing is allocated.
  *
- * Option parameters (cup_medial_mm ... neck_shaft_angle_deg) replace that
- * parameter of every option in turn; the native row does not depend on
- * them and repeats the native result as the reference line.  The other
+ * Option parameters (cup_medial_mm ... neck_shaft_angle_deg) either
+ * replace that parameter of every option in turn (HL_SWEEP_MODE_SET, the
+ * default) or are added to each option's own setting (HL_SWEEP_MODE_ADD);
+ * the native row does not depend on them and repeats the native result as
+ * the reference line.  The other
  * parameters (aids, loads, posture, mass, line angle) apply to native and
  * every option alike and replace the plan's value:
  *
@@ -73,11 +75,19 @@ HlSweepParam hl_sweep_param_from_key (const char *key);
 #define HL_SWEEP_STEPS_DEFAULT 200
 #define HL_SWEEP_STEPS_MAX 100000
 
+/* How a reconstruction parameter's sweep value meets each option's own
+ * setting; the other parameters always replace the plan's value. */
+typedef enum {
+  HL_SWEEP_MODE_SET = 0,   /* the value replaces each option's setting */
+  HL_SWEEP_MODE_ADD,       /* the value is added to each option's setting */
+} HlSweepMode;
+
 typedef struct {
   HlSweepParam param;
   double from;
   double to;
   size_t n_steps;      /* >= 2 */
+  HlSweepMode mode;    /* HL_SWEEP_MODE_SET when left zero */
 } HlSweepSpec;
 
 /* The value of step i (0 .. n_steps - 1); the last step is `to` exactly. */

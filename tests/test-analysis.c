@@ -1097,6 +1097,74 @@ START_TEST (test_sweep_monotonic)
 }
 END_TEST
 
+/* --mode add: each option's row at value v is the option solved with v
+ * added to its own setting (femoral offset and cup medialisation); the
+ * native row stays the reference.  A non-option parameter cannot be
+ * added, and an added range that leaves the accepted one is refused with
+ * the option's name. */
+START_TEST (test_sweep_add_mode)
+{
+  static const HlSweepParam params[] = { HL_SWEEP_FEMORAL_OFFSET, HL_SWEEP_CUP_MEDIAL };
+  HlPlan *plan = sweep_plan (HL_SWEEP_N);
+  HlModel model;
+  HlResult results[3 * SWEEP_STEPS];
+  double values[SWEEP_STEPS];
+  HlError err = { 0 };
+
+  prepare (plan, &model);
+  for (size_t k = 0; k < N_ELEMENTS (params); k++)
+    {
+      HlSweepSpec spec = { params[k], -4.0, 4.0, SWEEP_STEPS, HL_SWEEP_MODE_ADD };
+      ck_assert_int_eq (hl_sweep_run (plan, &model, &spec, values, results, NULL,
+                                      N_ELEMENTS (results), &err), HL_OK);
+      HlResult native;
+      ck_assert_int_eq (hl_model_solve (&model, NULL, &native, &err), HL_OK);
+      for (size_t i = 0; i < SWEEP_STEPS; i++)
+        {
+          ck_assert_double_eq (results[i].jrf_n, native.jrf_n);
+          for (size_t row = 1; row <= plan->n_options; row++)
+            {
+              HlRecon recon = plan->options[row - 1].recon;
+              if (params[k] == HL_SWEEP_FEMORAL_OFFSET)
+                recon.femoral_offset_mm += values[i];
+              else
+                recon.cup_medial_mm += values[i];
+              HlResult want;
+              ck_assert_int_eq (hl_model_solve (&model, &recon, &want, &err), HL_OK);
+              ck_assert_double_eq (results[row * SWEEP_STEPS + i].jrf_n, want.jrf_n);
+              ck_assert_double_eq (results[row * SWEEP_STEPS + i].abductor_arm_mm,
+                                   want.abductor_arm_mm);
+            }
+        }
+    }
+
+  /* The two options' own settings differ, so add and set differ. */
+  HlSweepSpec set = { HL_SWEEP_CUP_MEDIAL, -4.0, 4.0, SWEEP_STEPS, HL_SWEEP_MODE_SET };
+  HlResult set_results[3 * SWEEP_STEPS];
+  ck_assert_int_eq (hl_sweep_run (plan, &model, &set, NULL, set_results, NULL,
+                                  N_ELEMENTS (set_results), &err), HL_OK);
+  bool differ = false;
+  for (size_t i = SWEEP_STEPS; i < 3 * SWEEP_STEPS; i++)
+    differ |= set_results[i].jrf_n != results[i].jrf_n;
+  ck_assert (differ);
+
+  HlSweepSpec mass = { HL_SWEEP_MASS_KG, 60.0, 70.0, SWEEP_STEPS, HL_SWEEP_MODE_ADD };
+  ck_assert_int_eq (hl_sweep_run (plan, &model, &mass, NULL, results, NULL,
+                                  N_ELEMENTS (results), &err), HL_ERR_INVALID);
+  ck_assert (hl_test_error_mentions (&err, "mode set"));
+
+  const HlSweepParamInfo *info = hl_sweep_param_info (HL_SWEEP_FEMORAL_OFFSET);
+  HlSweepSpec wide = { HL_SWEEP_FEMORAL_OFFSET, 0.0, info->max, SWEEP_STEPS,
+                       HL_SWEEP_MODE_ADD };
+  plan->options[0].recon.femoral_offset_mm = 1.0;
+  prepare (plan, &model);
+  ck_assert_int_eq (hl_sweep_run (plan, &model, &wide, NULL, results, NULL,
+                                  N_ELEMENTS (results), &err), HL_ERR_INVALID);
+  ck_assert (hl_test_error_mentions (&err, plan->options[0].name));
+  hl_plan_free (plan);
+}
+END_TEST
+
 START_TEST (test_sweep_table)
 {
   for (int i = 0; i < HL_SWEEP_N; i++)
@@ -1552,6 +1620,7 @@ analysis_suite (void)
   ADD_LOOP ("sweep endpoints", test_sweep_endpoints, N_ELEMENTS (sweep_cases));
   ADD ("sweep monotonic", test_sweep_monotonic);
   ADD ("sweep table", test_sweep_table);
+  ADD ("sweep add mode", test_sweep_add_mode);
   ADD ("sweep errors", test_sweep_errors);
   ADD ("sweep unsolvable points", test_sweep_unsolvable_points);
   ADD ("mc repeatable", test_mc_repeatable);

@@ -469,6 +469,33 @@ expect_rc 1 "validate: a plan without landmarks"
 check "no landmarks: plain words" err_has "the plan has no landmarks: place at least the hip centre, the midline and the abductor insertion"
 check "no landmarks: no schema text" sh -c "! grep -q 'Expected is' '$WORK/err'"
 
+# ---- sweep --mode and negative numbers ---------------------------------------------------
+
+run sweep "$DEMO" --param femoral_offset_mm --from -5 --to 5 --steps 3 --mode add
+expect_rc 0 "sweep --mode add"
+check "sweep --mode add says the value is added" out_has "Mode add: each value is added to every option's own setting"
+# The lateralised option plans +6 mm: at +5 added its arm is larger than the
+# standard stem's (0 mm own) at +5.
+run sweep "$DEMO" --param femoral_offset_mm --from -5 --to 5 --steps 3
+expect_rc 0 "sweep without --mode"
+check "sweep without --mode replaces (today's behaviour) and says so" out_has "Mode set: each value replaces every option's own setting"
+run sweep "$DEMO" --param femoral_offset_mm --from -5 --to 5 --steps 3 --mode add --csv
+expect_rc 0 "sweep --mode add --csv"
+check "sweep --mode add --csv keeps the CSV header" sh -c "head -1 '$WORK/out' | grep -q '^param,value,option,'"
+run sweep "$DEMO" --param mass_kg --from 60 --to 70 --steps 3 --mode add
+expect_rc 1 "sweep --mode add of a non-option parameter"
+run sweep "$DEMO" --param femoral_offset_mm --from -5 --to 5 --steps 3 --mode twice
+expect_rc 2 "sweep --mode twice"
+# Negative numbers are values, not options (a 16 mm marker measuring 20 mm:
+# magnification 1.25).
+run calibrate --marker -10,0 0,10 10,0 --diameter 16
+expect_rc 0 "calibrate --marker -10,0 ..."
+check "calibrate with a negative first point" out_has "Magnification: 1.25"
+run calibrate --marker 0,10 -10,0 10,0 --diameter 16
+expect_rc 0 "calibrate --marker 0,10 -10,0 ..."
+run calibrate --two-point -60,0 -.5,0 --distance 50
+check "calibrate with a negative decimal point value" test "$rc" -ne 2
+
 # ---- bench, as a smoke test (figures are not judged) ------------------------------------
 
 run bench --quick
