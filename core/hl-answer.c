@@ -109,7 +109,10 @@ hl_answer_apply_state (const HlPlan *plan, int option, HlQuestion q, const HlInv
     {
     case HL_INVERSE_OFFSET_FOR_ARM:
     case HL_INVERSE_OFFSET_FOR_GLOBAL:
-      if (option < 0 || (size_t) option >= plan->n_options)
+      /* A templated option's offset comes from its implants: choose them
+       * (hl-fit.h) rather than type a number. */
+      if (option < 0 || (size_t) option >= plan->n_options
+          || plan->options[option].recon.tmpl.on)
         return HL_APPLY_NO_ANSWER;
       return same (plan->options[option].recon.femoral_offset_mm, v) ? HL_APPLY_ALREADY
                                                                        : HL_APPLY_CHANGES;

@@ -378,7 +378,12 @@ begin (Goal *g, HlInverseKind kind, const HlModel *model, const HlRecon *option,
   g->kind = kind;
   g->has_recon = option != NULL;
   if (option != NULL)
-    g->recon = *option;
+    {
+      /* A templated option is varied from the numbers its implants make. */
+      if ((st = hl_recon_resolve (model, option, &g->recon, err)) != HL_OK)
+        return st;
+      g->recon.tmpl.on = false;
+    }
   else
     hl_recon_init (&g->recon);
   return HL_OK;

@@ -56,6 +56,33 @@ static const HlLandmarkInfo landmark_info[HL_LM_COUNT] = {
   { HL_LM_HIP_CENTRE_OTHER, "hip-centre-other", N_("Hip centre, other side"),
     N_("Centre of the other femoral head."),
     HL_SEGMENT_OTHER_FEMUR, false, true },
+  { HL_LM_ILIOISCHIAL_UPPER, "ilioischial-upper", N_("Ilioischial line, upper"),
+    N_("An upper point on the ilioischial line of the operated side, above the acetabulum."),
+    HL_SEGMENT_PELVIS, false, false },
+  { HL_LM_ILIOISCHIAL_LOWER, "ilioischial-lower", N_("Ilioischial line, lower"),
+    N_("A lower point on the ilioischial line of the operated side, near the teardrop."),
+    HL_SEGMENT_PELVIS, false, false },
+  { HL_LM_ACETABULAR_MARGIN, "acetabular-margin", N_("Acetabular margin"),
+    N_("The lateral edge of the acetabular roof on the operated side."),
+    HL_SEGMENT_PELVIS, false, false },
+  { HL_LM_CANAL_MEDIAL_1, "canal-medial-1", N_("Canal edge, medial, level 1"),
+    N_("The inner edge of the medial femoral cortex, at the most proximal level you measure."),
+    HL_SEGMENT_FEMUR, false, false },
+  { HL_LM_CANAL_LATERAL_1, "canal-lateral-1", N_("Canal edge, lateral, level 1"),
+    N_("The inner edge of the lateral femoral cortex, at the same level as the medial level 1 point."),
+    HL_SEGMENT_FEMUR, false, false },
+  { HL_LM_CANAL_MEDIAL_2, "canal-medial-2", N_("Canal edge, medial, level 2"),
+    N_("The inner edge of the medial femoral cortex, at a middle level."),
+    HL_SEGMENT_FEMUR, false, false },
+  { HL_LM_CANAL_LATERAL_2, "canal-lateral-2", N_("Canal edge, lateral, level 2"),
+    N_("The inner edge of the lateral femoral cortex, at the same level as the medial level 2 point."),
+    HL_SEGMENT_FEMUR, false, false },
+  { HL_LM_CANAL_MEDIAL_3, "canal-medial-3", N_("Canal edge, medial, level 3"),
+    N_("The inner edge of the medial femoral cortex, at the most distal level you measure."),
+    HL_SEGMENT_FEMUR, false, false },
+  { HL_LM_CANAL_LATERAL_3, "canal-lateral-3", N_("Canal edge, lateral, level 3"),
+    N_("The inner edge of the lateral femoral cortex, at the same level as the medial level 3 point."),
+    HL_SEGMENT_FEMUR, false, false },
 };
 
 const HlLandmarkInfo *
@@ -311,6 +338,16 @@ hl_plan_set_demo_landmarks (HlPlan *plan)
     { HL_LM_SHAFT_PROXIMAL_OTHER, 132.0, -79.0 },
     { HL_LM_SHAFT_DISTAL_OTHER, 124.0, -179.0 },
     { HL_LM_HIP_CENTRE_OTHER, 96.0, 1.0 },
+    /* templating aids, as in data/examples/demo.hlplan */
+    { HL_LM_ILIOISCHIAL_UPPER, -58.0, 40.0 },
+    { HL_LM_ILIOISCHIAL_LOWER, -60.0, -25.0 },
+    { HL_LM_ACETABULAR_MARGIN, -110.0, 14.0 },
+    { HL_LM_CANAL_MEDIAL_1, -120.4, -75.0 },
+    { HL_LM_CANAL_LATERAL_1, -142.4, -75.0 },
+    { HL_LM_CANAL_MEDIAL_2, -120.3, -120.0 },
+    { HL_LM_CANAL_LATERAL_2, -135.3, -120.0 },
+    { HL_LM_CANAL_MEDIAL_3, -118.1, -160.0 },
+    { HL_LM_CANAL_LATERAL_3, -131.1, -160.0 },
   };
 
   plan->side = HL_SIDE_RIGHT;
@@ -450,6 +487,55 @@ check_recon (const HlRecon *r, const char *option_name, HlError *err)
   snprintf (what, sizeof what, _("The neck-shaft angle of option \"%s\""), option_name);
   return range_error (r->neck_shaft_angle_deg, HL_NECK_SHAFT_MIN_DEG,
                       HL_NECK_SHAFT_MAX_DEG, field, what, "deg", err);
+}
+
+static bool
+finite_in (double v, double lo, double hi)
+{
+  return isfinite (v) && v >= lo && v <= hi;
+}
+
+HlStatus
+hl_template_check (const HlTemplate *t, const char *option_name, HlError *err)
+{
+  char field[HL_ERROR_FIELD_MAX];
+  const char *name = option_name ? option_name : "";
+
+  if (!t->on)
+    return HL_OK;
+  const struct { const char *s; const char *attr; } ids[] = {
+    { t->catalogue, "catalogue" }, { t->cup_family, "cup-family" },
+    { t->liner, "liner" }, { t->stem_family, "stem-family" },
+    { t->stem_size, "stem-size" }, { t->version, "version" },
+  };
+  for (size_t i = 0; i < sizeof ids / sizeof ids[0]; i++)
+    if (ids[i].s[0] == '\0')
+      {
+        snprintf (field, sizeof field, "option \"%s\" template %s", name, ids[i].attr);
+        return hl_error_set (err, HL_ERR_INVALID, field,
+                             _("The template of option \"%s\" has no %s"),
+                             name, ids[i].attr);
+      }
+  const struct { double v, lo, hi; const char *attr; } nums[] = {
+    { t->cup_diameter_mm, 1.0, 200.0, "cup-diameter-mm" },
+    { t->cup_x_mm, -HL_COORD_MAX_MM, HL_COORD_MAX_MM, "cup-x-mm" },
+    { t->cup_y_mm, -HL_COORD_MAX_MM, HL_COORD_MAX_MM, "cup-y-mm" },
+    { t->inclination_deg, HL_TEMPLATE_INCLINATION_MIN_DEG,
+      HL_TEMPLATE_INCLINATION_MAX_DEG, "inclination-deg" },
+    { t->seat_mm, -HL_TEMPLATE_SEAT_MAX_MM, HL_TEMPLATE_SEAT_MAX_MM, "seat-mm" },
+    { t->head_length_mm, -HL_TEMPLATE_HEAD_MAX_MM, HL_TEMPLATE_HEAD_MAX_MM,
+      "head-length-mm" },
+  };
+  for (size_t i = 0; i < sizeof nums / sizeof nums[0]; i++)
+    if (!finite_in (nums[i].v, nums[i].lo, nums[i].hi))
+      {
+        snprintf (field, sizeof field, "option \"%s\" template %s", name, nums[i].attr);
+        return hl_error_set (err, HL_ERR_INVALID, field,
+                             _("The template's %s of option \"%s\" is %g; it "
+                               "must lie between %g and %g"),
+                             nums[i].attr, name, nums[i].v, nums[i].lo, nums[i].hi);
+      }
+  return HL_OK;
 }
 
 HlStatus
@@ -612,7 +698,9 @@ hl_plan_check (const HlPlan *plan, HlError *err)
     return st;
 
   for (size_t i = 0; i < plan->n_options; i++)
-    if ((st = check_recon (&plan->options[i].recon, plan->options[i].name, err)))
+    if ((st = check_recon (&plan->options[i].recon, plan->options[i].name, err))
+        || (st = hl_template_check (&plan->options[i].recon.tmpl,
+                                    plan->options[i].name, err)))
       return st;
 
   return HL_OK;

@@ -48,6 +48,16 @@ typedef enum {
   HL_LM_SHAFT_PROXIMAL_OTHER,
   HL_LM_SHAFT_DISTAL_OTHER,
   HL_LM_HIP_CENTRE_OTHER,      /* contralateral femoral head centre */
+  /* templating aids (all optional; hl-template.h) */
+  HL_LM_ILIOISCHIAL_UPPER,     /* two points on the operated ilioischial line */
+  HL_LM_ILIOISCHIAL_LOWER,
+  HL_LM_ACETABULAR_MARGIN,     /* lateral edge of the operated acetabular roof */
+  HL_LM_CANAL_MEDIAL_1,        /* inner (endosteal) canal edges of the operated */
+  HL_LM_CANAL_LATERAL_1,       /* femur, medial and lateral, at up to three */
+  HL_LM_CANAL_MEDIAL_2,        /* levels (1 proximal ... 3 distal) */
+  HL_LM_CANAL_LATERAL_2,
+  HL_LM_CANAL_MEDIAL_3,
+  HL_LM_CANAL_LATERAL_3,
   HL_LM_COUNT
 } HlLandmarkId;
 
@@ -182,7 +192,63 @@ typedef struct {
 
 /* ---- Reconstruction options ------------------------------------------ */
 
-/* Signs as model.md section 5: all changes against the native hip. */
+/* An option's implants, placed on the radiograph (templating.md section 2;
+ * the geometry functions are in hl-template.h, the catalogue in
+ * hl-catalogue.h).  File element <template>, a child of <option>, with the
+ * attributes named beside each field.
+ *
+ * Frames and units: plan frame (x to the patient's LEFT, y superior), true
+ * mm (after magnification correction), degrees.
+ *
+ * The ids name entries of the catalogue `catalogue`; they are copied text,
+ * so a template outlives the catalogue it was made from.  The catalogue's
+ * numbers the geometry needs (the liner's lateralisation, the neck's offset
+ * and height for the stem size and version, the version's neck-shaft
+ * angle) are copied into the `dims` block by hl_template_resolve(); they
+ * are never written to a file.  `resolved` false means "the catalogue was
+ * not at hand or has changed since the plan was saved": the option then
+ * keeps the four numbers of its HlRecon as last derived (and saved) and
+ * nothing is re-derived until the user resolves it again. */
+#define HL_IMPLANT_ID_MAX 48   /* bytes of an implant id, with the NUL */
+
+typedef struct {
+  double liner_lateralisation_mm;  /* l: face-normal shift of the centre, + out of the cup */
+  double neck_offset_mm;           /* head centre at head length 0: perpendicular */
+  double neck_height_mm;           /*   to the axis (medial +) and along it (proximal +) */
+  double neck_shaft_angle_deg;     /* a of the stem version */
+} HlTemplateDims;
+
+typedef struct {
+  bool on;                              /* the option is templated */
+  char catalogue[HL_IMPLANT_ID_MAX];    /* catalogue= : catalogue id */
+  char cup_family[HL_IMPLANT_ID_MAX];   /* cup-family= */
+  double cup_diameter_mm;               /* cup-diameter-mm= : outer diameter D */
+  double cup_x_mm;                      /* cup-x-mm=, cup-y-mm= : cup centre C, */
+  double cup_y_mm;                      /*   plan frame (the hemisphere's centre) */
+  double inclination_deg;               /* inclination-deg= : t, face line to the
+                                         * inter-teardrop line (else horizontal),
+                                         * opening laterally-inferiorly, 0..90 */
+  char liner[HL_IMPLANT_ID_MAX];        /* liner= : liner id of the cup family */
+  char stem_family[HL_IMPLANT_ID_MAX];  /* stem-family= */
+  char stem_size[HL_IMPLANT_ID_MAX];    /* stem-size= : the size's label, e.g. "5" */
+  char version[HL_IMPLANT_ID_MAX];      /* version= : stem version id */
+  double seat_mm;                       /* seat-mm= : s, stem origin R along the
+                                         * shaft axis from T, proximal + */
+  double head_length_mm;                /* head-length-mm= : h, along the neck */
+  /* Not in the file: from the catalogue (hl_template_resolve). */
+  bool resolved;
+  HlTemplateDims dims;
+} HlTemplate;
+
+/* Signs as model.md section 5: all changes against the native hip.
+ *
+ * A templated option (tmpl.on) takes its four numbers from its template:
+ * hl_model_solve() (hl-solve.h) derives them itself from a resolved
+ * template (so no caller can solve stale numbers), with head_length_mm 0
+ * (the head is already in H) and neck_shaft_angle_deg the version's angle;
+ * the fields below then hold the last derived values (written to the file,
+ * used while the template is unresolved, shown by readers that do not
+ * solve).  hl_plan_sync_templates() (hl-template.h) refreshes them. */
 typedef struct {
   double cup_medial_mm;        /* + medial */
   double cup_superior_mm;      /* + superior */
@@ -190,7 +256,19 @@ typedef struct {
   double femoral_length_mm;    /* + longer */
   double head_length_mm;       /* + longer neck */
   double neck_shaft_angle_deg; /* for the head length; default 135 */
+  HlTemplate tmpl;             /* implants; tmpl.on false for a manual option */
 } HlRecon;
+
+/* A catalogue a plan uses, as recorded in the plan file (element
+ * <catalogue id version sha256/> in <catalogues>): a catalogue found at
+ * open time with the same id but another version or digest is reported
+ * (hl_plan_resolve_templates), never silently applied. */
+#define HL_PLAN_CATALOGUES_MAX 8
+typedef struct {
+  char id[HL_IMPLANT_ID_MAX];
+  char version[HL_IMPLANT_ID_MAX];
+  char sha256[65];             /* 64 lower-case hex digits and the NUL */
+} HlCatalogueRef;
 
 #define HL_NECK_SHAFT_ANGLE_DEFAULT 135.0  /* common practice */
 
@@ -237,6 +315,8 @@ typedef struct {
   HlMcSettings uncertainty;    /* Monte Carlo settings (hl-uncertainty.h);
                                 * its magnification comes from the calibration */
   HlRadiograph radiograph;     /* the image under the plan (hl-image.h) */
+  HlCatalogueRef catalogues[HL_PLAN_CATALOGUES_MAX];  /* the implant catalogues */
+  size_t n_catalogues;         /* its templated options use (hl-template.h) */
 
   /* owned */
   HlOption *options;
@@ -284,6 +364,17 @@ double hl_force_from_newtons (double newtons, HlForceUnit unit, double mass_kg);
 /* Range checks on everything but geometry: finite numbers, mass 20-350 kg,
  * cane force 0..body weight, distances >= 0, option parameters in range. */
 HlStatus hl_plan_check (const HlPlan *plan, HlError *err);
+
+/* Cup inclination limits a template accepts, degrees. */
+#define HL_TEMPLATE_INCLINATION_MIN_DEG 0.0
+#define HL_TEMPLATE_INCLINATION_MAX_DEG 90.0
+/* |seat| and |head length| limits, mm (sanity limits of ours). */
+#define HL_TEMPLATE_SEAT_MAX_MM 150.0
+#define HL_TEMPLATE_HEAD_MAX_MM 30.0
+/* Range checks of a template (inclination, finite numbers, seat, head
+ * length, non-empty ids); the field names the option. */
+HlStatus hl_template_check (const HlTemplate *tmpl, const char *option_name,
+                            HlError *err);
 
 /* Range of every option parameter, mm (and the angle in degrees). */
 #define HL_RECON_LINEAR_MAX_MM 50.0

@@ -312,6 +312,7 @@ hl_model_prepare (HlModel *m, const HlPlan *plan, HlError *err)
   memset (m, 0, sizeof *m);
   m->side_sign = plan->side == HL_SIDE_RIGHT ? -1.0 : 1.0;
   m->hip_centre = lm->p[HL_LM_HIP_CENTRE];
+  hl_template_frame (lm, plan->side, &m->tframe);
 
   HlVec2 hc = m->hip_centre;
   m->insertion = to_solver (m->side_sign, hc, lm->p[HL_LM_ABDUCTOR_INSERTION]);
@@ -401,7 +402,21 @@ HlStatus
 hl_model_solve (const HlModel *m, const HlRecon *recon, HlResult *res, HlError *err)
 {
   double cm = 0.0, cs = 0.0, fo = 0.0, fl = 0.0;
-  if (recon != NULL)
+  if (recon != NULL && recon->tmpl.on && recon->tmpl.resolved)
+    {
+      HlTemplateGeometry g;
+      HlStatus st = hl_template_derive (&m->tframe, &recon->tmpl, &g, err);
+      if (st != HL_OK)
+        return st;
+      cm = g.cup_medial_mm;
+      cs = g.cup_superior_mm;
+      fo = g.femoral_offset_mm;
+      fl = g.femoral_length_mm;
+      if (!isfinite (cm + cs + fo + fl))
+        return hl_error_set (err, HL_ERR_INVALID, "option",
+                             _("A reconstruction parameter is not a finite number"));
+    }
+  else if (recon != NULL)
     {
       cm = recon->cup_medial_mm;
       cs = recon->cup_superior_mm;
@@ -569,6 +584,19 @@ hl_recon_landmarks (const HlPlan *plan, const HlRecon *recon, HlLandmarks *out)
   *out = plan->landmarks;
   if (recon == NULL)
     return;
+  HlRecon resolved;
+  if (recon->tmpl.on && recon->tmpl.resolved)
+    {
+      HlTemplateFrame f;
+      HlTemplateGeometry g;
+      hl_template_frame (&plan->landmarks, plan->side, &f);
+      if (hl_template_derive (&f, &recon->tmpl, &g, NULL) == HL_OK)
+        {
+          resolved = *recon;
+          hl_template_geometry_to_recon (&g, &recon->tmpl, &resolved);
+          recon = &resolved;
+        }
+    }
 
   const double s = plan->side == HL_SIDE_RIGHT ? -1.0 : 1.0;
   const HlVec2 cup = { -s * recon->cup_medial_mm, recon->cup_superior_mm };
@@ -602,6 +630,9 @@ hl_model_forces (const HlModel *m, const HlPlan *plan, const HlRecon *recon,
 {
   (void) plan;
   double cm = 0.0, cs = 0.0, fo = 0.0, fl = 0.0;
+  HlRecon resolved;
+  if (recon != NULL && hl_recon_resolve (m, recon, &resolved, NULL) == HL_OK)
+    recon = &resolved;
   if (recon != NULL)
     {
       cm = recon->cup_medial_mm;
@@ -720,6 +751,20 @@ hl_model_solve_rows (const HlModel *model, const HlPlan *plan,
         status[i] = st;
     }
   return first;
+}
+
+HlStatus
+hl_recon_resolve (const HlModel *model, const HlRecon *recon, HlRecon *out,
+                  HlError *err)
+{
+  *out = *recon;
+  if (!recon->tmpl.on || !recon->tmpl.resolved)
+    return HL_OK;
+  HlTemplateGeometry g;
+  HlStatus st = hl_template_derive (&model->tframe, &recon->tmpl, &g, err);
+  if (st == HL_OK)
+    hl_template_geometry_to_recon (&g, &recon->tmpl, out);
+  return st;
 }
 
 HlStatus

@@ -27,6 +27,7 @@
 #pragma once
 
 #include "hl-plan.h"
+#include "hl-template.h"
 
 #ifdef __cplusplus
 extern "C" {
@@ -131,6 +132,7 @@ typedef struct {
                                       * when not placed */
   double side_sign;                  /* -1 right hip, +1 left hip */
   HlVec2 hip_centre;                 /* native, plan frame */
+  HlTemplateFrame tframe;            /* for templated options (hl-template.h) */
 } HlModel;
 
 /* The answer for one option (or native). */
@@ -179,9 +181,20 @@ char *hl_implausible_describe_all (const HlResult *res, const char *sep,
 HlStatus hl_model_prepare (HlModel *model, const HlPlan *plan, HlError *err);
 
 /* Solves one reconstruction (NULL = native).  The hot path: no allocation,
- * no string work unless it fails. */
+ * no string work unless it fails.  A templated recon (recon->tmpl.on and
+ * resolved) is solved with the four numbers derived from its template on
+ * the model's native landmarks (hl_recon_resolve), not with its stored
+ * ones; an unresolved template uses the stored ones. */
 HlStatus hl_model_solve (const HlModel *model, const HlRecon *recon,
                          HlResult *res, HlError *err);
+
+/* The numbers a recon is solved with: a copy of recon, with the four
+ * numbers derived from a resolved template (head length 0).  Code that
+ * varies one of the four numbers of a templated option (inverse answers,
+ * sweeps) resolves it first and clears out->tmpl.on in its copy.  Fails
+ * only when the template cannot be derived (no shaft axis). */
+HlStatus hl_recon_resolve (const HlModel *model, const HlRecon *recon,
+                           HlRecon *out, HlError *err);
 
 /* Angle of the joint reaction force from the vertical, degrees, >= 0. */
 double hl_result_jrf_angle_deg (const HlResult *res);

@@ -340,9 +340,16 @@ hl_sweep_run (const HlPlan *plan, const HlModel *model,
             {
               HlRecon recon = plan->options[row - 1].recon;
               if (info->per_option)
-                recon_set (&recon, spec->param,
-                           spec->mode == HL_SWEEP_MODE_ADD
-                           ? recon_get (&recon, spec->param) + v : v);
+                {
+                  /* vary the numbers a template makes, not its stale copy */
+                  HlRecon own = recon;
+                  if (hl_recon_resolve (&m, &own, &recon, NULL) != HL_OK)
+                    recon = own;
+                  recon.tmpl.on = false;
+                  recon_set (&recon, spec->param,
+                             spec->mode == HL_SWEEP_MODE_ADD
+                             ? recon_get (&recon, spec->param) + v : v);
+                }
               st = hl_model_solve (&m, &recon, r, &step_err);
             }
 

@@ -179,7 +179,12 @@ plan_at (const HlPlan *plan, HlChartKind kind, double x)
     {
     case HL_CHART_FEMORAL_OFFSET:
       for (size_t i = 0; i < p->n_options; i++)
-        p->options[i].recon.femoral_offset_mm = x;
+        {
+          /* the chart's offset replaces what a template would derive (a
+           * templated option's stored head length is 0) */
+          p->options[i].recon.tmpl.on = false;
+          p->options[i].recon.femoral_offset_mm = x;
+        }
       break;
     case HL_CHART_CANE_FORCE:
       p->cane.enabled = true;
