@@ -752,9 +752,12 @@ static double
 block_landmarks (HlLayout *L, double y, bool draw)
 {
   const HlPlan *p = L->r->plan;
-  const int half = (HL_LM_COUNT + 1) / 2;
-  double colw = 0.5 * content_width () - 6.0;
-  const double widths[3] = { colw - 90.0, 45.0, 45.0 };
+  /* three columns side by side keep the table as short as it was with
+   * the mechanics landmarks alone */
+  enum { N_COLS = 3 };
+  const int per_col = (HL_LM_COUNT + N_COLS - 1) / N_COLS;
+  double colw = content_width () / N_COLS - 8.0;
+  const double widths[3] = { colw - 76.0, 38.0, 38.0 };
   const bool right[3] = { false, true, true };
   double h = wrap_text (L->cr, _("Landmarks, plan frame in true millimetres (x towards the "
                                  "patient's left, y superior)"),
@@ -762,9 +765,10 @@ block_landmarks (HlLayout *L, double y, bool draw)
                         false, draw) + 2.0;
   double th = 0.0;
 
-  for (int side = 0; side < 2; side++)
+  for (int side = 0; side < N_COLS; side++)
     {
-      int first = side * half, last = side == 0 ? half : HL_LM_COUNT;
+      int first = side * per_col;
+      int last = first + per_col < HL_LM_COUNT ? first + per_col : HL_LM_COUNT;
       HlTable *t = table_new (3, 1 + last - first, 1);
       if (t == NULL)
         return h;
