@@ -15,10 +15,11 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include <glib.h>
+
 #include "hl-i18n.h"
 #include "hl-image.h"
 #include "hl-measure.h"
-#include "hl-sha256.h"
 
 #define HL_SHA256_HEX_DIGITS 64
 #define HL_READ_CHUNK 65536
@@ -198,8 +199,7 @@ hl_file_sha256_hex (const char *path, char hex[65], HlError *err)
       return hl_error_set (err, HL_ERR_NOMEM, path, _("Out of memory while reading \"%s\""),
                            path);
     }
-  HlSha256 ctx;
-  hl_sha256_init (&ctx);
+  GChecksum *sum = g_checksum_new (G_CHECKSUM_SHA256);
   HlStatus st = HL_OK;
   for (;;)
     {
@@ -214,17 +214,14 @@ hl_file_sha256_hex (const char *path, char hex[65], HlError *err)
         }
       if (n == 0)
         break;
-      hl_sha256_update (&ctx, buf, (size_t) n);
+      g_checksum_update (sum, buf, (gssize) n);
     }
   free (buf);
   close (fd);
-  if (st != HL_OK)
-    return st;
-  uint8_t digest[HL_SHA256_SIZE];
-  hl_sha256_final (&ctx, digest);
-  for (int i = 0; i < HL_SHA256_SIZE; i++)
-    snprintf (hex + 2 * i, 3, "%02x", digest[i]);
-  return HL_OK;
+  if (st == HL_OK)
+    snprintf (hex, 65, "%s", g_checksum_get_string (sum));
+  g_checksum_free (sum);
+  return st;
 }
 
 HlImageCheck

@@ -26,6 +26,7 @@
 #include <time.h>
 #include <unistd.h>
 
+#include <glib.h>
 #include <libxml/SAX2.h>
 #include <libxml/parser.h>
 #include <libxml/tree.h>
@@ -38,7 +39,6 @@
 #include "hl-measure.h"
 #include "hl-plan-io.h"
 #include "hl-plan-scan.h"
-#include "hl-sha256.h"
 #include "hl-uncertainty.h"
 #include "hl-version.h"
 
@@ -958,12 +958,16 @@ summary_to_buffer_for (const HlPlan *plan, const char *date_iso, const char *bas
   write_plan_element (&w, plan);
 
   HlBuf b = { 0 };
-  char hex[HL_SHA256_HEX_SIZE];
+  char hex[2 * 32 + 1];   /* a SHA-256 digest in hex */
   char line[160];
   if (w.status == HL_OK && !plan_text.failed)
     {
       /* The digest covers "<plan " to "</plan>" without the final newline. */
-      hl_sha256_hex (plan_text.data, plan_text.len - 1, hex);
+      gchar *digest = g_compute_checksum_for_data (G_CHECKSUM_SHA256,
+                                                   (const guchar *) plan_text.data,
+                                                   plan_text.len - 1);
+      snprintf (hex, sizeof hex, "%s", digest);
+      g_free (digest);
 
       hl_buf_puts (&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
       snprintf (line, sizeof line,

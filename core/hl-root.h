@@ -1,4 +1,4 @@
-/* hl-root.h: one-dimensional root finding by bracketing, after GSL's design.
+/* hl-root.h: one-dimensional root finding by bracketing, on GSL.
  *
  * Copyright 2026 the hiplever developers
  * SPDX-License-Identifier: GPL-3.0-or-later
@@ -10,17 +10,22 @@
  * when to stop.  hl_root_find drives the three steps with the usual
  * tolerances.
  *
- * Methods: bisection (robust, one bit per iteration) and Brent's method
- * (inverse quadratic interpolation and secant steps guarded by bisection:
+ * The work is GSL's (gsl_root_fsolver_bisection and gsl_root_fsolver_brent:
  * Brent 1973, Algorithms for Minimization without Derivatives, ch. 4;
- * the form of GSL roots/brent.c).
+ * gsl_root_test_interval); this file adds the project's errors: a function
+ * that cannot be evaluated stops the solver with its own status and
+ * message, "not reachable" is its own status.
  *
- * The solver is a plain caller-owned struct with no hidden state: solvers
- * may run in parallel.
+ * The solver is a caller-owned struct: solvers may run in parallel.  One
+ * that was set must be cleared (hl_root_solver_clear); hl_root_find clears
+ * it and leaves the final bracket in the struct.
  */
 #pragma once
 
 #include <stdbool.h>
+
+#include <gsl/gsl_roots.h>
+
 #include "hl-types.h"
 
 #ifdef __cplusplus
@@ -60,10 +65,14 @@ typedef struct {
   double root;       /* the current best estimate */
   int iterations;
 
-  /* Brent's state: b is the best estimate, c the contrapoint, a the
-   * previous b; d the last step, e the one before. */
-  double a, b, c, d, e;
-  double fa, fb, fc;
+  /* GSL's solver and the last evaluations (GSL evaluates the ends again
+   * when it is set); private */
+  gsl_root_fsolver *gsl;
+  gsl_function gsl_fn;       /* GSL keeps a pointer to it */
+  HlStatus failed;
+  HlError *err;
+  double cache_x[4], cache_f[4];
+  int cache_next;
 } HlRootSolver;
 
 const char *hl_root_method_name (HlRootMethod method);
@@ -78,17 +87,21 @@ HlStatus hl_root_solver_set (HlRootSolver *s, HlRootMethod method,
 /* One iteration: narrows the bracket. */
 HlStatus hl_root_solver_iterate (HlRootSolver *s, HlError *err);
 
-/* True when the bracket [lower, upper] is narrower than
- * epsabs + epsrel * min(|lower|, |upper|) (for a bracket not straddling
- * zero; across zero the relative part is dropped), as gsl_root_test_interval. */
+/* Frees GSL's solver; the bracket and root stay readable. */
+void hl_root_solver_clear (HlRootSolver *s);
+
+/* gsl_root_test_interval: true when the bracket [lower, upper] is narrower
+ * than epsabs + epsrel * min(|lower|, |upper|) (across zero the relative
+ * part is dropped); false on negative tolerances or lower > upper. */
 bool hl_root_test_interval (double lower, double upper, double epsabs,
                             double epsrel);
 /* True when |f| < epsabs. */
 bool hl_root_test_residual (double f, double epsabs);
 
 /* Sets, iterates and tests until the bracket is narrower than the
- * tolerances; the solver is left with its final bracket (so the caller
- * may pick the end on the side it wants).  HL_ERR_NOT_CONVERGED after
+ * tolerances; the solver is cleared and left with its final bracket and the
+ * function values at its ends (so the caller may pick the end on the side
+ * it wants).  HL_ERR_NOT_CONVERGED after
  * max_iter iterations. */
 HlStatus hl_root_find (HlRootSolver *s, HlRootMethod method,
                        HlRootFunction function, void *data,
