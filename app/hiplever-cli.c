@@ -313,40 +313,42 @@ parse_args (const HlCliCommand *cmd, int argc, char **argv, HlCliArgs *args)
 /* ---- Results as columns ------------------------------------------------ */
 
 /* The CSV columns after "option": names, order and precision are a
- * contract.  The text table shows the same values at the same precision,
- * so the two can be compared. */
+ * contract.  The text table shows the same values with the decimals that
+ * mean something to a reader (HL_DECIMALS_*, shared with the window and
+ * the report). */
 typedef struct {
   const char *csv;
   const char *label;     /* N_() */
-  int precision;
+  int precision;         /* CSV */
   ptrdiff_t offset;      /* into HlResult, or COLUMN_JRF_ANGLE */
+  int display;           /* text */
 } HlCliColumn;
 
 #define COLUMN_JRF_ANGLE ((ptrdiff_t) -1)
 
 static const HlCliColumn result_columns[] = {
   { "abductor_arm_mm", N_("Abductor moment arm (mm)"), 3,
-    offsetof (HlResult, abductor_arm_mm) },
+    offsetof (HlResult, abductor_arm_mm), HL_DECIMALS_MM },
   { "bw_arm_mm", N_("Body-weight lever arm (mm)"), 3,
-    offsetof (HlResult, bw_arm_mm) },
+    offsetof (HlResult, bw_arm_mm), HL_DECIMALS_MM },
   { "lever_ratio", N_("Lever ratio (body weight / abductor)"), 4,
-    offsetof (HlResult, lever_ratio) },
+    offsetof (HlResult, lever_ratio), HL_DECIMALS_RATIO },
   { "abductor_force_N", N_("Abductor force (N)"), 3,
-    offsetof (HlResult, abductor_force_n) },
+    offsetof (HlResult, abductor_force_n), HL_DECIMALS_N },
   { "abductor_force_BW", N_("Abductor force (x body weight)"), 3,
-    offsetof (HlResult, abductor_force_bw) },
+    offsetof (HlResult, abductor_force_bw), HL_DECIMALS_BW },
   { "jrf_N", N_("Joint reaction force (N)"), 3,
-    offsetof (HlResult, jrf_n) },
+    offsetof (HlResult, jrf_n), HL_DECIMALS_N },
   { "jrf_BW", N_("Joint reaction force (x body weight)"), 3,
-    offsetof (HlResult, jrf_bw) },
+    offsetof (HlResult, jrf_bw), HL_DECIMALS_BW },
   { "jrf_angle_deg", N_("Joint reaction force from vertical (deg)"), 3,
-    COLUMN_JRF_ANGLE },
+    COLUMN_JRF_ANGLE, HL_DECIMALS_DEG },
   { "global_offset_change_mm", N_("Global offset change (mm)"), 3,
-    offsetof (HlResult, global_offset_change_mm) },
+    offsetof (HlResult, global_offset_change_mm), HL_DECIMALS_MM },
   { "leg_length_change_mm", N_("Leg length change (mm)"), 3,
-    offsetof (HlResult, leg_length_change_mm) },
+    offsetof (HlResult, leg_length_change_mm), HL_DECIMALS_MM },
   { "abductor_length_change_mm", N_("Abductor length change (mm)"), 3,
-    offsetof (HlResult, abductor_length_change_mm) },
+    offsetof (HlResult, abductor_length_change_mm), HL_DECIMALS_MM },
 };
 
 #define N_COLUMNS (sizeof result_columns / sizeof result_columns[0])
@@ -457,7 +459,7 @@ print_context (const char *path, const HlPlan *plan)
   hl_cli_fprintf (stdout, _("Plan: %s\n"), path);
   hl_cli_fprintf (stdout,
                   _("Case: %s; operated side: %s; body mass %.1f kg "
-                    "(body weight %.1f N)\n"),
+                    "(body weight %.0f N)\n"),
                   plan->label, _(hl_side_name (plan->side)), plan->mass_kg,
                   hl_plan_body_weight (plan));
   hl_cli_fprintf (stdout,
@@ -475,7 +477,7 @@ print_context (const char *path, const HlPlan *plan)
                     "assumption: adjust it to the patient)\n"),
                   plan->capacity.torque_nm_per_kg);
   if (plan->cane.enabled)
-    hl_cli_fprintf (stdout, _("Cane: %s hand, %.1f N, %.1f mm from the midline\n"),
+    hl_cli_fprintf (stdout, _("Cane: %s hand, %.0f N, %.0f mm from the midline\n"),
                     hand_name[plan->cane.hand == HL_HAND_IPSILATERAL],
                     hl_plan_cane_force (plan), plan->cane.distance_mm);
   if (hl_plan_cane_note (plan) != NULL)
@@ -483,7 +485,7 @@ print_context (const char *path, const HlPlan *plan)
   for (int h = 0; h < 2; h++)
     if (plan->loads.hand[h].mass_kg > 0.0)
       hl_cli_fprintf (stdout,
-                      _("Load in the %s hand: %.1f kg, %.1f mm from the midline\n"),
+                      _("Load in the %s hand: %.1f kg, %.0f mm from the midline\n"),
                       hand_name[h], plan->loads.hand[h].mass_kg,
                       plan->loads.hand[h].distance_mm);
   if (plan->loads.midline_kg > 0.0)
@@ -501,7 +503,7 @@ case_width (const HlPlan *plan, const HlResult *results, size_t i,
 
   for (size_t r = 0; r < n_rows; r++)
     {
-      hl_cli_format_fixed (num, sizeof num, rows[r]->precision,
+      hl_cli_format_fixed (num, sizeof num, rows[r]->display,
                            column_value (rows[r], &results[i]));
       if (strlen (num) > width)
         width = strlen (num);
@@ -513,6 +515,7 @@ case_width (const HlPlan *plan, const HlResult *results, size_t i,
  * are a contract). */
 static const HlCliColumn demand_column = {
   NULL, N_("Abductor demand over capacity"), 3, offsetof (HlResult, demand),
+  HL_DECIMALS_RATIO,
 };
 
 static void
@@ -551,7 +554,7 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
       print_padded (_(rows[r]->label), label_width, false);
       for (size_t i = 0; i < n_cases; i++)
         {
-          hl_cli_format_fixed (num, sizeof num, rows[r]->precision,
+          hl_cli_format_fixed (num, sizeof num, rows[r]->display,
                                column_value (rows[r], &results[i]));
           hl_cli_fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
           print_padded (num, case_width (plan, results, i, rows, n_rows), true);

@@ -462,10 +462,12 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
             const HlResult *r = &results[row * spec.n_steps + step];
             char flags[256];
             size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
-            hl_buf_printf (&buf, "%*.4f  %s%*s  %9.3f  %9.3f  %9.3f  %9.3f  %9.3f  %s\n",
+            hl_buf_printf (&buf, "%*g  %s%*s  %9.*f  %9.*f  %9.*f  %9.*f  %9.*f  %s\n",
                                value_w, values[step], case_name (plan, row), (int) pad, "",
-                               r->abductor_arm_mm, r->abductor_force_n, r->abductor_force_bw,
-                               r->jrf_n, r->jrf_bw,
+                               HL_DECIMALS_MM, r->abductor_arm_mm,
+                               HL_DECIMALS_N, r->abductor_force_n,
+                               HL_DECIMALS_BW, r->abductor_force_bw,
+                               HL_DECIMALS_N, r->jrf_n, HL_DECIMALS_BW, r->jrf_bw,
                                hl_flags_format (r->flags, ";", flags, sizeof flags));
           }
       hl_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());

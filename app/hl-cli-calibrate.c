@@ -38,7 +38,7 @@ const HlCliOption hl_cli_calibrate_options[] = {
   { NULL },
 };
 
-#define HL_CLI_MAGNIFICATION_DECIMALS 4
+#define HL_CLI_MAGNIFICATION_DECIMALS HL_DECIMALS_MAGNIFICATION
 #define HL_CLI_MEASURE_DECIMALS 1
 
 static bool
@@ -299,7 +299,7 @@ hl_cli_print_measures (const HlPlan *plan)
   hl_cli_fprintf (stdout, "\n%s\n", _("Radiographic measures (mm, operated side; "
                                       "\"diff\" is operated minus other side, "
                                       "the target is 0):"));
-  hl_cli_fprintf (stdout, _("Magnification %.4f%s\n"), m,
+  hl_cli_fprintf (stdout, _("Magnification %.*f%s\n"), HL_DECIMALS_MAGNIFICATION, m,
                   assumed ? _(" (assumed, not calibrated)") : "");
   hl_cli_fprintf (stdout, "%-*s", (int) label_w, "");
   for (size_t i = 0; i < n_cases; i++)

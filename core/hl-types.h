@@ -72,6 +72,18 @@ const char *hl_side_name (HlSide side);   /* "right", "left" */
 #define HL_MAGNIFICATION_MAX 1.5
 #define HL_COORD_MAX_MM 2000.0       /* |landmark coordinate| limit */
 
+/* Decimals of the numbers people read (the window, the command line's text
+ * output, the report): the digits that mean something for a static
+ * estimate from landmarks placed to about a millimetre.  Machine outputs
+ * keep their own contract (CSV 3 decimals, 4 for the lever ratio; XML
+ * full precision). */
+#define HL_DECIMALS_N 0               /* forces in N */
+#define HL_DECIMALS_BW 2              /* forces in multiples of body weight */
+#define HL_DECIMALS_MM 1              /* lengths and their changes */
+#define HL_DECIMALS_DEG 1             /* angles */
+#define HL_DECIMALS_RATIO 2           /* the lever ratio, demand over capacity */
+#define HL_DECIMALS_MAGNIFICATION 3   /* a radiograph's magnification */
+
 #ifdef __cplusplus
 }
 #endif

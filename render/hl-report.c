@@ -858,6 +858,7 @@ block_options (HlLayout *L, double y, bool draw)
 
 typedef enum {
   ROW_PLAIN,       /* value and % change */
+  ROW_VALUE,       /* an angle or a ratio: value only, a % change means nothing */
   ROW_CHANGE,      /* already a change against native: value only */
 } HlRowKind;
 
@@ -887,19 +888,19 @@ block_results (HlLayout *L, double y, bool draw)
 {
   const HlReport *r = L->r;
   const HlResultRow rows[] = {
-    { N_("Abductor moment arm (mm)"), ROW_PLAIN, 1, get_arm },
-    { N_("Body-weight lever arm (mm)"), ROW_PLAIN, 1, get_bw_arm },
-    { N_("Lever ratio (body weight / abductor)"), ROW_PLAIN, 2, get_ratio },
-    { N_("Abductor force (N)"), ROW_PLAIN, 0, get_fa_n },
-    { N_("Abductor force (x body weight)"), ROW_PLAIN, 2, get_fa_bw },
-    { N_("Joint reaction force (N)"), ROW_PLAIN, 0, get_j_n },
-    { N_("Joint reaction force (x body weight)"), ROW_PLAIN, 3, get_j_bw },
-    { N_("Joint force from vertical (deg)"), ROW_PLAIN, 1, get_j_angle },
-    { N_("Capacity use: demand over capacity (%)"), ROW_PLAIN, 0, get_demand },
-    { N_("Femoral offset change (mm)"), ROW_CHANGE, 1, get_femoral },
-    { N_("Global offset change (mm)"), ROW_CHANGE, 1, get_global },
-    { N_("Leg length change (mm)"), ROW_CHANGE, 1, get_leg },
-    { N_("Abductor length change (mm)"), ROW_CHANGE, 1, get_abd_len },
+    { N_("Abductor moment arm (mm)"), ROW_PLAIN, HL_DECIMALS_MM, get_arm },
+    { N_("Body-weight lever arm (mm)"), ROW_PLAIN, HL_DECIMALS_MM, get_bw_arm },
+    { N_("Lever ratio (body weight / abductor)"), ROW_VALUE, HL_DECIMALS_RATIO, get_ratio },
+    { N_("Abductor force (N)"), ROW_PLAIN, HL_DECIMALS_N, get_fa_n },
+    { N_("Abductor force (x body weight)"), ROW_PLAIN, HL_DECIMALS_BW, get_fa_bw },
+    { N_("Joint reaction force (N)"), ROW_PLAIN, HL_DECIMALS_N, get_j_n },
+    { N_("Joint reaction force (x body weight)"), ROW_PLAIN, HL_DECIMALS_BW, get_j_bw },
+    { N_("Joint force from vertical (deg)"), ROW_VALUE, HL_DECIMALS_DEG, get_j_angle },
+    { N_("Capacity use: demand over capacity (%)"), ROW_VALUE, 0, get_demand },
+    { N_("Femoral offset change (mm)"), ROW_CHANGE, HL_DECIMALS_MM, get_femoral },
+    { N_("Global offset change (mm)"), ROW_CHANGE, HL_DECIMALS_MM, get_global },
+    { N_("Leg length change (mm)"), ROW_CHANGE, HL_DECIMALS_MM, get_leg },
+    { N_("Abductor length change (mm)"), ROW_CHANGE, HL_DECIMALS_MM, get_abd_len },
   };
   const int n_plain = (int) (sizeof rows / sizeof rows[0]);
   const int n_mc = r->have_mc ? 3 : 0;
@@ -939,7 +940,7 @@ block_results (HlLayout *L, double y, bool draw)
           char *cell = t->cells[(1 + i) * n_cols + 1 + (int) row];
           if (!isfinite (v))
             snprintf (cell, CELL_MAX, "%s", _("not measured"));
-          else if (row == 0 || rr->kind == ROW_CHANGE || fabs (native) < CHANGE_EPS)
+          else if (row == 0 || rr->kind != ROW_PLAIN || fabs (native) < CHANGE_EPS)
             snprintf (cell, CELL_MAX, rr->kind == ROW_CHANGE ? "%+.*f" : "%.*f",
                       rr->precision, v);
           else

@@ -18,12 +18,19 @@
 
 typedef double (*HlResultGetter) (const HlResult *res);
 
+/* How a row shows against native. */
+typedef enum {
+  ROW_PERCENT,   /* a value and its change against native in per cent */
+  ROW_VALUE,     /* an angle or a ratio: the value only, a % change means nothing */
+  ROW_CHANGE,    /* already a change against native: signed, no per cent */
+} HlRowKind;
+
 typedef struct {
   const char *key;
   const char *label;
   const char *unit;
   int digits;
-  gboolean percent;   /* FALSE for rows that are already changes */
+  HlRowKind kind;
   HlResultGetter get;
 } HlResultRow;
 
@@ -40,17 +47,17 @@ static double get_leg_length (const HlResult *r) { return r->leg_length_change_m
 static double get_abductor_length (const HlResult *r) { return r->abductor_length_change_mm; }
 
 static const HlResultRow rows[] = {
-  { "abductor-moment-arm", N_("Abductor moment arm"), N_("mm"), 1, TRUE, get_abductor_arm },
-  { "body-weight-moment-arm", N_("Body-weight moment arm"), N_("mm"), 1, TRUE, get_bw_arm },
-  { "lever-ratio", N_("Lever ratio (weight : abductor)"), "", 2, TRUE, get_lever_ratio },
-  { "abductor-force-n", N_("Abductor force"), N_("N"), 0, TRUE, get_abductor_n },
-  { "abductor-force-bw", N_("Abductor force"), N_("× BW"), 2, TRUE, get_abductor_bw },
-  { "joint-reaction-force-n", N_("Joint reaction force"), N_("N"), 0, TRUE, get_jrf_n },
-  { "joint-reaction-force-bw", N_("Joint reaction force"), N_("× BW"), 2, TRUE, get_jrf_bw },
-  { "joint-force-angle", N_("Joint force angle from vertical"), N_("°"), 1, TRUE, get_jrf_angle },
-  { "global-offset-change", N_("Global offset change"), N_("mm"), 1, FALSE, get_global_offset },
-  { "leg-length-change", N_("Leg length change"), N_("mm"), 1, FALSE, get_leg_length },
-  { "abductor-length-change", N_("Abductor length change"), N_("mm"), 1, FALSE, get_abductor_length },
+  { "abductor-moment-arm", N_("Abductor moment arm"), N_("mm"), HL_DECIMALS_MM, ROW_PERCENT, get_abductor_arm },
+  { "body-weight-moment-arm", N_("Body-weight lever arm"), N_("mm"), HL_DECIMALS_MM, ROW_PERCENT, get_bw_arm },
+  { "lever-ratio", N_("Lever ratio (weight : abductor)"), "", HL_DECIMALS_RATIO, ROW_VALUE, get_lever_ratio },
+  { "abductor-force-n", N_("Abductor force"), N_("N"), HL_DECIMALS_N, ROW_PERCENT, get_abductor_n },
+  { "abductor-force-bw", N_("Abductor force"), N_("× BW"), HL_DECIMALS_BW, ROW_PERCENT, get_abductor_bw },
+  { "joint-reaction-force-n", N_("Joint reaction force"), N_("N"), HL_DECIMALS_N, ROW_PERCENT, get_jrf_n },
+  { "joint-reaction-force-bw", N_("Joint reaction force"), N_("× BW"), HL_DECIMALS_BW, ROW_PERCENT, get_jrf_bw },
+  { "joint-force-angle", N_("Joint force angle from vertical"), N_("°"), HL_DECIMALS_DEG, ROW_VALUE, get_jrf_angle },
+  { "global-offset-change", N_("Global offset change"), N_("mm"), HL_DECIMALS_MM, ROW_CHANGE, get_global_offset },
+  { "leg-length-change", N_("Leg length change"), N_("mm"), HL_DECIMALS_MM, ROW_CHANGE, get_leg_length },
+  { "abductor-length-change", N_("Abductor length change"), N_("mm"), HL_DECIMALS_MM, ROW_CHANGE, get_abductor_length },
 };
 
 /* Flags come right under the option names, where a warning is seen
@@ -113,7 +120,7 @@ format_value (const HlResultRow *row, double v)
 {
   if (!isfinite (v))
     return g_strdup (_("not measured"));
-  if (row->percent)
+  if (row->kind != ROW_CHANGE)
     return g_strdup_printf ("%.*f", row->digits, v);
   return g_strdup_printf ("%+.*f", row->digits, v);
 }
@@ -121,7 +128,7 @@ format_value (const HlResultRow *row, double v)
 static char *
 format_change (const HlResultRow *row, double v, double native)
 {
-  if (!row->percent || !isfinite (v) || !isfinite (native))
+  if (row->kind != ROW_PERCENT || !isfinite (v) || !isfinite (native))
     return g_strdup ("");
   if (fabs (native) < HL_RESULTS_PERCENT_MIN_BASE)
     return g_strdup ("(—)");

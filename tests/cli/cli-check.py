@@ -93,11 +93,22 @@ def text_vs_csv(text_path, csv_path):
     # the order of the CSV columns; it starts after the first blank line.
     start = lines.index('') + 2
     table = lines[start:start + len(columns)]
+    # The text shows fewer decimals than the CSV (the digits that mean
+    # something to a reader): each text number is the CSV value rounded
+    # to the text's decimals.
     for col, line in zip(columns, table):
         numbers = line.split()[-len(data):]
         expected = [row[col] for row in data]
-        if numbers != expected:
+        if len(numbers) != len(expected):
             fail('text row %r: %s, csv column %s: %s' % (line, numbers, names[col], expected))
+        for shown, exact in zip(numbers, expected):
+            decimals = len(shown.split('.')[1]) if '.' in shown else 0
+            if decimals >= len(exact.split('.')[1]) if '.' in exact else True:
+                fail('text row %r shows %s, no fewer decimals than the csv %s'
+                     % (line, shown, exact))
+            if abs(float(shown) - float(exact)) > 0.5 * 10 ** -decimals + 1e-9:
+                fail('text row %r: %s is not csv column %s: %s rounded'
+                     % (line, shown, names[col], exact))
     if len(table) != len(columns):
         fail('text table has %d rows, expected %d' % (len(table), len(columns)))
     print(len(columns))
