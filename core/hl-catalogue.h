@@ -47,7 +47,6 @@
 #include <stdbool.h>
 #include <stddef.h>
 #include "hl-plan.h"
-#include "hl-sha256.h"
 #include "hl-types.h"
 
 #ifdef __cplusplus

@@ -958,16 +958,12 @@ summary_to_buffer_for (const HlPlan *plan, const char *date_iso, const char *bas
   write_plan_element (&w, plan);
 
   HlBuf b = { 0 };
-  char hex[2 * 32 + 1];   /* a SHA-256 digest in hex */
+  char hex[HL_SHA256_HEX_SIZE];
   char line[160];
   if (w.status == HL_OK && !plan_text.failed)
     {
       /* The digest covers "<plan " to "</plan>" without the final newline. */
-      gchar *digest = g_compute_checksum_for_data (G_CHECKSUM_SHA256,
-                                                   (const guchar *) plan_text.data,
-                                                   plan_text.len - 1);
-      snprintf (hex, sizeof hex, "%s", digest);
-      g_free (digest);
+      hl_sha256_hex (plan_text.data, plan_text.len - 1, hex);
 
       hl_buf_puts (&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
       snprintf (line, sizeof line,

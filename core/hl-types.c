@@ -9,7 +9,18 @@
 #include <stdio.h>
 #include <string.h>
 
+#include <glib.h>
+
 #include "hl-types.h"
+
+char *
+hl_sha256_hex (const void *data, size_t size, char hex[HL_SHA256_HEX_SIZE])
+{
+  gchar *digest = g_compute_checksum_for_data (G_CHECKSUM_SHA256, data, size);
+  snprintf (hex, HL_SHA256_HEX_SIZE, "%s", digest);
+  g_free (digest);
+  return hex;
+}
 
 HlStatus
 hl_error_set (HlError *err, HlStatus status, const char *field,

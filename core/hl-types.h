@@ -52,6 +52,11 @@ HlStatus hl_error_set (HlError *err, HlStatus status, const char *field,
 void hl_error_clear (HlError *err);
 const char *hl_status_name (HlStatus status);
 
+/* SHA-256 digests (GLib's GChecksum): 64 lower-case hex digits and a NUL. */
+#define HL_SHA256_HEX_SIZE 65
+/* The digest of `size` bytes as hex; returns hex. */
+char *hl_sha256_hex (const void *data, size_t size, char hex[HL_SHA256_HEX_SIZE]);
+
 /* The operated side. */
 typedef enum {
   HL_SIDE_RIGHT = 0,
