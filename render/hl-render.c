@@ -19,6 +19,7 @@
 
 #include "hl-i18n.h"
 #include "hl-render.h"
+#include "hl-render-template.h"
 #include "hl-version.h"
 
 /* ---- Proportions of the drawn bones ------------------------------------
@@ -203,6 +204,8 @@ hl_render_style_init (HlRenderStyle *style, bool dark)
   style->show_labels = true;
   style->hover_landmark = -1;
   style->selected_landmark = -1;
+  style->hover_template = -1;
+  style->selected_template = -1;
   style->font_px = 12.0;
 }
 
@@ -703,6 +706,9 @@ scene_init (HlScene *scene, const HlPlan *plan, int option_index)
       scene->has_option = true;
       scene->option_index = option_index;
       hl_recon_landmarks (plan, scene_recon (scene), &scene->shown);
+      scene->has_template = plan->options[option_index].recon.tmpl.on;
+      if (scene->has_template)
+        hl_template_shape (plan, (size_t) option_index, NULL, &scene->tmpl);
     }
   return true;
 }
@@ -1952,7 +1958,7 @@ hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
   if (scene->has_option && !style->hide_schematic)
     {
       draw_femur (cr, view, style, &sh.native_femur, true);
-      if (sh.shown_femur.ok)
+      if (sh.shown_femur.ok && !scene->has_template)
         draw_cup (cr, view, style, sh.shown_femur.head, sh.shown_femur.head_r,
                   side_lateral_sign (scene->plan->side));
     }
@@ -1962,6 +1968,8 @@ hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
       draw_construction (cr, view, style, &pl, scene, y_lo, y_hi);
       draw_forces (cr, view, style, &pl, scene);
     }
+  if (scene->has_template)
+    hl_render_template (cr, scene, view, style);
   draw_option_markers (cr, view, style, scene);
   draw_handles (cr, view, style, &pl, scene);
 

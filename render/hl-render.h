@@ -32,6 +32,7 @@
 #include "hl-palette.h"
 #include "hl-plan.h"
 #include "hl-solve.h"
+#include "hl-template-shape.h"
 
 #ifdef __cplusplus
 extern "C" {
@@ -78,6 +79,8 @@ typedef struct {
                               * shows them (forces and handles stay) */
   int hover_landmark;        /* HlLandmarkId or -1 */
   int selected_landmark;     /* HlLandmarkId or -1 */
+  int hover_template;        /* HlTemplatePart (hl-render-template.h) or -1 */
+  int selected_template;     /* HlTemplatePart or -1 */
   double font_px;            /* base text size */
 } HlRenderStyle;
 
@@ -102,6 +105,10 @@ typedef struct {
   HlModel model;
   HlResult result;
   HlForceSet forces;
+  /* The option's implant template (hl-template-shape.h), drawn by
+   * hl-render-template.c; has_template false for a manual option. */
+  bool has_template;
+  HlTemplateShape tmpl;
 } HlScene;
 
 /* Never fails: a plan that cannot be solved gives a scene with solved false
