@@ -125,6 +125,18 @@ static const HlCliCommand commands[] = {
   { "calibrate", "PLAN | --marker X1,Y1 X2,Y2 X3,Y3 [--diameter MM] | --two-point X1,Y1 X2,Y2 --distance MM",
     N_("The radiograph magnification (measured / true) from a plan's calibration, or from points in image mm; says when it is assumed."),
     hl_cli_calibrate_options, 0, 3, hl_cli_calibrate },
+  { "catalogue", "FILE",
+    N_("Check an implant catalogue and list its families and sizes (exit 0; "
+       "1 with a message naming the element and line when it is invalid)."),
+    hl_cli_catalogue_options, 1, 1, hl_cli_catalogue },
+  { "fit", "PLAN [--option NAME] [--sizes] [--format csv|text] [--apply RANK -o OUT.hlplan]",
+    N_("Rank the implant combinations of a templated option: every liner, "
+       "stem version and head length with the cup and stem as placed (with "
+       "--sizes also every cup and stem size), each solved, by |leg length "
+       "residual| + |global offset residual| against the other hip where "
+       "measured, else native; ties by the lower joint force.  --apply "
+       "writes the plan with one of them."),
+    hl_cli_fit_options, 1, 1, hl_cli_fit },
   { "image", "FILE",
     N_("What the program reads from an image file (DICOM, PNG, TIFF or JPEG): "
        "format, size, bits, the spacing and where it comes from, the window. "

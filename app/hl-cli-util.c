@@ -182,6 +182,7 @@ hl_cli_load_plan (const char *path)
       return NULL;
     }
   hl_cli_check_radiograph (path, plan);
+  hl_cli_resolve_templates (path, plan);
   return plan;
 }
 

@@ -10,6 +10,7 @@
 #pragma once
 
 #include "hl-buf.h"
+#include "hl-catalogue.h"
 #include "hl-plan.h"
 
 #include <stdarg.h>
@@ -123,6 +124,18 @@ int hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args);
 int hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args);
 int hl_cli_report (const HlCliCommand *cmd, const HlCliArgs *args);
 int hl_cli_figure (const HlCliCommand *cmd, const HlCliArgs *args);
+
+/* The templating subcommands (hl-cli-template.c): catalogue and fit, and
+ * the implant catalogues of this run (the bundled demo catalogue and the
+ * files in HIPLEVER_CATALOGUES, ':'-separated), against which every plan
+ * the command line loads is resolved (a missing or changed catalogue is a
+ * warning on stderr). */
+extern const HlCliOption hl_cli_catalogue_options[];
+extern const HlCliOption hl_cli_fit_options[];
+int hl_cli_catalogue (const HlCliCommand *cmd, const HlCliArgs *args);
+int hl_cli_fit (const HlCliCommand *cmd, const HlCliArgs *args);
+const HlCatalogueSet *hl_cli_catalogues (void);
+void hl_cli_resolve_templates (const char *path, HlPlan *plan);
 
 /* The image subcommand (hl-cli-image.c). */
 extern const HlCliOption hl_cli_image_options[];

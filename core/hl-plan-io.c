@@ -39,6 +39,7 @@
 #include "hl-measure.h"
 #include "hl-plan-io.h"
 #include "hl-plan-scan.h"
+#include "hl-template.h"
 #include "hl-uncertainty.h"
 #include "hl-version.h"
 
@@ -94,7 +95,8 @@ static const char *const number_attrs[] = {
   "femoral-length-mm", "head-length-mm", "neck-shaft-angle-deg",
   "landmark-sd-mm", "magnification-sd", "angle-sd-deg",
   "pixel-spacing-mm", "origin-x-mm", "origin-y-mm", "brightness", "contrast",
-  "opacity",
+  "opacity", "cup-diameter-mm", "cup-x-mm", "cup-y-mm", "inclination-deg",
+  "seat-mm",
 };
 
 /* ---- Numbers in the C locale ------------------------------------------- */
@@ -453,6 +455,65 @@ write_radiograph (HlWriter *w, const HlRadiograph *rg)
                                         : " schematic-visible=\"false\"/>\n");
 }
 
+/* A templated option is written with the four numbers its template makes
+ * on the plan's landmarks now (the stored ones may lag a landmark move);
+ * an unresolved template keeps its stored, last derived numbers. */
+static const HlOption *
+option_as_saved (const HlPlan *plan, size_t i, HlOption *fresh)
+{
+  const HlOption *o = &plan->options[i];
+  if (!o->recon.tmpl.on || !o->recon.tmpl.resolved)
+    return o;
+  HlTemplateFrame f;
+  HlTemplateGeometry g;
+  hl_template_frame (&plan->landmarks, plan->side, &f);
+  if (hl_template_derive (&f, &o->recon.tmpl, &g, NULL) != HL_OK)
+    return o;
+  *fresh = *o;
+  hl_template_geometry_to_recon (&g, &o->recon.tmpl, &fresh->recon);
+  return fresh;
+}
+
+static void
+write_template (HlWriter *w, const HlTemplate *t, const char *field)
+{
+  HlBuf *b = w->b;
+  char f[HL_ERROR_FIELD_MAX];
+  snprintf (f, sizeof f, "%.80s template", field);
+  hl_buf_puts (b, ">\n      <template");
+  put_text_attr (w, "catalogue", t->catalogue, sizeof t->catalogue, f);
+  put_text_attr (w, "cup-family", t->cup_family, sizeof t->cup_family, f);
+  put_number (w, "cup-diameter-mm", t->cup_diameter_mm, f);
+  put_number (w, "cup-x-mm", t->cup_x_mm, f);
+  put_number (w, "cup-y-mm", t->cup_y_mm, f);
+  put_number (w, "inclination-deg", t->inclination_deg, f);
+  put_text_attr (w, "liner", t->liner, sizeof t->liner, f);
+  put_text_attr (w, "stem-family", t->stem_family, sizeof t->stem_family, f);
+  put_text_attr (w, "stem-size", t->stem_size, sizeof t->stem_size, f);
+  put_text_attr (w, "version", t->version, sizeof t->version, f);
+  put_number (w, "seat-mm", t->seat_mm, f);
+  put_number (w, "head-length-mm", t->head_length_mm, f);
+  hl_buf_puts (b, "/>\n    </option>\n");
+}
+
+static void
+write_catalogue_refs (HlWriter *w, const HlPlan *plan)
+{
+  if (plan->n_catalogues == 0)
+    return;
+  hl_buf_puts (w->b, "  <catalogues>\n");
+  for (size_t i = 0; i < plan->n_catalogues && i < HL_PLAN_CATALOGUES_MAX; i++)
+    {
+      const HlCatalogueRef *c = &plan->catalogues[i];
+      hl_buf_puts (w->b, "    <catalogue");
+      put_text_attr (w, "id", c->id, sizeof c->id, "catalogue");
+      put_text_attr (w, "version", c->version, sizeof c->version, "catalogue");
+      put_text_attr (w, "sha256", c->sha256, sizeof c->sha256, "catalogue");
+      hl_buf_puts (w->b, "/>\n");
+    }
+  hl_buf_puts (w->b, "  </catalogues>\n");
+}
+
 static void
 write_plan_element (HlWriter *w, const HlPlan *plan)
 {
@@ -581,7 +642,8 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
       hl_buf_puts (b, "  <options>\n");
       for (size_t i = 0; i < plan->n_options; i++)
         {
-          const HlOption *o = &plan->options[i];
+          HlOption fresh;
+          const HlOption *o = option_as_saved (plan, i, &fresh);
           char field[HL_ERROR_FIELD_MAX];
           snprintf (field, sizeof field, "option %zu", i + 1);
           hl_buf_puts (b, "    <option");
@@ -592,10 +654,14 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
           put_number (w, "femoral-length-mm", o->recon.femoral_length_mm, field);
           put_number (w, "head-length-mm", o->recon.head_length_mm, field);
           put_number (w, "neck-shaft-angle-deg", o->recon.neck_shaft_angle_deg, field);
-          hl_buf_puts (b, "/>\n");
+          if (o->recon.tmpl.on)
+            write_template (w, &o->recon.tmpl, field);
+          else
+            hl_buf_puts (b, "/>\n");
         }
       hl_buf_puts (b, "  </options>\n");
     }
+  write_catalogue_refs (w, plan);
 
   const char *problem = text_problem (plan->notes, sizeof plan->notes);
   if (problem != NULL)
@@ -797,6 +863,40 @@ write_measures (HlBuf *b, const HlPlan *plan, const HlRecon *recon)
   hl_buf_clear (&attrs);
 }
 
+/* The implants of a templated option and the four numbers they make
+ * (derived="now" from the resolved template, "saved" while the catalogue
+ * is missing or changed). */
+static void
+write_implants (HlBuf *b, const HlPlan *plan, size_t index)
+{
+  HlOption fresh;
+  const HlOption *o = option_as_saved (plan, index, &fresh);
+  const HlTemplate *t = &o->recon.tmpl;
+  const struct { const char *attr; const char *v; } texts[] = {
+    { "catalogue", t->catalogue }, { "cup-family", t->cup_family },
+    { "liner", t->liner }, { "stem-family", t->stem_family },
+    { "stem-size", t->stem_size }, { "version", t->version },
+  };
+  hl_buf_puts (b, "    <implants");
+  for (size_t i = 0; i < sizeof texts / sizeof texts[0]; i++)
+    {
+      hl_buf_puts (b, " ");
+      hl_buf_puts (b, texts[i].attr);
+      hl_buf_puts (b, "=\"");
+      buf_escaped (b, texts[i].v, true);
+      hl_buf_puts (b, "\"");
+    }
+  put_result_number (b, "cup-diameter-mm", t->cup_diameter_mm);
+  put_result_number (b, "inclination-deg", t->inclination_deg);
+  put_result_number (b, "seat-mm", t->seat_mm);
+  put_result_number (b, "head-length-mm", t->head_length_mm);
+  put_result_number (b, "cup-medial-mm", o->recon.cup_medial_mm);
+  put_result_number (b, "cup-superior-mm", o->recon.cup_superior_mm);
+  put_result_number (b, "femoral-offset-mm", o->recon.femoral_offset_mm);
+  put_result_number (b, "femoral-length-mm", o->recon.femoral_length_mm);
+  hl_buf_puts (b, t->resolved ? " derived=\"now\"/>\n" : " derived=\"saved\"/>\n");
+}
+
 static void
 write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
               const char *name, const HlPlan *plan)
@@ -873,6 +973,8 @@ write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
           }
         hl_buf_puts (b, "</flag>\n");
       }
+  if (index >= 0 && plan->options[index].recon.tmpl.on)
+    write_implants (b, plan, (size_t) index);
   write_measures (b, plan, index < 0 ? NULL : &plan->options[index].recon);
   hl_buf_puts (b, "  </result>\n");
 }
@@ -1702,6 +1804,62 @@ read_aids (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *nodes)
   return true;
 }
 
+/* The <template> child of an <option>, when there is one: read as it
+ * stands, unresolved (hl_plan_resolve_templates looks it up). */
+static bool
+read_template (HlReader *r, xmlNodePtr option, HlTemplate *t)
+{
+  for (xmlNodePtr c = option->children; c != NULL; c = c->next)
+    {
+      if (c->type != XML_ELEMENT_NODE)
+        continue;
+      if (!node_is (c, "template") || t->on)
+        {
+          reader_fail (r, HL_ERR_PARSE, c, _("unexpected element in <option>"));
+          return false;
+        }
+      t->on = true;
+      if (!get_text_attr (r, c, "catalogue", t->catalogue, sizeof t->catalogue)
+          || !get_text_attr (r, c, "cup-family", t->cup_family, sizeof t->cup_family)
+          || !get_number (r, c, "cup-diameter-mm", true, &t->cup_diameter_mm)
+          || !get_number (r, c, "cup-x-mm", true, &t->cup_x_mm)
+          || !get_number (r, c, "cup-y-mm", true, &t->cup_y_mm)
+          || !get_number (r, c, "inclination-deg", true, &t->inclination_deg)
+          || !get_text_attr (r, c, "liner", t->liner, sizeof t->liner)
+          || !get_text_attr (r, c, "stem-family", t->stem_family, sizeof t->stem_family)
+          || !get_text_attr (r, c, "stem-size", t->stem_size, sizeof t->stem_size)
+          || !get_text_attr (r, c, "version", t->version, sizeof t->version)
+          || !get_number (r, c, "seat-mm", true, &t->seat_mm)
+          || !get_number (r, c, "head-length-mm", true, &t->head_length_mm))
+        return false;
+    }
+  return true;
+}
+
+static bool
+read_catalogue_refs (HlReader *r, xmlNodePtr node, HlPlan *plan)
+{
+  for (xmlNodePtr c = node->children; c != NULL; c = c->next)
+    {
+      if (c->type != XML_ELEMENT_NODE)
+        continue;
+      if (!node_is (c, "catalogue") || plan->n_catalogues >= HL_PLAN_CATALOGUES_MAX)
+        {
+          reader_fail (r, HL_ERR_PARSE, c, node_is (c, "catalogue")
+                       ? _("a plan records at most 8 implant catalogues")
+                       : _("unexpected element in <catalogues>"));
+          return false;
+        }
+      HlCatalogueRef *ref = &plan->catalogues[plan->n_catalogues];
+      if (!get_text_attr (r, c, "id", ref->id, sizeof ref->id)
+          || !get_text_attr (r, c, "version", ref->version, sizeof ref->version)
+          || !get_text_attr (r, c, "sha256", ref->sha256, sizeof ref->sha256))
+        return false;
+      plan->n_catalogues++;
+    }
+  return true;
+}
+
 static bool
 read_options (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *nodes)
 {
@@ -1724,7 +1882,8 @@ read_options (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *nodes)
           || !get_number (r, c, "femoral-offset-mm", false, &rc->femoral_offset_mm)
           || !get_number (r, c, "femoral-length-mm", false, &rc->femoral_length_mm)
           || !get_number (r, c, "head-length-mm", false, &rc->head_length_mm)
-          || !get_number (r, c, "neck-shaft-angle-deg", false, &rc->neck_shaft_angle_deg))
+          || !get_number (r, c, "neck-shaft-angle-deg", false, &rc->neck_shaft_angle_deg)
+          || !read_template (r, c, &rc->tmpl))
         return false;
 
       xmlNodePtr *grown = realloc (nodes->option, (nodes->n_option + 1) * sizeof *grown);
@@ -1823,6 +1982,8 @@ read_plan_element (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *node
         ok = read_uncertainty (r, c, plan), nodes->uncertainty = c;
       else if (node_is (c, "options"))
         ok = read_options (r, c, plan, nodes);
+      else if (node_is (c, "catalogues"))
+        ok = read_catalogue_refs (r, c, plan);
       else if (node_is (c, "notes"))
         {
           xmlChar *text = xmlNodeGetContent (c);
