@@ -86,7 +86,7 @@ const HlCliOption hl_cli_uncertainty_options[] = {
     N_("the number of samples (default: the plan's, normally 4000)") },
   { "seed", 0, N_("S"),
     N_("the seed, a whole number (default: the plan's); the same seed gives "
-       "the same numbers") },
+       "the same numbers with the same GSL version") },
   { "csv", 0, NULL,
     N_("CSV: option,abductor_force_BW_p05,abductor_force_BW_p50,"
        "abductor_force_BW_p95,jrf_BW_p05,jrf_BW_p50,jrf_BW_p95,jrf_N_p05,"

@@ -10,7 +10,6 @@
 
 #include "hl-capacity.h"
 #include "hl-inverse.h"
-#include "hl-rng.h"
 #include "hl-root.h"
 #include "hl-sweep.h"
 #include "hl-uncertainty.h"

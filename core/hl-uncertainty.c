@@ -1,5 +1,5 @@
-/* hl-uncertainty.c: Monte Carlo on a prepared model; percentiles by
- * selection.
+/* hl-uncertainty.c: Monte Carlo on a prepared model; random numbers,
+ * selection and percentiles by GSL.
  *
  * Copyright 2026 the hiplever developers
  * SPDX-License-Identifier: GPL-3.0-or-later
@@ -10,15 +10,15 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include <gsl/gsl_randist.h>
+#include <gsl/gsl_statistics_double.h>
+
 #include "hl-i18n.h"
 #include "hl-measure.h"
 #include "hl-uncertainty.h"
 
 #define DEG (M_PI / 180.0)
 #define MC_FIELD "uncertainty"
-/* Floyd and Rivest's sampling step pays above this many elements (their
- * published constant). */
-#define HL_SELECT_SAMPLE_ABOVE 600
 /* Rows kept per sample: abductor force and joint load. */
 #define MC_QUANTITIES 2
 
@@ -27,7 +27,7 @@ struct HlMcWorkspace {
   size_t max_options;
   double *values;        /* [(row * MC_QUANTITIES + q) * max_samples + sample] */
   size_t *lower_count;   /* per row: samples with a joint load below native */
-  HlNormalTable normal;
+  gsl_rng *rng;           /* seeded at each run */
 };
 
 HlMcWorkspace *
@@ -45,8 +45,8 @@ hl_mc_workspace_new (size_t max_samples, size_t max_options)
   ws->max_options = max_options;
   ws->values = malloc (rows * MC_QUANTITIES * max_samples * sizeof *ws->values);
   ws->lower_count = calloc (rows, sizeof *ws->lower_count);
-  hl_normal_table_init (&ws->normal);
-  if (ws->values == NULL || ws->lower_count == NULL)
+  ws->rng = gsl_rng_alloc (HL_MC_GENERATOR);
+  if (ws->values == NULL || ws->lower_count == NULL || ws->rng == NULL)
     {
       hl_mc_workspace_free (ws);
       return NULL;
@@ -61,6 +61,8 @@ hl_mc_workspace_free (HlMcWorkspace *ws)
     return;
   free (ws->values);
   free (ws->lower_count);
+  if (ws->rng != NULL)
+    gsl_rng_free (ws->rng);
   free (ws);
 }
 
@@ -84,98 +86,9 @@ hl_mc_settings_for_plan (const HlPlan *plan, HlMcSettings *s, bool *m_assumed)
 
 /* ---- Selection -------------------------------------------------------- */
 
-static inline void
-swap (double *a, ptrdiff_t i, ptrdiff_t j)
-{
-  double t = a[i];
-  a[i] = a[j];
-  a[j] = t;
-}
-
-/* Rearranges a[lo .. hi] (inclusive) so that a[k] holds the value it would
- * hold sorted, with nothing larger before it and nothing smaller after:
- * Floyd & Rivest 1975, "Algorithm 489: the algorithm SELECT", CACM
- * 18:173.  On a large range it first selects within a small sample
- * around the expected position, so that one partition of the whole range
- * lands next to k (about n + min(k, n - k) comparisons, against about 3n
- * for a median-of-three pivot when k is near a tail). */
-static void
-select_kth (double *a, ptrdiff_t lo, ptrdiff_t hi, ptrdiff_t k)
-{
-  while (hi > lo)
-    {
-      if (hi - lo > HL_SELECT_SAMPLE_ABOVE)
-        {
-          const double n = (double) (hi - lo + 1);
-          const double i = (double) (k - lo + 1);
-          const double z = log (n);
-          const double sample = 0.5 * exp (2.0 * z / 3.0);
-          const double sd = 0.5 * sqrt (z * sample * (n - sample) / n)
-                            * (i - n / 2.0 < 0.0 ? -1.0 : 1.0);
-          ptrdiff_t new_lo = (ptrdiff_t) fmax ((double) lo,
-                                               floor ((double) k - i * sample / n + sd));
-          ptrdiff_t new_hi = (ptrdiff_t) fmin ((double) hi,
-                                               floor ((double) k + (n - i) * sample / n + sd));
-          select_kth (a, new_lo, new_hi, k);
-        }
-
-      const double t = a[k];
-      ptrdiff_t i = lo, j = hi;
-      swap (a, lo, k);
-      if (a[hi] > t)
-        swap (a, hi, lo);
-      while (i < j)
-        {
-          swap (a, i, j);
-          i++;
-          j--;
-          while (a[i] < t)
-            i++;
-          while (a[j] > t)
-            j--;
-        }
-      if (a[lo] == t)
-        swap (a, lo, j);
-      else
-        {
-          j++;
-          swap (a, j, hi);
-        }
-      if (j <= k)
-        lo = j + 1;
-      if (k <= j)
-        hi = j - 1;
-    }
-}
-
-static ptrdiff_t
-rank_of (double p, size_t n)
-{
-  double h = (double) (n - 1) * fmin (fmax (p, 0.0), 1.0);
-  ptrdiff_t k = (ptrdiff_t) floor (h);
-  return k > (ptrdiff_t) n - 1 ? (ptrdiff_t) n - 1 : k;
-}
-
-/* Places the order statistics of probs[0 .. m-1] (ascending) within
- * a[lo .. hi], the middle one first so that each side is searched only in
- * its own part. */
-static void
-multiselect (double *a, size_t n, ptrdiff_t lo, ptrdiff_t hi,
-             const double *probs, size_t m)
-{
-  if (m == 0 || lo > hi)
-    return;
-  size_t mid = m / 2;
-  ptrdiff_t k = rank_of (probs[mid], n);
-  if (k >= lo && k <= hi)
-    select_kth (a, lo, hi, k);
-  multiselect (a, n, lo, k - 1 < hi ? k - 1 : hi, probs, mid);
-  multiselect (a, n, k + 1 > lo ? k + 1 : lo, hi, probs + mid + 1, m - mid - 1);
-}
-
 void
-hl_quantiles_select (double *a, size_t n, const double *probs, size_t n_probs,
-                     double *out)
+hl_quantiles (double *a, size_t n, const double *probs, size_t n_probs,
+              double *out)
 {
   if (n == 0)
     {
@@ -183,43 +96,28 @@ hl_quantiles_select (double *a, size_t n, const double *probs, size_t n_probs,
         out[i] = NAN;
       return;
     }
-
-  bool ascending = true;
-  for (size_t i = 1; i < n_probs; i++)
-    ascending = ascending && probs[i - 1] <= probs[i];
-
-  const ptrdiff_t last = (ptrdiff_t) n - 1;
-  if (ascending)
-    multiselect (a, n, 0, last, probs, n_probs);
-
+  /* gsl_stats_quantile_from_sorted_data reads the two order statistics
+   * around the quantile, x_(k) and x_(k+1) with k = floor ((n - 1) p).
+   * Rather than sort all n values for three quantiles, gsl_stats_select
+   * (a quickselect) puts x_(k) in place with nothing smaller after it, and
+   * the least value after it is moved next to it: the array is then sorted
+   * where the quantile is read. */
   for (size_t i = 0; i < n_probs; i++)
     {
-      ptrdiff_t k = rank_of (probs[i], n);
-      double frac = (double) last * fmin (fmax (probs[i], 0.0), 1.0) - (double) k;
-      if (!ascending)
-        select_kth (a, 0, last, k);
-
-      /* The next order statistic is the least value above k, up to the
-       * next placed one (which bounds everything before it). */
-      ptrdiff_t bound = last;
-      for (size_t j = i + 1; ascending && j < n_probs; j++)
+      const double p = fmin (fmax (probs[i], 0.0), 1.0);
+      const size_t k = (size_t) floor ((double) (n - 1) * p);
+      gsl_stats_select (a, 1, n, k);
+      if (k + 1 < n)
         {
-          ptrdiff_t kj = rank_of (probs[j], n);
-          if (kj > k)
-            {
-              bound = kj;
-              break;
-            }
+          size_t least = k + 1;
+          for (size_t j = k + 2; j < n; j++)
+            if (a[j] < a[least])
+              least = j;
+          const double t = a[k + 1];
+          a[k + 1] = a[least];
+          a[least] = t;
         }
-      double next = a[k];
-      if (frac > 0.0 && k < last)
-        {
-          next = a[k + 1];
-          for (ptrdiff_t j = k + 2; j <= bound; j++)
-            if (a[j] < next)
-              next = a[j];
-        }
-      out[i] = a[k] + frac * (next - a[k]);
+      out[i] = gsl_stats_quantile_from_sorted_data (a, 1, n, p);
     }
 }
 
@@ -272,7 +170,7 @@ check_run (const HlMcWorkspace *ws, const HlOption *options, size_t n_options,
 /* One sample's geometry into m (other fields as in the base).  False when
  * the sampled magnification is not positive. */
 static inline bool
-perturb (HlModel *m, const HlModel *base, HlRng *rng, const HlNormalTable *nt,
+perturb (HlModel *m, const HlModel *base, const gsl_rng *rng,
          double lsd, double asd, double msd, double mag)
 {
   HlVec2 o = base->origin, ins = base->insertion, mid = base->midline;
@@ -280,12 +178,12 @@ perturb (HlModel *m, const HlModel *base, HlRng *rng, const HlNormalTable *nt,
 
   if (lsd > 0.0)
     {
-      const double hx = lsd * hl_rng_normal_zig (rng, nt);
-      const double hy = lsd * hl_rng_normal_zig (rng, nt);
-      const double ix = lsd * hl_rng_normal_zig (rng, nt);
-      const double iy = lsd * hl_rng_normal_zig (rng, nt);
-      mid.x += lsd * hl_rng_normal_zig (rng, nt) - hx;
-      mid.y += lsd * hl_rng_normal_zig (rng, nt) - hy;
+      const double hx = gsl_ran_gaussian_ziggurat (rng, lsd);
+      const double hy = gsl_ran_gaussian_ziggurat (rng, lsd);
+      const double ix = gsl_ran_gaussian_ziggurat (rng, lsd);
+      const double iy = gsl_ran_gaussian_ziggurat (rng, lsd);
+      mid.x += gsl_ran_gaussian_ziggurat (rng, lsd) - hx;
+      mid.y += gsl_ran_gaussian_ziggurat (rng, lsd) - hy;
       ins.x += ix - hx;
       ins.y += iy - hy;
       if (base->angle_mode)
@@ -295,14 +193,14 @@ perturb (HlModel *m, const HlModel *base, HlRng *rng, const HlNormalTable *nt,
         }
       else
         {
-          o.x += lsd * hl_rng_normal_zig (rng, nt) - hx;
-          o.y += lsd * hl_rng_normal_zig (rng, nt) - hy;
+          o.x += gsl_ran_gaussian_ziggurat (rng, lsd) - hx;
+          o.y += gsl_ran_gaussian_ziggurat (rng, lsd) - hy;
         }
     }
 
   if (asd > 0.0)
     {
-      const double d = asd * hl_rng_normal_zig (rng, nt);
+      const double d = gsl_ran_gaussian_ziggurat (rng, asd);
       const double c = cos (d), sn = sin (d);
       const double rx = o.x - ins.x, ry = o.y - ins.y;
       o.x = ins.x + c * rx - sn * ry;
@@ -313,7 +211,7 @@ perturb (HlModel *m, const HlModel *base, HlRng *rng, const HlNormalTable *nt,
 
   if (msd > 0.0)
     {
-      const double ms = mag + msd * hl_rng_normal_zig (rng, nt);
+      const double ms = mag + gsl_ran_gaussian_ziggurat (rng, msd);
       if (!(ms > 0.0))
         return false;
       const double k = mag / ms;
@@ -327,6 +225,13 @@ perturb (HlModel *m, const HlModel *base, HlRng *rng, const HlNormalTable *nt,
   m->midline = mid;
   m->u_fixed = u;
   return true;
+}
+
+unsigned long
+hl_mc_generator_seed (uint64_t seed)
+{
+  /* MT19937 takes 32 bits of seed: both halves of the 64 count. */
+  return (unsigned long) ((seed ^ (seed >> 32)) & 0xffffffffu);
 }
 
 HlStatus
@@ -347,15 +252,14 @@ hl_mc_run (HlMcWorkspace *ws, const HlModel *model, const HlOption *options,
   double *const values = ws->values;
   size_t *const lower = ws->lower_count;
   size_t used = 0, dropped = 0;
-  HlRng rng;
   HlModel m = *model;
 
-  hl_rng_seed (&rng, s->seed);
+  gsl_rng_set (ws->rng, hl_mc_generator_seed (s->seed));
   memset (lower, 0, rows * sizeof *lower);
 
   for (size_t j = 0; j < n; j++)
     {
-      bool ok = perturb (&m, model, &rng, &ws->normal, lsd, asd, msd,
+      bool ok = perturb (&m, model, ws->rng, lsd, asd, msd,
                          s->magnification);
       for (size_t row = 0; ok && row < rows; row++)
         {
@@ -398,12 +302,12 @@ hl_mc_run (HlMcWorkspace *ws, const HlModel *model, const HlOption *options,
       HlMcSummary *out = &summary[row];
       double q[3];
 
-      hl_quantiles_select (&values[(row * MC_QUANTITIES + 0) * stride], used,
+      hl_quantiles (&values[(row * MC_QUANTITIES + 0) * stride], used,
                            probs, 3, q);
       out->abductor_force_n = (HlPercentiles) { q[0], q[1], q[2] };
       out->abductor_force_bw = (HlPercentiles) { q[0] * inv_bw, q[1] * inv_bw,
                                                  q[2] * inv_bw };
-      hl_quantiles_select (&values[(row * MC_QUANTITIES + 1) * stride], used,
+      hl_quantiles (&values[(row * MC_QUANTITIES + 1) * stride], used,
                            probs, 3, q);
       out->jrf_n = (HlPercentiles) { q[0], q[1], q[2] };
       out->jrf_bw = (HlPercentiles) { q[0] * inv_bw, q[1] * inv_bw, q[2] * inv_bw };

@@ -28,16 +28,22 @@
  * statistical packages", Am Stat 50:361-365; the default of R and NumPy):
  * with the n values sorted x_(0) <= ... <= x_(n-1), h = (n - 1) p and
  * Q(p) = x_(floor h) + (h - floor h) (x_(floor h + 1) - x_(floor h)).
- * The order statistics are found by selection (Floyd & Rivest 1975,
- * CACM 18:173) on the workspace, not by a full sort.  Normals come from
- * the ziggurat (hl-rng.h), its table kept in the workspace.
+ * gsl_stats_quantile_from_sorted_data is this definition; the two order
+ * statistics it reads are put in place by gsl_stats_select (hl_quantiles).
+ *
+ * Random numbers: GSL's MT19937 generator (gsl_rng_mt19937; Matsumoto &
+ * Nishimura 1998, ACM TOMACS 8:3-30) seeded with the plan's seed, normals
+ * by GSL's ziggurat (gsl_ran_gaussian_ziggurat; Marsaglia & Tsang 2000,
+ * J Stat Softw 5(8)).  The same seed gives the same ranges with the same
+ * GSL version; another GSL version may draw differently.
  */
 #pragma once
 
 #include <stdbool.h>
 #include <stdint.h>
 #include "hl-mc-settings.h"
-#include "hl-rng.h"
+#include <gsl/gsl_rng.h>
+
 #include "hl-solve.h"
 
 #ifdef __cplusplus
@@ -97,10 +103,15 @@ HlStatus hl_mc_run (HlMcWorkspace *ws, const HlModel *model,
                     HlMcInfo *info, HlError *err);
 
 /* Percentiles (Hyndman & Fan definition 7) of a[0 .. n-1], reordering a in
- * place.  probs in [0, 1], ascending for speed (any order works); out gets
- * one value per prob.  NaN when n is 0. */
-void hl_quantiles_select (double *a, size_t n, const double *probs,
-                          size_t n_probs, double *out);
+ * place.  probs in [0, 1], any order; out gets one value per prob.  NaN
+ * when n is 0. */
+void hl_quantiles (double *a, size_t n, const double *probs, size_t n_probs,
+                   double *out);
+
+/* The generator of the Monte Carlo, and the seed it is given for a plan's
+ * 64-bit seed (the two halves combined: MT19937 takes 32 bits). */
+#define HL_MC_GENERATOR gsl_rng_mt19937
+unsigned long hl_mc_generator_seed (uint64_t seed);
 
 #ifdef __cplusplus
 }

@@ -18,6 +18,11 @@
 
 #include "hl-analysis.h"
 #include "hl-bench.h"
+#include <gsl/gsl_randist.h>
+#include <gsl/gsl_rng.h>
+#include <gsl/gsl_sort.h>
+#include <gsl/gsl_statistics_double.h>
+
 #include "hl-test-util.h"
 
 #define N_ELEMENTS(a) (sizeof (a) / sizeof ((a)[0]))
@@ -204,171 +209,63 @@ START_TEST (test_root_interval)
 }
 END_TEST
 
-/* ---- Random numbers --------------------------------------------------- */
-
-START_TEST (test_rng_repeatable)
-{
-  HlRng a, b, c;
-  hl_rng_seed (&a, 12345);
-  hl_rng_seed (&b, 12345);
-  hl_rng_seed (&c, 12346);
-  int differ = 0;
-  for (int i = 0; i < 1000; i++)
-    {
-      uint64_t x = hl_rng_next (&a), y = hl_rng_next (&b), z = hl_rng_next (&c);
-      ck_assert_uint_eq (x, y);
-      differ += x != z;
-    }
-  ck_assert_int_gt (differ, 990);
-}
-END_TEST
-
-/* 200,000 standard normals: the mean has SE 1/sqrt(n) = 0.0022 and the
- * variance SE sqrt(2/n) = 0.0032; 5 SE each.  Uniforms stay in [0, 1). */
-#define RNG_N 200000
-#define RNG_MEAN_TOL 0.011
-#define RNG_VAR_TOL 0.016
-
-START_TEST (test_rng_moments)
-{
-  HlRng r;
-  double sum = 0.0, sum2 = 0.0, usum = 0.0;
-  hl_rng_seed (&r, HL_MC_SEED_DEFAULT);
-  for (int i = 0; i < RNG_N; i++)
-    {
-      double z = hl_rng_normal (&r);
-      double u = hl_rng_uniform (&r);
-      ck_assert (u >= 0.0 && u < 1.0);
-      sum += z;
-      sum2 += z * z;
-      usum += u;
-    }
-  double mean = sum / RNG_N;
-  ck_assert_double_eq_tol (mean, 0.0, RNG_MEAN_TOL);
-  ck_assert_double_eq_tol (sum2 / RNG_N - mean * mean, 1.0, RNG_VAR_TOL);
-  /* uniform mean 1/2, SE sqrt(1/12 / n) = 0.00065 */
-  ck_assert_double_eq_tol (usum / RNG_N, 0.5, 0.0033);
-}
-END_TEST
-
-/* The ziggurat's normals against the normal distribution function
- * Phi(z) = erfc(-z / sqrt 2) / 2 at points from the centre to beyond the
- * ziggurat's tail start (3.44): the empirical share below z has SE
- * sqrt(P (1 - P) / n), at most 0.0011 for n = 200,000; 5 SE. */
-#define ZIG_CDF_TOL_SE 5.0
-
-START_TEST (test_rng_ziggurat)
-{
-  static const double z[] = { -3.8, -3.0, -2.1, -1.0, -0.3, 0.0, 0.45, 1.3, 2.4, 3.6 };
-  size_t below[N_ELEMENTS (z)] = { 0 };
-  HlNormalTable t;
-  HlRng r, r2;
-  double sum = 0.0, sum2 = 0.0;
-
-  hl_normal_table_init (&t);
-  ck_assert_double_eq (t.x[1], 3.442619855899);
-  ck_assert_double_eq (t.x[HL_ZIGGURAT_BLOCKS], 0.0);
-  hl_rng_seed (&r, 4242);
-  hl_rng_seed (&r2, 4242);
-  for (int i = 0; i < RNG_N; i++)
-    {
-      double v = hl_rng_normal_zig (&r, &t);
-      ck_assert_double_eq (v, hl_rng_normal_zig (&r2, &t));
-      sum += v;
-      sum2 += v * v;
-      for (size_t k = 0; k < N_ELEMENTS (z); k++)
-        below[k] += v < z[k];
-    }
-  double mean = sum / RNG_N;
-  ck_assert_double_eq_tol (mean, 0.0, RNG_MEAN_TOL);
-  ck_assert_double_eq_tol (sum2 / RNG_N - mean * mean, 1.0, RNG_VAR_TOL);
-  for (size_t k = 0; k < N_ELEMENTS (z); k++)
-    {
-      double p = 0.5 * erfc (-z[k] / M_SQRT2);
-      double se = sqrt (p * (1.0 - p) / RNG_N);
-      ck_assert_double_eq_tol ((double) below[k] / RNG_N, p, ZIG_CDF_TOL_SE * se + 1e-12);
-    }
-  /* the tail beyond 3.44 is sampled: P(z < -3.8) + P(z > 3.6) = 2.3e-4,
-   * about 46 of 200,000 */
-  ck_assert_uint_gt (below[0] + (RNG_N - below[N_ELEMENTS (z) - 1]), 20);
-}
-END_TEST
-
 /* ---- Percentiles ------------------------------------------------------ */
-
-static int
-cmp_double (const void *a, const void *b)
-{
-  double x = *(const double *) a, y = *(const double *) b;
-  return (x > y) - (x < y);
-}
-
-/* Hyndman & Fan 1996, Am Stat 50:361-365, definition 7, on a sorted copy. */
-static double
-type7_sorted (const double *sorted, size_t n, double p)
-{
-  double h = (double) (n - 1) * p;
-  size_t k = (size_t) floor (h);
-  if (k + 1 >= n)
-    return sorted[n - 1];
-  return sorted[k] + (h - (double) k) * (sorted[k + 1] - sorted[k]);
-}
 
 START_TEST (test_quantiles_definition)
 {
   /* 1..10: definition 7 gives 1.45, 5.5 and 9.55 (R's quantile() default). */
   double a[10] = { 7, 3, 10, 1, 9, 2, 8, 4, 6, 5 };
   double p[3] = { 0.05, 0.5, 0.95 }, q[3];
-  hl_quantiles_select (a, 10, p, 3, q);
+  hl_quantiles (a, 10, p, 3, q);
   ck_assert_double_eq_tol (q[0], 1.45, 1e-12);
   ck_assert_double_eq_tol (q[1], 5.5, 1e-12);
   ck_assert_double_eq_tol (q[2], 9.55, 1e-12);
 
   double one[1] = { 2.385 };
-  hl_quantiles_select (one, 1, p, 3, q);
+  hl_quantiles (one, 1, p, 3, q);
   ck_assert_double_eq (q[0], 2.385);
   ck_assert_double_eq (q[2], 2.385);
 
-  hl_quantiles_select (one, 0, p, 3, q);
+  hl_quantiles (one, 0, p, 3, q);
   ck_assert (isnan (q[0]) && isnan (q[1]) && isnan (q[2]));
 
   double ends[5] = { 4, 2, 5, 1, 3 }, pe[2] = { 0.0, 1.0 };
-  hl_quantiles_select (ends, 5, pe, 2, q);
+  hl_quantiles (ends, 5, pe, 2, q);
   ck_assert_double_eq (q[0], 1.0);
   ck_assert_double_eq (q[1], 5.0);
 }
 END_TEST
 
-/* Against a full sort, on random data with and without ties. */
-static const size_t quantile_sizes[] = { 2, 3, 16, 17, 100, 1001, 4000, 40000 };
+/* Against GSL on fully sorted data (gsl_sort), random data with and
+ * without ties, probabilities in any order. */
+static const size_t quantile_sizes[] = { 1, 2, 3, 16, 17, 100, 1001, 4000 };
 
 START_TEST (test_quantiles_vs_sort)
 {
   size_t n = quantile_sizes[_i];
   double *a = malloc (n * sizeof *a), *b = malloc (n * sizeof *b);
-  double p[5] = { 0.01, 0.05, 0.5, 0.95, 0.99 }, q[5];
-  HlRng r;
+  const double p[6] = { 0.95, 0.01, 0.5, 0.05, 0.99, 0.7385 };
+  double q[6];
+  gsl_rng *r = gsl_rng_alloc (gsl_rng_mt19937);
 
   ck_assert_ptr_nonnull (a);
   ck_assert_ptr_nonnull (b);
-  hl_rng_seed (&r, 777 + n);
+  ck_assert_ptr_nonnull (r);
+  gsl_rng_set (r, 777 + n);
   for (int ties = 0; ties < 2; ties++)
     {
       for (size_t i = 0; i < n; i++)
-        a[i] = b[i] = ties ? floor (hl_rng_uniform (&r) * 7.0) : hl_rng_normal (&r);
-      qsort (b, n, sizeof *b, cmp_double);
-      hl_quantiles_select (a, n, p, 5, q);
-      for (int j = 0; j < 5; j++)
-        ck_assert_double_eq (q[j], type7_sorted (b, n, p[j]));
-      /* any order of the probabilities gives the same values */
-      double pr[4] = { 0.95, 0.5, 0.05, 0.7385 }, qr[4];
-      hl_quantiles_select (a, n, pr, 4, qr);
-      for (int j = 0; j < 4; j++)
-        ck_assert_double_eq (qr[j], type7_sorted (b, n, pr[j]));
+        a[i] = b[i] = ties ? floor (gsl_rng_uniform (r) * 7.0)
+                           : gsl_ran_gaussian_ziggurat (r, 1.0);
+      gsl_sort (b, 1, n);
+      hl_quantiles (a, n, p, 6, q);
+      for (int j = 0; j < 6; j++)
+        ck_assert_double_eq (q[j], gsl_stats_quantile_from_sorted_data (b, 1, n, p[j]));
       /* a is a permutation of the data */
-      qsort (a, n, sizeof *a, cmp_double);
+      gsl_sort (a, 1, n);
       ck_assert_int_eq (memcmp (a, b, n * sizeof *a), 0);
     }
+  gsl_rng_free (r);
   free (a);
   free (b);
 }
@@ -1338,11 +1235,13 @@ START_TEST (test_mc_zero_error)
       hl_test_solve (plan, row == 0 ? NULL : &plan->options[row - 1].recon, &res);
       const HlPercentiles *p[2] = { &sum[row].abductor_force_n, &sum[row].jrf_n };
       const double v[2] = { res.abductor_force_n, res.jrf_n };
+      /* GSL interpolates as (1 - d) a + d b: equal values come back to
+       * the last bit or next to it */
       for (int q = 0; q < 2; q++)
         {
-          ck_assert_double_eq (p[q]->p05, v[q]);
-          ck_assert_double_eq (p[q]->p50, v[q]);
-          ck_assert_double_eq (p[q]->p95, v[q]);
+          ck_assert_double_eq_tol (p[q]->p05, v[q], 1e-13 * v[q]);
+          ck_assert_double_eq_tol (p[q]->p50, v[q], 1e-13 * v[q]);
+          ck_assert_double_eq_tol (p[q]->p95, v[q], 1e-13 * v[q]);
         }
       ck_assert_double_eq_tol (sum[row].jrf_bw.p50, res.jrf_bw, 1e-12);
     }
@@ -1596,9 +1495,6 @@ analysis_suite (void)
   ADD ("root errors", test_root_errors);
   ADD ("root exact end", test_root_exact_end);
   ADD_LOOP ("root interval", test_root_interval, N_ELEMENTS (interval_cases));
-  ADD ("rng repeatable", test_rng_repeatable);
-  ADD ("rng moments", test_rng_moments);
-  ADD ("rng ziggurat", test_rng_ziggurat);
   ADD ("quantiles definition", test_quantiles_definition);
   ADD_LOOP ("quantiles vs sort", test_quantiles_vs_sort, N_ELEMENTS (quantile_sizes));
   ADD ("capacity presets", test_capacity_presets);

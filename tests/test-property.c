@@ -29,7 +29,7 @@
 #include <string.h>
 
 #include "hl-measure.h"
-#include "hl-rng.h"
+#include <gsl/gsl_rng.h>
 #include "hl-test-util.h"
 
 #define HL_PROP_CASES 3000
@@ -62,16 +62,28 @@ static const Family families[] = {
 };
 #define N_FAMILIES ((int) (sizeof families / sizeof families[0]))
 
-static double
-uniform (HlRng *rng, double lo, double hi)
+/* The random plans' generator: GSL's MT19937, one per test process. */
+static const gsl_rng *
+rng_for (unsigned long seed)
 {
-  return lo + (hi - lo) * hl_rng_uniform (rng);
+  static gsl_rng *rng;
+  if (rng == NULL)
+    rng = gsl_rng_alloc (gsl_rng_mt19937);
+  ck_assert_ptr_nonnull (rng);
+  gsl_rng_set (rng, seed);
+  return rng;
+}
+
+static double
+uniform (const gsl_rng *rng, double lo, double hi)
+{
+  return lo + (hi - lo) * gsl_rng_uniform (rng);
 }
 
 static bool
-coin (HlRng *rng)
+coin (const gsl_rng *rng)
 {
-  return hl_rng_uniform (rng) < 0.5;
+  return gsl_rng_uniform (rng) < 0.5;
 }
 
 /* Places a landmark from solver-frame coordinates relative to the hip. */
@@ -82,14 +94,14 @@ place (HlPlan *plan, HlLandmarkId id, double x_lat, double y)
 }
 
 static HlPlan *
-random_plan (HlRng *rng, const Family *fam)
+random_plan (const gsl_rng *rng, const Family *fam)
 {
   HlPlan *plan = hl_plan_new ();
   ck_assert_ptr_nonnull (plan);
 
   plan->side = coin (rng) ? HL_SIDE_RIGHT : HL_SIDE_LEFT;
   plan->mass_kg = uniform (rng, 40.0, 150.0);
-  plan->model.limb_table = (HlLimbTable) (hl_rng_next (rng) % HL_LIMB_N);
+  plan->model.limb_table = (HlLimbTable) gsl_rng_uniform_int (rng, HL_LIMB_N);
   plan->model.limb_fraction_custom = uniform (rng, 0.12, 0.22);
   plan->model.bw_line = coin (rng) ? HL_BW_LINE_SEGMENTAL : HL_BW_LINE_MIDLINE;
   plan->model.abductor_line = fam->angle_mode ? HL_ABDUCTOR_LINE_ANGLE
@@ -149,7 +161,7 @@ random_plan (HlRng *rng, const Family *fam)
     {
       plan->cane.enabled = coin (rng);
       plan->cane.hand = coin (rng) ? HL_HAND_CONTRALATERAL : HL_HAND_IPSILATERAL;
-      plan->cane.unit = (HlForceUnit) (hl_rng_next (rng) % 3);
+      plan->cane.unit = (HlForceUnit) gsl_rng_uniform_int (rng, 3);
       double cane_n = uniform (rng, 0.0, 0.25) * hl_plan_body_weight (plan);
       plan->cane.value = hl_force_from_newtons (cane_n, plan->cane.unit, plan->mass_kg);
       plan->cane.distance_mm = uniform (rng, 200.0, 320.0);
@@ -215,12 +227,11 @@ result_values (const HlResult *r, double v[N_RESULT_VALUES])
 START_TEST (test_results_finite)
 {
   const Family *fam = &families[_i];
-  HlRng rng;
-  hl_rng_seed (&rng, fam->seed);
+  const gsl_rng *rng = rng_for (fam->seed);
 
   for (int k = 0; k < HL_PROP_CASES; k++)
     {
-      HlPlan *plan = random_plan (&rng, fam);
+      HlPlan *plan = random_plan (rng, fam);
       HlModel model;
       prepare (plan, &model, fam, k);
       for (size_t i = 0; i <= plan->n_options; i++)
@@ -249,12 +260,11 @@ cross (HlVec2 a, HlVec2 b)
 START_TEST (test_equilibrium)
 {
   const Family *fam = &families[_i];
-  HlRng rng;
-  hl_rng_seed (&rng, fam->seed);
+  const gsl_rng *rng = rng_for (fam->seed);
 
   for (int k = 0; k < HL_PROP_CASES; k++)
     {
-      HlPlan *plan = random_plan (&rng, fam);
+      HlPlan *plan = random_plan (rng, fam);
       HlModel model;
       prepare (plan, &model, fam, k);
       for (size_t i = 0; i <= plan->n_options; i++)
@@ -370,12 +380,11 @@ check_mirrored_measures (const HlPlan *a, const HlPlan *b, const Family *fam, in
 START_TEST (test_mirror)
 {
   const Family *fam = &families[_i];
-  HlRng rng;
-  hl_rng_seed (&rng, fam->seed);
+  const gsl_rng *rng = rng_for (fam->seed);
 
   for (int k = 0; k < HL_PROP_CASES; k++)
     {
-      HlPlan *plan = random_plan (&rng, fam);
+      HlPlan *plan = random_plan (rng, fam);
       HlPlan *mirror = hl_plan_copy (plan);
       ck_assert_ptr_nonnull (mirror);
       hl_plan_mirror (mirror);
