@@ -11,6 +11,7 @@
 #include "config.h"
 
 #include <ctype.h>
+#include <getopt.h>
 #include <locale.h>
 #include <math.h>
 #include <stddef.h>
@@ -204,111 +205,161 @@ print_version (void)
   hl_cli_fprintf (stdout, _("mechanical model %s\n"), HL_MODEL_VERSION);
 }
 
+/* A negative number ("-10,0", "-.5") is a value or an operand, never an
+ * option: no option has a digit for its short name. */
+static bool
+is_negative_number (const char *a)
+{
+  return a[0] == '-' && (isdigit ((unsigned char) a[1])
+                         || (a[1] == '.' && isdigit ((unsigned char) a[2])));
+}
+
+/* The option whose long name is exactly name[0 .. len - 1], or -1. */
 static int
-find_option (const HlCliCommand *cmd, const char *long_name, size_t len,
-             char short_name)
+exact_long_option (const HlCliCommand *cmd, const char *name, size_t len)
 {
   for (int i = 0; cmd->options[i].long_name != NULL; i++)
-    {
-      const HlCliOption *o = &cmd->options[i];
-
-      if (long_name != NULL && strlen (o->long_name) == len
-          && strncmp (o->long_name, long_name, len) == 0)
-        return i;
-      if (long_name == NULL && short_name != 0 && o->short_name == short_name)
-        return i;
-    }
+    if (strlen (cmd->options[i].long_name) == len
+        && strncmp (cmd->options[i].long_name, name, len) == 0)
+      return i;
   return -1;
 }
 
-/* Returns HL_CLI_EXIT_OK or HL_CLI_EXIT_USAGE (with the message printed). */
+/* getopt's codes: long options past every character, an operand 1 */
+#define HL_CLI_LONG_CODE 256
+#define HL_CLI_HELP_CODE (HL_CLI_LONG_CODE + HL_CLI_MAX_OPTIONS)
+#define HL_CLI_OPERAND 1
+
+/* Returns HL_CLI_EXIT_OK or HL_CLI_EXIT_USAGE (with the message printed).
+ * getopt_long does the parsing ("-" first in the option string: operands
+ * come back in order, so options may follow them whatever POSIXLY_CORRECT
+ * says; ":" after it: a missing value is told apart); the checks around it
+ * keep the command line's rules: long names in full (getopt would take an
+ * unambiguous prefix), a negative number as a value or an operand, no
+ * empty values, and the messages of the manual page. */
 static int
 parse_args (const HlCliCommand *cmd, int argc, char **argv, HlCliArgs *args)
 {
-  bool only_operands = false;
+  struct option longopts[HL_CLI_MAX_OPTIONS + 2];
+  char shortopts[3 * HL_CLI_MAX_OPTIONS + 8] = "-:h";
+  size_t n_short = strlen (shortopts);
+  int n = 0;
 
   memset (args, 0, sizeof *args);
-  args->operands = argv;   /* operands are packed to the front of argv */
-
-  for (int i = 0; i < argc; i++)
+  for (; cmd->options[n].long_name != NULL && n < HL_CLI_MAX_OPTIONS; n++)
     {
-      const char *a = argv[i];
-      const char *inline_value = NULL;
-      int opt;
+      const HlCliOption *o = &cmd->options[n];
+      longopts[n] = (struct option) { o->long_name,
+                                      o->arg_name != NULL ? required_argument : no_argument,
+                                      NULL, HL_CLI_LONG_CODE + n };
+      if (o->short_name != 0)
+        {
+          shortopts[n_short++] = o->short_name;
+          if (o->arg_name != NULL)
+            shortopts[n_short++] = ':';
+        }
+    }
+  shortopts[n_short] = '\0';
+  longopts[n] = (struct option) { "help", no_argument, NULL, HL_CLI_HELP_CODE };
+  longopts[n + 1] = (struct option) { NULL, 0, NULL, 0 };
 
-      /* A negative number ("-10,0", "-.5") is a value, never an option:
-       * no option has a digit for its short name. */
-      bool negative_number = a[0] == '-'
-                             && (isdigit ((unsigned char) a[1])
-                                 || (a[1] == '.' && isdigit ((unsigned char) a[2])));
-      if (only_operands || a[0] != '-' || a[1] == '\0' || negative_number)
+  /* argv[0] is the subcommand, as a program name for getopt */
+  args->operands = calloc ((size_t) argc + 1, sizeof *args->operands);
+  if (args->operands == NULL)
+    return hl_cli_usage_error (_("%s: out of memory"), cmd->name);
+  opterr = 0;
+  optind = 0;    /* 0: GNU getopt starts afresh */
+  for (;;)
+    {
+      /* the token getopt reads next, when it starts a new one */
+      int at = optind == 0 ? 1 : optind;
+      const char *token = at < argc ? argv[at] : NULL;
+      if (token != NULL && is_negative_number (token))
         {
-          argv[args->n_operands++] = argv[i];
+          args->operands[args->n_operands++] = argv[at];
+          optind = at + 1;
           continue;
         }
-      if (strcmp (a, "--") == 0)
+
+      int longindex = -1;
+      int c = getopt_long (argc, argv, shortopts, longopts, &longindex);
+      if (c == -1)
+        break;
+      if (c == HL_CLI_OPERAND)
         {
-          only_operands = true;
+          args->operands[args->n_operands++] = optarg;
           continue;
         }
-      if (strcmp (a, "--help") == 0 || strcmp (a, "-h") == 0)
+
+      const bool is_long = token != NULL && strncmp (token, "--", 2) == 0;
+      const char *name = is_long ? token + 2 : NULL;
+      const char *eq = name != NULL ? strchr (name, '=') : NULL;
+      const size_t len = name == NULL ? 0 : eq != NULL ? (size_t) (eq - name) : strlen (name);
+
+      if (c == '?' || c == ':')
         {
+          if (is_long)
+            {
+              int opt = exact_long_option (cmd, name, len);
+              if (opt >= 0 && c == ':')
+                return hl_cli_usage_error (_("%s: option '%s' needs a value (%s)"),
+                                           cmd->name, token,
+                                           _(cmd->options[opt].arg_name));
+              if (opt >= 0 && eq != NULL && cmd->options[opt].arg_name == NULL)
+                return hl_cli_usage_error (_("%s: option '--%s' takes no value"),
+                                           cmd->name, cmd->options[opt].long_name);
+              return hl_cli_usage_error (_("%s: unknown option '--%.*s'"),
+                                         cmd->name, (int) len, name);
+            }
+          if (c == ':')
+            for (int i = 0; i < n; i++)
+              if (cmd->options[i].short_name == optopt)
+                return hl_cli_usage_error (_("%s: option '%s' needs a value (%s)"),
+                                           cmd->name, token,
+                                           _(cmd->options[i].arg_name));
+          return hl_cli_usage_error (_("%s: unknown option '-%c'"), cmd->name, optopt);
+        }
+
+      if (c == 'h' || c == HL_CLI_HELP_CODE)
+        {
+          if (is_long && len != strlen ("help"))
+            return hl_cli_usage_error (_("%s: unknown option '--%.*s'"),
+                                       cmd->name, (int) len, name);
           args->help = true;
           continue;
         }
 
-      if (a[1] == '-')
-        {
-          const char *name = a + 2;
-          const char *eq = strchr (name, '=');
-          size_t len = eq != NULL ? (size_t) (eq - name) : strlen (name);
-
-          opt = find_option (cmd, name, len, 0);
-          if (opt < 0)
-            return hl_cli_usage_error (_("%s: unknown option '--%.*s'"),
-                                       cmd->name, (int) len, name);
-          inline_value = eq != NULL ? eq + 1 : NULL;
-        }
+      int opt = -1;
+      if (c >= HL_CLI_LONG_CODE)
+        opt = c - HL_CLI_LONG_CODE;
       else
-        {
-          opt = find_option (cmd, NULL, 0, a[1]);
-          if (opt < 0)
-            return hl_cli_usage_error (_("%s: unknown option '-%c'"),
-                                       cmd->name, a[1]);
-          if (a[2] != '\0')
-            {
-              if (cmd->options[opt].arg_name == NULL)
-                return hl_cli_usage_error (_("%s: unknown option '%s'"),
-                                           cmd->name, a);
-              inline_value = a + 2;
-            }
-        }
-
+        for (int i = 0; i < n; i++)
+          if (cmd->options[i].short_name == c)
+            opt = i;
+      if (opt < 0)
+        return hl_cli_usage_error (_("%s: unknown option '-%c'"), cmd->name, c);
       const HlCliOption *o = &cmd->options[opt];
+      /* getopt takes an unambiguous prefix of a long name: not here */
+      if (is_long && exact_long_option (cmd, name, len) != opt)
+        return hl_cli_usage_error (_("%s: unknown option '--%.*s'"),
+                                   cmd->name, (int) len, name);
+      /* a switch with more letters after it ("-qx") */
+      if (!is_long && o->arg_name == NULL && token != NULL && token[0] == '-'
+          && token[1] == c && token[2] != '\0')
+        return hl_cli_usage_error (_("%s: unknown option '%s'"), cmd->name, token);
       if (o->arg_name == NULL)
-        {
-          if (inline_value != NULL)
-            return hl_cli_usage_error (_("%s: option '--%s' takes no value"),
-                                       cmd->name, o->long_name);
-          args->value[opt] = "";
-        }
-      else if (inline_value != NULL)
-        {
-          args->value[opt] = inline_value;
-        }
-      else if (i + 1 < argc)
-        {
-          args->value[opt] = argv[++i];
-        }
+        args->value[opt] = "";
       else
         {
-          return hl_cli_usage_error (_("%s: option '%s' needs a value (%s)"),
-                                     cmd->name, a, _(o->arg_name));
+          args->value[opt] = optarg;
+          if (optarg[0] == '\0')
+            return hl_cli_usage_error (_("%s: option '%s' needs a value (%s)"),
+                                       cmd->name, token, _(o->arg_name));
         }
-      if (o->arg_name != NULL && args->value[opt][0] == '\0')
-        return hl_cli_usage_error (_("%s: option '%s' needs a value (%s)"),
-                                   cmd->name, a, _(o->arg_name));
     }
+  /* after "--": everything is an operand */
+  for (; optind < argc; optind++)
+    args->operands[args->n_operands++] = argv[optind];
 
   if (args->help)
     return HL_CLI_EXIT_OK;
@@ -1121,9 +1172,12 @@ main (int argc, char **argv)
     return hl_cli_usage_error (_("unknown subcommand '%s'"), first);
 
   HlCliArgs args;
-  int status = parse_args (cmd, argc - 2, argv + 2, &args);
+  int status = parse_args (cmd, argc - 1, argv + 1, &args);
   if (status != HL_CLI_EXIT_OK)
-    return status;
+    {
+      free (args.operands);
+      return status;
+    }
 
   if (args.help)
     {
@@ -1138,6 +1192,7 @@ main (int argc, char **argv)
       status = cmd->run (cmd, &args);
     }
 
+  free (args.operands);
   if (fflush (stdout) != 0 || ferror (stdout))
     {
       hl_cli_error (_("could not write to standard output"));

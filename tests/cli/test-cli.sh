@@ -342,6 +342,16 @@ usage_case "validate without a plan" validate
 usage_case "batch without --csv" batch "$DEMO"
 usage_case "batch without a plan" batch --csv "$WORK/x.csv"
 usage_case "bench with a value for --quick" bench --quick=yes
+# getopt_long would take an unambiguous prefix; the command line wants the
+# whole name, and a switch with letters after it is one unknown option.
+usage_case "an abbreviated long option" solve "$DEMO" --form csv
+check "an abbreviated long option is named as typed" err_has "unknown option '--form'"
+usage_case "a switch with letters after it" bench -qx
+usage_case "an empty value" solve "$DEMO" --format=
+check "an empty value says the option needs one" err_has "option '--format=' needs a value"
+run solve "$DEMO" --format=csv
+expect_rc 0 "--format=csv, the value after '='"
+check "--format=csv gives CSV" out_has "^option,"
 check "usage errors write no file" no_file "$WORK/x.csv"
 
 run solve "$DEMO" --format pdf
