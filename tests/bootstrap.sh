@@ -58,7 +58,9 @@ demo)
   ;;
 test)
   export LC_ALL=C TZ=UTC
-  [ -d build-ci ] || meson setup build-ci --werror
+  # The GUI tests drive the window through its test hooks.
+  [ -d build-ci ] || meson setup build-ci --werror -Dtest_hooks=true
+  meson configure build-ci -Dtest_hooks=true
   ninja -C build-ci -j "$jobs"
   status=0
   meson test -C build-ci --print-errorlogs --num-processes "$jobs" || status=1
@@ -69,7 +71,8 @@ test)
   # freed only by FcFini, are the one leak suppressed (tests/valgrind/lsan.supp);
   # the window's tests run without leak checking, since GTK keeps allocations
   # until exit by design: valgrind checks the window's leaks instead.
-  [ -d build-san ] || meson setup build-san --werror -Db_sanitize=address,undefined -Db_lundef=false
+  [ -d build-san ] || meson setup build-san --werror -Db_sanitize=address,undefined -Db_lundef=false -Dtest_hooks=true
+  meson configure build-san -Dtest_hooks=true
   ninja -C build-san -j "$jobs"
   export UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1
   export LSAN_OPTIONS=suppressions=$here/tests/valgrind/lsan.supp:print_suppressions=0

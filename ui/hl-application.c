@@ -39,19 +39,22 @@ struct _HlApplication {
 
 G_DEFINE_FINAL_TYPE (HlApplication, hl_application, GTK_TYPE_APPLICATION)
 
+/* The test and benchmark modes are built only with -Dtest_hooks=true. */
 static const GOptionEntry option_entries[] = {
+#if HL_TEST_HOOKS
   { "screenshot", 0, 0, G_OPTION_ARG_FILENAME, NULL,
     N_("Open the window, save it as a PNG image and quit"), N_("OUT.png") },
   { "size", 0, 0, G_OPTION_ARG_STRING, NULL,
     N_("Window size for --screenshot and --benchmark-drag"), N_("WxH") },
-  { "panel", 0, 0, G_OPTION_ARG_STRING, NULL,
-    N_("Side panel page to show first: case, landmarks, options, aids, radiograph or analysis"), N_("PAGE") },
   { "dump-summary-on-exit", 0, 0, G_OPTION_ARG_FILENAME, NULL,
     N_("Write the planning summary of the open plan here on quitting (for tests)"), N_("FILE") },
   { "benchmark-drag", 0, 0, G_OPTION_ARG_NONE, NULL,
     N_("Time a scripted landmark drag and print frame times, startup time and memory"), NULL },
   { "print-results", 0, 0, G_OPTION_ARG_NONE, NULL,
     N_("Print the results table as the window formats it, as CSV, and quit"), NULL },
+#endif
+  { "panel", 0, 0, G_OPTION_ARG_STRING, NULL,
+    N_("Side panel page to show first: case, landmarks, options, aids, radiograph or analysis"), N_("PAGE") },
   { "version", 0, 0, G_OPTION_ARG_NONE, NULL, N_("Print the version and quit"), NULL },
   { NULL }
 };
@@ -125,11 +128,15 @@ hl_application_handle_local_options (GApplication *app, GVariantDict *options)
                   size, HL_SIZE_MIN, HL_SIZE_MAX);
       return 2;
     }
+#if HL_TEST_HOOKS
   if (self->dump_path == NULL && (env = g_getenv ("HIPLEVER_DUMP_SUMMARY")) != NULL
       && env[0] != '\0')
     self->dump_path = g_strdup (env);
   env = g_getenv ("HIPLEVER_TEST_PRINT_HANDLES");
   self->print_handles = env != NULL && g_str_equal (env, "1");
+#else
+  (void) env;
+#endif
 
   /* Test and batch runs must not hand their work to a running instance. */
   if (self->screenshot_path != NULL || self->benchmark_drag || self->print_results
@@ -191,6 +198,7 @@ static void
 hl_application_start_mode (HlApplication *self, HlWindow *window)
 {
   gtk_window_present (GTK_WINDOW (window));
+#if HL_TEST_HOOKS
   if (self->benchmark_drag)
     hl_window_run_benchmark_drag (window, self->process_start_us);
   else if (self->screenshot_path != NULL)
@@ -198,6 +206,7 @@ hl_application_start_mode (HlApplication *self, HlWindow *window)
   else if (self->print_results)
     hl_window_run_print_results (window);
   else
+#endif
     hl_autosave_offer_recovery (window);
 }
 

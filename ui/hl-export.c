@@ -516,7 +516,11 @@ print_report (HlExport *ex)
   HlReportSettings settings;
   GtkPrintOperationAction action = GTK_PRINT_OPERATION_ACTION_PRINT_DIALOG;
   GtkPrintOperationResult result;
+#if HL_TEST_HOOKS
   const char *export_to = g_getenv ("HIPLEVER_TEST_PRINT_TO");
+#else
+  const char *export_to = NULL;
+#endif
   HlError err;
 
   if (ex->print_report != NULL)

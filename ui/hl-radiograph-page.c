@@ -811,6 +811,7 @@ hl_radiograph_page_print_handles (HlWindow *window)
     }
 }
 
+#if HL_TEST_HOOKS
 static gboolean
 test_import_cb (gpointer data)
 {
@@ -941,6 +942,8 @@ bench_start_cb (gpointer data)
   gtk_widget_add_tick_callback (GTK_WIDGET (self->window->canvas), bench_tick_cb, b, NULL);
   return G_SOURCE_REMOVE;
 }
+
+#endif /* HL_TEST_HOOKS */
 
 /* ---- Building ----------------------------------------------------------------------------- */
 
@@ -1170,8 +1173,10 @@ hl_radiograph_page_attach (HlWindow *window)
   g_object_set_data (G_OBJECT (window), PAGE_KEY, self);
   g_signal_connect_object (window->canvas, "plan-clicked", G_CALLBACK (plan_clicked_cb), self, 0);
   g_signal_connect (self, "map", G_CALLBACK (page_map_cb), NULL);
+#if HL_TEST_HOOKS
   if (g_getenv ("HIPLEVER_TEST_UNDERLAY") != NULL)
     g_idle_add_full (G_PRIORITY_DEFAULT_IDLE, test_import_cb, g_object_ref (self), g_object_unref);
   if (g_strcmp0 (g_getenv ("HIPLEVER_BENCHMARK_UNDERLAY"), "1") == 0)
     g_idle_add_full (G_PRIORITY_DEFAULT_IDLE, bench_start_cb, g_object_ref (self), g_object_unref);
+#endif
 }

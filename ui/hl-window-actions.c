@@ -261,7 +261,9 @@ hl_window_close_request (HlWindow *self)
 {
   if (self->close_confirmed || self->skip_close_guard || !hl_window_is_modified (self))
     {
+#if HL_TEST_HOOKS
       hl_window_write_dump (self);
+#endif
       hl_autosave_closed (self);
       return FALSE;
     }

@@ -295,8 +295,10 @@ void
 hl_window_set_print_handles (HlWindow *self, gboolean print)
 {
   g_return_if_fail (HL_IS_WINDOW (self));
+#if HL_TEST_HOOKS
   if (print && !self->print_handles)
     hl_window_start_print_handles (self);
+#endif
   self->print_handles = print;
   self->handles_dirty = TRUE;
 }
