@@ -23,6 +23,9 @@
 #define CHART_GAP_PX 8.0
 #define CHART_FONT_PX 11.0
 #define BAR_SPACING 6
+/* During a drag the charts follow at most this often, ms: redrawing
+ * both charts on every frame would cost the drag its frame rate. */
+#define CHARTS_DRAG_INTERVAL_MS 100
 /* Text lighter than this means a dark theme. */
 #define DARK_LUMINANCE 0.5
 
@@ -56,6 +59,8 @@ struct _HlChartsView {
   gboolean show_bands;
   gboolean stale;
   gboolean running;
+  gint64 last_start_us;         /* of the last computation started */
+  guint later;                  /* a computation waiting out the interval */
   gboolean wanted;              /* a newer state waits for the running one */
   guint generation;             /* of the plan and settings charted */
   guint compute_count;
@@ -180,6 +185,19 @@ chart_done_cb (GObject *source, GAsyncResult *result, gpointer user_data)
     hl_charts_view_compute (self);
 }
 
+static gboolean
+compute_later_cb (gpointer user_data)
+{
+  HlChartsView *self = user_data;
+
+  self->later = 0;
+  if (gtk_widget_get_mapped (GTK_WIDGET (self)))
+    hl_charts_view_compute (self);
+  else
+    self->stale = TRUE;
+  return G_SOURCE_REMOVE;
+}
+
 /* Starts the core for the plan as it is now; the drawing keeps the last
  * numbers until these come.  With one running, that one is cancelled and
  * this runs when it ends: never more than one at a time. */
@@ -190,6 +208,14 @@ hl_charts_view_compute (HlChartsView *self)
   HlChartJob *job;
 
   self->stale = FALSE;
+  if (self->later != 0)
+    return;
+  if (self->document != NULL && hl_document_is_dragging (self->document)
+      && g_get_monotonic_time () - self->last_start_us < CHARTS_DRAG_INTERVAL_MS * 1000)
+    {
+      self->later = g_timeout_add (CHARTS_DRAG_INTERVAL_MS, compute_later_cb, self);
+      return;
+    }
   if (self->running)
     {
       g_cancellable_cancel (self->cancel);
@@ -224,6 +250,7 @@ hl_charts_view_compute (HlChartsView *self)
       return;
     }
   self->running = TRUE;
+  self->last_start_us = g_get_monotonic_time ();
   self->cancel = g_cancellable_new ();
   task = g_task_new (self, self->cancel, chart_done_cb, NULL);
   g_task_set_source_tag (task, hl_charts_view_compute);
@@ -278,7 +305,8 @@ gboolean
 hl_charts_view_get_busy (HlChartsView *self)
 {
   g_return_val_if_fail (HL_IS_CHARTS_VIEW (self), FALSE);
-  return self->running || (self->stale && gtk_widget_get_mapped (GTK_WIDGET (self)));
+  return self->running || self->later != 0
+         || (self->stale && gtk_widget_get_mapped (GTK_WIDGET (self)));
 }
 
 void
@@ -544,6 +572,7 @@ hl_charts_view_dispose (GObject *object)
   if (self->cancel != NULL)
     g_cancellable_cancel (self->cancel);
   self->wanted = FALSE;
+  g_clear_handle_id (&self->later, g_source_remove);
   g_clear_pointer (&self->bar, gtk_widget_unparent);
   G_OBJECT_CLASS (hl_charts_view_parent_class)->dispose (object);
 }

@@ -111,9 +111,13 @@ struct _HlResults {
   GtkWidget *range_label[N_RANGE_ROWS];
   GtkWidget *range_unit[N_RANGE_ROWS];
   GtkWidget *range_note;
+  HlDocument *document;      /* borrowed */
+  gboolean stale;            /* changed while hidden: follows when shown */
 };
 
 G_DEFINE_FINAL_TYPE (HlResults, hl_results, GTK_TYPE_WIDGET)
+
+static void refresh_if_stale (HlResults *self);
 
 static char *
 format_value (const HlResultRow *row, double v)
@@ -451,6 +455,7 @@ hl_results_format_ranges_csv (HlResults *self)
   GString *s = g_string_new (NULL);
 
   g_return_val_if_fail (HL_IS_RESULTS (self), NULL);
+  refresh_if_stale (self);
   if (self->ranges == NULL || self->n_ranges != self->columns->len)
     return g_string_free (s, FALSE);
   for (guint k = 0; k < G_N_ELEMENTS (keys); k++)
@@ -493,6 +498,13 @@ hl_results_format_ranges_csv (HlResults *self)
 static void
 document_changed_cb (HlDocument *document, guint what, HlResults *self)
 {
+  /* Hidden behind the charts: hundreds of labels need not follow a drag. */
+  if (!gtk_widget_get_mapped (GTK_WIDGET (self)))
+    {
+      self->stale = TRUE;
+      return;
+    }
+  self->stale = FALSE;
   if (what & (HL_DOCUMENT_CHANGED_RESULTS | HL_DOCUMENT_CHANGED_OPTIONS))
     {
       size_t n;
@@ -517,9 +529,36 @@ hl_results_set_document (HlResults *self, HlDocument *document)
 {
   g_return_if_fail (HL_IS_RESULTS (self));
   g_return_if_fail (HL_IS_DOCUMENT (document));
+  self->document = document;
   g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), self, 0);
-  document_changed_cb (document, HL_DOCUMENT_CHANGED_RESULTS | HL_DOCUMENT_CHANGED_ANALYSIS,
-                       self);
+  self->stale = TRUE;
+}
+
+static void
+refresh_if_stale (HlResults *self)
+{
+  if (self->stale && self->document != NULL)
+    {
+      self->stale = FALSE;
+      hl_results_update (self, hl_document_get_plan (self->document),
+                         hl_document_get_solved (self->document, NULL),
+                         1 + hl_document_get_plan (self->document)->n_options);
+      {
+        const char *note;
+        size_t n;
+        const HlMcSummary *ranges = hl_document_get_ranges (self->document, &n, &note, NULL);
+
+        hl_results_set_ranges (self, ranges, n, note);
+      }
+      hl_results_set_selected_option (self, hl_document_get_selected_option (self->document));
+    }
+}
+
+static void
+hl_results_map (GtkWidget *widget)
+{
+  GTK_WIDGET_CLASS (hl_results_parent_class)->map (widget);
+  refresh_if_stale (HL_RESULTS (widget));
 }
 
 void
@@ -639,6 +678,7 @@ hl_results_class_init (HlResultsClass *klass)
 
   object_class->dispose = hl_results_dispose;
   object_class->finalize = hl_results_finalize;
+  widget_class->map = hl_results_map;
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
   gtk_widget_class_set_css_name (widget_class, "hlresults");
 }

@@ -103,6 +103,16 @@ fi
 pass
 echo "configure, build and install took $(( $(date +%s) - start )) s"
 
+# The default build has no test hooks; the screenshots below need them, so
+# the same tree is configured with them and installed again over it.
+run default-help env -u DISPLAY -u WAYLAND_DISPLAY "$BUILD/app/hiplever" --help
+check "the default build's window has no test hooks (no --screenshot)" \
+  test "$(grep -c -- '--screenshot' "$WORK/default-help.out")" -eq 0
+run hooks-configure meson configure "$BUILD" -Dtest_hooks=true
+check "meson configure -Dtest_hooks=true" test "$rc" -eq 0
+run hooks-install meson install -C "$BUILD"
+if [ "$rc" -eq 0 ]; then pass; else fail "meson install with the test hooks (exit $rc)"; show hooks-install; fi
+
 # The example plans of the tree, to compare with what was installed.
 (cd "$COPY/data/examples" && ls -1 -- *.hlplan) >"$WORK/examples-source" 2>/dev/null
 
@@ -348,14 +358,6 @@ else
   run gui-help env -u DISPLAY -u WAYLAND_DISPLAY "$GUI" --help
   check "hiplever --help exits 0" test "$rc" -eq 0
   man_options_checks hiplever.1 "$WORK/gui-help.out"
-  check "the installed program has no test hooks (no --screenshot)" \
-    test "$(grep -c -- '--screenshot' "$WORK/gui-help.out")" -eq 0
-  # The screenshots need the hooks: the same tree configured with them
-  # and installed again over the default.
-  run hooks-configure meson configure "$BUILD" -Dtest_hooks=true
-  check "meson configure -Dtest_hooks=true" test "$rc" -eq 0
-  run hooks-install meson install -C "$BUILD"
-  if [ "$rc" -eq 0 ]; then pass; else fail "meson install with the test hooks (exit $rc)"; show hooks-install; fi
   gui_screenshot shot-file "$EXAMPLES/demo.hlplan"
   # With no file the window opens the bundled demo, which it can only
   # have found under the prefix: the source tree is gone.
