@@ -20,10 +20,8 @@
 #include "hl-report.h"
 #include "hl-uncertainty.h"
 #include "hl-version.h"
-#include "hl-window-private.h"
+#include "hl-message.h"
 
-#define PAGE_NAME "analysis"
-#define PAGE_KEY "hl-analysis-panel"
 #define PAGE_SPACING 6
 #define PAGE_MARGIN_X 10
 #define PAGE_MARGIN_Y 8
@@ -49,7 +47,7 @@ struct _HlAnalysisPanel {
   GtkBox parent_instance;
 
   /* borrowed */
-  HlWindow *window;
+  HlDocument *document;
 
   /* built in code */
   GtkWidget *scroll;           /* the page in the side panel */
@@ -72,24 +70,28 @@ struct _HlAnalysisPanel {
 
 G_DEFINE_FINAL_TYPE (HlAnalysisPanel, hl_analysis_panel, GTK_TYPE_BOX)
 
-static HlAnalysisPanel *
-panel_of (HlWindow *window)
-{
-  return g_object_get_data (G_OBJECT (window), PAGE_KEY);
-}
+enum {
+  SIGNAL_SHOWN_CHANGED,
+  N_SIGNALS
+};
+
+static guint signals[N_SIGNALS];
 
 static const HlRecon *
-selected_recon (HlWindow *window)
+selected_recon (HlDocument *document)
 {
-  if (hl_window_selected_option (window) < 0 || (size_t) hl_window_selected_option (window) >= window->plan->n_options)
+  const HlPlan *plan = hl_document_get_plan (document);
+  int index = hl_document_get_selected_option (document);
+
+  if (index < 0 || (size_t) index >= plan->n_options)
     return NULL;
-  return &window->plan->options[hl_window_selected_option (window)].recon;
+  return &plan->options[index].recon;
 }
 
 static char *
 format_error (const HlError *err)
 {
-  return hl_window_format_error (err);
+  return hl_document_format_error (err);
 }
 
 /* ---- the inverse answers -------------------------------------------- */
@@ -115,15 +117,14 @@ site_words (HlLoadSite site)
 static char *
 apply_words (HlAnalysisPanel *self, HlQuestion q, const char **why)
 {
-  HlWindow *window = self->window;
-  const HlPlan *plan = window->plan;
+  const HlPlan *plan = hl_document_get_plan (self->document);
   const HlInverseAnswer *a = &self->answers[q];
   double v = a->value;
 
   *why = NULL;
   if (!self->asked[q])
     return NULL;
-  switch (hl_answer_apply_state (plan, hl_window_selected_option (window), q, a))
+  switch (hl_answer_apply_state (plan, hl_document_get_selected_option (self->document), q, a))
     {
     case HL_APPLY_CHANGES:
       break;
@@ -143,7 +144,7 @@ apply_words (HlAnalysisPanel *self, HlQuestion q, const char **why)
     case HL_INVERSE_OFFSET_FOR_ARM:
     case HL_INVERSE_OFFSET_FOR_GLOBAL:
       return g_strdup_printf (_("Apply sets the femoral offset change of “%s” to %+.1f mm."),
-                              plan->options[hl_window_selected_option (window)].name, v);
+                              plan->options[hl_document_get_selected_option (self->document)].name, v);
     case HL_INVERSE_CANE_FOR_JRF:
       {
         double in_unit = hl_force_from_newtons (v, plan->cane.unit, plan->mass_kg);
@@ -209,9 +210,8 @@ show_answers (HlAnalysisPanel *self)
 static void
 compute_answers (HlAnalysisPanel *self)
 {
-  HlWindow *window = self->window;
-  const HlPlan *plan = window->plan;
-  const HlRecon *recon = selected_recon (window);
+  const HlPlan *plan = hl_document_get_plan (self->document);
+  const HlRecon *recon = selected_recon (self->document);
   double target = gtk_spin_button_get_value (GTK_SPIN_BUTTON (self->target_spin));
   g_autofree char *who = NULL;
   const HlModel *model;
@@ -219,14 +219,14 @@ compute_answers (HlAnalysisPanel *self)
 
   if (recon != NULL)
     who = g_strdup_printf (_("For the selected option, “%s”. Select another in the Options page or on the schematic."),
-                           plan->options[hl_window_selected_option (window)].name);
+                           plan->options[hl_document_get_selected_option (self->document)].name);
   else
     who = g_strdup (_("For the native hip (no option selected). Select an option for its femoral offset answers."));
   gtk_label_set_text (GTK_LABEL (self->for_label), who);
 
   hl_error_clear (&err);
   memset (self->asked, 0, sizeof self->asked);
-  model = hl_document_get_model (window->document, &err);
+  model = hl_document_get_model (self->document, &err);
   if (model != NULL)
     {
       for (int q = 0; q < HL_QUESTION_N && err.status == HL_OK; q++)
@@ -263,13 +263,13 @@ compute_answers (HlAnalysisPanel *self)
 static void show_capacity (HlAnalysisPanel *self);
 
 gboolean
-hl_analysis_apply (HlWindow *window, HlQuestion q)
+hl_analysis_panel_apply (HlAnalysisPanel *self, HlQuestion q)
 {
-  HlAnalysisPanel *self = panel_of (window);
   g_autofree char *words = NULL;
   const char *why;
+  HlPlan *plan;
 
-  g_return_val_if_fail (self != NULL && q < HL_QUESTION_N, FALSE);
+  g_return_val_if_fail (HL_IS_ANALYSIS_PANEL (self) && q < HL_QUESTION_N, FALSE);
   /* A hidden page's answers may be of an earlier plan. */
   if (self->stale)
     {
@@ -280,17 +280,16 @@ hl_analysis_apply (HlWindow *window, HlQuestion q)
   words = apply_words (self, q, &why);
   if (words == NULL)
     return FALSE;
-  hl_document_break_coalescing (window->document);
-  if (!hl_window_begin_edit (window, NULL))
+  hl_document_break_coalescing (self->document);
+  if ((plan = hl_document_begin_edit (self->document, NULL)) == NULL)
     return FALSE;
-  hl_answer_apply (window->plan, hl_window_selected_option (window), q, &self->answers[q]);
-  hl_document_break_coalescing (window->document);
-  hl_window_panel_sync (window);
-  hl_window_plan_edited (window);
+  hl_answer_apply (plan, hl_document_get_selected_option (self->document), q, &self->answers[q]);
+  hl_document_break_coalescing (self->document);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_VALUES);
   {
     g_autofree char *status = g_strdup_printf (_("Applied: %s Undo with Ctrl+Z."), words);
 
-    gtk_label_set_text (window->status_label, status);
+    hl_message_show_status (GTK_WIDGET (self), status);
   }
   return TRUE;
 }
@@ -300,16 +299,16 @@ apply_clicked_cb (GtkButton *button, HlAnalysisPanel *self)
 {
   for (int q = 0; q < HL_QUESTION_N; q++)
     if (self->rows[q].apply == GTK_WIDGET (button))
-      hl_analysis_apply (self->window, (HlQuestion) q);
+      hl_analysis_panel_apply (self, (HlQuestion) q);
 }
 
 static void
 target_changed_cb (GtkSpinButton *spin, HlAnalysisPanel *self)
 {
-  if (self->syncing == 0 && !self->window->disposing)
+  if (self->syncing == 0)
     {
       compute_answers (self);
-      self->window->handles_dirty = TRUE;
+      g_signal_emit (self, signals[SIGNAL_SHOWN_CHANGED], 0);
     }
 }
 
@@ -340,13 +339,12 @@ grid_label (const char *text, gboolean heading, float xalign)
 static void
 show_capacity (HlAnalysisPanel *self)
 {
-  HlWindow *window = self->window;
-  const HlPlan *plan = window->plan;
+  const HlPlan *plan = hl_document_get_plan (self->document);
   size_t n = 1 + plan->n_options;
   guint preset = capacity_preset_of (plan);
   GtkGrid *grid = GTK_GRID (self->capacity_grid);
   GtkWidget *child;
-  const HlSolved *solved = hl_document_get_solved (window->document, NULL);
+  const HlSolved *solved = hl_document_get_solved (self->document, NULL);
   const HlModel *model;
 
   self->syncing++;
@@ -363,7 +361,7 @@ show_capacity (HlAnalysisPanel *self)
       gtk_label_set_text (GTK_LABEL (self->capacity_source), text);
     }
 
-  model = hl_document_get_model (window->document, NULL);
+  model = hl_document_get_model (self->document, NULL);
   if (model != NULL)
     {
       g_autofree char *text = g_strdup_printf (_("%.2f N m/kg × %.1f kg over the native abductor moment arm of %.1f mm: a capacity of %.0f N (%.2f × body weight)."),
@@ -420,32 +418,30 @@ show_capacity (HlAnalysisPanel *self)
 static void
 capacity_preset_cb (GtkDropDown *drop, GParamSpec *pspec, HlAnalysisPanel *self)
 {
-  HlWindow *window = self->window;
   guint preset = gtk_drop_down_get_selected (drop);
   double torque;
+  HlPlan *plan;
 
-  if (self->syncing > 0 || window->disposing || preset >= HL_CAPACITY_PRESET_N)
+  if (self->syncing > 0 || preset >= HL_CAPACITY_PRESET_N)
     return;
   torque = hl_capacity_preset_info ((HlCapacityPreset) preset)->torque_nm_per_kg;
-  if (torque == window->plan->capacity.torque_nm_per_kg)
+  if (torque == hl_document_get_plan (self->document)->capacity.torque_nm_per_kg)
     return;
-  hl_document_break_coalescing (window->document);
-  if (!hl_window_begin_edit (window, NULL))
+  hl_document_break_coalescing (self->document);
+  if ((plan = hl_document_begin_edit (self->document, NULL)) == NULL)
     return;
-  window->plan->capacity.torque_nm_per_kg = torque;
-  hl_document_break_coalescing (window->document);
-  hl_window_panel_sync (window);
-  hl_window_plan_edited (window);
+  plan->capacity.torque_nm_per_kg = torque;
+  hl_document_break_coalescing (self->document);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_VALUES);
 }
 
-/* ---- the window's hooks --------------------------------------------- */
+/* ---- following the document ---------------------------------------- */
 
-void
-hl_analysis_plan_edited (HlWindow *window)
+static void
+document_changed_cb (HlDocument *document, guint what, HlAnalysisPanel *self)
 {
-  HlAnalysisPanel *self = panel_of (window);
-
-  if (self == NULL || window->disposing)
+  if (!(what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_RESULTS
+                | HL_DOCUMENT_CHANGED_SELECTION)))
     return;
   /* The answers and capacity wait until the page is shown: relaying out
    * their labels on every frame of a drag cost more than the drawing. */
@@ -453,7 +449,8 @@ hl_analysis_plan_edited (HlWindow *window)
   if (self->stale)
     return;
   compute_answers (self);
-  show_capacity (self);
+  if (what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_RESULTS))
+    show_capacity (self);
 }
 
 static void
@@ -469,67 +466,19 @@ panel_map_cb (GtkWidget *widget, gpointer user_data)
 }
 
 double
-hl_analysis_get_target_bw (HlWindow *window)
+hl_analysis_panel_get_target_bw (HlAnalysisPanel *self)
 {
-  HlAnalysisPanel *self = panel_of (window);
-
   if (self == NULL)
     return HL_REPORT_TARGET_JRF_BW_DEFAULT;
+  g_return_val_if_fail (HL_IS_ANALYSIS_PANEL (self), HL_REPORT_TARGET_JRF_BW_DEFAULT);
   return gtk_spin_button_get_value (GTK_SPIN_BUTTON (self->target_spin));
 }
 
 static void
-selected_option_cb (GObject *canvas, GParamSpec *pspec, HlAnalysisPanel *self)
+scrolled_cb (GtkAdjustment *adjustment, HlAnalysisPanel *self)
 {
-  if (self->window->disposing)
-    return;
-  if (gtk_widget_get_mapped (GTK_WIDGET (self)))
-    compute_answers (self);
-  else
-    self->stale = TRUE;
+  g_signal_emit (self, signals[SIGNAL_SHOWN_CHANGED], 0);
 }
-
-/* The handle printer prints after frames in which something moved. */
-static void
-moved_cb (GObject *object, GParamSpec *pspec, HlWindow *window)
-{
-  window->handles_dirty = TRUE;
-}
-
-static void
-computed_cb (GObject *charts_view, HlWindow *window)
-{
-  window->handles_dirty = TRUE;
-}
-
-static void
-scrolled_cb (GtkAdjustment *adjustment, HlWindow *window)
-{
-  window->handles_dirty = TRUE;
-}
-
-static void
-show_lower_cb (GSimpleAction *action, GVariant *param, gpointer user_data)
-{
-  HlWindow *window = user_data;
-
-  if (window->lower_stack != NULL)
-    gtk_stack_set_visible_child_name (window->lower_stack,
-                                      g_str_equal (g_action_get_name (G_ACTION (action)),
-                                                   "show-charts") ? "charts" : "results");
-}
-
-static void
-show_analysis_cb (GSimpleAction *action, GVariant *param, gpointer user_data)
-{
-  hl_window_show_panel (HL_WINDOW (user_data), PAGE_NAME);
-}
-
-static const GActionEntry lower_actions[] = {
-  { "show-results", show_lower_cb, NULL, NULL, NULL, { 0 } },
-  { "show-charts", show_lower_cb, NULL, NULL, NULL, { 0 } },
-  { "show-analysis", show_analysis_cb, NULL, NULL, NULL, { 0 } },
-};
 
 static GtkWidget *
 caption (const char *text)
@@ -643,121 +592,61 @@ build (HlAnalysisPanel *self)
   gtk_box_append (box, caption (hl_caution_short ()));
 }
 
-void
-hl_analysis_attach (HlWindow *window)
+GtkWidget *
+hl_analysis_panel_new (HlDocument *document)
 {
-  HlAnalysisPanel *self = g_object_new (HL_TYPE_ANALYSIS_PANEL,
-                                        "orientation", GTK_ORIENTATION_VERTICAL,
-                                        "spacing", PAGE_SPACING, NULL);
+  HlAnalysisPanel *self;
 
-  self->window = window;
+  g_return_val_if_fail (HL_IS_DOCUMENT (document), NULL);
+  self = g_object_new (HL_TYPE_ANALYSIS_PANEL,
+                       "orientation", GTK_ORIENTATION_VERTICAL,
+                       "spacing", PAGE_SPACING, NULL);
+  self->document = document;
   build (self);
   self->scroll = gtk_scrolled_window_new ();
   gtk_scrolled_window_set_policy (GTK_SCROLLED_WINDOW (self->scroll), GTK_POLICY_NEVER,
                                   GTK_POLICY_AUTOMATIC);
   gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (self->scroll), GTK_WIDGET (self));
-  gtk_stack_add_titled (window->panel_stack, self->scroll, PAGE_NAME, _("Analysis"));
-  g_object_set_data (G_OBJECT (window), PAGE_KEY, self);
-  g_signal_connect_object (window->canvas, "notify::selected-option",
-                           G_CALLBACK (selected_option_cb), self, 0);
+  g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), self, 0);
   g_signal_connect (self, "map", G_CALLBACK (panel_map_cb), NULL);
-  g_action_map_add_action_entries (G_ACTION_MAP (window), lower_actions,
-                                   G_N_ELEMENTS (lower_actions), window);
-  if (window->charts_view != NULL)
-    {
-      hl_charts_view_set_document (HL_CHARTS_VIEW (window->charts_view), window->document);
-      g_signal_connect_object (window->charts_view, "computed", G_CALLBACK (computed_cb),
-                               window, 0);
-      g_signal_connect_object (window->charts_view, "notify::kind", G_CALLBACK (moved_cb),
-                               window, 0);
-      g_signal_connect_object (window->charts_view, "notify::show-bands", G_CALLBACK (moved_cb),
-                               window, 0);
-    }
-  if (window->lower_stack != NULL)
-    g_signal_connect_object (window->lower_stack, "notify::visible-child", G_CALLBACK (moved_cb),
-                             window, 0);
   g_signal_connect_object (gtk_scrolled_window_get_vadjustment (GTK_SCROLLED_WINDOW (self->scroll)),
-                           "value-changed", G_CALLBACK (scrolled_cb), window, 0);
+                           "value-changed", G_CALLBACK (scrolled_cb), self, 0);
+  self->stale = TRUE;
+  return GTK_WIDGET (self);
+}
+
+GtkWidget *
+hl_analysis_panel_get_page (HlAnalysisPanel *self)
+{
+  g_return_val_if_fail (HL_IS_ANALYSIS_PANEL (self), NULL);
+  return self->scroll;
 }
 
 /* ---- test hooks ----------------------------------------------------- */
 
 static void
-print_widget (HlWindow *window, const char *name, GtkWidget *widget)
+print_widget (const char *name, GtkWidget *widget)
 {
+  GtkNative *native = widget != NULL ? gtk_widget_get_native (widget) : NULL;
   graphene_point_t in, out;
   double tx, ty;
 
-  if (widget == NULL || !gtk_widget_get_mapped (widget))
+  if (widget == NULL || native == NULL || !gtk_widget_get_mapped (widget))
     return;
   in = GRAPHENE_POINT_INIT (gtk_widget_get_width (widget) / 2.0f,
                             gtk_widget_get_height (widget) / 2.0f);
-  if (!gtk_widget_compute_point (widget, GTK_WIDGET (window), &in, &out))
+  if (!gtk_widget_compute_point (widget, GTK_WIDGET (native), &in, &out))
     return;
-  gtk_native_get_surface_transform (GTK_NATIVE (window), &tx, &ty);
+  gtk_native_get_surface_transform (native, &tx, &ty);
   printf ("WIDGET %s %.0f %.0f\n", name, out.x + tx, out.y + ty);
 }
 
-/* The stack switcher's button of the page holding `child`. */
-static void
-print_switcher_button (HlWindow *window, const char *name, GtkStack *stack, GtkWidget *child)
-{
-  GtkWidget *switcher = gtk_widget_get_prev_sibling (GTK_WIDGET (stack));
-  g_autoptr(GtkSelectionModel) pages = gtk_stack_get_pages (stack);
-  GtkWidget *button = switcher != NULL ? gtk_widget_get_first_child (switcher) : NULL;
-  guint n = g_list_model_get_n_items (G_LIST_MODEL (pages));
-
-  for (guint i = 0; i < n && button != NULL; i++, button = gtk_widget_get_next_sibling (button))
-    {
-      GtkStackPage *page = g_list_model_get_item (G_LIST_MODEL (pages), i);
-      gboolean found = gtk_stack_page_get_child (page) == child;
-
-      g_object_unref (page);
-      if (found)
-        {
-          print_widget (window, name, button);
-          return;
-        }
-    }
-}
-
 void
-hl_analysis_print_handles (HlWindow *window)
+hl_analysis_panel_print_handles (HlAnalysisPanel *self)
 {
-  HlAnalysisPanel *self = panel_of (window);
-
-  if (self == NULL)
-    return;
-  print_switcher_button (window, "page-analysis", window->panel_stack, self->scroll);
-  if (window->lower_stack != NULL)
-    {
-      print_switcher_button (window, "lower-results", window->lower_stack,
-                             gtk_stack_get_child_by_name (window->lower_stack, "results"));
-      print_switcher_button (window, "lower-charts", window->lower_stack,
-                             gtk_stack_get_child_by_name (window->lower_stack, "charts"));
-    }
-  if (window->charts_view != NULL)
-    {
-      HlChartsView *charts = HL_CHARTS_VIEW (window->charts_view);
-      const char *error = hl_charts_view_get_error (charts);
-
-      graphene_point_t in = GRAPHENE_POINT_INIT (0, 0), out;
-      double tx, ty;
-
-      print_widget (window, "chart-kind", hl_charts_view_get_kind_drop (charts));
-      printf ("CHARTS %d %u %s\n", (int) hl_charts_view_get_kind (charts),
-              hl_charts_view_get_compute_count (charts), error != NULL ? "error" : "ok");
-      if (gtk_widget_get_mapped (window->charts_view)
-          && gtk_widget_compute_point (window->charts_view, GTK_WIDGET (window), &in, &out))
-        {
-          gtk_native_get_surface_transform (GTK_NATIVE (window), &tx, &ty);
-          printf ("AREA charts-view %.0f %.0f %d %d\n", out.x + tx, out.y + ty,
-                  gtk_widget_get_width (window->charts_view),
-                  gtk_widget_get_height (window->charts_view));
-        }
-    }
-  print_widget (window, "analysis-target", self->target_spin);
-  print_widget (window, "capacity-preset", self->capacity_drop);
+  g_return_if_fail (HL_IS_ANALYSIS_PANEL (self));
+  print_widget ("analysis-target", self->target_spin);
+  print_widget ("capacity-preset", self->capacity_drop);
   for (int q = 0; q < HL_QUESTION_N; q++)
     {
       const HlInverseAnswer *a = &self->answers[q];
@@ -766,7 +655,7 @@ hl_analysis_print_handles (HlWindow *window)
                            : a->status == HL_OK ? "ok"
                            : a->status == HL_ERR_NOT_REACHABLE ? "not-reachable" : "not-converged";
 
-      print_widget (window, name, self->rows[q].apply);
+      print_widget (name, self->rows[q].apply);
       printf ("ANSWER %s %s %.9g %d\n", hl_question_key ((HlQuestion) q), status,
               self->asked[q] && a->status == HL_OK ? a->value : NAN,
               gtk_widget_get_sensitive (self->rows[q].apply));
@@ -778,6 +667,9 @@ hl_analysis_print_handles (HlWindow *window)
 static void
 hl_analysis_panel_class_init (HlAnalysisPanelClass *klass)
 {
+  signals[SIGNAL_SHOWN_CHANGED] = g_signal_new ("shown-changed", G_TYPE_FROM_CLASS (klass),
+                                                G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
+                                                G_TYPE_NONE, 0);
 }
 
 static void

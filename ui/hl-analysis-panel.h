@@ -1,5 +1,4 @@
-/* hl-analysis-panel.h: the side panel's "Analysis" page, and the analysis
- * the window shows elsewhere (ranges in the results, the charts).
+/* hl-analysis-panel.h: the side panel's "Analysis" page.
  *
  * Copyright 2026 the hiplever developers
  * SPDX-License-Identifier: GPL-3.0-or-later
@@ -26,45 +25,43 @@
  * sets the plan's capacity torque (an undoable edit) and the assumption
  * the presets rest on.
  *
- * On every plan change the page also runs the Monte Carlo of the plan's
- * uncertainty settings (hl-uncertainty.h) for the 5-95% ranges of the
- * results table and passes the change to the charts view.  Everything is
- * computed by the core; the page only shows it.
+ * The page follows its document's "changed" signal and reads the model
+ * the document prepared; while hidden it waits until it is shown.  Every
+ * number is computed by the core; the page only shows it.
+ *
+ * Signal "shown-changed": what the page shows moved (answers recomputed
+ * for a new target, the page scrolled), for the test hooks.
  */
 #pragma once
 
 #include <gtk/gtk.h>
 #include "hl-answer.h"
-#include "hl-window.h"
+#include "hl-document.h"
 
 G_BEGIN_DECLS
 
 #define HL_TYPE_ANALYSIS_PANEL (hl_analysis_panel_get_type ())
 G_DECLARE_FINAL_TYPE (HlAnalysisPanel, hl_analysis_panel, HL, ANALYSIS_PANEL, GtkBox)
 
-/* Builds the page, adds it to the side panel as "analysis" and connects
- * the charts view; called once from the window's init. */
-void hl_analysis_attach (HlWindow *window);
+/* The page for `document` (borrowed: it must outlive the page). */
+GtkWidget *hl_analysis_panel_new (HlDocument *document);
+/* The scrolled window around the page, which goes into the side panel. */
+GtkWidget *hl_analysis_panel_get_page (HlAnalysisPanel *self);
 
-/* From hl_window_plan_edited: the ranges, the answers, the capacity use
- * and the charts follow the plan. */
-void hl_analysis_plan_edited (HlWindow *window);
-
-/* The joint-load target of the page, x body weight. */
-double hl_analysis_get_target_bw (HlWindow *window);
+/* The joint-load target of the page, x body weight (the default when
+ * `self` is NULL). */
+double hl_analysis_panel_get_target_bw (HlAnalysisPanel *self);
 
 /* Makes answer `question` part of the plan as one undoable edit, as its
  * Apply button does; FALSE (nothing changed) when it has no answer that
  * can be applied. */
-gboolean hl_analysis_apply (HlWindow *window, HlQuestion question);
+gboolean hl_analysis_panel_apply (HlAnalysisPanel *self, HlQuestion question);
 
-/* From the handle printer (HIPLEVER_TEST_PRINT_HANDLES): WIDGET lines for
- * page-analysis, lower-results, lower-charts, chart-kind, analysis-target,
- * capacity-preset and apply-<question key>; "CHARTS <kind> <runs of the
- * core> <ok|error>"; "AREA charts-view x y width height" while the charts
- * are shown; and one line per question
+/* For the handle printer (HIPLEVER_TEST_PRINT_HANDLES): WIDGET lines for
+ * analysis-target, capacity-preset and apply-<question key>, and one line
+ * per question
  *   ANSWER <key> <ok|not-reachable|not-converged|none> <value> <applicable>
  * with the value to full precision (nan without an answer). */
-void hl_analysis_print_handles (HlWindow *window);
+void hl_analysis_panel_print_handles (HlAnalysisPanel *self);
 
 G_END_DECLS

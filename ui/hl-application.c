@@ -177,12 +177,13 @@ load_demo (void)
 static HlWindow *
 hl_application_new_window (HlApplication *self)
 {
-  HlWindow *window = hl_window_new (GTK_APPLICATION (self));
+  HlWindow *window;
 
   /* Batch runs read the settings (units, size) but never write them. */
   hl_settings_init (!(self->benchmark_drag || self->screenshot_path != NULL
                       || self->print_results));
-  hl_settings_attach (window);
+  window = hl_window_new (GTK_APPLICATION (self));
+  hl_settings_attach (GTK_WINDOW (window));
   if (self->width > 0)
     gtk_window_set_default_size (GTK_WINDOW (window), self->width, self->height);
   if (self->dump_path != NULL)

@@ -18,7 +18,7 @@
 #include "hl-report.h"
 #include "hl-settings.h"
 #include "hl-version.h"
-#include "hl-window-private.h"
+#include "hl-message.h"
 
 #define EXPORT_KEY "hl-export"
 /* Comment lines of a CSV file wrap at this many characters. */
@@ -35,7 +35,9 @@ typedef enum {
 } HlExportKind;
 
 typedef struct {
-  HlWindow *window;            /* borrowed: the export lives on the window */
+  GtkWindow *window;           /* borrowed: the export lives on the window */
+  HlDocument *document;        /* borrowed: the window's */
+  HlAnalysisPanel *analysis;   /* borrowed: its joint-load target */
   GtkNativeDialog *chooser;
   GtkWidget *size_dialog;
   GtkWidget *width_spin;
@@ -70,11 +72,11 @@ show_failure (HlExport *ex, GFile *file, const char *what, const HlError *err)
 {
   g_autofree char *name = g_file_get_parse_name (file);
   g_autofree char *primary = g_strdup_printf (_("Could not export the %s to “%s”"), what, name);
-  g_autofree char *msg = hl_window_format_error (err);
+  g_autofree char *msg = hl_document_format_error (err);
   g_autofree char *secondary = g_strdup_printf (_("%s\n\nNothing was written; the plan is unchanged."),
                                                 msg);
 
-  hl_window_show_error (ex->window, primary, secondary);
+  hl_message_show_error (GTK_WIDGET (ex->window), primary, secondary);
 }
 
 static void
@@ -83,13 +85,13 @@ say_written (HlExport *ex, const char *what, GFile *file)
   g_autofree char *name = g_file_get_parse_name (file);
   g_autofree char *text = g_strdup_printf (_("%s written to %s"), what, name);
 
-  gtk_label_set_text (ex->window->status_label, text);
+  hl_message_show_status (GTK_WIDGET (ex->window), text);
 }
 
 static char *
 suggested_name (HlExport *ex, const char *suffix)
 {
-  const HlPlan *plan = ex->window->plan;
+  const HlPlan *plan = hl_document_get_plan (ex->document);
   g_autofree char *safe = g_strdup (plan->label[0] != '\0' ? plan->label : _("case"));
 
   g_strdelimit (safe, "/\\:", '-');
@@ -125,13 +127,10 @@ filter_new (const char *name, const char *pattern)
 static void
 report_settings (HlExport *ex, HlReportSettings *settings)
 {
-  HlWindow *window = ex->window;
-
   hl_report_settings_init (settings);
-  settings->target_jrf_bw = hl_analysis_get_target_bw (window);
-  settings->figure_option = hl_window_selected_option (window) >= 0
-                            && (size_t) hl_window_selected_option (window) < window->plan->n_options
-                            ? hl_window_selected_option (window) : -1;
+  settings->target_jrf_bw = hl_analysis_panel_get_target_bw (ex->analysis);
+  /* The document keeps the selection within its options. */
+  settings->figure_option = hl_document_get_selected_option (ex->document);
 }
 
 static char *
@@ -209,7 +208,6 @@ hl_export_sweeps_csv (const HlPlan *plan, HlError *err)
 static void
 write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filter)
 {
-  HlWindow *window = ex->window;
   g_autoptr(GFile) file = NULL;
   g_autofree char *path = NULL;
   const char *what = NULL;
@@ -228,7 +226,7 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
         file = with_extension (chosen, ".pdf");
         report_settings (ex, &settings);
         if ((path = local_path (file, &err)) != NULL)
-          hl_report_save_pdf (window->plan, &settings, path, &err);
+          hl_report_save_pdf (hl_document_get_plan (ex->document), &settings, path, &err);
       }
       break;
     case EXPORT_FIGURE:
@@ -246,7 +244,7 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
           file = with_extension (chosen, filter_name != NULL && strstr (filter_name, "SVG") != NULL
                                          ? ".svg" : ".png");
         if ((path = local_path (file, &err)) != NULL)
-          hl_figure_save (window->plan, ex->figure_option, ex->figure_width, ex->figure_height,
+          hl_figure_save (hl_document_get_plan (ex->document), ex->figure_option, ex->figure_width, ex->figure_height,
                           path, &err);
       }
       break;
@@ -259,7 +257,7 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
         done = _("Sweep table");
         file = with_extension (chosen, ".csv");
         if ((path = local_path (file, &err)) != NULL
-            && (csv = hl_export_sweeps_csv (window->plan, &err)) != NULL)
+            && (csv = hl_export_sweeps_csv (hl_document_get_plan (ex->document), &err)) != NULL)
           hl_write_file_atomic (path, csv, strlen (csv), &err);
       }
       break;
@@ -400,12 +398,11 @@ grid_label (const char *text)
 static void
 show_size_dialog (HlExport *ex)
 {
-  HlWindow *window = ex->window;
-  const HlPlan *plan = window->plan;
+  GtkWindow *window = ex->window;
+  const HlPlan *plan = hl_document_get_plan (ex->document);
   g_autoptr(GtkStringList) options = gtk_string_list_new (NULL);
   GtkWidget *dialog, *grid, *label, *note;
-  int option = hl_window_selected_option (window) >= 0
-               && (size_t) hl_window_selected_option (window) < plan->n_options ? hl_window_selected_option (window) : -1;
+  int option = hl_document_get_selected_option (ex->document);
 
   if (ex->size_dialog != NULL)
     {
@@ -498,17 +495,17 @@ print_done_cb (GtkPrintOperation *op, GtkPrintOperationResult result, HlExport *
       g_autoptr(GError) error = NULL;
 
       gtk_print_operation_get_error (op, &error);
-      hl_window_show_error (ex->window, _("Could not print the report"),
+      hl_message_show_error (GTK_WIDGET (ex->window), _("Could not print the report"),
                             error != NULL ? error->message : _("The printing system gave no reason."));
     }
   else if (result == GTK_PRINT_OPERATION_RESULT_APPLY)
-    gtk_label_set_text (ex->window->status_label, _("Report sent to the printer"));
+    hl_message_show_status (GTK_WIDGET (ex->window), _("Report sent to the printer"));
 }
 
 static void
 print_report (HlExport *ex)
 {
-  HlWindow *window = ex->window;
+  GtkWindow *window = ex->window;
   GtkPrintOperation *op;
   g_autoptr(GtkPageSetup) setup = NULL;
   g_autoptr(GError) error = NULL;
@@ -527,12 +524,12 @@ print_report (HlExport *ex)
     return;
   hl_error_clear (&err);
   report_settings (ex, &settings);
-  ex->print_report = hl_report_new (window->plan, &settings, &err);
+  ex->print_report = hl_report_new (hl_document_get_plan (ex->document), &settings, &err);
   if (ex->print_report == NULL)
     {
-      g_autofree char *msg = hl_window_format_error (&err);
+      g_autofree char *msg = hl_document_format_error (&err);
 
-      hl_window_show_error (window, _("Could not print the report"), msg);
+      hl_message_show_error (GTK_WIDGET (window), _("Could not print the report"), msg);
       return;
     }
 
@@ -543,7 +540,7 @@ print_report (HlExport *ex)
   gtk_page_setup_set_paper_size_and_default_margins (setup, a4);
   gtk_paper_size_free (a4);
   gtk_print_operation_set_default_page_setup (op, setup);
-  gtk_print_operation_set_job_name (op, window->plan->label[0] != '\0' ? window->plan->label
+  gtk_print_operation_set_job_name (op, hl_document_get_plan (ex->document)->label[0] != '\0' ? hl_document_get_plan (ex->document)->label
                                                                        : _("hiplever report"));
   gtk_print_operation_set_allow_async (op, TRUE);
   g_signal_connect (op, "begin-print", G_CALLBACK (begin_print_cb), ex);
@@ -562,11 +559,11 @@ print_report (HlExport *ex)
     {
       g_clear_pointer (&ex->print_report, hl_report_free);
       g_clear_object (&ex->print_op);
-      hl_window_show_error (window, _("Could not print the report"),
+      hl_message_show_error (GTK_WIDGET (window), _("Could not print the report"),
                             error != NULL ? error->message : _("The printing system gave no reason."));
     }
   else if (action == GTK_PRINT_OPERATION_ACTION_EXPORT)
-    gtk_label_set_text (window->status_label, _("Report printed to a file"));
+    hl_message_show_status (GTK_WIDGET (window), _("Report printed to a file"));
 }
 
 /* ---- actions -------------------------------------------------------- */
@@ -603,11 +600,15 @@ static const GActionEntry export_actions[] = {
 };
 
 void
-hl_export_attach (HlWindow *window)
+hl_export_attach (GtkApplicationWindow *window, HlDocument *document,
+                  HlAnalysisPanel *analysis)
 {
   HlExport *ex = g_new0 (HlExport, 1);
 
-  ex->window = window;
+  g_return_if_fail (HL_IS_DOCUMENT (document));
+  ex->window = GTK_WINDOW (window);
+  ex->document = document;
+  ex->analysis = analysis;
   ex->figure_width = HL_EXPORT_FIGURE_WIDTH_DEFAULT;
   ex->figure_height = HL_EXPORT_FIGURE_HEIGHT_DEFAULT;
   ex->figure_option = -1;

@@ -29,8 +29,9 @@
 #pragma once
 
 #include <gtk/gtk.h>
+#include "hl-analysis-panel.h"
+#include "hl-document.h"
 #include "hl-plan.h"
-#include "hl-window.h"
 
 G_BEGIN_DECLS
 
@@ -38,8 +39,10 @@ G_BEGIN_DECLS
 #define HL_EXPORT_FIGURE_WIDTH_DEFAULT 1600
 #define HL_EXPORT_FIGURE_HEIGHT_DEFAULT 1200
 
-/* Adds the actions to the window; called once from its init. */
-void hl_export_attach (HlWindow *window);
+/* Adds the actions to the window, for the document it shows; called once
+ * from its init. */
+void hl_export_attach (GtkApplicationWindow *window, HlDocument *document,
+                       HlAnalysisPanel *analysis);
 
 /* The sweep table as written by "Export Sweeps (CSV)…": the caution and
  * the case as leading "# " lines, then hl_report_sweeps_csv's table.

@@ -13,7 +13,7 @@
 #include <glib/gstdio.h>
 
 #include "hl-settings.h"
-#include "hl-window-private.h"
+#include "hl-message.h"
 
 #define HL_SETTINGS_DIR "hiplever"
 #define HL_SETTINGS_FILE "settings.ini"
@@ -255,39 +255,30 @@ save_model_defaults (const HlModelChoices *m)
 }
 
 static void
-use_as_defaults_clicked_cb (GtkButton *button, HlWindow *window)
+use_as_defaults_clicked_cb (GtkButton *button, HlDocument *document)
 {
-  save_model_defaults (&window->plan->model);
+  save_model_defaults (&hl_document_get_plan (document)->model);
   hl_settings_flush ();
-  gtk_label_set_text (window->status_label,
-                      settings.writable
-                      ? _("The model choices of this plan are now the defaults for new plans.")
-                      : _("The model choices were not saved as defaults: settings are not written in this mode."));
+  hl_message_show_status (GTK_WIDGET (button),
+                          settings.writable
+                          ? _("The model choices of this plan are now the defaults for new plans.")
+                          : _("The model choices were not saved as defaults: settings are not written in this mode."));
 }
 
-/* Under the Model choices of the Case page, as the row after the trunk
- * lean's. */
-static void
-add_defaults_button (HlWindow *window)
+GtkWidget *
+hl_settings_defaults_button_new (HlDocument *document)
 {
-  GtkWidget *anchor = GTK_WIDGET (window->lean_spin);
-  GtkWidget *grid = gtk_widget_get_parent (anchor);
-  GtkWidget *button;
-  int row = 0;
+  GtkWidget *button = gtk_button_new_with_mnemonic (_("_Use as defaults for new plans"));
 
-  if (!GTK_IS_GRID (grid))
-    return;
-  gtk_grid_query_child (GTK_GRID (grid), anchor, NULL, &row, NULL, NULL);
-  button = gtk_button_new_with_mnemonic (_("_Use as defaults for new plans"));
+  g_return_val_if_fail (HL_IS_DOCUMENT (document), NULL);
   gtk_widget_set_halign (button, GTK_ALIGN_START);
   gtk_widget_set_tooltip_text (button,
                                _("New plans start with these model choices; plans opened "
                                  "from a file keep their own."));
   gtk_widget_set_name (button, "model-defaults");
-  gtk_grid_insert_row (GTK_GRID (grid), row + 1);
-  gtk_grid_attach (GTK_GRID (grid), button, 0, row + 1, 3, 1);
   g_signal_connect_object (button, "clicked", G_CALLBACK (use_as_defaults_clicked_cb),
-                           window, 0);
+                           document, 0);
+  return button;
 }
 
 /* ---- the window ----------------------------------------------------- */
@@ -333,12 +324,26 @@ destroy_cb (GtkWidget *widget, gpointer user_data)
 }
 
 void
-hl_settings_attach (HlWindow *window)
+hl_settings_track_mass_unit (GtkDropDown *drop)
 {
-  int w, h, unit;
+  int unit;
+
+  g_return_if_fail (GTK_IS_DROP_DOWN (drop));
+  if (settings.keys == NULL)
+    hl_settings_init (FALSE);
+  unit = get_choice (G_UNITS, "mass", mass_unit_names, G_N_ELEMENTS (mass_unit_names));
+  if (unit >= 0)
+    gtk_drop_down_set_selected (drop, (guint) unit);
+  g_signal_connect (drop, "notify::selected", G_CALLBACK (mass_unit_cb), NULL);
+}
+
+void
+hl_settings_attach (GtkWindow *window)
+{
+  int w, h;
   g_autoptr(GError) error = NULL;
 
-  g_return_if_fail (HL_IS_WINDOW (window));
+  g_return_if_fail (GTK_IS_WINDOW (window));
   if (settings.keys == NULL)
     hl_settings_init (FALSE);
   if (g_object_get_data (G_OBJECT (window), HL_SETTINGS_KEY) != NULL)
@@ -350,15 +355,10 @@ hl_settings_attach (HlWindow *window)
     gtk_window_set_default_size (GTK_WINDOW (window), w, h);
   if (g_key_file_get_boolean (settings.keys, G_WINDOW, "maximized", &error) && error == NULL)
     gtk_window_maximize (GTK_WINDOW (window));
-  unit = get_choice (G_UNITS, "mass", mass_unit_names, G_N_ELEMENTS (mass_unit_names));
-  if (unit >= 0)
-    gtk_drop_down_set_selected (window->mass_unit_drop, (guint) unit);
-  add_defaults_button (window);
 
   g_signal_connect (window, "notify::default-width", G_CALLBACK (window_state_cb), NULL);
   g_signal_connect (window, "notify::default-height", G_CALLBACK (window_state_cb), NULL);
   g_signal_connect (window, "notify::maximized", G_CALLBACK (window_state_cb), NULL);
-  g_signal_connect (window->mass_unit_drop, "notify::selected", G_CALLBACK (mass_unit_cb), NULL);
   g_signal_connect (window, "close-request", G_CALLBACK (close_request_cb), NULL);
   g_signal_connect (window, "destroy", G_CALLBACK (destroy_cb), NULL);
 }

@@ -28,17 +28,23 @@
 
 #include <gtk/gtk.h>
 
+#include "hl-document.h"
 #include "hl-plan.h"
-#include "hl-window.h"
 
 G_BEGIN_DECLS
 
 /* Loads the file (once); `writable` FALSE for batch runs. */
 void hl_settings_init (gboolean writable);
 
-/* Restores the size, maximised state and mass unit on a new window, keeps
- * them up to date and adds the "Use as defaults" button. */
-void hl_settings_attach (HlWindow *window);
+/* Restores the size and maximised state of a new window and keeps them
+ * up to date. */
+void hl_settings_attach (GtkWindow *window);
+/* Restores the mass unit (kg or lb) into the Case page's dropdown and keeps
+ * it up to date. */
+void hl_settings_track_mass_unit (GtkDropDown *drop);
+/* The "Use as defaults for new plans" button: saves the document's model
+ * choices as the defaults. */
+GtkWidget *hl_settings_defaults_button_new (HlDocument *document);
 
 /* Copies the saved model defaults (those present and valid) into a plan
  * that is not from a file. */

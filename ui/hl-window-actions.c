@@ -526,9 +526,16 @@ remove_option_action_cb (GtkWidget *widget, const char *name, GVariant *param)
   hl_window_remove_option (HL_WINDOW (widget));
 }
 
+static void
+show_status_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  gtk_label_set_text (HL_WINDOW (widget)->status_label, g_variant_get_string (param, NULL));
+}
+
 void
 hl_window_actions_class_init (GtkWidgetClass *widget_class)
 {
+  gtk_widget_class_install_action (widget_class, "win.show-status", "s", show_status_action_cb);
   gtk_widget_class_install_action (widget_class, "win.open", NULL, open_action_cb);
   gtk_widget_class_install_action (widget_class, "win.save", NULL, save_action_cb);
   gtk_widget_class_install_action (widget_class, "win.save-as", NULL, save_as_action_cb);

@@ -15,6 +15,7 @@
 #include <stddef.h>
 #include <glib/gi18n.h>
 
+#include "hl-settings.h"
 #include "hl-window-private.h"
 
 /* The international avoirdupois pound, exactly. */
@@ -771,6 +772,23 @@ hl_window_panel_sync (HlWindow *self)
   hl_window_panel_sync_options (self);
 }
 
+/* Under the Model choices of the Case page, as the row after the trunk
+ * lean's. */
+static void
+add_defaults_button (HlWindow *self)
+{
+  GtkWidget *anchor = GTK_WIDGET (self->lean_spin);
+  GtkWidget *grid = gtk_widget_get_parent (anchor);
+  int row = 0;
+
+  if (!GTK_IS_GRID (grid))
+    return;
+  gtk_grid_query_child (GTK_GRID (grid), anchor, NULL, &row, NULL, NULL);
+  gtk_grid_insert_row (GTK_GRID (grid), row + 1);
+  gtk_grid_attach (GTK_GRID (grid), hl_settings_defaults_button_new (self->document),
+                   0, row + 1, 3, 1);
+}
+
 void
 hl_window_panel_init (HlWindow *self)
 {
@@ -808,6 +826,8 @@ hl_window_panel_init (HlWindow *self)
   g_signal_connect_object (self->cane_value_spin, "value-changed", G_CALLBACK (cane_value_cb), self, 0);
   g_signal_connect_object (self->cane_unit_drop, "notify::selected", G_CALLBACK (cane_unit_cb), self, 0);
 
+  hl_settings_track_mass_unit (self->mass_unit_drop);
+  add_defaults_button (self);
   build_landmark_rows (self);
   build_option_params (self);
   g_signal_connect_object (self->option_list, "row-selected",

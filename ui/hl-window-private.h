@@ -5,6 +5,7 @@
  */
 #pragma once
 
+#include "hl-analysis-panel.h"
 #include "hl-canvas.h"
 #include "hl-document.h"
 #include "hl-results.h"
@@ -100,6 +101,7 @@ struct _HlWindow {
   /* the analysis (hl-analysis-panel.c, hl-charts-view.c, hl-export.c) */
   GtkStack *lower_stack;     /* "results" and "charts" under the schematic */
   GtkWidget *charts_view;    /* HlChartsView */
+  HlAnalysisPanel *analysis_panel;
 };
 
 /* hl-window.c */

@@ -35,7 +35,6 @@
 #include "hl-charts-view.h"
 #include "hl-application.h"
 #include "hl-plan-io.h"
-#include "hl-analysis-panel.h"
 #include "hl-radiograph-page.h"
 #include "hl-window-private.h"
 
@@ -108,6 +107,48 @@ print_widget (HlWindow *self, const char *name, GtkWidget *widget)
       && surface_point (self, widget, gtk_widget_get_width (widget) / 2.0,
                         gtk_widget_get_height (widget) / 2.0, &x, &y))
     printf ("WIDGET %s %.0f %.0f\n", name, x, y);
+}
+
+/* The stack switcher's button of the page holding `child`. */
+static void
+print_switcher_button (HlWindow *self, const char *name, GtkStack *stack, GtkWidget *child)
+{
+  GtkWidget *switcher = gtk_widget_get_prev_sibling (GTK_WIDGET (stack));
+  g_autoptr(GtkSelectionModel) pages = gtk_stack_get_pages (stack);
+  GtkWidget *button = switcher != NULL ? gtk_widget_get_first_child (switcher) : NULL;
+  guint n = g_list_model_get_n_items (G_LIST_MODEL (pages));
+
+  for (guint i = 0; i < n && button != NULL; i++, button = gtk_widget_get_next_sibling (button))
+    {
+      g_autoptr(GObject) page = g_list_model_get_item (G_LIST_MODEL (pages), i);
+
+      if (gtk_stack_page_get_child (GTK_STACK_PAGE (page)) == child)
+        {
+          print_widget (self, name, button);
+          return;
+        }
+    }
+}
+
+/* The lower area: its switcher, the charts' dropdown, what they show and
+ * where they are. */
+static void
+print_lower_handles (HlWindow *self)
+{
+  HlChartsView *charts = HL_CHARTS_VIEW (self->charts_view);
+  const char *error = hl_charts_view_get_error (charts);
+  double x, y;
+
+  print_switcher_button (self, "lower-results", self->lower_stack,
+                         gtk_stack_get_child_by_name (self->lower_stack, "results"));
+  print_switcher_button (self, "lower-charts", self->lower_stack,
+                         gtk_stack_get_child_by_name (self->lower_stack, "charts"));
+  print_widget (self, "chart-kind", hl_charts_view_get_kind_drop (charts));
+  printf ("CHARTS %d %u %s\n", (int) hl_charts_view_get_kind (charts),
+          hl_charts_view_get_compute_count (charts), error != NULL ? "error" : "ok");
+  if (surface_point (self, self->charts_view, 0, 0, &x, &y))
+    printf ("AREA charts-view %.0f %.0f %d %d\n", x, y,
+            gtk_widget_get_width (self->charts_view), gtk_widget_get_height (self->charts_view));
 }
 
 void
@@ -183,7 +224,8 @@ hl_window_print_handles (HlWindow *self)
       printf ("ACCESSIBLE canvas %s\n", label != NULL ? label : "");
     }
   hl_radiograph_page_print_handles (self);
-  hl_analysis_print_handles (self);
+  print_lower_handles (self);
+  hl_analysis_panel_print_handles (self->analysis_panel);
   printf ("FRAME %u\n", ++self->handles_printed);
   fflush (stdout);
 }

@@ -16,6 +16,7 @@
 #include "hl-analysis-panel.h"
 #include "hl-charts-view.h"
 #include "hl-export.h"
+#include "hl-message.h"
 #include "hl-radiograph-page.h"
 #include "hl-version.h"
 #include "hl-window-private.h"
@@ -47,28 +48,11 @@ hl_window_get_document (HlWindow *self)
   return self->document;
 }
 
-static void
-error_dialog_response_cb (GtkDialog *dialog, int response, gpointer user_data)
-{
-  gtk_window_destroy (GTK_WINDOW (dialog));
-}
-
 void
 hl_window_show_error (HlWindow *self, const char *primary,
                       const char *secondary)
 {
-  GtkWidget *dialog;
-
-  dialog = gtk_message_dialog_new (GTK_WINDOW (self),
-                                   GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
-                                   GTK_MESSAGE_ERROR, GTK_BUTTONS_CLOSE,
-                                   "%s", primary);
-  gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog),
-                                            "%s", secondary);
-  gtk_window_set_title (GTK_WINDOW (dialog), _("Error"));
-  g_signal_connect (dialog, "response",
-                    G_CALLBACK (error_dialog_response_cb), NULL);
-  gtk_window_present (GTK_WINDOW (dialog));
+  hl_message_show_error (GTK_WIDGET (self), primary, secondary);
 }
 
 void
@@ -157,7 +141,6 @@ document_changed_cb (HlDocument *document, guint what, HlWindow *self)
   if (what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_RESULTS))
     {
       hl_radiograph_page_plan_edited (self);
-      hl_analysis_plan_edited (self);
       hl_window_panel_sync_cane_note (self);
     }
   self->handles_dirty = TRUE;
@@ -356,6 +339,58 @@ caution_toggled_cb (GtkToggleButton *button, HlWindow *self)
   self->handles_dirty = TRUE;
 }
 
+/* ---- analysis and charts ---------------------------------------------- */
+
+/* The handle printer prints after frames in which something moved. */
+static void
+handles_moved_cb (HlWindow *self)
+{
+  self->handles_dirty = TRUE;
+}
+
+static void
+show_lower_cb (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  HlWindow *self = user_data;
+
+  gtk_stack_set_visible_child_name (self->lower_stack,
+                                    g_str_equal (g_action_get_name (G_ACTION (action)),
+                                                 "show-charts") ? "charts" : "results");
+}
+
+static void
+show_analysis_cb (GSimpleAction *action, GVariant *param, gpointer user_data)
+{
+  hl_window_show_panel (HL_WINDOW (user_data), "analysis");
+}
+
+static const GActionEntry lower_actions[] = {
+  { "show-results", show_lower_cb, NULL, NULL, NULL, { 0 } },
+  { "show-charts", show_lower_cb, NULL, NULL, NULL, { 0 } },
+  { "show-analysis", show_analysis_cb, NULL, NULL, NULL, { 0 } },
+};
+
+static void
+attach_analysis (HlWindow *self)
+{
+  self->analysis_panel = HL_ANALYSIS_PANEL (hl_analysis_panel_new (self->document));
+  gtk_stack_add_titled (self->panel_stack, hl_analysis_panel_get_page (self->analysis_panel),
+                        "analysis", _("Analysis"));
+  g_signal_connect_object (self->analysis_panel, "shown-changed",
+                           G_CALLBACK (handles_moved_cb), self, G_CONNECT_SWAPPED);
+  g_action_map_add_action_entries (G_ACTION_MAP (self), lower_actions,
+                                   G_N_ELEMENTS (lower_actions), self);
+  hl_charts_view_set_document (HL_CHARTS_VIEW (self->charts_view), self->document);
+  g_signal_connect_object (self->charts_view, "computed", G_CALLBACK (handles_moved_cb),
+                           self, G_CONNECT_SWAPPED);
+  g_signal_connect_object (self->charts_view, "notify::kind", G_CALLBACK (handles_moved_cb),
+                           self, G_CONNECT_SWAPPED);
+  g_signal_connect_object (self->charts_view, "notify::show-bands",
+                           G_CALLBACK (handles_moved_cb), self, G_CONNECT_SWAPPED);
+  g_signal_connect_object (self->lower_stack, "notify::visible-child",
+                           G_CALLBACK (handles_moved_cb), self, G_CONNECT_SWAPPED);
+}
+
 /* ---- life ----------------------------------------------------------- */
 
 static gboolean
@@ -460,8 +495,8 @@ hl_window_init (HlWindow *self)
   hl_results_set_document (self->results, self->document);
   hl_window_panel_init (self);
   hl_radiograph_page_attach (self);
-  hl_analysis_attach (self);
-  hl_export_attach (self);
+  attach_analysis (self);
+  hl_export_attach (GTK_APPLICATION_WINDOW (self), self->document, self->analysis_panel);
   hl_autosave_attach (self);
   hl_a11y_label_controls (GTK_WIDGET (self));
   g_signal_connect_object (self->document, "changed",
