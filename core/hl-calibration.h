@@ -29,6 +29,11 @@ typedef enum {
 /* HL_MAGNIFICATION_ASSUMED (1.20, Brew et al. 2012) is in hl-types.h. */
 /* A 25 mm calibration sphere: common practice. */
 #define HL_MARKER_DIAMETER_DEFAULT 25.0
+/* Accepted ranges of the true sizes, limits of our own (the window's). */
+#define HL_MARKER_DIAMETER_MIN_MM 1.0
+#define HL_MARKER_DIAMETER_MAX_MM 100.0
+#define HL_KNOWN_DISTANCE_MIN_MM 1.0
+#define HL_KNOWN_DISTANCE_MAX_MM 1000.0
 
 typedef struct {
   HlCalMethod method;

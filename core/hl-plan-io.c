@@ -40,6 +40,7 @@
 #include "hl-plan-io.h"
 #include "hl-plan-scan.h"
 #include "hl-template.h"
+#include "hl-text.h"
 #include "hl-uncertainty.h"
 #include "hl-version.h"
 
@@ -52,6 +53,12 @@ extern const size_t hl_schema_data_len;
 #define HL_ROUND_TRIP_DIGITS_MAX 17
 #define HL_ISO_DATE_MAX 40
 #define HL_QUOTED_VALUE_MAX 40        /* bytes of a bad value quoted in a message */
+/* A value quoted with "%.*s": cut at a whole character, line breaks and
+ * bidirectional controls shown as '?' (hl-text.h). */
+#define HL_QUOTE_BUF (HL_QUOTED_VALUE_MAX + 1)
+#define HL_QUOTE(v) \
+  INT_MAX, hl_text_quote ((const char *) (v), HL_QUOTED_VALUE_MAX, \
+                          (char[HL_QUOTE_BUF]) { 0 }, HL_QUOTE_BUF)
 #define HL_XML_PARSE_OPTIONS (XML_PARSE_NONET | XML_PARSE_BIG_LINES)
 
 const char *
@@ -1204,8 +1211,10 @@ describe_element (xmlNodePtr node, char *out, size_t size)
       xmlChar *v = xmlGetNoNsProp (node, (const xmlChar *) id_attrs[i]);
       if (v != NULL)
         {
-          snprintf (out, size, "<%s %s=\"%.*s\">", (const char *) node->name,
-                    id_attrs[i], HL_QUOTED_VALUE_MAX, (const char *) v);
+          char q[HL_QUOTE_BUF];
+          snprintf (out, size, "<%s %s=\"%s\">", (const char *) node->name, id_attrs[i],
+                    hl_text_quote ((const char *) v, HL_QUOTED_VALUE_MAX, q, sizeof q));
+          hl_utf8_trim_end (out);
           xmlFree (v);
           return;
         }
@@ -1316,8 +1325,9 @@ xml_error_cb (void *data, xmlErrorPtr e)
         }
     }
   else if (r->ctxt != NULL && r->ctxt->name != NULL)
-    snprintf (r->xml_element, sizeof r->xml_element, "<%.*s>",
-              HL_QUOTED_VALUE_MAX - 3, (const char *) r->ctxt->name);
+    snprintf (r->xml_element, sizeof r->xml_element, "<%s>",
+              hl_text_quote ((const char *) r->ctxt->name, HL_QUOTED_VALUE_MAX - 3,
+                             (char[HL_QUOTE_BUF]) { 0 }, HL_QUOTE_BUF));
   snprintf (r->xml_message, sizeof r->xml_message, "%s",
             e->message ? e->message : _("unknown XML error"));
   clean_xml_message (r->xml_message);
@@ -1345,8 +1355,8 @@ doctype_cb (void *ctx, const xmlChar *name, const xmlChar *external_id,
     {
       r->saw_doctype = true;
       r->doctype_line = xmlSAX2GetLineNumber (ctx);
-      snprintf (r->doctype_name, sizeof r->doctype_name, "%.*s",
-                HL_QUOTED_VALUE_MAX - 1, name ? (const char *) name : "");
+      hl_text_quote (name ? (const char *) name : "", HL_QUOTED_VALUE_MAX - 1,
+                     r->doctype_name, sizeof r->doctype_name);
     }
   xmlStopParser (ctxt);
 }
@@ -1392,12 +1402,12 @@ diagnose_value (HlReader *r, xmlNodePtr node, const char *attr, const char *valu
         case HL_NUMBER_NOT_FINITE:
           reader_fail (r, HL_ERR_PARSE, node,
                        _("attribute %s is '%.*s', not a finite number"), attr,
-                       HL_QUOTED_VALUE_MAX, value);
+                       HL_QUOTE (value));
           return true;
         case HL_NUMBER_NOT_A_NUMBER:
         default:
           reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is '%.*s', not a number"),
-                       attr, HL_QUOTED_VALUE_MAX, value);
+                       attr, HL_QUOTE (value));
           return true;
         }
     }
@@ -1415,11 +1425,11 @@ diagnose_value (HlReader *r, xmlNodePtr node, const char *attr, const char *valu
       if (samples)
         reader_fail (r, HL_ERR_PARSE, node,
                      _("attribute samples is '%.*s', not a whole number from 1 to %d"),
-                     HL_QUOTED_VALUE_MAX, value, HL_MC_PLAN_SAMPLES_MAX);
+                     HL_QUOTE (value), HL_MC_PLAN_SAMPLES_MAX);
       else
         reader_fail (r, HL_ERR_PARSE, node,
                      _("attribute seed is '%.*s', not a whole number from 0 to "
-                       "18446744073709551615"), HL_QUOTED_VALUE_MAX, value);
+                       "18446744073709551615"), HL_QUOTE (value));
       return true;
     }
   if (strcmp (attr, "enabled") == 0)
@@ -1429,7 +1439,7 @@ diagnose_value (HlReader *r, xmlNodePtr node, const char *attr, const char *valu
         if (strcmp (value, booleans[i]) == 0)
           return false;
       reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is '%.*s', not true or false"),
-                   attr, HL_QUOTED_VALUE_MAX, value);
+                   attr, HL_QUOTE (value));
       return true;
     }
   const HlEnumAttr *e = find_enum_attr (attr);
@@ -1441,7 +1451,7 @@ diagnose_value (HlReader *r, xmlNodePtr node, const char *attr, const char *valu
       char names[160];
       join_names (e, names, sizeof names);
       reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is '%.*s', not one of: %s"),
-                   attr, HL_QUOTED_VALUE_MAX, value, names);
+                   attr, HL_QUOTE (value), names);
       return true;
     }
   return false;
@@ -1531,7 +1541,7 @@ get_bool (HlReader *r, xmlNodePtr node, const char *attr, bool *out)
   else
     {
       reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is '%.*s', not true or false"),
-                   attr, HL_QUOTED_VALUE_MAX, s);
+                   attr, HL_QUOTE (s));
       ok = false;
     }
   xmlFree (v);
@@ -1576,8 +1586,15 @@ static bool
 read_case (HlReader *r, xmlNodePtr node, HlPlan *plan)
 {
   int side = (int) plan->side;
-  bool ok = get_text_attr (r, node, "label", plan->label, sizeof plan->label)
-            && get_number (r, node, "mass-kg", true, &plan->mass_kg)
+  char unsafe[96];
+  bool ok = get_text_attr (r, node, "label", plan->label, sizeof plan->label);
+  if (ok && hl_text_unsafe (plan->label, unsafe, sizeof unsafe) != NULL)
+    {
+      reader_fail (r, HL_ERR_PARSE, node, _("the case label holds %s; labels must be "
+                                            "one line of plain text"), unsafe);
+      ok = false;
+    }
+  ok = ok && get_number (r, node, "mass-kg", true, &plan->mass_kg)
             && get_enum (r, node, "operated-side", true, &side);
   plan->side = (HlSide) side;
   return ok;
@@ -1594,7 +1611,7 @@ read_model (HlReader *r, xmlNodePtr node, HlPlan *plan)
       if (t == HL_LIMB_N)
         reader_fail (r, HL_ERR_PARSE, node,
                      _("attribute limb-table is '%.*s', not a known stance-limb mass table"),
-                     HL_QUOTED_VALUE_MAX, (const char *) key);
+                     HL_QUOTE (key));
       else
         m->limb_table = t;
       xmlFree (key);
@@ -1872,12 +1889,36 @@ read_options (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *nodes)
           reader_fail (r, HL_ERR_PARSE, c, _("unexpected element in <options>"));
           return false;
         }
+      if (plan->n_options >= HL_PLAN_MAX_OPTIONS)
+        {
+          reader_fail (r, HL_ERR_PARSE, c, _("this is option %zu; a plan holds at most %d "
+                                             "options"), plan->n_options + 1,
+                       HL_PLAN_MAX_OPTIONS);
+          return false;
+        }
       HlOption option;
       memset (&option, 0, sizeof option);
       hl_recon_init (&option.recon);
       HlRecon *rc = &option.recon;
-      if (!get_text_attr (r, c, "name", option.name, sizeof option.name)
-          || !get_number (r, c, "cup-medial-mm", false, &rc->cup_medial_mm)
+      char unsafe[96];
+      if (!get_text_attr (r, c, "name", option.name, sizeof option.name))
+        return false;
+      if (hl_text_unsafe (option.name, unsafe, sizeof unsafe) != NULL)
+        {
+          reader_fail (r, HL_ERR_PARSE, c, _("the option name holds %s; names must be "
+                                             "one line of plain text"), unsafe);
+          return false;
+        }
+      for (size_t j = 0; j < plan->n_options && j < nodes->n_option; j++)
+        if (strcmp (plan->options[j].name, option.name) == 0)
+          {
+            reader_fail (r, HL_ERR_PARSE, c,
+                         _("the option name \"%s\" is used twice, on line %d and on "
+                           "line %d; each option needs its own name"),
+                         option.name, node_line (nodes->option[j]), node_line (c));
+            return false;
+          }
+      if (!get_number (r, c, "cup-medial-mm", false, &rc->cup_medial_mm)
           || !get_number (r, c, "cup-superior-mm", false, &rc->cup_superior_mm)
           || !get_number (r, c, "femoral-offset-mm", false, &rc->femoral_offset_mm)
           || !get_number (r, c, "femoral-length-mm", false, &rc->femoral_length_mm)
@@ -1924,7 +1965,7 @@ get_count (HlReader *r, xmlNodePtr node, const char *attr, uint64_t *out)
     *out = (uint64_t) n;
   else
     reader_fail (r, HL_ERR_PARSE, node, _("attribute %s is '%.*s', not a whole number"),
-                 attr, HL_QUOTED_VALUE_MAX, (const char *) v);
+                 attr, HL_QUOTE (v));
   xmlFree (v);
   return ok;
 }
@@ -2076,7 +2117,7 @@ check_format_version (HlReader *r, xmlNodePtr node)
   if (!digits || version < 1)
     st = reader_fail (r, HL_ERR_PARSE, node,
                       _("attribute format-version is '%.*s', not a format version number"),
-                      HL_QUOTED_VALUE_MAX, s);
+                      HL_QUOTE (s));
   else if (version > HL_PLAN_FORMAT_VERSION)
     st = reader_fail (r, HL_ERR_VERSION, node,
                       _("the file has format version %ld, newer than this program "
@@ -2108,7 +2149,7 @@ check_root (HlReader *r, xmlNodePtr root, bool *is_summary)
     return reader_fail (r, HL_ERR_PARSE, root,
                         _("the root element is <%.*s>, not <plan> or "
                           "<planning-summary>: this is not a hiplever plan"),
-                        HL_QUOTED_VALUE_MAX, (const char *) root->name);
+                        HL_QUOTE (root->name));
   return check_format_version (r, root);
 }
 

@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "hl-i18n.h"
+#include "hl-plan.h"
 #include "hl-plan-scan.h"
 
 /* Enough of an element name to recognise it in a message. */
@@ -106,7 +107,7 @@ hl_plan_scan_ok (const char *data, size_t size, const char *name_for_errors,
                  HlError *err)
 {
   Scan s = { data, data + size, 1 };
-  long elements = 0, attributes = 0;
+  long elements = 0, attributes = 0, options = 0;
   char what[HL_ERROR_MESSAGE_MAX / 2];
 
   while (s.p < s.end)
@@ -134,6 +135,18 @@ hl_plan_scan_ok (const char *data, size_t size, const char *name_for_errors,
 
           elements++;
           attributes += n;
+          /* <option> or <prefix:option>: counted before any parsing. */
+          static const char option_tag[] = "option";
+          size_t ol = sizeof option_tag - 1;
+          if (tag_len >= ol && memcmp (tag + tag_len - ol, option_tag, ol) == 0
+              && (tag_len == ol || tag[tag_len - ol - 1] == ':')
+              && ++options > HL_PLAN_MAX_OPTIONS)
+            {
+              snprintf (what, sizeof what,
+                        _("this is option %ld; a plan holds at most %d options"),
+                        options, HL_PLAN_MAX_OPTIONS);
+              return refuse (err, name_for_errors, line, tag, tag_len, what);
+            }
           if (n > HL_PLAN_SCAN_MAX_ELEMENT_ATTRIBUTES)
             {
               snprintf (what, sizeof what,

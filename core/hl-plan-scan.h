@@ -12,7 +12,8 @@
  * pass over the bytes, without parsing, and refuses a file over the limits
  * below before libxml2 sees it.  The limits sit far above any plan this
  * program writes (a plan with 100 options has some 700 elements and
- * attributes).
+ * attributes).  It also counts <option> start tags and refuses the
+ * option after HL_PLAN_MAX_OPTIONS (64), naming its line.
  *
  * The scan understands just enough XML to count: comments, processing
  * instructions, CDATA sections and declarations are skipped, quoted

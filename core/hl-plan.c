@@ -12,6 +12,7 @@
 
 #include "hl-i18n.h"
 #include "hl-plan.h"
+#include "hl-text.h"
 
 static const HlLandmarkInfo landmark_info[HL_LM_COUNT] = {
   { HL_LM_HIP_CENTRE, "hip-centre", N_("Hip centre"),
@@ -268,6 +269,8 @@ hl_option_set_name (HlOption *option, const char *name)
 long
 hl_plan_add_option (HlPlan *plan, const char *name, const HlRecon *recon)
 {
+  if (plan->n_options >= HL_PLAN_MAX_OPTIONS)
+    return -1;
   if (plan->n_options == plan->options_capacity)
     {
       size_t cap = plan->options_capacity ? plan->options_capacity * 2 : 4;
@@ -304,8 +307,24 @@ hl_plan_duplicate_option (HlPlan *plan, size_t index)
     return -1;
 
   HlOption copy = plan->options[index];
-  char name[HL_NAME_MAX + 16];
-  snprintf (name, sizeof name, "%s (copy)", copy.name);
+  char name[HL_NAME_MAX];
+  for (unsigned k = 1;; k++)
+    {
+      char suffix[32];
+      if (k == 1)
+        snprintf (suffix, sizeof suffix, " (copy)");
+      else
+        snprintf (suffix, sizeof suffix, " (copy %u)", k);
+      /* The original name, cut at a whole character to leave room. */
+      size_t room = sizeof name - 1 - strlen (suffix);
+      snprintf (name, sizeof name, "%.*s%s", (int) hl_utf8_cut (copy.name, room),
+                copy.name, suffix);
+      bool used = false;
+      for (size_t i = 0; i < plan->n_options && !used; i++)
+        used = strcmp (plan->options[i].name, name) == 0;
+      if (!used || k > HL_PLAN_MAX_OPTIONS)
+        break;
+    }
   return hl_plan_add_option (plan, name, &copy.recon);
 }
 
@@ -538,6 +557,72 @@ hl_template_check (const HlTemplate *t, const char *option_name, HlError *err)
   return HL_OK;
 }
 
+/* Fields the checks above look at only when in use: each is checked
+ * whenever present, so that nothing out of range is kept and copied. */
+static HlStatus
+check_unused_fields (const HlPlan *plan, HlError *err)
+{
+  HlStatus st;
+  const HlCalibration *cal = &plan->calibration;
+  /* NaN: no custom fraction was ever given. */
+  if ((!isnan (plan->model.limb_fraction_custom)
+       && (st = check_range (plan->model.limb_fraction_custom, 0.05, 0.35,
+                             "model limb-fraction",
+                             N_("The custom stance-limb mass fraction"), "", err)))
+      || (st = check_range (cal->magnification, HL_MAGNIFICATION_MIN,
+                            HL_MAGNIFICATION_MAX, "calibration magnification",
+                            N_("The magnification"), "", err))
+      || (st = check_range (cal->marker_diameter_mm, HL_MARKER_DIAMETER_MIN_MM,
+                            HL_MARKER_DIAMETER_MAX_MM, "calibration marker-diameter",
+                            N_("The calibration marker's diameter"), "mm", err))
+      || (st = check_range (cal->known_distance_mm, HL_KNOWN_DISTANCE_MIN_MM,
+                            HL_KNOWN_DISTANCE_MAX_MM, "calibration known-distance",
+                            N_("The known distance of the two-point calibration"),
+                            "mm", err))
+      || (st = check_range (plan->cane.distance_mm, 0.0, HL_DISTANCE_MAX_MM,
+                            "cane distance",
+                            N_("The cane hand's distance from the midline"), "mm", err)))
+    return st;
+  /* A switched-off cane's force: within what any body weight allows. */
+  double cane_max = plan->cane.unit == HL_FORCE_UNIT_PERCENT_BW ? 100.0
+                    : plan->cane.unit == HL_FORCE_UNIT_KG ? HL_MASS_MAX_KG
+                    : HL_MASS_MAX_KG * HL_GRAVITY;
+  const char *unit = plan->cane.unit == HL_FORCE_UNIT_PERCENT_BW ? "%BW"
+                     : plan->cane.unit == HL_FORCE_UNIT_KG ? "kg" : "N";
+  return check_range (plan->cane.value, 0.0, cane_max, "cane force",
+                      N_("The cane force"), unit, err);
+}
+
+/* At most HL_PLAN_MAX_OPTIONS options, unique names, and names and the
+ * label that print as they are stored. */
+static HlStatus
+check_names (const HlPlan *plan, HlError *err)
+{
+  char what[96];
+  if (plan->n_options > HL_PLAN_MAX_OPTIONS)
+    return hl_error_set (err, HL_ERR_INVALID, "options",
+                         _("The plan has %zu options; a plan holds at most %d"),
+                         plan->n_options, HL_PLAN_MAX_OPTIONS);
+  if (hl_text_unsafe (plan->label, what, sizeof what) != NULL)
+    return hl_error_set (err, HL_ERR_INVALID, "patient label",
+                         _("The case label holds %s; names and labels must be "
+                           "one line of plain text"), what);
+  for (size_t i = 0; i < plan->n_options; i++)
+    {
+      if (hl_text_unsafe (plan->options[i].name, what, sizeof what) != NULL)
+        return hl_error_set (err, HL_ERR_INVALID, "options",
+                             _("The name of option %zu holds %s; names and labels "
+                               "must be one line of plain text"), i + 1, what);
+      for (size_t j = 0; j < i; j++)
+        if (strcmp (plan->options[i].name, plan->options[j].name) == 0)
+          return hl_error_set (err, HL_ERR_INVALID, "options",
+                               _("Options %zu and %zu are both named \"%s\"; each "
+                                 "option needs its own name"), j + 1, i + 1,
+                               plan->options[i].name);
+    }
+  return HL_OK;
+}
+
 HlStatus
 hl_plan_check (const HlPlan *plan, HlError *err)
 {
@@ -697,6 +782,8 @@ hl_plan_check (const HlPlan *plan, HlError *err)
                             N_("The abductor line angle error (SD)"), "deg", err)))
     return st;
 
+  if ((st = check_unused_fields (plan, err)) || (st = check_names (plan, err)))
+    return st;
   for (size_t i = 0; i < plan->n_options; i++)
     if ((st = check_recon (&plan->options[i].recon, plan->options[i].name, err))
         || (st = hl_template_check (&plan->options[i].recon.tmpl,

@@ -336,8 +336,14 @@ void hl_plan_set_demo_landmarks (HlPlan *plan);
 
 void hl_recon_init (HlRecon *recon);  /* all zero, neck-shaft angle default */
 
+/* The most options a plan holds: the loader, the window's Add and
+ * Duplicate and hl_plan_check refuse more. */
+#define HL_PLAN_MAX_OPTIONS 64
+
 /* Appends a copy of `option` (or an empty one named `name` when option is
- * NULL); returns its index or -1 when out of memory. */
+ * NULL); returns its index, or -1 when out of memory or when the plan
+ * already has HL_PLAN_MAX_OPTIONS options.  Duplicating names the copy
+ * "NAME (copy)", "NAME (copy 2)" ... so that names stay unique. */
 long hl_plan_add_option (HlPlan *plan, const char *name, const HlRecon *recon);
 void hl_plan_remove_option (HlPlan *plan, size_t index);
 long hl_plan_duplicate_option (HlPlan *plan, size_t index);
@@ -362,7 +368,12 @@ double hl_force_to_newtons (double value, HlForceUnit unit, double mass_kg);
 double hl_force_from_newtons (double newtons, HlForceUnit unit, double mass_kg);
 
 /* Range checks on everything but geometry: finite numbers, mass 20-350 kg,
- * cane force 0..body weight, distances >= 0, option parameters in range. */
+ * cane force 0..body weight, distances >= 0, option parameters in range.
+ * Every field is checked whether or not it is in use (a magnification
+ * stored beside a marker calibration, a switched-off cane).  Also: at most
+ * HL_PLAN_MAX_OPTIONS options, no two with the same name, and no line
+ * break, control or bidirectional control character in the case label or
+ * an option name (hl-text.h). */
 HlStatus hl_plan_check (const HlPlan *plan, HlError *err);
 
 /* Cup inclination limits a template accepts, degrees. */

@@ -11,6 +11,7 @@
 
 #include <glib.h>
 
+#include "hl-text.h"
 #include "hl-types.h"
 
 char *
@@ -34,8 +35,13 @@ hl_error_set (HlError *err, HlStatus status, const char *field,
 
   va_list ap;
   va_start (ap, fmt);
-  vsnprintf (err->message, sizeof err->message, fmt, ap);
+  int n = vsnprintf (err->message, sizeof err->message, fmt, ap);
   va_end (ap);
+  /* A message cut short ends on a whole character. */
+  if (n >= (int) sizeof err->message)
+    hl_utf8_trim_end (err->message);
+  if (strlen (field ? field : "") >= sizeof err->field)
+    hl_utf8_trim_end (err->field);
 
   return status;
 }

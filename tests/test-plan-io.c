@@ -376,6 +376,10 @@ random_text (HlRand *r, char *out, size_t size, size_t max_len, bool line_breaks
       const char *piece = text_pieces[rand_int (r, (int) (sizeof text_pieces / sizeof text_pieces[0]))];
       if (line_breaks && rand_chance (r, 0.05))
         piece = "\r\n";
+      /* Names and labels are one line without control characters
+       * (hl_plan_check); the notes may hold any. */
+      if (!line_breaks && strpbrk (piece, "\t\n") != NULL)
+        continue;
       size_t n = strlen (piece);
       if (len + n >= size || len + n > max_len)
         break;
@@ -529,6 +533,8 @@ random_plan (HlRand *r)
       rc.head_length_mm = rand_uniform (r, -4.0, 8.0);
       rc.neck_shaft_angle_deg = rand_uniform (r, 120.0, 145.0);
       random_text (r, name, sizeof name, 40, false);
+      /* Option names are unique (hl_plan_check). */
+      snprintf (name + strlen (name), sizeof name - strlen (name), " %d", i + 1);
       ck_assert_int_ge (hl_plan_add_option (plan, name, &rc), 0);
     }
   random_text (r, plan->notes, sizeof plan->notes, 600, true);

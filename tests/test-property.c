@@ -25,6 +25,7 @@
  */
 #include "config.h"
 
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -183,7 +184,9 @@ random_plan (const gsl_rng *rng, const Family *fam)
       recon.femoral_length_mm = uniform (rng, -10.0, 10.0);
       recon.head_length_mm = uniform (rng, -5.0, 5.0);
       recon.neck_shaft_angle_deg = uniform (rng, 125.0, 140.0);
-      ck_assert_int_ge (hl_plan_add_option (plan, "random option", &recon), 0);
+      char name[32];
+      snprintf (name, sizeof name, "random option %d", i + 1);
+      ck_assert_int_ge (hl_plan_add_option (plan, name, &recon), 0);
     }
   return plan;
 }

@@ -13,6 +13,7 @@
 #include <errno.h>
 #include <fcntl.h>
 #include <limits.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -20,6 +21,7 @@
 #include <unistd.h>
 
 #include "hl-buf.h"
+#include "hl-text.h"
 #include "hl-plan-io.h"
 #include "hl-test-util.h"
 
@@ -246,6 +248,424 @@ START_TEST (test_same_file)
 }
 END_TEST
 
+/* ---- Plans: bounded, every field checked, unique names ------------------ */
+
+#define HL_EXAMPLE HL_TEST_SRCDIR "/data/examples/demo.hlplan"
+
+static char *
+slurp (const char *path, size_t *size)
+{
+  FILE *f = fopen (path, "rb");
+  ck_assert_ptr_nonnull (f);
+  ck_assert_int_eq (fseek (f, 0, SEEK_END), 0);
+  long n = ftell (f);
+  ck_assert_int_ge (n, 0);
+  rewind (f);
+  char *data = malloc ((size_t) n + 1);
+  ck_assert_ptr_nonnull (data);
+  ck_assert_uint_eq (fread (data, 1, (size_t) n, f), (size_t) n);
+  data[n] = '\0';
+  fclose (f);
+  *size = (size_t) n;
+  return data;
+}
+
+/* The demo plan's text with its <options> element replaced by `options`
+ * and the case label by `label` (NULL keeps it). */
+static char *
+demo_with (const char *options, const char *label)
+{
+  size_t size;
+  char *demo = slurp (HL_EXAMPLE, &size);
+  char *start = strstr (demo, "<options>");
+  char *end = strstr (demo, "</options>");
+  ck_assert (start != NULL && end != NULL);
+  end += strlen ("</options>");
+  size_t n = size + strlen (options) + 256;
+  char *out = malloc (n);
+  ck_assert_ptr_nonnull (out);
+  snprintf (out, n, "%.*s%s%s", (int) (start - demo), demo, options, end);
+  if (label != NULL)
+    {
+      char *l = strstr (out, "label=\"");
+      ck_assert_ptr_nonnull (l);
+      l += strlen ("label=\"");
+      char *q = strchr (l, '"');
+      size_t m = strlen (out) + strlen (label) + 1;
+      char *out2 = malloc (m);
+      ck_assert_ptr_nonnull (out2);
+      snprintf (out2, m, "%.*s%s%s", (int) (l - out), out, label, q);
+      free (out);
+      out = out2;
+    }
+  free (demo);
+  return out;
+}
+
+/* n options named "Option 1" ... */
+static char *
+options_xml (int n)
+{
+  size_t cap = 64 + (size_t) n * 64;
+  char *x = malloc (cap);
+  ck_assert_ptr_nonnull (x);
+  size_t len = (size_t) snprintf (x, cap, "<options>\n");
+  for (int i = 0; i < n; i++)
+    len += (size_t) snprintf (x + len, cap - len,
+                              "    <option name=\"Option %d\" femoral-offset-mm=\"%d\"/>\n",
+                              i + 1, i % 10);
+  snprintf (x + len, cap - len, "  </options>");
+  return x;
+}
+
+static HlStatus
+load_text (const char *text, HlPlan **plan, HlError *err)
+{
+  *plan = NULL;
+  hl_error_clear (err);
+  return hl_plan_load_buffer (text, strlen (text), "test.hlplan", plan, err);
+}
+
+START_TEST (test_option_limit_on_load)
+{
+  for (int n = HL_PLAN_MAX_OPTIONS; n <= HL_PLAN_MAX_OPTIONS + 1; n++)
+    {
+      char *opts = options_xml (n);
+      char *text = demo_with (opts, NULL);
+      HlPlan *plan;
+      HlError err;
+      HlStatus st = load_text (text, &plan, &err);
+      if (n == HL_PLAN_MAX_OPTIONS)
+        {
+          ck_assert_msg (st == HL_OK, "64 options: %s", err.message);
+          ck_assert_uint_eq (plan->n_options, (size_t) HL_PLAN_MAX_OPTIONS);
+          /* The window's Add and Duplicate refuse the 65th. */
+          ck_assert_int_eq (hl_plan_add_option (plan, "one more", NULL), -1);
+          ck_assert_int_eq (hl_plan_duplicate_option (plan, 0), -1);
+          ck_assert_uint_eq (plan->n_options, (size_t) HL_PLAN_MAX_OPTIONS);
+          hl_plan_free (plan);
+        }
+      else
+        {
+          ck_assert_int_ne (st, HL_OK);
+          ck_assert_ptr_null (plan);
+          ck_assert_msg (strstr (err.message, "at most 64 options") != NULL, "%s",
+                         err.message);
+          ck_assert_msg (strstr (err.message, "option 65") != NULL, "%s", err.message);
+          ck_assert_int_gt (err.line, 0);
+        }
+      free (opts);
+      free (text);
+    }
+}
+END_TEST
+
+START_TEST (test_duplicate_names)
+{
+  char *text = demo_with ("<options>\n"
+                          "    <option name=\"Same\" femoral-offset-mm=\"2\"/>\n"
+                          "    <option name=\"Other\"/>\n"
+                          "    <option name=\"Same\" femoral-offset-mm=\"4\"/>\n"
+                          "  </options>", NULL);
+  HlPlan *plan;
+  HlError err;
+  ck_assert_int_ne (load_text (text, &plan, &err), HL_OK);
+  /* The two lines: the options start on the line after <options>. */
+  const char *at = strstr (text, "<options>");
+  int line = 1;
+  for (const char *p = text; p < at; p++)
+    line += *p == '\n';
+  char want[64];
+  snprintf (want, sizeof want, "on line %d and on line %d", line + 1, line + 3);
+  ck_assert_msg (strstr (err.message, want) != NULL, "%s (want %s)", err.message, want);
+  ck_assert_msg (strstr (err.message, "\"Same\"") != NULL, "%s", err.message);
+  free (text);
+
+  /* Built in memory: refused by the check, both named. */
+  HlPlan *p = hl_plan_new ();
+  hl_plan_set_demo_landmarks (p);
+  ck_assert_int_ge (hl_plan_add_option (p, "A", NULL), 0);
+  ck_assert_int_ge (hl_plan_add_option (p, "A", NULL), 0);
+  hl_error_clear (&err);
+  ck_assert_int_eq (hl_plan_check (p, &err), HL_ERR_INVALID);
+  ck_assert_msg (strstr (err.message, "Options 1 and 2") != NULL, "%s", err.message);
+  /* Duplicating keeps names unique. */
+  hl_option_set_name (&p->options[1], "B");
+  ck_assert_int_ge (hl_plan_duplicate_option (p, 0), 0);
+  ck_assert_int_ge (hl_plan_duplicate_option (p, 0), 0);
+  ck_assert_str_eq (p->options[2].name, "A (copy)");
+  ck_assert_str_eq (p->options[3].name, "A (copy 2)");
+  ck_assert_int_eq (hl_plan_check (p, &err), HL_OK);
+  /* A long multi-byte name is cut at a whole character. */
+  char longname[HL_NAME_MAX];
+  memset (longname, 0, sizeof longname);
+  for (size_t i = 0; i + 2 < sizeof longname; i += 2)
+    memcpy (longname + i, "\xc3\xa9", 2);
+  hl_option_set_name (&p->options[0], longname);
+  ck_assert_int_ge (hl_plan_duplicate_option (p, 0), 0);
+  ck_assert_int_eq (hl_plan_check (p, &err), HL_OK);
+  const char *copy = p->options[p->n_options - 1].name;
+  ck_assert_msg (strstr (copy, " (copy)") != NULL, "%s", copy);
+  hl_plan_free (p);
+}
+END_TEST
+
+START_TEST (test_unsafe_names_refused)
+{
+  static const char *const bad[] = {
+    "Cup \xe2\x80\xae" "evil",   /* U+202E right-to-left override */
+    "Cup \xe2\x81\xa6x",         /* U+2066 */
+    "Cup \xe2\x80\x8fx",         /* U+200F */
+    "Cup \xd8\x9cx",             /* U+061C */
+    "Cup &#10;two lines",        /* a line break as a character reference */
+    "Cup &#x2028;x",             /* U+2028 line separator */
+  };
+  for (size_t i = 0; i < N_OF (bad); i++)
+    {
+      char opts[256];
+      snprintf (opts, sizeof opts, "<options><option name=\"%s\"/></options>", bad[i]);
+      char *text = demo_with (opts, NULL);
+      HlPlan *plan;
+      HlError err;
+      ck_assert_msg (load_text (text, &plan, &err) != HL_OK, "accepted: %s", bad[i]);
+      ck_assert_msg (strstr (err.message, "one line of plain text") != NULL, "%s",
+                     err.message);
+      /* The message never carries the character itself. */
+      ck_assert_msg (strstr (err.message, "\xe2\x80\xae") == NULL
+                     && strstr (err.message, "\xe2\x81\xa6") == NULL
+                     && strchr (err.message, '\n') == NULL, "%s", err.message);
+      free (text);
+      text = demo_with ("<options/>", bad[i]);
+      ck_assert_msg (load_text (text, &plan, &err) != HL_OK, "label accepted: %s", bad[i]);
+      free (text);
+    }
+  HlPlan *p = hl_plan_new ();
+  hl_plan_set_demo_landmarks (p);
+  HlError err;
+  snprintf (p->label, sizeof p->label, "two\nlines");
+  hl_error_clear (&err);
+  ck_assert_int_eq (hl_plan_check (p, &err), HL_ERR_INVALID);
+  ck_assert_msg (strstr (err.message, "line break") != NULL, "%s", err.message);
+  snprintf (p->label, sizeof p->label, "fine \xc3\xa9 label");
+  ck_assert_int_ge (hl_plan_add_option (p, "a\xe2\x80\xae" "b", NULL), 0);
+  ck_assert_int_eq (hl_plan_check (p, &err), HL_ERR_INVALID);
+  ck_assert_msg (strstr (err.message, "U+202E") != NULL, "%s", err.message);
+  hl_plan_free (p);
+}
+END_TEST
+
+/* Fields not in use are range-checked too. */
+START_TEST (test_unused_fields_checked)
+{
+  static const struct { const char *from, *to, *word; } edits[] = {
+    { "<calibration", "<calibration magnification=\"1e+308\"", "magnification" },
+    { "<calibration", "<calibration magnification=\"0.5\"", "magnification" },
+    { "<calibration", "<calibration marker-diameter-mm=\"-4\"", "diameter" },
+    { "<calibration", "<calibration known-distance-mm=\"1e9\"", "distance" },
+  };
+  size_t size;
+  char *demo = slurp (HL_EXAMPLE, &size);
+  ck_assert_msg (strstr (demo, "<calibration method=\"assumed\"") != NULL
+                 || strstr (demo, "<calibration") != NULL, "no calibration");
+  for (size_t i = 0; i < N_OF (edits); i++)
+    {
+      /* Drop any attribute of the same name, then put the edited one. */
+      char *at = strstr (demo, edits[i].from);
+      ck_assert_ptr_nonnull (at);
+      size_t n = size + 128;
+      char *text = malloc (n);
+      ck_assert_ptr_nonnull (text);
+      snprintf (text, n, "%.*s%s%s", (int) (at - demo), demo, edits[i].to,
+                at + strlen (edits[i].from));
+      /* The demo may carry the same attribute already: strip the second. */
+      const char *attr_end = strchr (edits[i].to + strlen ("<calibration "), '=');
+      char attr[48];
+      snprintf (attr, sizeof attr, " %.*s=\"", (int) (attr_end - edits[i].to
+                                                        - strlen ("<calibration ")),
+                edits[i].to + strlen ("<calibration "));
+      char *first = strstr (text, attr);
+      char *second = first != NULL ? strstr (first + 1, attr) : NULL;
+      char *tag_end = strchr (text + (at - demo), '>');
+      if (second != NULL && second < tag_end)
+        {
+          char *q = strchr (second + strlen (attr), '"');
+          memmove (second, q + 1, strlen (q + 1) + 1);
+        }
+      HlPlan *plan;
+      HlError err;
+      ck_assert_msg (load_text (text, &plan, &err) != HL_OK, "accepted: %s", edits[i].to);
+      ck_assert_msg (hl_test_contains_ci (err.message, edits[i].word)
+                     || hl_test_contains_ci (err.field, edits[i].word), "%s: %s",
+                     err.field, err.message);
+      ck_assert_int_gt (err.line, 0);
+      free (text);
+    }
+  free (demo);
+
+  /* A switched-off cane with an absurd force. */
+  HlPlan *p = hl_plan_new ();
+  hl_plan_set_demo_landmarks (p);
+  p->cane.enabled = false;
+  p->cane.value = 1e300;
+  HlError err;
+  hl_error_clear (&err);
+  ck_assert_int_eq (hl_plan_check (p, &err), HL_ERR_INVALID);
+  ck_assert_msg (strstr (err.field, "cane") != NULL, "%s", err.field);
+  hl_plan_free (p);
+}
+END_TEST
+
+/* ---- Every output reads back --------------------------------------------- */
+
+static uint64_t rng_state = 0x9E3779B97F4A7C15ull;
+
+/* xorshift64 (Marsaglia 2003, J Stat Softw 8(14)). */
+static uint64_t
+rng_next (void)
+{
+  rng_state ^= rng_state << 13;
+  rng_state ^= rng_state >> 7;
+  rng_state ^= rng_state << 17;
+  return rng_state;
+}
+
+static double
+rng_uniform (double lo, double hi)
+{
+  return lo + (hi - lo) * ((double) (rng_next () >> 11) / 9007199254740992.0);
+}
+
+static const char *const name_pieces[] = {
+  "a", "Z", "7", " ", ",", ";", "\"", "'", "&", "<", ">", "=", "+", "-", "@",
+  "\xc3\xa9", "\xe2\x86\x92", "\xf0\x9f\xa6\xb4", "]]>", "&amp;",
+};
+
+static void
+random_name (char *out, size_t size, int index)
+{
+  size_t len = 0;
+  out[0] = '\0';
+  size_t want = (size_t) (rng_next () % size);
+  while (len < want)
+    {
+      const char *piece = name_pieces[rng_next () % N_OF (name_pieces)];
+      size_t n = strlen (piece);
+      if (len + n + 8 >= size)
+        break;
+      memcpy (out + len, piece, n + 1);
+      len += n;
+    }
+  snprintf (out + len, size - len, "#%d", index);
+}
+
+/* The property: every plan that loads gives a planning summary that
+ * loads, under the size limit, and gives the same plan back. */
+START_TEST (test_summary_of_every_plan_loads)
+{
+  size_t size;
+  char *demo = slurp (HL_EXAMPLE, &size);
+  HlPlan *base = NULL;
+  HlError err;
+  ck_assert_int_eq (load_text (demo, &base, &err), HL_OK);
+  free (demo);
+  for (int k = 0; k < 200; k++)
+    {
+      HlPlan *plan = hl_plan_copy (base);
+      ck_assert_ptr_nonnull (plan);
+      while (plan->n_options > 0)
+        hl_plan_remove_option (plan, 0);
+      /* The largest plans first: 64 options with the longest names. */
+      int n = k < 20 ? HL_PLAN_MAX_OPTIONS : (int) (rng_next () % (HL_PLAN_MAX_OPTIONS + 1));
+      random_name (plan->label, k < 20 ? sizeof plan->label : 40, 0);
+      for (int i = 0; i < n; i++)
+        {
+          HlRecon rc;
+          char name[HL_NAME_MAX];
+          hl_recon_init (&rc);
+          rc.cup_medial_mm = rng_uniform (-5, 8);
+          rc.femoral_offset_mm = rng_uniform (-8, 10);
+          rc.femoral_length_mm = rng_uniform (-8, 10);
+          rc.head_length_mm = rng_uniform (-4, 8);
+          random_name (name, k < 20 ? sizeof name : 24, i + 1);
+          ck_assert_int_ge (hl_plan_add_option (plan, name, &rc), 0);
+        }
+      size_t nl = 0;
+      while (nl + 5 < sizeof plan->notes && (k < 20 || nl < 200))
+        {
+          memcpy (plan->notes + nl, k % 2 ? "&<>\"\n" : "x\xc3\xa9 ", 5);
+          nl += 5;
+        }
+      plan->notes[nl] = '\0';
+
+      char *text = NULL;
+      size_t n_text = 0;
+      hl_error_clear (&err);
+      ck_assert_msg (hl_plan_to_buffer (plan, &text, &n_text, &err) == HL_OK, "%s",
+                     err.message);
+      HlPlan *loaded = NULL;
+      ck_assert_msg (hl_plan_load_buffer (text, n_text, "p.hlplan", &loaded, &err) == HL_OK,
+                     "case %d: the plan does not load: %s", k, err.message);
+      char *summary = NULL;
+      size_t n_summary = 0;
+      ck_assert_msg (hl_summary_to_buffer (loaded, "2026-01-01T00:00:00Z", &summary,
+                                           &n_summary, &err) == HL_OK,
+                     "case %d: a loaded plan gives no summary: %s", k, err.message);
+      ck_assert_msg (n_summary < HL_PLAN_MAX_BYTES, "case %d: summary of %zu bytes", k,
+                     n_summary);
+      HlPlan *back = NULL;
+      ck_assert_msg (hl_plan_load_buffer (summary, n_summary, "s.xml", &back, &err) == HL_OK,
+                     "case %d: the summary does not load: %s", k, err.message);
+      ck_assert_uint_eq (back->n_options, loaded->n_options);
+      for (size_t i = 0; i < back->n_options; i++)
+        ck_assert_str_eq (back->options[i].name, loaded->options[i].name);
+      ck_assert_str_eq (back->label, loaded->label);
+      hl_plan_free (back);
+      hl_plan_free (loaded);
+      hl_plan_free (plan);
+      free (summary);
+      free (text);
+    }
+  hl_plan_free (base);
+}
+END_TEST
+
+/* ---- Text that cannot mislead ------------------------------------------ */
+
+START_TEST (test_utf8_cut)
+{
+  /* "é" is two bytes, "→" three, the bone four. */
+  const char *s = "a\xc3\xa9\xe2\x86\x92\xf0\x9f\xa6\xb4z";
+  static const size_t want[] = { 0, 1, 1, 3, 3, 3, 6, 6, 6, 6, 10, 11, 11 };
+  for (size_t max = 0; max < N_OF (want); max++)
+    ck_assert_uint_eq (hl_utf8_cut (s, max), want[max]);
+  /* An error message cut short ends on a whole character. */
+  char big[HL_ERROR_MESSAGE_MAX * 2];
+  size_t n = 0;
+  while (n + 3 < sizeof big)
+    {
+      memcpy (big + n, "\xe2\x86\x92", 3);
+      n += 3;
+    }
+  big[n] = '\0';
+  for (int shift = 0; shift < 3; shift++)
+    {
+      HlError err;
+      hl_error_set (&err, HL_ERR_INVALID, big + shift, "%.*s%s", shift, "xx", big);
+      size_t len = strlen (err.message);
+      ck_assert_uint_lt (len, sizeof err.message);
+      ck_assert_uint_eq (hl_utf8_cut (err.message, len), len);
+      ck_assert_uint_eq ((len - (size_t) shift) % 3, 0);
+      size_t flen = strlen (err.field);
+      /* The field starts mid-character (shift): count whole ones after. */
+      ck_assert_uint_eq ((flen + (size_t) shift) % 3, 0);
+    }
+  char q[64];
+  ck_assert_str_eq (hl_text_quote ("ab\xe2\x80\xae" "cd\n", 40, q, sizeof q), "ab?cd?");
+  ck_assert_str_eq (hl_text_quote ("\xc3\xa9\xc3\xa9\xc3\xa9", 5, q, sizeof q),
+                    "\xc3\xa9\xc3\xa9");
+}
+END_TEST
+
 /* ---- Text that cannot mislead ------------------------------------------ */
 
 START_TEST (test_csv_formula_cells)
@@ -282,7 +702,16 @@ trust_suite (void)
   tcase_add_test (tc, test_long_names);
   tcase_add_test (tc, test_same_file);
   suite_add_tcase (s, tc);
+  tc = tcase_create ("plans");
+  tcase_add_test (tc, test_option_limit_on_load);
+  tcase_add_test (tc, test_duplicate_names);
+  tcase_add_test (tc, test_unsafe_names_refused);
+  tcase_add_test (tc, test_unused_fields_checked);
+  tcase_set_timeout (tc, 120);
+  tcase_add_test (tc, test_summary_of_every_plan_loads);
+  suite_add_tcase (s, tc);
   tc = tcase_create ("text");
+  tcase_add_test (tc, test_utf8_cut);
   tcase_add_test (tc, test_csv_formula_cells);
   suite_add_tcase (s, tc);
   return s;

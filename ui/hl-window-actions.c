@@ -353,6 +353,20 @@ export_response_cb (GtkNativeDialog *dialog, int response, HlWindow *self)
 
 /* ---- options -------------------------------------------------------- */
 
+/* False, with a message, when the plan already holds the most options a
+ * plan may (HL_PLAN_MAX_OPTIONS). */
+static gboolean
+hl_window_option_room (HlWindow *self)
+{
+  if (self->plan->n_options < HL_PLAN_MAX_OPTIONS)
+    return TRUE;
+  g_autofree char *detail =
+    g_strdup_printf (_("A plan holds at most %d options; remove one before adding "
+                       "another."), HL_PLAN_MAX_OPTIONS);
+  hl_window_show_error (self, _("The option was not added"), detail);
+  return FALSE;
+}
+
 void
 hl_window_add_option (HlWindow *self)
 {
@@ -369,6 +383,8 @@ hl_window_add_option (HlWindow *self)
       if (!used)
         name = g_steal_pointer (&candidate);
     }
+  if (!hl_window_option_room (self))
+    return;
   hl_document_break_coalescing (self->document);
   if (!hl_window_begin_edit (self, NULL))
     return;
@@ -387,7 +403,7 @@ hl_window_duplicate_option (HlWindow *self)
 {
   long index;
 
-  if (hl_window_selected_option (self) < 0)
+  if (hl_window_selected_option (self) < 0 || !hl_window_option_room (self))
     return;
   hl_document_break_coalescing (self->document);
   if (!hl_window_begin_edit (self, NULL))
