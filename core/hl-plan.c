@@ -607,12 +607,28 @@ check_names (const HlPlan *plan, HlError *err)
     return hl_error_set (err, HL_ERR_INVALID, "patient label",
                          _("The case label holds %s; names and labels must be "
                            "one line of plain text"), what);
+  for (size_t i = 0; i < plan->n_catalogues && i < HL_PLAN_CATALOGUES_MAX; i++)
+    if (hl_text_unsafe (plan->catalogues[i].id, what, sizeof what) != NULL
+        || hl_text_unsafe (plan->catalogues[i].version, what, sizeof what) != NULL)
+      return hl_error_set (err, HL_ERR_INVALID, "catalogues",
+                           _("Catalogue %zu of the plan has a name or version that "
+                             "holds %s; names must be one line of plain text"),
+                           i + 1, what);
   for (size_t i = 0; i < plan->n_options; i++)
     {
       if (hl_text_unsafe (plan->options[i].name, what, sizeof what) != NULL)
         return hl_error_set (err, HL_ERR_INVALID, "options",
                              _("The name of option %zu holds %s; names and labels "
                                "must be one line of plain text"), i + 1, what);
+      const HlTemplate *t = &plan->options[i].recon.tmpl;
+      const char *const ids[] = { t->catalogue, t->cup_family, t->liner,
+                                  t->stem_family, t->stem_size, t->version };
+      for (size_t k = 0; t->on && k < sizeof ids / sizeof ids[0]; k++)
+        if (hl_text_unsafe (ids[k], what, sizeof what) != NULL)
+          return hl_error_set (err, HL_ERR_INVALID, "options",
+                               _("The implant template of option %zu names a "
+                                 "catalogue entry that holds %s; names must be one "
+                                 "line of plain text"), i + 1, what);
       for (size_t j = 0; j < i; j++)
         if (strcmp (plan->options[i].name, plan->options[j].name) == 0)
           return hl_error_set (err, HL_ERR_INVALID, "options",
