@@ -37,6 +37,8 @@
  * 1e-6 in the unknown. */
 #define HL_CLI_INVERSE_CSV_PRECISION 6
 #define HL_CLI_PERCENT 100.0
+/* Values of a sweep computed and written at a time. */
+#define HL_CLI_SWEEP_BLOCK 1024
 
 /* ---- Option tables ------------------------------------------------------ */
 
@@ -398,8 +400,22 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
       return HL_CLI_EXIT_INVALID;
     }
 
-  size_t n = (1 + plan->n_options) * spec.n_steps;
-  double *values = calloc (spec.n_steps, sizeof *values);
+  /* Computed and written a block of values at a time, never held whole:
+   * a first pass finds any point that cannot be solved (then nothing is
+   * written), the second writes. */
+  size_t rows = 1 + plan->n_options;
+  if (spec.n_steps > HL_SWEEP_ROWS_MAX / rows)
+    {
+      hl_cli_error (_("%s: a sweep of %zu values for native and %zu options gives %zu "
+                      "rows, more than the %d a sweep may have: use fewer values"),
+                    path, spec.n_steps, plan->n_options, spec.n_steps * rows,
+                    HL_SWEEP_ROWS_MAX);
+      hl_plan_free (plan);
+      return HL_CLI_EXIT_INVALID;
+    }
+  size_t block = spec.n_steps < HL_CLI_SWEEP_BLOCK ? spec.n_steps : HL_CLI_SWEEP_BLOCK;
+  size_t n = rows * block;
+  double *values = calloc (block, sizeof *values);
   HlResult *results = calloc (n, sizeof *results);
   HlStatus *st = calloc (n, sizeof *st);
   int status = HL_CLI_EXIT_OK;
@@ -410,37 +426,29 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
       hl_cli_error (_("%s: out of memory"), path);
       status = HL_CLI_EXIT_INVALID;
     }
-  else if (hl_sweep_run (plan, &model, &spec, values, results, st, n, &err) != HL_OK)
+  for (size_t first = 0; status == HL_CLI_EXIT_OK && first < spec.n_steps; first += block)
     {
-      hl_cli_report_error (path, NULL, &err);
-      status = HL_CLI_EXIT_INVALID;
-    }
-
-  if (status == HL_CLI_EXIT_OK && args->value[SWEEP_OPT_CSV] != NULL)
-    {
-      char *csv = NULL;
-      size_t size = 0;
-      hl_error_clear (&err);
-      if (hl_sweep_to_csv (plan, &spec, values, results, st, &csv, &size, &err) != HL_OK)
+      size_t count = spec.n_steps - first < block ? spec.n_steps - first : block;
+      if (hl_sweep_run_steps (plan, &model, &spec, first, count, values, results, st, n,
+                              &err) != HL_OK)
         {
           hl_cli_report_error (path, NULL, &err);
           status = HL_CLI_EXIT_INVALID;
         }
-      else
-        fwrite (csv, 1, size, stdout);
-      free (csv);
     }
-  else if (status == HL_CLI_EXIT_OK)
-    {
-      const HlSweepParamInfo *info = hl_sweep_param_info (spec.param);
-      HlBuf buf;
-      size_t name_w = strlen ("native");
-      char head[96];
 
+  bool csv = args->value[SWEEP_OPT_CSV] != NULL;
+  const HlSweepParamInfo *info = hl_sweep_param_info (spec.param);
+  size_t name_w = strlen ("native");
+  int value_w = 0;
+  HlBuf buf;
+  hl_buf_init (&buf);
+  if (status == HL_CLI_EXIT_OK && !csv)
+    {
+      char head[96];
       for (size_t i = 0; i < plan->n_options; i++)
         if (hl_cli_text_width (plan->options[i].name) > name_w)
           name_w = hl_cli_text_width (plan->options[i].name);
-      hl_buf_init (&buf);
       hl_buf_printf (&buf, _("Plan: %s\nSweep of %s (%s) from %g to %g in %zu values; "
                                  "--csv gives every column.\n"),
                          path, _(info->label), info->unit, spec.from, spec.to, spec.n_steps);
@@ -452,14 +460,55 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
                            "setting; the native row is the reference."));
       hl_buf_printf (&buf, "\n");
       snprintf (head, sizeof head, "%s (%s)", info->key, info->unit);
-      int value_w = (int) strlen (head);
+      value_w = (int) strlen (head);
       hl_buf_printf (&buf, "%*s  %-*s  %9s  %9s  %9s  %9s  %9s  %s\n", value_w, head,
                          (int) name_w, _("case"), "arm_mm", "Fa_N", "Fa_BW", "J_N", "J_BW",
                          _("flags"));
-      for (size_t step = 0; step < spec.n_steps; step++)
-        for (size_t row = 0; row <= plan->n_options; row++)
+      status = write_stdout (path, &buf);
+      hl_buf_clear (&buf);
+      hl_buf_init (&buf);
+    }
+  for (size_t first = 0; status == HL_CLI_EXIT_OK && first < spec.n_steps; first += block)
+    {
+      size_t count = spec.n_steps - first < block ? spec.n_steps - first : block;
+      hl_error_clear (&err);
+      if (hl_sweep_run_steps (plan, &model, &spec, first, count, values, results, st, n,
+                              &err) != HL_OK)
+        {
+          hl_cli_report_error (path, NULL, &err);
+          status = HL_CLI_EXIT_INVALID;
+          break;
+        }
+      if (csv)
+        {
+          /* This block as a sweep of its own: the same rows; the header
+           * only once. */
+          HlSweepSpec part = spec;
+          part.n_steps = count;
+          char *text = NULL;
+          size_t size = 0;
+          if (hl_sweep_to_csv (plan, &part, values, results, st, &text, &size, &err) != HL_OK)
+            {
+              hl_cli_report_error (path, NULL, &err);
+              status = HL_CLI_EXIT_INVALID;
+            }
+          else
+            {
+              const char *from = text;
+              if (first > 0)
+                {
+                  const char *nl = strchr (text, '\n');
+                  from = nl != NULL ? nl + 1 : text + size;
+                }
+              fwrite (from, 1, size - (size_t) (from - text), stdout);
+            }
+          free (text);
+          continue;
+        }
+      for (size_t step = 0; step < count; step++)
+        for (size_t row = 0; row < rows; row++)
           {
-            const HlResult *r = &results[row * spec.n_steps + step];
+            const HlResult *r = &results[row * count + step];
             char flags[256];
             size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
             hl_buf_printf (&buf, "%*g  %s%*s  %9.*f  %9.*f  %9.*f  %9.*f  %9.*f  %s\n",
@@ -470,10 +519,16 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
                                HL_DECIMALS_N, r->jrf_n, HL_DECIMALS_BW, r->jrf_bw,
                                hl_flags_format (r->flags, ";", flags, sizeof flags));
           }
-      hl_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
       status = write_stdout (path, &buf);
       hl_buf_clear (&buf);
+      hl_buf_init (&buf);
     }
+  if (status == HL_CLI_EXIT_OK && !csv)
+    {
+      hl_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+      status = write_stdout (path, &buf);
+    }
+  hl_buf_clear (&buf);
 
   free (values);
   free (results);

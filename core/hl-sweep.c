@@ -206,7 +206,7 @@ result_set_nan (HlResult *r)
 
 static HlStatus
 check_spec (const HlPlan *plan, const HlModel *model, const HlSweepSpec *spec,
-            const HlResult *results, size_t results_len, HlError *err)
+            size_t count, const HlResult *results, size_t results_len, HlError *err)
 {
   const HlSweepParamInfo *info = hl_sweep_param_info (spec->param);
   if (info == NULL)
@@ -219,6 +219,12 @@ check_spec (const HlPlan *plan, const HlModel *model, const HlSweepSpec *spec,
     return hl_error_set (err, HL_ERR_INVALID, field,
                          _("A sweep needs 2 to %d steps, not %zu"),
                          HL_SWEEP_STEPS_MAX, spec->n_steps);
+  if (spec->n_steps > HL_SWEEP_ROWS_MAX / (1 + plan->n_options))
+    return hl_error_set (err, HL_ERR_INVALID, field,
+                         _("A sweep of %zu values for native and %zu options gives "
+                           "%zu rows, more than the %d a sweep may have: use fewer "
+                           "values"), spec->n_steps, plan->n_options,
+                         spec->n_steps * (1 + plan->n_options), HL_SWEEP_ROWS_MAX);
   if (!isfinite (spec->from) || !isfinite (spec->to))
     return hl_error_set (err, HL_ERR_INVALID, field,
                          _("The sweep range of %s is not a pair of finite numbers"),
@@ -264,11 +270,11 @@ check_spec (const HlPlan *plan, const HlModel *model, const HlSweepSpec *spec,
                            "set the line by angle to sweep it"));
 
   size_t rows = 1 + plan->n_options;
-  if (results == NULL || results_len / rows < spec->n_steps)
+  if (results == NULL || results_len / rows < count)
     return hl_error_set (err, HL_ERR_INVALID, field,
                          _("The result array holds %zu results; the sweep needs "
                            "%zu (%zu rows of %zu steps)"), results_len,
-                         rows * spec->n_steps, rows, spec->n_steps);
+                         rows * count, rows, count);
   return HL_OK;
 }
 
@@ -294,14 +300,28 @@ hl_sweep_run (const HlPlan *plan, const HlModel *model,
               HlResult *results, HlStatus *status,
               size_t results_len, HlError *err)
 {
-  HlStatus st = check_spec (plan, model, spec, results, results_len, err);
+  return hl_sweep_run_steps (plan, model, spec, 0, spec->n_steps, values, results,
+                             status, results_len, err);
+}
+
+HlStatus
+hl_sweep_run_steps (const HlPlan *plan, const HlModel *model,
+                    const HlSweepSpec *spec, size_t first, size_t count,
+                    double *values, HlResult *results, HlStatus *status,
+                    size_t results_len, HlError *err)
+{
+  if (first > spec->n_steps || count > spec->n_steps - first)
+    return hl_error_set (err, HL_ERR_INVALID, "sweep",
+                         _("Steps %zu to %zu are not in a sweep of %zu values"),
+                         first, first + count, spec->n_steps);
+  HlStatus st = check_spec (plan, model, spec, count, results, results_len, err);
   if (st != HL_OK)
     return st;
 
   const HlSweepParamInfo *info = hl_sweep_param_info (spec->param);
-  const size_t n = spec->n_steps;
+  const size_t n = count;
   const size_t rows = 1 + plan->n_options;
-  HlStatus first = HL_OK;
+  HlStatus first_st = HL_OK;
   HlError step_err = { 0 };
   HlModel m = *model;
   HlResult native;
@@ -312,7 +332,7 @@ hl_sweep_run (const HlPlan *plan, const HlModel *model,
 
   for (size_t i = 0; i < n; i++)
     {
-      const double v = hl_sweep_value (spec, i);
+      const double v = hl_sweep_value (spec, first + i);
       HlStatus model_st = HL_OK;
 
       if (values != NULL)
@@ -358,13 +378,13 @@ hl_sweep_run (const HlPlan *plan, const HlModel *model,
           if (st != HL_OK)
             {
               result_set_nan (r);
-              if (first == HL_OK)
+              if (first_st == HL_OK)
                 {
-                  first = st;
+                  first_st = st;
                   note_failure (plan, info, row, v, &step_err, err);
                 }
             }
         }
     }
-  return first;
+  return first_st;
 }

@@ -74,6 +74,8 @@ HlSweepParam hl_sweep_param_from_key (const char *key);
 /* Points in a chart sweep by default. */
 #define HL_SWEEP_STEPS_DEFAULT 200
 #define HL_SWEEP_STEPS_MAX 100000
+/* Rows of a sweep (values x (native + options)): more are refused. */
+#define HL_SWEEP_ROWS_MAX 100000
 
 /* How a reconstruction parameter's sweep value meets each option's own
  * setting; the other parameters always replace the plan's value. */
@@ -103,6 +105,16 @@ HlStatus hl_sweep_run (const HlPlan *plan, const HlModel *model,
                        const HlSweepSpec *spec, double *values,
                        HlResult *results, HlStatus *status,
                        size_t results_len, HlError *err);
+
+/* The same for steps first .. first + count - 1 of the sweep only, so that
+ * a long sweep is computed and written a block at a time: results holds
+ * (1 + plan->n_options) * count entries, row-major with stride count;
+ * values (count entries) gets the values of those steps.  A sweep of more
+ * than HL_SWEEP_ROWS_MAX rows is refused either way. */
+HlStatus hl_sweep_run_steps (const HlPlan *plan, const HlModel *model,
+                             const HlSweepSpec *spec, size_t first, size_t count,
+                             double *values, HlResult *results, HlStatus *status,
+                             size_t results_len, HlError *err);
 
 #ifdef __cplusplus
 }

@@ -177,5 +177,27 @@ check "batch: =HYPERLINK gets an apostrophe" grep -q "^inj.hlplan,'=HYPERLINK(1)
 run sweep inj.hlplan --param femoral_offset_mm --from -2 --to 2 --steps 3 --csv
 check "sweep: =HYPERLINK gets an apostrophe" grep -q "^femoral_offset_mm,-2,'=HYPERLINK(1)," out
 
+# Sweeps: written a block at a time (one header however long), and more
+# than 100,000 rows refused with a message.
+run sweep plan.hlplan --param femoral_offset_mm --from -5 --to 5 --steps 2500 --csv
+expect_rc 0 "a sweep of 2,500 values"
+check "one header" test "$(grep -c '^param,' out)" = 1
+check "every row" test "$(wc -l < out)" = $((2500 * 4 + 1))
+check "the values in order" bash -c "awk -F, 'NR>1 && \$3==\"native\"{print \$2}' '$WORK/out' | sort -g -c"
+run sweep plan.hlplan --param femoral_offset_mm --from -5 --to 5 --steps 25001 --csv
+expect_rc 1 "a sweep of 100,004 rows"
+check "says the row limit" err_has "more than the 100000 a sweep may have"
+check "nothing written" test ! -s out
+
+# At most 64 options, said so.
+{
+  sed -n '1,/<options>/p' plan.hlplan
+  for i in $(seq 1 65); do echo "    <option name=\"Option $i\"/>"; done
+  sed -n '/<\/options>/,$p' plan.hlplan
+} > many.hlplan
+run validate many.hlplan
+expect_rc 1 "65 options"
+check "says at most 64 options" err_has "at most 64 options"
+
 echo "cli-trust: $passed passed, $failed failed"
 [ "$failed" -eq 0 ]
