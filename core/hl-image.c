@@ -17,6 +17,10 @@
 
 #include <glib.h>
 
+/* Bytes read to tell an image file's type (DICOM: "DICM" at 128). */
+#define HL_IMAGE_SNIFF_BYTES 132
+
+#include "hl-gray-image.h"
 #include "hl-i18n.h"
 #include "hl-image.h"
 #include "hl-measure.h"
@@ -191,6 +195,34 @@ hl_file_sha256_hex (const char *path, char hex[65], HlError *err)
     {
       close (fd);
       return hl_error_set (err, HL_ERR_IO, path, _("\"%s\" is not a regular file"), path);
+    }
+  /* The size and the type first: a file that cannot be a radiograph is
+   * never read through. */
+  if ((long long) sb.st_size > HL_GRAY_IMAGE_MAX_FILE_BYTES)
+    {
+      close (fd);
+      return hl_error_set (err, HL_ERR_IO, path,
+                           _("The image \"%s\" is %lld MB: files over %lld MB are not "
+                             "opened"), path, (long long) sb.st_size / (1024 * 1024),
+                           HL_GRAY_IMAGE_MAX_FILE_BYTES / (1024 * 1024));
+    }
+  unsigned char head[HL_IMAGE_SNIFF_BYTES];
+  ssize_t got = 0;
+  while (got < (ssize_t) sizeof head)
+    {
+      ssize_t r = read (fd, head + got, sizeof head - (size_t) got);
+      if (r < 0 && errno == EINTR)
+        continue;
+      if (r <= 0)
+        break;
+      got += r;
+    }
+  HlImageFormat format;
+  if (!hl_image_format_sniff (head, (size_t) got, &format) || lseek (fd, 0, SEEK_SET) != 0)
+    {
+      close (fd);
+      return hl_error_set (err, HL_ERR_PARSE, path,
+                           _("\"%s\" is not a DICOM, PNG, TIFF or JPEG image"), path);
     }
   unsigned char *buf = malloc (HL_READ_CHUNK);
   if (buf == NULL)

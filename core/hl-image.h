@@ -90,8 +90,11 @@ typedef enum {
 /* Plain words for a check result. */
 const char *hl_image_check_text (HlImageCheck check);
 
-/* SHA-256 of a file as hex.  HL_ERR_IO with the reason when it cannot be
- * read; regular files only. */
+/* SHA-256 of a radiograph file as hex.  HL_ERR_IO with the reason when it
+ * cannot be read; regular files only.  Before anything is hashed the size
+ * and the type are checked: a file over HL_GRAY_IMAGE_MAX_FILE_BYTES
+ * (512 MB) is refused (HL_ERR_IO), and so is one whose first bytes are not
+ * a DICOM, PNG, TIFF or JPEG image (HL_ERR_PARSE). */
 HlStatus hl_file_sha256_hex (const char *path, char hex[65], HlError *err);
 
 /* Checks that the referenced file exists and its digest matches (a

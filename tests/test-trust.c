@@ -18,9 +18,11 @@
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
+#include <time.h>
 #include <unistd.h>
 
 #include "hl-buf.h"
+#include "hl-image.h"
 #include "hl-text.h"
 #include "hl-plan-io.h"
 #include "hl-test-util.h"
@@ -515,6 +517,49 @@ START_TEST (test_unused_fields_checked)
 }
 END_TEST
 
+/* ---- A radiograph reference: size and type before the hash -------------- */
+
+START_TEST (test_radiograph_checked_before_hash)
+{
+  char *dir = make_temp_dir ();
+  char big[HL_PATH_MAX], text[HL_PATH_MAX], small[HL_PATH_MAX];
+  snprintf (big, sizeof big, "%s/huge.png", dir);
+  snprintf (text, sizeof text, "%s/notes.png", dir);
+  snprintf (small, sizeof small, "%s/small.png", dir);
+  static const unsigned char png_sig[8] = { 0x89, 'P', 'N', 'G', '\r', '\n', 0x1a, '\n' };
+
+  /* 600 MB that take no disk: a sparse file behind a PNG signature. */
+  int fd = open (big, O_WRONLY | O_CREAT | O_TRUNC, 0600);
+  ck_assert_int_ge (fd, 0);
+  ck_assert_int_eq (write (fd, png_sig, sizeof png_sig), (ssize_t) sizeof png_sig);
+  ck_assert_int_eq (ftruncate (fd, 600LL * 1024 * 1024), 0);
+  close (fd);
+  write_text (text, "just some text, not an image at all\n");
+  fd = open (small, O_WRONLY | O_CREAT | O_TRUNC, 0600);
+  ck_assert_int_ge (fd, 0);
+  ck_assert_int_eq (write (fd, png_sig, sizeof png_sig), (ssize_t) sizeof png_sig);
+  close (fd);
+
+  char hex[65];
+  HlError err;
+  hl_error_clear (&err);
+  double t0 = (double) clock () / CLOCKS_PER_SEC;
+  ck_assert_int_eq (hl_file_sha256_hex (big, hex, &err), HL_ERR_IO);
+  double took = (double) clock () / CLOCKS_PER_SEC - t0;
+  ck_assert_msg (strstr (err.message, "512 MB") != NULL, "%s", err.message);
+  ck_assert_msg (took < 0.5, "the size check took %.2f s of CPU: was it hashed?", took);
+  hl_error_clear (&err);
+  ck_assert_int_eq (hl_file_sha256_hex (text, hex, &err), HL_ERR_PARSE);
+  ck_assert_msg (strstr (err.message, "not a DICOM, PNG, TIFF or JPEG") != NULL, "%s",
+                 err.message);
+  hl_error_clear (&err);
+  ck_assert_int_eq (hl_file_sha256_hex (small, hex, &err), HL_OK);
+  /* SHA-256 of the eight signature bytes (sha256sum). */
+  ck_assert_str_eq (hex, "4c4b6a3be1314ab86138bef4314dde022e600960d8689a2c8f8631802d20dab6");
+  remove_tree (dir);
+}
+END_TEST
+
 /* ---- Every output reads back --------------------------------------------- */
 
 static uint64_t rng_state = 0x9E3779B97F4A7C15ull;
@@ -701,6 +746,9 @@ trust_suite (void)
   tcase_add_test (tc, test_mode_kept);
   tcase_add_test (tc, test_long_names);
   tcase_add_test (tc, test_same_file);
+  suite_add_tcase (s, tc);
+  tc = tcase_create ("radiograph");
+  tcase_add_test (tc, test_radiograph_checked_before_hash);
   suite_add_tcase (s, tc);
   tc = tcase_create ("plans");
   tcase_add_test (tc, test_option_limit_on_load);
