@@ -208,7 +208,7 @@ hl_application_start_mode (HlApplication *self, HlWindow *window)
     hl_window_run_print_results (window);
   else
 #endif
-    hl_autosave_offer_recovery (window);
+    hl_autosave_offer_recovery (GTK_WINDOW (window));
 }
 
 static gboolean

@@ -18,7 +18,7 @@
 #include "hl-autosave.h"
 #include "hl-plan-io.h"
 #include "hl-version.h"
-#include "hl-window-private.h"
+#include "hl-message.h"
 
 #define HL_AUTOSAVE_KEY "hl-autosave"
 #define HL_AUTOSAVE_GROUP "autosave"
@@ -26,6 +26,7 @@
 #define HL_BOOT_ID_PATH "/proc/sys/kernel/random/boot_id"
 
 typedef struct {
+  HlDocument *document;      /* borrowed: the window's */
   char *id;                  /* ID of ID.hlplan and ID.info */
   guint64 autosaved_revision;
   guint timer;
@@ -33,6 +34,8 @@ typedef struct {
   gboolean recovered;        /* the plan came from an autosave, not saved since */
   gboolean confirmed;        /* the user agreed to save it over the original */
 } HlAutosave;
+
+static HlDocument *doc_of (GtkWindow *self);
 
 /* ---- files ---------------------------------------------------------- */
 
@@ -75,7 +78,7 @@ remove_files (const char *id)
 }
 
 static gboolean
-write_info (HlWindow *self, const char *id, GError **error)
+write_info (GtkWindow *self, const char *id, GError **error)
 {
   g_autoptr(GKeyFile) kf = g_key_file_new ();
   g_autoptr(GDateTime) now = g_date_time_new_now_utc ();
@@ -86,34 +89,42 @@ write_info (HlWindow *self, const char *id, GError **error)
   g_key_file_set_int64 (kf, HL_AUTOSAVE_GROUP, "pid", getpid ());
   if (boot != NULL)
     g_key_file_set_string (kf, HL_AUTOSAVE_GROUP, "boot-id", boot);
-  if (hl_document_get_file (self->document) != NULL)
+  if (hl_document_get_file (doc_of (self)) != NULL)
     {
-      g_autofree char *original = g_file_get_path (hl_document_get_file (self->document));
+      g_autofree char *original = g_file_get_path (hl_document_get_file (doc_of (self)));
 
       if (original != NULL)
         g_key_file_set_string (kf, HL_AUTOSAVE_GROUP, "original", original);
     }
   g_key_file_set_string (kf, HL_AUTOSAVE_GROUP, "time", when);
   g_key_file_set_string (kf, HL_AUTOSAVE_GROUP, "version", hl_program_version ());
-  g_key_file_set_string (kf, HL_AUTOSAVE_GROUP, "label", self->plan->label);
+  g_key_file_set_string (kf, HL_AUTOSAVE_GROUP, "label", hl_document_get_plan (doc_of (self))->label);
   return g_key_file_save_to_file (kf, path, error);
 }
 
 static HlAutosave *
-get_state (HlWindow *self)
+get_state (GtkWindow *self)
 {
   return g_object_get_data (G_OBJECT (self), HL_AUTOSAVE_KEY);
 }
 
+static HlDocument *
+doc_of (GtkWindow *self)
+{
+  HlAutosave *a = get_state (self);
+
+  return a != NULL ? a->document : NULL;
+}
+
 static void
-forget (HlWindow *self, HlAutosave *a)
+forget (GtkWindow *self, HlAutosave *a)
 {
   if (a->has_file)
     remove_files (a->id);
   a->has_file = FALSE;
   a->recovered = FALSE;
   a->confirmed = FALSE;
-  a->autosaved_revision = hl_document_get_revision (self->document);
+  a->autosaved_revision = hl_document_get_revision (doc_of (self));
 }
 
 /* ---- the timer ------------------------------------------------------ */
@@ -121,23 +132,23 @@ forget (HlWindow *self, HlAutosave *a)
 static gboolean
 autosave_tick_cb (gpointer user_data)
 {
-  HlWindow *self = user_data;
+  GtkWindow *self = user_data;
   HlAutosave *a = get_state (self);
   g_autofree char *dir = NULL;
   g_autofree char *plan_path = NULL;
   g_autoptr(GError) error = NULL;
   HlError err;
 
-  if (a == NULL || self->disposing)
+  if (a == NULL)
     return G_SOURCE_CONTINUE;
-  if (!hl_window_is_modified (self))
+  if (!hl_document_is_modified (doc_of (self)))
     {
       /* Back at the saved state (by undo): nothing left to lose. */
       if (a->has_file && !a->recovered)
         forget (self, a);
       return G_SOURCE_CONTINUE;
     }
-  if (a->has_file && a->autosaved_revision == hl_document_get_revision (self->document))
+  if (a->has_file && a->autosaved_revision == hl_document_get_revision (doc_of (self)))
     return G_SOURCE_CONTINUE;
 
   dir = autosave_dir ();
@@ -153,14 +164,14 @@ autosave_tick_cb (gpointer user_data)
     }
   plan_path = autosave_path (a->id, HL_PLAN_FILE_EXTENSION);
   hl_error_clear (&err);
-  if (hl_plan_save_file (self->plan, plan_path, &err) != HL_OK)
+  if (hl_plan_save_file (hl_document_get_plan (doc_of (self)), plan_path, &err) != HL_OK)
     {
       /* The last good autosave stays; see hl-autosave.h. */
       g_debug ("plan not autosaved: %s", err.message);
       return G_SOURCE_CONTINUE;
     }
   a->has_file = TRUE;
-  a->autosaved_revision = hl_document_get_revision (self->document);
+  a->autosaved_revision = hl_document_get_revision (doc_of (self));
   return G_SOURCE_CONTINUE;
 }
 
@@ -192,20 +203,21 @@ autosave_free (gpointer data)
 }
 
 void
-hl_autosave_attach (HlWindow *self)
+hl_autosave_attach (GtkWindow *self, HlDocument *document)
 {
   static guint windows;
   HlAutosave *a = g_new0 (HlAutosave, 1);
 
+  a->document = document;
   a->id = g_strdup_printf ("%d-%u-%" G_GINT64_FORMAT, (int) getpid (), ++windows,
                            g_get_real_time ());
-  a->autosaved_revision = hl_document_get_revision (self->document);
+  a->autosaved_revision = hl_document_get_revision (document);
   a->timer = g_timeout_add_seconds (interval_seconds (), autosave_tick_cb, self);
   g_object_set_data_full (G_OBJECT (self), HL_AUTOSAVE_KEY, a, autosave_free);
 }
 
 void
-hl_autosave_saved (HlWindow *self)
+hl_autosave_saved (GtkWindow *self)
 {
   HlAutosave *a = get_state (self);
 
@@ -214,7 +226,7 @@ hl_autosave_saved (HlWindow *self)
 }
 
 void
-hl_autosave_closed (HlWindow *self)
+hl_autosave_closed (GtkWindow *self)
 {
   HlAutosave *a = get_state (self);
 
@@ -226,13 +238,13 @@ hl_autosave_closed (HlWindow *self)
 }
 
 void
-hl_autosave_plan_replaced (HlWindow *self)
+hl_autosave_plan_replaced (GtkWindow *self)
 {
   hl_autosave_saved (self);
 }
 
 gboolean
-hl_autosave_is_recovered (HlWindow *self)
+hl_autosave_is_recovered (GtkWindow *self)
 {
   HlAutosave *a = get_state (self);
 
@@ -267,7 +279,7 @@ hl_autosave_target_is_newer (const char *path, HlError *err)
 /* ---- saving a recovered plan ---------------------------------------- */
 
 static void
-confirm_response_cb (GtkDialog *dialog, int response, HlWindow *self)
+confirm_response_cb (GtkDialog *dialog, int response, GtkWindow *self)
 {
   HlAutosave *a = get_state (self);
 
@@ -279,16 +291,16 @@ confirm_response_cb (GtkDialog *dialog, int response, HlWindow *self)
 }
 
 gboolean
-hl_autosave_confirm_save (HlWindow *self)
+hl_autosave_confirm_save (GtkWindow *self)
 {
   HlAutosave *a = get_state (self);
   g_autofree char *name = NULL;
   g_autofree char *secondary = NULL;
   GtkWidget *dialog;
 
-  if (a == NULL || !a->recovered || a->confirmed || hl_document_get_file (self->document) == NULL)
+  if (a == NULL || !a->recovered || a->confirmed || hl_document_get_file (doc_of (self)) == NULL)
     return FALSE;
-  name = g_file_get_parse_name (hl_document_get_file (self->document));
+  name = g_file_get_parse_name (hl_document_get_file (doc_of (self)));
   secondary = g_strdup_printf (_("The file holds the version saved before the program ended; "
                                  "the recovered plan has the later changes. The file's "
                                  "present version is kept as “%s%s”."),
@@ -339,6 +351,7 @@ owner_alive (gint64 pid, const char *boot_id)
 }
 
 typedef struct {
+  HlDocument *document;      /* borrowed: the window's */
   char *id;
   char *original;            /* NULL: never saved under a name */
   char *label;
@@ -419,7 +432,7 @@ find_orphan (guint *n_others)
 }
 
 static void
-recover (HlWindow *self, HlOrphan *o)
+recover (GtkWindow *self, HlOrphan *o)
 {
   HlAutosave *a = get_state (self);
   g_autofree char *plan_path = autosave_path (o->id, HL_PLAN_FILE_EXTENSION);
@@ -433,15 +446,20 @@ recover (HlWindow *self, HlOrphan *o)
     return;
   if (hl_plan_load_file (plan_path, &plan, &err) != HL_OK)
     {
-      g_autofree char *msg = hl_window_format_error (&err);
+      g_autofree char *msg = hl_document_format_error (&err);
       g_autofree char *secondary = g_strdup_printf (_("%s\n\nThe autosaved file is kept: %s"),
                                                     msg, plan_path);
 
-      hl_window_show_error (self, _("The unsaved changes could not be recovered"), secondary);
+      hl_message_show_error (GTK_WIDGET (self), _("The unsaved changes could not be recovered"), secondary);
       return;
     }
-  hl_window_replace_plan (self, plan, original);
+  if (!hl_document_replace (doc_of (self), plan, original))
+    {
+      hl_plan_free (plan);
+      return;
+    }
   hl_plan_free (plan);
+  hl_autosave_plan_replaced (self);
 
   /* This window owns the autosave now, so no other start offers it. */
   g_free (a->id);
@@ -451,13 +469,13 @@ recover (HlWindow *self, HlOrphan *o)
   a->has_file = TRUE;
   a->recovered = TRUE;
   a->confirmed = FALSE;
-  a->autosaved_revision = hl_document_get_revision (self->document);
+  a->autosaved_revision = hl_document_get_revision (doc_of (self));
   /* Modified: no revision of this window was ever saved. */
-  hl_document_mark_unsaved (self->document);
+  hl_document_mark_unsaved (doc_of (self));
 }
 
 typedef struct {
-  HlWindow *self;
+  GtkWindow *self;
   HlOrphan *orphan;
   int response;
 } HlRecoveryAnswer;
@@ -486,7 +504,7 @@ recovery_answer_idle_cb (gpointer user_data)
 }
 
 static void
-recovery_response_cb (GtkDialog *dialog, int response, HlWindow *self)
+recovery_response_cb (GtkDialog *dialog, int response, GtkWindow *self)
 {
   HlRecoveryAnswer *answer = g_new0 (HlRecoveryAnswer, 1);
 
@@ -504,7 +522,7 @@ recovery_response_cb (GtkDialog *dialog, int response, HlWindow *self)
 }
 
 void
-hl_autosave_offer_recovery (HlWindow *self)
+hl_autosave_offer_recovery (GtkWindow *self)
 {
   static gboolean offered;
   g_autoptr(HlOrphan) orphan = NULL;

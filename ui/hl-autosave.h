@@ -23,7 +23,8 @@
  */
 #pragma once
 
-#include "hl-window.h"
+#include <gtk/gtk.h>
+#include "hl-document.h"
 
 G_BEGIN_DECLS
 
@@ -32,22 +33,22 @@ G_BEGIN_DECLS
 #define HL_AUTOSAVE_ENV "HIPLEVER_AUTOSAVE_SECONDS"
 #define HL_AUTOSAVE_INFO_EXTENSION ".info"
 
-/* Starts the timer (from hl_window_init). */
-void hl_autosave_attach (HlWindow *self);
+/* Starts the timer for the window's document (from hl_window_init). */
+void hl_autosave_attach (GtkWindow *self, HlDocument *document);
 /* The plan was saved under its name: the autosave goes. */
-void hl_autosave_saved (HlWindow *self);
+void hl_autosave_saved (GtkWindow *self);
 /* The window closes after its unsaved-changes guard: the autosave goes. */
-void hl_autosave_closed (HlWindow *self);
+void hl_autosave_closed (GtkWindow *self);
 /* Another plan replaced the one in the window. */
-void hl_autosave_plan_replaced (HlWindow *self);
+void hl_autosave_plan_replaced (GtkWindow *self);
 /* The plan came from a recovered autosave and is not saved yet. */
-gboolean hl_autosave_is_recovered (HlWindow *self);
+gboolean hl_autosave_is_recovered (GtkWindow *self);
 /* Before Save writes a recovered plan over its original file: TRUE when
  * a question is shown, and Save runs again if the user confirms. */
-gboolean hl_autosave_confirm_save (HlWindow *self);
+gboolean hl_autosave_confirm_save (GtkWindow *self);
 /* Once per process, at the first window: offers the newest autosave whose
  * owner is gone (Recover, Discard or Later). */
-void hl_autosave_offer_recovery (HlWindow *self);
+void hl_autosave_offer_recovery (GtkWindow *self);
 /* TRUE (err filled with HL_ERR_VERSION) when `path` is a plan file of a
  * format newer than this program writes: it is never overwritten. */
 gboolean hl_autosave_target_is_newer (const char *path, HlError *err);

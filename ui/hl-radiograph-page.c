@@ -18,7 +18,7 @@
 #include "hl-radiograph-page.h"
 #include "hl-underlay.h"
 #include "hl-version.h"
-#include "hl-window-private.h"
+#include "hl-message.h"
 
 #define PAGE_KEY "hl-radiograph-page"
 #define PAGE_NAME "radiograph"
@@ -45,7 +45,9 @@ struct _HlRadiographPage {
   GtkBox parent_instance;
 
   /* borrowed */
-  HlWindow *window;
+  HlDocument *document;
+  HlCanvas *canvas;
+  GtkWidget *scroll;              /* around the page, in the side panel */
 
   /* built in code */
   GtkWidget *image_banner;
@@ -91,17 +93,15 @@ struct _HlRadiographPage {
 
 G_DEFINE_FINAL_TYPE (HlRadiographPage, hl_radiograph_page, GTK_TYPE_BOX)
 
-static HlRadiographPage *
-page_of (HlWindow *window)
-{
-  return g_object_get_data (G_OBJECT (window), PAGE_KEY);
-}
-
+/* The document's plan: written only between hl_document_begin_edit and
+ * hl_document_end_edit. */
 static HlPlan *
 plan_of (HlRadiographPage *self)
 {
-  return self->window->plan;
+  return (HlPlan *) hl_document_get_plan (self->document);
 }
+
+static void refresh (HlRadiographPage *self);
 
 static int
 method_index (HlCalMethod m)
@@ -147,7 +147,7 @@ set_banner (GtkWidget *banner, const char *text)
 static void
 drop_underlay (HlRadiographPage *self)
 {
-  hl_canvas_set_underlay (self->window->canvas, NULL);
+  hl_canvas_set_underlay (self->canvas, NULL);
   g_clear_pointer (&self->underlay, hl_underlay_free);
 }
 
@@ -204,7 +204,7 @@ sync_underlay (HlRadiographPage *self)
     }
   else
     set_banner (self->image_banner, NULL);
-  hl_canvas_set_underlay (self->window->canvas, self->underlay);
+  hl_canvas_set_underlay (self->canvas, self->underlay);
 }
 
 static void
@@ -216,12 +216,12 @@ import_file (HlRadiographPage *self, const char *path)
   char hex[65];
   if (ul == NULL || hl_file_sha256_hex (path, hex, &err) != HL_OK)
     {
-      g_autofree char *msg = hl_window_format_error (&err);
-      hl_window_show_error (self->window, _("Could not import the image"), msg);
+      g_autofree char *msg = hl_document_format_error (&err);
+      hl_message_show_error (GTK_WIDGET (self), _("Could not import the image"), msg);
       hl_underlay_free (ul);
       return;
     }
-  if (!hl_window_begin_edit (self->window, NULL))
+  if (!(hl_document_begin_edit (self->document, NULL) != NULL))
     {
       hl_underlay_free (ul);
       return;
@@ -236,17 +236,16 @@ import_file (HlRadiographPage *self, const char *path)
   self->underlay = ul;
   g_free (self->loaded_path);
   self->loaded_path = g_strdup (plan->radiograph.path);
-  hl_canvas_set_underlay (self->window->canvas, ul);
+  hl_canvas_set_underlay (self->canvas, ul);
   set_banner (self->image_banner, NULL);
-  hl_window_plan_edited (self->window);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
 }
 
 void
-hl_radiograph_page_import (HlWindow *window, const char *path)
+hl_radiograph_page_import (HlRadiographPage *self, const char *path)
 {
-  HlRadiographPage *self = page_of (window);
-  if (self != NULL)
-    import_file (self, path);
+  g_return_if_fail (HL_IS_RADIOGRAPH_PAGE (self));
+  import_file (self, path);
 }
 
 static void
@@ -269,7 +268,7 @@ import_clicked_cb (GtkButton *button, HlRadiographPage *self)
   if (self->chooser != NULL)
     return;
   GtkFileChooserNative *chooser =
-    gtk_file_chooser_native_new (_("Import a radiograph"), GTK_WINDOW (self->window),
+    gtk_file_chooser_native_new (_("Import a radiograph"), GTK_WINDOW (gtk_widget_get_root (GTK_WIDGET (self))),
                                  GTK_FILE_CHOOSER_ACTION_OPEN, _("_Import"), _("_Cancel"));
   static const struct { const char *name; const char *patterns[3]; } filters[] = {
     { N_("Radiographs (PNG, JPEG, TIFF)"), { "*.png", "*.jp*g", "*.tif*" } },
@@ -296,7 +295,7 @@ static gboolean
 edit (HlRadiographPage *self, const char *field)
 {
   return self->syncing == 0 && plan_of (self)->radiograph.present
-         && hl_window_begin_edit (self->window, field);
+         && (hl_document_begin_edit (self->document, field) != NULL);
 }
 
 static void
@@ -313,7 +312,7 @@ scale_changed_cb (GtkRange *range, HlRadiographPage *self)
     rg->contrast = v;
   else
     rg->opacity = v;
-  hl_window_plan_edited (self->window);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
 }
 
 static void
@@ -327,7 +326,7 @@ toggle_cb (GtkCheckButton *check, HlRadiographPage *self)
     rg->invert = on;
   else
     rg->schematic_visible = on;
-  hl_window_plan_edited (self->window);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
 }
 
 static void
@@ -340,10 +339,10 @@ spacing_changed_cb (GtkSpinButton *spin, HlRadiographPage *self)
   if (hl_image_set_pixel_spacing (plan_of (self), gtk_spin_button_get_value (spin), &err)
       != HL_OK)
     {
-      g_autofree char *msg = hl_window_format_error (&err);
-      hl_window_show_error (self->window, _("The pixel spacing was not changed"), msg);
+      g_autofree char *msg = hl_document_format_error (&err);
+      hl_message_show_error (GTK_WIDGET (self), _("The pixel spacing was not changed"), msg);
     }
-  hl_window_plan_edited (self->window);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
 }
 
 /* ---- Calibration ------------------------------------------------------------ */
@@ -351,7 +350,7 @@ spacing_changed_cb (GtkSpinButton *spin, HlRadiographPage *self)
 static void
 set_click_mode (HlRadiographPage *self)
 {
-  hl_canvas_set_click_placement (self->window->canvas, self->calibrating || self->guiding);
+  hl_canvas_set_click_placement (self->canvas, self->calibrating || self->guiding);
 }
 
 static void
@@ -366,7 +365,7 @@ stop_calibrating (HlRadiographPage *self)
 static void
 apply_calibration (HlRadiographPage *self, const HlCalibration *cal, const char *field)
 {
-  if (!hl_window_begin_edit (self->window, field))
+  if (!(hl_document_begin_edit (self->document, field) != NULL))
     return;
   HlPlan *plan = plan_of (self);
   HlError err;
@@ -375,7 +374,7 @@ apply_calibration (HlRadiographPage *self, const HlCalibration *cal, const char 
    * recorded as chosen and the assumed 1.20 stands until it is placed. */
   if (hl_image_apply_calibration (plan, cal, &err) != HL_OK)
     plan->calibration = *cal;
-  hl_window_plan_edited (self->window);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
 }
 
 static void
@@ -416,14 +415,14 @@ calibrate_clicked_cb (GtkButton *button, HlRadiographPage *self)
   if (self->calibrating || points_needed (m) == 0)
     {
       stop_calibrating (self);
-      hl_radiograph_page_plan_edited (self->window);
+      refresh (self);
       return;
     }
   self->guiding = FALSE;
   self->calibrating = TRUE;
   self->n_cal_points = 0;
   set_click_mode (self);
-  hl_radiograph_page_plan_edited (self->window);
+  refresh (self);
 }
 
 static void
@@ -436,7 +435,7 @@ calibration_click (HlRadiographPage *self, double x, double y)
     hl_image_plan_to_image_mm (&plan->radiograph, m, (HlVec2) { x, y });
   if (self->n_cal_points < need)
     {
-      hl_radiograph_page_plan_edited (self->window);
+      refresh (self);
       return;
     }
   HlCalibration cal = plan->calibration;
@@ -447,9 +446,9 @@ calibration_click (HlRadiographPage *self, double x, double y)
   hl_error_clear (&err);
   if (hl_calibration_magnification (&cal, NULL, NULL, &err) != HL_OK)
     {
-      g_autofree char *msg = hl_window_format_error (&err);
-      hl_window_show_error (self->window, _("The calibration was not changed"), msg);
-      hl_radiograph_page_plan_edited (self->window);
+      g_autofree char *msg = hl_document_format_error (&err);
+      hl_message_show_error (GTK_WIDGET (self), _("The calibration was not changed"), msg);
+      refresh (self);
       return;
     }
   apply_calibration (self, &cal, NULL);
@@ -473,7 +472,7 @@ guide_show (HlRadiographPage *self)
                      info->required ? _("required") : _("optional"), _(info->hint));
   gtk_label_set_text (GTK_LABEL (self->guide_label), text);
   gtk_widget_set_sensitive (self->back_button, self->guide_index > 0);
-  hl_canvas_set_selected_landmark (self->window->canvas, self->guide_index);
+  hl_canvas_set_selected_landmark (self->canvas, self->guide_index);
 }
 
 static void
@@ -530,12 +529,11 @@ static void
 guide_click (HlRadiographPage *self, double x, double y)
 {
   HlLandmarkId id = (HlLandmarkId) self->guide_index;
-  hl_document_break_coalescing (self->window->document);
-  if (!hl_window_begin_edit (self->window, NULL))
+  hl_document_break_coalescing (self->document);
+  if (!(hl_document_begin_edit (self->document, NULL) != NULL))
     return;
   hl_landmarks_set (&plan_of (self)->landmarks, id, x, y);
-  hl_window_panel_sync_landmark (self->window, id);
-  hl_window_plan_edited (self->window);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
   guide_advance (self, 1);
 }
 
@@ -645,12 +643,9 @@ sync_measures (HlRadiographPage *self, gboolean *contradiction)
 
 /* ---- Refreshing ------------------------------------------------------------------ */
 
-void
-hl_radiograph_page_plan_edited (HlWindow *window)
+static void
+refresh (HlRadiographPage *self)
 {
-  HlRadiographPage *self = page_of (window);
-  if (self == NULL || window->disposing)
-    return;
   HlPlan *plan = plan_of (self);
   const HlRadiograph *rg = &plan->radiograph;
   self->syncing++;
@@ -658,7 +653,7 @@ hl_radiograph_page_plan_edited (HlWindow *window)
   sync_underlay (self);
   if (self->underlay != NULL)
     hl_underlay_set_adjust (self->underlay, rg->brightness, rg->contrast, rg->invert);
-  hl_canvas_set_schematic_visible (window->canvas, !rg->present || rg->schematic_visible);
+  hl_canvas_set_schematic_visible (self->canvas, !rg->present || rg->schematic_visible);
 
   /* The page's own controls and measures wait until it is shown: updating
    * them on every frame of a drag cost more than drawing the frame. */
@@ -762,46 +757,41 @@ hl_radiograph_page_plan_edited (HlWindow *window)
 /* ---- Test hooks -------------------------------------------------------------------- */
 
 static void
-print_widget (HlWindow *window, const char *name, GtkWidget *widget)
+print_widget (const char *name, GtkWidget *widget)
 {
+  GtkNative *native = gtk_widget_get_native (widget);
   graphene_point_t in = GRAPHENE_POINT_INIT (gtk_widget_get_width (widget) / 2.0f,
                                              gtk_widget_get_height (widget) / 2.0f);
   graphene_point_t out;
   double tx, ty;
-  if (!gtk_widget_get_mapped (widget)
-      || !gtk_widget_compute_point (widget, GTK_WIDGET (window), &in, &out))
+  if (native == NULL || !gtk_widget_get_mapped (widget)
+      || !gtk_widget_compute_point (widget, GTK_WIDGET (native), &in, &out))
     return;
-  gtk_native_get_surface_transform (GTK_NATIVE (window), &tx, &ty);
+  gtk_native_get_surface_transform (native, &tx, &ty);
   printf ("WIDGET %s %.0f %.0f\n", name, out.x + tx, out.y + ty);
 }
 
 void
-hl_radiograph_page_print_handles (HlWindow *window)
+hl_radiograph_page_print_handles (HlRadiographPage *self)
 {
-  HlRadiographPage *self = page_of (window);
-  if (self == NULL)
-    return;
-  GtkWidget *switcher = gtk_widget_get_prev_sibling (GTK_WIDGET (window->panel_stack));
-  int n = 0;
-  for (GtkWidget *c = switcher != NULL ? gtk_widget_get_first_child (switcher) : NULL; c != NULL;
-       c = gtk_widget_get_next_sibling (c), n++)
-    if (n == 4)
-      print_widget (window, "page-radiograph", c);
-  print_widget (window, "radiograph-calibrate", self->calibrate_button);
-  print_widget (window, "radiograph-guide", self->guide_button);
-  print_widget (window, "radiograph-skip", self->skip_button);
-  print_widget (window, "radiograph-back", self->back_button);
-  print_widget (window, "radiograph-stop", self->stop_button);
+  g_return_if_fail (HL_IS_RADIOGRAPH_PAGE (self));
+  print_widget ("radiograph-calibrate", self->calibrate_button);
+  print_widget ("radiograph-guide", self->guide_button);
+  print_widget ("radiograph-skip", self->skip_button);
+  print_widget ("radiograph-back", self->back_button);
+  print_widget ("radiograph-stop", self->stop_button);
 
+  GtkNative *native = gtk_widget_get_native (GTK_WIDGET (self->canvas));
   graphene_point_t in = GRAPHENE_POINT_INIT (0, 0), out;
   double tx, ty, scale, vx, vy;
-  if (gtk_widget_compute_point (GTK_WIDGET (window->canvas), GTK_WIDGET (window), &in, &out))
+  if (native != NULL
+      && gtk_widget_compute_point (GTK_WIDGET (self->canvas), GTK_WIDGET (native), &in, &out))
     {
-      gtk_native_get_surface_transform (GTK_NATIVE (window), &tx, &ty);
-      hl_canvas_get_view (window->canvas, &scale, &vx, &vy);
+      gtk_native_get_surface_transform (native, &tx, &ty);
+      hl_canvas_get_view (self->canvas, &scale, &vx, &vy);
       printf ("VIEW %.9g %.9g %.9g %.9g %.9g\n", scale, vx, vy, out.x + tx, out.y + ty);
     }
-  const HlPlan *plan = window->plan;
+  const HlPlan *plan = plan_of (self);
   if (plan->radiograph.present)
     {
       double m = hl_image_display_magnification (plan, NULL);
@@ -868,7 +858,7 @@ static gboolean
 bench_tick_cb (GtkWidget *widget, GdkFrameClock *clock, gpointer data)
 {
   Bench *b = data;
-  HlCanvas *canvas = b->self->window->canvas;
+  HlCanvas *canvas = b->self->canvas;
   if (b->frame == 0)
     {
       b->clock = clock;
@@ -886,7 +876,7 @@ bench_tick_cb (GtkWidget *widget, GdkFrameClock *clock, gpointer data)
       g_signal_handler_disconnect (b->clock, b->before_id);
       g_signal_handler_disconnect (b->clock, b->after_id);
       g_array_unref (b->paint_ms);
-      GtkApplication *app = gtk_window_get_application (GTK_WINDOW (b->self->window));
+      GtkApplication *app = gtk_window_get_application (GTK_WINDOW (gtk_widget_get_root (GTK_WIDGET (b->self))));
       g_free (b);
       g_application_quit (G_APPLICATION (app));
       return G_SOURCE_REMOVE;
@@ -933,13 +923,13 @@ bench_start_cb (gpointer data)
   cairo_surface_destroy (img);
   hl_image_attach (plan, "benchmark.png", NULL, HL_PIXEL_SPACING_DEFAULT_MM, BENCH_SIDE,
                    BENCH_SIDE);
-  hl_canvas_set_underlay (self->window->canvas, self->underlay);
-  hl_window_plan_edited (self->window);
-  hl_canvas_fit (self->window->canvas);
+  hl_canvas_set_underlay (self->canvas, self->underlay);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
+  hl_canvas_fit (self->canvas);
   Bench *b = g_new0 (Bench, 1);
   b->self = self;
   b->paint_ms = g_array_new (FALSE, FALSE, sizeof (double));
-  gtk_widget_add_tick_callback (GTK_WIDGET (self->window->canvas), bench_tick_cb, b, NULL);
+  gtk_widget_add_tick_callback (GTK_WIDGET (self->canvas), bench_tick_cb, b, NULL);
   return G_SOURCE_REMOVE;
 }
 
@@ -1160,18 +1150,27 @@ page_map_cb (GtkWidget *widget, gpointer user_data)
   HlRadiographPage *self = HL_RADIOGRAPH_PAGE (widget);
 
   if (self->stale)
-    hl_radiograph_page_plan_edited (self->window);
+    refresh (self);
 }
 
-void
-hl_radiograph_page_attach (HlWindow *window)
+static void
+document_changed_cb (HlDocument *document, guint what, HlRadiographPage *self)
 {
+  if (what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_RESULTS))
+    refresh (self);
+}
+
+GtkWidget *
+hl_radiograph_page_new (HlDocument *document, HlCanvas *canvas)
+{
+  g_return_val_if_fail (HL_IS_DOCUMENT (document), NULL);
+  g_return_val_if_fail (HL_IS_CANVAS (canvas), NULL);
   HlRadiographPage *self = g_object_new (HL_TYPE_RADIOGRAPH_PAGE, NULL);
-  self->window = window;
-  GtkWidget *scroll = build (self);
-  gtk_stack_add_titled (window->panel_stack, scroll, PAGE_NAME, _("Radiograph"));
-  g_object_set_data (G_OBJECT (window), PAGE_KEY, self);
-  g_signal_connect_object (window->canvas, "plan-clicked", G_CALLBACK (plan_clicked_cb), self, 0);
+  self->document = document;
+  self->canvas = canvas;
+  self->scroll = build (self);
+  g_signal_connect_object (canvas, "plan-clicked", G_CALLBACK (plan_clicked_cb), self, 0);
+  g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), self, 0);
   g_signal_connect (self, "map", G_CALLBACK (page_map_cb), NULL);
 #if HL_TEST_HOOKS
   if (g_getenv ("HIPLEVER_TEST_UNDERLAY") != NULL)
@@ -1179,4 +1178,13 @@ hl_radiograph_page_attach (HlWindow *window)
   if (g_strcmp0 (g_getenv ("HIPLEVER_BENCHMARK_UNDERLAY"), "1") == 0)
     g_idle_add_full (G_PRIORITY_DEFAULT_IDLE, bench_start_cb, g_object_ref (self), g_object_unref);
 #endif
+  refresh (self);
+  return GTK_WIDGET (self);
+}
+
+GtkWidget *
+hl_radiograph_page_get_page (HlRadiographPage *self)
+{
+  g_return_val_if_fail (HL_IS_RADIOGRAPH_PAGE (self), NULL);
+  return self->scroll;
 }

@@ -25,30 +25,31 @@
 #pragma once
 
 #include <gtk/gtk.h>
-#include "hl-window.h"
+#include "hl-canvas.h"
+#include "hl-document.h"
 
 G_BEGIN_DECLS
 
 #define HL_TYPE_RADIOGRAPH_PAGE (hl_radiograph_page_get_type ())
 G_DECLARE_FINAL_TYPE (HlRadiographPage, hl_radiograph_page, HL, RADIOGRAPH_PAGE, GtkBox)
 
-/* Builds the page, adds it to the window's side panel as "radiograph" and
- * connects it to the canvas.  Called once from the window's init. */
-void hl_radiograph_page_attach (HlWindow *window);
-
-/* From hl_window_plan_edited: refreshes the page, reloads the image when
- * the plan's reference changed (a plan opened, an undo) and reports a
- * moved or changed image. */
-void hl_radiograph_page_plan_edited (HlWindow *window);
+/* The page for `document`, drawing its radiograph under `canvas` and
+ * taking the canvas's clicks in calibrate and guided placement modes; both
+ * borrowed.  It follows the document's "changed" signal: reloads the
+ * image when the plan's reference changed (a plan opened, an undo) and
+ * reports a moved or changed image. */
+GtkWidget *hl_radiograph_page_new (HlDocument *document, HlCanvas *canvas);
+/* The scrolled window around the page, which goes into the side panel. */
+GtkWidget *hl_radiograph_page_get_page (HlRadiographPage *self);
 
 /* Imports the image file at `path` as if chosen in the file chooser (the
  * drag benchmark). */
-void hl_radiograph_page_import (HlWindow *window, const char *path);
+void hl_radiograph_page_import (HlRadiographPage *self, const char *path);
 
 /* From the handle printer (HIPLEVER_TEST_PRINT_HANDLES): WIDGET lines for
  * the page's controls and "VIEW scale tx ty x0 y0" (the canvas view and
  * the canvas's top-left corner in window surface coordinates) and
  * "RADIOGRAPH origin-x origin-y mm-per-pixel magnification". */
-void hl_radiograph_page_print_handles (HlWindow *window);
+void hl_radiograph_page_print_handles (HlRadiographPage *self);
 
 G_END_DECLS

@@ -13,6 +13,7 @@
 #include "hl-autosave.h"
 #include "hl-plan-io.h"
 #include "hl-settings.h"
+#include "hl-window.h"
 #include "hl-window-private.h"
 
 #define HL_AFTER_KEY "hl-after-guard"
@@ -65,7 +66,7 @@ save_to (HlWindow *self, GFile *file)
     }
 
   /* The autosave goes first: the title that follows is no longer "recovered". */
-  hl_autosave_saved (self);
+  hl_autosave_saved (GTK_WINDOW (self));
   hl_document_set_saved (self->document, file);
   return TRUE;
 }
@@ -264,7 +265,7 @@ hl_window_close_request (HlWindow *self)
 #if HL_TEST_HOOKS
       hl_window_write_dump (self);
 #endif
-      hl_autosave_closed (self);
+      hl_autosave_closed (GTK_WINDOW (self));
       return FALSE;
     }
   hl_window_guard (self, HL_AFTER_CLOSE);
@@ -464,7 +465,7 @@ save_action_cb (GtkWidget *widget, const char *name, GVariant *param)
 
   if (hl_document_get_file (self->document) == NULL)
     hl_window_save_as (self, HL_AFTER_NOTHING);
-  else if (!hl_autosave_confirm_save (self))
+  else if (!hl_autosave_confirm_save (GTK_WINDOW (self)))
     save_to (self, hl_document_get_file (self->document));
 }
 

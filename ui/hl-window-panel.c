@@ -16,6 +16,7 @@
 #include <glib/gi18n.h>
 
 #include "hl-settings.h"
+#include "hl-window.h"
 #include "hl-window-private.h"
 
 /* The international avoirdupois pound, exactly. */

@@ -8,8 +8,9 @@
 #include "hl-analysis-panel.h"
 #include "hl-canvas.h"
 #include "hl-document.h"
+#include "hl-radiograph-page.h"
 #include "hl-results.h"
-#include "hl-window.h"
+#include "hl-ui-types.h"
 
 G_BEGIN_DECLS
 
@@ -102,6 +103,7 @@ struct _HlWindow {
   GtkStack *lower_stack;     /* "results" and "charts" under the schematic */
   GtkWidget *charts_view;    /* HlChartsView */
   HlAnalysisPanel *analysis_panel;
+  HlRadiographPage *radiograph_page;
 };
 
 /* hl-window.c */

@@ -36,6 +36,7 @@
 #include "hl-application.h"
 #include "hl-plan-io.h"
 #include "hl-radiograph-page.h"
+#include "hl-window.h"
 #include "hl-window-private.h"
 
 /* Frames to let the window settle (map, first layout, fonts) before a
@@ -223,7 +224,7 @@ hl_window_print_handles (HlWindow *self)
 
       printf ("ACCESSIBLE canvas %s\n", label != NULL ? label : "");
     }
-  hl_radiograph_page_print_handles (self);
+  hl_radiograph_page_print_handles (self->radiograph_page);
   print_lower_handles (self);
   hl_analysis_panel_print_handles (self->analysis_panel);
   printf ("FRAME %u\n", ++self->handles_printed);
@@ -690,7 +691,7 @@ hl_window_run_benchmark_drag (HlWindow *self, gint64 process_start_us)
   self->skip_close_guard = TRUE;
   bench->image_path = bench_write_image (&bench->image_dir);
   if (bench->image_path != NULL)
-    hl_radiograph_page_import (self, bench->image_path);
+    hl_radiograph_page_import (self->radiograph_page, bench->image_path);
   while (self->plan->n_options < HL_BENCH_OPTIONS)
     hl_window_add_option (self);
   if (self->plan->n_options > 0)

@@ -19,6 +19,7 @@
 #include "hl-message.h"
 #include "hl-radiograph-page.h"
 #include "hl-version.h"
+#include "hl-window.h"
 #include "hl-window-private.h"
 
 G_DEFINE_FINAL_TYPE (HlWindow, hl_window, GTK_TYPE_APPLICATION_WINDOW)
@@ -61,7 +62,7 @@ hl_window_update_title (HlWindow *self)
   const char *label = self->plan->label[0] != '\0' ? self->plan->label
                                                     : _("Untitled case");
   g_autofree char *title = NULL;
-  g_autofree char *recovered = hl_autosave_is_recovered (self)
+  g_autofree char *recovered = hl_autosave_is_recovered (GTK_WINDOW (self))
                                ? g_strdup_printf (_("%s (recovered)"), label) : NULL;
 
   if (recovered != NULL)
@@ -139,10 +140,7 @@ document_changed_cb (HlDocument *document, guint what, HlWindow *self)
     }
   hl_window_update_actions (self);
   if (what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_RESULTS))
-    {
-      hl_radiograph_page_plan_edited (self);
-      hl_window_panel_sync_cane_note (self);
-    }
+    hl_window_panel_sync_cane_note (self);
   self->handles_dirty = TRUE;
 }
 
@@ -185,7 +183,7 @@ void
 hl_window_replace_plan (HlWindow *self, const HlPlan *plan, GFile *file)
 {
   if (hl_document_replace (self->document, plan, file))
-    hl_autosave_plan_replaced (self);
+    hl_autosave_plan_replaced (GTK_WINDOW (self));
 }
 
 void
@@ -494,10 +492,13 @@ hl_window_init (HlWindow *self)
   hl_canvas_set_document (self->canvas, self->document);
   hl_results_set_document (self->results, self->document);
   hl_window_panel_init (self);
-  hl_radiograph_page_attach (self);
+  self->radiograph_page = HL_RADIOGRAPH_PAGE (hl_radiograph_page_new (self->document,
+                                                                      self->canvas));
+  gtk_stack_add_titled (self->panel_stack, hl_radiograph_page_get_page (self->radiograph_page),
+                        "radiograph", _("Radiograph"));
   attach_analysis (self);
   hl_export_attach (GTK_APPLICATION_WINDOW (self), self->document, self->analysis_panel);
-  hl_autosave_attach (self);
+  hl_autosave_attach (GTK_WINDOW (self), self->document);
   hl_a11y_label_controls (GTK_WIDGET (self));
   g_signal_connect_object (self->document, "changed",
                            G_CALLBACK (document_changed_cb), self, 0);
