@@ -119,7 +119,7 @@ static const HlCliCommand commands[] = {
     N_("Write the A4 PDF report (one or two pages): case, inputs, results, "
        "ranges, schematic, charts, assumptions, sources and the caution."),
     hl_cli_report_options, 1, 1, hl_cli_report },
-  { "figure", "PLAN -o OUT.svg|OUT.png [--size WxH] [--option N]",
+  { "figure", "PLAN -o OUT.svg|OUT.png [--size WxH | --preset slide|half-slide] [--option N]",
     N_("Draw the schematic with the force vectors; the format follows the "
        "file name."),
     hl_cli_figure_options, 1, 1, hl_cli_figure },

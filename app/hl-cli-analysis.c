@@ -47,7 +47,7 @@ enum { SWEEP_OPT_PARAM, SWEEP_OPT_FROM, SWEEP_OPT_TO, SWEEP_OPT_STEPS, SWEEP_OPT
        SWEEP_OPT_MODE };
 enum { MC_OPT_SAMPLES, MC_OPT_SEED, MC_OPT_CSV };
 enum { REPORT_OPT_OUTPUT };
-enum { FIGURE_OPT_OUTPUT, FIGURE_OPT_SIZE, FIGURE_OPT_OPTION };
+enum { FIGURE_OPT_OUTPUT, FIGURE_OPT_SIZE, FIGURE_OPT_OPTION, FIGURE_OPT_PRESET };
 
 const HlCliOption hl_cli_inverse_options[] = {
   { "target-jrf", 0, N_("BW"),
@@ -112,6 +112,9 @@ const HlCliOption hl_cli_figure_options[] = {
   { "option", 0, N_("N"),
     N_("the option drawn over the native hip: 1 for the first, 0 for the "
        "native hip alone (default: 1 when the plan has options, else 0)") },
+  { "preset", 0, N_("slide|half-slide"),
+    N_("slide: a 16:9 slide, 1920x1080, body text at least 24 px; half-slide: "
+       "half of one, 960x1080, the same text (instead of --size)") },
   { NULL },
 };
 
@@ -755,6 +758,21 @@ hl_cli_figure (const HlCliCommand *cmd, const HlCliArgs *args)
           return HL_CLI_EXIT_INVALID;
         }
     }
+  HlRenderPreset preset = HL_RENDER_PRESET_AUTO;
+  const char *preset_text = args->value[FIGURE_OPT_PRESET];
+  if (preset_text != NULL)
+    {
+      if (strcmp (preset_text, "slide") == 0)
+        preset = HL_RENDER_PRESET_SLIDE;
+      else if (strcmp (preset_text, "half-slide") == 0)
+        preset = HL_RENDER_PRESET_HALF_SLIDE;
+      else
+        return hl_cli_usage_error (_("%s: --preset '%s' is neither slide nor half-slide"),
+                                   cmd->name, preset_text);
+      if (size_text != NULL)
+        return hl_cli_usage_error (_("%s: --preset and --size exclude each other"),
+                                   cmd->name);
+    }
   if (option_text != NULL && !parse_u64 (option_text, &option))
     return hl_cli_usage_error (_("%s: --option '%s' is not a whole number"), cmd->name,
                                option_text);
@@ -774,7 +792,8 @@ hl_cli_figure (const HlCliCommand *cmd, const HlCliArgs *args)
 
   HlError err;
   hl_error_clear (&err);
-  HlStatus st = hl_figure_save (plan, (int) option - 1, width, height, out, &err);
+  HlStatus st = hl_figure_save_preset (plan, (int) option - 1, width, height, preset, out,
+                                       &err);
   hl_plan_free (plan);
   if (st != HL_OK)
     {

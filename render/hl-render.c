@@ -60,36 +60,44 @@
 
 /* ---- Drawing in px ----------------------------------------------------- */
 
-#define BONE_LINE_PX 1.4
+#define BONE_LINE_PX (1.4 * px_size)
 #define BONE_FILL_ALPHA 0.07
 #define BONE_LINE_ALPHA 0.72
 #define NATIVE_GHOST_ALPHA 0.45
-#define CONSTRUCTION_LINE_PX 1.0
+#define CONSTRUCTION_LINE_PX (1.0 * px_size)
 #define CONSTRUCTION_ALPHA 0.65
 #define MIDLINE_ALPHA 0.45
-#define ARROW_JOINT_PX 3.2
-#define ARROW_PX 2.4
-#define ARROW_HEAD_MIN_PX 9.0
+#define ARROW_JOINT_PX (3.2 * px_size)
+#define ARROW_PX (2.4 * px_size)
+#define ARROW_HEAD_MIN_PX (9.0 * px_size)
 #define ARROW_HEAD_PER_WIDTH 3.6
 #define FORCE_DRAW_MIN_BW 0.005
-#define HANDLE_OPTIONAL_RADIUS_PX 4.8
-#define HANDLE_HOVER_HALO_PX 5.0
-#define HANDLE_SELECT_RING_PX 4.0
-#define MARKER_HALF_PX 4.0
+#define HANDLE_OPTIONAL_RADIUS_PX (4.8 * px_size)
+#define HANDLE_HOVER_HALO_PX (5.0 * px_size)
+#define HANDLE_SELECT_RING_PX (4.0 * px_size)
+#define MARKER_HALF_PX (4.0 * px_size)
 #define ABDUCTOR_LINE_EXTEND_MM 25.0
-#define LABEL_PAD_PX 3.0
-#define LABEL_GAP_PX 6.0
-#define BOX_MARGIN_PX 12.0
-#define ERROR_BOX_MAX_PX 520.0
-#define SIDE_MARKER_PX 26.0
-#define SCALE_BAR_MIN_PX 60.0
-#define SCALE_BAR_MAX_PX 170.0
+#define LABEL_PAD_PX (3.0 * px_size)
+#define LABEL_GAP_PX (6.0 * px_size)
+#define BOX_MARGIN_PX (12.0 * px_size)
+#define ERROR_BOX_MAX_PX (520.0 * px_size)
+#define SIDE_MARKER_PX (26.0 * px_size)
+#define SCALE_BAR_MIN_PX (60.0 * px_size)
+#define SCALE_BAR_MAX_PX (170.0 * px_size)
+#define SCALE_BAR_PREFERRED_MM 50.0
 #define MOVED_MIN_MM 0.05
 #define WRAP_LINES_MAX 16
-#define FIT_MARGIN_PX 24.0
+#define FIT_MARGIN_PX (24.0 * px_size)
 /* Flattening of curves: invisible at this size, and faster than cairo's
  * default of 0.1 px. */
 #define CURVE_TOLERANCE_PX 0.5
+
+/* Every size in px below is multiplied by the style's `size` (1 on
+ * screen; set by hl_render_style_for_target for figures, slides and the
+ * report), so that markers, lines, gaps and bands scale with the text.
+ * Set at each public entry point; one drawing per thread at a time. */
+static _Thread_local double px_size = 1.0;
+#define HANDLE_RADIUS_PX (HL_RENDER_HANDLE_RADIUS_PX * px_size)
 
 #define DEG (M_PI / 180.0)
 #define N_ELEMENTS(a) (sizeof (a) / sizeof ((a)[0]))
@@ -207,6 +215,50 @@ hl_render_style_init (HlRenderStyle *style, bool dark)
   style->hover_template = -1;
   style->selected_template = -1;
   style->font_px = 12.0;
+  style->size = 1.0;
+  style->layout = NULL;
+}
+
+/* The smallest text of the drawing (the side words under R and L) against
+ * the base size: every text is at least this times font_px. */
+#define SMALLEST_TEXT_SCALE 0.8
+/* The default figure keeps the screen's sizes: 12 px text at 1200 x 900. */
+#define TARGET_REF_WIDTH 1200.0
+#define TARGET_REF_HEIGHT 900.0
+#define TARGET_REF_FONT_PX 12.0
+#define TARGET_FONT_MAX_PX 48.0
+
+void
+hl_render_style_for_target (HlRenderStyle *style, double width, double height,
+                            HlRenderPreset preset)
+{
+  double k = fmin (width / TARGET_REF_WIDTH, height / TARGET_REF_HEIGHT);
+  if (!(k > 0.0))
+    k = 1.0;
+  double font = TARGET_REF_FONT_PX * k;
+  if (preset == HL_RENDER_PRESET_SLIDE || preset == HL_RENDER_PRESET_HALF_SLIDE)
+    font = fmax (font, HL_RENDER_SLIDE_TEXT_PX / SMALLEST_TEXT_SCALE);
+  font = fmin (fmax (font, HL_RENDER_TEXT_MIN_PX / SMALLEST_TEXT_SCALE), TARGET_FONT_MAX_PX);
+  style->font_px = font;
+  style->size = font / TARGET_REF_FONT_PX;
+}
+
+void
+hl_render_preset_size (HlRenderPreset preset, int *width, int *height)
+{
+  if (preset == HL_RENDER_PRESET_SLIDE)
+    *width = 1920, *height = 1080;
+  else if (preset == HL_RENDER_PRESET_HALF_SLIDE)
+    *width = 960, *height = 1080;
+}
+
+static void
+layout_add (const HlRenderStyle *style, HlBoxKind kind, double x, double y,
+            double w, double h)
+{
+  HlRenderLayout *l = style->layout;
+  if (l != NULL && l->n < HL_RENDER_LAYOUT_MAX)
+    l->box[l->n++] = (HlRenderBox) { kind, x, y, w, h };
 }
 
 /* a over b at `alpha`, opaque. */
@@ -870,15 +922,15 @@ hl_render_fit_view (const HlScene *scene, double width, double height,
 }
 
 /* Room kept clear of the bones for what is drawn around them. */
-#define FRAME_TOP_PX 62.0
-#define FRAME_BOTTOM_PX 52.0
+#define FRAME_TOP_PX (62.0 * px_size)
+#define FRAME_BOTTOM_PX (52.0 * px_size)
 #define CAUTION_GLYPH_EM 0.55
 #define CAUTION_FONT_SCALE 0.85
 #define CAUTION_LINE_EM 1.15
-#define CAUTION_PAD_PX 10.0
+#define CAUTION_PAD_PX (10.0 * px_size)
 #define LEGEND_RESERVE_EM 17.0
 #define LEGEND_ASPECT_MIN 1.45
-#define FRAME_FULL_HEIGHT_PX 520.0
+#define FRAME_FULL_HEIGHT_PX (520.0 * px_size)
 #define FRAME_SMALL_RATIO 0.6
 
 void
@@ -886,6 +938,7 @@ hl_render_fit_view_framed (const HlScene *scene, const HlRenderStyle *style,
                            double width, double height, double margin,
                            HlView *view)
 {
+  px_size = style->size > 0.0 && isfinite (style->size) ? style->size : 1.0;
   /* A small rectangle lets the frame overlap the picture a little more. */
   double k = height < FRAME_FULL_HEIGHT_PX ? FRAME_SMALL_RATIO : 1.0;
   double top = style->show_frame ? k * FRAME_TOP_PX : 0.0;
@@ -966,6 +1019,7 @@ typedef struct {
 typedef struct {
   Rect r[PLACER_MAX];
   int n;
+  double width, height;   /* the drawing: a label outside it counts as covering */
 } Placer;
 
 static void
@@ -987,34 +1041,81 @@ placer_overlap (const Placer *pl, double x, double y, double w, double h)
       if (ox > 0.0 && oy > 0.0)
         area += ox * oy;
     }
+  if (pl->width > 0.0 && pl->height > 0.0)
+    {
+      double ix = fmin (x + w, pl->width) - fmax (x, 0.0);
+      double iy = fmin (y + h, pl->height) - fmax (y, 0.0);
+      double inside = ix > 0.0 && iy > 0.0 ? ix * iy : 0.0;
+      area += 4.0 * (w * h - inside);
+    }
   return area;
 }
 
-/* A label centred on (cx, cy), or moved up or down by whole lines to the
- * nearest place where it covers nothing already placed. */
+/* A label centred on (cx, cy), or moved by whole lines and half widths to
+ * the nearest place where it covers nothing already placed and stays in
+ * the drawing; a label moved far from its place is led back to it by a
+ * thin line. */
+#define LABEL_RINGS 10
+#define LABEL_LEADER_LINES 1.5
+
 static void
 label_place (cairo_t *cr, const HlRenderStyle *style, Placer *pl,
              const char *text, double cx, double cy, HlRgba color)
 {
-  static const double shifts[][2] = {
-    { 0, 0 }, { 0, 1 }, { 0, -1 }, { 0.6, 0 }, { -0.6, 0 }, { 0, 2 }, { 0, -2 },
-    { 0.6, 1 }, { -0.6, 1 }, { 0.6, -1 }, { -0.6, -1 }, { 0, 3 }, { 0, -3 },
+  static const double dirs[][2] = {
+    { 0, 1 }, { 0, -1 }, { 0.6, 0 }, { -0.6, 0 }, { 0.6, 1 }, { -0.6, 1 },
+    { 0.6, -1 }, { -0.6, -1 }, { 1.2, 0 }, { -1.2, 0 }, { 1.2, 1 }, { -1.2, -1 },
+    { 1.2, -1 }, { -1.2, 1 }, { 0, 0.5 }, { 0, -0.5 }, { 0.6, 0.5 }, { -0.6, 0.5 },
+    { 0.6, -0.5 }, { -0.6, -0.5 },
   };
   double w, h;
   label_size (cr, text, &w, &h);
-  double bx = cx, by = cy, least = INFINITY;
-  for (size_t k = 0; k < N_ELEMENTS (shifts) && least > 0.0; k++)
+  double bx = cx, by = cy;
+  double least = placer_overlap (pl, cx - 0.5 * w, cy - 0.5 * h, w, h);
+  for (int ring = 1; ring <= LABEL_RINGS && least > 0.0; ring++)
+    for (size_t k = 0; k < N_ELEMENTS (dirs) && least > 0.0; k++)
+      {
+        double x = cx + ring * dirs[k][0] * w, y = cy + ring * dirs[k][1] * (h + 2.0);
+        double area = placer_overlap (pl, x - 0.5 * w, y - 0.5 * h, w, h);
+        if (area < least)
+          {
+            least = area;
+            bx = x;
+            by = y;
+          }
+      }
+  /* Still covering something: the free place nearest to where the label
+   * belongs, anywhere in the drawing (led back by a line). */
+  if (least > 0.0 && pl->width > w && pl->height > h)
     {
-      double x = cx + shifts[k][0] * w, y = cy + shifts[k][1] * (h + 2.0);
-      double area = placer_overlap (pl, x - 0.5 * w, y - 0.5 * h, w, h);
-      if (area < least)
-        {
-          least = area;
-          bx = x;
-          by = y;
-        }
+      double best_d = INFINITY;
+      for (double y = 0.5 * h; y <= pl->height - 0.5 * h; y += 0.25 * h)
+        for (double x = 0.5 * w; x <= pl->width - 0.5 * w; x += 0.125 * w)
+          {
+            double d = hypot (x - cx, y - cy);
+            if (d < best_d && placer_overlap (pl, x - 0.5 * w, y - 0.5 * h, w, h) <= 0.0)
+              {
+                best_d = d;
+                bx = x;
+                by = y;
+              }
+          }
+    }
+  if (hypot (bx - cx, by - cy) > LABEL_LEADER_LINES * (h + 2.0))
+    {
+      /* From the label's nearest edge back to where it belongs. */
+      double ex = fmin (fmax (cx, bx - 0.5 * w), bx + 0.5 * w);
+      double ey = fmin (fmax (cy, by - 0.5 * h), by + 0.5 * h);
+      set_rgba (cr, color, 0.6);
+      cairo_set_line_width (cr, 0.8 * px_size);
+      cairo_set_dash (cr, NULL, 0, 0);
+      cairo_new_path (cr);
+      cairo_move_to (cr, ex, ey);
+      cairo_line_to (cr, cx, cy);
+      cairo_stroke (cr);
     }
   placer_add (pl, bx - 0.5 * w, by - 0.5 * h, w, h);
+  layout_add (style, HL_BOX_LABEL, bx - 0.5 * w, by - 0.5 * h, w, h);
   label_pill (cr, style, text, bx, by, color);
 }
 
@@ -1218,7 +1319,7 @@ draw_cup (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
   set_rgba (cr, c, 0.18);
   cairo_fill_preserve (cr);
   set_rgba (cr, c, 0.9);
-  cairo_set_line_width (cr, 1.5);
+  cairo_set_line_width (cr, 1.5 * px_size);
   cairo_set_dash (cr, NULL, 0, 0);
   cairo_stroke (cr);
 }
@@ -1469,7 +1570,7 @@ draw_construction (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
     off = vmul (off, -1.0);
   label_place (cr, style, pl, text, mid.x + off.x * 12.0, mid.y + off.y * 12.0 - 4.0,
               style->fg);
-  snprintf (text, sizeof text, _("weight arm %.1f mm"), res->bw_arm_mm);
+  snprintf (text, sizeof text, _("lever arm %.1f mm"), res->bw_arm_mm);
   mid = vmul (vadd (sh, sw), 0.5);
   label_place (cr, style, pl, text, mid.x, mid.y + 11.0, style->fg);
 }
@@ -1482,7 +1583,7 @@ draw_option_markers (cairo_t *cr, const HlView *view, const HlRenderStyle *style
     return;
   HlRgba c = hl_palette_color (HL_ROLE_OPTION, style->dark);
   set_rgba (cr, c, 1.0);
-  cairo_set_line_width (cr, 1.6);
+  cairo_set_line_width (cr, 1.6 * px_size);
   cairo_set_dash (cr, NULL, 0, 0);
   for (int i = 0; i < HL_LM_COUNT; i++)
     {
@@ -1532,7 +1633,7 @@ draw_handles (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
       HlVec2 s = hl_view_to_screen (view, scene->native.p[i]);
       if (!vfinite (s))
         continue;
-      double r = req ? HL_RENDER_HANDLE_RADIUS_PX : HANDLE_OPTIONAL_RADIUS_PX;
+      double r = req ? HANDLE_RADIUS_PX : HANDLE_OPTIONAL_RADIUS_PX;
 
       if (i == style->hover_landmark)
         {
@@ -1545,7 +1646,7 @@ draw_handles (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
       set_rgba (cr, hl_palette_color (req ? HL_ROLE_HANDLE : HL_ROLE_HANDLE_OPTIONAL,
                                       style->dark), 1.0);
       cairo_fill_preserve (cr);
-      cairo_set_line_width (cr, 1.2);
+      cairo_set_line_width (cr, 1.2 * px_size);
       set_rgba (cr, style->fg, 0.9);
       cairo_stroke (cr);
 
@@ -1553,7 +1654,7 @@ draw_handles (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
         {
           cairo_new_path (cr);
           cairo_arc (cr, s.x, s.y, r + HANDLE_SELECT_RING_PX, 0, 2 * M_PI);
-          cairo_set_line_width (cr, 2.0);
+          cairo_set_line_width (cr, 2.0 * px_size);
           set_rgba (cr, style->fg, 1.0);
           cairo_stroke (cr);
         }
@@ -1599,7 +1700,7 @@ draw_side_markers (cairo_t *cr, const HlRenderStyle *style, double width)
       set_rgba (cr, style->bg, 0.9);
       cairo_fill_preserve (cr);
       set_rgba (cr, style->fg, 1.0);
-      cairo_set_line_width (cr, 1.5);
+      cairo_set_line_width (cr, 1.5 * px_size);
       cairo_set_dash (cr, NULL, 0, 0);
       cairo_stroke (cr);
 
@@ -1614,7 +1715,7 @@ draw_side_markers (cairo_t *cr, const HlRenderStyle *style, double width)
       cairo_text_extents (cr, words[k], &te);
       double tx = k == 0 ? x : x + SIDE_MARKER_PX - te.x_advance;
       set_rgba (cr, style->fg, 0.75);
-      cairo_move_to (cr, tx, y + SIDE_MARKER_PX + 12.0);
+      cairo_move_to (cr, tx, y + SIDE_MARKER_PX + 1.0 * style->font_px);
       cairo_show_text (cr, words[k]);
     }
 }
@@ -1637,12 +1738,24 @@ draw_title (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
   font (cr, style, 1.05, true);
   cairo_text_extents_t te;
   cairo_text_extents (cr, text, &te);
-  double room = width - 2.0 * (BOX_MARGIN_PX * 2.0 + SIDE_MARKER_PX + 60.0);
+  /* Between the side markers: smaller down to the smallest text, then
+   * cut with an ellipsis. */
+  double room = width - 2.0 * (BOX_MARGIN_PX * 2.0 + SIDE_MARKER_PX);
   if (te.x_advance > room)
-    font (cr, style, 0.85, true);
+    font (cr, style, fmax (1.05 * room / te.x_advance, SMALLEST_TEXT_SCALE), true);
   cairo_text_extents (cr, text, &te);
+  size_t len = strlen (text);
+  while (te.x_advance > room && len > 4)
+    {
+      /* Back to a character boundary, then "...". */
+      len--;
+      while (len > 0 && ((unsigned char) text[len] & 0xC0) == 0x80)
+        len--;
+      snprintf (text + len, sizeof text - len, "...");
+      cairo_text_extents (cr, text, &te);
+    }
   set_rgba (cr, style->fg, 1.0);
-  cairo_move_to (cr, 0.5 * (width - te.x_advance), BOX_MARGIN_PX + 14.0);
+  cairo_move_to (cr, 0.5 * (width - te.x_advance), BOX_MARGIN_PX + 1.2 * style->font_px);
   cairo_show_text (cr, text);
 }
 
@@ -1660,43 +1773,65 @@ nice_step (double limit)
   return p;
 }
 
-static void
+/* Draws (or only measures) a bar with its text; returns its box. */
+static Rect
 draw_bar (cairo_t *cr, const HlRenderStyle *style, double x, double y,
-          double len, const char *text, HlRgba c)
+          double len, const char *text, HlRgba c, bool draw)
 {
+  font (cr, style, 0.9, false);
+  cairo_text_extents_t te;
+  cairo_text_extents (cr, text, &te);
+  Rect box = { x - 1.0 * px_size, y - 0.75 * style->font_px,
+               len + 6.0 * px_size + te.x_advance + 2.0 * px_size,
+               0.75 * style->font_px + 0.45 * style->font_px };
+  if (!draw)
+    return box;
   cairo_set_dash (cr, NULL, 0, 0);
-  cairo_set_line_width (cr, 2.0);
+  cairo_set_line_width (cr, 2.0 * px_size);
   cairo_set_line_cap (cr, CAIRO_LINE_CAP_BUTT);
   set_rgba (cr, c, 1.0);
   cairo_new_path (cr);
-  cairo_move_to (cr, x, y - 5.0);
+  cairo_move_to (cr, x, y - 5.0 * px_size);
   cairo_line_to (cr, x, y);
   cairo_line_to (cr, x + len, y);
-  cairo_line_to (cr, x + len, y - 5.0);
+  cairo_line_to (cr, x + len, y - 5.0 * px_size);
   cairo_stroke (cr);
-  font (cr, style, 0.9, false);
-  cairo_move_to (cr, x + len + 6.0, y + 3.5);
+  cairo_move_to (cr, x + len + 6.0 * px_size, y + 0.3 * style->font_px);
   cairo_show_text (cr, text);
+  return box;
 }
 
-/* The mm scale bar (it follows the zoom) and the force scale. */
+/* The mm scale bar (it follows the zoom) and the force scale, each kept
+ * within the drawing's width; drawn, or only measured into bar[0] (mm)
+ * and bar[1] (force). */
 static void
 draw_scale_bars (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
-                 double bottom)
+                 double width, double bottom, bool draw, Rect bar[2])
 {
   char text[64];
-  double mm = nice_step (SCALE_BAR_MAX_PX / view->scale);
-  if (mm * view->scale < SCALE_BAR_MIN_PX)
-    mm = nice_step (2.0 * SCALE_BAR_MAX_PX / view->scale);
+  double x = BOX_MARGIN_PX + 2.0 * px_size;
+  double room = fmax (width - x - BOX_MARGIN_PX - 9.0 * style->font_px, SCALE_BAR_MIN_PX);
+  double max_px = fmin (SCALE_BAR_MAX_PX, room);
+  double mm = nice_step (max_px / view->scale);
+  if (mm * view->scale < SCALE_BAR_MIN_PX && 2.0 * max_px <= room)
+    mm = nice_step (2.0 * max_px / view->scale);
+  /* 50 mm reads at a glance against a pelvis about 250 mm wide. */
+  if (mm > SCALE_BAR_PREFERRED_MM && SCALE_BAR_PREFERRED_MM * view->scale >= 2.0 * style->font_px)
+    mm = SCALE_BAR_PREFERRED_MM;
   snprintf (text, sizeof text, _("%g mm"), mm);
-  draw_bar (cr, style, BOX_MARGIN_PX + 2.0, bottom - 8.0, mm * view->scale,
-            text, style->fg);
+  double line = 1.8 * style->font_px;
+  bar[0] = draw_bar (cr, style, x, bottom - 0.7 * style->font_px, mm * view->scale,
+                     text, style->fg, draw);
 
   double px_per_bw = HL_RENDER_FORCE_MM_PER_BW * view->scale;
-  double bw = nice_step (SCALE_BAR_MAX_PX / px_per_bw);
+  double bw = nice_step (max_px / px_per_bw);
+  /* One body weight, the unit of every force label, wherever it is long
+   * enough to see. */
+  if (bw > 1.0 && px_per_bw >= 2.0 * style->font_px)
+    bw = 1.0;
   snprintf (text, sizeof text, _("%g BW (force scale)"), bw);
-  draw_bar (cr, style, BOX_MARGIN_PX + 2.0, bottom - 30.0, bw * px_per_bw,
-            text, style->fg);
+  bar[1] = draw_bar (cr, style, x, bottom - 0.7 * style->font_px - line, bw * px_per_bw,
+                     text, style->fg, draw);
 }
 
 /* kind: 0 an arrow, 1 a required handle, 2 an optional handle, 3 a moved
@@ -1709,7 +1844,7 @@ typedef struct {
 
 static double
 draw_legend (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
-             double width, double bottom)
+             double width, double bottom, bool draw, Rect *box)
 {
   LegendRow rows[HL_FORCE_N + 4];
   int n = 0;
@@ -1742,7 +1877,7 @@ draw_legend (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
     }
 
   font (cr, style, 0.9, false);
-  double row_h = style->font_px * 1.35, sample = 26.0, w = 0.0;
+  double row_h = style->font_px * 1.35, sample = 26.0 * px_size, w = 0.0;
   for (int i = 0; i < n; i++)
     {
       cairo_text_extents_t te;
@@ -1752,13 +1887,17 @@ draw_legend (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
   double bw = w + sample + 3.0 * LABEL_GAP_PX;
   double bh = n * row_h + LABEL_GAP_PX;
   double x = width - BOX_MARGIN_PX - bw, y = bottom - bh;
+  if (box != NULL)
+    *box = (Rect) { x, y, bw, bh };
+  if (!draw)
+    return bw;
 
   cairo_new_path (cr);
   cairo_rectangle (cr, x, y, bw, bh);
   set_rgba (cr, style->bg, 0.85);
   cairo_fill_preserve (cr);
   set_rgba (cr, style->fg, 0.3);
-  cairo_set_line_width (cr, 1.0);
+  cairo_set_line_width (cr, 1.0 * px_size);
   cairo_set_dash (cr, NULL, 0, 0);
   cairo_stroke (cr);
 
@@ -1782,22 +1921,22 @@ draw_legend (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
         case 1:
         case 2:
           handle_shape (cr, v2 (sx + 0.5 * sample, cy), rows[i].kind == 1,
-                        rows[i].kind == 1 ? HL_RENDER_HANDLE_RADIUS_PX
+                        rows[i].kind == 1 ? HANDLE_RADIUS_PX
                                           : HANDLE_OPTIONAL_RADIUS_PX);
           set_rgba (cr, c, 1.0);
           cairo_fill_preserve (cr);
           set_rgba (cr, style->fg, 0.9);
-          cairo_set_line_width (cr, 1.2);
+          cairo_set_line_width (cr, 1.2 * px_size);
           cairo_stroke (cr);
           break;
         case 3:
           set_rgba (cr, c, 1.0);
-          cairo_set_line_width (cr, 1.6);
+          cairo_set_line_width (cr, 1.6 * px_size);
           cairo_new_path (cr);
-          cairo_move_to (cr, sx + 0.5 * sample - 4, cy - 4);
-          cairo_line_to (cr, sx + 0.5 * sample + 4, cy + 4);
-          cairo_move_to (cr, sx + 0.5 * sample - 4, cy + 4);
-          cairo_line_to (cr, sx + 0.5 * sample + 4, cy - 4);
+          cairo_move_to (cr, sx + 0.5 * sample - MARKER_HALF_PX, cy - MARKER_HALF_PX);
+          cairo_line_to (cr, sx + 0.5 * sample + MARKER_HALF_PX, cy + MARKER_HALF_PX);
+          cairo_move_to (cr, sx + 0.5 * sample - MARKER_HALF_PX, cy + MARKER_HALF_PX);
+          cairo_line_to (cr, sx + 0.5 * sample + MARKER_HALF_PX, cy - MARKER_HALF_PX);
           cairo_stroke (cr);
           break;
         default:
@@ -1847,7 +1986,7 @@ draw_error_box (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
   set_rgba (cr, hl_palette_color (HL_ROLE_ERROR_FILL, style->dark), 1.0);
   cairo_fill_preserve (cr);
   set_rgba (cr, hl_palette_color (HL_ROLE_ERROR, style->dark), 1.0);
-  cairo_set_line_width (cr, 2.0);
+  cairo_set_line_width (cr, 2.0 * px_size);
   cairo_set_dash (cr, NULL, 0, 0);
   cairo_stroke (cr);
 
@@ -1875,7 +2014,7 @@ draw_error_box (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
 /* The caution at the foot; returns its height. */
 static double
 draw_caution (cairo_t *cr, const HlRenderStyle *style, double width,
-              double height)
+              double height, bool draw)
 {
   Wrapped lines;
   font (cr, style, CAUTION_FONT_SCALE, false);
@@ -1883,13 +2022,15 @@ draw_caution (cairo_t *cr, const HlRenderStyle *style, double width,
   double lh = style->font_px * CAUTION_LINE_EM;
   double bh = lines.n * lh + CAUTION_PAD_PX;
   double y = height - bh;
+  if (!draw)
+    return bh;
 
   cairo_new_path (cr);
   cairo_rectangle (cr, 0, y, width, bh);
   set_rgba (cr, style->bg, 0.92);
   cairo_fill (cr);
   set_rgba (cr, style->fg, 0.4);
-  cairo_set_line_width (cr, 1.0);
+  cairo_set_line_width (cr, 1.0 * px_size);
   cairo_set_dash (cr, NULL, 0, 0);
   cairo_new_path (cr);
   cairo_move_to (cr, 0, y + 0.5);
@@ -1899,7 +2040,7 @@ draw_caution (cairo_t *cr, const HlRenderStyle *style, double width,
   set_rgba (cr, style->fg, 0.9);
   for (int i = 0; i < lines.n; i++)
     {
-      cairo_move_to (cr, BOX_MARGIN_PX, y + 5.0 + (i + 0.8) * lh);
+      cairo_move_to (cr, BOX_MARGIN_PX, y + 0.5 * CAUTION_PAD_PX + (i + 0.8) * lh);
       cairo_show_text (cr, lines.line[i]);
     }
   return bh;
@@ -1914,6 +2055,9 @@ hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
   if (cr == NULL || scene == NULL || view == NULL || style == NULL
       || !(view->scale > 0.0) || !isfinite (view->scale))
     return;
+  px_size = style->size > 0.0 && isfinite (style->size) ? style->size : 1.0;
+  if (style->layout != NULL)
+    style->layout->n = 0;
   cairo_save (cr);
   cairo_set_tolerance (cr, CURVE_TOLERANCE_PX);
   /* Bevel joins look the same as round ones on smooth outlines at these
@@ -1938,14 +2082,60 @@ hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
   double y_hi = fmin (top.y, y1 + 20.0), y_lo = fmax (bottom.y, y0 - 20.0);
 
   /* Handles first in the placer: no label may cover one. */
-  Placer pl = { .n = 0 };
-  const double hr = HL_RENDER_HANDLE_RADIUS_PX + 2.0;
+  Placer pl = { .n = 0, .width = width, .height = height };
+  const double hr = HANDLE_RADIUS_PX + 2.0 * px_size;
   for (int i = 0; i < HL_LM_COUNT; i++)
     if (hl_landmarks_has (&scene->native, (HlLandmarkId) i))
       {
         HlVec2 s = hl_view_to_screen (view, scene->native.p[i]);
         placer_add (&pl, s.x - hr, s.y - hr, 2.0 * hr, 2.0 * hr);
       }
+
+  /* Then the overlays in screen space, measured before any label is
+   * placed, so that no label covers the frame, the bars, the legend or
+   * the caution.  A legend that would crowd a small drawing is left out:
+   * the force labels name the forces. */
+  double foot = height;
+  if (style->show_caution)
+    {
+      double ch = draw_caution (cr, style, width, height, false);
+      foot -= ch;
+      placer_add (&pl, 0.0, height - ch, width, ch);
+      layout_add (style, HL_BOX_CAUTION, 0.0, height - ch, width, ch);
+    }
+  Rect bars[2];
+  if (style->show_frame)
+    {
+      double band = BOX_MARGIN_PX + SIDE_MARKER_PX + 1.3 * style->font_px;
+      placer_add (&pl, 0.0, 0.0, width, band);
+      layout_add (style, HL_BOX_FRAME, 0.0, 0.0, width, band);
+      draw_scale_bars (cr, view, style, width, foot - BOX_MARGIN_PX * 0.5, false, bars);
+      for (int k = 0; k < 2; k++)
+        {
+          placer_add (&pl, bars[k].x, bars[k].y, bars[k].w, bars[k].h);
+          layout_add (style, k == 0 ? HL_BOX_SCALE_BAR : HL_BOX_FORCE_SCALE,
+                      bars[k].x, bars[k].y, bars[k].w, bars[k].h);
+        }
+    }
+  bool legend = style->show_legend;
+  Rect legend_box = { 0 };
+  if (legend)
+    {
+      draw_legend (cr, style, scene, width, foot - BOX_MARGIN_PX, false, &legend_box);
+      double room = foot - (style->show_frame ? BOX_MARGIN_PX + SIDE_MARKER_PX : 0.0);
+      legend = legend_box.h <= 0.6 * room && legend_box.w <= 0.5 * width;
+    }
+  if (legend)
+    {
+      placer_add (&pl, legend_box.x, legend_box.y, legend_box.w, legend_box.h);
+      layout_add (style, HL_BOX_LEGEND, legend_box.x, legend_box.y, legend_box.w,
+                  legend_box.h);
+    }
+  if (style->layout != NULL)
+    {
+      style->layout->legend_shown = legend;
+      style->layout->body_text_px = SMALLEST_TEXT_SCALE * style->font_px;
+    }
 
   if (!style->hide_schematic)
     {
@@ -1978,13 +2168,12 @@ hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
       draw_side_markers (cr, style, width);
       draw_title (cr, style, scene, width);
     }
-  double foot = height;
   if (style->show_caution)
-    foot -= draw_caution (cr, style, width, height);
+    draw_caution (cr, style, width, height, true);
   if (style->show_frame)
-    draw_scale_bars (cr, view, style, foot - BOX_MARGIN_PX * 0.5);
-  if (style->show_legend)
-    draw_legend (cr, style, scene, width, foot - BOX_MARGIN_PX);
+    draw_scale_bars (cr, view, style, width, foot - BOX_MARGIN_PX * 0.5, true, bars);
+  if (legend)
+    draw_legend (cr, style, scene, width, foot - BOX_MARGIN_PX, true, NULL);
   if (!scene->solved)
     draw_error_box (cr, style, scene, width);
 
@@ -2040,19 +2229,29 @@ figure_check (int width, int height, const char *path, HlError *err)
   return HL_OK;
 }
 
-static void
-figure_draw (cairo_surface_t *surface, const HlPlan *plan, int option_index,
-             int width, int height)
+void
+hl_render_figure_draw (cairo_t *cr, const HlPlan *plan, int option_index,
+                       int width, int height, HlRenderPreset preset,
+                       HlRenderLayout *layout)
 {
-  cairo_t *cr = cairo_create (surface);
   HlRenderStyle style;
   hl_render_style_init (&style, false);
+  hl_render_style_for_target (&style, width, height, preset);
   style.show_caution = true;
+  style.layout = layout;
   HlScene scene;
   hl_scene_build (&scene, plan, option_index);
   HlView view;
   hl_render_fit_view_framed (&scene, &style, width, height, FIT_MARGIN_PX, &view);
   hl_render_scene (cr, &scene, &view, &style, width, height);
+}
+
+static void
+figure_draw (cairo_surface_t *surface, const HlPlan *plan, int option_index,
+             int width, int height, HlRenderPreset preset)
+{
+  cairo_t *cr = cairo_create (surface);
+  hl_render_figure_draw (cr, plan, option_index, width, height, preset, NULL);
   cairo_destroy (cr);
 }
 
@@ -2060,6 +2259,24 @@ HlStatus
 hl_render_figure_png (const HlPlan *plan, int option_index, int width,
                       int height, const char *path, HlError *err)
 {
+  return hl_render_figure_png_preset (plan, option_index, width, height,
+                                      HL_RENDER_PRESET_AUTO, path, err);
+}
+
+HlStatus
+hl_render_figure_svg (const HlPlan *plan, int option_index, int width,
+                      int height, const char *path, HlError *err)
+{
+  return hl_render_figure_svg_preset (plan, option_index, width, height,
+                                      HL_RENDER_PRESET_AUTO, path, err);
+}
+
+HlStatus
+hl_render_figure_png_preset (const HlPlan *plan, int option_index, int width,
+                             int height, HlRenderPreset preset, const char *path,
+                             HlError *err)
+{
+  hl_render_preset_size (preset, &width, &height);
   HlStatus st = figure_check (width, height, path, err);
   if (st != HL_OK)
     return st;
@@ -2071,7 +2288,7 @@ hl_render_figure_png (const HlPlan *plan, int option_index, int width,
       return hl_error_set (err, HL_ERR_NOMEM, "figure", "%s",
                            _("There is not enough memory for the figure."));
     }
-  figure_draw (surface, plan, option_index, width, height);
+  figure_draw (surface, plan, option_index, width, height, preset);
   cairo_status_t cs = cairo_surface_write_to_png (surface, path);
   cairo_surface_destroy (surface);
   if (cs != CAIRO_STATUS_SUCCESS)
@@ -2081,9 +2298,11 @@ hl_render_figure_png (const HlPlan *plan, int option_index, int width,
 }
 
 HlStatus
-hl_render_figure_svg (const HlPlan *plan, int option_index, int width,
-                      int height, const char *path, HlError *err)
+hl_render_figure_svg_preset (const HlPlan *plan, int option_index, int width,
+                             int height, HlRenderPreset preset, const char *path,
+                             HlError *err)
 {
+  hl_render_preset_size (preset, &width, &height);
   HlStatus st = figure_check (width, height, path, err);
   if (st != HL_OK)
     return st;
@@ -2091,7 +2310,7 @@ hl_render_figure_svg (const HlPlan *plan, int option_index, int width,
   cairo_status_t cs = cairo_surface_status (surface);
   if (cs == CAIRO_STATUS_SUCCESS)
     {
-      figure_draw (surface, plan, option_index, width, height);
+      figure_draw (surface, plan, option_index, width, height, preset);
       cairo_surface_finish (surface);
       cs = cairo_surface_status (surface);
     }

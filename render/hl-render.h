@@ -63,7 +63,48 @@ void hl_view_fit_box (HlView *view, double x0, double y0, double x1,
  * plan point under the screen point (sx, sy) where it is. */
 void hl_view_zoom_about (HlView *view, double factor, double sx, double sy);
 
+/* ---- Layout ----------------------------------------------------------- */
+
+/* What a drawing placed where, in px of the target: recorded when the
+ * style asks for it, so that tests can check the layout without a
+ * display (no two labels overlap, the bars and the legend lie inside). */
+typedef enum {
+  HL_BOX_LABEL,        /* a force value, a moment arm, a landmark name */
+  HL_BOX_SCALE_BAR,    /* the mm scale bar with its text */
+  HL_BOX_FORCE_SCALE,  /* the force scale with its text */
+  HL_BOX_LEGEND,
+  HL_BOX_CAUTION,
+  HL_BOX_FRAME,        /* the side markers and the title */
+} HlBoxKind;
+
+#define HL_RENDER_LAYOUT_MAX 64
+
+typedef struct {
+  HlBoxKind kind;
+  double x, y, w, h;
+} HlRenderBox;
+
+typedef struct {
+  int n;
+  HlRenderBox box[HL_RENDER_LAYOUT_MAX];
+  double body_text_px;   /* the font size of label text, px */
+  bool legend_shown;
+} HlRenderLayout;
+
 /* ---- Style ------------------------------------------------------------ */
+
+/* Targets with their own text size. */
+typedef enum {
+  HL_RENDER_PRESET_AUTO = 0,   /* text and markers follow the target's size */
+  HL_RENDER_PRESET_SLIDE,      /* a 16:9 slide, 1920 x 1080 px, body text >= 24 px */
+  HL_RENDER_PRESET_HALF_SLIDE, /* half a 16:9 slide, 960 x 1080 px, body text >= 24 px */
+} HlRenderPreset;
+
+/* Body text of a slide preset, px: readable from the back of a room
+ * (common practice for slides). */
+#define HL_RENDER_SLIDE_TEXT_PX 24.0
+/* The smallest body text of any target, px. */
+#define HL_RENDER_TEXT_MIN_PX 8.0
 
 typedef struct {
   bool dark;                 /* dark theme: lighter variants of the palette */
@@ -82,10 +123,24 @@ typedef struct {
   int hover_template;        /* HlTemplatePart (hl-render-template.h) or -1 */
   int selected_template;     /* HlTemplatePart or -1 */
   double font_px;            /* base text size */
+  double size;               /* multiplies every px size (markers, lines,
+                              * gaps, bands); 1 on screen */
+  HlRenderLayout *layout;    /* NULL, or where to record the layout */
 } HlRenderStyle;
 
 /* The light (figures, reports) or dark defaults. */
 void hl_render_style_init (HlRenderStyle *style, bool dark);
+
+/* Text, markers, lines and bands sized for a width x height target: one
+ * description for every output.  The default figure (1200 x 900) keeps
+ * the screen's sizes; smaller and larger targets scale, with the text never
+ * below HL_RENDER_TEXT_MIN_PX; the slide presets give at least
+ * HL_RENDER_SLIDE_TEXT_PX. */
+void hl_render_style_for_target (HlRenderStyle *style, double width,
+                                 double height, HlRenderPreset preset);
+
+/* The size of a preset (AUTO: unchanged). */
+void hl_render_preset_size (HlRenderPreset preset, int *width, int *height);
 
 /* ---- Scenes ----------------------------------------------------------- */
 
@@ -172,6 +227,18 @@ HlStatus hl_render_figure_png (const HlPlan *plan, int option_index,
 HlStatus hl_render_figure_svg (const HlPlan *plan, int option_index,
                                int width, int height, const char *path,
                                HlError *err);
+/* The same at a preset's size and text (AUTO: width x height). */
+HlStatus hl_render_figure_png_preset (const HlPlan *plan, int option_index,
+                                      int width, int height, HlRenderPreset preset,
+                                      const char *path, HlError *err);
+HlStatus hl_render_figure_svg_preset (const HlPlan *plan, int option_index,
+                                      int width, int height, HlRenderPreset preset,
+                                      const char *path, HlError *err);
+/* Draws the figure of the plan into `cr` as the files get it, recording
+ * the layout into `layout` (may be NULL): for the tests. */
+void hl_render_figure_draw (cairo_t *cr, const HlPlan *plan, int option_index,
+                            int width, int height, HlRenderPreset preset,
+                            HlRenderLayout *layout);
 
 #ifdef __cplusplus
 }

@@ -1096,6 +1096,42 @@ block_mc_note (HlLayout *L, double y, bool draw)
                     false, ink_soft, false, draw);
 }
 
+/* The schematic of page 2 in a width x height box at the report's own
+ * text size; markers, lines and bars follow it. */
+#define REPORT_FIGURE_FONT_PT 8.0
+
+static void
+report_figure (const HlReport *r, cairo_t *cr, double width, double height,
+               HlRenderLayout *layout)
+{
+  HlRenderStyle style;
+  HlScene scene;
+  HlView view;
+  hl_render_style_init (&style, false);
+  style.font_px = REPORT_FIGURE_FONT_PT;
+  style.size = style.font_px / 12.0;
+  style.paint_background = true;
+  style.show_caution = false;
+  style.layout = layout;
+  hl_scene_build (&scene, r->plan, r->figure_option);
+  hl_render_fit_view_framed (&scene, &style, width, height, FIGURE_MARGIN_PX * style.size,
+                             &view);
+  hl_render_scene (cr, &scene, &view, &style, width, height);
+}
+
+void
+hl_report_figure_layout (const HlReport *r, HlRenderLayout *layout, double *width,
+                         double *height)
+{
+  *width = content_width ();
+  *height = FIGURE_H;
+  cairo_surface_t *rec = cairo_recording_surface_create (CAIRO_CONTENT_COLOR_ALPHA, NULL);
+  cairo_t *cr = cairo_create (rec);
+  report_figure (r, cr, *width, *height, layout);
+  cairo_destroy (cr);
+  cairo_surface_destroy (rec);
+}
+
 static double
 block_figure (HlLayout *L, double y, bool draw)
 {
@@ -1112,20 +1148,11 @@ block_figure (HlLayout *L, double y, bool draw)
   if (draw)
     {
       cairo_t *cr = L->cr;
-      HlRenderStyle style;
-      HlScene scene;
-      HlView view;
-      hl_render_style_init (&style, false);
-      style.font_px = 8.0;
-      style.paint_background = true;
-      style.show_caution = false;
-      hl_scene_build (&scene, r->plan, r->figure_option);
       cairo_save (cr);
       cairo_translate (cr, content_left (), y + h);
       cairo_rectangle (cr, 0, 0, content_width (), fh);
       cairo_clip (cr);
-      hl_render_fit_view_framed (&scene, &style, content_width (), fh, FIGURE_MARGIN_PX, &view);
-      hl_render_scene (cr, &scene, &view, &style, content_width (), fh);
+      report_figure (r, cr, content_width (), fh, NULL);
       cairo_restore (cr);
       set_rgba (cr, rule);
       cairo_set_line_width (cr, 0.6);
@@ -1457,23 +1484,26 @@ hl_figure_format_from_path (const char *path, HlFigureFormat *format)
 }
 
 static void
-figure_draw (cairo_t *cr, const HlPlan *plan, int option_index, int width, int height)
+figure_draw (cairo_t *cr, const HlPlan *plan, int option_index, int width, int height,
+             HlRenderPreset preset)
 {
-  HlRenderStyle style;
-  HlScene scene;
-  HlView view;
-  hl_render_style_init (&style, false);
-  style.show_caution = true;
-  style.paint_background = true;
-  hl_scene_build (&scene, plan, option_index);
-  hl_render_fit_view_framed (&scene, &style, width, height, FIGURE_MARGIN_PX, &view);
-  hl_render_scene (cr, &scene, &view, &style, width, height);
+  hl_render_figure_draw (cr, plan, option_index, width, height, preset, NULL);
 }
 
 HlStatus
 hl_figure_to_buffer (const HlPlan *plan, int option_index, int width, int height,
                      HlFigureFormat format, unsigned char **out, size_t *size, HlError *err)
 {
+  return hl_figure_to_buffer_preset (plan, option_index, width, height,
+                                     HL_RENDER_PRESET_AUTO, format, out, size, err);
+}
+
+HlStatus
+hl_figure_to_buffer_preset (const HlPlan *plan, int option_index, int width, int height,
+                            HlRenderPreset preset, HlFigureFormat format,
+                            unsigned char **out, size_t *size, HlError *err)
+{
+  hl_render_preset_size (preset, &width, &height);
   if (width < HL_FIGURE_SIZE_MIN || width > HL_FIGURE_SIZE_MAX
       || height < HL_FIGURE_SIZE_MIN || height > HL_FIGURE_SIZE_MAX)
     return hl_error_set (err, HL_ERR_INVALID, "figure size",
@@ -1501,7 +1531,7 @@ hl_figure_to_buffer (const HlPlan *plan, int option_index, int width, int height
       cairo_surface_t *surface = cairo_svg_surface_create_for_stream (mem_write_cb, &m,
                                                                       width, height);
       cairo_t *cr = cairo_create (surface);
-      figure_draw (cr, plan, option_index, width, height);
+      figure_draw (cr, plan, option_index, width, height, preset);
       cairo_destroy (cr);
       return finish_stream (surface, &m, _("figure"), out, size, err);
     }
@@ -1514,7 +1544,7 @@ hl_figure_to_buffer (const HlPlan *plan, int option_index, int width, int height
                            _("There is not enough memory for the figure."));
     }
   cairo_t *cr = cairo_create (img);
-  figure_draw (cr, plan, option_index, width, height);
+  figure_draw (cr, plan, option_index, width, height, preset);
   cairo_destroy (cr);
   cairo_status_t cs = cairo_surface_write_to_png_stream (img, mem_write_cb, &m);
   cairo_surface_destroy (img);
@@ -1533,6 +1563,14 @@ HlStatus
 hl_figure_save (const HlPlan *plan, int option_index, int width, int height,
                 const char *path, HlError *err)
 {
+  return hl_figure_save_preset (plan, option_index, width, height,
+                                HL_RENDER_PRESET_AUTO, path, err);
+}
+
+HlStatus
+hl_figure_save_preset (const HlPlan *plan, int option_index, int width, int height,
+                       HlRenderPreset preset, const char *path, HlError *err)
+{
   HlFigureFormat format;
   if (!hl_figure_format_from_path (path, &format))
     return hl_error_set (err, HL_ERR_INVALID, "figure path",
@@ -1540,8 +1578,8 @@ hl_figure_save (const HlPlan *plan, int option_index, int width, int height,
                          path != NULL ? path : "");
   unsigned char *data = NULL;
   size_t size = 0;
-  HlStatus st = hl_figure_to_buffer (plan, option_index, width, height, format, &data,
-                                     &size, err);
+  HlStatus st = hl_figure_to_buffer_preset (plan, option_index, width, height, preset,
+                                            format, &data, &size, err);
   if (st == HL_OK)
     st = hl_write_file_atomic (path, data, size, err);
   free (data);

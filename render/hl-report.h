@@ -27,6 +27,7 @@
 #include <cairo.h>
 
 #include "hl-plan.h"
+#include "hl-render.h"
 #include "hl-types.h"
 
 #ifdef __cplusplus
@@ -73,6 +74,10 @@ int hl_report_n_pages (const HlReport *report);
 /* Draws page `page` (0-based) with its origin at the top left, in points
  * of an A4 page; the caller scales for anything else. */
 void hl_report_draw_page (const HlReport *report, cairo_t *cr, int page);
+/* The layout of page 2's schematic, in points of its box (width x
+ * height): for the tests. */
+void hl_report_figure_layout (const HlReport *report, HlRenderLayout *layout,
+                              double *width, double *height);
 
 /* The whole report as a PDF in memory; *out is malloc'd. */
 HlStatus hl_report_pdf_to_buffer (const HlReport *report, unsigned char **out,
@@ -101,6 +106,15 @@ HlStatus hl_figure_to_buffer (const HlPlan *plan, int option_index, int width,
 /* The same written atomically to path, the format from its extension. */
 HlStatus hl_figure_save (const HlPlan *plan, int option_index, int width,
                          int height, const char *path, HlError *err);
+/* Both at a preset's size and text (HL_RENDER_PRESET_AUTO: width x height
+ * with text and markers scaled to it). */
+HlStatus hl_figure_to_buffer_preset (const HlPlan *plan, int option_index, int width,
+                                     int height, HlRenderPreset preset,
+                                     HlFigureFormat format, unsigned char **out,
+                                     size_t *size, HlError *err);
+HlStatus hl_figure_save_preset (const HlPlan *plan, int option_index, int width,
+                                int height, HlRenderPreset preset, const char *path,
+                                HlError *err);
 
 /* ---- Sweep tables ----------------------------------------------------- */
 

@@ -17,6 +17,7 @@
 #include <unistd.h>
 
 #include "hl-render.h"
+#include "hl-report.h"
 
 #define W 1000
 #define H 700
@@ -598,6 +599,161 @@ START_TEST (test_palette)
 }
 END_TEST
 
+/* ---- Layout at every target ------------------------------------------------ */
+
+/* Boxes that touch within this are taken as apart (anti-aliasing). */
+#define LAYOUT_TOL_PX 0.5
+
+static bool
+boxes_meet (const HlRenderBox *a, const HlRenderBox *b)
+{
+  return a->x + a->w > b->x + LAYOUT_TOL_PX && b->x + b->w > a->x + LAYOUT_TOL_PX
+         && a->y + a->h > b->y + LAYOUT_TOL_PX && b->y + b->h > a->y + LAYOUT_TOL_PX;
+}
+
+static bool
+box_inside (const HlRenderBox *b, double w, double h)
+{
+  return b->x >= -LAYOUT_TOL_PX && b->y >= -LAYOUT_TOL_PX
+         && b->x + b->w <= w + LAYOUT_TOL_PX && b->y + b->h <= h + LAYOUT_TOL_PX;
+}
+
+static const char *const box_names[] = {
+  "label", "scale bar", "force scale", "legend", "caution", "frame",
+};
+
+/* No two labels meet, no label meets the bars, the legend, the caution or
+ * the frame; labels, bars and legend lie inside the drawing; the text is at
+ * least min_text_px. */
+static void
+check_layout (const char *what, const HlRenderLayout *l, double w, double h,
+              double min_text_px)
+{
+  int n_labels = 0, n_bars = 0;
+  ck_assert_msg (l->n < HL_RENDER_LAYOUT_MAX, "%s: the layout is full", what);
+  for (int i = 0; i < l->n; i++)
+    {
+      const HlRenderBox *a = &l->box[i];
+      n_labels += a->kind == HL_BOX_LABEL;
+      n_bars += a->kind == HL_BOX_SCALE_BAR || a->kind == HL_BOX_FORCE_SCALE;
+      ck_assert_msg (box_inside (a, w, h), "%s: the %s at (%.1f, %.1f) %.1f x %.1f leaves "
+                     "the %.0f x %.0f drawing", what, box_names[a->kind], a->x, a->y,
+                     a->w, a->h, w, h);
+      for (int j = 0; j < i; j++)
+        {
+          const HlRenderBox *b = &l->box[j];
+          if (a->kind != HL_BOX_LABEL && b->kind != HL_BOX_LABEL)
+            continue;
+          ck_assert_msg (!boxes_meet (a, b), "%s: a %s (%.1f, %.1f, %.1f x %.1f) meets a "
+                         "%s (%.1f, %.1f, %.1f x %.1f)", what, box_names[a->kind], a->x,
+                         a->y, a->w, a->h, box_names[b->kind], b->x, b->y, b->w, b->h);
+        }
+    }
+  ck_assert_msg (n_labels >= 4, "%s: %d labels", what, n_labels);
+  ck_assert_msg (n_bars == 2, "%s: %d scale bars", what, n_bars);
+  ck_assert_msg (l->body_text_px >= min_text_px - 1e-9, "%s: text %.1f px, at least %.1f",
+                 what, l->body_text_px, min_text_px);
+}
+
+typedef struct {
+  const char *name;
+  int width, height;
+  HlRenderPreset preset;
+  double min_text_px;
+} LayoutCase;
+
+static const LayoutCase layout_cases[] = {
+  { "figure 400 x 300", 400, 300, HL_RENDER_PRESET_AUTO, HL_RENDER_TEXT_MIN_PX },
+  { "figure 1200 x 900", 1200, 900, HL_RENDER_PRESET_AUTO, HL_RENDER_TEXT_MIN_PX },
+  { "figure 1920 x 1080", 1920, 1080, HL_RENDER_PRESET_AUTO, HL_RENDER_TEXT_MIN_PX },
+  { "figure A4 portrait (595 x 842)", 595, 842, HL_RENDER_PRESET_AUTO, HL_RENDER_TEXT_MIN_PX },
+  { "figure A4 landscape (842 x 595)", 842, 595, HL_RENDER_PRESET_AUTO, HL_RENDER_TEXT_MIN_PX },
+  { "slide", 0, 0, HL_RENDER_PRESET_SLIDE, HL_RENDER_SLIDE_TEXT_PX },
+  { "half slide", 0, 0, HL_RENDER_PRESET_HALF_SLIDE, HL_RENDER_SLIDE_TEXT_PX },
+};
+
+START_TEST (test_layout_figures)
+{
+  const LayoutCase *c = &layout_cases[_i];
+  HlPlan *plan = demo_plan ();
+  int w = c->width, h = c->height;
+  hl_render_preset_size (c->preset, &w, &h);
+  if (c->preset == HL_RENDER_PRESET_SLIDE)
+    ck_assert (w == 1920 && h == 1080);
+  if (c->preset == HL_RENDER_PRESET_HALF_SLIDE)
+    ck_assert (w == 960 && h == 1080);
+
+  for (int option = -1; option < (int) plan->n_options; option++)
+    {
+      HlRenderLayout layout;
+      cairo_surface_t *surface = cairo_image_surface_create (CAIRO_FORMAT_RGB24, w, h);
+      cairo_t *cr = cairo_create (surface);
+      hl_render_figure_draw (cr, plan, option, w, h, c->preset, &layout);
+      cairo_destroy (cr);
+      cairo_surface_destroy (surface);
+      char what[96];
+      snprintf (what, sizeof what, "%s, option %d", c->name, option);
+      check_layout (what, &layout, w, h, c->min_text_px);
+      /* the caution is in every figure */
+      bool caution = false;
+      for (int i = 0; i < layout.n; i++)
+        caution |= layout.box[i].kind == HL_BOX_CAUTION;
+      ck_assert_msg (caution, "%s: no caution", what);
+    }
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* The window's canvas: the screen's own sizes (style defaults), at the
+ * size of the canvas on a 1366 x 768 screen and at a large one. */
+START_TEST (test_layout_window)
+{
+  static const int sizes[][2] = { { 900, 560 }, { 1500, 900 } };
+  HlPlan *plan = demo_plan ();
+  HlScene scene;
+  hl_scene_build (&scene, plan, 0);
+  for (size_t k = 0; k < sizeof sizes / sizeof sizes[0]; k++)
+    {
+      int w = sizes[k][0], h = sizes[k][1];
+      HlRenderStyle style;
+      HlRenderLayout layout;
+      HlView view;
+      hl_render_style_init (&style, false);
+      style.layout = &layout;
+      hl_render_fit_view_framed (&scene, &style, w, h, MARGIN_PX, &view);
+      cairo_surface_t *surface = cairo_image_surface_create (CAIRO_FORMAT_RGB24, w, h);
+      cairo_t *cr = cairo_create (surface);
+      hl_render_scene (cr, &scene, &view, &style, w, h);
+      cairo_destroy (cr);
+      cairo_surface_destroy (surface);
+      char what[64];
+      snprintf (what, sizeof what, "window %d x %d", w, h);
+      check_layout (what, &layout, w, h, HL_RENDER_TEXT_MIN_PX);
+    }
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* Page 2 of the report: the schematic in its box at the report's 8 pt. */
+START_TEST (test_layout_report)
+{
+  HlPlan *plan = demo_plan ();
+  HlError err = { 0 };
+  HlReportSettings settings;
+  hl_report_settings_init (&settings);
+  settings.uncertainty = false;
+  settings.date = "2026-01-01";
+  HlReport *r = hl_report_new (plan, &settings, &err);
+  ck_assert_msg (r != NULL, "%s", err.message);
+  HlRenderLayout layout;
+  double w, h;
+  hl_report_figure_layout (r, &layout, &w, &h);
+  check_layout ("report page 2", &layout, w, h, 6.0);
+  hl_report_free (r);
+  hl_plan_free (plan);
+}
+END_TEST
+
 static Suite *
 render_suite (void)
 {
@@ -631,6 +787,14 @@ render_suite (void)
   tcase_add_loop_test (tc, test_figure_errors, 0,
                        sizeof figure_errors / sizeof figure_errors[0]);
   tcase_add_test (tc, test_palette);
+  suite_add_tcase (s, tc);
+
+  tc = tcase_create ("layout");
+  tcase_set_timeout (tc, 60);
+  tcase_add_loop_test (tc, test_layout_figures, 0,
+                       sizeof layout_cases / sizeof layout_cases[0]);
+  tcase_add_test (tc, test_layout_window);
+  tcase_add_test (tc, test_layout_report);
   suite_add_tcase (s, tc);
   return s;
 }
