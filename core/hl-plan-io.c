@@ -1302,6 +1302,141 @@ clean_xml_message (char *msg)
     msg[--len] = '\0';
 }
 
+/* libxml2's parser messages in our words (they otherwise leak its own
+ * terms, "use XML_PARSE_HUGE option" among them).  The line and the
+ * element are added by the caller. */
+static const char *
+parser_message (const xmlError *e, char *buf, size_t size)
+{
+  switch (e->code)
+    {
+    case XML_ERR_DOCUMENT_EMPTY:
+    case XML_ERR_DOCUMENT_START:
+      return _("there is no XML element in it: the first '<' is missing");
+    case XML_ERR_DOCUMENT_END:
+    case XML_ERR_EXTRA_CONTENT:
+      return _("there is more after the end of the plan");
+    case XML_ERR_INVALID_HEX_CHARREF:
+    case XML_ERR_INVALID_DEC_CHARREF:
+    case XML_ERR_INVALID_CHARREF:
+    case XML_ERR_CHARREF_AT_EOF:
+    case XML_ERR_CHARREF_IN_PROLOG:
+    case XML_ERR_CHARREF_IN_EPILOG:
+      return _("a character reference (&#...;) is malformed or names a character "
+               "XML does not allow");
+    case XML_ERR_INVALID_CHAR:
+    case XML_ERR_INVALID_ENCODING:
+    case XML_ERR_UNKNOWN_ENCODING:
+    case XML_ERR_UNSUPPORTED_ENCODING:
+    case XML_ERR_ENCODING_NAME:
+    case XML_ERR_MISSING_ENCODING:
+      return _("the bytes here are not valid UTF-8 text, or a character XML does "
+               "not allow; plan files are UTF-8 encoded");
+    case XML_ERR_ENTITYREF_AT_EOF:
+    case XML_ERR_ENTITYREF_IN_PROLOG:
+    case XML_ERR_ENTITYREF_IN_EPILOG:
+    case XML_ERR_ENTITYREF_NO_NAME:
+    case XML_ERR_ENTITYREF_SEMICOL_MISSING:
+    case XML_ERR_UNDECLARED_ENTITY:
+    case XML_WAR_UNDECLARED_ENTITY:
+    case XML_ERR_UNPARSED_ENTITY:
+    case XML_ERR_ENTITY_IS_EXTERNAL:
+    case XML_ERR_ENTITY_IS_PARAMETER:
+    case XML_ERR_ENTITY_LOOP:
+    case XML_ERR_ENTITY_BOUNDARY:
+    case XML_ERR_ENTITY_PROCESSING:
+    case XML_ERR_PEREF_AT_EOF:
+    case XML_ERR_PEREF_IN_PROLOG:
+    case XML_ERR_PEREF_IN_EPILOG:
+    case XML_ERR_PEREF_IN_INT_SUBSET:
+    case XML_ERR_PEREF_NO_NAME:
+    case XML_ERR_PEREF_SEMICOL_MISSING:
+      if (e->str1 != NULL)
+        {
+          char q[HL_QUOTE_BUF];
+          snprintf (buf, size, _("the entity '&%s;' is not one a plan can have: only "
+                                 "&amp; &lt; &gt; &quot; &apos; and character "
+                                 "references are read; write '&' as &amp;"),
+                    hl_text_quote (e->str1, HL_QUOTED_VALUE_MAX, q, sizeof q));
+          return buf;
+        }
+      return _("an '&' starts an entity that a plan cannot have: only &amp; &lt; "
+               "&gt; &quot; &apos; and character references are read; write '&' "
+               "as &amp;");
+    case XML_ERR_LT_IN_ATTRIBUTE:
+      return _("an attribute value holds '<': write it as &lt;");
+    case XML_ERR_ATTRIBUTE_NOT_STARTED:
+    case XML_ERR_ATTRIBUTE_WITHOUT_VALUE:
+    case XML_ERR_STRING_NOT_STARTED:
+    case XML_ERR_VALUE_REQUIRED:
+      return _("an attribute has no value in quotes (name=\"value\")");
+    case XML_ERR_ATTRIBUTE_NOT_FINISHED:
+    case XML_ERR_STRING_NOT_CLOSED:
+    case XML_ERR_LITERAL_NOT_FINISHED:
+      return _("an attribute value is not closed by its quote, or is too long");
+    case XML_ERR_ATTRIBUTE_REDEFINED:
+    case XML_NS_ERR_ATTRIBUTE_REDEFINED:
+      return _("an attribute appears twice in one element");
+    case XML_ERR_COMMENT_NOT_FINISHED:
+    case XML_ERR_HYPHEN_IN_COMMENT:
+      return _("a comment is not closed by '-->', or holds '--'");
+    case XML_ERR_PI_NOT_STARTED:
+    case XML_ERR_PI_NOT_FINISHED:
+    case XML_ERR_XMLDECL_NOT_STARTED:
+    case XML_ERR_XMLDECL_NOT_FINISHED:
+    case XML_ERR_RESERVED_XML_NAME:
+    case XML_ERR_VERSION_MISSING:
+    case XML_ERR_UNKNOWN_VERSION:
+    case XML_ERR_STANDALONE_VALUE:
+      return _("the XML declaration or a processing instruction (<?...?>) is "
+               "malformed or misplaced");
+    case XML_ERR_CDATA_NOT_FINISHED:
+    case XML_ERR_MISPLACED_CDATA_END:
+      return _("a CDATA section is not closed by ']]>', is too long, or ']]>' "
+               "stands in text");
+    case XML_ERR_DOCTYPE_NOT_FINISHED:
+    case XML_ERR_EXT_SUBSET_NOT_FINISHED:
+    case XML_ERR_CONDSEC_NOT_STARTED:
+    case XML_ERR_CONDSEC_NOT_FINISHED:
+    case XML_ERR_CONDSEC_INVALID:
+    case XML_ERR_CONDSEC_INVALID_KEYWORD:
+      return _("a document type declaration is malformed; plan files never have one");
+    case XML_ERR_NAME_REQUIRED:
+    case XML_ERR_NMTOKEN_REQUIRED:
+    case XML_ERR_LT_REQUIRED:
+      return _("a '<' is not followed by an element name");
+    case XML_ERR_NAME_TOO_LONG:
+      return _("an element or attribute name is too long");
+    case XML_ERR_GT_REQUIRED:
+    case XML_ERR_TAG_NOT_FINISHED:
+    case XML_ERR_LTSLASH_REQUIRED:
+      return _("an element is not closed: the file ends, or a '>' or its end tag "
+               "is missing");
+    case XML_ERR_SPACE_REQUIRED:
+    case XML_ERR_SEPARATOR_REQUIRED:
+    case XML_ERR_EQUAL_REQUIRED:
+      return _("the attributes of an element are malformed: a space or '=' is "
+               "missing");
+    case XML_ERR_TAG_NAME_MISMATCH:
+    case XML_ERR_NOT_WELL_BALANCED:
+      return _("an end tag does not match the element it closes");
+    case XML_NS_ERR_UNDEFINED_NAMESPACE:
+    case XML_NS_ERR_QNAME:
+    case XML_NS_ERR_EMPTY:
+    case XML_NS_ERR_COLON:
+    case XML_ERR_NS_DECL_ERROR:
+      return _("a name uses a namespace prefix that is not declared, or is malformed");
+    case XML_ERR_NO_MEMORY:
+      return _("out of memory, or a text too long for a plan");
+    case XML_ERR_USER_STOP:
+      return _("reading was stopped");
+    case XML_ERR_INTERNAL_ERROR:
+    default:
+      return _("the file is nested too deeply, too long in one place, or broken "
+               "in a way a plan never is");
+    }
+}
+
 static void
 xml_error_cb (void *data, xmlErrorPtr e)
 {
@@ -1328,8 +1463,14 @@ xml_error_cb (void *data, xmlErrorPtr e)
     snprintf (r->xml_element, sizeof r->xml_element, "<%s>",
               hl_text_quote ((const char *) r->ctxt->name, HL_QUOTED_VALUE_MAX - 3,
                              (char[HL_QUOTE_BUF]) { 0 }, HL_QUOTE_BUF));
+  /* The parser's messages in our words; the schema's name the element and
+   * attribute and keep libxml2's wording, without its option names. */
+  bool schema = e->domain == XML_FROM_SCHEMASV || e->domain == XML_FROM_SCHEMASP;
   snprintf (r->xml_message, sizeof r->xml_message, "%s",
-            e->message ? e->message : _("unknown XML error"));
+            !schema ? parser_message (e, (char[HL_ERROR_MESSAGE_MAX]) { 0 },
+                                      HL_ERROR_MESSAGE_MAX)
+            : e->message != NULL && strstr (e->message, "XML_PARSE") == NULL
+            ? e->message : _("the file does not match the plan schema"));
   clean_xml_message (r->xml_message);
 }
 

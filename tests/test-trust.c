@@ -713,6 +713,71 @@ END_TEST
 
 /* ---- Text that cannot mislead ------------------------------------------ */
 
+/* Every parser message is in our words, with the line: nothing of
+ * libxml2's own vocabulary ("use XML_PARSE_HUGE option"). */
+START_TEST (test_parser_messages_ours)
+{
+  static const char head[] = "<?xml version=\"1.0\"?>\n"
+                             "<plan xmlns=\"urn:hiplever:plan\" format-version=\"1\">\n";
+  static const char *const leaks[] = {
+    "XML_PARSE", "xmlSAX2", "libxml", "Premature", "Opening and ending", "Couldn't",
+    "StartTag", "EndTag", "AttValue", "xmlParse", "Excessive",
+  };
+  enum { N_DOCS = 9 };
+  char *docs[N_DOCS];
+  size_t n = 0;
+  /* Deeper than libxml2's limit of 256. */
+  size_t cap = sizeof head + 300 * 8 + 32;
+  docs[n] = malloc (cap);
+  ck_assert_ptr_nonnull (docs[n]);
+  strcpy (docs[n], head);
+  for (int i = 0; i < 300; i++)
+    strcat (docs[n], "<a>");
+  for (int i = 0; i < 300; i++)
+    strcat (docs[n], "</a>");
+  strcat (docs[n], "</plan>\n");
+  n++;
+  /* A name over libxml2's 50,000-byte limit. */
+  docs[n] = malloc (sizeof head + 60016);
+  ck_assert_ptr_nonnull (docs[n]);
+  strcpy (docs[n], head);
+  strcat (docs[n], "<");
+  memset (docs[n] + strlen (docs[n]), 'n', 60000);
+  docs[n][sizeof head - 1 + 1 + 60000] = '\0';
+  strcat (docs[n], "/></plan>\n");
+  n++;
+  static const char *const small[] = {
+    "<case></cas>\n</plan>\n",
+    "<case label=\"a&nope;b\"/>\n</plan>\n",
+    "<case label=\"a\" label=\"b\"/>\n</plan>\n",
+    "<case label=\"a<b\"/>\n</plan>\n",
+    "<case label=\"\xff\xfe\"/>\n</plan>\n",
+    "<case label=\"x\"/>\n",
+    "<x:case label=\"x\"/>\n</plan>\n",
+  };
+  for (size_t i = 0; i < N_OF (small) && n < N_DOCS; i++)
+    {
+      docs[n] = malloc (sizeof head + strlen (small[i]));
+      ck_assert_ptr_nonnull (docs[n]);
+      strcpy (docs[n], head);
+      strcat (docs[n], small[i]);
+      n++;
+    }
+  for (size_t i = 0; i < n; i++)
+    {
+      HlPlan *plan;
+      HlError err;
+      ck_assert_int_ne (load_text (docs[i], &plan, &err), HL_OK);
+      for (size_t k = 0; k < N_OF (leaks); k++)
+        ck_assert_msg (strstr (err.message, leaks[k]) == NULL, "document %zu: %s", i,
+                       err.message);
+      ck_assert_msg (strstr (err.message, "line ") != NULL && err.line > 0,
+                     "document %zu has no line: %s", i, err.message);
+      free (docs[i]);
+    }
+}
+END_TEST
+
 START_TEST (test_csv_formula_cells)
 {
   static const struct { const char *in, *out; } cases[] = {
@@ -760,6 +825,7 @@ trust_suite (void)
   suite_add_tcase (s, tc);
   tc = tcase_create ("text");
   tcase_add_test (tc, test_utf8_cut);
+  tcase_add_test (tc, test_parser_messages_ours);
   tcase_add_test (tc, test_csv_formula_cells);
   suite_add_tcase (s, tc);
   return s;
