@@ -20,6 +20,7 @@
 #include "config.h"
 
 #include <math.h>
+#include <string.h>
 #include <glib/gi18n.h>
 
 #include "hl-canvas.h"
@@ -44,6 +45,20 @@
 #define LEGEND_MIN_WIDTH_PX 640
 #define LEGEND_MIN_HEIGHT_PX 520
 
+/* What the radiograph under the drawing looks like: while it stays the
+ * same (a landmark drag moves neither the view nor the image) the canvas
+ * copies its last picture of it instead of resampling the image. */
+typedef struct {
+  HlUnderlay *underlay;
+  HlView view;
+  int width, height, scale;
+  HlVec2 origin_mm;
+  double mm_per_pixel;
+  double opacity, brightness, contrast;
+  gboolean invert;
+  HlRgba bg;
+} UnderlayKey;
+
 struct _HlCanvas
 {
   GtkWidget parent_instance;
@@ -54,6 +69,8 @@ struct _HlCanvas
   HlDocument *document;     /* its results are drawn: no solve of our own */
 
   /* owned */
+  cairo_surface_t *underlay_cache;  /* background and radiograph, at underlay_key */
+  UnderlayKey underlay_key;
   HlScene scene;
   HlView view;
   gboolean view_fitted;
@@ -344,6 +361,8 @@ hl_canvas_set_underlay (HlCanvas *self, HlUnderlay *underlay)
 {
   g_return_if_fail (HL_IS_CANVAS (self));
   self->underlay = underlay;
+  /* Another image may come at the address of one freed. */
+  g_clear_pointer (&self->underlay_cache, cairo_surface_destroy);
   gtk_widget_queue_draw (GTK_WIDGET (self));
 }
 
@@ -715,6 +734,47 @@ hl_canvas_style (HlCanvas *self, HlRenderStyle *style)
   style->selected_landmark = self->selected_landmark;
 }
 
+/* The background and the radiograph as the view shows them, drawn again
+ * only when something of them changed. */
+static cairo_surface_t *
+hl_canvas_underlay_picture (HlCanvas *self, const HlRenderStyle *style,
+                            const HlImagePlacement *placement, int width, int height)
+{
+  const HlRadiograph *rg = &self->plan->radiograph;
+  int scale = gtk_widget_get_scale_factor (GTK_WIDGET (self));
+  UnderlayKey key;
+  cairo_t *cr;
+
+  memset (&key, 0, sizeof key);
+  key.underlay = self->underlay;
+  key.view = self->view;
+  key.width = width;
+  key.height = height;
+  key.scale = scale;
+  key.origin_mm = placement->origin_mm;
+  key.mm_per_pixel = placement->mm_per_pixel;
+  key.opacity = rg->opacity;
+  key.brightness = rg->brightness;
+  key.contrast = rg->contrast;
+  key.invert = rg->invert;
+  key.bg = style->bg;
+  if (self->underlay_cache != NULL && memcmp (&key, &self->underlay_key, sizeof key) == 0)
+    return self->underlay_cache;
+
+  g_clear_pointer (&self->underlay_cache, cairo_surface_destroy);
+  self->underlay_cache = cairo_image_surface_create (CAIRO_FORMAT_RGB24, width * scale,
+                                                     height * scale);
+  cairo_surface_set_device_scale (self->underlay_cache, scale, scale);
+  cr = cairo_create (self->underlay_cache);
+  cairo_set_source_rgb (cr, style->bg.r, style->bg.g, style->bg.b);
+  cairo_paint (cr);
+  hl_underlay_draw (self->underlay, cr, &self->view, placement->origin_mm,
+                    placement->mm_per_pixel, rg->opacity);
+  cairo_destroy (cr);
+  self->underlay_key = key;
+  return self->underlay_cache;
+}
+
 static void
 hl_canvas_snapshot (GtkWidget *widget, GtkSnapshot *snapshot)
 {
@@ -734,10 +794,11 @@ hl_canvas_snapshot (GtkWidget *widget, GtkSnapshot *snapshot)
   if (self->underlay != NULL && self->plan != NULL
       && hl_image_placement (self->plan, &placement, NULL) == HL_OK)
     {
-      cairo_set_source_rgb (cr, style.bg.r, style.bg.g, style.bg.b);
+      cairo_surface_t *cache = hl_canvas_underlay_picture (self, &style, &placement,
+                                                           width, height);
+
+      cairo_set_source_surface (cr, cache, 0, 0);
       cairo_paint (cr);
-      hl_underlay_draw (self->underlay, cr, &self->view, placement.origin_mm,
-                        placement.mm_per_pixel, self->plan->radiograph.opacity);
       style.paint_background = FALSE;
     }
   style.hide_schematic = self->schematic_hidden;
@@ -815,11 +876,21 @@ hl_canvas_set_property (GObject *object, guint prop_id, const GValue *value,
 }
 
 static void
+hl_canvas_finalize (GObject *object)
+{
+  HlCanvas *self = HL_CANVAS (object);
+
+  g_clear_pointer (&self->underlay_cache, cairo_surface_destroy);
+  G_OBJECT_CLASS (hl_canvas_parent_class)->finalize (object);
+}
+
+static void
 hl_canvas_class_init (HlCanvasClass *klass)
 {
   GObjectClass *object_class = G_OBJECT_CLASS (klass);
   GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
 
+  object_class->finalize = hl_canvas_finalize;
   object_class->get_property = hl_canvas_get_property;
   object_class->set_property = hl_canvas_set_property;
 
