@@ -608,8 +608,9 @@ hl_template_suggest_cup (const HlPlan *plan, const HlTemplate *t,
   out->centre = v_add (td, v_scale (e, 0.5 * d));
   snprintf (out->reason, sizeof out->reason,
             _("%g mm: the acetabulum spans %.1f mm from the teardrop to the "
-              "lateral margin, and %g mm is the largest cup that fills it "
-              "(inferomedial edge at the teardrop, %.0f degrees; common practice)"),
+              "lateral margin, and %g mm is the largest size within half a size "
+              "step of that span (inferomedial edge at the teardrop, %.0f "
+              "degrees; common practice)"),
             d, span, d, HL_CUP_INCLINATION_TARGET_DEG);
   return HL_OK;
 }

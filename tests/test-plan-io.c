@@ -751,7 +751,11 @@ START_TEST (test_demo_contents)
   ck_assert_int_eq (hl_plan_load_file (HL_EXAMPLES_DIR "/demo.hlplan", &plan, &err), HL_OK);
   ck_assert_int_eq (plan->side, HL_SIDE_RIGHT);
   ck_assert (same_double (plan->mass_kg, 72.5));
-  ck_assert_uint_eq (plan->n_options, 3);
+  ck_assert_uint_eq (plan->n_options, 4);
+  /* the fourth option is templated from the bundled demo catalogue */
+  ck_assert (plan->options[3].recon.tmpl.on);
+  ck_assert_str_eq (plan->options[3].recon.tmpl.catalogue, "hiplever-demo");
+  ck_assert (plan->radiograph.present);
   ck_assert_msg (plan->landmarks.placed == (1u << HL_LM_COUNT) - 1,
                  "demo.hlplan must place every landmark (mask %#x)", plan->landmarks.placed);
   ck_assert (plan->cane.enabled);

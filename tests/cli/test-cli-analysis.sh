@@ -223,9 +223,9 @@ expect_rc 0 "summary"
 check "the summary is valid against the schema" xmllint --noout --schema "$XSD" "$WORK/summary.xml" 2>/dev/null
 check "the summary records the seed" grep -q 'uncertainty-seed="20260417"' "$WORK/summary.xml"
 check "the summary has the joint-load range per result" \
-  [ "$(grep -c 'jrf-bw-p05=' "$WORK/summary.xml")" -eq 4 ]
+  [ "$(grep -c 'jrf-bw-p05=' "$WORK/summary.xml")" -eq 5 ]
 check "the summary has each option's share" \
-  [ "$(grep -c 'share-lower-than-native=' "$WORK/summary.xml")" -eq 3 ]
+  [ "$(grep -c 'share-lower-than-native=' "$WORK/summary.xml")" -eq 4 ]
 $CHECK edit "$DEMO" "$WORK/seed.hlplan" uncertainty 0 samples=300 seed=99
 run uncertainty "$WORK/seed.hlplan"
 expect_rc 0 "uncertainty with the plan's own settings"
