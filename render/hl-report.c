@@ -44,7 +44,7 @@
 #define TYPE_SMALL 6.8
 #define LINE_FACTOR 1.28
 /* Scales tried, largest first, until the report keeps to two pages. */
-static const double layout_scales[] = { 1.0, 0.93, 0.86, 0.8, 0.74, 0.68 };
+static const double layout_scales[] = { 1.0, 0.93, 0.86, 0.8, 0.74, 0.68, 0.63, 0.58 };
 /* Heights of the figure and of one chart panel at scale 1, pt. */
 #define FIGURE_H 300.0
 #define CHART_H 118.0

@@ -68,6 +68,11 @@ def edit(plan, out, element, selector, assignments):
         for a in assignments:
             k, v = a.split("=", 1)
             node.set(k, v)
+        # A number set on a templated option makes it a manual option with
+        # the numbers its implants made, as a sweep of that option does.
+        if element == "option":
+            for t in node.findall(q("template")):
+                node.remove(t)
     tree.write(out, xml_declaration=True, encoding="UTF-8")
 
 
