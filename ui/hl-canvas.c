@@ -26,6 +26,7 @@
 #include "hl-canvas.h"
 #include "hl-image.h"
 #include "hl-render.h"
+#include "hl-render-template.h"
 
 /* Keyboard nudges, mm: ui.md. */
 #define NUDGE_MM 0.5
@@ -95,6 +96,12 @@ struct _HlCanvas
 
   gboolean schematic_hidden;
   gboolean click_placement;
+
+  /* the option's implant template (hl-render-template.h parts) */
+  int hover_template;
+  int selected_template;
+  int drag_template;        /* -1: no template drag */
+  HlVec2 drag_template_from;/* the press, plan frame */
 };
 
 G_DEFINE_FINAL_TYPE (HlCanvas, hl_canvas, GTK_TYPE_WIDGET)
@@ -113,6 +120,11 @@ enum {
   SIGNAL_LANDMARK_MOVED,
   SIGNAL_LANDMARK_DRAG_END,
   SIGNAL_PLAN_CLICKED,
+  SIGNAL_TEMPLATE_DRAG_BEGIN,
+  SIGNAL_TEMPLATE_DRAGGED,
+  SIGNAL_TEMPLATE_DRAG_END,
+  SIGNAL_TEMPLATE_NUDGE,
+  SIGNAL_TEMPLATE_STEP_SIZE,
   N_SIGNALS
 };
 
@@ -130,6 +142,10 @@ hl_canvas_update_accessible (HlCanvas *self)
       label = g_strdup_printf (_("Schematic. Selected: %s, x %.1f mm, y %.1f mm"),
                                _(info->label), p.x, p.y);
     }
+  else if (self->selected_template >= 0 && self->scene.has_template)
+    label = g_strdup_printf (_("Schematic. Selected: the template's %s. Arrow keys move it, "
+                               "Page Up and Page Down change the size."),
+                             hl_template_part_name (self->selected_template));
   else
     label = g_strdup (_("Schematic of the pelvis and both hips. No landmark selected."));
 
@@ -170,6 +186,13 @@ hl_canvas_rebuild (HlCanvas *self)
     }
   else
     hl_scene_build (&self->scene, self->plan, self->selected_option);
+  HlVec2 unused;
+  if (self->selected_template >= 0
+      && (!self->scene.has_template
+          || !hl_render_template_handle (&self->scene.tmpl, self->selected_template, &unused)))
+    self->selected_template = -1;
+  if (!self->scene.has_template)
+    self->hover_template = -1;
   hl_canvas_update_accessible (self);
   gtk_widget_queue_draw (GTK_WIDGET (self));
 }
@@ -299,9 +322,45 @@ hl_canvas_set_selected_landmark (HlCanvas *self, int landmark_id)
   if (landmark_id == self->selected_landmark)
     return;
   self->selected_landmark = landmark_id;
+  if (landmark_id >= 0)
+    self->selected_template = -1;
   hl_canvas_update_accessible (self);
   gtk_widget_queue_draw (GTK_WIDGET (self));
   g_object_notify_by_pspec (G_OBJECT (self), properties[PROP_SELECTED_LANDMARK]);
+}
+
+void
+hl_canvas_set_selected_template (HlCanvas *self, int part)
+{
+  g_return_if_fail (HL_IS_CANVAS (self));
+  HlVec2 unused;
+  if (part < 0 || !self->scene.has_template
+      || !hl_render_template_handle (&self->scene.tmpl, part, &unused))
+    part = -1;
+  if (part == self->selected_template)
+    return;
+  self->selected_template = part;
+  if (part >= 0)
+    hl_canvas_set_selected_landmark (self, -1);
+  hl_canvas_update_accessible (self);
+  gtk_widget_queue_draw (GTK_WIDGET (self));
+}
+
+int
+hl_canvas_get_selected_template (HlCanvas *self)
+{
+  g_return_val_if_fail (HL_IS_CANVAS (self), -1);
+  return self->selected_template;
+}
+
+gboolean
+hl_canvas_template_handle_to_widget (HlCanvas *self, int part, double *x, double *y)
+{
+  g_return_val_if_fail (HL_IS_CANVAS (self), FALSE);
+  HlVec2 at;
+  if (!self->scene.has_template || !hl_render_template_handle (&self->scene.tmpl, part, &at))
+    return FALSE;
+  return hl_canvas_plan_to_widget (self, at.x, at.y, x, y);
 }
 
 int
@@ -419,15 +478,23 @@ hl_canvas_hit (HlCanvas *self, double x, double y)
   return hl_render_hit_landmark (self->plan, &self->view, x, y, HIT_RADIUS_PX);
 }
 
+static int
+hl_canvas_hit_template (HlCanvas *self, double x, double y)
+{
+  if (self->click_placement || !self->scene.has_template)
+    return -1;
+  return hl_render_hit_template (&self->scene.tmpl, &self->view, x, y, HIT_RADIUS_PX);
+}
+
 static void
 hl_canvas_update_cursor (HlCanvas *self)
 {
   const char *name = NULL;
   if (self->click_placement)
     name = "crosshair";
-  else if (self->drag_landmark >= 0 && self->drag_started)
+  else if ((self->drag_landmark >= 0 || self->drag_template >= 0) && self->drag_started)
     name = "grabbing";
-  else if (self->hover_landmark >= 0)
+  else if (self->hover_landmark >= 0 || self->hover_template >= 0)
     name = "grab";
   gtk_widget_set_cursor_from_name (GTK_WIDGET (self), name);
 }
@@ -449,8 +516,18 @@ motion_cb (GtkEventControllerMotion *controller, double x, double y,
   self->pointer_x = x;
   self->pointer_y = y;
   self->pointer_inside = TRUE;
-  if (self->drag_landmark < 0 || !self->drag_started)
-    hl_canvas_set_hover (self, hl_canvas_hit (self, x, y));
+  if ((self->drag_landmark < 0 && self->drag_template < 0) || !self->drag_started)
+    {
+      int lm = hl_canvas_hit (self, x, y);
+      int part = lm < 0 ? hl_canvas_hit_template (self, x, y) : -1;
+      if (part != self->hover_template)
+        {
+          self->hover_template = part;
+          gtk_widget_queue_draw (GTK_WIDGET (self));
+        }
+      hl_canvas_set_hover (self, lm);
+      hl_canvas_update_cursor (self);
+    }
 }
 
 static void
@@ -459,6 +536,11 @@ leave_cb (GtkEventControllerMotion *controller, HlCanvas *self)
   self->pointer_inside = FALSE;
   if (self->drag_landmark < 0)
     hl_canvas_set_hover (self, -1);
+  if (self->drag_template < 0 && self->hover_template >= 0)
+    {
+      self->hover_template = -1;
+      gtk_widget_queue_draw (GTK_WIDGET (self));
+    }
 }
 
 static void
@@ -480,6 +562,15 @@ drag_begin_cb (GtkGestureDrag *gesture, double x, double y, HlCanvas *self)
       self->drag_grab_mm = (HlVec2) { at.x - p.x, at.y - p.y };
       hl_canvas_set_selected_landmark (self, self->drag_landmark);
     }
+  else
+    {
+      self->drag_template = hl_canvas_hit_template (self, x, y);
+      if (self->drag_template >= 0)
+        {
+          self->drag_template_from = hl_view_to_plan (&self->view, (HlVec2) { x, y });
+          hl_canvas_set_selected_template (self, self->drag_template);
+        }
+    }
 }
 
 static void
@@ -487,6 +578,22 @@ drag_update_cb (GtkGestureDrag *gesture, double dx, double dy, HlCanvas *self)
 {
   if (self->drag_cancelled)
     return;
+  if (self->drag_template >= 0)
+    {
+      if (!self->drag_started)
+        {
+          if (dx == 0.0 && dy == 0.0)
+            return;
+          self->drag_started = TRUE;
+          hl_canvas_update_cursor (self);
+          g_signal_emit (self, signals[SIGNAL_TEMPLATE_DRAG_BEGIN], 0, self->drag_template);
+        }
+      HlVec2 to = hl_view_to_plan (&self->view,
+                                   (HlVec2) { self->drag_x0 + dx, self->drag_y0 + dy });
+      g_signal_emit (self, signals[SIGNAL_TEMPLATE_DRAGGED], 0, self->drag_template,
+                     self->drag_template_from.x, self->drag_template_from.y, to.x, to.y);
+      return;
+    }
   if (self->drag_landmark < 0)
     {
       self->view.tx = self->pan_tx0 + dx;
@@ -513,6 +620,10 @@ drag_end_cb (GtkGestureDrag *gesture, double dx, double dy, HlCanvas *self)
 {
   int id = self->drag_landmark;
   gboolean started = self->drag_started;
+  int part = self->drag_template;
+  self->drag_template = -1;
+  if (part >= 0 && started && !self->drag_cancelled)
+    g_signal_emit (self, signals[SIGNAL_TEMPLATE_DRAG_END], 0, part, FALSE);
   self->drag_landmark = -1;
   self->drag_started = FALSE;
   if (id >= 0 && started && !self->drag_cancelled)
@@ -525,6 +636,13 @@ drag_end_cb (GtkGestureDrag *gesture, double dx, double dy, HlCanvas *self)
 static gboolean
 hl_canvas_cancel_drag (HlCanvas *self)
 {
+  if (self->drag_template >= 0 && self->drag_started && !self->drag_cancelled)
+    {
+      self->drag_cancelled = TRUE;
+      g_signal_emit (self, signals[SIGNAL_TEMPLATE_DRAG_END], 0, self->drag_template, TRUE);
+      gtk_gesture_set_state (self->drag, GTK_EVENT_SEQUENCE_DENIED);
+      return TRUE;
+    }
   if (self->drag_landmark < 0 || !self->drag_started || self->drag_cancelled)
     {
       if (self->drag_landmark < 0 && gtk_gesture_is_active (self->drag))
@@ -559,6 +677,8 @@ click_released_cb (GtkGestureClick *gesture, int n_press, double x, double y,
     }
   if (hl_canvas_hit (self, x, y) < 0)
     hl_canvas_set_selected_landmark (self, -1);
+  if (hl_canvas_hit (self, x, y) >= 0 || hl_canvas_hit_template (self, x, y) < 0)
+    hl_canvas_set_selected_template (self, -1);
 }
 
 /* ---- Scroll and pinch --------------------------------------------------- */
@@ -627,10 +747,19 @@ hl_canvas_cycle (HlCanvas *self, int from, int step)
 {
   if (self->plan == NULL)
     return -1;
-  int i = from < 0 ? (step > 0 ? -1 : HL_LM_COUNT) : from;
-  for (i += step; i >= 0 && i < HL_LM_COUNT; i += step)
-    if (hl_landmarks_has (&self->plan->landmarks, i))
-      return i;
+  /* Positions 0 .. HL_LM_COUNT - 1 are the landmarks, then the template's
+   * handles (cup, inclination, stem). */
+  const int n = HL_LM_COUNT + HL_TEMPLATE_PART_N;
+  int i = from < 0 ? (step > 0 ? -1 : n) : from;
+  for (i += step; i >= 0 && i < n; i += step)
+    {
+      HlVec2 unused;
+      if (i < HL_LM_COUNT ? hl_landmarks_has (&self->plan->landmarks, i)
+                          : self->scene.has_template
+                              && hl_render_template_handle (&self->scene.tmpl,
+                                                            i - HL_LM_COUNT, &unused))
+        return i;
+    }
   return -1;
 }
 
@@ -672,10 +801,23 @@ key_pressed_cb (GtkEventControllerKey *controller, guint keyval, guint keycode,
     case GDK_KEY_ISO_Left_Tab:
       {
         int step_dir = (shift || keyval == GDK_KEY_ISO_Left_Tab) ? -1 : 1;
-        int next = hl_canvas_cycle (self, self->selected_landmark, step_dir);
-        hl_canvas_set_selected_landmark (self, next);
+        int from = self->selected_template >= 0 ? HL_LM_COUNT + self->selected_template
+                                                : self->selected_landmark;
+        int next = hl_canvas_cycle (self, from, step_dir);
+        hl_canvas_set_selected_landmark (self, next < HL_LM_COUNT ? next : -1);
+        hl_canvas_set_selected_template (self, next >= HL_LM_COUNT ? next - HL_LM_COUNT : -1);
         return next >= 0;
       }
+    case GDK_KEY_Page_Up:
+    case GDK_KEY_KP_Page_Up:
+    case GDK_KEY_Page_Down:
+    case GDK_KEY_KP_Page_Down:
+      if (self->selected_template != HL_TEMPLATE_PART_CUP
+          && self->selected_template != HL_TEMPLATE_PART_STEM)
+        return FALSE;
+      g_signal_emit (self, signals[SIGNAL_TEMPLATE_STEP_SIZE], 0, self->selected_template,
+                     (keyval == GDK_KEY_Page_Up || keyval == GDK_KEY_KP_Page_Up) ? 1 : -1);
+      return TRUE;
     case GDK_KEY_plus:
     case GDK_KEY_equal:
     case GDK_KEY_KP_Add:
@@ -695,9 +837,12 @@ key_pressed_cb (GtkEventControllerKey *controller, guint keyval, guint keycode,
       return FALSE;
     }
 
-  if (self->drag_landmark >= 0 && self->drag_started)
+  if ((self->drag_landmark >= 0 || self->drag_template >= 0) && self->drag_started)
     return TRUE;
-  if (has_sel)
+  if (self->selected_template >= 0)
+    g_signal_emit (self, signals[SIGNAL_TEMPLATE_NUDGE], 0, self->selected_template,
+                   dx * step, dy * step);
+  else if (has_sel)
     hl_canvas_nudge (self, dx * step, dy * step);
   else
     {
@@ -732,6 +877,8 @@ hl_canvas_style (HlCanvas *self, HlRenderStyle *style)
                        && gtk_widget_get_height (GTK_WIDGET (self)) >= LEGEND_MIN_HEIGHT_PX;
   style->hover_landmark = self->hover_landmark;
   style->selected_landmark = self->selected_landmark;
+  style->hover_template = self->hover_template;
+  style->selected_template = self->selected_template;
 }
 
 /* The background and the radiograph as the view shows them, drawn again
@@ -917,6 +1064,23 @@ hl_canvas_class_init (HlCanvasClass *klass)
   signals[SIGNAL_LANDMARK_DRAG_END] =
     g_signal_new ("landmark-drag-end", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST,
                   0, NULL, NULL, NULL, G_TYPE_NONE, 2, G_TYPE_INT, G_TYPE_BOOLEAN);
+  signals[SIGNAL_TEMPLATE_DRAG_BEGIN] =
+    g_signal_new ("template-drag-begin", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST,
+                  0, NULL, NULL, NULL, G_TYPE_NONE, 1, G_TYPE_INT);
+  signals[SIGNAL_TEMPLATE_DRAGGED] =
+    g_signal_new ("template-dragged", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST,
+                  0, NULL, NULL, NULL, G_TYPE_NONE, 5, G_TYPE_INT, G_TYPE_DOUBLE,
+                  G_TYPE_DOUBLE, G_TYPE_DOUBLE, G_TYPE_DOUBLE);
+  signals[SIGNAL_TEMPLATE_DRAG_END] =
+    g_signal_new ("template-drag-end", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST,
+                  0, NULL, NULL, NULL, G_TYPE_NONE, 2, G_TYPE_INT, G_TYPE_BOOLEAN);
+  signals[SIGNAL_TEMPLATE_NUDGE] =
+    g_signal_new ("template-nudge", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST,
+                  0, NULL, NULL, NULL, G_TYPE_NONE, 3, G_TYPE_INT, G_TYPE_DOUBLE,
+                  G_TYPE_DOUBLE);
+  signals[SIGNAL_TEMPLATE_STEP_SIZE] =
+    g_signal_new ("template-step-size", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST,
+                  0, NULL, NULL, NULL, G_TYPE_NONE, 2, G_TYPE_INT, G_TYPE_INT);
   signals[SIGNAL_PLAN_CLICKED] =
     g_signal_new ("plan-clicked", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST,
                   0, NULL, NULL, NULL, G_TYPE_NONE, 2, G_TYPE_DOUBLE, G_TYPE_DOUBLE);
@@ -933,6 +1097,9 @@ hl_canvas_init (HlCanvas *self)
   self->hover_landmark = -1;
   self->selected_option = -1;
   self->drag_landmark = -1;
+  self->hover_template = -1;
+  self->selected_template = -1;
+  self->drag_template = -1;
   self->view = (HlView) { 1.0, 0.0, 0.0 };
   hl_scene_build (&self->scene, NULL, -1);
 

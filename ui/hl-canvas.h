@@ -24,6 +24,18 @@
  *    plan-frame point; calibration and guided placement use it.  In that
  *    mode no landmark can be dragged (a drag pans).
  *
+ * The option's implant template (hl-render-template.h) is edited the same
+ * way: the canvas reports, the window (hl-template-tool.c) edits.
+ *  - "template-drag-begin" (int part), "template-dragged" (int part,
+ *    double from_x_mm, double from_y_mm, double to_x_mm, double to_y_mm:
+ *    the press and the pointer now, plan frame), "template-drag-end"
+ *    (int part, gboolean cancelled);
+ *  - "template-nudge" (int part, double dx, double dy): arrow keys on a
+ *    selected template handle (0.5, Shift 5: mm for the cup and stem,
+ *    dy in degrees for the inclination);
+ *  - "template-step-size" (int part, int step): Page Up (+1) or Page
+ *    Down (-1) on the selected cup or stem.
+ *
  * Properties: "selected-landmark" (int, -1 = none), "selected-option"
  * (int, -1 = native only).
  */
@@ -56,6 +68,15 @@ void hl_canvas_set_selected_option (HlCanvas *self, int index);
 int  hl_canvas_get_selected_option (HlCanvas *self);
 void hl_canvas_set_selected_landmark (HlCanvas *self, int landmark_id);
 int  hl_canvas_get_selected_landmark (HlCanvas *self);
+
+/* The implant template's selected part (HlTemplatePart,
+ * hl-render-template.h; -1 none).  Selecting one clears the selected
+ * landmark and the other way round. */
+void hl_canvas_set_selected_template (HlCanvas *self, int part);
+int  hl_canvas_get_selected_template (HlCanvas *self);
+/* Widget coordinates of a template handle; FALSE when it is not drawn. */
+gboolean hl_canvas_template_handle_to_widget (HlCanvas *self, int part,
+                                              double *x, double *y);
 
 void hl_canvas_fit (HlCanvas *self);
 /* Widget coordinates of a plan-frame point in the current view; FALSE

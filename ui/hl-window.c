@@ -21,6 +21,9 @@
 #include "hl-version.h"
 #include "hl-window.h"
 #include "hl-window-private.h"
+#include "hl-template-panel.h"
+#include "hl-template-shape.h"
+#include "hl-template-tool.h"
 
 G_DEFINE_FINAL_TYPE (HlWindow, hl_window, GTK_TYPE_APPLICATION_WINDOW)
 
@@ -182,8 +185,17 @@ hl_window_select_option (HlWindow *self, int index)
 void
 hl_window_replace_plan (HlWindow *self, const HlPlan *plan, GFile *file)
 {
-  if (hl_document_replace (self->document, plan, file))
+  /* Templated options are resolved against the catalogues at hand; a
+   * missing or changed catalogue is said, never silently re-derived. */
+  g_autofree char *warnings = NULL;
+  HlPlan *resolved = plan != NULL ? hl_plan_copy (plan) : NULL;
+  if (resolved != NULL)
+    hl_catalogue_registry_resolve (resolved, &warnings);
+  if (hl_document_replace (self->document, resolved != NULL ? resolved : plan, file))
     hl_autosave_plan_replaced (GTK_WINDOW (self));
+  hl_plan_free (resolved);
+  hl_template_panel_set_warnings (g_object_get_data (G_OBJECT (self), "hl-template-panel"),
+                                  warnings);
 }
 
 void
@@ -492,6 +504,10 @@ hl_window_init (HlWindow *self)
   hl_canvas_set_document (self->canvas, self->document);
   hl_results_set_document (self->results, self->document);
   hl_window_panel_init (self);
+  hl_template_tool_attach (self->canvas, self->document);
+  GtkWidget *template_panel = hl_template_panel_new (self->document);
+  gtk_box_append (GTK_BOX (gtk_widget_get_parent (self->option_params)), template_panel);
+  g_object_set_data (G_OBJECT (self), "hl-template-panel", template_panel);
   self->radiograph_page = HL_RADIOGRAPH_PAGE (hl_radiograph_page_new (self->document,
                                                                       self->canvas));
   gtk_stack_add_titled (self->panel_stack, hl_radiograph_page_get_page (self->radiograph_page),
