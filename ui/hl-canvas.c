@@ -110,6 +110,7 @@ enum {
   PROP_0,
   PROP_SELECTED_LANDMARK,
   PROP_SELECTED_OPTION,
+  PROP_SELECTED_TEMPLATE,
   N_PROPS
 };
 
@@ -190,7 +191,10 @@ hl_canvas_rebuild (HlCanvas *self)
   if (self->selected_template >= 0
       && (!self->scene.has_template
           || !hl_render_template_handle (&self->scene.tmpl, self->selected_template, &unused)))
-    self->selected_template = -1;
+    {
+      self->selected_template = -1;
+      g_object_notify_by_pspec (G_OBJECT (self), properties[PROP_SELECTED_TEMPLATE]);
+    }
   if (!self->scene.has_template)
     self->hover_template = -1;
   hl_canvas_update_accessible (self);
@@ -344,6 +348,7 @@ hl_canvas_set_selected_template (HlCanvas *self, int part)
     hl_canvas_set_selected_landmark (self, -1);
   hl_canvas_update_accessible (self);
   gtk_widget_queue_draw (GTK_WIDGET (self));
+  g_object_notify_by_pspec (G_OBJECT (self), properties[PROP_SELECTED_TEMPLATE]);
 }
 
 int
@@ -999,6 +1004,9 @@ hl_canvas_get_property (GObject *object, guint prop_id, GValue *value,
     case PROP_SELECTED_OPTION:
       g_value_set_int (value, self->selected_option);
       break;
+    case PROP_SELECTED_TEMPLATE:
+      g_value_set_int (value, self->selected_template);
+      break;
     default:
       G_OBJECT_WARN_INVALID_PROPERTY_ID (object, prop_id, pspec);
     }
@@ -1016,6 +1024,9 @@ hl_canvas_set_property (GObject *object, guint prop_id, const GValue *value,
       break;
     case PROP_SELECTED_OPTION:
       hl_canvas_set_selected_option (self, g_value_get_int (value));
+      break;
+    case PROP_SELECTED_TEMPLATE:
+      hl_canvas_set_selected_template (self, g_value_get_int (value));
       break;
     default:
       G_OBJECT_WARN_INVALID_PROPERTY_ID (object, prop_id, pspec);
@@ -1051,6 +1062,9 @@ hl_canvas_class_init (HlCanvasClass *klass)
                       G_PARAM_READWRITE | G_PARAM_EXPLICIT_NOTIFY | G_PARAM_STATIC_STRINGS);
   properties[PROP_SELECTED_OPTION] =
     g_param_spec_int ("selected-option", NULL, NULL, -1, G_MAXINT, -1,
+                      G_PARAM_READWRITE | G_PARAM_EXPLICIT_NOTIFY | G_PARAM_STATIC_STRINGS);
+  properties[PROP_SELECTED_TEMPLATE] =
+    g_param_spec_int ("selected-template", NULL, NULL, -1, HL_TEMPLATE_PART_N - 1, -1,
                       G_PARAM_READWRITE | G_PARAM_EXPLICIT_NOTIFY | G_PARAM_STATIC_STRINGS);
   g_object_class_install_properties (object_class, N_PROPS, properties);
 

@@ -37,7 +37,7 @@
  *    Down (-1) on the selected cup or stem.
  *
  * Properties: "selected-landmark" (int, -1 = none), "selected-option"
- * (int, -1 = native only).
+ * (int, -1 = native only), "selected-template" (int, HlTemplatePart or -1).
  */
 #pragma once
 

@@ -49,6 +49,9 @@ typedef struct {
   guint64 table_revision;
   gboolean running, pending;
   double rank_ms;
+  GtkWidget *manual_button;
+  GFunc changed_func;
+  gpointer changed_data;
   HlCupSuggestion cup_sugg;
   gboolean has_cup_sugg;
   HlStemSuggestion stem_sugg;
@@ -379,6 +382,8 @@ rank_done (GObject *source, GAsyncResult *res, gpointer user_data)
       if (job->status != HL_OK)
         gtk_label_set_text (GTK_LABEL (p->rank_note), job->err.message);
       rank_show (p);
+      if (p->changed_func != NULL)
+        p->changed_func (p->box, p->changed_data);
     }
   if (p->pending)
     {
@@ -452,7 +457,7 @@ rank_show (Panel *p)
     N_("Leg length"), N_("Offset"), N_("Residual"), N_("Abductor"), N_("Joint"), N_("Joint p95"),
   };
   for (int c = 0; c < (int) G_N_ELEMENTS (heads); c++)
-    grid_text (p->rank_grid, c, 0, _(heads[c]), TRUE);
+    grid_text (p->rank_grid, c + 1, 0, _(heads[c]), TRUE);
   size_t n = MIN (p->table.n, RANK_ROWS_SHOWN);
   for (size_t i = 0; i < n; i++)
     {
@@ -460,37 +465,37 @@ rank_show (Panel *p)
       int row = (int) i + 1;
       char buf[64];
       g_snprintf (buf, sizeof buf, "%zu", r->rank);
-      grid_text (p->rank_grid, 0, row, buf, FALSE);
-      g_snprintf (buf, sizeof buf, "%.0f", r->tmpl.cup_diameter_mm);
       grid_text (p->rank_grid, 1, row, buf, FALSE);
-      grid_text (p->rank_grid, 2, row, r->tmpl.liner, FALSE);
-      grid_text (p->rank_grid, 3, row, r->tmpl.stem_size, FALSE);
-      grid_text (p->rank_grid, 4, row, r->tmpl.version, FALSE);
+      g_snprintf (buf, sizeof buf, "%.0f", r->tmpl.cup_diameter_mm);
+      grid_text (p->rank_grid, 2, row, buf, FALSE);
+      grid_text (p->rank_grid, 3, row, r->tmpl.liner, FALSE);
+      grid_text (p->rank_grid, 4, row, r->tmpl.stem_size, FALSE);
+      grid_text (p->rank_grid, 5, row, r->tmpl.version, FALSE);
       g_snprintf (buf, sizeof buf, "%+.0f", r->tmpl.head_length_mm);
-      grid_text (p->rank_grid, 5, row, buf, FALSE);
-      g_snprintf (buf, sizeof buf, "%+.1f", r->result.leg_length_change_mm);
       grid_text (p->rank_grid, 6, row, buf, FALSE);
-      g_snprintf (buf, sizeof buf, "%+.1f", r->result.global_offset_change_mm);
+      g_snprintf (buf, sizeof buf, "%+.1f", r->result.leg_length_change_mm);
       grid_text (p->rank_grid, 7, row, buf, FALSE);
+      g_snprintf (buf, sizeof buf, "%+.1f", r->result.global_offset_change_mm);
+      grid_text (p->rank_grid, 8, row, buf, FALSE);
       g_snprintf (buf, sizeof buf, "%.1f / %.1f", r->leg_length_residual_mm,
                   r->global_offset_residual_mm);
-      grid_text (p->rank_grid, 8, row, buf, FALSE);
-      g_snprintf (buf, sizeof buf, "%.2f", r->result.abductor_force_bw);
       grid_text (p->rank_grid, 9, row, buf, FALSE);
-      g_snprintf (buf, sizeof buf, "%.2f", r->result.jrf_bw);
+      g_snprintf (buf, sizeof buf, "%.2f", r->result.abductor_force_bw);
       grid_text (p->rank_grid, 10, row, buf, FALSE);
+      g_snprintf (buf, sizeof buf, "%.2f", r->result.jrf_bw);
+      grid_text (p->rank_grid, 11, row, buf, FALSE);
       if (isfinite (r->jrf_p95_bw))
         g_snprintf (buf, sizeof buf, "%.2f", r->jrf_p95_bw);
       else
         g_snprintf (buf, sizeof buf, "–");
-      grid_text (p->rank_grid, 11, row, buf, FALSE);
+      grid_text (p->rank_grid, 12, row, buf, FALSE);
       GtkWidget *apply = gtk_button_new_with_label (_("Apply"));
       g_autofree char *name = g_strdup_printf (_("Apply combination %zu"), r->rank);
       gtk_accessible_update_property (GTK_ACCESSIBLE (apply), GTK_ACCESSIBLE_PROPERTY_LABEL,
                                       name, -1);
       g_object_set_data (G_OBJECT (apply), "rank", GUINT_TO_POINTER ((guint) r->rank));
       g_signal_connect (apply, "clicked", G_CALLBACK (rank_apply_cb), p);
-      gtk_grid_attach (GTK_GRID (p->rank_grid), apply, 12, row, 1, 1);
+      gtk_grid_attach (GTK_GRID (p->rank_grid), apply, 0, row, 1, 1);
     }
   gtk_label_set_text (GTK_LABEL (p->rank_note),
                       p->table.against_other_hip
@@ -627,6 +632,26 @@ document_changed_cb (HlDocument *document, guint what, GtkWidget *box)
   sync_all (panel_of (box));
 }
 
+static void
+scrolled_cb (GtkWidget *box)
+{
+  Panel *p = panel_of (box);
+  if (p->changed_func != NULL)
+    p->changed_func (p->box, p->changed_data);
+}
+
+/* The side panel scrolls: the test hooks print the controls again. */
+static void
+map_cb (GtkWidget *box, Panel *p)
+{
+  GtkWidget *sw = gtk_widget_get_ancestor (box, GTK_TYPE_SCROLLED_WINDOW);
+  if (sw == NULL || g_object_get_data (G_OBJECT (sw), "hl-template-scroll") != NULL)
+    return;
+  g_object_set_data (G_OBJECT (sw), "hl-template-scroll", p);
+  g_signal_connect_object (gtk_scrolled_window_get_vadjustment (GTK_SCROLLED_WINDOW (sw)),
+                           "value-changed", G_CALLBACK (scrolled_cb), box, G_CONNECT_SWAPPED);
+}
+
 static GtkWidget *
 heading (const char *text)
 {
@@ -725,6 +750,7 @@ hl_template_panel_new (HlDocument *document)
   gtk_widget_add_css_class (hint, "caption");
   gtk_box_append (GTK_BOX (p->tmpl_box), hint);
   GtkWidget *manual = gtk_button_new_with_mnemonic (_("Back to _manual numbers"));
+  p->manual_button = manual;
   g_signal_connect (manual, "clicked", G_CALLBACK (manual_cb), p);
   gtk_box_append (GTK_BOX (p->tmpl_box), manual);
 
@@ -774,6 +800,7 @@ hl_template_panel_new (HlDocument *document)
   gtk_box_append (GTK_BOX (p->box), p->tmpl_box);
 
   g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), p->box, 0);
+  g_signal_connect (p->box, "map", G_CALLBACK (map_cb), p);
   fill_catalogues (p);
   sync_all (p);
   return p->box;
@@ -813,4 +840,31 @@ hl_template_panel_apply_rank (GtkWidget *panel, guint rank)
   Panel *p = panel_of (panel);
   hl_document_break_coalescing (p->document);
   return apply_rank (p, rank);
+}
+
+void
+hl_template_panel_set_changed_func (GtkWidget *panel, GFunc func, gpointer data)
+{
+  Panel *p = panel_of (panel);
+  p->changed_func = func;
+  p->changed_data = data;
+}
+
+void
+hl_template_panel_foreach_control (GtkWidget *panel, HlTemplateControlFunc func, gpointer data)
+{
+  Panel *p = panel_of (panel);
+  func ("template-place", p->place_button, data);
+  func ("template-manual", p->manual_button, data);
+  func ("template-cup-apply", p->cup_apply, data);
+  func ("template-stem-apply", p->stem_apply, data);
+  for (GtkWidget *c = gtk_widget_get_first_child (p->rank_grid); c != NULL;
+       c = gtk_widget_get_next_sibling (c))
+    {
+      gpointer rank = g_object_get_data (G_OBJECT (c), "rank");
+      if (rank == NULL)
+        continue;
+      g_autofree char *name = g_strdup_printf ("template-rank-%u", GPOINTER_TO_UINT (rank));
+      func (name, c, data);
+    }
 }

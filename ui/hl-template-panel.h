@@ -33,4 +33,13 @@ double hl_template_panel_get_rank_ms (GtkWidget *panel);
  * there is none. */
 gboolean hl_template_panel_apply_rank (GtkWidget *panel, guint rank);
 
+/* Called (on the main thread) whenever the panel's layout changed: a
+ * ranking arrived.  For the test hooks. */
+void hl_template_panel_set_changed_func (GtkWidget *panel, GFunc func, gpointer data);
+/* Calls func (name, widget, data) for the controls tests drive:
+ * "template-place", "template-manual", "template-rank-N" (Apply of row N). */
+typedef void (*HlTemplateControlFunc) (const char *name, GtkWidget *widget, gpointer data);
+void hl_template_panel_foreach_control (GtkWidget *panel, HlTemplateControlFunc func,
+                                        gpointer data);
+
 G_END_DECLS

@@ -708,6 +708,10 @@ hl_window_panel_sync_options (HlWindow *self)
       for (int i = 0; i < HL_RECON_N_PARAMS; i++)
         set_spin (self->recon_spin[i],
                   *(double *) ((char *) &option->recon + recon_params[i].offset));
+      /* A templated option's numbers come from its implants
+       * (hl-template-panel.c): shown, not edited. */
+      for (int i = 0; i < HL_RECON_N_PARAMS; i++)
+        gtk_widget_set_sensitive (GTK_WIDGET (self->recon_spin[i]), !option->recon.tmpl.on);
       gtk_label_set_text (self->option_hint_label,
                           _("Changes against the native hip. The schematic shows the selected option over the native hip, drawn faint."));
     }

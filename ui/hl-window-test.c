@@ -38,6 +38,8 @@
 #include "hl-radiograph-page.h"
 #include "hl-window.h"
 #include "hl-window-private.h"
+#include "hl-render-template.h"
+#include "hl-template-panel.h"
 
 /* Frames to let the window settle (map, first layout, fonts) before a
  * screenshot, then a short wait for late redraws. */
@@ -152,6 +154,34 @@ print_lower_handles (HlWindow *self)
             gtk_widget_get_width (self->charts_view), gtk_widget_get_height (self->charts_view));
 }
 
+static void
+print_template_control (const char *name, GtkWidget *widget, gpointer self)
+{
+  print_widget (self, name, widget);
+}
+
+/* The template's handles, its panel's controls and how its ranking is. */
+static void
+print_template (HlWindow *self)
+{
+  GtkWidget *panel = g_object_get_data (G_OBJECT (self), "hl-template-panel");
+  for (int part = 0; part < HL_TEMPLATE_PART_N; part++)
+    {
+      static const char *names[] = { "template-cup", "template-inclination", "template-stem" };
+      double wx, wy, x, y;
+      if (hl_canvas_template_handle_to_widget (self->canvas, part, &wx, &wy)
+          && surface_point (self, GTK_WIDGET (self->canvas), wx, wy, &x, &y))
+        printf ("HANDLE %s %.0f %.0f\n", names[part], x, y);
+    }
+  if (panel == NULL)
+    return;
+  hl_template_panel_foreach_control (panel, print_template_control, self);
+  printf ("TEMPLATE selected %d ranked %u busy %d rank-ms %.1f\n",
+          hl_canvas_get_selected_template (self->canvas),
+          hl_template_panel_get_n_ranked (panel), hl_template_panel_get_busy (panel),
+          hl_template_panel_get_rank_ms (panel));
+}
+
 void
 hl_window_print_handles (HlWindow *self)
 {
@@ -227,6 +257,7 @@ hl_window_print_handles (HlWindow *self)
   hl_radiograph_page_print_handles (self->radiograph_page);
   print_lower_handles (self);
   hl_analysis_panel_print_handles (self->analysis_panel);
+  print_template (self);
   printf ("FRAME %u\n", ++self->handles_printed);
   fflush (stdout);
 }

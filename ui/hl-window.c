@@ -182,6 +182,18 @@ hl_window_select_option (HlWindow *self, int index)
 }
 
 /* A whole new plan: undo history goes, the view is fitted again. */
+static void
+template_panel_changed_cb (gpointer panel, gpointer self)
+{
+  HL_WINDOW (self)->handles_dirty = TRUE;
+}
+
+static void
+template_selected_cb (GObject *canvas, GParamSpec *pspec, HlWindow *self)
+{
+  self->handles_dirty = TRUE;
+}
+
 void
 hl_window_replace_plan (HlWindow *self, const HlPlan *plan, GFile *file)
 {
@@ -508,6 +520,9 @@ hl_window_init (HlWindow *self)
   GtkWidget *template_panel = hl_template_panel_new (self->document);
   gtk_box_append (GTK_BOX (gtk_widget_get_parent (self->option_params)), template_panel);
   g_object_set_data (G_OBJECT (self), "hl-template-panel", template_panel);
+  hl_template_panel_set_changed_func (template_panel, template_panel_changed_cb, self);
+  g_signal_connect_object (self->canvas, "notify::selected-template",
+                           G_CALLBACK (template_selected_cb), self, 0);
   self->radiograph_page = HL_RADIOGRAPH_PAGE (hl_radiograph_page_new (self->document,
                                                                       self->canvas));
   gtk_stack_add_titled (self->panel_stack, hl_radiograph_page_get_page (self->radiograph_page),
