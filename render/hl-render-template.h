@@ -32,10 +32,8 @@ typedef enum {
 /* Half the side of a template handle, px. */
 #define HL_RENDER_TEMPLATE_HANDLE_PX 5.0
 
-/* Draws scene->tmpl (nothing when scene->has_template is false; the
- * shape's message in a corner when it could not be drawn). */
-void hl_render_template (cairo_t *cr, const HlScene *scene, const HlView *view,
-                         const HlRenderStyle *style);
+/* hl_render_template (declared in hl-render.h) draws scene->tmpl, with
+ * the shape's message in a corner when a part could not be drawn. */
 
 /* The template part under the screen point: a handle within radius_px,
  * else inside the cup's circle (cup) or the stem's body (stem); -1. */

@@ -19,7 +19,6 @@
 
 #include "hl-i18n.h"
 #include "hl-render.h"
-#include "hl-render-template.h"
 #include "hl-version.h"
 
 /* ---- Proportions of the drawn bones ------------------------------------

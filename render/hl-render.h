@@ -201,6 +201,12 @@ void hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
                       const HlRenderStyle *style, double width,
                       double height);
 
+/* Draws scene->tmpl, the option's implant template (nothing for a manual
+ * option); hl_render_scene calls it.  In hl-render-template.c, with the
+ * template's hit test and handles (hl-render-template.h). */
+void hl_render_template (cairo_t *cr, const HlScene *scene, const HlView *view,
+                         const HlRenderStyle *style);
+
 /* Convenience: builds the scene and draws it. */
 void hl_render_schematic (cairo_t *cr, const HlPlan *plan, int option_index,
                           const HlView *view, const HlRenderStyle *style,
