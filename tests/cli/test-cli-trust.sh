@@ -182,7 +182,7 @@ check "sweep: =HYPERLINK gets an apostrophe" grep -q "^femoral_offset_mm,-2,'=HY
 run sweep plan.hlplan --param femoral_offset_mm --from -5 --to 5 --steps 2500 --csv
 expect_rc 0 "a sweep of 2,500 values"
 check "one header" test "$(grep -c '^param,' out)" = 1
-check "every row" test "$(wc -l < out)" = $((2500 * 4 + 1))
+check "every row (native and the demo's four options)" test "$(wc -l < out)" = $((2500 * 5 + 1))
 check "the values in order" bash -c "awk -F, 'NR>1 && \$3==\"native\"{print \$2}' '$WORK/out' | sort -g -c"
 run sweep plan.hlplan --param femoral_offset_mm --from -5 --to 5 --steps 25001 --csv
 expect_rc 1 "a sweep of 100,004 rows"
