@@ -23,6 +23,7 @@
 #include "hl-i18n.h"
 #include "hl-plan.h"
 #include "hl-plan-io.h"
+#include "hl-result-fields.h"
 #include "hl-solve.h"
 #include "hl-version.h"
 #include "hl-cli.h"
@@ -375,56 +376,11 @@ parse_args (const HlCliCommand *cmd, int argc, char **argv, HlCliArgs *args)
 
 /* ---- Results as columns ------------------------------------------------ */
 
-/* The CSV columns after "option": names, order and precision are a
- * contract.  The text table shows the same values with the decimals that
- * mean something to a reader (HL_DECIMALS_*, shared with the window and
- * the report). */
-typedef struct {
-  const char *csv;
-  const char *label;     /* N_() */
-  int precision;         /* CSV */
-  ptrdiff_t offset;      /* into HlResult, or COLUMN_JRF_ANGLE */
-  int display;           /* text */
-} HlCliColumn;
-
-#define COLUMN_JRF_ANGLE ((ptrdiff_t) -1)
-
-static const HlCliColumn result_columns[] = {
-  { "abductor_arm_mm", N_("Abductor moment arm (mm)"), 3,
-    offsetof (HlResult, abductor_arm_mm), HL_DECIMALS_MM },
-  { "bw_arm_mm", N_("Body-weight lever arm (mm)"), 3,
-    offsetof (HlResult, bw_arm_mm), HL_DECIMALS_MM },
-  { "lever_ratio", N_("Lever ratio (body weight / abductor)"), 4,
-    offsetof (HlResult, lever_ratio), HL_DECIMALS_RATIO },
-  { "abductor_force_N", N_("Abductor force (N)"), 3,
-    offsetof (HlResult, abductor_force_n), HL_DECIMALS_N },
-  { "abductor_force_BW", N_("Abductor force (x body weight)"), 3,
-    offsetof (HlResult, abductor_force_bw), HL_DECIMALS_BW },
-  { "jrf_N", N_("Joint reaction force (N)"), 3,
-    offsetof (HlResult, jrf_n), HL_DECIMALS_N },
-  { "jrf_BW", N_("Joint reaction force (x body weight)"), 3,
-    offsetof (HlResult, jrf_bw), HL_DECIMALS_BW },
-  { "jrf_angle_deg", N_("Joint reaction force from vertical (deg)"), 3,
-    COLUMN_JRF_ANGLE, HL_DECIMALS_DEG },
-  { "global_offset_change_mm", N_("Global offset change (mm)"), 3,
-    offsetof (HlResult, global_offset_change_mm), HL_DECIMALS_MM },
-  { "leg_length_change_mm", N_("Leg length change (mm)"), 3,
-    offsetof (HlResult, leg_length_change_mm), HL_DECIMALS_MM },
-  { "abductor_length_change_mm", N_("Abductor length change (mm)"), 3,
-    offsetof (HlResult, abductor_length_change_mm), HL_DECIMALS_MM },
-};
-
-#define N_COLUMNS (sizeof result_columns / sizeof result_columns[0])
+/* The CSV columns after "option" (names, order and precision are a
+ * contract) and the rows of the text table come from the one table of
+ * result fields (core/hl-result-fields.h). */
 
 #define HL_CLI_FLAGS_MAX 256
-
-static double
-column_value (const HlCliColumn *col, const HlResult *res)
-{
-  if (col->offset == COLUMN_JRF_ANGLE)
-    return hl_result_jrf_angle_deg (res);
-  return *(const double *) ((const char *) res + col->offset);
-}
 
 static const char *
 case_name (const HlPlan *plan, size_t i)
@@ -437,9 +393,11 @@ csv_header (HlBuf *buf, bool with_plan)
 {
   if (with_plan)
     hl_buf_printf (buf, "plan,");
+  const HlResultField *cols[HL_RESULT_FIELD_MAX];
+  size_t n_cols = hl_result_fields_for (HL_OUT_CSV, cols);
   hl_buf_printf (buf, "option");
-  for (size_t c = 0; c < N_COLUMNS; c++)
-    hl_buf_printf (buf, ",%s", result_columns[c].csv);
+  for (size_t c = 0; c < n_cols; c++)
+    hl_buf_printf (buf, ",%s", cols[c]->csv);
   hl_buf_printf (buf, ",flags\n");
 }
 
@@ -447,6 +405,9 @@ static void
 csv_rows (HlBuf *buf, const char *plan_name, const HlPlan *plan,
           const HlResult *results)
 {
+  const HlResultField *cols[HL_RESULT_FIELD_MAX];
+  size_t n_cols = hl_result_fields_for (HL_OUT_CSV, cols);
+
   for (size_t i = 0; i <= plan->n_options; i++)
     {
       char num[HL_CLI_NUMBER_MAX];
@@ -458,12 +419,10 @@ csv_rows (HlBuf *buf, const char *plan_name, const HlPlan *plan,
           hl_buf_append (buf, ",", 1);
         }
       hl_buf_csv_field (buf, case_name (plan, i));
-      for (size_t c = 0; c < N_COLUMNS; c++)
+      for (size_t c = 0; c < n_cols; c++)
         hl_buf_printf (buf, ",%s",
-                           hl_cli_format_fixed (num, sizeof num,
-                                                result_columns[c].precision,
-                                                column_value (&result_columns[c],
-                                                              &results[i])));
+                       hl_cli_format_fixed (num, sizeof num, cols[c]->csv_decimals,
+                                            cols[c]->get (&results[i])));
       hl_flags_format (results[i].flags, ";", flags, sizeof flags);
       hl_buf_append (buf, ",", 1);
       hl_buf_csv_field (buf, flags);
@@ -559,40 +518,29 @@ print_context (const char *path, const HlPlan *plan)
 /* The width of case i's column: its name or its widest number. */
 static size_t
 case_width (const HlPlan *plan, const HlResult *results, size_t i,
-            const HlCliColumn *const *rows, size_t n_rows)
+            const HlResultField *const *rows, size_t n_rows)
 {
   size_t width = hl_cli_text_width (case_name (plan, i));
   char num[HL_CLI_NUMBER_MAX];
 
   for (size_t r = 0; r < n_rows; r++)
     {
-      hl_cli_format_fixed (num, sizeof num, rows[r]->display,
-                           column_value (rows[r], &results[i]));
+      hl_cli_format_fixed (num, sizeof num, rows[r]->decimals,
+                           rows[r]->get (&results[i]));
       if (strlen (num) > width)
         width = strlen (num);
     }
   return width;
 }
 
-/* Shown in the text table only, below the CSV columns (the CSV columns
- * are a contract). */
-static const HlCliColumn demand_column = {
-  NULL, N_("Abductor demand over capacity"), 3, offsetof (HlResult, demand),
-  HL_DECIMALS_RATIO,
-};
-
 static void
 print_text (const char *path, const HlPlan *plan, const HlResult *results)
 {
-  const HlCliColumn *rows[N_COLUMNS + 1];
-  size_t n_rows = 0;
+  const HlResultField *rows[HL_RESULT_FIELD_MAX];
+  size_t n_rows = hl_result_fields_for (HL_OUT_TEXT, rows);
   size_t n_cases = plan->n_options + 1;
   size_t label_width = 0;
   char num[HL_CLI_NUMBER_MAX];
-
-  for (size_t c = 0; c < N_COLUMNS; c++)
-    rows[n_rows++] = &result_columns[c];
-  rows[n_rows++] = &demand_column;
 
   for (size_t r = 0; r < n_rows; r++)
     {
@@ -617,8 +565,8 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
       print_padded (_(rows[r]->label), label_width, false);
       for (size_t i = 0; i < n_cases; i++)
         {
-          hl_cli_format_fixed (num, sizeof num, rows[r]->display,
-                               column_value (rows[r], &results[i]));
+          hl_cli_format_fixed (num, sizeof num, rows[r]->decimals,
+                               rows[r]->get (&results[i]));
           hl_cli_fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
           print_padded (num, case_width (plan, results, i, rows, n_rows), true);
         }

@@ -28,6 +28,7 @@
 #include "hl-plan-io.h"
 #include "hl-render.h"
 #include "hl-report.h"
+#include "hl-result-fields.h"
 #include "hl-version.h"
 
 /* Page geometry, pt. */
@@ -856,53 +857,12 @@ block_options (HlLayout *L, double y, bool draw)
   return h;
 }
 
-typedef enum {
-  ROW_PLAIN,       /* value and % change */
-  ROW_VALUE,       /* an angle or a ratio: value only, a % change means nothing */
-  ROW_CHANGE,      /* already a change against native: value only */
-} HlRowKind;
-
-typedef struct {
-  const char *label;
-  HlRowKind kind;
-  int precision;
-  double (*get) (const HlResult *);
-} HlResultRow;
-
-static double get_arm (const HlResult *r) { return r->abductor_arm_mm; }
-static double get_bw_arm (const HlResult *r) { return r->bw_arm_mm; }
-static double get_ratio (const HlResult *r) { return r->lever_ratio; }
-static double get_fa_n (const HlResult *r) { return r->abductor_force_n; }
-static double get_fa_bw (const HlResult *r) { return r->abductor_force_bw; }
-static double get_j_n (const HlResult *r) { return r->jrf_n; }
-static double get_j_bw (const HlResult *r) { return r->jrf_bw; }
-static double get_j_angle (const HlResult *r) { return hl_result_jrf_angle_deg (r); }
-static double get_demand (const HlResult *r) { return PERCENT * r->demand; }
-static double get_leg (const HlResult *r) { return r->leg_length_change_mm; }
-static double get_global (const HlResult *r) { return r->global_offset_change_mm; }
-static double get_femoral (const HlResult *r) { return r->femoral_offset_change_mm; }
-static double get_abd_len (const HlResult *r) { return r->abductor_length_change_mm; }
-
 static double
 block_results (HlLayout *L, double y, bool draw)
 {
   const HlReport *r = L->r;
-  const HlResultRow rows[] = {
-    { N_("Abductor moment arm (mm)"), ROW_PLAIN, HL_DECIMALS_MM, get_arm },
-    { N_("Body-weight lever arm (mm)"), ROW_PLAIN, HL_DECIMALS_MM, get_bw_arm },
-    { N_("Lever ratio (body weight / abductor)"), ROW_VALUE, HL_DECIMALS_RATIO, get_ratio },
-    { N_("Abductor force (N)"), ROW_PLAIN, HL_DECIMALS_N, get_fa_n },
-    { N_("Abductor force (x body weight)"), ROW_PLAIN, HL_DECIMALS_BW, get_fa_bw },
-    { N_("Joint reaction force (N)"), ROW_PLAIN, HL_DECIMALS_N, get_j_n },
-    { N_("Joint reaction force (x body weight)"), ROW_PLAIN, HL_DECIMALS_BW, get_j_bw },
-    { N_("Joint force from vertical (deg)"), ROW_VALUE, HL_DECIMALS_DEG, get_j_angle },
-    { N_("Capacity use: demand over capacity (%)"), ROW_VALUE, 0, get_demand },
-    { N_("Femoral offset change (mm)"), ROW_CHANGE, HL_DECIMALS_MM, get_femoral },
-    { N_("Global offset change (mm)"), ROW_CHANGE, HL_DECIMALS_MM, get_global },
-    { N_("Leg length change (mm)"), ROW_CHANGE, HL_DECIMALS_MM, get_leg },
-    { N_("Abductor length change (mm)"), ROW_CHANGE, HL_DECIMALS_MM, get_abd_len },
-  };
-  const int n_plain = (int) (sizeof rows / sizeof rows[0]);
+  const HlResultField *rows[HL_RESULT_FIELD_MAX];
+  const int n_plain = (int) hl_result_fields_for (HL_OUT_REPORT, rows);
   const int n_mc = r->have_mc ? 3 : 0;
   const int n_cols = 2 + (int) r->n_shown;
   double h = heading (L, _("Results: native hip and options (change against native)"), y, draw);
@@ -923,7 +883,8 @@ block_results (HlLayout *L, double y, bool draw)
   t->widths = widths;
   t->right = right;
   t->bold_rows = bold;
-  bold[7] = true;   /* the joint reaction force in body weights, the headline */
+  for (int i = 0; i < n_plain; i++)   /* the joint force in body weights, the headline */
+    bold[1 + i] = strcmp (rows[i]->key, "joint-reaction-force-bw") == 0;
 
   cell_set (t, 0, 0, "%s", _("Quantity"));
   for (size_t row = 0; row <= r->n_shown; row++)
@@ -931,7 +892,7 @@ block_results (HlLayout *L, double y, bool draw)
 
   for (int i = 0; i < n_plain; i++)
     {
-      const HlResultRow *rr = &rows[i];
+      const HlResultField *rr = rows[i];
       double native = rr->get (&r->results[0]);
       cell_set (t, 1 + i, 0, "%s", _(rr->label));
       for (size_t row = 0; row <= r->n_shown; row++)
@@ -940,15 +901,15 @@ block_results (HlLayout *L, double y, bool draw)
           char *cell = t->cells[(1 + i) * n_cols + 1 + (int) row];
           if (!isfinite (v))
             snprintf (cell, CELL_MAX, "%s", _("not measured"));
-          else if (row == 0 || rr->kind != ROW_PLAIN || fabs (native) < CHANGE_EPS)
-            snprintf (cell, CELL_MAX, rr->kind == ROW_CHANGE ? "%+.*f" : "%.*f",
-                      rr->precision, v);
+          else if (row == 0 || rr->kind != HL_FIELD_PERCENT || fabs (native) < CHANGE_EPS)
+            snprintf (cell, CELL_MAX, rr->kind == HL_FIELD_CHANGE ? "%+.*f" : "%.*f",
+                      rr->decimals, v);
           else
             {
               double pct = PERCENT * (v - native) / fabs (native);
               if (fabs (pct) < 0.05)
                 pct = 0.0;
-              snprintf (cell, CELL_MAX, "%.*f (%+.1f%%)", rr->precision, v, pct);
+              snprintf (cell, CELL_MAX, "%.*f (%+.1f%%)", rr->decimals, v, pct);
             }
         }
     }

@@ -11,58 +11,21 @@
 #include <string.h>
 #include <glib/gi18n.h>
 
+#include "hl-result-fields.h"
 #include "hl-results.h"
 
 /* A native figure this close to zero has no meaningful change in %. */
 #define HL_RESULTS_PERCENT_MIN_BASE 1e-9
 
-typedef double (*HlResultGetter) (const HlResult *res);
-
-/* How a row shows against native. */
-typedef enum {
-  ROW_PERCENT,   /* a value and its change against native in per cent */
-  ROW_VALUE,     /* an angle or a ratio: the value only, a % change means nothing */
-  ROW_CHANGE,    /* already a change against native: signed, no per cent */
-} HlRowKind;
-
-typedef struct {
-  const char *key;
-  const char *label;
-  const char *unit;
-  int digits;
-  HlRowKind kind;
-  HlResultGetter get;
-} HlResultRow;
-
-static double get_abductor_arm (const HlResult *r) { return r->abductor_arm_mm; }
-static double get_bw_arm (const HlResult *r) { return r->bw_arm_mm; }
-static double get_lever_ratio (const HlResult *r) { return r->lever_ratio; }
-static double get_abductor_n (const HlResult *r) { return r->abductor_force_n; }
-static double get_abductor_bw (const HlResult *r) { return r->abductor_force_bw; }
-static double get_jrf_n (const HlResult *r) { return r->jrf_n; }
-static double get_jrf_bw (const HlResult *r) { return r->jrf_bw; }
-static double get_jrf_angle (const HlResult *r) { return hl_result_jrf_angle_deg (r); }
-static double get_global_offset (const HlResult *r) { return r->global_offset_change_mm; }
-static double get_leg_length (const HlResult *r) { return r->leg_length_change_mm; }
-static double get_abductor_length (const HlResult *r) { return r->abductor_length_change_mm; }
-
-static const HlResultRow rows[] = {
-  { "abductor-moment-arm", N_("Abductor moment arm"), N_("mm"), HL_DECIMALS_MM, ROW_PERCENT, get_abductor_arm },
-  { "body-weight-moment-arm", N_("Body-weight lever arm"), N_("mm"), HL_DECIMALS_MM, ROW_PERCENT, get_bw_arm },
-  { "lever-ratio", N_("Lever ratio (weight : abductor)"), "", HL_DECIMALS_RATIO, ROW_VALUE, get_lever_ratio },
-  { "abductor-force-n", N_("Abductor force"), N_("N"), HL_DECIMALS_N, ROW_PERCENT, get_abductor_n },
-  { "abductor-force-bw", N_("Abductor force"), N_("× BW"), HL_DECIMALS_BW, ROW_PERCENT, get_abductor_bw },
-  { "joint-reaction-force-n", N_("Joint reaction force"), N_("N"), HL_DECIMALS_N, ROW_PERCENT, get_jrf_n },
-  { "joint-reaction-force-bw", N_("Joint reaction force"), N_("× BW"), HL_DECIMALS_BW, ROW_PERCENT, get_jrf_bw },
-  { "joint-force-angle", N_("Joint force angle from vertical"), N_("°"), HL_DECIMALS_DEG, ROW_VALUE, get_jrf_angle },
-  { "global-offset-change", N_("Global offset change"), N_("mm"), HL_DECIMALS_MM, ROW_CHANGE, get_global_offset },
-  { "leg-length-change", N_("Leg length change"), N_("mm"), HL_DECIMALS_MM, ROW_CHANGE, get_leg_length },
-  { "abductor-length-change", N_("Abductor length change"), N_("mm"), HL_DECIMALS_MM, ROW_CHANGE, get_abductor_length },
-};
+/* The quantities shown: the window's fields of the one table of result
+ * fields (core/hl-result-fields.h), in its order; filled once. */
+typedef HlResultField HlResultRow;
+static const HlResultRow *rows[HL_RESULT_FIELD_MAX];
+static guint n_rows;
 
 /* Flags come right under the option names, where a warning is seen
  * before the numbers it qualifies. */
-#define N_ROWS G_N_ELEMENTS (rows)
+#define N_ROWS n_rows
 #define HEADER_ROW 0
 #define FLAGS_ROW 1
 #define FIRST_VALUE_ROW 2
@@ -91,8 +54,8 @@ static const struct {
 
 typedef struct {
   GtkWidget *header;
-  GtkWidget *value[N_ROWS];
-  GtkWidget *change[N_ROWS];
+  GtkWidget *value[HL_RESULT_FIELD_MAX];
+  GtkWidget *change[HL_RESULT_FIELD_MAX];
   GtkWidget *range[N_RANGE_ROWS];
   GtkWidget *flags;
   GtkWidget *error;
@@ -124,15 +87,15 @@ format_value (const HlResultRow *row, double v)
 {
   if (!isfinite (v))
     return g_strdup (_("not measured"));
-  if (row->kind != ROW_CHANGE)
-    return g_strdup_printf ("%.*f", row->digits, v);
-  return g_strdup_printf ("%+.*f", row->digits, v);
+  if (row->kind != HL_FIELD_CHANGE)
+    return g_strdup_printf ("%.*f", row->decimals, v);
+  return g_strdup_printf ("%+.*f", row->decimals, v);
 }
 
 static char *
 format_change (const HlResultRow *row, double v, double native)
 {
-  if (row->kind != ROW_PERCENT || !isfinite (v) || !isfinite (native))
+  if (row->kind != HL_FIELD_PERCENT || !isfinite (v) || !isfinite (native))
     return g_strdup ("");
   if (fabs (native) < HL_RESULTS_PERCENT_MIN_BASE)
     return g_strdup ("(—)");
@@ -182,7 +145,7 @@ static guint
 row_index (const char *key)
 {
   for (guint r = 0; r < N_ROWS; r++)
-    if (g_str_equal (rows[r].key, key))
+    if (g_str_equal (rows[r]->key, key))
       return r;
   g_return_val_if_reached (N_ROWS - 1);
 }
@@ -366,12 +329,12 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
           if (!ok)
             continue;
 
-          double v = rows[r].get (&s->result);
-          g_autofree char *value = format_value (&rows[r], v);
+          double v = rows[r]->get (&s->result);
+          g_autofree char *value = format_value (rows[r], v);
           g_autofree char *change = NULL;
 
           if (c > 0 && solved[0].status == HL_OK)
-            change = format_change (&rows[r], v, rows[r].get (&solved[0].result));
+            change = format_change (rows[r], v, rows[r]->get (&solved[0].result));
           gtk_label_set_text (GTK_LABEL (col->value[r]), value);
           gtk_label_set_text (GTK_LABEL (col->change[r]), change != NULL ? change : "");
         }
@@ -610,8 +573,8 @@ hl_results_format_csv (const HlPlan *plan, const HlSolved *solved, size_t n)
 
   for (guint r = 0; r < N_ROWS; r++)
     {
-      g_string_append_printf (s, "%s,", rows[r].key);
-      csv_append_field (s, rows[r].unit);
+      g_string_append_printf (s, "%s,", rows[r]->key);
+      csv_append_field (s, rows[r]->unit);
       for (size_t c = 0; c < n; c++)
         {
           g_autofree char *cell = NULL;
@@ -619,7 +582,7 @@ hl_results_format_csv (const HlPlan *plan, const HlSolved *solved, size_t n)
           g_string_append_c (s, ',');
           if (solved[c].status != HL_OK)
             continue;
-          cell = format_value (&rows[r], rows[r].get (&solved[c].result));
+          cell = format_value (rows[r], rows[r]->get (&solved[c].result));
           csv_append_field (s, cell);
         }
       g_string_append_c (s, '\n');
@@ -673,6 +636,7 @@ hl_results_finalize (GObject *object)
 static void
 hl_results_class_init (HlResultsClass *klass)
 {
+  n_rows = (guint) hl_result_fields_for (HL_OUT_WINDOW, rows);
   GObjectClass *object_class = G_OBJECT_CLASS (klass);
   GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
 
@@ -701,8 +665,8 @@ hl_results_init (HlResults *self)
       GtkWidget *label = make_label ("results-quantity", 0.0f);
       GtkWidget *unit = make_label ("results-unit", 0.0f);
 
-      gtk_label_set_text (GTK_LABEL (label), _(rows[r].label));
-      gtk_label_set_text (GTK_LABEL (unit), rows[r].unit[0] != '\0' ? _(rows[r].unit) : "");
+      gtk_label_set_text (GTK_LABEL (label), _(rows[r]->name));
+      gtk_label_set_text (GTK_LABEL (unit), rows[r]->unit[0] != '\0' ? _(rows[r]->unit) : "");
       gtk_grid_attach (grid, label, 0, value_row_y (r), 1, 1);
       gtk_grid_attach (grid, unit, 1, value_row_y (r), 1, 1);
     }
