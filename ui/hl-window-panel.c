@@ -28,7 +28,6 @@
 #define HL_LINE_ANGLE_MIN_DEG 10.0
 #define HL_LINE_ANGLE_MAX_DEG 90.0
 #define HL_CAPACITY_MAX_NM_PER_KG 4.0
-#define HL_PERCENT_BW_MAX 100.0
 
 #define HL_LANDMARK_ID_KEY "hl-landmark-id"
 
@@ -52,22 +51,6 @@ static const HlSpinBinding spin_bindings[] = {
   { G_STRUCT_OFFSET (HlWindow, capacity_spin), "capacity",
     offsetof (HlPlan, capacity.torque_nm_per_kg), 0.0, HL_CAPACITY_MAX_NM_PER_KG,
     0.01, 0.1 },
-  { G_STRUCT_OFFSET (HlWindow, cane_distance_spin), "cane-distance",
-    offsetof (HlPlan, cane.distance_mm), 0.0, HL_DISTANCE_MAX_MM, 5.0, 50.0 },
-  { G_STRUCT_OFFSET (HlWindow, load_contra_mass_spin), "load-contra-mass",
-    offsetof (HlPlan, loads.hand[HL_HAND_CONTRALATERAL].mass_kg),
-    0.0, HL_HAND_LOAD_MAX_KG, 0.5, 5.0 },
-  { G_STRUCT_OFFSET (HlWindow, load_contra_distance_spin), "load-contra-distance",
-    offsetof (HlPlan, loads.hand[HL_HAND_CONTRALATERAL].distance_mm),
-    0.0, HL_DISTANCE_MAX_MM, 5.0, 50.0 },
-  { G_STRUCT_OFFSET (HlWindow, load_ipsi_mass_spin), "load-ipsi-mass",
-    offsetof (HlPlan, loads.hand[HL_HAND_IPSILATERAL].mass_kg),
-    0.0, HL_HAND_LOAD_MAX_KG, 0.5, 5.0 },
-  { G_STRUCT_OFFSET (HlWindow, load_ipsi_distance_spin), "load-ipsi-distance",
-    offsetof (HlPlan, loads.hand[HL_HAND_IPSILATERAL].distance_mm),
-    0.0, HL_DISTANCE_MAX_MM, 5.0, 50.0 },
-  { G_STRUCT_OFFSET (HlWindow, load_midline_spin), "load-midline",
-    offsetof (HlPlan, loads.midline_kg), 0.0, HL_HAND_LOAD_MAX_KG, 0.5, 5.0 },
 };
 
 /* A dropdown whose position is one enum of the plan. */
@@ -79,7 +62,6 @@ typedef struct {
 static const HlDropBinding drop_bindings[] = {
   { G_STRUCT_OFFSET (HlWindow, bw_line_drop), offsetof (HlPlan, model.bw_line) },
   { G_STRUCT_OFFSET (HlWindow, abductor_mode_drop), offsetof (HlPlan, model.abductor_line) },
-  { G_STRUCT_OFFSET (HlWindow, cane_hand_drop), offsetof (HlPlan, cane.hand) },
 };
 
 /* The reconstruction parameters, in the order of the option panel. */
@@ -158,29 +140,6 @@ sync_mass (HlWindow *self)
   gtk_spin_button_set_range (self->mass_spin, HL_MASS_MIN_KG * factor,
                              HL_MASS_MAX_KG * factor);
   set_spin (self->mass_spin, self->plan->mass_kg * factor);
-}
-
-static double
-cane_value_max (HlForceUnit unit)
-{
-  switch (unit)
-    {
-    case HL_FORCE_UNIT_N:
-      return HL_MASS_MAX_KG * HL_GRAVITY;
-    case HL_FORCE_UNIT_PERCENT_BW:
-      return HL_PERCENT_BW_MAX;
-    case HL_FORCE_UNIT_KG:
-    default:
-      return HL_MASS_MAX_KG;
-    }
-}
-
-static void
-sync_cane_value (HlWindow *self)
-{
-  gtk_spin_button_set_range (self->cane_value_spin, 0.0,
-                             cane_value_max (self->plan->cane.unit));
-  set_spin (self->cane_value_spin, self->plan->cane.value);
 }
 
 static void
@@ -286,57 +245,6 @@ drop_binding_cb (GtkDropDown *drop, GParamSpec *pspec, gpointer user_data)
   if (!hl_window_begin_edit (self, NULL))
     return;
   *target = value;
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
-}
-
-/* ---- aids ----------------------------------------------------------- */
-
-static void
-cane_toggled_cb (GtkCheckButton *check, HlWindow *self)
-{
-  gboolean on = gtk_check_button_get_active (check);
-
-  if (self->syncing > 0 || on == self->plan->cane.enabled)
-    return;
-  hl_document_break_coalescing (self->document);
-  if (!hl_window_begin_edit (self, NULL))
-    return;
-  self->plan->cane.enabled = on;
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
-}
-
-static void
-cane_value_cb (GtkSpinButton *spin, HlWindow *self)
-{
-  double value = gtk_spin_button_get_value (spin);
-
-  if (self->syncing > 0 || value == self->plan->cane.value)
-    return;
-  if (!hl_window_begin_edit (self, "cane-value"))
-    return;
-  self->plan->cane.value = value;
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
-}
-
-/* The same force in the new unit, so changing the unit changes nothing. */
-static void
-cane_unit_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
-{
-  HlForceUnit unit = (HlForceUnit) gtk_drop_down_get_selected (drop);
-  HlCane *cane = &self->plan->cane;
-  double newtons;
-
-  if (self->syncing > 0 || unit == cane->unit)
-    return;
-  hl_document_break_coalescing (self->document);
-  if (!hl_window_begin_edit (self, NULL))
-    return;
-  newtons = hl_force_to_newtons (cane->value, cane->unit, self->plan->mass_kg);
-  cane->unit = unit;
-  cane->value = hl_force_from_newtons (newtons, unit, self->plan->mass_kg);
-  self->syncing++;
-  sync_cane_value (self);
-  self->syncing--;
   hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
@@ -735,20 +643,6 @@ hl_window_panel_sync_options (HlWindow *self)
 
 /* ---- all ------------------------------------------------------------ */
 
-/* The cane's caption: how much people put through a cane, and the plain
- * note of the core when the cane is in the hand on the operated side. */
-void
-hl_window_panel_sync_cane_note (HlWindow *self)
-{
-  const char *usual = _("Patients rarely put more than about 20 per cent of body "
-                        "weight through a cane (Brand and Crowninshield 1980).");
-  const char *note = hl_plan_cane_note (self->plan);
-  g_autofree char *text = note != NULL ? g_strdup_printf ("%s\n%s", note, usual)
-                                       : g_strdup (usual);
-  if (g_strcmp0 (gtk_label_get_text (self->cane_note_label), text) != 0)
-    gtk_label_set_text (self->cane_note_label, text);
-}
-
 void
 hl_window_panel_sync (HlWindow *self)
 {
@@ -768,9 +662,6 @@ hl_window_panel_sync (HlWindow *self)
   for (guint i = 0; i < G_N_ELEMENTS (drop_bindings); i++)
     gtk_drop_down_set_selected (GTK_DROP_DOWN (widget_at (self, drop_bindings[i].widget_offset)),
                                 (guint) *plan_enum (self->plan, drop_bindings[i].plan_offset));
-  gtk_check_button_set_active (self->cane_check, plan->cane.enabled);
-  gtk_drop_down_set_selected (self->cane_unit_drop, (guint) plan->cane.unit);
-  sync_cane_value (self);
   for (int i = 0; i < HL_LM_COUNT; i++)
     hl_window_panel_sync_landmark (self, (HlLandmarkId) i);
   self->syncing--;
@@ -804,9 +695,7 @@ hl_window_panel_init (HlWindow *self)
   gtk_drop_down_set_model (self->limb_drop, G_LIST_MODEL (limbs));
 
   gtk_spin_button_set_increments (self->mass_spin, 0.5, 5.0);
-  gtk_spin_button_set_increments (self->cane_value_spin, 1.0, 10.0);
   plan_undo_only (self->mass_spin);
-  plan_undo_only (self->cane_value_spin);
   for (guint i = 0; i < G_N_ELEMENTS (spin_bindings); i++)
     {
       const HlSpinBinding *b = &spin_bindings[i];
@@ -827,9 +716,6 @@ hl_window_panel_init (HlWindow *self)
   g_signal_connect_object (self->mass_unit_drop, "notify::selected", G_CALLBACK (mass_unit_cb), self, 0);
   g_signal_connect_object (self->side_drop, "notify::selected", G_CALLBACK (side_cb), self, 0);
   g_signal_connect_object (self->limb_drop, "notify::selected", G_CALLBACK (limb_cb), self, 0);
-  g_signal_connect_object (self->cane_check, "toggled", G_CALLBACK (cane_toggled_cb), self, 0);
-  g_signal_connect_object (self->cane_value_spin, "value-changed", G_CALLBACK (cane_value_cb), self, 0);
-  g_signal_connect_object (self->cane_unit_drop, "notify::selected", G_CALLBACK (cane_unit_cb), self, 0);
 
   hl_settings_track_mass_unit (self->mass_unit_drop);
   add_defaults_button (self);
@@ -864,15 +750,5 @@ hl_window_panel_bind_template (GtkWidgetClass *widget_class)
   gtk_widget_class_bind_template_child (widget_class, HlWindow, option_name_entry);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, option_params);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, option_hint_label);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_check);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_hand_drop);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_note_label);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_value_spin);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_unit_drop);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, cane_distance_spin);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, load_contra_mass_spin);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, load_contra_distance_spin);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, load_ipsi_mass_spin);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, load_ipsi_distance_spin);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, load_midline_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, aids_page);
 }

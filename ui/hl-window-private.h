@@ -5,6 +5,7 @@
  */
 #pragma once
 
+#include "hl-aids-page.h"
 #include "hl-analysis-panel.h"
 #include "hl-canvas.h"
 #include "hl-document.h"
@@ -59,17 +60,7 @@ struct _HlWindow {
   GtkWidget *option_params;
   GtkLabel *option_hint_label;
   /* aids page */
-  GtkCheckButton *cane_check;
-  GtkDropDown *cane_hand_drop;
-  GtkLabel *cane_note_label;
-  GtkSpinButton *cane_value_spin;
-  GtkDropDown *cane_unit_drop;
-  GtkSpinButton *cane_distance_spin;
-  GtkSpinButton *load_contra_mass_spin;
-  GtkSpinButton *load_contra_distance_spin;
-  GtkSpinButton *load_ipsi_mass_spin;
-  GtkSpinButton *load_ipsi_distance_spin;
-  GtkSpinButton *load_midline_spin;
+  HlAidsPage *aids_page;
 
   /* built in code */
   GtkWidget *lm_row[HL_LM_COUNT];
@@ -123,7 +114,6 @@ void hl_window_show_error (HlWindow *self, const char *primary,
 /* hl-window-panel.c */
 void hl_window_panel_init (HlWindow *self);
 void hl_window_panel_sync (HlWindow *self);
-void hl_window_panel_sync_cane_note (HlWindow *self);
 void hl_window_panel_sync_landmark (HlWindow *self, HlLandmarkId id);
 void hl_window_panel_sync_options (HlWindow *self);
 void hl_window_panel_select_landmark (HlWindow *self, int id);

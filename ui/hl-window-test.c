@@ -217,7 +217,7 @@ hl_window_print_handles (HlWindow *self)
   if (gtk_revealer_get_reveal_child (self->caution_revealer))
     print_widget (self, "caution-full", GTK_WIDGET (self->caution_full_label));
   print_widget (self, "caution-short", GTK_WIDGET (self->caution_short_label));
-  print_widget (self, "cane-check", GTK_WIDGET (self->cane_check));
+  hl_aids_page_print_handles (self->aids_page);
   print_widget (self, "add-option", GTK_WIDGET (self->add_option_button));
   print_widget (self, "duplicate-option", GTK_WIDGET (self->duplicate_option_button));
   print_widget (self, "remove-option", GTK_WIDGET (self->remove_option_button));

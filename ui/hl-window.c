@@ -142,8 +142,6 @@ document_changed_cb (HlDocument *document, guint what, HlWindow *self)
       hl_window_update_status (self);
     }
   hl_window_update_actions (self);
-  if (what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_RESULTS))
-    hl_window_panel_sync_cane_note (self);
   self->handles_dirty = TRUE;
 }
 
@@ -468,6 +466,7 @@ hl_window_class_init (HlWindowClass *klass)
   object_class->finalize = hl_window_finalize;
   window_class->close_request = hl_window_close_request_vfunc;
 
+  g_type_ensure (HL_TYPE_AIDS_PAGE);
   g_type_ensure (HL_TYPE_CANVAS);
   g_type_ensure (HL_TYPE_RESULTS);
   g_type_ensure (HL_TYPE_CHARTS_VIEW);
@@ -515,6 +514,7 @@ hl_window_init (HlWindow *self)
 
   hl_canvas_set_document (self->canvas, self->document);
   hl_results_set_document (self->results, self->document);
+  hl_aids_page_set_document (self->aids_page, self->document);
   hl_window_panel_init (self);
   hl_template_tool_attach (self->canvas, self->document);
   GtkWidget *template_panel = hl_template_panel_new (self->document);
