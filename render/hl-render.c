@@ -931,6 +931,7 @@ hl_render_fit_view (const HlScene *scene, double width, double height,
 #define LEGEND_ASPECT_MIN 1.45
 #define FRAME_FULL_HEIGHT_PX (520.0 * px_size)
 #define FRAME_SMALL_RATIO 0.6
+#define WIDE_ASPECT 2.2
 
 void
 hl_render_fit_view_framed (const HlScene *scene, const HlRenderStyle *style,
@@ -955,6 +956,14 @@ hl_render_fit_view_framed (const HlScene *scene, const HlRenderStyle *style,
   double legend_w = LEGEND_RESERVE_EM * style->font_px;
   if (style->show_legend && width - legend_w > LEGEND_ASPECT_MIN * (height - top - bottom))
     right = legend_w;
+  /* A wide, low rectangle (a window on a 1366 x 768 screen) has room for the
+   * markers and the bars in its corners beside the bones: keep only the
+   * title's line clear, so that the pelvis fills the height. */
+  if (style->show_frame && width > WIDE_ASPECT * height)
+    {
+      top = 1.6 * style->font_px;
+      bottom = style->show_caution ? bottom - k * FRAME_BOTTOM_PX : 0.0;
+    }
   if (height - top - bottom < 0.5 * height)
     top = bottom = 0.0;
   hl_render_fit_view (scene, width - right, height - top - bottom, margin, view);
@@ -1815,7 +1824,7 @@ draw_scale_bars (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
   if (mm * view->scale < SCALE_BAR_MIN_PX && 2.0 * max_px <= room)
     mm = nice_step (2.0 * max_px / view->scale);
   /* 50 mm reads at a glance against a pelvis about 250 mm wide. */
-  if (mm > SCALE_BAR_PREFERRED_MM && SCALE_BAR_PREFERRED_MM * view->scale >= 2.0 * style->font_px)
+  if (mm > SCALE_BAR_PREFERRED_MM && SCALE_BAR_PREFERRED_MM * view->scale >= 1.5 * style->font_px)
     mm = SCALE_BAR_PREFERRED_MM;
   snprintf (text, sizeof text, _("%g mm"), mm);
   double line = 1.8 * style->font_px;
@@ -1826,7 +1835,7 @@ draw_scale_bars (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
   double bw = nice_step (max_px / px_per_bw);
   /* One body weight, the unit of every force label, wherever it is long
    * enough to see. */
-  if (bw > 1.0 && px_per_bw >= 2.0 * style->font_px)
+  if (bw > 1.0 && px_per_bw >= 1.2 * style->font_px)
     bw = 1.0;
   snprintf (text, sizeof text, _("%g BW (force scale)"), bw);
   bar[1] = draw_bar (cr, style, x, bottom - 0.7 * style->font_px - line, bw * px_per_bw,

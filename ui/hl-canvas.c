@@ -75,6 +75,7 @@ struct _HlCanvas
   HlScene scene;
   HlView view;
   gboolean view_fitted;
+  gboolean view_moved;      /* zoomed or panned by the user: no refit on resize */
   int last_width, last_height;
   int selected_landmark;
   int hover_landmark;
@@ -386,6 +387,7 @@ hl_canvas_fit (HlCanvas *self)
       self->view_fitted = FALSE;
       return;
     }
+  self->view_moved = FALSE;
   hl_canvas_fit_to (self, w, h);
   gtk_widget_queue_draw (GTK_WIDGET (self));
 }
@@ -409,6 +411,7 @@ static void
 hl_canvas_zoom_about (HlCanvas *self, double factor, double sx, double sy)
 {
   hl_view_zoom_about (&self->view, factor, sx, sy);
+  self->view_moved = TRUE;
   gtk_widget_queue_draw (GTK_WIDGET (self));
 }
 
@@ -461,6 +464,7 @@ hl_canvas_pan_by (HlCanvas *self, double dx, double dy)
   g_return_if_fail (HL_IS_CANVAS (self));
   self->view.tx += dx;
   self->view.ty += dy;
+  self->view_moved = TRUE;
   gtk_widget_queue_draw (GTK_WIDGET (self));
 }
 
@@ -603,6 +607,7 @@ drag_update_cb (GtkGestureDrag *gesture, double dx, double dy, HlCanvas *self)
     {
       self->view.tx = self->pan_tx0 + dx;
       self->view.ty = self->pan_ty0 + dy;
+      self->view_moved = TRUE;
       gtk_widget_queue_draw (GTK_WIDGET (self));
       return;
     }
@@ -962,7 +967,10 @@ static void
 hl_canvas_size_allocate (GtkWidget *widget, int width, int height, int baseline)
 {
   HlCanvas *self = HL_CANVAS (widget);
-  if (!self->view_fitted)
+  /* Until the user zooms or pans, the drawing refits to every new size;
+   * after that the middle of the drawing stays in the middle. */
+  if (!self->view_fitted || (!self->view_moved && (width != self->last_width
+                                                   || height != self->last_height)))
     hl_canvas_fit_to (self, width, height);
   else if (self->last_width > 0 && self->last_height > 0)
     {
