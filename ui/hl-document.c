@@ -414,6 +414,20 @@ hl_document_end_drag (HlDocument *self, gboolean cancelled)
     changed (self, HL_DOCUMENT_CHANGED_HISTORY);
 }
 
+HlPlan *
+hl_document_drag_plan (HlDocument *self)
+{
+  g_return_val_if_fail (HL_IS_DOCUMENT (self), NULL);
+  return self->dragging ? self->plan : NULL;
+}
+
+void
+hl_document_drag_changed (HlDocument *self, HlDocumentChange what)
+{
+  g_return_if_fail (HL_IS_DOCUMENT (self));
+  changed (self, what);
+}
+
 gboolean
 hl_document_is_dragging (HlDocument *self)
 {

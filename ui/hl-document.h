@@ -95,6 +95,12 @@ void          hl_document_move_landmark     (HlDocument *self, HlLandmarkId id,
 /* Cancelled: the landmark is already back; the undo step is dropped. */
 void          hl_document_end_drag          (HlDocument *self, gboolean cancelled);
 gboolean      hl_document_is_dragging       (HlDocument *self);
+/* Any other edit made by dragging (an implant template): between
+ * hl_document_begin_drag and hl_document_end_drag, the plan to change
+ * (NULL when no drag is on) and, after changing it, the recomputation and
+ * "changed" with `what`; the whole drag stays one undo step. */
+HlPlan       *hl_document_drag_plan         (HlDocument *self);
+void          hl_document_drag_changed      (HlDocument *self, HlDocumentChange what);
 
 gboolean      hl_document_can_undo          (HlDocument *self);
 gboolean      hl_document_can_redo          (HlDocument *self);

@@ -22,6 +22,10 @@
 
 /* Rows of the ranking shown: the best few are what a surgeon compares. */
 #define RANK_ROWS_SHOWN 8
+#define RANK_COLS 12
+/* While a template is dragged, a new ranking starts at most this often
+ * (ms): the rows stay readable and the frames fast. */
+#define RANK_DRAG_INTERVAL_MS 100
 
 enum { DD_CUP_SIZE, DD_LINER, DD_STEM_SIZE, DD_VERSION, DD_HEAD, N_DD };
 
@@ -37,7 +41,8 @@ typedef struct {
   GtkWidget *tmpl_box;
   GtkWidget *families_label;
   GtkWidget *drop[N_DD];
-  GtkWidget *readouts;
+  GtkWidget *readouts;       /* a grid: name, value per row */
+  GtkWidget *readout_value[4 + HL_CANAL_LEVELS];
   GtkWidget *cup_suggestion, *cup_apply;
   GtkWidget *stem_suggestion, *stem_apply;
   GtkWidget *rank_grid;
@@ -46,10 +51,15 @@ typedef struct {
   guint syncing;
   /* the ranking */
   HlFitTable table;          /* shown */
-  guint64 table_revision;
+  guint64 table_revision;    /* `state` the table was ranked for */
+  guint64 state;             /* bumped on every change of the plan */
   gboolean running, pending;
   double rank_ms;
   GtkWidget *manual_button;
+  GtkWidget *cells[RANK_ROWS_SHOWN][RANK_COLS];
+  GtkWidget *apply[RANK_ROWS_SHOWN];
+  gint64 last_start_us;
+  guint rank_timeout;
   GFunc changed_func;
   gpointer changed_data;
   HlCupSuggestion cup_sugg;
@@ -247,12 +257,19 @@ drop_changed_cb (GtkDropDown *drop, GParamSpec *pspec, Panel *p)
 /* ---- Readouts and suggestions ------------------------------------------ */
 
 static void
-fmt_mm (GString *s, const char *name, double v, const char *missing)
+set_text (GtkWidget *label, const char *text)
 {
+  if (g_strcmp0 (gtk_label_get_text (GTK_LABEL (label)), text) != 0)
+    gtk_label_set_text (GTK_LABEL (label), text);
+}
+
+static void
+set_mm (GtkWidget *label, double v, const char *missing)
+{
+  char buf[64];
   if (isfinite (v))
-    g_string_append_printf (s, "%s: %.1f mm\n", name, v);
-  else
-    g_string_append_printf (s, "%s: %s\n", name, missing);
+    g_snprintf (buf, sizeof buf, _("%.1f mm"), v);
+  set_text (label, isfinite (v) ? buf : missing);
 }
 
 static void
@@ -260,43 +277,33 @@ sync_readouts (Panel *p, const HlTemplate *t, const HlCatalogue *cat)
 {
   const HlPlan *plan = hl_document_get_plan (p->document);
   HlTemplateReadouts r;
+  char buf[128];
   hl_template_readouts (plan, t, cat, &r);
-  g_autoptr(GString) s = g_string_new (NULL);
-  g_string_append_printf (s, _("Inclination: %.1f° (target zone 30-50°)\n"), r.inclination_deg);
-  fmt_mm (s, _("Medial cup edge to the ilioischial line (− beyond it)"),
-          r.medial_edge_to_ilioischial_mm, _("mark the ilioischial line"));
-  fmt_mm (s, _("Uncovered lateral rim"), r.uncovered_lateral_mm,
-          _("mark the lateral acetabular margin"));
-  fmt_mm (s, _("Cup centre above the teardrop line"), r.centre_height_mm,
-          _("mark a teardrop"));
-  gboolean any = FALSE;
+  g_snprintf (buf, sizeof buf, _("%.1f° (target zone 30-50°)"), r.inclination_deg);
+  set_text (p->readout_value[0], buf);
+  set_mm (p->readout_value[1], r.medial_edge_to_ilioischial_mm, _("mark the ilioischial line"));
+  set_mm (p->readout_value[2], r.uncovered_lateral_mm, _("mark the acetabular margin"));
+  set_mm (p->readout_value[3], r.centre_height_mm, _("mark a teardrop"));
   for (int k = 0; k < HL_CANAL_LEVELS; k++)
-    if (isfinite (r.canal_width_mm[k]))
-      {
-        any = TRUE;
-        if (isfinite (r.canal_fill_pct[k]))
-          g_string_append_printf (s, _("Canal fill at level %d: %.0f %% (stem %.1f mm in a %.1f mm canal)\n"),
-                                  k + 1, r.canal_fill_pct[k], r.body_width_mm[k],
-                                  r.canal_width_mm[k]);
-        else
-          g_string_append_printf (s, _("Canal fill at level %d: the stem does not reach it\n"), k + 1);
-      }
-  if (!any)
-    g_string_append (s, _("Canal fill: mark the inner canal edges (landmarks page)\n"));
-  if (s->len > 0 && s->str[s->len - 1] == '\n')
-    g_string_truncate (s, s->len - 1);
-  gtk_label_set_text (GTK_LABEL (p->readouts), s->str);
+    {
+      if (!isfinite (r.canal_width_mm[k]))
+        g_snprintf (buf, sizeof buf, "%s", _("mark the inner canal edges"));
+      else if (isfinite (r.canal_fill_pct[k]))
+        g_snprintf (buf, sizeof buf, _("%.0f %% (stem %.1f in %.1f mm)"), r.canal_fill_pct[k],
+                    r.body_width_mm[k], r.canal_width_mm[k]);
+      else
+        g_snprintf (buf, sizeof buf, "%s", _("the stem does not reach it"));
+      set_text (p->readout_value[4 + k], buf);
+    }
 
   HlError err;
   hl_error_clear (&err);
   p->has_cup_sugg = hl_template_suggest_cup (plan, t, cat, &p->cup_sugg, &err) == HL_OK;
-  gtk_label_set_text (GTK_LABEL (p->cup_suggestion),
-                      p->has_cup_sugg ? p->cup_sugg.reason : err.message);
+  set_text (p->cup_suggestion, p->has_cup_sugg ? p->cup_sugg.reason : err.message);
   gtk_widget_set_sensitive (p->cup_apply, p->has_cup_sugg);
   hl_error_clear (&err);
   p->has_stem_sugg = hl_template_suggest_stem (plan, t, cat, &p->stem_sugg, &err) == HL_OK;
-  gtk_label_set_text (GTK_LABEL (p->stem_suggestion),
-                      p->has_stem_sugg ? p->stem_sugg.reason : err.message);
+  set_text (p->stem_suggestion, p->has_stem_sugg ? p->stem_sugg.reason : err.message);
   gtk_widget_set_sensitive (p->stem_apply, p->has_stem_sugg);
 }
 
@@ -365,6 +372,16 @@ rank_thread (GTask *task, gpointer source, gpointer data, GCancellable *cancella
 static void rank_start (Panel *p);
 static void rank_show (Panel *p);
 
+static gboolean
+rank_timeout_cb (gpointer data)
+{
+  Panel *p = data;
+  p->rank_timeout = 0;
+  p->last_start_us = 0;
+  rank_start (p);
+  return G_SOURCE_REMOVE;
+}
+
 static void
 rank_done (GObject *source, GAsyncResult *res, gpointer user_data)
 {
@@ -373,7 +390,9 @@ rank_done (GObject *source, GAsyncResult *res, gpointer user_data)
   RankJob *job = g_task_get_task_data (G_TASK (res));
   p->running = FALSE;
   p->rank_ms = job->ms;
-  if (job->revision == hl_document_get_revision (p->document))
+  int index;
+  const HlTemplate *t = current (p, &index);
+  if (t != NULL && t->on && (size_t) index == job->option && job->revision > p->table_revision)
     {
       hl_fit_table_clear (&p->table);
       p->table = job->table;
@@ -385,7 +404,7 @@ rank_done (GObject *source, GAsyncResult *res, gpointer user_data)
       if (p->changed_func != NULL)
         p->changed_func (p->box, p->changed_data);
     }
-  if (p->pending)
+  if (p->pending || p->table_revision != p->state)
     {
       p->pending = FALSE;
       rank_start (p);
@@ -405,13 +424,22 @@ rank_start (Panel *p)
       p->pending = TRUE;
       return;
     }
-  if (p->table_revision == hl_document_get_revision (p->document))
+  if (p->table_revision == p->state)
     return;
+  gint64 now = g_get_monotonic_time ();
+  if (hl_document_is_dragging (p->document)
+      && now - p->last_start_us < RANK_DRAG_INTERVAL_MS * 1000)
+    {
+      if (p->rank_timeout == 0)
+        p->rank_timeout = g_timeout_add (RANK_DRAG_INTERVAL_MS, rank_timeout_cb, p);
+      return;
+    }
+  p->last_start_us = now;
   RankJob *job = g_new0 (RankJob, 1);
   job->plan = hl_plan_copy (hl_document_get_plan (p->document));
   job->option = (size_t) index;
   job->cat = hl_catalogue_registry_find (t->catalogue);
-  job->revision = hl_document_get_revision (p->document);
+  job->revision = p->state;
   if (job->plan == NULL || job->cat == NULL)
     {
       rank_job_free (job);
@@ -432,7 +460,7 @@ rank_apply_cb (GtkButton *b, Panel *p)
   apply_rank (p, GPOINTER_TO_UINT (g_object_get_data (G_OBJECT (b), "rank")));
 }
 
-static void
+static GtkWidget *
 grid_text (GtkWidget *grid, int col, int row, const char *text, gboolean header)
 {
   GtkWidget *l = gtk_label_new (text);
@@ -442,65 +470,87 @@ grid_text (GtkWidget *grid, int col, int row, const char *text, gboolean header)
   else
     gtk_widget_add_css_class (l, "numeric");
   gtk_grid_attach (GTK_GRID (grid), l, col, row, 1, 1);
+  return l;
+}
+
+/* The grid's header, labels and buttons, made once: a ranking that
+ * arrives only changes their text. */
+static void
+rank_grid_build (Panel *p)
+{
+  static const char *heads[RANK_COLS] = {
+    N_("#"), N_("Cup"), N_("Liner"), N_("Stem"), N_("Version"), N_("Head"),
+    N_("Leg length"), N_("Offset"), N_("Residual"), N_("Abductor"), N_("Joint"), N_("Joint p95"),
+  };
+  for (int c = 0; c < RANK_COLS; c++)
+    grid_text (p->rank_grid, c + 1, 0, _(heads[c]), TRUE);
+  for (int r = 0; r < RANK_ROWS_SHOWN; r++)
+    {
+      for (int c = 0; c < RANK_COLS; c++)
+        p->cells[r][c] = grid_text (p->rank_grid, c + 1, r + 1, "", FALSE);
+      GtkWidget *apply = gtk_button_new_with_label (_("Apply"));
+      g_autofree char *name = g_strdup_printf (_("Apply combination %d"), r + 1);
+      gtk_accessible_update_property (GTK_ACCESSIBLE (apply), GTK_ACCESSIBLE_PROPERTY_LABEL,
+                                      name, -1);
+      g_object_set_data (G_OBJECT (apply), "rank", GUINT_TO_POINTER ((guint) r + 1));
+      g_signal_connect (apply, "clicked", G_CALLBACK (rank_apply_cb), p);
+      gtk_grid_attach (GTK_GRID (p->rank_grid), apply, 0, r + 1, 1, 1);
+      p->apply[r] = apply;
+    }
+}
+
+static void
+set_cell (GtkWidget *label, const char *text)
+{
+  if (g_strcmp0 (gtk_label_get_text (GTK_LABEL (label)), text) != 0)
+    gtk_label_set_text (GTK_LABEL (label), text);
 }
 
 static void
 rank_show (Panel *p)
 {
-  GtkWidget *child;
-  while ((child = gtk_widget_get_first_child (p->rank_grid)) != NULL)
-    gtk_grid_remove (GTK_GRID (p->rank_grid), child);
-  if (p->table.n == 0)
-    return;
-  static const char *heads[] = {
-    N_("#"), N_("Cup"), N_("Liner"), N_("Stem"), N_("Version"), N_("Head"),
-    N_("Leg length"), N_("Offset"), N_("Residual"), N_("Abductor"), N_("Joint"), N_("Joint p95"),
-  };
-  for (int c = 0; c < (int) G_N_ELEMENTS (heads); c++)
-    grid_text (p->rank_grid, c + 1, 0, _(heads[c]), TRUE);
-  size_t n = MIN (p->table.n, RANK_ROWS_SHOWN);
-  for (size_t i = 0; i < n; i++)
+  gtk_widget_set_visible (p->rank_grid, p->table.n > 0);
+  for (size_t i = 0; i < RANK_ROWS_SHOWN; i++)
     {
+      gboolean shown = i < p->table.n;
+      for (int c = 0; c < RANK_COLS; c++)
+        gtk_widget_set_visible (p->cells[i][c], shown);
+      gtk_widget_set_visible (p->apply[i], shown);
+      if (!shown)
+        continue;
       const HlFitRow *r = &p->table.rows[i];
-      int row = (int) i + 1;
       char buf[64];
       g_snprintf (buf, sizeof buf, "%zu", r->rank);
-      grid_text (p->rank_grid, 1, row, buf, FALSE);
+      set_cell (p->cells[i][0], buf);
       g_snprintf (buf, sizeof buf, "%.0f", r->tmpl.cup_diameter_mm);
-      grid_text (p->rank_grid, 2, row, buf, FALSE);
-      grid_text (p->rank_grid, 3, row, r->tmpl.liner, FALSE);
-      grid_text (p->rank_grid, 4, row, r->tmpl.stem_size, FALSE);
-      grid_text (p->rank_grid, 5, row, r->tmpl.version, FALSE);
+      set_cell (p->cells[i][1], buf);
+      set_cell (p->cells[i][2], r->tmpl.liner);
+      set_cell (p->cells[i][3], r->tmpl.stem_size);
+      set_cell (p->cells[i][4], r->tmpl.version);
       g_snprintf (buf, sizeof buf, "%+.0f", r->tmpl.head_length_mm);
-      grid_text (p->rank_grid, 6, row, buf, FALSE);
+      set_cell (p->cells[i][5], buf);
       g_snprintf (buf, sizeof buf, "%+.1f", r->result.leg_length_change_mm);
-      grid_text (p->rank_grid, 7, row, buf, FALSE);
+      set_cell (p->cells[i][6], buf);
       g_snprintf (buf, sizeof buf, "%+.1f", r->result.global_offset_change_mm);
-      grid_text (p->rank_grid, 8, row, buf, FALSE);
-      g_snprintf (buf, sizeof buf, "%.1f / %.1f", r->leg_length_residual_mm,
+      set_cell (p->cells[i][7], buf);
+      g_snprintf (buf, sizeof buf, "%+.1f / %+.1f", r->leg_length_residual_mm,
                   r->global_offset_residual_mm);
-      grid_text (p->rank_grid, 9, row, buf, FALSE);
+      set_cell (p->cells[i][8], buf);
       g_snprintf (buf, sizeof buf, "%.2f", r->result.abductor_force_bw);
-      grid_text (p->rank_grid, 10, row, buf, FALSE);
+      set_cell (p->cells[i][9], buf);
       g_snprintf (buf, sizeof buf, "%.2f", r->result.jrf_bw);
-      grid_text (p->rank_grid, 11, row, buf, FALSE);
+      set_cell (p->cells[i][10], buf);
       if (isfinite (r->jrf_p95_bw))
         g_snprintf (buf, sizeof buf, "%.2f", r->jrf_p95_bw);
       else
         g_snprintf (buf, sizeof buf, "–");
-      grid_text (p->rank_grid, 12, row, buf, FALSE);
-      GtkWidget *apply = gtk_button_new_with_label (_("Apply"));
-      g_autofree char *name = g_strdup_printf (_("Apply combination %zu"), r->rank);
-      gtk_accessible_update_property (GTK_ACCESSIBLE (apply), GTK_ACCESSIBLE_PROPERTY_LABEL,
-                                      name, -1);
-      g_object_set_data (G_OBJECT (apply), "rank", GUINT_TO_POINTER ((guint) r->rank));
-      g_signal_connect (apply, "clicked", G_CALLBACK (rank_apply_cb), p);
-      gtk_grid_attach (GTK_GRID (p->rank_grid), apply, 0, row, 1, 1);
+      set_cell (p->cells[i][11], buf);
     }
-  gtk_label_set_text (GTK_LABEL (p->rank_note),
-                      p->table.against_other_hip
-                      ? _("Ranked by |leg length residual| + |global offset residual| against the other hip (mm), ties by the lower joint force; forces in body weights.")
-                      : _("Ranked by |leg length change| + |global offset change| against the native hip (mm), ties by the lower joint force; forces in body weights."));
+  if (p->table.n > 0)
+    gtk_label_set_text (GTK_LABEL (p->rank_note),
+                        p->table.against_other_hip
+                        ? _("Ranked by |leg length residual| + |global offset residual| against the other hip (mm), ties by the lower joint force; residuals leg length / offset in mm, forces in body weights.")
+                        : _("Ranked by |leg length change| + |global offset change| against the native hip (mm), ties by the lower joint force; residuals leg length / offset in mm, forces in body weights."));
 }
 
 static gboolean
@@ -606,8 +656,8 @@ sync_all (Panel *p)
   const HlCatalogue *cat = hl_catalogue_registry_find (t->catalogue);
   if (cat == NULL || !t->resolved)
     {
-      gtk_label_set_text (GTK_LABEL (p->readouts),
-                          _("This option's implants cannot be shown: its catalogue is missing or has changed (see the message above). Its saved numbers stand."));
+      set_text (p->families_label,
+                _("This option's implants cannot be shown: its catalogue is missing or has changed (see the message above). Its saved numbers stand."));
       return;
     }
   char key[256];
@@ -629,7 +679,13 @@ sync_all (Panel *p)
 static void
 document_changed_cb (HlDocument *document, guint what, GtkWidget *box)
 {
-  sync_all (panel_of (box));
+  Panel *p = panel_of (box);
+  if (what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_HISTORY
+              | HL_DOCUMENT_CHANGED_REPLACED | HL_DOCUMENT_CHANGED_SELECTION))
+    p->state++;
+  else if (!(what & HL_DOCUMENT_CHANGED_RESULTS))
+    return;
+  sync_all (p);
 }
 
 static void
@@ -676,6 +732,8 @@ static void
 panel_free (gpointer data)
 {
   Panel *p = data;
+  if (p->rank_timeout != 0)
+    g_source_remove (p->rank_timeout);
   hl_fit_table_clear (&p->table);
   g_free (p);
 }
@@ -686,6 +744,7 @@ hl_template_panel_new (HlDocument *document)
   Panel *p = g_new0 (Panel, 1);
   p->document = document;
   p->box = gtk_box_new (GTK_ORIENTATION_VERTICAL, 6);
+  p->state = 1;
   gtk_widget_set_margin_top (p->box, 12);
   g_object_set_data_full (G_OBJECT (p->box), "hl-template-panel", p, panel_free);
   gtk_widget_set_name (p->box, "template-panel");
@@ -755,8 +814,31 @@ hl_template_panel_new (HlDocument *document)
   gtk_box_append (GTK_BOX (p->tmpl_box), manual);
 
   gtk_box_append (GTK_BOX (p->tmpl_box), heading (_("Fit to the bone")));
-  p->readouts = wrap_label ();
+  p->readouts = gtk_grid_new ();
+  gtk_grid_set_column_spacing (GTK_GRID (p->readouts), 8);
   gtk_widget_set_name (p->readouts, "template-readouts");
+  {
+    static const char *names[4 + HL_CANAL_LEVELS] = {
+      N_("Inclination"), N_("Medial cup edge to the ilioischial line (− beyond it)"),
+      N_("Uncovered lateral rim"), N_("Cup centre above the teardrop line"),
+      N_("Canal fill, level 1"), N_("Canal fill, level 2"), N_("Canal fill, level 3"),
+    };
+    for (int k = 0; k < 4 + HL_CANAL_LEVELS; k++)
+      {
+        GtkWidget *n = wrap_label ();
+        gtk_label_set_text (GTK_LABEL (n), _(names[k]));
+        gtk_label_set_max_width_chars (GTK_LABEL (n), 24);
+        gtk_widget_set_hexpand (n, TRUE);
+        GtkWidget *v = gtk_label_new ("");
+        gtk_label_set_xalign (GTK_LABEL (v), 1.0f);
+        gtk_label_set_width_chars (GTK_LABEL (v), 22);
+        gtk_label_set_ellipsize (GTK_LABEL (v), PANGO_ELLIPSIZE_END);
+        gtk_widget_add_css_class (v, "numeric");
+        gtk_grid_attach (GTK_GRID (p->readouts), n, 0, k, 1, 1);
+        gtk_grid_attach (GTK_GRID (p->readouts), v, 1, k, 1, 1);
+        p->readout_value[k] = v;
+      }
+  }
   gtk_box_append (GTK_BOX (p->tmpl_box), p->readouts);
 
   gtk_box_append (GTK_BOX (p->tmpl_box), heading (_("Suggestions")));
@@ -792,6 +874,7 @@ hl_template_panel_new (HlDocument *document)
   gtk_widget_set_name (p->rank_grid, "template-ranking");
   gtk_grid_set_column_spacing (GTK_GRID (p->rank_grid), 6);
   gtk_grid_set_row_spacing (GTK_GRID (p->rank_grid), 2);
+  rank_grid_build (p);
   GtkWidget *scroll = gtk_scrolled_window_new ();
   gtk_scrolled_window_set_policy (GTK_SCROLLED_WINDOW (scroll), GTK_POLICY_AUTOMATIC,
                                   GTK_POLICY_NEVER);
@@ -862,7 +945,7 @@ hl_template_panel_foreach_control (GtkWidget *panel, HlTemplateControlFunc func,
        c = gtk_widget_get_next_sibling (c))
     {
       gpointer rank = g_object_get_data (G_OBJECT (c), "rank");
-      if (rank == NULL)
+      if (rank == NULL || !gtk_widget_get_visible (c))
         continue;
       g_autofree char *name = g_strdup_printf ("template-rank-%u", GPOINTER_TO_UINT (rank));
       func (name, c, data);

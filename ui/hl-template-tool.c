@@ -19,15 +19,12 @@ typedef struct {
   HlDocument *document;     /* borrowed: outlives the canvas */
   int option;               /* the option being dragged, -1 */
   HlTemplate start;         /* its template at the press */
-  char *field;              /* the drag's undo field: one step */
-  guint serial;
 } Tool;
 
 static void
 tool_free (gpointer data)
 {
   Tool *tool = data;
-  g_free (tool->field);
   g_free (tool);
 }
 
@@ -54,12 +51,19 @@ hl_template_edit (HlDocument *document, int index, const HlTemplate *tmpl,
       g_signal_emit_by_name (document, "error", _("The template was not changed"), text);
       return FALSE;
     }
-  HlPlan *edit = hl_document_begin_edit (document, field);
+  /* In a drag: the drag's one undo step, recorded at its start. */
+  HlPlan *edit = hl_document_drag_plan (document);
+  gboolean dragging = edit != NULL;
+  if (!dragging)
+    edit = hl_document_begin_edit (document, field);
   if (edit == NULL)
     return FALSE;
   if (hl_plan_set_template (edit, (size_t) index, &t, cat, &err) != HL_OK)
     g_warning ("template not set: %s", err.message);
-  hl_document_end_edit (document, HL_DOCUMENT_CHANGED_VALUES);
+  if (dragging)
+    hl_document_drag_changed (document, HL_DOCUMENT_CHANGED_VALUES);
+  else
+    hl_document_end_edit (document, HL_DOCUMENT_CHANGED_VALUES);
   return TRUE;
 }
 
@@ -84,9 +88,7 @@ drag_begin_cb (HlCanvas *canvas, int part, Tool *tool)
     return;
   tool->option = index;
   tool->start = *t;
-  g_free (tool->field);
-  tool->field = g_strdup_printf ("template drag %u", ++tool->serial);
-  hl_document_break_coalescing (tool->document);
+  hl_document_begin_drag (tool->document);
 }
 
 static void
@@ -119,7 +121,7 @@ dragged_cb (HlCanvas *canvas, int part, double fx, double fy, double tx, double 
     default:
       return;
     }
-  hl_template_edit (tool->document, tool->option, &t, tool->field);
+  hl_template_edit (tool->document, tool->option, &t, NULL);
 }
 
 static void
@@ -127,13 +129,11 @@ drag_end_cb (HlCanvas *canvas, int part, gboolean cancelled, Tool *tool)
 {
   if (tool->option < 0)
     return;
-  const HlPlan *plan = hl_document_get_plan (tool->document);
-  /* Escape: back to the template at the press, still in the drag's step,
-   * and that step is undone so nothing is left of the drag. */
-  if (cancelled && (size_t) tool->option < plan->n_options
-      && memcmp (&plan->options[tool->option].recon.tmpl, &tool->start, sizeof tool->start) != 0)
-    hl_document_undo (tool->document);
-  hl_document_break_coalescing (tool->document);
+  /* Escape: back to the template at the press; the drag's undo step is
+   * dropped. */
+  if (cancelled)
+    hl_template_edit (tool->document, tool->option, &tool->start, NULL);
+  hl_document_end_drag (tool->document, cancelled);
   tool->option = -1;
 }
 

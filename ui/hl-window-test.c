@@ -495,6 +495,11 @@ typedef struct {
   GArray *interval_ms;
   GArray *work_ms;
   GArray *cpu_ms;
+  /* HIPLEVER_BENCHMARK_TEMPLATE=1 with a templated first option: the cup
+   * template is dragged instead, with the ranking shown on the options
+   * page. */
+  gboolean template_drag;
+  guint rankings_done;
 } HlBench;
 
 /* CPU time of this thread: less disturbed by other load than the clock. */
@@ -593,10 +598,17 @@ bench_finish (HlBench *bench)
 
   HlChartsView *charts = HL_CHARTS_VIEW (self->charts_view);
 
-  printf ("benchmark-drag: %d frames, %zu options, abductor insertion moved %.1f mm laterally; "
+  printf ("benchmark-drag: %d frames, %zu options, %s moved %.1f mm laterally; "
           "charts shown with 5-95%% bands, a %d x %d radiograph under the schematic\n",
-          HL_BENCH_FRAMES, self->plan->n_options, HL_BENCH_FRAMES * HL_BENCH_STEP_MM,
-          HL_BENCH_IMAGE_W, HL_BENCH_IMAGE_H);
+          HL_BENCH_FRAMES, self->plan->n_options,
+          bench->template_drag ? "the cup template" : "abductor insertion",
+          HL_BENCH_FRAMES * HL_BENCH_STEP_MM, HL_BENCH_IMAGE_W, HL_BENCH_IMAGE_H);
+  if (bench->template_drag)
+    {
+      GtkWidget *panel = g_object_get_data (G_OBJECT (self), "hl-template-panel");
+      printf ("template ranking visible: %u rows; the last ranking took %.1f ms off the main thread\n",
+              hl_template_panel_get_n_ranked (panel), hl_template_panel_get_rank_ms (panel));
+    }
   printf ("model prepared %u times in %d frames; charts computed %u times off the main thread\n",
           hl_document_get_prepare_count (self->document) - bench->prepares_before,
           HL_BENCH_FRAMES, hl_charts_view_get_compute_count (charts) - bench->charts_before);
@@ -646,7 +658,14 @@ bench_tick_cb (GtkWidget *widget, GdkFrameClock *clock, gpointer user_data)
       bench->start = self->plan->landmarks.p[id];
       bench->prepares_before = hl_document_get_prepare_count (self->document);
       bench->charts_before = hl_charts_view_get_compute_count (HL_CHARTS_VIEW (self->charts_view));
-      g_signal_emit_by_name (self->canvas, "landmark-drag-begin", id);
+      if (bench->template_drag)
+        {
+          const HlTemplate *tm = &self->plan->options[0].recon.tmpl;
+          bench->start = (HlVec2) { tm->cup_x_mm, tm->cup_y_mm };
+          g_signal_emit_by_name (self->canvas, "template-drag-begin", HL_TEMPLATE_PART_CUP);
+        }
+      else
+        g_signal_emit_by_name (self->canvas, "landmark-drag-begin", id);
     }
   else
     {
@@ -658,13 +677,20 @@ bench_tick_cb (GtkWidget *widget, GdkFrameClock *clock, gpointer user_data)
 
   if (bench->frame == HL_BENCH_FRAMES)
     {
-      g_signal_emit_by_name (self->canvas, "landmark-drag-end", id, FALSE);
+      if (bench->template_drag)
+        g_signal_emit_by_name (self->canvas, "template-drag-end", HL_TEMPLATE_PART_CUP, FALSE);
+      else
+        g_signal_emit_by_name (self->canvas, "landmark-drag-end", id, FALSE);
       bench_finish (bench);
       return G_SOURCE_REMOVE;
     }
   bench->frame++;
   x = bench->start.x + bench->lateral * HL_BENCH_STEP_MM * bench->frame;
-  g_signal_emit_by_name (self->canvas, "landmark-moved", id, x, bench->start.y);
+  if (bench->template_drag)
+    g_signal_emit_by_name (self->canvas, "template-dragged", HL_TEMPLATE_PART_CUP,
+                           bench->start.x, bench->start.y, x, bench->start.y);
+  else
+    g_signal_emit_by_name (self->canvas, "landmark-moved", id, x, bench->start.y);
   return G_SOURCE_CONTINUE;
 }
 
@@ -727,6 +753,11 @@ hl_window_run_benchmark_drag (HlWindow *self, gint64 process_start_us)
     hl_window_add_option (self);
   if (self->plan->n_options > 0)
     hl_window_select_option (self, 0);
+  bench->template_drag = g_strcmp0 (g_getenv ("HIPLEVER_BENCHMARK_TEMPLATE"), "1") == 0
+                         && self->plan->n_options > 0
+                         && self->plan->options[0].recon.tmpl.on;
+  if (bench->template_drag)
+    gtk_stack_set_visible_child_name (self->panel_stack, "options");
   hl_charts_view_set_show_bands (HL_CHARTS_VIEW (self->charts_view), TRUE);
   gtk_stack_set_visible_child_name (self->lower_stack, "charts");
   bench->self = self;
