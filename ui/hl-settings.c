@@ -31,6 +31,7 @@
 #define G_UNITS "units"
 #define G_FILES "files"
 #define G_MODEL "model"
+#define G_CATALOGUES "catalogues"
 
 #define HL_SETTINGS_KEY "hl-settings-attached"
 
@@ -403,4 +404,32 @@ hl_settings_remember_chooser (GtkFileChooserNative *chooser)
 {
   g_return_if_fail (GTK_IS_FILE_CHOOSER_NATIVE (chooser));
   g_signal_connect (chooser, "response", G_CALLBACK (chooser_response_cb), NULL);
+}
+
+/* ---- implant catalogues ---------------------------------------------- */
+
+char **
+hl_settings_get_catalogue_paths (void)
+{
+  char **paths = NULL;
+  if (settings.keys != NULL)
+    paths = g_key_file_get_string_list (settings.keys, G_CATALOGUES, "paths", NULL, NULL);
+  return paths != NULL ? paths : g_new0 (char *, 1);
+}
+
+void
+hl_settings_add_catalogue_path (const char *path)
+{
+  if (settings.keys == NULL || path == NULL)
+    return;
+  g_auto(GStrv) old = hl_settings_get_catalogue_paths ();
+  if (g_strv_contains ((const char *const *) old, path))
+    return;
+  g_autoptr(GStrvBuilder) b = g_strv_builder_new ();
+  g_strv_builder_addv (b, (const char **) old);
+  g_strv_builder_add (b, path);
+  g_auto(GStrv) now = g_strv_builder_end (b);
+  g_key_file_set_string_list (settings.keys, G_CATALOGUES, "paths",
+                              (const char *const *) now, g_strv_length (now));
+  settings_changed ();
 }

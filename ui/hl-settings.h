@@ -61,4 +61,10 @@ void hl_settings_remember_chooser (GtkFileChooserNative *chooser);
 /* Writes pending changes now (on quitting). */
 void hl_settings_flush (void);
 
+/* The implant catalogue files the user added, in the order added
+ * ([catalogues] paths); NULL-terminated, g_strfreev. */
+char **hl_settings_get_catalogue_paths (void);
+/* Remembers one more (a path already there is not added twice). */
+void hl_settings_add_catalogue_path (const char *path);
+
 G_END_DECLS

@@ -16,6 +16,7 @@
 #include <glib/gi18n.h>
 
 #include "hl-fit.h"
+#include "hl-settings.h"
 #include "hl-template-panel.h"
 #include "hl-template-shape.h"
 #include "hl-template-tool.h"
@@ -37,6 +38,10 @@ typedef struct {
   GtkWidget *manual_box;
   GtkWidget *catalogue_drop, *cup_family_drop, *stem_family_drop;
   GtkWidget *place_button;
+  GtkWindow *window;
+  char *load_problems;       /* catalogue files that failed to load */
+  GtkWidget *reapply_button; /* a templated option left unresolved */
+  GtkFileChooserNative *chooser;
   /* templated */
   GtkWidget *tmpl_box;
   GtkWidget *families_label;
@@ -626,6 +631,20 @@ manual_cb (GtkButton *b, Panel *p)
   hl_document_end_edit (p->document, HL_DOCUMENT_CHANGED_VALUES);
 }
 
+/* The user accepts the catalogue as loaded now for an unresolved option. */
+static void
+reapply_cb (GtkButton *b, Panel *p)
+{
+  int index;
+  const HlTemplate *cur = current (p, &index);
+  if (cur == NULL || !cur->on)
+    return;
+  HlTemplate t = *cur;
+  hl_document_break_coalescing (p->document);
+  if (hl_template_edit (p->document, index, &t, NULL))
+    hl_template_panel_set_warnings (p->box, NULL);
+}
+
 static void
 catalogue_changed_cb (GtkDropDown *d, GParamSpec *pspec, Panel *p)
 {
@@ -654,6 +673,7 @@ sync_all (Panel *p)
       return;
     }
   const HlCatalogue *cat = hl_catalogue_registry_find (t->catalogue);
+  gtk_widget_set_visible (p->reapply_button, cat != NULL && !t->resolved);
   if (cat == NULL || !t->resolved)
     {
       set_text (p->families_label,
@@ -732,6 +752,9 @@ static void
 panel_free (gpointer data)
 {
   Panel *p = data;
+  if (p->chooser != NULL)
+    g_object_unref (p->chooser);
+  g_free (p->load_problems);
   if (p->rank_timeout != 0)
     g_source_remove (p->rank_timeout);
   hl_fit_table_clear (&p->table);
@@ -780,6 +803,9 @@ hl_template_panel_new (HlDocument *document)
                                _("Places the catalogue's implants on the radiograph at a first position; the option's numbers then come from them."));
   g_signal_connect (p->place_button, "clicked", G_CALLBACK (place_cb), p);
   gtk_box_append (GTK_BOX (p->manual_box), p->place_button);
+  GtkWidget *add = gtk_button_new_with_mnemonic (_("Add a _catalogue file…"));
+  gtk_actionable_set_action_name (GTK_ACTIONABLE (add), "win.add-catalogue");
+  gtk_box_append (GTK_BOX (p->manual_box), add);
   gtk_box_append (GTK_BOX (p->box), p->manual_box);
 
   /* templated */
@@ -808,6 +834,11 @@ hl_template_panel_new (HlDocument *document)
   gtk_widget_add_css_class (hint, "dim-label");
   gtk_widget_add_css_class (hint, "caption");
   gtk_box_append (GTK_BOX (p->tmpl_box), hint);
+  p->reapply_button = gtk_button_new_with_mnemonic (_("_Apply the implants with the catalogue as it is now"));
+  gtk_widget_set_tooltip_text (p->reapply_button,
+                               _("The option's numbers are derived again from its implants in the catalogue now loaded, and the plan records that catalogue."));
+  g_signal_connect (p->reapply_button, "clicked", G_CALLBACK (reapply_cb), p);
+  gtk_box_append (GTK_BOX (p->tmpl_box), p->reapply_button);
   GtkWidget *manual = gtk_button_new_with_mnemonic (_("Back to _manual numbers"));
   p->manual_button = manual;
   g_signal_connect (manual, "clicked", G_CALLBACK (manual_cb), p);
@@ -893,8 +924,12 @@ void
 hl_template_panel_set_warnings (GtkWidget *panel, const char *warnings)
 {
   Panel *p = panel_of (panel);
-  gtk_label_set_text (GTK_LABEL (p->banner), warnings != NULL ? warnings : "");
-  gtk_widget_set_visible (p->banner, warnings != NULL && warnings[0] != '\0');
+  /* The files that failed to load stay said above what the plan reports. */
+  g_autofree char *text = g_strjoin ("\n", p->load_problems != NULL ? p->load_problems : "",
+                                     warnings != NULL ? warnings : "", NULL);
+  g_strstrip (text);
+  gtk_label_set_text (GTK_LABEL (p->banner), text);
+  gtk_widget_set_visible (p->banner, text[0] != '\0');
 }
 
 gboolean
@@ -950,4 +985,100 @@ hl_template_panel_foreach_control (GtkWidget *panel, HlTemplateControlFunc func,
       g_autofree char *name = g_strdup_printf ("template-rank-%u", GPOINTER_TO_UINT (rank));
       func (name, c, data);
     }
+}
+
+/* ---- Catalogue files -------------------------------------------------------- */
+
+static void
+banner_append (Panel *p, const char *text)
+{
+  char *both = p->load_problems != NULL ? g_strdup_printf ("%s\n%s", p->load_problems, text)
+                                        : g_strdup (text);
+  g_free (p->load_problems);
+  p->load_problems = both;
+  hl_template_panel_set_warnings (p->box, NULL);
+}
+
+static char *
+catalogue_error_text (const HlError *err)
+{
+  if (err->line > 0)
+    return g_strdup_printf (_("line %d, %s: %s"), err->line, err->field, err->message);
+  return g_strdup_printf ("%s%s%s", err->field, err->field[0] ? ": " : "", err->message);
+}
+
+static void
+chooser_response_cb (GtkNativeDialog *dialog, int response, Panel *p)
+{
+  if (response != GTK_RESPONSE_ACCEPT)
+    return;
+  g_autoptr(GFile) file = gtk_file_chooser_get_file (GTK_FILE_CHOOSER (dialog));
+  g_autofree char *path = file != NULL ? g_file_get_path (file) : NULL;
+  if (path == NULL)
+    return;
+  HlCatalogue *cat = NULL;
+  HlError err;
+  hl_error_clear (&err);
+  if (hl_catalogue_load_file (path, &cat, &err) != HL_OK)
+    {
+      g_autofree char *where = catalogue_error_text (&err);
+      g_autofree char *primary = g_strdup_printf (_("The implant catalogue %s was not added"), path);
+      g_signal_emit_by_name (p->document, "error", primary, where);
+      return;
+    }
+  hl_catalogue_registry_add (cat);
+  hl_settings_add_catalogue_path (path);
+  fill_catalogues (p);
+  p->built_key[0] = '\0';
+  sync_all (p);
+}
+
+static void
+add_catalogue_cb (GSimpleAction *action, GVariant *param, gpointer data)
+{
+  Panel *p = data;
+  if (p->chooser == NULL)
+    {
+      p->chooser = gtk_file_chooser_native_new (_("Add Implant Catalogue"), p->window,
+                                                GTK_FILE_CHOOSER_ACTION_OPEN, _("_Add"),
+                                                _("_Cancel"));
+      GtkFileFilter *f = gtk_file_filter_new ();
+      gtk_file_filter_set_name (f, _("Implant catalogues (*.hlcat)"));
+      gtk_file_filter_add_pattern (f, "*" HL_CATALOGUE_FILE_EXTENSION);
+      gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (p->chooser), f);
+      g_object_unref (f);
+      g_signal_connect (p->chooser, "response", G_CALLBACK (chooser_response_cb), p);
+    }
+  gtk_native_dialog_show (GTK_NATIVE_DIALOG (p->chooser));
+}
+
+void
+hl_template_panel_setup_catalogues (GtkWidget *panel, GtkWindow *window, GActionMap *actions)
+{
+  Panel *p = panel_of (panel);
+  static gboolean loaded;
+  p->window = window;
+  if (!loaded)
+    {
+      loaded = TRUE;
+      g_auto(GStrv) paths = hl_settings_get_catalogue_paths ();
+      for (char **q = paths; *q != NULL; q++)
+        {
+          HlCatalogue *cat = NULL;
+          HlError err;
+          hl_error_clear (&err);
+          if (hl_catalogue_load_file (*q, &cat, &err) == HL_OK)
+            hl_catalogue_registry_add (cat);
+          else
+            {
+              g_autofree char *where = catalogue_error_text (&err);
+              g_autofree char *text = g_strdup_printf (_("The implant catalogue %s could not be loaded (%s)."),
+                                                       *q, where);
+              banner_append (p, text);
+            }
+        }
+      fill_catalogues (p);
+    }
+  static const GActionEntry entries[] = { { "add-catalogue", add_catalogue_cb, NULL, NULL, NULL } };
+  g_action_map_add_action_entries (actions, entries, G_N_ELEMENTS (entries), p);
 }

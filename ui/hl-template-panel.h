@@ -21,6 +21,12 @@
 G_BEGIN_DECLS
 
 GtkWidget *hl_template_panel_new (HlDocument *document);
+/* Loads the catalogue files the settings remember into the registry
+ * (hl-template-shape.h), once per process; files that fail are reported
+ * in the panel's banner.  Adds the action "add-catalogue" (a file chooser:
+ * the catalogue is loaded, checked and remembered) to `actions`. */
+void hl_template_panel_setup_catalogues (GtkWidget *panel, GtkWindow *window,
+                                         GActionMap *actions);
 /* What the core reported of the plan's catalogues when it opened
  * (hl_catalogue_registry_resolve); NULL clears the banner. */
 void hl_template_panel_set_warnings (GtkWidget *panel, const char *warnings);

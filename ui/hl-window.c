@@ -521,6 +521,7 @@ hl_window_init (HlWindow *self)
   gtk_box_append (GTK_BOX (gtk_widget_get_parent (self->option_params)), template_panel);
   g_object_set_data (G_OBJECT (self), "hl-template-panel", template_panel);
   hl_template_panel_set_changed_func (template_panel, template_panel_changed_cb, self);
+  hl_template_panel_setup_catalogues (template_panel, GTK_WINDOW (self), G_ACTION_MAP (self));
   g_signal_connect_object (self->canvas, "notify::selected-template",
                            G_CALLBACK (template_selected_cb), self, 0);
   self->radiograph_page = HL_RADIOGRAPH_PAGE (hl_radiograph_page_new (self->document,
