@@ -804,6 +804,66 @@ block_landmarks (HlLayout *L, double y, bool draw)
   return h;
 }
 
+/* The implants of the templated options, with the four numbers they make
+ * (templating.md section 2), under the options table. */
+static double
+block_implants (HlLayout *L, double y, bool draw)
+{
+  const HlReport *r = L->r;
+  const HlPlan *p = r->plan;
+  int n = 0;
+  for (size_t i = 0; i < r->n_shown; i++)
+    n += p->options[i].recon.tmpl.on;
+  if (n == 0)
+    return 0.0;
+  double h = 4.0 + wrap_text (L->cr, _("Implants of the templated options (catalogue as "
+                                       "recorded in the plan; sizes in mm)"),
+                              content_left (), y + 4.0, content_width (), TYPE_BODY * L->s,
+                              true, ink, false, draw) + 2.0;
+  double w = (content_width () - 110.0) / 5.0;
+  const double widths[6] = { 110.0, w, w, w, 0.6 * w, 1.4 * w };
+  const bool right[6] = { false, false, false, false, false, false };
+  HlTable *t = table_new (6, 1 + n, 1);
+  if (t == NULL)
+    return h;
+  t->widths = widths;
+  t->right = right;
+  const char *heads[6] = {
+    _("Option"), _("Catalogue"), _("Cup: family, size, liner, inclination"),
+    _("Stem: family, size, version, seat"), _("Head"),
+    _("Derived: cup medialisation, cup height, femoral offset, femoral length (mm)"),
+  };
+  for (int c = 0; c < 6; c++)
+    cell_set (t, 0, c, "%s", heads[c]);
+  int row = 1;
+  for (size_t i = 0; i < r->n_shown; i++)
+    {
+      const HlRecon *rc = &p->options[i].recon;
+      const HlTemplate *tm = &rc->tmpl;
+      if (!tm->on)
+        continue;
+      const HlCatalogueRef *ref = NULL;
+      for (size_t k = 0; k < p->n_catalogues; k++)
+        if (strcmp (p->catalogues[k].id, tm->catalogue) == 0)
+          ref = &p->catalogues[k];
+      cell_set (t, row, 0, "%s", p->options[i].name);
+      cell_set (t, row, 1, "%s %s%s", tm->catalogue, ref != NULL ? _("version ") : "",
+                ref != NULL ? ref->version : "");
+      cell_set (t, row, 2, "%s, %.0f, %s, %.1f°", tm->cup_family, tm->cup_diameter_mm,
+                tm->liner, tm->inclination_deg);
+      cell_set (t, row, 3, "%s, %s, %s, %+.1f mm", tm->stem_family, tm->stem_size,
+                tm->version, tm->seat_mm);
+      cell_set (t, row, 4, "%+.0f mm", tm->head_length_mm);
+      cell_set (t, row, 5, "%+.1f, %+.1f, %+.1f, %+.1f%s", rc->cup_medial_mm,
+                rc->cup_superior_mm, rc->femoral_offset_mm, rc->femoral_length_mm,
+                tm->resolved ? "" : _(" (as saved: catalogue not at hand or changed)"));
+      row++;
+    }
+  h += table_block (L->cr, t, content_left (), y + h, TYPE_TABLE * L->s, draw);
+  table_free (t);
+  return h;
+}
+
 static double
 block_options (HlLayout *L, double y, bool draw)
 {
@@ -846,6 +906,7 @@ block_options (HlLayout *L, double y, bool draw)
     }
   h += table_block (L->cr, t, content_left (), y + h, TYPE_TABLE * L->s, draw);
   table_free (t);
+  h += block_implants (L, y + h, draw);
   if (p->n_options > r->n_shown)
     {
       char note[160];
