@@ -176,10 +176,17 @@ print_template (HlWindow *self)
   if (panel == NULL)
     return;
   hl_template_panel_foreach_control (panel, print_template_control, self);
-  printf ("TEMPLATE selected %d ranked %u busy %d rank-ms %.1f\n",
+  int sel = hl_canvas_get_selected_option (self->canvas);
+  const HlTemplate *tm = sel >= 0 && (size_t) sel < self->plan->n_options
+                         && self->plan->options[sel].recon.tmpl.on
+                         ? &self->plan->options[sel].recon.tmpl : NULL;
+  printf ("TEMPLATE selected %d ranked %u busy %d rank-ms %.1f cup-x %.3f cup-mm %.0f "
+          "inclination %.2f stem %s seat %.3f\n",
           hl_canvas_get_selected_template (self->canvas),
           hl_template_panel_get_n_ranked (panel), hl_template_panel_get_busy (panel),
-          hl_template_panel_get_rank_ms (panel));
+          hl_template_panel_get_rank_ms (panel), tm ? tm->cup_x_mm : NAN,
+          tm ? tm->cup_diameter_mm : NAN, tm ? tm->inclination_deg : NAN,
+          tm ? tm->stem_size : "-", tm ? tm->seat_mm : NAN);
 }
 
 void

@@ -40,6 +40,14 @@ wait_ranked () {
 }
 wait_ranked
 hl_grab template-start
+tfield () {
+  grep '^TEMPLATE ' "$HL_OUT" | tail -n 1 | awk -v k="$1" '{ for (i = 1; i < NF; i++) if ($i == k) print $(i + 1) }'
+}
+key_settle () {
+  hl_mark
+  hl_key "$@"
+  hl_settle
+}
 
 # 1. drag the cup medially (towards the midline: screen right for a right hip)
 set -- $(hl_pos HANDLE template-cup)
@@ -59,6 +67,13 @@ done
 xdotool mouseup 1
 hl_settle
 hl_grab template-cup-dragged
+# The whole drag is one undo step: Ctrl+Z puts the cup back, Ctrl+Shift+Z
+# moves it again.
+dragged_x=$(tfield cup-x)
+key_settle ctrl+z
+HL_TOL=1e-6 hl_expect "one Ctrl+Z undid the whole drag" "$(tfield cup-x)" "~" "$start_x"
+key_settle ctrl+shift+z
+HL_TOL=1e-6 hl_expect "Ctrl+Shift+Z redid it" "$(tfield cup-x)" "~" "$dragged_x"
 
 # 2. select the stem by its handle, Page Up: the next size
 set -- $(hl_pos HANDLE template-stem)
@@ -74,7 +89,28 @@ hl_settle
 wait_ranked
 hl_grab template-stem-stepped
 
-# 3. apply the best ranked combination: scroll the side panel to it
+# 3. keyboard only: Shift+Tab from the stem reaches the inclination lever,
+# then the cup; Right nudges the cup 0.5 mm (plan +x), Shift+Up turns the
+# lever 5 degrees steeper... and Ctrl+Z takes each back, one step each.
+key_settle shift+Tab
+[ "$(tfield selected)" = 1 ] || hl_fail "Shift+Tab did not reach the inclination lever"
+incl0=$(tfield inclination)
+key_settle shift+Up
+incl1=$(tfield inclination)
+HL_TOL=1e-6 hl_expect "Shift+Up turned the cup 5 degrees steeper" "$incl1" "~" "$(awk -v a="$incl0" 'BEGIN { print a + 5 }')"
+key_settle shift+Tab
+[ "$(tfield selected)" = 0 ] || hl_fail "Shift+Tab did not reach the cup"
+x0=$(tfield cup-x)
+key_settle Right
+x1=$(tfield cup-x)
+HL_TOL=1e-6 hl_expect "Right nudged the cup 0.5 mm" "$x1" "~" "$(awk -v a="$x0" 'BEGIN { print a + 0.5 }')"
+key_settle ctrl+z
+HL_TOL=1e-6 hl_expect "Ctrl+Z took the nudge back" "$(tfield cup-x)" "~" "$x0"
+key_settle ctrl+z
+HL_TOL=1e-6 hl_expect "Ctrl+Z took the inclination back" "$(tfield inclination)" "~" "$incl0"
+wait_ranked
+
+# 4. apply the best ranked combination: scroll the side panel to it
 set -- $(hl_pos WIDGET template-manual)
 panel_x=$1
 i=0
