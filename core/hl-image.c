@@ -97,6 +97,14 @@ rescale_landmarks (HlPlan *plan, double factor)
       p->x = o.x + (p->x - o.x) * factor;
       p->y = o.y + (p->y - o.y) * factor;
     }
+  /* a template's cup centre was placed on the image like a landmark; its
+   * implant sizes and the stem's seat are true lengths and stay */
+  for (size_t i = 0; i < plan->n_options; i++)
+    {
+      HlTemplate *t = &plan->options[i].recon.tmpl;
+      t->cup_x_mm = o.x + (t->cup_x_mm - o.x) * factor;
+      t->cup_y_mm = o.y + (t->cup_y_mm - o.y) * factor;
+    }
 }
 
 HlStatus

@@ -335,6 +335,9 @@ hl_plan_mirror (HlPlan *plan)
     plan->landmarks.p[i].x = -plan->landmarks.p[i].x;
   for (int i = 0; i < 3; i++)
     plan->calibration.points[i].x = -plan->calibration.points[i].x;
+  /* a template's cup centre is placed like a landmark */
+  for (size_t i = 0; i < plan->n_options; i++)
+    plan->options[i].recon.tmpl.cup_x_mm = -plan->options[i].recon.tmpl.cup_x_mm;
   plan->side = plan->side == HL_SIDE_RIGHT ? HL_SIDE_LEFT : HL_SIDE_RIGHT;
 }
 

@@ -224,6 +224,14 @@ START_TEST (test_left_and_right)
   HlTemplate tl = t;
   tl.cup_x_mm = 93.0;
 
+  /* hl_plan_mirror mirrors a template's cup centre with the landmarks */
+  long kr = hl_plan_add_option (right, "t", NULL);
+  right->options[kr].recon.tmpl = t;
+  HlPlan *mirrored = hl_plan_copy (right);
+  hl_plan_mirror (mirrored);
+  ck_assert (mirrored->options[kr].recon.tmpl.cup_x_mm == tl.cup_x_mm);
+  hl_plan_free (mirrored);
+
   HlTemplateFrame fr, fl;
   HlTemplateGeometry gr, gl;
   hl_template_frame (&right->landmarks, HL_SIDE_RIGHT, &fr);

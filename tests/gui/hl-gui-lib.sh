@@ -42,6 +42,9 @@ mkdir -p "$HOME" "$XDG_CONFIG_HOME" "$XDG_DATA_HOME" "$XDG_CACHE_HOME" \
          "$XDG_STATE_HOME" "$XDG_RUNTIME_DIR"
 chmod 700 "$XDG_RUNTIME_DIR"
 HL_DEMO="$SRCDIR/data/examples/demo.hlplan"
+# The demo refers to its radiograph by a path beside the plan: copies of
+# the demo in $HL_TMP find it there.
+cp "$SRCDIR/data/examples/demo-radiograph.png" "$HL_TMP/" 2>/dev/null || true
 HL_PID=
 HL_OUT=
 HL_WID=

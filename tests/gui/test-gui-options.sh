@@ -69,7 +69,7 @@ hl_settle
 hl_grab options-renamed
 hl_quit_discarding
 names=$(option_names "$HL_TMP/renamed.xml")
-[ "$names" = "Standard stem|Lateralised stem +6 mm|Medialised cup 4 mm + long head|Cemented stem|" ] \
+[ "$names" = "Standard stem|Lateralised stem +6 mm|Medialised cup 4 mm + long head|Templated: demo cementless stem|Cemented stem|" ] \
   || hl_fail "after duplicate and rename: $names"
 hl_note "ok: duplicated and renamed: $names"
 cemented=$(xmllint --xpath "string(//*[local-name()='option'][@name='Cemented stem']/@femoral-length-mm)" "$HL_TMP/renamed.xml")
@@ -90,7 +90,7 @@ hl_quit_discarding
 names=$(option_names "$HL_TMP/removed.xml")
 # The first option goes, the selection moves to the next, which goes too;
 # undo brings that one back.
-[ "$names" = "Lateralised stem +6 mm|Medialised cup 4 mm + long head|" ] \
+[ "$names" = "Lateralised stem +6 mm|Medialised cup 4 mm + long head|Templated: demo cementless stem|" ] \
   || hl_fail "after two removals and an undo: $names"
 hl_note "ok: removed twice and undone once: $names"
 
