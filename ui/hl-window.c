@@ -206,6 +206,10 @@ hl_window_replace_plan (HlWindow *self, const HlPlan *plan, GFile *file)
   hl_plan_free (resolved);
   hl_template_panel_set_warnings (g_object_get_data (G_OBJECT (self), "hl-template-panel"),
                                   warnings);
+  if (warnings != NULL)
+    hl_message_show_status (GTK_WIDGET (self),
+                            _("An implant catalogue of this plan is missing or has changed: "
+                              "see Options, Implants. The saved numbers stand."));
 }
 
 void
