@@ -43,6 +43,22 @@ hl_grab template-start
 tfield () {
   grep '^TEMPLATE ' "$HL_OUT" | tail -n 1 | awk -v k="$1" '{ for (i = 1; i < NF; i++) if ($i == k) print $(i + 1) }'
 }
+# scroll_to WIDGET: scrolls the side panel until the control is on screen.
+scroll_to () {
+  set -- "$1" $(hl_pos WIDGET template-manual) $(hl_pos WIDGET template-place)
+  panel_x=$2
+  i=0
+  while :; do
+    set -- "$1" $(hl_pos WIDGET "$1")
+    [ $# -eq 3 ] || hl_fail "no $1 printed"
+    [ "$3" -lt $((SCREEN_H - 60)) ] && break
+    i=$((i + 1))
+    [ "$i" -le 40 ] || hl_fail "could not scroll to $1"
+    hl_mark
+    xdotool mousemove --window "$HL_WID" "$panel_x" $((SCREEN_H / 2)) click 5
+    hl_settle
+  done
+}
 key_settle () {
   hl_mark
   hl_key "$@"
@@ -111,19 +127,7 @@ HL_TOL=1e-6 hl_expect "Ctrl+Z took the inclination back" "$(tfield inclination)"
 wait_ranked
 
 # 4. apply the best ranked combination: scroll the side panel to it
-set -- $(hl_pos WIDGET template-manual)
-panel_x=$1
-i=0
-while :; do
-  set -- $(hl_pos WIDGET template-rank-1)
-  [ $# -eq 2 ] || hl_fail "no ranked row printed"
-  [ "$2" -lt $((SCREEN_H - 60)) ] && break
-  i=$((i + 1))
-  [ "$i" -le 40 ] || hl_fail "could not scroll to the ranking"
-  hl_mark
-  xdotool mousemove --window "$HL_WID" "$panel_x" $((SCREEN_H / 2)) click 5
-  hl_settle
-done
+scroll_to template-rank-1
 hl_mark
 hl_click template-rank-1
 hl_settle
@@ -167,3 +171,20 @@ end_off=$(hl_result "$HL_TMP/after.xml" "$opt" femoral-offset-change-mm)
 HL_TOL=1e-3
 hl_cmp "$start_off" "~" "$end_off" && hl_fail "the femoral offset change did not follow the implants"
 hl_note "ok: femoral offset change $start_off -> $end_off mm"
+
+# 5. Template a manual option: the demo's first option, "Template this
+# option"; its numbers then come from the placed implants.
+demo="$HL_TMP/demo.hlplan"
+cp "$HL_DEMO" "$demo"
+cp "$SRCDIR/data/examples/demo-radiograph.png" "$HL_TMP/" 2>/dev/null || true
+hl_start place --panel=options --dump-summary-on-exit "$HL_TMP/placed.xml" "$demo"
+scroll_to template-place
+hl_mark
+hl_click template-place
+hl_settle
+wait_ranked
+hl_grab template-placed
+hl_quit_discarding
+placed=$(tmpl_attr "$HL_TMP/placed.xml" catalogue)
+[ "$placed" = "hiplever-demo" ] || hl_fail "the first option was not templated (catalogue '$placed')"
+hl_note "ok: the first option is templated from catalogue $placed"
