@@ -21,6 +21,8 @@
 #include "hl-uncertainty.h"
 
 #define HL_FIT_HEADS_MAX 64
+/* Rows per Monte Carlo run: 256 rows of 4,000 samples are 16 MB. */
+#define HL_FIT_MC_CHUNK 256
 
 long
 hl_fit_first_templated (const HlPlan *plan)
@@ -145,8 +147,12 @@ hl_fit_rank (const HlPlan *plan, size_t option, const HlCatalogue *cat,
     {
       HlMcSettings s;
       hl_mc_settings_for_plan (plan, &s, NULL);
+      /* In chunks: each sample draws its perturbation before it solves the
+       * rows, so a row's percentiles do not depend on which rows share its
+       * run, and the workspace stays small for a large catalogue. */
+      const size_t chunk = n_mech < HL_FIT_MC_CHUNK ? n_mech : HL_FIT_MC_CHUNK;
       HlOption *plain = malloc (n_mech * sizeof *plain);
-      HlMcWorkspace *ws = plain ? hl_mc_workspace_new (s.n_samples, n_mech) : NULL;
+      HlMcWorkspace *ws = plain ? hl_mc_workspace_new (s.n_samples, chunk) : NULL;
       if (ws == NULL)
         {
           free (plain);
@@ -158,8 +164,17 @@ hl_fit_rank (const HlPlan *plan, size_t option, const HlCatalogue *cat,
           plain[i] = mech[i];
           plain[i].recon.tmpl.on = false;
         }
-      HlMcInfo info;
-      st = hl_mc_run (ws, &model, plain, n_mech, &s, mc, &info, err);
+      HlMcInfo info = { 0 };
+      HlMcSummary *part = malloc ((chunk + 1) * sizeof *part);
+      st = part ? HL_OK : hl_error_set (err, HL_ERR_NOMEM, "fit", _("out of memory"));
+      for (size_t first = 0; st == HL_OK && first < n_mech; first += chunk)
+        {
+          size_t n = n_mech - first < chunk ? n_mech - first : chunk;
+          st = hl_mc_run (ws, &model, plain + first, n, &s, part, &info, err);
+          if (st == HL_OK)
+            memcpy (&mc[first + 1], &part[1], n * sizeof *part);
+        }
+      free (part);
       used = info.n_used;
       hl_mc_workspace_free (ws);
       free (plain);
