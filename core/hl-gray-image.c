@@ -77,7 +77,7 @@ hl_gray_image_check_size (const char *path, long long w, long long h, HlError *e
                          path, w, h);
   if (w > HL_GRAY_IMAGE_MAX_SIDE || h > HL_GRAY_IMAGE_MAX_SIDE
       || w * h > HL_GRAY_IMAGE_MAX_PIXELS)
-    return hl_error_set (err, HL_ERR_PARSE, path,
+    return hl_error_set (err, HL_ERR_INVALID, path,
                          _("The image \"%s\" is %lld x %lld pixels: more than %lld megapixels "
                            "or %d pixels a side cannot be opened"),
                          path, w, h, HL_GRAY_IMAGE_MAX_PIXELS / 1000000,
@@ -481,7 +481,7 @@ hl_gray_image_load (const char *path, HlError *err)
         hl_error_set (err, HL_ERR_IO, path,
                       _("The image \"%s\" is not there: it has been moved or deleted"), path);
       else
-        hl_error_set (err, HL_ERR_IO, path, _("Cannot open the image \"%s\": %s"), path,
+        hl_error_set (err, HL_ERR_IO, path, _("Cannot read the image \"%s\": %s"), path,
                       strerror (errno));
       return NULL;
     }
@@ -615,6 +615,18 @@ hl_gray_image_default_window (const HlGrayImage *img, double *centre, double *wi
     hl_gray_image_auto_window (img, centre, width);
   if (from_file != NULL)
     *from_file = img->has_file_window;
+}
+
+void
+hl_window_from_brightness_contrast (double brightness, double contrast, double top,
+                                    double *centre, double *width)
+{
+  /* Shown value (v / top - 1/2) k + 1/2 + b is the window function of
+   * DICOM PS3.3 C.11.2.1.2.1, (v - (c - 1/2)) / (w - 1) + 1/2, with
+   * w = top / k + 1 and c = top (1/2 - b / k) + 1/2. */
+  double k = contrast > 0.0 ? contrast : 1.0;
+  *width = top / k + 1.0;
+  *centre = top * (0.5 - brightness / k) + 0.5;
 }
 
 /* ---- Calibration -------------------------------------------------------- */

@@ -23,6 +23,7 @@
 #include <stdbool.h>
 #include <stdint.h>
 
+#include "hl-image-ref.h"
 #include "hl-types.h"
 
 #ifdef __cplusplus
@@ -40,16 +41,6 @@ typedef enum {
   HL_IMAGE_FORMAT_TIFF,
   HL_IMAGE_FORMAT_JPEG,
 } HlImageFormat;
-
-/* Where the image mm per pixel comes from (the file contract of
- * `hiplever-cli image`: pixel-spacing, imager-spacing-ermf,
- * imager-spacing-default, none). */
-typedef enum {
-  HL_SPACING_NONE = 0,          /* the file gives none: type it or calibrate */
-  HL_SPACING_PIXEL,             /* Pixel Spacing declared calibrated */
-  HL_SPACING_IMAGER_ERMF,       /* detector spacing / the file's magnification */
-  HL_SPACING_IMAGER_DEFAULT,    /* detector spacing / 1.20, an assumption */
-} HlSpacingSource;
 
 /* The spacing elements of a file, as read (DICOM only; all false for the
  * other formats).  Spacings are mm; row and column spacing must agree. */
@@ -135,7 +126,13 @@ void hl_gray_image_default_window (const HlGrayImage *img, double *centre,
  * HL_MAGNIFICATION_MIN..MAX. */
 HlStatus hl_spacing_choose (const HlFileSpacing *in, HlSpacingChoice *out,
                             HlError *err);
-/* "pixel-spacing", "imager-spacing-ermf", "imager-spacing-default", "none". */
+/* The window that shows what brightness and contrast showed (plans from
+ * before the window): over the held values 0..top. */
+void hl_window_from_brightness_contrast (double brightness, double contrast,
+                                         double top, double *centre, double *width);
+
+/* "pixel-spacing", "imager-spacing-ermf", "imager-spacing-default", "none"
+ * (the contract of `hiplever-cli image`). */
 const char *hl_spacing_source_name (HlSpacingSource s);
 /* Parses a name above; false when unknown. */
 bool hl_spacing_source_from_name (const char *name, HlSpacingSource *out);

@@ -70,5 +70,16 @@ hl_radiograph_check (const HlRadiograph *rg, HlError *err)
       || (st = hl_check_range (rg->opacity, 0.0, 1.0, "radiograph opacity",
                          _("The opacity"), err)))
     return st;
+  if (rg->window_width != 0.0
+      && ((st = hl_check_range (rg->window_width, HL_IMAGE_WINDOW_WIDTH_MIN,
+                                HL_IMAGE_WINDOW_WIDTH_MAX, "radiograph window-width",
+                                _("The window width"), err))
+          || (st = hl_check_range (rg->window_centre, HL_IMAGE_WINDOW_CENTRE_MIN,
+                                   HL_IMAGE_WINDOW_CENTRE_MAX, "radiograph window-centre",
+                                   _("The window centre"), err))))
+    return st;
+  if ((unsigned) rg->spacing_source > HL_SPACING_IMAGER_DEFAULT)
+    return hl_error_set (err, HL_ERR_INVALID, "radiograph spacing-source",
+                         _("The radiograph's spacing source is not known"));
   return HL_OK;
 }

@@ -31,6 +31,24 @@ extern "C" {
 #define HL_IMAGE_CONTRAST_MIN 0.1
 #define HL_IMAGE_CONTRAST_MAX 5.0
 
+/* Window of the grey values (centre and width in the image's held 16-bit
+ * values, hl-gray-image.h): the width 0 stands for "not set", and the
+ * image's own preset or the automatic window is shown. */
+#define HL_IMAGE_WINDOW_WIDTH_MIN 1.0
+#define HL_IMAGE_WINDOW_WIDTH_MAX 131072.0
+#define HL_IMAGE_WINDOW_CENTRE_MIN (-65536.0)
+#define HL_IMAGE_WINDOW_CENTRE_MAX 131072.0
+
+/* Where an image's mm per pixel comes from (hl-gray-image.h has the
+ * precedence).  In a plan, HL_SPACING_NONE means the spacing is typed (or
+ * the default). */
+typedef enum {
+  HL_SPACING_NONE = 0,          /* the file gives none: type it or calibrate */
+  HL_SPACING_PIXEL,             /* Pixel Spacing declared calibrated */
+  HL_SPACING_IMAGER_ERMF,       /* detector spacing / the file's magnification */
+  HL_SPACING_IMAGER_DEFAULT,    /* detector spacing / 1.20, an assumption */
+} HlSpacingSource;
+
 /* The radiograph of a plan. */
 typedef struct {
   bool present;                    /* false: no image; the rest is unused */
@@ -40,8 +58,12 @@ typedef struct {
   char sha256[65];                 /* 64 lower-case hex digits, or "" */
   double pixel_spacing_mm;         /* image mm per pixel */
   HlVec2 origin_mm;                /* plan frame, top-left corner of the image */
-  double brightness;               /* -1..1, 0 = as is */
-  double contrast;                 /* 0.1..5, 1 = as is */
+  double brightness;               /* -1..1, 0 = as is (plans before the window) */
+  double contrast;                 /* 0.1..5, 1 = as is (plans before the window) */
+  double window_centre;            /* held grey values, when window_width > 0 */
+  double window_width;             /* 0: not set (brightness and contrast, or
+                                    * the image's own window) */
+  HlSpacingSource spacing_source;  /* where pixel_spacing_mm came from */
   bool invert;
   double opacity;                  /* 0..1 */
   bool schematic_visible;          /* draw the schematic bones over it */

@@ -171,6 +171,81 @@ hl_image_attach (HlPlan *plan, const char *path, const char *sha256_hex,
   rg->origin_mm.y = 0.5 * (y0 + y1) + 0.5 * height * k;
 }
 
+void
+hl_image_attach_file (HlPlan *plan, const char *path, const char *sha256_hex,
+                      const HlSpacingChoice *sc, double typed_spacing_mm, int width,
+                      int height)
+{
+  HlCalibration *cal = &plan->calibration;
+  bool user = (cal->method == HL_CAL_MARKER || cal->method == HL_CAL_TWO_POINT)
+              && hl_calibration_complete (cal);
+  double spacing = typed_spacing_mm;
+  if (sc->source != HL_SPACING_NONE)
+    {
+      spacing = sc->detector_spacing_mm;
+      if (!user)
+        {
+          cal->method = sc->assumed ? HL_CAL_ASSUMED : HL_CAL_TYPED;
+          cal->magnification = sc->assumed ? HL_MAGNIFICATION_ASSUMED : sc->magnification;
+        }
+    }
+  hl_image_attach (plan, path, sha256_hex, spacing, width, height);
+  plan->radiograph.spacing_source = sc->source;
+}
+
+HlCalSource
+hl_image_calibration_source (const HlPlan *plan)
+{
+  const HlCalibration *cal = &plan->calibration;
+  const HlRadiograph *rg = &plan->radiograph;
+  if (cal->method == HL_CAL_MARKER)
+    return HL_CAL_SOURCE_MARKER;
+  if (cal->method == HL_CAL_TWO_POINT)
+    return HL_CAL_SOURCE_KNOWN_DISTANCE;
+  if (rg->present)
+    switch (rg->spacing_source)
+      {
+      case HL_SPACING_PIXEL:
+        if (cal->method == HL_CAL_TYPED && cal->magnification == 1.0)
+          return HL_CAL_SOURCE_FILE_PIXEL_SPACING;
+        break;
+      case HL_SPACING_IMAGER_ERMF:
+        if (cal->method == HL_CAL_TYPED)
+          return HL_CAL_SOURCE_FILE_IMAGER_ERMF;
+        break;
+      case HL_SPACING_IMAGER_DEFAULT:
+        if (cal->method == HL_CAL_ASSUMED)
+          return HL_CAL_SOURCE_FILE_IMAGER_DEFAULT;
+        break;
+      case HL_SPACING_NONE:
+        break;
+      }
+  return cal->method == HL_CAL_ASSUMED ? HL_CAL_SOURCE_TYPED_ASSUMED : HL_CAL_SOURCE_TYPED;
+}
+
+const char *
+hl_cal_source_label (HlCalSource s)
+{
+  switch (s)
+    {
+    case HL_CAL_SOURCE_MARKER:
+      return _("a calibration marker placed on the image");
+    case HL_CAL_SOURCE_KNOWN_DISTANCE:
+      return _("a known distance placed on the image");
+    case HL_CAL_SOURCE_FILE_PIXEL_SPACING:
+      return hl_spacing_source_label (HL_SPACING_PIXEL);
+    case HL_CAL_SOURCE_FILE_IMAGER_ERMF:
+      return hl_spacing_source_label (HL_SPACING_IMAGER_ERMF);
+    case HL_CAL_SOURCE_FILE_IMAGER_DEFAULT:
+      return hl_spacing_source_label (HL_SPACING_IMAGER_DEFAULT);
+    case HL_CAL_SOURCE_TYPED:
+      return _("the typed pixel spacing and magnification");
+    case HL_CAL_SOURCE_TYPED_ASSUMED:
+      return _("the typed pixel spacing, magnification 1.20 assumed");
+    }
+  return "";
+}
+
 /* ---- Files -------------------------------------------------------------- */
 
 const char *

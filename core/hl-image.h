@@ -25,6 +25,7 @@
  */
 #pragma once
 
+#include "hl-gray-image.h"
 #include "hl-image-ref.h"
 #include "hl-plan.h"
 
@@ -77,6 +78,36 @@ HlStatus hl_image_set_pixel_spacing (HlPlan *plan, double spacing_mm,
  * plan origin when none are placed) at the current magnification. */
 void hl_image_attach (HlPlan *plan, const char *path, const char *sha256_hex,
                       double spacing_mm, int width, int height);
+
+/* Places an image read from a file (hl-gray-image.h): its spacing and
+ * calibration from the file when it gives them (sc->source not NONE) and
+ * the plan's calibration is not a marker or known distance placed by the
+ * user, which comes first: calibrated Pixel Spacing gives a typed M of 1,
+ * the file's magnification factor a typed M of that factor, the default
+ * the assumed 1.20.  Without a spacing in the file, `typed_spacing_mm`.
+ * Then as hl_image_attach. */
+void hl_image_attach_file (HlPlan *plan, const char *path, const char *sha256_hex,
+                           const HlSpacingChoice *sc, double typed_spacing_mm,
+                           int width, int height);
+
+/* Which calibration a plan's image is drawn with, first that applies:
+ * a marker or a known distance placed by the user; the file's calibrated
+ * pixel spacing, detector spacing and magnification factor, or detector
+ * spacing with 1.20 assumed (while the calibration is still the one the
+ * file gave); a typed spacing with a typed or assumed magnification. */
+typedef enum {
+  HL_CAL_SOURCE_MARKER = 0,
+  HL_CAL_SOURCE_KNOWN_DISTANCE,
+  HL_CAL_SOURCE_FILE_PIXEL_SPACING,
+  HL_CAL_SOURCE_FILE_IMAGER_ERMF,
+  HL_CAL_SOURCE_FILE_IMAGER_DEFAULT,
+  HL_CAL_SOURCE_TYPED,
+  HL_CAL_SOURCE_TYPED_ASSUMED,
+} HlCalSource;
+
+HlCalSource hl_image_calibration_source (const HlPlan *plan);
+/* Plain words for the window and the report (translated). */
+const char *hl_cal_source_label (HlCalSource s);
 
 /* ---- Files ------------------------------------------------------------ */
 

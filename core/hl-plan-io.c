@@ -75,6 +75,10 @@ static const char *const abductor_line_names[] = { "auto", "angle" };
 static const char *const cal_method_names[] = { "assumed", "typed", "marker", "two-point" };
 static const char *const hand_names[] = { "contralateral", "ipsilateral" };
 static const char *const force_unit_names[] = { "newtons", "percent-bw", "kg" };
+/* HlSpacingSource in a plan: HL_SPACING_NONE is a typed spacing. */
+static const char *const spacing_source_names[] = {
+  "typed", "pixel-spacing", "imager-spacing-ermf", "imager-spacing-default"
+};
 
 #define N_NAMES(a) ((int) (sizeof (a) / sizeof (a)[0]))
 
@@ -91,6 +95,7 @@ static const HlEnumAttr enum_attrs[] = {
   { "method", cal_method_names, N_NAMES (cal_method_names) },
   { "hand", hand_names, N_NAMES (hand_names) },
   { "unit", force_unit_names, N_NAMES (force_unit_names) },
+  { "spacing-source", spacing_source_names, N_NAMES (spacing_source_names) },
 };
 
 /* Every attribute of a plan that holds a number. */
@@ -103,7 +108,7 @@ static const char *const number_attrs[] = {
   "landmark-sd-mm", "magnification-sd", "angle-sd-deg",
   "pixel-spacing-mm", "origin-x-mm", "origin-y-mm", "brightness", "contrast",
   "opacity", "cup-diameter-mm", "cup-x-mm", "cup-y-mm", "inclination-deg",
-  "seat-mm",
+  "seat-mm", "window-centre", "window-width",
 };
 
 /* ---- Numbers in the C locale ------------------------------------------- */
@@ -456,6 +461,17 @@ write_radiograph (HlWriter *w, const HlRadiograph *rg)
   put_number (w, "origin-y-mm", rg->origin_mm.y, "radiograph origin");
   put_number (w, "brightness", rg->brightness, "radiograph brightness");
   put_number (w, "contrast", rg->contrast, "radiograph contrast");
+  if (rg->window_width != 0.0)
+    {
+      put_number (w, "window-centre", rg->window_centre, "radiograph window-centre");
+      put_number (w, "window-width", rg->window_width, "radiograph window-width");
+    }
+  if (rg->spacing_source != HL_SPACING_NONE)
+    {
+      hl_buf_puts (w->b, " spacing-source=\"");
+      hl_buf_puts (w->b, spacing_source_names[rg->spacing_source]);
+      hl_buf_puts (w->b, "\"");
+    }
   hl_buf_puts (w->b, rg->invert ? " invert=\"true\"" : " invert=\"false\"");
   put_number (w, "opacity", rg->opacity, "radiograph opacity");
   hl_buf_puts (w->b, rg->schematic_visible ? " schematic-visible=\"true\"/>\n"
@@ -1879,6 +1895,7 @@ read_radiograph (HlReader *r, xmlNodePtr node, HlPlan *plan)
 {
   HlRadiograph *rg = &plan->radiograph;
   char stored[HL_IMAGE_PATH_MAX];
+  int source = HL_SPACING_NONE;
   hl_radiograph_init (rg);
   if (!get_text_attr (r, node, "path", stored, sizeof stored))
     return false;
@@ -1893,10 +1910,14 @@ read_radiograph (HlReader *r, xmlNodePtr node, HlPlan *plan)
       || !get_number (r, node, "origin-y-mm", false, &rg->origin_mm.y)
       || !get_number (r, node, "brightness", false, &rg->brightness)
       || !get_number (r, node, "contrast", false, &rg->contrast)
+      || !get_number (r, node, "window-centre", false, &rg->window_centre)
+      || !get_number (r, node, "window-width", false, &rg->window_width)
+      || !get_enum (r, node, "spacing-source", false, &source)
       || !get_bool (r, node, "invert", &rg->invert)
       || !get_number (r, node, "opacity", false, &rg->opacity)
       || !get_bool (r, node, "schematic-visible", &rg->schematic_visible))
     return false;
+  rg->spacing_source = (HlSpacingSource) source;
   HlError resolve;
   hl_error_clear (&resolve);
   if (hl_image_resolve_path (r->base_file, stored, rg->path, sizeof rg->path, &resolve)

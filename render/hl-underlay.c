@@ -7,13 +7,12 @@
 
 #define G_LOG_DOMAIN "hl-underlay"
 
-#include <errno.h>
 #include <math.h>
+#include <stdint.h>
+#include <stdio.h>
 #include <string.h>
-#include <sys/stat.h>
-#include <unistd.h>
+#include <glib.h>
 #include <glib/gi18n.h>
-#include <gdk-pixbuf/gdk-pixbuf.h>
 
 #include "hl-underlay.h"
 
@@ -24,33 +23,80 @@
  * bilinear filter never shrinks by more than about a third (where cairo's
  * good filter switches to a slow convolution). */
 #define MIP_MIN_ENLARGEMENT 0.75
-#define MID_GREY 0.5
-#define LUT_SIZE 256
+#define LUT_SIZE 65536
+/* ITU-R BT.601 luma weights for the grey of a colour surface (common
+ * practice). */
+#define LUMA_R 0.299
+#define LUMA_G 0.587
+#define LUMA_B 0.114
+
+typedef struct {
+  uint16_t *px;            /* level 0: the image's own pixels (not owned) */
+  int w, h;
+  cairo_surface_t *shown;  /* windowed, RGB24; NULL until drawn */
+  bool valid;              /* shown has the current window */
+} Level;
 
 struct _HlUnderlay {
-  /* owned */
   char *path;
-  cairo_surface_t *source;              /* as loaded */
-  cairo_surface_t *mip[MIP_LEVELS_MAX]; /* [0] adjusted, then halvings */
-  int n_mip;
+  HlGrayImage *img;        /* owned */
+  Level level[MIP_LEVELS_MAX];
+  int n_levels;
   int width, height;
 
-  /* adjustments of mip[0]; the cache is valid when adjusted */
-  double brightness, contrast;
+  double centre, window;   /* the window in held values */
   bool invert;
-  bool adjusted;
+  bool lut_valid;
+  uint8_t lut[LUT_SIZE];
 };
 
-static const char *const known_formats[] = { "png", "jpeg", "tiff" };
-
-static HlUnderlay *
-underlay_new (cairo_surface_t *source)
+/* 2 x 2 means of the level above (an odd last row or column dropped). */
+static bool
+make_levels (HlUnderlay *self)
 {
+  self->level[0] = (Level) { self->img->pixels, self->width, self->height, NULL, false };
+  self->n_levels = 1;
+  while (self->n_levels < MIP_LEVELS_MAX)
+    {
+      const Level *up = &self->level[self->n_levels - 1];
+      if (up->w < 2 * MIP_MIN_SIDE || up->h < 2 * MIP_MIN_SIDE)
+        break;
+      int w = up->w / 2, h = up->h / 2;
+      uint16_t *px = g_try_malloc ((gsize) w * h * sizeof *px);
+      if (px == NULL)
+        return false;
+      for (int y = 0; y < h; y++)
+        {
+          const uint16_t *a = up->px + (gsize) (2 * y) * up->w;
+          const uint16_t *b = a + up->w;
+          uint16_t *q = px + (gsize) y * w;
+          for (int x = 0; x < w; x++)
+            q[x] = (uint16_t) (((uint32_t) a[2 * x] + a[2 * x + 1] + b[2 * x] + b[2 * x + 1]
+                                + 2) / 4);
+        }
+      self->level[self->n_levels++] = (Level) { px, w, h, NULL, false };
+    }
+  return true;
+}
+
+HlUnderlay *
+hl_underlay_new_from_gray (HlGrayImage *img)
+{
+  if (img == NULL)
+    return NULL;
   HlUnderlay *self = g_new0 (HlUnderlay, 1);
-  self->source = source;
-  self->width = cairo_image_surface_get_width (source);
-  self->height = cairo_image_surface_get_height (source);
-  self->contrast = 1.0;
+  self->img = img;
+  self->width = img->width;
+  self->height = img->height;
+  double c, w;
+  hl_gray_image_default_window (img, &c, &w, NULL);
+  self->centre = c;
+  self->window = w;
+  if (!make_levels (self))
+    {
+      hl_underlay_free (self);
+      return NULL;
+    }
   return self;
 }
 
@@ -63,125 +109,48 @@ hl_underlay_new_from_surface (cairo_surface_t *image)
       || cairo_image_surface_get_width (image) <= 0
       || cairo_image_surface_get_height (image) <= 0)
     return NULL;
-  return underlay_new (cairo_surface_reference (image));
-}
-
-/* Premultiplied ARGB32 from a pixbuf (what gdk_cairo_set_source_pixbuf
- * does, without GDK). */
-static cairo_surface_t *
-surface_from_pixbuf (GdkPixbuf *pixbuf)
-{
-  int w = gdk_pixbuf_get_width (pixbuf), h = gdk_pixbuf_get_height (pixbuf);
-  int n = gdk_pixbuf_get_n_channels (pixbuf);
-  bool alpha = gdk_pixbuf_get_has_alpha (pixbuf);
-  int src_stride = gdk_pixbuf_get_rowstride (pixbuf);
-  const guchar *src = gdk_pixbuf_read_pixels (pixbuf);
-  cairo_surface_t *s = cairo_image_surface_create (CAIRO_FORMAT_ARGB32, w, h);
-  if (cairo_surface_status (s) != CAIRO_STATUS_SUCCESS)
-    {
-      cairo_surface_destroy (s);
-      return NULL;
-    }
-  cairo_surface_flush (s);
-  unsigned char *dst = cairo_image_surface_get_data (s);
-  int dst_stride = cairo_image_surface_get_stride (s);
+  int w = cairo_image_surface_get_width (image), h = cairo_image_surface_get_height (image);
+  HlGrayImage *img = hl_gray_image_alloc (HL_IMAGE_FORMAT_PNG, w, h);
+  if (img == NULL)
+    return NULL;
+  img->bits = 8;
+  snprintf (img->photometric, sizeof img->photometric, "RGB");
+  cairo_surface_flush (image);
+  const unsigned char *src = cairo_image_surface_get_data (image);
+  int stride = cairo_image_surface_get_stride (image);
   for (int y = 0; y < h; y++)
     {
-      const guchar *p = src + (gsize) y * src_stride;
-      guint32 *q = (guint32 *) (dst + (gsize) y * dst_stride);
-      for (int x = 0; x < w; x++, p += n)
-        {
-          guint a = alpha ? p[3] : 255;
-          guint r = (p[0] * a + 127) / 255, g = (p[1] * a + 127) / 255,
-                b = (p[2] * a + 127) / 255;
-          q[x] = (a << 24) | (r << 16) | (g << 8) | b;
-        }
+      const guint32 *p = (const guint32 *) (src + (gsize) y * stride);
+      for (int x = 0; x < w; x++)
+        img->pixels[(gsize) y * w + x] =
+          (uint16_t) lround (LUMA_R * ((p[x] >> 16) & 0xff) + LUMA_G * ((p[x] >> 8) & 0xff)
+                             + LUMA_B * (p[x] & 0xff));
     }
-  cairo_surface_mark_dirty (s);
-  return s;
+  return hl_underlay_new_from_gray (img);
 }
 
 HlUnderlay *
 hl_underlay_new_from_file (const char *path, HlError *err)
 {
-  struct stat sb;
-  if (stat (path, &sb) != 0)
-    {
-      if (errno == ENOENT || errno == ENOTDIR)
-        hl_error_set (err, HL_ERR_IO, path,
-                      _("The image \"%s\" is not there: it has been moved or deleted"), path);
-      else
-        hl_error_set (err, HL_ERR_IO, path, _("Cannot open the image \"%s\": %s"), path,
-                      g_strerror (errno));
-      return NULL;
-    }
-  if (!S_ISREG (sb.st_mode))
-    {
-      hl_error_set (err, HL_ERR_IO, path, _("\"%s\" is not a regular file"), path);
-      return NULL;
-    }
-  if (access (path, R_OK) != 0)
-    {
-      hl_error_set (err, HL_ERR_IO, path, _("Cannot read the image \"%s\": %s"), path,
-                    g_strerror (errno));
-      return NULL;
-    }
-
-  int w = 0, h = 0;
-  GdkPixbufFormat *format = gdk_pixbuf_get_file_info (path, &w, &h);
-  g_autofree char *name = format != NULL ? gdk_pixbuf_format_get_name (format) : NULL;
-  bool known = false;
-  for (size_t i = 0; name != NULL && i < G_N_ELEMENTS (known_formats); i++)
-    known |= strcmp (name, known_formats[i]) == 0;
-  if (!known)
-    {
-      hl_error_set (err, HL_ERR_PARSE, path,
-                    _("\"%s\" is not a PNG, JPEG or TIFF image"), path);
-      return NULL;
-    }
-  if (w <= 0 || h <= 0)
-    {
-      hl_error_set (err, HL_ERR_PARSE, path,
-                    _("The image \"%s\" gives no size in its header: it is damaged"), path);
-      return NULL;
-    }
-  if ((long long) w * h > HL_UNDERLAY_MAX_PIXELS)
-    {
-      hl_error_set (err, HL_ERR_INVALID, path,
-                    _("The image \"%s\" is %d x %d pixels (%.0f megapixels), more than "
-                      "the %.0f megapixels this program opens; reduce it first"),
-                    path, w, h, (double) w * h / 1e6, HL_UNDERLAY_MAX_PIXELS / 1e6);
-      return NULL;
-    }
-
-  g_autoptr (GError) gerr = NULL;
-  g_autoptr (GdkPixbuf) raw = gdk_pixbuf_new_from_file (path, &gerr);
-  if (raw == NULL)
-    {
-      hl_error_set (err, HL_ERR_PARSE, path, _("The image \"%s\" cannot be read: %s"),
-                    path, gerr != NULL ? gerr->message : _("unknown reason"));
-      return NULL;
-    }
-  /* Scanners store the orientation apart from the pixels. */
-  g_autoptr (GdkPixbuf) pixbuf = gdk_pixbuf_apply_embedded_orientation (raw);
-  cairo_surface_t *s = pixbuf != NULL ? surface_from_pixbuf (pixbuf) : NULL;
-  if (s == NULL)
+  HlGrayImage *img = hl_gray_image_load (path, err);
+  if (img == NULL)
+    return NULL;
+  HlUnderlay *self = hl_underlay_new_from_gray (img);
+  if (self == NULL)
     {
       hl_error_set (err, HL_ERR_NOMEM, path, _("Out of memory for the image \"%s\""), path);
       return NULL;
     }
-  HlUnderlay *self = underlay_new (s);
   self->path = g_strdup (path);
   return self;
 }
 
 static void
-clear_cache (HlUnderlay *self)
+invalidate (HlUnderlay *self)
 {
-  for (int i = 0; i < self->n_mip; i++)
-    cairo_surface_destroy (self->mip[i]);
-  self->n_mip = 0;
-  self->adjusted = false;
+  self->lut_valid = false;
+  for (int i = 0; i < self->n_levels; i++)
+    self->level[i].valid = false;
 }
 
 void
@@ -189,8 +158,14 @@ hl_underlay_free (HlUnderlay *self)
 {
   if (self == NULL)
     return;
-  clear_cache (self);
-  cairo_surface_destroy (self->source);
+  for (int i = 0; i < self->n_levels; i++)
+    {
+      if (self->level[i].shown != NULL)
+        cairo_surface_destroy (self->level[i].shown);
+      if (i > 0)
+        g_free (self->level[i].px);
+    }
+  hl_gray_image_free (self->img);
   g_free (self->path);
   g_free (self);
 }
@@ -213,113 +188,85 @@ hl_underlay_get_path (const HlUnderlay *self)
   return self->path;
 }
 
-void
-hl_underlay_set_adjust (HlUnderlay *self, double brightness, double contrast,
-                        bool invert)
+const HlGrayImage *
+hl_underlay_get_image (const HlUnderlay *self)
 {
-  if (self->adjusted && brightness == self->brightness && contrast == self->contrast
+  return self->img;
+}
+
+void
+hl_underlay_set_window (HlUnderlay *self, double centre, double width, bool invert)
+{
+  if (!(width > 0.0) || !isfinite (centre))
+    return;
+  if (self->lut_valid && centre == self->centre && width == self->window
       && invert == self->invert)
     return;
-  clear_cache (self);
-  self->brightness = brightness;
-  self->contrast = contrast;
+  self->centre = centre;
+  self->window = width;
   self->invert = invert;
+  invalidate (self);
 }
 
 double
-hl_underlay_adjust_value (double v, double brightness, double contrast, bool invert)
+hl_underlay_window_value (double v, double centre, double width, bool invert)
 {
-  if (invert)
-    v = 1.0 - v;
-  v = (v - MID_GREY) * contrast + MID_GREY + brightness;
-  return v < 0.0 ? 0.0 : v > 1.0 ? 1.0 : v;
+  /* DICOM PS3.3 C.11.2.1.2.1, output range 0..1: below c - 0.5 - (w-1)/2
+   * black, above c - 0.5 + (w-1)/2 white, linear between. */
+  double y;
+  if (width <= 1.0)
+    y = v <= centre - 0.5 ? 0.0 : 1.0;
+  else
+    {
+      y = (v - (centre - 0.5)) / (width - 1.0) + 0.5;
+      y = y < 0.0 ? 0.0 : y > 1.0 ? 1.0 : y;
+    }
+  return invert ? 1.0 - y : y;
 }
 
-/* The adjusted copy, through a table per channel value: premultiplied
- * colour is un-premultiplied, looked up and premultiplied again. */
-static cairo_surface_t *
-make_adjusted (HlUnderlay *self)
+static void
+make_lut (HlUnderlay *self)
 {
-  guint8 lut[LUT_SIZE];
   for (int i = 0; i < LUT_SIZE; i++)
-    lut[i] = (guint8) lround (255.0 * hl_underlay_adjust_value (i / 255.0, self->brightness,
-                                                                self->contrast, self->invert));
-  cairo_surface_t *s = cairo_image_surface_create (CAIRO_FORMAT_ARGB32, self->width,
-                                                   self->height);
-  if (cairo_surface_status (s) != CAIRO_STATUS_SUCCESS)
+    self->lut[i] = (uint8_t) lround (255.0 * hl_underlay_window_value (i, self->centre,
+                                                                        self->window,
+                                                                        self->invert));
+  self->lut_valid = true;
+}
+
+/* The windowed copy of one level, redone when the window changed. */
+static cairo_surface_t *
+shown_level (HlUnderlay *self, int i)
+{
+  Level *l = &self->level[i];
+  if (l->valid)
+    return l->shown;
+  if (!self->lut_valid)
+    make_lut (self);
+  if (l->shown == NULL)
     {
-      cairo_surface_destroy (s);
-      return NULL;
-    }
-  cairo_surface_flush (self->source);
-  cairo_surface_flush (s);
-  bool opaque = cairo_image_surface_get_format (self->source) == CAIRO_FORMAT_RGB24;
-  const unsigned char *src = cairo_image_surface_get_data (self->source);
-  unsigned char *dst = cairo_image_surface_get_data (s);
-  int ss = cairo_image_surface_get_stride (self->source), ds = cairo_image_surface_get_stride (s);
-  for (int y = 0; y < self->height; y++)
-    {
-      const guint32 *p = (const guint32 *) (src + (gsize) y * ss);
-      guint32 *q = (guint32 *) (dst + (gsize) y * ds);
-      for (int x = 0; x < self->width; x++)
+      l->shown = cairo_image_surface_create (CAIRO_FORMAT_RGB24, l->w, l->h);
+      if (cairo_surface_status (l->shown) != CAIRO_STATUS_SUCCESS)
         {
-          guint32 px = p[x];
-          guint a = opaque ? 255 : px >> 24;
-          guint c[3] = { (px >> 16) & 0xff, (px >> 8) & 0xff, px & 0xff };
-          if (a == 0)
-            {
-              q[x] = 0;
-              continue;
-            }
-          for (int k = 0; k < 3; k++)
-            {
-              guint straight = a == 255 ? c[k] : MIN (255u, (c[k] * 255 + a / 2) / a);
-              guint v = lut[straight];
-              c[k] = a == 255 ? v : (v * a + 127) / 255;
-            }
-          q[x] = (a << 24) | (c[0] << 16) | (c[1] << 8) | c[2];
+          cairo_surface_destroy (l->shown);
+          l->shown = NULL;
+          return NULL;
         }
     }
-  cairo_surface_mark_dirty (s);
-  return s;
-}
-
-static cairo_surface_t *
-make_half (cairo_surface_t *from)
-{
-  int w = MAX (1, cairo_image_surface_get_width (from) / 2);
-  int h = MAX (1, cairo_image_surface_get_height (from) / 2);
-  cairo_surface_t *s = cairo_image_surface_create (CAIRO_FORMAT_ARGB32, w, h);
-  cairo_t *cr = cairo_create (s);
-  cairo_scale (cr, (double) w / cairo_image_surface_get_width (from),
-               (double) h / cairo_image_surface_get_height (from));
-  cairo_set_source_surface (cr, from, 0, 0);
-  cairo_pattern_set_filter (cairo_get_source (cr), CAIRO_FILTER_GOOD);
-  cairo_set_operator (cr, CAIRO_OPERATOR_SOURCE);
-  cairo_paint (cr);
-  cairo_destroy (cr);
-  return s;
-}
-
-static bool
-ensure_cache (HlUnderlay *self)
-{
-  if (self->adjusted)
-    return self->n_mip > 0;
-  self->adjusted = true;
-  cairo_surface_t *s = make_adjusted (self);
-  if (s == NULL)
-    return false;
-  self->mip[self->n_mip++] = s;
-  while (self->n_mip < MIP_LEVELS_MAX)
+  cairo_surface_flush (l->shown);
+  unsigned char *dst = cairo_image_surface_get_data (l->shown);
+  int stride = cairo_image_surface_get_stride (l->shown);
+  const uint8_t *lut = self->lut;
+  for (int y = 0; y < l->h; y++)
     {
-      cairo_surface_t *last = self->mip[self->n_mip - 1];
-      if (cairo_image_surface_get_width (last) < 2 * MIP_MIN_SIDE
-          || cairo_image_surface_get_height (last) < 2 * MIP_MIN_SIDE)
-        break;
-      self->mip[self->n_mip++] = make_half (last);
+      const uint16_t *p = l->px + (gsize) y * l->w;
+      guint32 *q = (guint32 *) (dst + (gsize) y * stride);
+      for (int x = 0; x < l->w; x++)
+        q[x] = 0xff000000u | (guint32) lut[p[x]] * 0x010101u;
     }
-  return true;
+  cairo_surface_mark_dirty (l->shown);
+  l->valid = true;
+  return l->shown;
 }
 
 HlVec2
@@ -332,15 +279,17 @@ void
 hl_underlay_draw (HlUnderlay *self, cairo_t *cr, const HlView *view,
                   HlVec2 origin_mm, double mm_per_px, double opacity)
 {
-  if (self == NULL || !(mm_per_px > 0.0) || !(opacity > 0.0) || !ensure_cache (self))
+  if (self == NULL || !(mm_per_px > 0.0) || !(opacity > 0.0))
     return;
 
   /* Screen px per full-size image pixel, then the copy to draw from. */
   double k = mm_per_px * view->scale;
   int level = 0;
-  while (level + 1 < self->n_mip && k * (1 << (level + 1)) <= 1.0 / MIP_MIN_ENLARGEMENT)
+  while (level + 1 < self->n_levels && k * (1 << (level + 1)) <= 1.0 / MIP_MIN_ENLARGEMENT)
     level++;
-  cairo_surface_t *s = self->mip[level];
+  cairo_surface_t *s = shown_level (self, level);
+  if (s == NULL)
+    return;
   double sx = (double) self->width / cairo_image_surface_get_width (s);
   double sy = (double) self->height / cairo_image_surface_get_height (s);
 

@@ -1,18 +1,20 @@
-/* hl-underlay.h: a radiograph drawn under the schematic (cairo and
- * gdk-pixbuf only, no GTK: tests and benchmarks need no display).
+/* hl-underlay.h: a radiograph drawn under the schematic (cairo only, no
+ * GTK: tests and benchmarks need no display).
  *
  * Copyright 2026 the hiplever developers
  * SPDX-License-Identifier: GPL-3.0-or-later
  *
- * Loading checks the image's size from its header BEFORE decoding, so a
- * file claiming more than HL_UNDERLAY_MAX_PIXELS is refused without
- * allocating for it.  PNG, JPEG and TIFF are read.
+ * The image is read by the core (hl_gray_image_load: DICOM, PNG, TIFF,
+ * JPEG, held as 16-bit grey; sizes checked before decoding).  Halved
+ * 16-bit copies are made once, when the underlay is made (so off the main
+ * thread when it is made there).
  *
- * Brightness, contrast and invert are applied once into a cached image
- * surface (redone only when they change), and halved copies of it are
- * kept for zoomed-out views, so that a frame is one bilinear or nearest
- * resampling of the visible part: pan and zoom stay fast on large images.
- * Opacity is applied when painting.
+ * Display: window centre and width over the 16-bit values through a
+ * 65,536-entry table (the linear window function of DICOM PS3.3
+ * C.11.2.1.2.1), then invert.  Each copy is windowed into an image surface
+ * only when it is drawn and the window changed, so a window drag redoes
+ * the one copy on screen; a frame is one bilinear or nearest resampling of
+ * the visible part.  Opacity is applied when painting.
  *
  * Placement: the image's top-left corner lies at `origin_mm` in the plan
  * frame, each pixel `mm_per_px` plan mm wide (hl_image_placement); the
@@ -23,6 +25,7 @@
 #include <stdbool.h>
 #include <cairo.h>
 
+#include "hl-gray-image.h"
 #include "hl-render.h"
 #include "hl-types.h"
 
@@ -30,17 +33,17 @@
 extern "C" {
 #endif
 
-/* 100 megapixels: a decoded image takes 4 bytes a pixel, twice. */
-#define HL_UNDERLAY_MAX_PIXELS 100000000LL
-
 typedef struct _HlUnderlay HlUnderlay;
 
-/* Loads an image file.  NULL on failure, with err saying what is wrong
- * with which file: missing, unreadable, not an image of a known kind,
- * too large, or corrupt. */
+/* Loads an image file (hl_gray_image_load).  NULL on failure, with err
+ * saying what is wrong with which file: missing, unreadable, not an image
+ * of a known kind, too large, or corrupt. */
 HlUnderlay *hl_underlay_new_from_file (const char *path, HlError *err);
-/* Takes a reference on an ARGB32 or RGB24 image surface (tests, the
- * benchmark).  NULL when it is not one. */
+/* Takes an image read by the core (owned from then on); NULL when out of
+ * memory (the image is freed). */
+HlUnderlay *hl_underlay_new_from_gray (HlGrayImage *img);
+/* The grey (luma) of an ARGB32 or RGB24 image surface, 8 bits (tests).
+ * NULL when it is not one. */
 HlUnderlay *hl_underlay_new_from_surface (cairo_surface_t *image);
 void hl_underlay_free (HlUnderlay *self);
 
@@ -49,14 +52,16 @@ int hl_underlay_get_height (const HlUnderlay *self);
 /* The file it was loaded from, or NULL. */
 const char *hl_underlay_get_path (const HlUnderlay *self);
 
-/* brightness -1..1 (added), contrast > 0 (about mid-grey), invert. */
-void hl_underlay_set_adjust (HlUnderlay *self, double brightness,
-                             double contrast, bool invert);
+/* The image as read: size, bits, the file's window, notes, flags. */
+const HlGrayImage *hl_underlay_get_image (const HlUnderlay *self);
 
-/* The adjusted grey value 0..1 of a source value 0..1: what the cache
- * holds for each channel. */
-double hl_underlay_adjust_value (double v, double brightness, double contrast,
-                                 bool invert);
+/* Window centre and width (> 0) in the held grey values, and invert. */
+void hl_underlay_set_window (HlUnderlay *self, double centre, double width,
+                             bool invert);
+
+/* The shown grey 0..1 of held value v under a window (DICOM's linear
+ * window function), inverted when asked. */
+double hl_underlay_window_value (double v, double centre, double width, bool invert);
 
 /* Zoom at which the filter changes from bilinear to nearest: one image
  * pixel this many screen pixels wide or more is drawn as a crisp block. */

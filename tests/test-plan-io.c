@@ -283,6 +283,9 @@ plans_equal (const HlPlan *a, const HlPlan *b, char *why, size_t size)
       SAME_D (radiograph.origin_mm.y);
       SAME_D (radiograph.brightness);
       SAME_D (radiograph.contrast);
+      SAME_D (radiograph.window_centre);
+      SAME_D (radiograph.window_width);
+      SAME_I (radiograph.spacing_source);
       SAME_I (radiograph.invert);
       SAME_D (radiograph.opacity);
       SAME_I (radiograph.schematic_visible);
@@ -567,6 +570,12 @@ random_plan (HlRand *r)
       rg->invert = rand_chance (r, 0.5);
       rg->opacity = rand_uniform (r, 0.0, 1.0);
       rg->schematic_visible = rand_chance (r, 0.5);
+      if (rand_chance (r, 0.5))
+        {
+          rg->window_width = rand_uniform (r, HL_IMAGE_WINDOW_WIDTH_MIN, 65536.0);
+          rg->window_centre = rand_uniform (r, 0.0, 65535.0);
+        }
+      rg->spacing_source = (HlSpacingSource) rand_int (r, HL_SPACING_IMAGER_DEFAULT + 1);
     }
   return plan;
 }

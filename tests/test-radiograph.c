@@ -36,6 +36,8 @@
 #define TOL_MAGNIFICATION_REL 0.005
 #define TOL_MEASURE_MM 0.5
 #define TOL_EXACT 1e-9
+/* The grey of pure red: ITU-R BT.601 luma weight. */
+#define LUMA_RED 0.299
 
 /* The synthetic radiograph: high-entropy values of our own. */
 #define SYN_MAGNIFICATION 1.173
@@ -404,8 +406,8 @@ START_TEST (test_synthetic_radiograph)
   ck_assert_int_eq (hl_image_verify (&back->radiograph, NULL, 0), HL_IMAGE_OK);
   ck_assert_str_eq (back->radiograph.path, plan->radiograph.path);
 
-  /* Drawn on screen, the hip centre's pixel is under the hip centre, red
-   * (a disc), and inverted it is no longer red. */
+  /* Drawn on screen, the hip centre's pixel is under the hip centre: the
+   * grey of red (a disc, luma 0.299, ITU-R BT.601), and inverted 0.701. */
   HlImagePlacement pl;
   ck_assert_int_eq (hl_image_placement (plan, &pl, &err), HL_OK);
   cairo_surface_t *screen = cairo_image_surface_create (CAIRO_FORMAT_RGB24, 400, 300);
@@ -417,16 +419,15 @@ START_TEST (test_synthetic_radiograph)
       cairo_t *cr = cairo_create (screen);
       cairo_set_source_rgb (cr, 1, 1, 1);
       cairo_paint (cr);
-      hl_underlay_set_adjust (ul, 0.0, 1.0, inverted);
+      hl_underlay_set_window (ul, 128.0, 256.0, inverted);   /* 0..255 as is */
       hl_underlay_draw (ul, cr, &view, pl.origin_mm, pl.mm_per_pixel, 1.0);
       cairo_destroy (cr);
       cairo_surface_flush (screen);
       Pixels sp = { cairo_image_surface_get_data (screen), cairo_image_surface_get_stride (screen), 400, 300 };
       double red = channel (&sp, 200, 150, 0), green = channel (&sp, 200, 150, 1);
-      if (!inverted)
-        ck_assert_msg (red > 0.99 && green < 0.01, "hip centre pixel %.2f %.2f", red, green);
-      else
-        ck_assert_msg (red < 0.01 && green > 0.99, "inverted hip centre pixel %.2f %.2f", red, green);
+      double grey = inverted ? 1.0 - LUMA_RED : LUMA_RED;
+      ck_assert_msg (fabs (red - grey) < 0.01 && fabs (green - grey) < 0.01,
+                     "hip centre pixel %.3f %.3f, not %.3f", red, green, grey);
     }
   cairo_surface_destroy (screen);
 
@@ -438,27 +439,51 @@ START_TEST (test_synthetic_radiograph)
 }
 END_TEST
 
-/* ---- Display adjustments -------------------------------------------------- */
+/* ---- Display: the window ------------------------------------------------ */
 
+/* DICOM PS3.3 (NEMA), section C.11.2.1.2.1, the linear VOI window
+ * function, output 0..1; values worked by hand. */
 static const struct {
-  double v, brightness, contrast;
+  double v, centre, width;
   bool invert;
   double want;
-} adjust_cases[] = {
-  { 0.25, 0.0, 1.0, false, 0.25 },
-  { 0.25, 0.0, 1.0, true, 0.75 },
-  { 0.25, 0.1, 1.0, false, 0.35 },
-  { 0.25, 0.0, 2.0, false, 0.0 },     /* (0.25 - 0.5) 2 + 0.5 */
-  { 0.6, 0.0, 2.5, false, 0.75 },
-  { 0.9, 0.3, 1.0, false, 1.0 },      /* clamped */
-  { 0.5, 0.0, 4.7, true, 0.5 },       /* mid-grey stays */
+} window_cases[] = {
+  { 1000, 1000.5, 201, false, 0.5 },
+  { 1100, 1000.5, 201, false, 1.0 },
+  { 900, 1000.5, 201, false, 0.0 },
+  { 950, 1000.5, 201, false, 0.25 },
+  { 950, 1000.5, 201, true, 0.75 },
+  { 65535, 1000.5, 201, false, 1.0 },   /* clamped */
+  { 0, 1000.5, 201, true, 1.0 },
+  { 10, 10.5, 1, false, 0.0 },          /* width 1: a threshold */
+  { 11, 10.5, 1, false, 1.0 },
 };
 
-START_TEST (test_adjust_value)
+START_TEST (test_window_value)
 {
-  ck_assert_double_eq_tol (hl_underlay_adjust_value (adjust_cases[_i].v, adjust_cases[_i].brightness,
-                                                     adjust_cases[_i].contrast, adjust_cases[_i].invert),
-                           adjust_cases[_i].want, TOL_EXACT);
+  ck_assert_double_eq_tol (hl_underlay_window_value (window_cases[_i].v, window_cases[_i].centre,
+                                                     window_cases[_i].width,
+                                                     window_cases[_i].invert),
+                           window_cases[_i].want, TOL_EXACT);
+}
+END_TEST
+
+/* A plan from before the window: its brightness and contrast (shown value
+ * (v - 1/2) k + 1/2 + b over 0..1) become a window that shows the same. */
+static const struct { double brightness, contrast; } old_adjust[] = {
+  { 0.0, 1.0 }, { 0.1, 1.0 }, { 0.0, 2.0 }, { 0.0, 2.5 }, { 0.3, 1.0 }, { -0.4, 4.7 },
+};
+
+START_TEST (test_brightness_contrast_window)
+{
+  double b = old_adjust[_i].brightness, k = old_adjust[_i].contrast, c, w;
+  hl_window_from_brightness_contrast (b, k, 255.0, &c, &w);
+  for (int v = 0; v <= 255; v++)
+    {
+      double old = (v / 255.0 - 0.5) * k + 0.5 + b;
+      old = old < 0.0 ? 0.0 : old > 1.0 ? 1.0 : old;
+      ck_assert_double_eq_tol (hl_underlay_window_value (v, c, w, false), old, 1e-9);
+    }
 }
 END_TEST
 
@@ -528,9 +553,9 @@ static const struct {
 } bad_images[] = {
   { BAD_MISSING, "gone.png", HL_ERR_IO, "moved or deleted" },
   { BAD_FOLDER, "folder.png", HL_ERR_IO, "not a regular file" },
-  { BAD_TEXT, "notes.png", HL_ERR_PARSE, "not a PNG, JPEG or TIFF image" },
-  { BAD_HUGE, "huge.png", HL_ERR_INVALID, "12000 x 9000 pixels (108 megapixels)" },
-  { BAD_TRUNCATED, "cut.png", HL_ERR_PARSE, "cannot be read" },
+  { BAD_TEXT, "notes.png", HL_ERR_PARSE, "not a DICOM, PNG, TIFF or JPEG image" },
+  { BAD_HUGE, "huge.png", HL_ERR_INVALID, "12000 x 9000 pixels: more than 100 megapixels" },
+  { BAD_TRUNCATED, "cut.png", HL_ERR_PARSE, "truncated or damaged" },
   { BAD_NO_PERMISSION, "locked.png", HL_ERR_IO, "Cannot read the image" },
 };
 
@@ -755,7 +780,8 @@ radiograph_suite (void)
   tcase_add_loop_test (tc, test_synthetic_radiograph, 0, N_OF (syn_cases));
   suite_add_tcase (s, tc);
   tc = tcase_create ("adjust");
-  tcase_add_loop_test (tc, test_adjust_value, 0, N_OF (adjust_cases));
+  tcase_add_loop_test (tc, test_window_value, 0, N_OF (window_cases));
+  tcase_add_loop_test (tc, test_brightness_contrast_window, 0, N_OF (old_adjust));
   suite_add_tcase (s, tc);
   tc = tcase_create ("files");
   tcase_add_loop_test (tc, test_bad_image, 0, N_OF (bad_images));

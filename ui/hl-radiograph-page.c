@@ -38,6 +38,13 @@
 #define BENCH_ZOOM_STEP 1.01
 #define BENCH_PAN_PX 6.0
 #define BENCH_P95 0.95
+/* Window adjustment: a right-button drag moves the window by this share
+ * of the image's grey range per screen pixel (horizontal: width, vertical:
+ * centre); Page Up and Page Down step the centre, with Shift the width,
+ * by KEY_STEP of the range.  Our own choices. */
+#define DRAG_RANGE_PER_PX (1.0 / 500.0)
+#define KEY_STEP 0.02
+#define PROGRESS_PULSE_MS 100
 
 enum { METHOD_NONE, METHOD_MARKER, METHOD_TWO_POINT, METHOD_TYPED, N_METHODS };
 
@@ -55,8 +62,13 @@ struct _HlRadiographPage {
   GtkWidget *file_label;
   GtkWidget *import_button;
   GtkWidget *schematic_check;
-  GtkWidget *brightness_scale;
-  GtkWidget *contrast_scale;
+  GtkWidget *centre_spin;
+  GtkWidget *width_spin;
+  GtkWidget *auto_button;
+  GtkWidget *preset_button;
+  GtkWidget *window_label;
+  GtkWidget *progress;
+  GtkWidget *burned_banner;
   GtkWidget *invert_check;
   GtkWidget *opacity_scale;
   GtkWidget *spacing_spin;
@@ -79,6 +91,16 @@ struct _HlRadiographPage {
   HlUnderlay *underlay;
   char *loaded_path;         /* the reference the underlay was loaded for */
   GtkNativeDialog *chooser;
+  GCancellable *load_cancel;
+
+  /* loading off the main thread: a result is used only when its
+   * generation is still the page's */
+  guint load_generation;
+  gboolean loading;
+  gboolean disposed;
+  guint pulse_id;
+  /* a right-button drag: the window where it began */
+  double drag_centre, drag_width;
 
   /* state */
   guint syncing;
@@ -151,8 +173,90 @@ drop_underlay (HlRadiographPage *self)
   g_clear_pointer (&self->underlay, hl_underlay_free);
 }
 
-/* Loads the plan's image when its reference changed; says what is wrong
- * when it cannot be used, and the plan goes on without it. */
+/* ---- Reading off the main thread ------------------------------------------ */
+
+typedef struct {
+  char *path;
+  guint generation;
+  gboolean import;          /* a new import, else the plan's own image */
+  char expected_sha[65];    /* the plan's digest, or "" */
+  /* results */
+  HlUnderlay *underlay;
+  HlError err;
+  char hex[65];
+  gboolean hashed;
+} LoadJob;
+
+static void
+load_job_free (LoadJob *job)
+{
+  g_free (job->path);
+  hl_underlay_free (job->underlay);
+  g_free (job);
+}
+
+/* The worker: decode (size checks first), then the digest. */
+static void
+load_thread (GTask *task, gpointer source, gpointer data, GCancellable *cancel)
+{
+  LoadJob *job = data;
+  hl_error_clear (&job->err);
+  job->underlay = hl_underlay_new_from_file (job->path, &job->err);
+  if (job->underlay != NULL && !g_cancellable_is_cancelled (cancel))
+    job->hashed = hl_file_sha256_hex (job->path, job->hex, &job->err) == HL_OK;
+  g_task_return_boolean (task, TRUE);
+}
+
+static gboolean
+pulse_cb (gpointer data)
+{
+  HlRadiographPage *self = data;
+  gtk_progress_bar_pulse (GTK_PROGRESS_BAR (self->progress));
+  return G_SOURCE_CONTINUE;
+}
+
+static void
+set_loading (HlRadiographPage *self, gboolean on)
+{
+  self->loading = on;
+  gtk_widget_set_visible (self->progress, on);
+  gtk_widget_set_sensitive (self->import_button, !on);
+  if (on && self->pulse_id == 0)
+    self->pulse_id = g_timeout_add (PROGRESS_PULSE_MS, pulse_cb, self);
+  else if (!on && self->pulse_id != 0)
+    {
+      g_source_remove (self->pulse_id);
+      self->pulse_id = 0;
+    }
+}
+
+static void load_done_cb (GObject *source, GAsyncResult *res, gpointer data);
+
+static void
+start_load (HlRadiographPage *self, const char *path, gboolean import, const char *sha)
+{
+  if (self->load_cancel != NULL)
+    g_cancellable_cancel (self->load_cancel);
+  g_clear_object (&self->load_cancel);
+  self->load_cancel = g_cancellable_new ();
+  LoadJob *job = g_new0 (LoadJob, 1);
+  job->path = g_strdup (path);
+  job->generation = ++self->load_generation;
+  job->import = import;
+  snprintf (job->expected_sha, sizeof job->expected_sha, "%s", sha != NULL ? sha : "");
+  g_autofree char *base = g_path_get_basename (path);
+  g_autofree char *text = g_strdup_printf (_("Reading the image %s…"), base);
+  gtk_progress_bar_set_text (GTK_PROGRESS_BAR (self->progress), text);
+  set_loading (self, TRUE);
+  GTask *task = g_task_new (NULL, self->load_cancel, load_done_cb, g_object_ref (self));
+  g_task_set_task_data (task, job, (GDestroyNotify) load_job_free);
+  g_task_run_in_thread (task, load_thread);
+  g_object_unref (task);
+}
+
+/* Loads the plan's image when its reference changed (off the main
+ * thread); the plan goes on without it until then, and without it when it
+ * cannot be used, with a banner saying why. */
 static void
 sync_underlay (HlRadiographPage *self)
 {
@@ -161,9 +265,12 @@ sync_underlay (HlRadiographPage *self)
     return;
   if (!rg->present)
     {
+      if (self->loaded_path != NULL || self->underlay != NULL)
+        self->load_generation++;       /* a pending load is for another plan */
       drop_underlay (self);
       g_clear_pointer (&self->loaded_path, g_free);
       set_banner (self->image_banner, NULL);
+      set_loading (self, FALSE);
       return;
     }
   if (g_strcmp0 (self->loaded_path, rg->path) == 0)
@@ -171,74 +278,89 @@ sync_underlay (HlRadiographPage *self)
   g_free (self->loaded_path);
   self->loaded_path = g_strdup (rg->path);
   drop_underlay (self);
+  set_banner (self->image_banner, NULL);
+  start_load (self, rg->path, FALSE, rg->sha256);
+}
 
-  char message[HL_IMAGE_PATH_MAX + 128];
-  HlImageCheck check = hl_image_verify (rg, message, sizeof message);
-  HlError err;
-  hl_error_clear (&err);
-  if (check == HL_IMAGE_MISSING || check == HL_IMAGE_UNREADABLE)
+static void
+import_done (HlRadiographPage *self, LoadJob *job)
+{
+  if (job->underlay == NULL || !job->hashed)
     {
-      g_autofree char *text = g_strdup_printf (_("%s. The plan is shown without it; "
-                                                 "import the image again to see it."),
-                                               message);
-      set_banner (self->image_banner, text);
-      g_printerr ("hiplever: %s\n", message);
+      g_autofree char *msg = hl_document_format_error (&job->err);
+      hl_message_show_error (GTK_WIDGET (self), _("Could not import the image"), msg);
       return;
     }
-  self->underlay = hl_underlay_new_from_file (rg->path, &err);
-  if (self->underlay == NULL)
-    {
-      g_autofree char *text = g_strdup_printf (_("%s The plan is shown without it."),
-                                               err.message);
-      set_banner (self->image_banner, text);
-      g_printerr ("hiplever: %s\n", err.message);
-      return;
-    }
-  if (check == HL_IMAGE_CHANGED)
-    {
-      g_autofree char *text = g_strdup_printf (_("%s. Check that it is this patient's "
-                                                 "image before relying on the landmarks."),
-                                               message);
-      set_banner (self->image_banner, text);
-      g_printerr ("hiplever: %s\n", message);
-    }
-  else
-    set_banner (self->image_banner, NULL);
+  if (hl_document_begin_edit (self->document, NULL) == NULL)
+    return;
+  HlPlan *plan = plan_of (self);
+  const HlGrayImage *img = hl_underlay_get_image (job->underlay);
+  HlSpacingChoice sc;
+  if (hl_spacing_choose (&img->spacing, &sc, NULL) != HL_OK)
+    sc.source = HL_SPACING_NONE;   /* checked by the reader: cannot happen */
+  double typed = plan->radiograph.present ? plan->radiograph.pixel_spacing_mm
+                                          : HL_PIXEL_SPACING_DEFAULT_MM;
+  g_autofree char *abs = g_canonicalize_filename (job->path, NULL);
+  hl_image_attach_file (plan, abs, job->hex, &sc, typed, hl_underlay_get_width (job->underlay),
+                        hl_underlay_get_height (job->underlay));
+  drop_underlay (self);
+  self->underlay = g_steal_pointer (&job->underlay);
+  g_free (self->loaded_path);
+  self->loaded_path = g_strdup (plan->radiograph.path);
   hl_canvas_set_underlay (self->canvas, self->underlay);
+  set_banner (self->image_banner, NULL);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
+}
+
+static void
+open_done (HlRadiographPage *self, LoadJob *job)
+{
+  if (job->underlay == NULL)
+    {
+      g_autofree char *text = job->err.status == HL_ERR_IO
+        ? g_strdup_printf (_("%s. The plan is shown without it; import the image again to "
+                             "see it."), job->err.message)
+        : g_strdup_printf (_("%s The plan is shown without it."), job->err.message);
+      set_banner (self->image_banner, text);
+      g_printerr ("hiplever: %s\n", job->err.message);
+      hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
+      return;
+    }
+  if (!job->hashed
+      || (job->expected_sha[0] != '\0' && strcmp (job->hex, job->expected_sha) != 0))
+    {
+      g_autofree char *base = g_path_get_basename (job->path);
+      g_autofree char *text = g_strdup_printf (
+        _("The radiograph %s has changed since the plan was saved. Check that it is this "
+          "patient's image before relying on the landmarks."), base);
+      set_banner (self->image_banner, text);
+      g_printerr ("hiplever: %s\n", text);
+    }
+  self->underlay = g_steal_pointer (&job->underlay);
+  hl_canvas_set_underlay (self->canvas, self->underlay);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
+}
+
+static void
+load_done_cb (GObject *source, GAsyncResult *res, gpointer data)
+{
+  HlRadiographPage *self = data;
+  LoadJob *job = g_task_get_task_data (G_TASK (res));
+  if (job->generation == self->load_generation && !self->disposed)
+    {
+      set_loading (self, FALSE);
+      if (job->import)
+        import_done (self, job);
+      else
+        open_done (self, job);
+    }
+  g_object_unref (self);
 }
 
 static void
 import_file (HlRadiographPage *self, const char *path)
 {
-  HlError err;
-  hl_error_clear (&err);
-  HlUnderlay *ul = hl_underlay_new_from_file (path, &err);
-  char hex[65];
-  if (ul == NULL || hl_file_sha256_hex (path, hex, &err) != HL_OK)
-    {
-      g_autofree char *msg = hl_document_format_error (&err);
-      hl_message_show_error (GTK_WIDGET (self), _("Could not import the image"), msg);
-      hl_underlay_free (ul);
-      return;
-    }
-  if (!(hl_document_begin_edit (self->document, NULL) != NULL))
-    {
-      hl_underlay_free (ul);
-      return;
-    }
-  HlPlan *plan = plan_of (self);
-  double spacing = plan->radiograph.present ? plan->radiograph.pixel_spacing_mm
-                                            : HL_PIXEL_SPACING_DEFAULT_MM;
-  g_autofree char *abs = g_canonicalize_filename (path, NULL);
-  hl_image_attach (plan, abs, hex, spacing, hl_underlay_get_width (ul),
-                   hl_underlay_get_height (ul));
-  drop_underlay (self);
-  self->underlay = ul;
-  g_free (self->loaded_path);
-  self->loaded_path = g_strdup (plan->radiograph.path);
-  hl_canvas_set_underlay (self->canvas, ul);
-  set_banner (self->image_banner, NULL);
-  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
+  start_load (self, path, TRUE, NULL);
 }
 
 void
@@ -271,7 +393,8 @@ import_clicked_cb (GtkButton *button, HlRadiographPage *self)
     gtk_file_chooser_native_new (_("Import a radiograph"), GTK_WINDOW (gtk_widget_get_root (GTK_WIDGET (self))),
                                  GTK_FILE_CHOOSER_ACTION_OPEN, _("_Import"), _("_Cancel"));
   static const struct { const char *name; const char *patterns[3]; } filters[] = {
-    { N_("Radiographs (PNG, JPEG, TIFF)"), { "*.png", "*.jp*g", "*.tif*" } },
+    { N_("All files (images are recognised by their content)"), { "*", NULL, NULL } },
+    { N_("DICOM files"), { "*.dcm", "*.DCM", "*.dicom" } },
     { N_("PNG images"), { "*.png", NULL, NULL } },
     { N_("JPEG images"), { "*.jpg", "*.jpeg", NULL } },
     { N_("TIFF images"), { "*.tif", "*.tiff", NULL } },
@@ -306,12 +429,7 @@ scale_changed_cb (GtkRange *range, HlRadiographPage *self)
     return;
   HlRadiograph *rg = &plan_of (self)->radiograph;
   double v = gtk_range_get_value (range);
-  if (GTK_WIDGET (range) == self->brightness_scale)
-    rg->brightness = v;
-  else if (GTK_WIDGET (range) == self->contrast_scale)
-    rg->contrast = v;
-  else
-    rg->opacity = v;
+  rg->opacity = v;
   hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
 }
 
@@ -329,6 +447,113 @@ toggle_cb (GtkCheckButton *check, HlRadiographPage *self)
   hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
 }
 
+/* The grey range of the image: 0 .. 2^bits - 1 (65535 without one). */
+static double
+grey_top (HlRadiographPage *self)
+{
+  const HlGrayImage *img = self->underlay != NULL ? hl_underlay_get_image (self->underlay) : NULL;
+  int bits = img != NULL && img->bits > 0 && img->bits <= 16 ? img->bits : 16;
+  if (img != NULL && img->value_scale != 1.0)
+    bits = 16;   /* rescaled onto the whole 16-bit range */
+  return (double) ((1u << bits) - 1u);
+}
+
+/* The window shown: the plan's; else what brightness and contrast of an
+ * older plan showed; else the image's own preset or the automatic one. */
+static void
+effective_window (HlRadiographPage *self, double *centre, double *width)
+{
+  const HlRadiograph *rg = &plan_of (self)->radiograph;
+  if (rg->window_width > 0.0)
+    {
+      *centre = rg->window_centre;
+      *width = rg->window_width;
+    }
+  else if (rg->brightness != 0.0 || rg->contrast != 1.0 || self->underlay == NULL)
+    hl_window_from_brightness_contrast (rg->brightness, rg->contrast, grey_top (self),
+                                        centre, width);
+  else
+    hl_gray_image_default_window (hl_underlay_get_image (self->underlay), centre, width, NULL);
+}
+
+static void
+set_window (HlRadiographPage *self, double centre, double width)
+{
+  if (!edit (self, "radiograph-window"))
+    return;
+  HlRadiograph *rg = &plan_of (self)->radiograph;
+  rg->window_width = CLAMP (width, HL_IMAGE_WINDOW_WIDTH_MIN, HL_IMAGE_WINDOW_WIDTH_MAX);
+  rg->window_centre = CLAMP (centre, HL_IMAGE_WINDOW_CENTRE_MIN, HL_IMAGE_WINDOW_CENTRE_MAX);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
+}
+
+static void
+window_spin_cb (GtkSpinButton *spin, HlRadiographPage *self)
+{
+  if (self->syncing > 0)
+    return;
+  set_window (self, gtk_spin_button_get_value (GTK_SPIN_BUTTON (self->centre_spin)),
+              gtk_spin_button_get_value (GTK_SPIN_BUTTON (self->width_spin)));
+}
+
+static void
+auto_window_cb (GtkButton *button, HlRadiographPage *self)
+{
+  if (self->underlay == NULL)
+    return;
+  double c, w;
+  hl_gray_image_auto_window (hl_underlay_get_image (self->underlay), &c, &w);
+  set_window (self, c, w);
+}
+
+static void
+preset_window_cb (GtkButton *button, HlRadiographPage *self)
+{
+  const HlGrayImage *img = self->underlay != NULL ? hl_underlay_get_image (self->underlay) : NULL;
+  if (img == NULL || !img->has_file_window)
+    return;
+  set_window (self, img->file_window_centre, img->file_window_width);
+}
+
+static void
+window_drag_begin_cb (GtkGestureDrag *gesture, double x, double y, HlRadiographPage *self)
+{
+  if (self->underlay == NULL || !plan_of (self)->radiograph.present)
+    {
+      gtk_gesture_set_state (GTK_GESTURE (gesture), GTK_EVENT_SEQUENCE_DENIED);
+      return;
+    }
+  gtk_gesture_set_state (GTK_GESTURE (gesture), GTK_EVENT_SEQUENCE_CLAIMED);
+  effective_window (self, &self->drag_centre, &self->drag_width);
+}
+
+static void
+window_drag_update_cb (GtkGestureDrag *gesture, double dx, double dy, HlRadiographPage *self)
+{
+  double k = grey_top (self) * DRAG_RANGE_PER_PX;
+  set_window (self, self->drag_centre + dy * k, self->drag_width + dx * k);
+}
+
+static gboolean
+window_key_cb (GtkEventControllerKey *controller, guint keyval, guint keycode,
+               GdkModifierType state, HlRadiographPage *self)
+{
+  if (keyval != GDK_KEY_Page_Up && keyval != GDK_KEY_Page_Down
+      && keyval != GDK_KEY_KP_Page_Up && keyval != GDK_KEY_KP_Page_Down)
+    return FALSE;
+  if (self->underlay == NULL || !plan_of (self)->radiograph.present
+      || (state & (GDK_CONTROL_MASK | GDK_ALT_MASK)) != 0)
+    return FALSE;
+  double c, w, step = KEY_STEP * grey_top (self);
+  effective_window (self, &c, &w);
+  int dir = keyval == GDK_KEY_Page_Up || keyval == GDK_KEY_KP_Page_Up ? 1 : -1;
+  if (state & GDK_SHIFT_MASK)
+    set_window (self, c, w + dir * step);      /* Shift: wider or narrower */
+  else
+    set_window (self, c - dir * step, w);      /* brighter or darker */
+  return TRUE;
+}
+
 static void
 spacing_changed_cb (GtkSpinButton *spin, HlRadiographPage *self)
 {
@@ -336,6 +561,7 @@ spacing_changed_cb (GtkSpinButton *spin, HlRadiographPage *self)
     return;
   HlError err;
   hl_error_clear (&err);
+  plan_of (self)->radiograph.spacing_source = HL_SPACING_NONE;
   if (hl_image_set_pixel_spacing (plan_of (self), gtk_spin_button_get_value (spin), &err)
       != HL_OK)
     {
@@ -651,8 +877,12 @@ refresh (HlRadiographPage *self)
   self->syncing++;
 
   sync_underlay (self);
+  double wc = 0.0, ww = 1.0;
   if (self->underlay != NULL)
-    hl_underlay_set_adjust (self->underlay, rg->brightness, rg->contrast, rg->invert);
+    {
+      effective_window (self, &wc, &ww);
+      hl_underlay_set_window (self->underlay, wc, ww, rg->invert);
+    }
   hl_canvas_set_schematic_visible (self->canvas, !rg->present || rg->schematic_visible);
 
   /* The page's own controls and measures wait until it is shown: updating
@@ -669,10 +899,28 @@ refresh (HlRadiographPage *self)
     ? g_strdup_printf (_("Image: %s"), base)
     : g_strdup (_("No radiograph: the schematic alone. Image files should be "
                   "anonymised before import."));
-  gtk_label_set_text (GTK_LABEL (self->file_label), file_text);
+  const HlGrayImage *img = self->underlay != NULL ? hl_underlay_get_image (self->underlay) : NULL;
+  if (img != NULL)
+    {
+      g_autofree char *more = g_strdup_printf (
+        _("%s (%s, %d x %d pixels, %d bits, %s). %s"), file_text,
+        hl_image_format_name (img->format), img->width, img->height, img->bits,
+        img->photometric, img->note);
+      gtk_label_set_text (GTK_LABEL (self->file_label), more);
+    }
+  else
+    gtk_label_set_text (GTK_LABEL (self->file_label), file_text);
+  set_banner (self->burned_banner, img != NULL && img->burned_in_annotation
+              ? _("Warning: the file says text is burned into its pixels (Burned In "
+                  "Annotation): the image may show patient identifiers. Anything that shows "
+                  "the image (this window, screenshots, exports that include it) will show "
+                  "them too.")
+              : NULL);
   gtk_widget_set_sensitive (self->schematic_check, rg->present);
-  gtk_widget_set_sensitive (self->brightness_scale, rg->present);
-  gtk_widget_set_sensitive (self->contrast_scale, rg->present);
+  gtk_widget_set_sensitive (self->centre_spin, img != NULL);
+  gtk_widget_set_sensitive (self->width_spin, img != NULL);
+  gtk_widget_set_sensitive (self->auto_button, img != NULL);
+  gtk_widget_set_sensitive (self->preset_button, img != NULL && img->has_file_window);
   gtk_widget_set_sensitive (self->invert_check, rg->present);
   gtk_widget_set_sensitive (self->opacity_scale, rg->present);
   gtk_widget_set_sensitive (self->spacing_spin, rg->present);
@@ -683,8 +931,8 @@ refresh (HlRadiographPage *self)
   hl_radiograph_init (&defaults);
   const HlRadiograph *shown = rg->present ? rg : &defaults;
   gtk_check_button_set_active (GTK_CHECK_BUTTON (self->schematic_check), shown->schematic_visible);
-  gtk_range_set_value (GTK_RANGE (self->brightness_scale), shown->brightness);
-  gtk_range_set_value (GTK_RANGE (self->contrast_scale), shown->contrast);
+  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->centre_spin), wc);
+  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->width_spin), ww);
   gtk_check_button_set_active (GTK_CHECK_BUTTON (self->invert_check), shown->invert);
   gtk_range_set_value (GTK_RANGE (self->opacity_scale), shown->opacity);
   gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->spacing_spin), shown->pixel_spacing_mm);
@@ -741,7 +989,11 @@ refresh (HlRadiographPage *self)
   else
     mag = g_strdup_printf (_("Not calibrated yet (%s): the assumed %.2f is used, "
                              "not calibrated"), err.message, HL_MAGNIFICATION_ASSUMED);
-  gtk_label_set_text (GTK_LABEL (self->magnification_label), mag);
+  g_autofree char *mag_source = rg->present
+    ? g_strdup_printf (_("%s. Calibration in use: %s."), mag,
+                       hl_cal_source_label (hl_image_calibration_source (plan)))
+    : g_strdup (mag);
+  gtk_label_set_text (GTK_LABEL (self->magnification_label), mag_source);
 
   gboolean contradiction;
   sync_measures (self, &contradiction);
@@ -982,6 +1234,12 @@ static void
 hl_radiograph_page_dispose (GObject *object)
 {
   HlRadiographPage *self = HL_RADIOGRAPH_PAGE (object);
+  self->disposed = TRUE;
+  self->load_generation++;
+  if (self->load_cancel != NULL)
+    g_cancellable_cancel (self->load_cancel);
+  g_clear_object (&self->load_cancel);
+  g_clear_handle_id (&self->pulse_id, g_source_remove);
   if (self->chooser != NULL)
     {
       gtk_native_dialog_destroy (self->chooser);
@@ -1035,9 +1293,18 @@ build (HlRadiographPage *self)
   gtk_widget_set_visible (self->side_banner, FALSE);
   gtk_box_append (GTK_BOX (box), self->side_banner);
 
+  self->burned_banner = wrap_label ("");
+  gtk_widget_add_css_class (self->burned_banner, "warning");
+  gtk_widget_set_visible (self->burned_banner, FALSE);
+  gtk_box_append (GTK_BOX (box), self->burned_banner);
+
   self->import_button = gtk_button_new_with_mnemonic (_("_Import radiograph…"));
   g_signal_connect_object (self->import_button, "clicked", G_CALLBACK (import_clicked_cb), self, 0);
   gtk_box_append (GTK_BOX (box), self->import_button);
+  self->progress = gtk_progress_bar_new ();
+  gtk_progress_bar_set_show_text (GTK_PROGRESS_BAR (self->progress), TRUE);
+  gtk_widget_set_visible (self->progress, FALSE);
+  gtk_box_append (GTK_BOX (box), self->progress);
   self->file_label = wrap_label ("");
   gtk_box_append (GTK_BOX (box), self->file_label);
 
@@ -1100,18 +1367,55 @@ build (HlRadiographPage *self)
   self->schematic_check = gtk_check_button_new_with_label (_("Show the schematic drawing"));
   g_signal_connect_object (self->schematic_check, "toggled", G_CALLBACK (toggle_cb), self, 0);
   gtk_box_append (GTK_BOX (box), self->schematic_check);
-  self->brightness_scale = add_scale (self, box, _("Brightness"), HL_IMAGE_BRIGHTNESS_MIN,
-                                      HL_IMAGE_BRIGHTNESS_MAX, 0.05, "radiograph-brightness");
-  self->contrast_scale = add_scale (self, box, _("Contrast"), HL_IMAGE_CONTRAST_MIN,
-                                    HL_IMAGE_CONTRAST_MAX, 0.05, "radiograph-contrast");
+  static const struct { const char *label; double lo, hi; } spins[2] = {
+    { N_("Window centre"), HL_IMAGE_WINDOW_CENTRE_MIN, HL_IMAGE_WINDOW_CENTRE_MAX },
+    { N_("Window width"), HL_IMAGE_WINDOW_WIDTH_MIN, HL_IMAGE_WINDOW_WIDTH_MAX },
+  };
+  for (int i = 0; i < 2; i++)
+    {
+      row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
+      GtkWidget *sl = gtk_label_new (_(spins[i].label));
+      gtk_label_set_xalign (GTK_LABEL (sl), 0.0f);
+      gtk_widget_set_hexpand (sl, TRUE);
+      GtkWidget *sp = gtk_spin_button_new_with_range (spins[i].lo, spins[i].hi, 1.0);
+      gtk_spin_button_set_digits (GTK_SPIN_BUTTON (sp), 0);
+      gtk_accessible_update_property (GTK_ACCESSIBLE (sp), GTK_ACCESSIBLE_PROPERTY_LABEL,
+                                      _(spins[i].label), -1);
+      g_signal_connect_object (sp, "value-changed", G_CALLBACK (window_spin_cb), self, 0);
+      gtk_box_append (GTK_BOX (row), sl);
+      gtk_box_append (GTK_BOX (row), sp);
+      gtk_box_append (GTK_BOX (box), row);
+      if (i == 0)
+        self->centre_spin = sp;
+      else
+        self->width_spin = sp;
+    }
+  row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
+  self->auto_button = gtk_button_new_with_label (_("Automatic window"));
+  gtk_widget_set_tooltip_text (self->auto_button,
+                               _("From the grey values: 0.5th to 99.5th percentile"));
+  g_signal_connect_object (self->auto_button, "clicked", G_CALLBACK (auto_window_cb), self, 0);
+  self->preset_button = gtk_button_new_with_label (_("The file's window"));
+  g_signal_connect_object (self->preset_button, "clicked", G_CALLBACK (preset_window_cb), self, 0);
+  gtk_box_append (GTK_BOX (row), self->auto_button);
+  gtk_box_append (GTK_BOX (row), self->preset_button);
+  gtk_box_append (GTK_BOX (box), row);
+  self->window_label = wrap_label (_("Drag with the right mouse button on the image to set "
+                                     "the window (across: width, up and down: centre); Page "
+                                     "Up and Page Down brighten and darken, with Shift widen "
+                                     "and narrow."));
+  gtk_widget_add_css_class (self->window_label, "dim-label");
+  gtk_box_append (GTK_BOX (box), self->window_label);
+
   self->opacity_scale = add_scale (self, box, _("Opacity"), 0.0, 1.0, 0.05, "radiograph-opacity");
   self->invert_check = gtk_check_button_new_with_label (_("Invert (bone dark)"));
   g_signal_connect_object (self->invert_check, "toggled", G_CALLBACK (toggle_cb), self, 0);
   gtk_box_append (GTK_BOX (box), self->invert_check);
 
   row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
-  GtkWidget *l = wrap_label (_("Pixel spacing (image mm per pixel; 0.1 is an assumption, "
-                               "type the detector's value)"));
+  GtkWidget *l = wrap_label (_("Pixel spacing (image mm per pixel; taken from a DICOM file "
+                               "when it gives one, else 0.1 is an assumption: type the "
+                               "detector's value)"));
   gtk_widget_set_hexpand (l, TRUE);
   self->spacing_spin = gtk_spin_button_new_with_range (HL_PIXEL_SPACING_MIN_MM,
                                                        HL_PIXEL_SPACING_MAX_MM, 0.001);
@@ -1172,6 +1476,14 @@ hl_radiograph_page_new (HlDocument *document, HlCanvas *canvas)
   g_signal_connect_object (canvas, "plan-clicked", G_CALLBACK (plan_clicked_cb), self, 0);
   g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), self, 0);
   g_signal_connect (self, "map", G_CALLBACK (page_map_cb), NULL);
+  GtkGesture *wdrag = gtk_gesture_drag_new ();
+  gtk_gesture_single_set_button (GTK_GESTURE_SINGLE (wdrag), GDK_BUTTON_SECONDARY);
+  g_signal_connect_object (wdrag, "drag-begin", G_CALLBACK (window_drag_begin_cb), self, 0);
+  g_signal_connect_object (wdrag, "drag-update", G_CALLBACK (window_drag_update_cb), self, 0);
+  gtk_widget_add_controller (GTK_WIDGET (canvas), GTK_EVENT_CONTROLLER (wdrag));
+  GtkEventController *keys = gtk_event_controller_key_new ();
+  g_signal_connect_object (keys, "key-pressed", G_CALLBACK (window_key_cb), self, 0);
+  gtk_widget_add_controller (GTK_WIDGET (canvas), keys);
 #if HL_TEST_HOOKS
   if (g_getenv ("HIPLEVER_TEST_UNDERLAY") != NULL)
     g_idle_add_full (G_PRIORITY_DEFAULT_IDLE, test_import_cb, g_object_ref (self), g_object_unref);
