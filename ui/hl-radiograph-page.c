@@ -518,6 +518,7 @@ preset_window_cb (GtkButton *button, HlRadiographPage *self)
 static void
 window_drag_begin_cb (GtkGestureDrag *gesture, double x, double y, HlRadiographPage *self)
 {
+
   if (self->underlay == NULL || !plan_of (self)->radiograph.present)
     {
       gtk_gesture_set_state (GTK_GESTURE (gesture), GTK_EVENT_SEQUENCE_DENIED);
