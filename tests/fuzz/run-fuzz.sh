@@ -1,19 +1,20 @@
 #!/bin/sh
 # Builds the fuzz targets with clang (libFuzzer, AddressSanitizer,
-# UndefinedBehaviorSanitizer) straight from the core sources and runs them.
+# UndefinedBehaviorSanitizer) through meson, in a build of their own with
+# -Dfuzzing=true (so they link exactly what the core links: GLib, GSL,
+# libxml2, the image libraries, GDCM), and runs them.
 #
 #   sh tests/fuzz/run-fuzz.sh [--seconds N] [--target NAME|all]
-#                             [--workdir DIR] [--config-h FILE] [--parallel]
+#                             [--workdir DIR] [--parallel]
 #
 # --seconds   run time of each target (default 30: the CI short run of
 #             about 60 s for both)
 # --target    one target (tests/fuzz/hl-fuzz-NAME.c) or all of them
 # --parallel  run the targets at the same time instead of one after the
 #             other (each still for --seconds of wall-clock time)
-# --workdir   where objects, the growing corpus and crash files go
-#             (default /tmp/hiplever-fuzz); reused between runs, so a long
-#             run keeps its corpus
-# --config-h  the build's config.h (default: a minimal one written here)
+# --workdir   where the fuzz build (WORKDIR/build), the growing corpus and
+#             crash files go (default /tmp/hiplever-fuzz); reused between
+#             runs, so a long run keeps its corpus
 #
 # Seeds: data/examples/*.hlplan and tests/fuzz/regressions/load for the
 # loader; tests/fuzz/corpus/core and tests/fuzz/regressions/core for the
@@ -29,7 +30,6 @@ here=$(cd "$(dirname "$0")/../.." && pwd)
 seconds=30
 target=all
 workdir=/tmp/hiplever-fuzz
-config_h=""
 parallel=0
 
 while [ $# -gt 0 ]; do
@@ -37,7 +37,6 @@ while [ $# -gt 0 ]; do
   --seconds) seconds=$2; shift 2 ;;
   --target) target=$2; shift 2 ;;
   --workdir) workdir=$2; shift 2 ;;
-  --config-h) config_h=$2; shift 2 ;;
   --parallel) parallel=1; shift ;;
   *) echo "run-fuzz: unknown argument $1" >&2; exit 2 ;;
   esac
@@ -74,21 +73,6 @@ if ! "$cc" -fsanitize=fuzzer,address,undefined probe.c -o probe 2>probe.log; the
   exit 77
 fi
 
-if [ -n "$config_h" ]; then
-  cp "$config_h" config.h
-else
-  version=$(sed -n "s/^ *version: *'\([^']*\)'.*/\1/p" "$here/meson.build" | head -n 1)
-  cat > config.h <<EOF
-#pragma once
-#define PACKAGE_VERSION "$version"
-#define GETTEXT_PACKAGE "hiplever"
-#define APP_ID "org.hiplever.Hiplever"
-#define HL_PKGDATADIR "/usr/local/share/hiplever"
-#define HL_LOCALEDIR "/usr/local/share/locale"
-#define HL_SOURCE_DATADIR "$here/data"
-EOF
-fi
-python3 "$here/core/embed-text.py" "$here/data/hiplever-plan.xsd" hl-schema-data.c hl_schema_data
 
 # An XML dictionary from the schema's names, so that the loader target
 # builds well-formed plans quickly.
@@ -105,24 +89,33 @@ python3 "$here/core/embed-text.py" "$here/data/hiplever-plan.xsd" hl-schema-data
     done
 } > plan.dict
 
-xml_cflags=$(pkg-config --cflags libxml-2.0)
-xml_libs=$(pkg-config --libs libxml-2.0)
-flags="-std=c17 -g -O1 -fno-omit-frame-pointer -D_POSIX_C_SOURCE=200809L -D_DEFAULT_SOURCE
-       -Wall -Wextra -Wno-unused-parameter -Wno-missing-field-initializers
-       -fno-sanitize-recover=undefined"
-objs=""
-for src in "$here"/core/hl-*.c hl-schema-data.c; do
-  obj=$(basename "$src" .c).o
-  # shellcheck disable=SC2086
-  nice -n 10 "$cc" $flags -fsanitize=fuzzer-no-link,address,undefined -I. -I"$here/core" \
-    $xml_cflags -c "$src" -o "$obj"
-  objs="$objs $obj"
-done
+cxx=${FUZZ_CXX:-clang++}
+# A work folder reused for another source tree gets a new build.
+if [ -f build/source-tree ] && [ "$(cat build/source-tree)" != "$here" ]; then
+  rm -rf build
+fi
+if [ ! -f build/build.ninja ]; then
+  CC=$cc CXX=$cxx nice -n 10 meson setup build "$here" -Dfuzzing=true \
+    -Db_sanitize=address,undefined -Db_lundef=false -Dtest_hooks=false \
+    -Dc_args=-fno-sanitize-recover=undefined >meson-setup.log 2>&1 || {
+    cat meson-setup.log >&2
+    echo "run-fuzz: the fuzz build could not be configured" >&2
+    exit 1
+  }
+  printf '%s\n' "$here" > build/source-tree
+fi
+ninja_targets=""
 for t in $targets; do
-  # shellcheck disable=SC2086
-  nice -n 10 "$cc" $flags -fsanitize=fuzzer,address,undefined -I. -I"$here/core" \
-    -I"$here/tests/fuzz" $xml_cflags "$here/tests/fuzz/hl-fuzz-$t.c" $objs \
-    $xml_libs -lm -o "fuzz-$t"
+  ninja_targets="$ninja_targets tests/fuzz-$t"
+done
+# shellcheck disable=SC2086
+nice -n 10 ninja -C build $ninja_targets >ninja.log 2>&1 || {
+  tail -n 40 ninja.log >&2
+  echo "run-fuzz: the fuzz targets did not build" >&2
+  exit 1
+}
+for t in $targets; do
+  ln -sf "build/tests/fuzz-$t" "fuzz-$t"
 done
 
 # run_target T: runs target T, writes its figures to result-T and
