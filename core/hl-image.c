@@ -365,18 +365,12 @@ hl_image_verify (const HlRadiograph *rg, char *message, size_t message_size)
   return check;
 }
 
-/* The folder of `file` made absolute and free of "." and "..", in out. */
+/* The folder of `file` made absolute and free of "." and "..", links
+ * followed (realpath), in out. */
 static bool
 folder_of (const char *file, char *out, size_t size)
 {
-  const char *slash = strrchr (file, '/');
-  char dir[PATH_MAX];
-  if (slash == NULL)
-    snprintf (dir, sizeof dir, ".");
-  else if (slash == file)
-    snprintf (dir, sizeof dir, "/");
-  else
-    snprintf (dir, sizeof dir, "%.*s", (int) (slash - file), file);
+  g_autofree char *dir = g_path_get_dirname (file);
   char real[PATH_MAX];
   if (realpath (dir, real) == NULL)
     return false;
@@ -389,10 +383,11 @@ hl_image_resolve_path (const char *base_file, const char *path, char *out,
 {
   int n;
   char dir[PATH_MAX];
-  if (path[0] == '/' || base_file == NULL)
-    n = snprintf (out, size, "%s", path);
-  else if (folder_of (base_file, dir, sizeof dir))
-    n = snprintf (out, size, "%s/%s", strcmp (dir, "/") == 0 ? "" : dir, path);
+  if (!g_path_is_absolute (path) && base_file != NULL && folder_of (base_file, dir, sizeof dir))
+    {
+      g_autofree char *joined = g_build_filename (dir, path, NULL);
+      n = snprintf (out, size, "%s", joined);
+    }
   else
     n = snprintf (out, size, "%s", path);
   if (n < 0 || (size_t) n >= size)
@@ -404,12 +399,10 @@ hl_image_resolve_path (const char *base_file, const char *path, char *out,
   char folder[PATH_MAX];
   if (folder_of (out, folder, sizeof folder))
     {
-      const char *base = strrchr (out, '/');
-      char joined[PATH_MAX];
-      n = snprintf (joined, sizeof joined, "%s/%s", strcmp (folder, "/") == 0 ? "" : folder,
-                    base != NULL ? base + 1 : out);
-      if (n > 0 && (size_t) n < size)
-        memcpy (out, joined, (size_t) n + 1);
+      g_autofree char *base = g_path_get_basename (out);
+      g_autofree char *joined = g_build_filename (folder, base, NULL);
+      if (strlen (joined) < size)
+        snprintf (out, size, "%s", joined);
     }
   return HL_OK;
 }

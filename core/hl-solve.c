@@ -729,6 +729,21 @@ hl_solve_refusal (HlError *err, const HlPlan *plan, size_t row)
 }
 
 HlStatus
+hl_model_solve_row (const HlModel *model, const HlPlan *plan, size_t row,
+                    HlResult *res, HlError *err)
+{
+  hl_error_clear (err);
+  HlStatus st = hl_model_solve (model, row == 0 ? NULL : &plan->options[row - 1].recon,
+                                res, err);
+  if (st != HL_OK)
+    {
+      memset (res, 0, sizeof *res);
+      hl_solve_refusal (err, plan, row);
+    }
+  return st;
+}
+
+HlStatus
 hl_model_solve_rows (const HlModel *model, const HlPlan *plan,
                      HlResult *results, HlStatus *status, HlError *errors)
 {
@@ -736,17 +751,10 @@ hl_model_solve_rows (const HlModel *model, const HlPlan *plan,
 
   for (size_t i = 0; i <= plan->n_options; i++)
     {
-      HlError *e = errors != NULL ? &errors[i] : NULL;
-      hl_error_clear (e);
-      HlStatus st = hl_model_solve (model, i == 0 ? NULL : &plan->options[i - 1].recon,
-                                    &results[i], e);
-      if (st != HL_OK)
-        {
-          memset (&results[i], 0, sizeof results[i]);
-          hl_solve_refusal (e, plan, i);
-          if (first == HL_OK)
-            first = st;
-        }
+      HlStatus st = hl_model_solve_row (model, plan, i, &results[i],
+                                        errors != NULL ? &errors[i] : NULL);
+      if (st != HL_OK && first == HL_OK)
+        first = st;
       if (status != NULL)
         status[i] = st;
     }
@@ -775,14 +783,7 @@ hl_plan_solve_all (const HlPlan *plan, HlResult *results, HlError *err)
   if (st != HL_OK)
     return st;
   for (size_t i = 0; i <= plan->n_options; i++)
-    {
-      st = hl_model_solve (&model, i == 0 ? NULL : &plan->options[i - 1].recon,
-                           &results[i], err);
-      if (st != HL_OK)
-        {
-          hl_solve_refusal (err, plan, i);
-          return st;
-        }
-    }
+    if ((st = hl_model_solve_row (&model, plan, i, &results[i], err)) != HL_OK)
+      return st;
   return HL_OK;
 }

@@ -254,6 +254,11 @@ const char *hl_force_label (HlForceKind kind);
  * landmark abductor-insertion" / "The abductor moment arm is ...". */
 void hl_solve_refusal (HlError *err, const HlPlan *plan, size_t row);
 
+/* Solves row `row` (0 native, i option i) of `plan` with its prepared
+ * model; a refusal is zeroed and worded by hl_solve_refusal(). */
+HlStatus hl_model_solve_row (const HlModel *model, const HlPlan *plan,
+                             size_t row, HlResult *res, HlError *err);
+
 /* Solves native and every option of `plan` with its prepared model, each
  * row on its own: results[i], status[i] and errors[i] for row i (0 native;
  * status and errors may be NULL), a refused row zeroed and worded by

@@ -27,6 +27,7 @@
 #include "hl-image.h"
 #include "hl-plan-io.h"
 #include <glib.h>
+#include "hl-path.h"
 #include "hl-solve.h"
 #include "hl-test-util.h"
 #include "hl-version.h"
@@ -1828,6 +1829,36 @@ END_TEST
 
 #define N_OF(a) ((int) (sizeof (a) / sizeof (a)[0]))
 
+/* File names: one rule for the extension, the suggested name, canonical
+ * paths (g_canonicalize_filename). */
+START_TEST (test_paths)
+{
+  static const struct { const char *name, *ext, *want; } ext_cases[] = {
+    { "case", ".pdf", "case.pdf" },
+    { "case.pdf", ".pdf", "case.pdf" },
+    { "case.PDF", ".pdf", "case.PDF" },          /* any case of the letters */
+    { "case.pdf.txt", ".pdf", "case.pdf.txt.pdf" },
+    { "/tmp/a.b/plan", ".hlplan", "/tmp/a.b/plan.hlplan" },
+    { "pdf", ".pdf", "pdf.pdf" },
+  };
+  for (size_t i = 0; i < sizeof ext_cases / sizeof ext_cases[0]; i++)
+    {
+      char *got = hl_path_with_extension (ext_cases[i].name, ext_cases[i].ext);
+      ck_assert_str_eq (got, ext_cases[i].want);
+      g_free (got);
+    }
+  char *name = hl_path_suggested_name ("Hip/left: A\\B", "case", "-report.pdf");
+  ck_assert_str_eq (name, "Hip-left- A-B-report.pdf");
+  g_free (name);
+  name = hl_path_suggested_name ("", "case", ".hlplan");
+  ck_assert_str_eq (name, "case.hlplan");
+  g_free (name);
+  char *path = hl_path_canonical ("../b/./c//d.png", "/x/y");
+  ck_assert_str_eq (path, "/x/b/c/d.png");
+  g_free (path);
+}
+END_TEST
+
 static Suite *
 plan_io_suite (void)
 {
@@ -1867,6 +1898,10 @@ plan_io_suite (void)
   tc = tcase_create ("atomic-save");
   tcase_add_test (tc, test_save_replaces_and_sets_mode);
   tcase_add_test (tc, test_save_failures_keep_old_file);
+  suite_add_tcase (s, tc);
+
+  tc = tcase_create ("paths");
+  tcase_add_test (tc, test_paths);
   suite_add_tcase (s, tc);
 
   tc = tcase_create ("locale");

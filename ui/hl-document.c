@@ -247,9 +247,8 @@ solve (HlDocument *self)
           s->error = self->model_error;
           continue;
         }
-      s->status = hl_model_solve (&self->model,
-                                  i == 0 ? NULL : &self->plan->options[i - 1].recon,
-                                  &s->result, &s->error);
+      s->status = hl_model_solve_row (&self->model, self->plan, i, &s->result,
+                                      &s->error);
     }
 }
 

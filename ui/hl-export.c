@@ -13,6 +13,7 @@
 
 #include "hl-analysis-panel.h"
 #include "hl-export.h"
+#include "hl-path.h"
 #include "hl-plan-io.h"
 #include "hl-render.h"
 #include "hl-report.h"
@@ -92,25 +93,22 @@ static char *
 suggested_name (HlExport *ex, const char *suffix)
 {
   const HlPlan *plan = hl_document_get_plan (ex->document);
-  g_autofree char *safe = g_strdup (plan->label[0] != '\0' ? plan->label : _("case"));
 
-  g_strdelimit (safe, "/\\:", '-');
-  return g_strconcat (safe, suffix, NULL);
+  return hl_path_suggested_name (plan->label, _("case"), suffix);
 }
 
-/* Adds `ext` when the name has no extension of that kind. */
-static GFile *
-with_extension (GFile *file, const char *ext)
+/* Adds `ext` when the name has no extension of that kind
+ * (hl_path_with_extension, the one rule for every file the window writes). */
+GFile *
+hl_export_with_extension (GFile *file, const char *ext)
 {
   g_autofree char *base = g_file_get_basename (file);
-  g_autofree char *lower = base != NULL ? g_ascii_strdown (base, -1) : NULL;
+  g_autofree char *name = base != NULL ? hl_path_with_extension (base, ext) : NULL;
   g_autoptr(GFile) parent = NULL;
-  g_autofree char *name = NULL;
 
-  if (lower == NULL || g_str_has_suffix (lower, ext))
+  if (name == NULL || strcmp (name, base) == 0)
     return g_object_ref (file);
   parent = g_file_get_parent (file);
-  name = g_strconcat (base, ext, NULL);
   return parent != NULL ? g_file_get_child (parent, name) : g_file_new_for_path (name);
 }
 
@@ -223,7 +221,7 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
 
         what = _("report");
         done = _("Report");
-        file = with_extension (chosen, ".pdf");
+        file = hl_export_with_extension (chosen, ".pdf");
         report_settings (ex, &settings);
         if ((path = local_path (file, &err)) != NULL)
           hl_report_save_pdf (hl_document_get_plan (ex->document), &settings, path, &err);
@@ -241,7 +239,7 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
         if (base != NULL && hl_figure_format_from_path (base, &format))
           file = g_object_ref (chosen);
         else
-          file = with_extension (chosen, filter_name != NULL && strstr (filter_name, "SVG") != NULL
+          file = hl_export_with_extension (chosen, filter_name != NULL && strstr (filter_name, "SVG") != NULL
                                          ? ".svg" : ".png");
         if ((path = local_path (file, &err)) != NULL)
           hl_figure_save (hl_document_get_plan (ex->document), ex->figure_option, ex->figure_width, ex->figure_height,
@@ -255,7 +253,7 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
 
         what = _("sweep table");
         done = _("Sweep table");
-        file = with_extension (chosen, ".csv");
+        file = hl_export_with_extension (chosen, ".csv");
         if ((path = local_path (file, &err)) != NULL
             && (csv = hl_export_sweeps_csv (hl_document_get_plan (ex->document), &err)) != NULL)
           hl_write_file_atomic (path, csv, strlen (csv), &err);

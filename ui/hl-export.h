@@ -49,4 +49,9 @@ void hl_export_attach (GtkApplicationWindow *window, HlDocument *document,
  * NULL with err set when the plan cannot be solved. */
 char *hl_export_sweeps_csv (const HlPlan *plan, HlError *err);
 
+/* `file` with `ext` (".pdf") added unless its name already ends with it
+ * (core's hl_path_with_extension: the one rule for every file the window
+ * writes); a new reference. */
+GFile *hl_export_with_extension (GFile *file, const char *ext);
+
 G_END_DECLS

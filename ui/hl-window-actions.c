@@ -11,6 +11,8 @@
 #include <glib/gi18n.h>
 
 #include "hl-autosave.h"
+#include "hl-export.h"
+#include "hl-path.h"
 #include "hl-plan-io.h"
 #include "hl-settings.h"
 #include "hl-window.h"
@@ -109,29 +111,10 @@ take_chooser_file (HlWindow *self, GtkNativeDialog *dialog, int response)
   return file;
 }
 
-/* Adds `ext` when the name typed has no extension of that kind. */
-static GFile *
-with_extension (GFile *file, const char *ext)
-{
-  g_autofree char *base = g_file_get_basename (file);
-  g_autoptr(GFile) parent = NULL;
-  g_autofree char *name = NULL;
-
-  if (base == NULL || g_str_has_suffix (base, ext))
-    return g_object_ref (file);
-  parent = g_file_get_parent (file);
-  name = g_strconcat (base, ext, NULL);
-  return parent != NULL ? g_file_get_child (parent, name) : g_file_new_for_path (name);
-}
-
 static char *
 suggested_name (HlWindow *self, const char *suffix)
 {
-  const char *label = self->plan->label[0] != '\0' ? self->plan->label : _("case");
-  g_autofree char *safe = g_strdup (label);
-
-  g_strdelimit (safe, "/\\:", '-');
-  return g_strconcat (safe, suffix, NULL);
+  return hl_path_suggested_name (self->plan->label, _("case"), suffix);
 }
 
 /* ---- open ----------------------------------------------------------- */
@@ -283,7 +266,7 @@ save_as_response_cb (GtkNativeDialog *dialog, int response, HlWindow *self)
 
   if (chosen == NULL)
     return;
-  file = with_extension (chosen, HL_PLAN_FILE_EXTENSION);
+  file = hl_export_with_extension (chosen, HL_PLAN_FILE_EXTENSION);
   if (save_to (self, file))
     continue_after_guard (self, then);
 }
@@ -328,7 +311,7 @@ export_response_cb (GtkNativeDialog *dialog, int response, HlWindow *self)
 
   if (chosen == NULL)
     return;
-  file = with_extension (chosen, ".xml");
+  file = hl_export_with_extension (chosen, ".xml");
   path = g_file_get_path (file);
   hl_error_clear (&err);
   if (path == NULL)
