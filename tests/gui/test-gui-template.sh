@@ -17,7 +17,7 @@ GRAB_BELOW_PX=13
 SCREEN_H=$(echo "${HL_GUI_SCREEN:-1280x900}" | cut -dx -f2)
 
 plan="$HL_TMP/case.hlplan"
-cp "$SRCDIR/tests/files/templated-demo.hlplan" "$plan"
+cp "$SRCDIR/tests/gui/templated-demo.hlplan" "$plan"
 tmpl_attr () {
   xmllint --xpath "string(//*[local-name()='option'][1]/*[local-name()='template']/@$2)" "$1"
 }
@@ -164,7 +164,7 @@ for a in femoral-offset-change-mm leg-length-change-mm joint-force-n abductor-fo
   c=$(hl_result "$HL_TMP/cli.xml" "$opt" "$a")
   HL_TOL=1e-6 hl_expect "window and core agree on $a" "$w" "~" "$c"
 done
-base=$(hl_result "$SRCDIR/tests/files/templated-demo.hlplan" "$opt" joint-force-n)
+base=$(hl_result "$SRCDIR/tests/gui/templated-demo.hlplan" "$opt" joint-force-n)
 "$HIPLEVER_CLI" summary "$plan" -o "$HL_TMP/start.xml" >/dev/null
 start_off=$(hl_result "$HL_TMP/start.xml" "$opt" femoral-offset-change-mm)
 end_off=$(hl_result "$HL_TMP/after.xml" "$opt" femoral-offset-change-mm)
