@@ -573,6 +573,8 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
       hl_cli_fprintf (stdout, "\n");
     }
 
+  hl_cli_print_against_other (plan);
+
   hl_cli_fprintf (stdout, "\n%s\n", _("Flags:"));
   for (size_t i = 0; i < n_cases; i++)
     {

@@ -245,6 +245,34 @@ cell (char *buf, size_t size, double v)
 #define HL_CLI_MEASURE_MIN_WIDTH 8
 
 void
+hl_cli_print_against_other (const HlPlan *plan)
+{
+  size_t n_cases = plan->n_options + 1;
+  bool header = false;
+  for (size_t i = 0; i < n_cases; i++)
+    {
+      HlLandmarks lm;
+      HlMeasures ms;
+      if (i == 0)
+        lm = plan->landmarks;
+      else
+        hl_recon_landmarks (plan, &plan->options[i - 1].recon, &lm);
+      hl_measure (&lm, plan->side, &ms);
+      if (!isfinite (ms.leg_length_difference_mm) && !isfinite (ms.global_offset_difference_mm))
+        continue;
+      if (!header)
+        hl_cli_fprintf (stdout, "\n%s\n", _("Against the other hip:"));
+      header = true;
+      char leg[160], go[160];
+      hl_cli_fprintf (stdout, "  %s: %s; %s\n",
+                      i == 0 ? _("native") : plan->options[i - 1].name,
+                      hl_measure_leg_length_words (ms.leg_length_difference_mm, leg, sizeof leg),
+                      hl_measure_global_offset_words (ms.global_offset_difference_mm, go,
+                                                      sizeof go));
+    }
+}
+
+void
 hl_cli_print_measures (const HlPlan *plan)
 {
   size_t n_cases = plan->n_options + 1;

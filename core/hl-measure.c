@@ -6,6 +6,7 @@
 #include "config.h"
 
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 
 #include "hl-i18n.h"
@@ -133,4 +134,73 @@ hl_measure (const HlLandmarks *lm, HlSide side, HlMeasures *out)
           && s * (lm->p[HL_LM_HIP_CENTRE_OTHER].x - mx) >= 0.0)
         out->side_contradiction = true;
     }
+}
+
+char *
+hl_measure_leg_length_words (double diff_mm, char *buf, size_t size)
+{
+  if (size == 0)
+    return buf;
+  if (!isfinite (diff_mm))
+    snprintf (buf, size, "%s", _("leg length against the other side not measured: "
+                                 "place both teardrops and both lesser trochanters"));
+  else if (fabs (diff_mm) < HL_MEASURE_EQUAL_MM)
+    snprintf (buf, size, "%s", _("operated leg as long as the other"));
+  else if (diff_mm < 0.0)
+    snprintf (buf, size, _("operated leg %.1f mm shorter than the other"), -diff_mm);
+  else
+    snprintf (buf, size, _("operated leg %.1f mm longer than the other"), diff_mm);
+  return buf;
+}
+
+char *
+hl_measure_global_offset_words (double diff_mm, char *buf, size_t size)
+{
+  if (size == 0)
+    return buf;
+  if (!isfinite (diff_mm))
+    snprintf (buf, size, "%s", _("global offset against the other side not measured: "
+                                 "place both teardrops, both femoral shaft axes and the "
+                                 "other hip centre"));
+  else if (fabs (diff_mm) < HL_MEASURE_EQUAL_MM)
+    snprintf (buf, size, "%s", _("global offset the same as the other side"));
+  else if (diff_mm < 0.0)
+    snprintf (buf, size, _("global offset %.1f mm less than the other side"), -diff_mm);
+  else
+    snprintf (buf, size, _("global offset %.1f mm more than the other side"), diff_mm);
+  return buf;
+}
+
+/* kind 0: leg length (shorter, longer); 1: global offset (less, more). */
+static char *
+difference_short (double diff_mm, int kind, char *buf, size_t size)
+{
+  if (size == 0)
+    return buf;
+  double d = fabs (diff_mm);
+  if (!isfinite (diff_mm))
+    snprintf (buf, size, "%s", _("not measured"));
+  else if (d < HL_MEASURE_EQUAL_MM)
+    snprintf (buf, size, "%s", _("equal"));
+  else if (kind == 0 && diff_mm < 0.0)
+    snprintf (buf, size, _("%.1f mm shorter"), d);
+  else if (kind == 0)
+    snprintf (buf, size, _("%.1f mm longer"), d);
+  else if (diff_mm < 0.0)
+    snprintf (buf, size, _("%.1f mm less"), d);
+  else
+    snprintf (buf, size, _("%.1f mm more"), d);
+  return buf;
+}
+
+char *
+hl_measure_leg_length_short (double diff_mm, char *buf, size_t size)
+{
+  return difference_short (diff_mm, 0, buf, size);
+}
+
+char *
+hl_measure_global_offset_short (double diff_mm, char *buf, size_t size)
+{
+  return difference_short (diff_mm, 1, buf, size);
 }

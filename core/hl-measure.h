@@ -48,6 +48,21 @@ typedef struct {
 /* Measures on a set of plan-frame landmarks of a plan of side `side`. */
 void hl_measure (const HlLandmarks *lm, HlSide side, HlMeasures *out);
 
+/* Within this the operated side is called equal to the other: half the
+ * millimetre to which landmarks are placed (common practice). */
+#define HL_MEASURE_EQUAL_MM 0.5
+
+/* The operated side against the other in words, as a surgeon plans by:
+ * "operated leg 4.0 mm shorter than the other", "global offset 2.8 mm less
+ * than the other side" (diff = operated - other, mm; NaN: not measured).
+ * Returns buf. */
+char *hl_measure_leg_length_words (double diff_mm, char *buf, size_t size);
+char *hl_measure_global_offset_words (double diff_mm, char *buf, size_t size);
+/* The same, short, for a table whose row says what: "4.0 mm shorter",
+ * "2.8 mm less", "equal", "not measured". */
+char *hl_measure_leg_length_short (double diff_mm, char *buf, size_t size);
+char *hl_measure_global_offset_short (double diff_mm, char *buf, size_t size);
+
 /* The magnification of a calibration: hl-calibration.h (through hl-plan.h). */
 
 #ifdef __cplusplus

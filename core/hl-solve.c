@@ -38,6 +38,16 @@ static const struct { const char *key; const char *text; } flag_words[] = {
        "reasons follow)") },
 };
 
+/* Short lines of flag_words, in the same order. */
+static const char *const flag_short[] = {
+  N_("Global offset reduced"),
+  N_("Leg length change beyond tolerance"),
+  N_("Abductors not needed"),
+  N_("Abductors slackened"),
+  N_("Demand above capacity"),
+  N_("Implausible geometry"),
+};
+
 static const char *const implausible_short[] = {
   N_("abductor moment arm outside about 30-90 mm"),
   N_("hip centre medial to the teardrop"),
@@ -64,6 +74,13 @@ hl_flag_key (HlFlag flag)
 {
   int i = flag_index (flag);
   return i < 0 ? "" : flag_words[i].key;
+}
+
+const char *
+hl_flag_short (HlFlag flag)
+{
+  int i = flag_index (flag);
+  return i < 0 ? "" : _(flag_short[i]);
 }
 
 const char *

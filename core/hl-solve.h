@@ -87,6 +87,9 @@ typedef enum {
 const char *hl_flag_key (HlFlag flag);
 /* Plain words for people. */
 const char *hl_flag_text (HlFlag flag);
+/* One short line ("Global offset reduced") for a list that shows the full
+ * sentence on demand. */
+const char *hl_flag_short (HlFlag flag);
 /* Writes the keys of `flags` joined by `sep` into buf; returns buf. */
 char *hl_flags_format (unsigned flags, const char *sep, char *buf, size_t size);
 

@@ -11,6 +11,7 @@
 #include <string.h>
 #include <glib/gi18n.h>
 
+#include "hl-measure.h"
 #include "hl-result-fields.h"
 #include "hl-results.h"
 
@@ -28,7 +29,12 @@ static guint n_rows;
 #define N_ROWS n_rows
 #define HEADER_ROW 0
 #define FLAGS_ROW 1
-#define FIRST_VALUE_ROW 2
+/* Then what a surgeon plans by: leg length and global offset against the
+ * other hip, in words and numbers. */
+#define AGAINST_LEG_ROW 2
+#define AGAINST_GO_ROW 3
+#define N_AGAINST_ROWS 2
+#define FIRST_VALUE_ROW 4
 #define FIRST_COLUMN 2   /* after the quantity and its unit */
 
 /* Monte Carlo rows, each right under the figure it qualifies. */
@@ -57,7 +63,11 @@ typedef struct {
   GtkWidget *value[HL_RESULT_FIELD_MAX];
   GtkWidget *change[HL_RESULT_FIELD_MAX];
   GtkWidget *range[N_RANGE_ROWS];
-  GtkWidget *flags;
+  GtkWidget *flags;          /* a box: the short lines, then the sentences on demand */
+  GtkWidget *flags_short;
+  GtkWidget *flags_more;     /* an expander */
+  GtkWidget *flags_full;
+  GtkWidget *against[N_AGAINST_ROWS];
   GtkWidget *error;
 } HlResultsColumn;
 
@@ -102,6 +112,27 @@ format_change (const HlResultRow *row, double v, double native)
   return g_strdup_printf ("(%+.1f%%)", 100.0 * (v - native) / native);
 }
 
+/* One short line per flag ("• Global offset reduced"); the reasons and
+ * the sources are in the full sentences. */
+static char *
+format_flags_short (const HlResult *res)
+{
+  GString *s = g_string_new (NULL);
+
+  for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
+    {
+      if ((res->flags & bit) == 0)
+        continue;
+      if (s->len > 0)
+        g_string_append_c (s, '\n');
+      g_string_append_printf (s, "• %s", hl_flag_short ((HlFlag) bit));
+    }
+  if (s->len == 0)
+    g_string_append (s, _("No flags"));
+  return g_string_free (s, FALSE);
+}
+
+/* The full sentences, shown when the user opens them. */
 static char *
 format_flags (const HlResult *res)
 {
@@ -125,8 +156,6 @@ format_flags (const HlResult *res)
                                                              text, sizeof text));
           }
     }
-  if (s->len == 0)
-    g_string_append (s, _("No flags"));
   return g_string_free (s, FALSE);
 }
 
@@ -215,6 +244,8 @@ hl_results_clear_columns (HlResults *self)
       for (guint k = 0; k < N_RANGE_ROWS; k++)
         gtk_grid_remove (GTK_GRID (self->grid), col->range[k]);
       gtk_grid_remove (GTK_GRID (self->grid), col->flags);
+      for (guint k = 0; k < N_AGAINST_ROWS; k++)
+        gtk_grid_remove (GTK_GRID (self->grid), col->against[k]);
       gtk_grid_remove (GTK_GRID (self->grid), col->error);
     }
   g_array_set_size (self->columns, 0);
@@ -259,16 +290,34 @@ hl_results_build_columns (HlResults *self, size_t n)
           gtk_grid_attach (grid, col.range[k], x, range_row_y (k), 1, 1);
           gtk_widget_set_visible (col.range[k], FALSE);
         }
-      col.flags = make_label ("results-flags", 0.0f);
-      gtk_label_set_wrap (GTK_LABEL (col.flags), TRUE);
-      gtk_label_set_max_width_chars (GTK_LABEL (col.flags), 26);
+      col.flags = gtk_box_new (GTK_ORIENTATION_VERTICAL, 0);
+      gtk_widget_add_css_class (col.flags, "results-flags");
       gtk_widget_set_valign (col.flags, GTK_ALIGN_START);
+      col.flags_short = make_label (NULL, 0.0f);
+      gtk_label_set_wrap (GTK_LABEL (col.flags_short), TRUE);
+      gtk_label_set_max_width_chars (GTK_LABEL (col.flags_short), 26);
+      gtk_box_append (GTK_BOX (col.flags), col.flags_short);
+      col.flags_more = gtk_expander_new (_("Why"));
+      col.flags_full = make_label ("caption", 0.0f);
+      gtk_label_set_wrap (GTK_LABEL (col.flags_full), TRUE);
+      gtk_label_set_max_width_chars (GTK_LABEL (col.flags_full), 26);
+      gtk_label_set_selectable (GTK_LABEL (col.flags_full), TRUE);
+      gtk_expander_set_child (GTK_EXPANDER (col.flags_more), col.flags_full);
+      gtk_box_append (GTK_BOX (col.flags), col.flags_more);
       gtk_grid_attach (grid, col.flags, x, FLAGS_ROW, 2, 1);
+      for (guint k = 0; k < N_AGAINST_ROWS; k++)
+        {
+          col.against[k] = make_label ("results-value", 0.0f);
+          gtk_label_set_wrap (GTK_LABEL (col.against[k]), TRUE);
+          gtk_label_set_max_width_chars (GTK_LABEL (col.against[k]), 18);
+          gtk_grid_attach (grid, col.against[k], x, AGAINST_LEG_ROW + (int) k, 2, 1);
+        }
       col.error = make_label ("results-error", 0.0f);
       gtk_label_set_wrap (GTK_LABEL (col.error), TRUE);
       gtk_label_set_max_width_chars (GTK_LABEL (col.error), 22);
       gtk_widget_set_valign (col.error, GTK_ALIGN_START);
-      gtk_grid_attach (grid, col.error, x, FLAGS_ROW, 2, (int) (N_ROWS + N_RANGE_ROWS) + 1);
+      gtk_grid_attach (grid, col.error, x, FLAGS_ROW, 2,
+                       (int) (N_ROWS + N_RANGE_ROWS + N_AGAINST_ROWS) + 1);
       gtk_widget_set_visible (col.error, FALSE);
       g_array_append_val (self->columns, col);
     }
@@ -276,7 +325,7 @@ hl_results_build_columns (HlResults *self, size_t n)
   gtk_label_set_wrap (GTK_LABEL (self->common_error), TRUE);
   gtk_widget_set_valign (self->common_error, GTK_ALIGN_START);
   gtk_grid_attach (grid, self->common_error, FIRST_COLUMN, FLAGS_ROW,
-                   2 * (int) n, (int) (N_ROWS + N_RANGE_ROWS) + 1);
+                   2 * (int) n, (int) (N_ROWS + N_RANGE_ROWS + N_AGAINST_ROWS) + 1);
   self->column_ok = g_renew (gboolean, self->column_ok, MAX (n, 1));
   /* The note spans the columns there are now. */
   g_object_ref (self->range_note);
@@ -339,14 +388,43 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
           gtk_label_set_text (GTK_LABEL (col->change[r]), change != NULL ? change : "");
         }
 
+      /* Leg length and global offset against the other hip: measures of
+       * the core on the option's landmarks, in words and numbers. */
+      {
+        HlLandmarks lm;
+        HlMeasures ms;
+        char text[2][96], full[2][160];
+        if (c == 0)
+          lm = plan->landmarks;
+        else
+          hl_recon_landmarks (plan, &plan->options[c - 1].recon, &lm);
+        hl_measure (&lm, plan->side, &ms);
+        hl_measure_leg_length_short (ms.leg_length_difference_mm, text[0], sizeof text[0]);
+        hl_measure_global_offset_short (ms.global_offset_difference_mm, text[1],
+                                        sizeof text[1]);
+        hl_measure_leg_length_words (ms.leg_length_difference_mm, full[0], sizeof full[0]);
+        hl_measure_global_offset_words (ms.global_offset_difference_mm, full[1],
+                                        sizeof full[1]);
+        for (guint k = 0; k < N_AGAINST_ROWS; k++)
+          {
+            gtk_label_set_text (GTK_LABEL (col->against[k]), text[k]);
+            gtk_widget_set_tooltip_text (col->against[k], full[k]);
+            gtk_accessible_update_property (GTK_ACCESSIBLE (col->against[k]),
+                                            GTK_ACCESSIBLE_PROPERTY_LABEL, full[k], -1);
+          }
+      }
+
       self->column_ok[c] = ok;
       gtk_widget_set_visible (col->flags, ok);
       gtk_widget_set_visible (col->error, !ok && !common);
       if (ok)
         {
-          g_autofree char *flags = format_flags (&s->result);
+          g_autofree char *flags = format_flags_short (&s->result);
+          g_autofree char *full = format_flags (&s->result);
 
-          gtk_label_set_text (GTK_LABEL (col->flags), flags);
+          gtk_label_set_text (GTK_LABEL (col->flags_short), flags);
+          gtk_label_set_text (GTK_LABEL (col->flags_full), full);
+          gtk_widget_set_visible (col->flags_more, s->result.flags != 0);
           if (s->result.flags != 0)
             gtk_widget_add_css_class (col->flags, "flagged");
           else
@@ -698,6 +776,18 @@ hl_results_init (HlResults *self)
     gtk_label_set_text (GTK_LABEL (label), _("Flags"));
     gtk_widget_set_valign (label, GTK_ALIGN_START);
     gtk_grid_attach (grid, label, 0, FLAGS_ROW, 2, 1);
+  }
+  {
+    static const char *const against[N_AGAINST_ROWS] = {
+      N_("Operated leg against the other"),
+      N_("Global offset against the other side"),
+    };
+    for (guint k = 0; k < N_AGAINST_ROWS; k++)
+      {
+        GtkWidget *label = make_label ("results-quantity", 0.0f);
+        gtk_label_set_text (GTK_LABEL (label), _(against[k]));
+        gtk_grid_attach (grid, label, 0, AGAINST_LEG_ROW + (int) k, 2, 1);
+      }
   }
 }
 
