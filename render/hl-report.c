@@ -23,6 +23,7 @@
 #include "hl-analysis.h"
 #include "hl-chart.h"
 #include "hl-i18n.h"
+#include "hl-image.h"
 #include "hl-measure.h"
 #include "hl-palette.h"
 #include "hl-plan-io.h"
@@ -716,8 +717,12 @@ block_inputs (HlLayout *L, double y, bool draw)
   bool assumed = r->m_assumed;
   if (!r->have_mc)
     hl_calibration_magnification (&p->calibration, &m, &assumed, NULL);
-  snprintf (l[nl++], 256, assumed ? _("Magnification %.3f (assumed: no usable calibration)")
-                                  : _("Magnification %.3f (from the calibration)"), m);
+  if (p->radiograph.present)
+    snprintf (l[nl++], 256, _("Magnification %.3f; calibration: %s"), m,
+              hl_cal_source_label (hl_image_calibration_source (p)));
+  else
+    snprintf (l[nl++], 256, assumed ? _("Magnification %.3f (assumed: no usable calibration)")
+                                    : _("Magnification %.3f (from the calibration)"), m);
   snprintf (l[nl++], 256, _("Abductor capacity %.2f N m per kg (an assumption)"),
             p->capacity.torque_nm_per_kg);
 
