@@ -230,6 +230,11 @@ fit_text (HlBuf *b, const HlPlan *plan, const HlFitTable *t)
                       "samples.\n"),
                  o->name, t->against_other_hip ? _("the other hip") : _("the native hip"),
                  t->mc_samples_used);
+  HlTemplateFrame f;
+  hl_template_frame (&plan->landmarks, plan->side, &f);
+  if (f.t_from_hip_centre)
+    hl_buf_puts (b, _("The lesser trochanter tip is not placed: the stem's seat is "
+                      "measured from the hip centre's projection on the shaft axis.\n"));
   hl_buf_printf (b, "%5s %6s %-14s %5s %-12s %5s %7s %7s %7s %7s %7s %7s %6s %6s %6s\n",
                  _("rank"), _("cup"), _("liner"), _("stem"), _("version"), _("head"),
                  _("c_med"), _("c_sup"), _("f_off"), _("f_len"), _("LL res"),

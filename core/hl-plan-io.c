@@ -917,6 +917,11 @@ write_implants (HlBuf *b, const HlPlan *plan, size_t index)
   put_result_number (b, "cup-superior-mm", o->recon.cup_superior_mm);
   put_result_number (b, "femoral-offset-mm", o->recon.femoral_offset_mm);
   put_result_number (b, "femoral-length-mm", o->recon.femoral_length_mm);
+  /* where the seat is measured from (templating.md section 2) */
+  HlTemplateFrame f;
+  hl_template_frame (&plan->landmarks, plan->side, &f);
+  hl_buf_puts (b, f.t_from_hip_centre ? " seat-from=\"hip-centre\""
+                                      : " seat-from=\"lesser-trochanter\"");
   hl_buf_puts (b, t->resolved ? " derived=\"now\"/>\n" : " derived=\"saved\"/>\n");
 }
 

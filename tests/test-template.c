@@ -525,6 +525,7 @@ START_TEST (test_plan_round_trip)
   buf[n] = '\0';
   ck_assert (strstr (buf, "<implants catalogue=\"hiplever-demo\"") != NULL);
   ck_assert (strstr (buf, "derived=\"now\"") != NULL);
+  ck_assert (strstr (buf, "seat-from=\"lesser-trochanter\"") != NULL);
   char cmd[512];
   snprintf (cmd, sizeof cmd, "xmllint --noout --schema '%s/data/hiplever-plan.xsd' '%s' "
             ">/dev/null 2>&1", HL_TEST_SRCDIR, path);

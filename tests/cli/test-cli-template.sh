@@ -180,6 +180,13 @@ run fit "$SRC/data/examples/minimal.hlplan"
 expect_rc 1 "fit of a plan without a template"
 check "fit without a template says so" err_has "no templated option"
 
+# without the lesser trochanter tip the seat is measured from the hip
+# centre, and the text says so
+sed -e '/<landmark name="lesser-trochanter" /d' "$DEMO" >"$WORK/no-tip.hlplan"
+run fit "$WORK/no-tip.hlplan"
+expect_rc 0 "fit without the lesser trochanter tip"
+check "fit says the seat is from the hip centre" out_has "measured from the hip centre"
+
 # a changed catalogue is reported when the plan opens, nothing re-derived
 sed -e 's/sha256="25be/sha256="00be/' "$DEMO" >"$WORK/changed.hlplan"
 cp "$SRC/data/examples/demo-radiograph.png" "$WORK/"
