@@ -1,4 +1,4 @@
-/* hl-window-panel.c: the side panel (case, landmarks, options, aids).
+/* hl-window-panel.c: the side panel's landmarks and options pages.
  *
  * Copyright 2026 the hiplever developers
  * SPDX-License-Identifier: GPL-3.0-or-later
@@ -15,54 +15,10 @@
 #include <stddef.h>
 #include <glib/gi18n.h>
 
-#include "hl-settings.h"
 #include "hl-window.h"
 #include "hl-window-private.h"
 
-/* The international avoirdupois pound, exactly. */
-#define HL_KG_PER_LB 0.45359237
-
-/* Control ranges of our own where the core has no limit to borrow. */
-#define HL_LIMB_FRACTION_MIN 0.05
-#define HL_LIMB_FRACTION_MAX 0.35
-#define HL_LINE_ANGLE_MIN_DEG 10.0
-#define HL_LINE_ANGLE_MAX_DEG 90.0
-#define HL_CAPACITY_MAX_NM_PER_KG 4.0
-
 #define HL_LANDMARK_ID_KEY "hl-landmark-id"
-
-/* A spin button that edits one double of the plan directly. */
-typedef struct {
-  size_t widget_offset;   /* of the GtkSpinButton * in HlWindow */
-  const char *field;      /* undo coalescing key */
-  size_t plan_offset;     /* of the double in HlPlan */
-  double lower, upper, step, page;
-} HlSpinBinding;
-
-static const HlSpinBinding spin_bindings[] = {
-  { G_STRUCT_OFFSET (HlWindow, limb_custom_spin), "limb-fraction",
-    offsetof (HlPlan, model.limb_fraction_custom),
-    HL_LIMB_FRACTION_MIN, HL_LIMB_FRACTION_MAX, 0.001, 0.01 },
-  { G_STRUCT_OFFSET (HlWindow, abductor_angle_spin), "abductor-angle",
-    offsetof (HlPlan, model.abductor_angle_deg),
-    HL_LINE_ANGLE_MIN_DEG, HL_LINE_ANGLE_MAX_DEG, 0.5, 5.0 },
-  { G_STRUCT_OFFSET (HlWindow, lean_spin), "lean",
-    offsetof (HlPlan, model.lean_mm), HL_LEAN_MIN_MM, HL_LEAN_MAX_MM, 0.5, 5.0 },
-  { G_STRUCT_OFFSET (HlWindow, capacity_spin), "capacity",
-    offsetof (HlPlan, capacity.torque_nm_per_kg), 0.0, HL_CAPACITY_MAX_NM_PER_KG,
-    0.01, 0.1 },
-};
-
-/* A dropdown whose position is one enum of the plan. */
-typedef struct {
-  size_t widget_offset;
-  size_t plan_offset;     /* of the enum in HlPlan */
-} HlDropBinding;
-
-static const HlDropBinding drop_bindings[] = {
-  { G_STRUCT_OFFSET (HlWindow, bw_line_drop), offsetof (HlPlan, model.bw_line) },
-  { G_STRUCT_OFFSET (HlWindow, abductor_mode_drop), offsetof (HlPlan, model.abductor_line) },
-};
 
 /* The reconstruction parameters, in the order of the option panel. */
 typedef struct {
@@ -89,24 +45,6 @@ static const HlReconParam recon_params[HL_RECON_N_PARAMS] = {
     offsetof (HlRecon, neck_shaft_angle_deg), HL_NECK_SHAFT_MIN_DEG, HL_NECK_SHAFT_MAX_DEG },
 };
 
-static inline GtkWidget *
-widget_at (HlWindow *self, size_t offset)
-{
-  return G_STRUCT_MEMBER (GtkWidget *, self, offset);
-}
-
-static inline double *
-plan_double (HlPlan *plan, size_t offset)
-{
-  return (double *) ((char *) plan + offset);
-}
-
-static inline int *
-plan_enum (HlPlan *plan, size_t offset)
-{
-  return (int *) ((char *) plan + offset);
-}
-
 static HlOption *
 selected_option (HlWindow *self)
 {
@@ -128,124 +66,6 @@ set_spin (GtkSpinButton *spin, double value)
 {
   if (isfinite (value) && gtk_spin_button_get_value (spin) != value)
     gtk_spin_button_set_value (spin, value);
-}
-
-/* ---- case ----------------------------------------------------------- */
-
-static void
-sync_mass (HlWindow *self)
-{
-  double factor = self->use_pounds ? 1.0 / HL_KG_PER_LB : 1.0;
-
-  gtk_spin_button_set_range (self->mass_spin, HL_MASS_MIN_KG * factor,
-                             HL_MASS_MAX_KG * factor);
-  set_spin (self->mass_spin, self->plan->mass_kg * factor);
-}
-
-static void
-label_changed_cb (GtkEditable *editable, HlWindow *self)
-{
-  const char *text = gtk_editable_get_text (editable);
-
-  if (self->syncing > 0 || g_strcmp0 (text, self->plan->label) == 0)
-    return;
-  if (!hl_window_begin_edit (self, "label"))
-    return;
-  g_strlcpy (self->plan->label, text, sizeof self->plan->label);
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
-}
-
-static void
-mass_changed_cb (GtkSpinButton *spin, HlWindow *self)
-{
-  double kg = gtk_spin_button_get_value (spin)
-              * (self->use_pounds ? HL_KG_PER_LB : 1.0);
-
-  if (self->syncing > 0 || !hl_window_begin_edit (self, "mass"))
-    return;
-  self->plan->mass_kg = kg;
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
-}
-
-static void
-mass_unit_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
-{
-  self->use_pounds = gtk_drop_down_get_selected (drop) == 1;
-  self->syncing++;
-  sync_mass (self);
-  self->syncing--;
-}
-
-static void
-side_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
-{
-  HlSide side = gtk_drop_down_get_selected (drop) == 1 ? HL_SIDE_LEFT : HL_SIDE_RIGHT;
-
-  if (self->syncing > 0 || side == self->plan->side)
-    return;
-  hl_document_break_coalescing (self->document);
-  if (!hl_window_begin_edit (self, NULL))
-    return;
-  /* Over a radiograph the landmarks must stay on their pixels: the side
-   * only names which hip they belong to.  On the schematic, mirroring keeps
-   * the drawing of the operated hip where it belongs. */
-  if (self->plan->radiograph.present)
-    self->plan->side = side;
-  else
-    hl_plan_mirror (self->plan);
-  hl_window_panel_sync (self);
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_GEOMETRY | HL_DOCUMENT_CHANGED_VALUES);
-  hl_canvas_fit (self->canvas);
-}
-
-static void
-limb_cb (GtkDropDown *drop, GParamSpec *pspec, HlWindow *self)
-{
-  guint table = gtk_drop_down_get_selected (drop);
-
-  gtk_widget_set_sensitive (GTK_WIDGET (self->limb_custom_spin),
-                            table == HL_LIMB_CUSTOM);
-  if (self->syncing > 0 || table >= HL_LIMB_N
-      || table == (guint) self->plan->model.limb_table)
-    return;
-  hl_document_break_coalescing (self->document);
-  if (!hl_window_begin_edit (self, NULL))
-    return;
-  self->plan->model.limb_table = (HlLimbTable) table;
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
-}
-
-static void
-spin_binding_cb (GtkSpinButton *spin, gpointer user_data)
-{
-  const HlSpinBinding *b = user_data;
-  HlWindow *self = HL_WINDOW (gtk_widget_get_root (GTK_WIDGET (spin)));
-  double value = gtk_spin_button_get_value (spin);
-  double *target = plan_double (self->plan, b->plan_offset);
-
-  if (self->syncing > 0 || *target == value)
-    return;
-  if (!hl_window_begin_edit (self, b->field))
-    return;
-  *target = value;
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
-}
-
-static void
-drop_binding_cb (GtkDropDown *drop, GParamSpec *pspec, gpointer user_data)
-{
-  const HlDropBinding *b = user_data;
-  HlWindow *self = HL_WINDOW (gtk_widget_get_root (GTK_WIDGET (drop)));
-  int value = (int) gtk_drop_down_get_selected (drop);
-  int *target = plan_enum (self->plan, b->plan_offset);
-
-  if (self->syncing > 0 || *target == value)
-    return;
-  hl_document_break_coalescing (self->document);
-  if (!hl_window_begin_edit (self, NULL))
-    return;
-  *target = value;
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
 /* ---- landmarks ------------------------------------------------------ */
@@ -646,79 +466,16 @@ hl_window_panel_sync_options (HlWindow *self)
 void
 hl_window_panel_sync (HlWindow *self)
 {
-  const HlPlan *plan = self->plan;
-
   self->syncing++;
-  if (g_strcmp0 (gtk_editable_get_text (GTK_EDITABLE (self->label_entry)), plan->label) != 0)
-    gtk_editable_set_text (GTK_EDITABLE (self->label_entry), plan->label);
-  sync_mass (self);
-  gtk_drop_down_set_selected (self->side_drop, plan->side == HL_SIDE_LEFT ? 1 : 0);
-  gtk_drop_down_set_selected (self->limb_drop, (guint) plan->model.limb_table);
-  gtk_widget_set_sensitive (GTK_WIDGET (self->limb_custom_spin),
-                            plan->model.limb_table == HL_LIMB_CUSTOM);
-  for (guint i = 0; i < G_N_ELEMENTS (spin_bindings); i++)
-    set_spin (GTK_SPIN_BUTTON (widget_at (self, spin_bindings[i].widget_offset)),
-              *plan_double (self->plan, spin_bindings[i].plan_offset));
-  for (guint i = 0; i < G_N_ELEMENTS (drop_bindings); i++)
-    gtk_drop_down_set_selected (GTK_DROP_DOWN (widget_at (self, drop_bindings[i].widget_offset)),
-                                (guint) *plan_enum (self->plan, drop_bindings[i].plan_offset));
   for (int i = 0; i < HL_LM_COUNT; i++)
     hl_window_panel_sync_landmark (self, (HlLandmarkId) i);
   self->syncing--;
   hl_window_panel_sync_options (self);
 }
 
-/* Under the Model choices of the Case page, as the row after the trunk
- * lean's. */
-static void
-add_defaults_button (HlWindow *self)
-{
-  GtkWidget *anchor = GTK_WIDGET (self->lean_spin);
-  GtkWidget *grid = gtk_widget_get_parent (anchor);
-  int row = 0;
-
-  if (!GTK_IS_GRID (grid))
-    return;
-  gtk_grid_query_child (GTK_GRID (grid), anchor, NULL, &row, NULL, NULL);
-  gtk_grid_insert_row (GTK_GRID (grid), row + 1);
-  gtk_grid_attach (GTK_GRID (grid), hl_settings_defaults_button_new (self->document),
-                   0, row + 1, 3, 1);
-}
-
 void
 hl_window_panel_init (HlWindow *self)
 {
-  g_autoptr(GtkStringList) limbs = gtk_string_list_new (NULL);
-
-  for (int t = 0; t < HL_LIMB_N; t++)
-    gtk_string_list_append (limbs, _(hl_limb_table_info ((HlLimbTable) t)->label));
-  gtk_drop_down_set_model (self->limb_drop, G_LIST_MODEL (limbs));
-
-  gtk_spin_button_set_increments (self->mass_spin, 0.5, 5.0);
-  plan_undo_only (self->mass_spin);
-  for (guint i = 0; i < G_N_ELEMENTS (spin_bindings); i++)
-    {
-      const HlSpinBinding *b = &spin_bindings[i];
-      GtkSpinButton *spin = GTK_SPIN_BUTTON (widget_at (self, b->widget_offset));
-
-      gtk_spin_button_set_range (spin, b->lower, b->upper);
-      gtk_spin_button_set_increments (spin, b->step, b->page);
-      plan_undo_only (spin);
-      g_signal_connect (spin, "value-changed", G_CALLBACK (spin_binding_cb),
-                        (gpointer) b);
-    }
-  for (guint i = 0; i < G_N_ELEMENTS (drop_bindings); i++)
-    g_signal_connect (widget_at (self, drop_bindings[i].widget_offset), "notify::selected",
-                      G_CALLBACK (drop_binding_cb), (gpointer) &drop_bindings[i]);
-
-  g_signal_connect_object (self->label_entry, "changed", G_CALLBACK (label_changed_cb), self, 0);
-  g_signal_connect_object (self->mass_spin, "value-changed", G_CALLBACK (mass_changed_cb), self, 0);
-  g_signal_connect_object (self->mass_unit_drop, "notify::selected", G_CALLBACK (mass_unit_cb), self, 0);
-  g_signal_connect_object (self->side_drop, "notify::selected", G_CALLBACK (side_cb), self, 0);
-  g_signal_connect_object (self->limb_drop, "notify::selected", G_CALLBACK (limb_cb), self, 0);
-
-  hl_settings_track_mass_unit (self->mass_unit_drop);
-  add_defaults_button (self);
   build_landmark_rows (self);
   build_option_params (self);
   g_signal_connect_object (self->option_list, "row-selected",
@@ -730,17 +487,7 @@ hl_window_panel_init (HlWindow *self)
 void
 hl_window_panel_bind_template (GtkWidgetClass *widget_class)
 {
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, label_entry);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, mass_spin);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, mass_unit_drop);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, side_drop);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, limb_drop);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, limb_custom_spin);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, bw_line_drop);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, abductor_mode_drop);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, abductor_angle_spin);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, lean_spin);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, capacity_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, case_page);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, landmark_list);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, landmark_hint_label);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, option_list);

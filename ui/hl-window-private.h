@@ -8,6 +8,7 @@
 #include "hl-aids-page.h"
 #include "hl-analysis-panel.h"
 #include "hl-canvas.h"
+#include "hl-case-page.h"
 #include "hl-document.h"
 #include "hl-radiograph-page.h"
 #include "hl-results.h"
@@ -37,17 +38,7 @@ struct _HlWindow {
   GtkStack *panel_stack;
   GtkLabel *status_label;
   /* case page */
-  GtkEntry *label_entry;
-  GtkSpinButton *mass_spin;
-  GtkDropDown *mass_unit_drop;
-  GtkDropDown *side_drop;
-  GtkDropDown *limb_drop;
-  GtkSpinButton *limb_custom_spin;
-  GtkDropDown *bw_line_drop;
-  GtkDropDown *abductor_mode_drop;
-  GtkSpinButton *abductor_angle_spin;
-  GtkSpinButton *lean_spin;
-  GtkSpinButton *capacity_spin;
+  HlCasePage *case_page;
   /* landmarks page */
   GtkListBox *landmark_list;
   GtkLabel *landmark_hint_label;
@@ -88,7 +79,6 @@ struct _HlWindow {
   gboolean print_handles;
   gboolean handles_dirty;
   guint handles_printed;
-  gboolean use_pounds;
 
   /* the analysis (hl-analysis-panel.c, hl-charts-view.c, hl-export.c) */
   GtkStack *lower_stack;     /* "results" and "charts" under the schematic */

@@ -229,9 +229,7 @@ hl_window_print_handles (HlWindow *self)
   print_widget (self, "duplicate-option", GTK_WIDGET (self->duplicate_option_button));
   print_widget (self, "remove-option", GTK_WIDGET (self->remove_option_button));
   print_widget (self, "option-name", GTK_WIDGET (self->option_name_entry));
-  print_widget (self, "mass-spin", GTK_WIDGET (self->mass_spin));
-  print_widget (self, "mass-unit", GTK_WIDGET (self->mass_unit_drop));
-  print_widget (self, "side", GTK_WIDGET (self->side_drop));
+  hl_case_page_print_handles (self->case_page);
   for (int i = 0; i < HL_LM_COUNT; i++)
     {
       g_autofree char *x = g_strdup_printf ("lm-x-%s", hl_landmark_info ((HlLandmarkId) i)->key);

@@ -331,6 +331,13 @@ landmark_drag_end_cb (HlCanvas *canvas, int id, gboolean cancelled,
   hl_document_end_drag (self->document, cancelled);
 }
 
+/* The side mirrors the schematic's landmarks: the view is fitted again. */
+static void
+case_side_changed_cb (HlCasePage *page, HlWindow *self)
+{
+  hl_canvas_fit (self->canvas);
+}
+
 static void
 canvas_selected_landmark_cb (HlCanvas *canvas, GParamSpec *pspec, HlWindow *self)
 {
@@ -471,6 +478,7 @@ hl_window_class_init (HlWindowClass *klass)
   window_class->close_request = hl_window_close_request_vfunc;
 
   g_type_ensure (HL_TYPE_AIDS_PAGE);
+  g_type_ensure (HL_TYPE_CASE_PAGE);
   g_type_ensure (HL_TYPE_CANVAS);
   g_type_ensure (HL_TYPE_RESULTS);
   g_type_ensure (HL_TYPE_CHARTS_VIEW);
@@ -519,6 +527,9 @@ hl_window_init (HlWindow *self)
   hl_canvas_set_document (self->canvas, self->document);
   hl_results_set_document (self->results, self->document);
   hl_aids_page_set_document (self->aids_page, self->document);
+  hl_case_page_set_document (self->case_page, self->document);
+  g_signal_connect_object (self->case_page, "side-changed",
+                           G_CALLBACK (case_side_changed_cb), self, 0);
   hl_window_panel_init (self);
   hl_template_tool_attach (self->canvas, self->document);
   GtkWidget *template_panel = hl_template_panel_new (self->document);
