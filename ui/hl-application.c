@@ -311,6 +311,7 @@ hl_application_startup (GApplication *app)
     const char *action;
     const char *accels[3];
   } accels[] = {
+    { "win.new", { "<Control>n", NULL } },
     { "win.open", { "<Control>o", NULL } },
     { "win.save", { "<Control>s", NULL } },
     { "win.save-as", { "<Control><Shift>s", NULL } },

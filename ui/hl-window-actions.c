@@ -12,6 +12,7 @@
 
 #include "hl-autosave.h"
 #include "hl-export.h"
+#include "hl-message.h"
 #include "hl-path.h"
 #include "hl-plan-io.h"
 #include "hl-settings.h"
@@ -23,6 +24,7 @@
 
 static void hl_window_save_as (HlWindow *self, HlAfterGuard then);
 static void hl_window_show_open_chooser (HlWindow *self);
+static void hl_window_start_new_plan (HlWindow *self);
 
 /* ---- helpers -------------------------------------------------------- */
 
@@ -37,6 +39,9 @@ continue_after_guard (HlWindow *self, HlAfterGuard then)
       break;
     case HL_AFTER_OPEN:
       hl_window_show_open_chooser (self);
+      break;
+    case HL_AFTER_NEW:
+      hl_window_start_new_plan (self);
       break;
     case HL_AFTER_NOTHING:
     default:
@@ -223,6 +228,8 @@ hl_window_guard (HlWindow *self, HlAfterGuard then)
                                    GTK_MESSAGE_QUESTION, GTK_BUTTONS_NONE,
                                    then == HL_AFTER_OPEN
                                    ? _("Save the changes to “%s” before opening another plan?")
+                                   : then == HL_AFTER_NEW
+                                   ? _("Save the changes to “%s” before starting a new plan?")
                                    : _("Save the changes to “%s” before closing?"),
                                    label);
   gtk_message_dialog_format_secondary_text (GTK_MESSAGE_DIALOG (dialog), "%s",
@@ -435,6 +442,50 @@ hl_window_redo (HlWindow *self)
 
 /* ---- action callbacks ----------------------------------------------- */
 
+/* A new plan starts from the schematic with every landmark at the
+ * invented adult geometry of model.md section 2 (plausible defaults), the
+ * model defaults of the settings, no options and no radiograph; the
+ * status line says which landmarks to move first. */
+static void
+hl_window_start_new_plan (HlWindow *self)
+{
+  HlPlan *plan = hl_plan_new ();
+  if (plan == NULL)
+    {
+      hl_window_show_error (self, _("No new plan"), _("out of memory"));
+      return;
+    }
+  hl_plan_set_demo_landmarks (plan);
+  hl_settings_apply_model_defaults (plan);
+  g_strlcpy (plan->label, _("New plan"), sizeof plan->label);
+  hl_window_replace_plan (self, plan, NULL);
+  hl_plan_free (plan);
+  hl_window_show_panel (self, "landmarks");
+
+  GString *required = g_string_new (NULL);
+  for (int i = 0; i < HL_LM_COUNT; i++)
+    {
+      const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) i);
+      if (!info->required)
+        continue;
+      if (required->len > 0)
+        g_string_append (required, ", ");
+      g_string_append (required, _(info->label));
+    }
+  g_autofree char *text = g_strdup_printf (
+    _("New plan: every landmark is at a plausible default of an invented adult hip. "
+      "Move the required ones to the patient (%s), then the optional ones; set the "
+      "case label, body mass and operated side."), required->str);
+  g_string_free (required, TRUE);
+  hl_message_show_status (GTK_WIDGET (self), text);
+}
+
+static void
+new_action_cb (GtkWidget *widget, const char *name, GVariant *param)
+{
+  hl_window_guard (HL_WINDOW (widget), HL_AFTER_NEW);
+}
+
 static void
 open_action_cb (GtkWidget *widget, const char *name, GVariant *param)
 {
@@ -536,6 +587,7 @@ void
 hl_window_actions_class_init (GtkWidgetClass *widget_class)
 {
   gtk_widget_class_install_action (widget_class, "win.show-status", "s", show_status_action_cb);
+  gtk_widget_class_install_action (widget_class, "win.new", NULL, new_action_cb);
   gtk_widget_class_install_action (widget_class, "win.open", NULL, open_action_cb);
   gtk_widget_class_install_action (widget_class, "win.save", NULL, save_action_cb);
   gtk_widget_class_install_action (widget_class, "win.save-as", NULL, save_as_action_cb);

@@ -23,6 +23,7 @@ typedef enum {
   HL_AFTER_NOTHING,
   HL_AFTER_CLOSE,
   HL_AFTER_OPEN,
+  HL_AFTER_NEW,
 } HlAfterGuard;
 
 struct _HlWindow {
