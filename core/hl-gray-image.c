@@ -439,6 +439,106 @@ read_jpeg (const char *path, FILE *fp, HlGrayImage **out, HlError *err)
   return HL_OK;
 }
 
+/* ---- DICOM: element lengths checked before GDCM ------------------------- */
+
+/* GDCM allocates an element's declared length before it reads the value
+ * (found by fuzzing: a changed length byte made it ask for 800 MB of a
+ * 1 kB file).  Top-level elements with a defined length are walked here
+ * first, and one that claims more bytes than the file has left is refused.
+ * The walk stops at the first element of undefined length (a sequence or
+ * encapsulated pixel data), whose items GDCM then reads unchecked, and
+ * does not cover big-endian files. */
+#define DICOM_WALK_MAX_ELEMENTS 100000
+#define DICOM_UNDEFINED_LENGTH 0xffffffffu
+
+static bool
+pread_all (int fd, void *buf, size_t n, off_t at)
+{
+  size_t got = 0;
+  while (got < n)
+    {
+      ssize_t r = pread (fd, (char *) buf + got, n - got, at + (off_t) got);
+      if (r < 0 && errno == EINTR)
+        continue;
+      if (r <= 0)
+        return false;
+      got += (size_t) r;
+    }
+  return true;
+}
+
+static bool
+long_vr (const unsigned char vr[2])
+{
+  static const char *const vrs[] = { "OB", "OD", "OF", "OL", "OV", "OW", "SQ", "SV", "UC",
+                                     "UN", "UR", "UT", "UV" };
+  for (size_t i = 0; i < sizeof vrs / sizeof *vrs; i++)
+    if (vr[0] == vrs[i][0] && vr[1] == vrs[i][1])
+      return true;
+  return false;
+}
+
+static HlStatus
+dicom_prescan (int fd, off_t size, const char *path, HlError *err)
+{
+  off_t at = DICOM_MAGIC_OFFSET + 4;
+  bool implicit = false, in_meta = true;
+  char ts[68] = "";
+  for (int n = 0; n < DICOM_WALK_MAX_ELEMENTS && at + 8 <= size; n++)
+    {
+      unsigned char h[12];
+      if (!pread_all (fd, h, 8, at))
+        break;
+      unsigned group = h[0] | (h[1] << 8), elem = h[2] | (h[3] << 8);
+      if (in_meta && group != 0x0002)
+        {
+          in_meta = false;
+          if (strncmp (ts, "1.2.840.10008.1.2.2", 19) == 0)
+            return HL_OK;                         /* big endian: not walked */
+          implicit = strcmp (ts, "1.2.840.10008.1.2") == 0;
+        }
+      uint32_t len;
+      off_t head;
+      if (implicit && !in_meta)
+        {
+          len = (uint32_t) h[4] | ((uint32_t) h[5] << 8) | ((uint32_t) h[6] << 16)
+                | ((uint32_t) h[7] << 24);
+          head = 8;
+        }
+      else if (long_vr (h + 4))
+        {
+          if (at + 12 > size || !pread_all (fd, h, 12, at))
+            break;
+          len = (uint32_t) h[8] | ((uint32_t) h[9] << 8) | ((uint32_t) h[10] << 16)
+                | ((uint32_t) h[11] << 24);
+          head = 12;
+        }
+      else
+        {
+          len = h[6] | (h[7] << 8);
+          head = 8;
+        }
+      if (len == DICOM_UNDEFINED_LENGTH)
+        return HL_OK;
+      if ((off_t) len > size - at - head)
+        return hl_error_set (err, HL_ERR_PARSE, path,
+                             _("The DICOM file \"%s\" cannot be opened: its element "
+                               "(%04X,%04X) claims %lu bytes, more than the file has left "
+                               "(truncated or damaged)"),
+                             path, group, elem, (unsigned long) len);
+      if (in_meta && group == 0x0002 && elem == 0x0010 && len < sizeof ts
+          && pread_all (fd, ts, len, at + head))
+        {
+          size_t k = len;
+          ts[k] = '\0';
+          while (k > 0 && (ts[k - 1] == '\0' || ts[k - 1] == ' '))
+            ts[--k] = '\0';
+        }
+      at += head + (off_t) len;
+    }
+  return HL_OK;
+}
+
 /* ---- The entry point ---------------------------------------------------- */
 
 const char *
@@ -522,6 +622,12 @@ hl_gray_image_load (const char *path, HlError *err)
     }
   HlGrayImage *img = NULL;
   HlStatus st = HL_OK;
+  if (format == HL_IMAGE_FORMAT_DICOM
+      && dicom_prescan (fd, sb.st_size, path, err) != HL_OK)
+    {
+      close (fd);
+      return NULL;
+    }
   if (format == HL_IMAGE_FORMAT_DICOM || format == HL_IMAGE_FORMAT_TIFF)
     {
       close (fd);

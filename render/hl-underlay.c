@@ -24,6 +24,7 @@
  * good filter switches to a slow convolution). */
 #define MIP_MIN_ENLARGEMENT 0.75
 #define LUT_SIZE 65536
+#define REGION_MARGIN_MIN 16     /* level pixels windowed beyond the visible part */
 /* ITU-R BT.601 luma weights for the grey of a colour surface (common
  * practice). */
 #define LUMA_R 0.299
@@ -34,7 +35,8 @@ typedef struct {
   uint16_t *px;            /* level 0: the image's own pixels (not owned) */
   int w, h;
   cairo_surface_t *shown;  /* windowed, RGB24; NULL until drawn */
-  bool valid;              /* shown has the current window */
+  bool valid;              /* shown has the current window in [vx0, vx1) x [vy0, vy1) */
+  int vx0, vy0, vx1, vy1;
 } Level;
 
 struct _HlUnderlay {
@@ -234,12 +236,19 @@ make_lut (HlUnderlay *self)
   self->lut_valid = true;
 }
 
-/* The windowed copy of one level, redone when the window changed. */
+/* The windowed copy of one level: the pixels in [x0, x1) x [y0, y1) (level
+ * pixels) hold the current window when it returns.  Only what is asked
+ * for, with a margin, is redone, so a window drag over a zoomed-in view
+ * redoes the visible part, not the whole image. */
 static cairo_surface_t *
-shown_level (HlUnderlay *self, int i)
+shown_level (HlUnderlay *self, int i, int x0, int y0, int x1, int y1)
 {
   Level *l = &self->level[i];
-  if (l->valid)
+  x0 = MAX (x0, 0);
+  y0 = MAX (y0, 0);
+  x1 = MIN (x1, l->w);
+  y1 = MIN (y1, l->h);
+  if (l->valid && x0 >= l->vx0 && y0 >= l->vy0 && x1 <= l->vx1 && y1 <= l->vy1)
     return l->shown;
   if (!self->lut_valid)
     make_lut (self);
@@ -253,19 +262,30 @@ shown_level (HlUnderlay *self, int i)
           return NULL;
         }
     }
+  /* A margin of a quarter of the asked size on each side (at least
+   * REGION_MARGIN_MIN) covers the filter's reach and a pan's next frames. */
+  int mx = MAX ((x1 - x0) / 4, REGION_MARGIN_MIN), my = MAX ((y1 - y0) / 4, REGION_MARGIN_MIN);
+  x0 = MAX (x0 - mx, 0);
+  y0 = MAX (y0 - my, 0);
+  x1 = MIN (x1 + mx, l->w);
+  y1 = MIN (y1 + my, l->h);
   cairo_surface_flush (l->shown);
   unsigned char *dst = cairo_image_surface_get_data (l->shown);
   int stride = cairo_image_surface_get_stride (l->shown);
   const uint8_t *lut = self->lut;
-  for (int y = 0; y < l->h; y++)
+  for (int y = y0; y < y1; y++)
     {
       const uint16_t *p = l->px + (gsize) y * l->w;
       guint32 *q = (guint32 *) (dst + (gsize) y * stride);
-      for (int x = 0; x < l->w; x++)
+      for (int x = x0; x < x1; x++)
         q[x] = 0xff000000u | (guint32) lut[p[x]] * 0x010101u;
     }
-  cairo_surface_mark_dirty (l->shown);
+  cairo_surface_mark_dirty_rectangle (l->shown, x0, y0, x1 - x0, y1 - y0);
   l->valid = true;
+  l->vx0 = x0;
+  l->vy0 = y0;
+  l->vx1 = x1;
+  l->vy1 = y1;
   return l->shown;
 }
 
@@ -287,19 +307,31 @@ hl_underlay_draw (HlUnderlay *self, cairo_t *cr, const HlView *view,
   int level = 0;
   while (level + 1 < self->n_levels && k * (1 << (level + 1)) <= 1.0 / MIP_MIN_ENLARGEMENT)
     level++;
-  cairo_surface_t *s = shown_level (self, level);
-  if (s == NULL)
-    return;
-  double sx = (double) self->width / cairo_image_surface_get_width (s);
-  double sy = (double) self->height / cairo_image_surface_get_height (s);
+  const Level *l = &self->level[level];
+  double sx = (double) self->width / l->w;
+  double sy = (double) self->height / l->h;
 
   HlVec2 at = hl_view_to_screen (view, origin_mm);
   cairo_save (cr);
   cairo_translate (cr, at.x, at.y);
   cairo_scale (cr, k * sx, k * sy);
-  cairo_rectangle (cr, 0, 0, cairo_image_surface_get_width (s),
-                   cairo_image_surface_get_height (s));
+  cairo_rectangle (cr, 0, 0, l->w, l->h);
   cairo_clip (cr);
+  /* The visible part, in level pixels. */
+  double cx0, cy0, cx1, cy1;
+  cairo_clip_extents (cr, &cx0, &cy0, &cx1, &cy1);
+  if (!(cx1 > cx0 && cy1 > cy0))
+    {
+      cairo_restore (cr);
+      return;
+    }
+  cairo_surface_t *s = shown_level (self, level, (int) floor (cx0) - 1, (int) floor (cy0) - 1,
+                                    (int) ceil (cx1) + 1, (int) ceil (cy1) + 1);
+  if (s == NULL)
+    {
+      cairo_restore (cr);
+      return;
+    }
   cairo_set_source_surface (cr, s, 0, 0);
   cairo_pattern_set_filter (cairo_get_source (cr),
                             k * sx >= HL_UNDERLAY_NEAREST_FROM ? CAIRO_FILTER_FAST
