@@ -294,6 +294,31 @@ note_failure (const HlPlan *plan, const HlSweepParamInfo *info, size_t row,
                 step_err->message);
 }
 
+void
+hl_sweep_plan_set (HlPlan *plan, HlSweepParam param, double value)
+{
+  for (size_t i = 0; i < plan->n_options; i++)
+    recon_set (&plan->options[i].recon, param, value);
+  switch (param)
+    {
+    case HL_SWEEP_CANE_FORCE_N:
+      plan->cane.unit = HL_FORCE_UNIT_N;
+      plan->cane.value = value;
+      break;
+    case HL_SWEEP_CANE_PERCENT_BW:
+      plan->cane.unit = HL_FORCE_UNIT_PERCENT_BW;
+      plan->cane.value = value;
+      break;
+    case HL_SWEEP_LOAD_CONTRA_KG: plan->loads.hand[HL_HAND_CONTRALATERAL].mass_kg = value; break;
+    case HL_SWEEP_LOAD_IPSI_KG: plan->loads.hand[HL_HAND_IPSILATERAL].mass_kg = value; break;
+    case HL_SWEEP_LOAD_MIDLINE_KG: plan->loads.midline_kg = value; break;
+    case HL_SWEEP_LEAN_MM: plan->model.lean_mm = value; break;
+    case HL_SWEEP_MASS_KG: plan->mass_kg = value; break;
+    case HL_SWEEP_ABDUCTOR_ANGLE_DEG: plan->model.abductor_angle_deg = value; break;
+    default: break;
+    }
+}
+
 HlStatus
 hl_sweep_run (const HlPlan *plan, const HlModel *model,
               const HlSweepSpec *spec, double *values,

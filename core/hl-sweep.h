@@ -95,6 +95,12 @@ typedef struct {
 /* The value of step i (0 .. n_steps - 1); the last step is `to` exactly. */
 double hl_sweep_value (const HlSweepSpec *spec, size_t step);
 
+/* The plan a sweep point stands for: `plan` as it would be entered with
+ * `param` at `value` (every option's parameter, or the plan's aid, load,
+ * lean, mass or abductor angle).  hl_sweep_run gets the same results
+ * without preparing the model again; the tests compare the two. */
+void hl_sweep_plan_set (HlPlan *plan, HlSweepParam param, double value);
+
 /* Runs the sweep.  `model` is prepared from `plan`; `results` holds
  * results_len >= (1 + plan->n_options) * n_steps entries; `values`
  * (n_steps entries) and `status` (as many as results) may be NULL.

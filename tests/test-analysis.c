@@ -865,44 +865,6 @@ sweep_plan (HlSweepParam param)
   return plan;
 }
 
-/* The plan as it would be entered with the parameter at v. */
-static void
-plan_set (HlPlan *p, HlSweepParam param, double v)
-{
-  for (size_t i = 0; i < p->n_options; i++)
-    {
-      HlRecon *r = &p->options[i].recon;
-      switch (param)
-        {
-        case HL_SWEEP_CUP_MEDIAL: r->cup_medial_mm = v; break;
-        case HL_SWEEP_CUP_SUPERIOR: r->cup_superior_mm = v; break;
-        case HL_SWEEP_FEMORAL_OFFSET: r->femoral_offset_mm = v; break;
-        case HL_SWEEP_FEMORAL_LENGTH: r->femoral_length_mm = v; break;
-        case HL_SWEEP_HEAD_LENGTH: r->head_length_mm = v; break;
-        case HL_SWEEP_NECK_SHAFT_ANGLE: r->neck_shaft_angle_deg = v; break;
-        default: break;
-        }
-    }
-  switch (param)
-    {
-    case HL_SWEEP_CANE_FORCE_N:
-      p->cane.unit = HL_FORCE_UNIT_N;
-      p->cane.value = v;
-      break;
-    case HL_SWEEP_CANE_PERCENT_BW:
-      p->cane.unit = HL_FORCE_UNIT_PERCENT_BW;
-      p->cane.value = v;
-      break;
-    case HL_SWEEP_LOAD_CONTRA_KG: p->loads.hand[HL_HAND_CONTRALATERAL].mass_kg = v; break;
-    case HL_SWEEP_LOAD_IPSI_KG: p->loads.hand[HL_HAND_IPSILATERAL].mass_kg = v; break;
-    case HL_SWEEP_LOAD_MIDLINE_KG: p->loads.midline_kg = v; break;
-    case HL_SWEEP_LEAN_MM: p->model.lean_mm = v; break;
-    case HL_SWEEP_MASS_KG: p->mass_kg = v; break;
-    case HL_SWEEP_ABDUCTOR_ANGLE_DEG: p->model.abductor_angle_deg = v; break;
-    default: break;
-    }
-}
-
 static void
 check_same_result (const HlResult *a, const HlResult *b)
 {
@@ -943,7 +905,7 @@ START_TEST (test_sweep_endpoints)
       HlPlan *p = hl_plan_copy (plan);
       HlResult expect[3];
       ck_assert_ptr_nonnull (p);
-      plan_set (p, c->param, values[steps[k]]);
+      hl_sweep_plan_set (p, c->param, values[steps[k]]);
       hl_test_solve (p, NULL, &expect[0]);
       for (size_t o = 0; o < p->n_options; o++)
         hl_test_solve (p, &p->options[o].recon, &expect[1 + o]);
