@@ -442,9 +442,10 @@ read_jpeg (const char *path, FILE *fp, HlGrayImage **out, HlError *err)
 /* ---- DICOM: element lengths checked before GDCM ------------------------- */
 
 /* GDCM allocates an element's declared length before it reads the value
- * (found by fuzzing: a changed length byte made it ask for 800 MB of a
+ * (found by fuzzing: one changed byte of a VR made it ask for 800 MB for a
  * 1 kB file).  Top-level elements with a defined length are walked here
- * first, and one that claims more bytes than the file has left is refused.
+ * first: one with an unknown VR, or one that claims more bytes than the
+ * file has left, is refused.
  * The walk stops at the first element of undefined length (a sequence or
  * encapsulated pixel data), whose items GDCM then reads unchecked, and
  * does not cover big-endian files. */
@@ -478,6 +479,17 @@ long_vr (const unsigned char vr[2])
   return false;
 }
 
+/* The value representations of DICOM PS3.5 section 6.2. */
+static bool
+known_vr (const unsigned char vr[2])
+{
+  static const char vrs[] = "AEASATCSDADSDTFLFDISLOLTOBODOFOLOVOWPNSHSLSQSSSTSVTMUCUIULUNURUSUTUV";
+  for (size_t i = 0; i + 1 < sizeof vrs; i += 2)
+    if (vr[0] == (unsigned char) vrs[i] && vr[1] == (unsigned char) vrs[i + 1])
+      return true;
+  return false;
+}
+
 static HlStatus
 dicom_prescan (int fd, off_t size, const char *path, HlError *err)
 {
@@ -497,6 +509,13 @@ dicom_prescan (int fd, off_t size, const char *path, HlError *err)
             return HL_OK;                         /* big endian: not walked */
           implicit = strcmp (ts, "1.2.840.10008.1.2") == 0;
         }
+      /* GDCM reads an element with an unknown VR (found by fuzzing: one
+       * changed byte) with a 4-byte length it then allocates. */
+      if (!(implicit && !in_meta) && !known_vr (h + 4))
+        return hl_error_set (err, HL_ERR_PARSE, path,
+                             _("The DICOM file \"%s\" cannot be opened: its element "
+                               "(%04X,%04X) has no known value representation (damaged)"),
+                             path, group, elem);
       uint32_t len;
       off_t head;
       if (implicit && !in_meta)
