@@ -10,6 +10,8 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include <glib.h>
+#include <gsl/gsl_errno.h>
 #include <gsl/gsl_randist.h>
 #include <gsl/gsl_statistics_double.h>
 
@@ -45,6 +47,14 @@ hl_mc_workspace_new (size_t max_samples, size_t max_options)
   ws->max_options = max_options;
   ws->values = malloc (rows * MC_QUANTITIES * max_samples * sizeof *ws->values);
   ws->lower_count = calloc (rows, sizeof *ws->lower_count);
+  /* GSL's default handler aborts when gsl_rng_alloc runs out of memory;
+   * the NULL it returns is checked below. */
+  static gsize handler_off = 0;
+  if (g_once_init_enter (&handler_off))
+    {
+      gsl_set_error_handler_off ();
+      g_once_init_leave (&handler_off, 1);
+    }
   ws->rng = gsl_rng_alloc (HL_MC_GENERATOR);
   if (ws->values == NULL || ws->lower_count == NULL || ws->rng == NULL)
     {

@@ -167,18 +167,21 @@ compute_answers (HlReport *r, HlError *err)
       const HlRecon *recon = row == 0 ? NULL : &p->options[row - 1].recon;
       HlInverseAnswer a;
       HlError e;
-      bool ok = true;
+      bool ok = true;   /* after a failure, e keeps its message */
 
       if (recon != NULL)
         {
-          hl_error_clear (&e);
+          if (ok)
+            hl_error_clear (&e);
           ok = ok && add_answer (r, row, hl_inverse_offset_for_arm (&r->model, recon, NULL,
                                                                     &a, &e), &a);
-          hl_error_clear (&e);
+          if (ok)
+            hl_error_clear (&e);
           ok = ok && add_answer (r, row, hl_inverse_offset_for_global (&r->model, recon,
                                                                        NULL, &a, &e), &a);
         }
-      hl_error_clear (&e);
+      if (ok)
+        hl_error_clear (&e);
       ok = ok && add_answer (r, row, hl_inverse_cane_for_jrf (&r->model, recon, target,
                                                               p->cane.distance_mm, NULL,
                                                               &a, &e), &a);
@@ -191,7 +194,8 @@ compute_answers (HlReport *r, HlError *err)
                                                               (HlLoadSite) site, target,
                                                               NULL, &a, &e), &a);
           }
-      hl_error_clear (&e);
+      if (ok)
+        hl_error_clear (&e);
       ok = ok && add_answer (r, row, hl_inverse_lean_for_capacity (&r->model, recon, NULL,
                                                                    &a, &e), &a);
       if (!ok)
