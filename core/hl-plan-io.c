@@ -2345,13 +2345,6 @@ schema_compile_once (void)
   xmlSchemaFreeParserCtxt (pctxt);
 }
 
-/* Non-zero while this thread is inside libxml2's schema validator: read
- * by the allocation-failure test (tests/hl-fault-alloc.c), which spares
- * the validator's allocations because libxml2 2.9.14 crashes when some of
- * them fail.  Nothing else reads it. */
-_Thread_local int hl_plan_io_in_schema;
-extern _Thread_local int hl_plan_io_in_schema;
-
 static HlStatus
 validate_schema (HlReader *r, xmlDocPtr doc)
 {
@@ -2362,7 +2355,6 @@ validate_schema (HlReader *r, xmlDocPtr doc)
     return reader_fail_at (r, HL_ERR_PARSE, 0, NULL,
                            _("internal error: the built-in plan schema does not compile"));
 
-  hl_plan_io_in_schema++;
   xmlSchemaValidCtxtPtr vctxt = xmlSchemaNewValidCtxt (schema);
   int rc = -1;
   if (vctxt != NULL)
@@ -2371,7 +2363,6 @@ validate_schema (HlReader *r, xmlDocPtr doc)
       rc = xmlSchemaValidateDoc (vctxt, doc);
       xmlSchemaFreeValidCtxt (vctxt);
     }
-  hl_plan_io_in_schema--;
   if (vctxt == NULL)
     return reader_fail_at (r, HL_ERR_NOMEM, 0, NULL, _("out of memory"));
   if (rc == 0)

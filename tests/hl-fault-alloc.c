@@ -22,14 +22,8 @@
  *
  * GLib aborts by design when its allocator fails (g_malloc), so
  * allocations made from inside libglib are counted in the live blocks but
- * never failed.  libxml2 2.9.14 (Debian 12) crashes inside
- * xmlSchemaValidateDoc when some of its allocations fail (42 of the 1,485
- * allocations of loading the demo plan, measured on 2026-12-04), a bug of
- * that library our code cannot reach around: allocations made while the
- * core has the validator running (its flag hl_plan_io_in_schema) are
- * spared too, unless
- * HL_FAULT_ALLOC_LIBXML2_SCHEMA=1.  Everything else (our code, libxml2's
- * parser and tree, libc on our behalf, cairo) is failed in turn.
+ * never failed.  Everything else is, unless spared by
+ * HL_FAULT_ALLOC_SPARE (below).
  */
 #define _GNU_SOURCE
 #include <dlfcn.h>
@@ -56,13 +50,11 @@ static long live;
 #define ADD(v, n) __atomic_add_fetch (&(v), (n), __ATOMIC_SEQ_CST)
 static int env_checked;
 static uintptr_t glib_lo, glib_hi;
-static uintptr_t xml_lo, xml_hi;
 /* HL_FAULT_ALLOC_SPARE=LIB,LIB: libraries whose own allocations are not
  * failed either (read at each arm). */
 #define SPARE_MAX 32
 static struct { uintptr_t lo, hi; } spare[SPARE_MAX];
 static int n_spare;
-static int spare_schema = -1;
 static int tracing = -1;
 
 void hl_fault_alloc_arm (long n);
@@ -110,8 +102,6 @@ find_libraries (struct dl_phdr_info *info, size_t size, void *data)
   uintptr_t *lo_p, *hi_p;
   if (info->dlpi_name != NULL && strstr (info->dlpi_name, "libglib-2.0") != NULL)
     lo_p = &glib_lo, hi_p = &glib_hi;
-  else if (info->dlpi_name != NULL && strstr (info->dlpi_name, "libxml2.so") != NULL)
-    lo_p = &xml_lo, hi_p = &xml_hi;
   else
     return 0;
   for (int i = 0; i < info->dlpi_phnum; i++)
@@ -129,15 +119,6 @@ find_libraries (struct dl_phdr_info *info, size_t size, void *data)
   return 0;
 }
 
-/* The core's flag (hl_plan_io_in_schema in core/hl-plan-io.c, found in a
- * test linked with -rdynamic): set while libxml2's schema validator runs. */
-static int *schema_flag;
-
-static int
-in_schema_validation (void)
-{
-  return schema_flag != NULL && *schema_flag > 0;
-}
 
 void
 hl_fault_alloc_arm (long n)
@@ -152,9 +133,6 @@ hl_fault_alloc_arm (long n)
       dl_iterate_phdr (find_libraries, NULL);
       void *warm[2];
       backtrace (warm, 2);   /* loads what backtrace needs, before any fault */
-      schema_flag = dlsym (RTLD_DEFAULT, "hl_plan_io_in_schema");
-      const char *s = getenv ("HL_FAULT_ALLOC_LIBXML2_SCHEMA");
-      spare_schema = !(s != NULL && *s == '1');
     }
   n_spare = 0;
   const char *list = getenv ("HL_FAULT_ALLOC_SPARE");
@@ -247,8 +225,6 @@ should_fail (void *caller)
     return 0;
   uintptr_t c = (uintptr_t) caller;
   if (c >= glib_lo && c < glib_hi)
-    return 0;
-  if (spare_schema > 0 && in_schema_validation ())
     return 0;
   for (int i = 0; i < n_spare; i++)
     if (c >= spare[i].lo && c < spare[i].hi)
