@@ -446,9 +446,10 @@ read_jpeg (const char *path, FILE *fp, HlGrayImage **out, HlError *err)
  * 1 kB file).  Top-level elements with a defined length are walked here
  * first: one with an unknown VR, or one that claims more bytes than the
  * file has left, is refused.
- * The walk stops at the first element of undefined length (a sequence or
- * encapsulated pixel data), whose items GDCM then reads unchecked, and
- * does not cover big-endian files. */
+ * Items of an element of undefined length are walked too while they have
+ * defined lengths (the fragments of compressed pixel data); the walk stops
+ * at an item of undefined length (a nested data set), which GDCM then
+ * reads unchecked, and does not cover big-endian files. */
 #define DICOM_WALK_MAX_ELEMENTS 100000
 #define DICOM_UNDEFINED_LENGTH 0xffffffffu
 
@@ -538,7 +539,38 @@ dicom_prescan (int fd, off_t size, const char *path, HlError *err)
           head = 8;
         }
       if (len == DICOM_UNDEFINED_LENGTH)
-        return HL_OK;
+        {
+          /* Items of defined length (the fragments of compressed pixel
+           * data) up to the delimiter; an item of undefined length (a
+           * nested data set) ends the walk. */
+          at += head;
+          for (;;)
+            {
+              unsigned char it[8];
+              if (at + 8 > size || !pread_all (fd, it, 8, at))
+                return HL_OK;
+              unsigned ig = it[0] | (it[1] << 8), ie = it[2] | (it[3] << 8);
+              uint32_t il = (uint32_t) it[4] | ((uint32_t) it[5] << 8)
+                            | ((uint32_t) it[6] << 16) | ((uint32_t) it[7] << 24);
+              if (il == DICOM_UNDEFINED_LENGTH && ig == 0xfffe && ie == 0xe000)
+                return HL_OK;
+              if (ig != 0xfffe || (ie != 0xe000 && ie != 0xe0dd))
+                return hl_error_set (err, HL_ERR_PARSE, path,
+                                     _("The DICOM file \"%s\" cannot be opened: its element "
+                                       "(%04X,%04X) is not closed (truncated or damaged)"),
+                                     path, group, elem);
+              if ((off_t) il > size - at - 8)
+                return hl_error_set (err, HL_ERR_PARSE, path,
+                                     _("The DICOM file \"%s\" cannot be opened: an item of "
+                                       "its element (%04X,%04X) claims %lu bytes, more than "
+                                       "the file has left (truncated or damaged)"),
+                                     path, group, elem, (unsigned long) il);
+              at += 8 + (off_t) il;
+              if (ie == 0xe0dd)
+                break;
+            }
+          continue;
+        }
       if ((off_t) len > size - at - head)
         return hl_error_set (err, HL_ERR_PARSE, path,
                              _("The DICOM file \"%s\" cannot be opened: its element "
