@@ -1,4 +1,4 @@
-/* hl-window-panel.c: the side panel's landmarks and options pages.
+/* hl-window-panel.c: the side panel's options page.
  *
  * Copyright 2026 the hiplever developers
  * SPDX-License-Identifier: GPL-3.0-or-later
@@ -17,8 +17,6 @@
 
 #include "hl-window.h"
 #include "hl-window-private.h"
-
-#define HL_LANDMARK_ID_KEY "hl-landmark-id"
 
 /* The reconstruction parameters, in the order of the option panel. */
 typedef struct {
@@ -66,220 +64,6 @@ set_spin (GtkSpinButton *spin, double value)
 {
   if (isfinite (value) && gtk_spin_button_get_value (spin) != value)
     gtk_spin_button_set_value (spin, value);
-}
-
-/* ---- landmarks ------------------------------------------------------ */
-
-static HlLandmarkId
-row_landmark (GtkWidget *widget)
-{
-  return (HlLandmarkId) GPOINTER_TO_INT (g_object_get_data (G_OBJECT (widget),
-                                                            HL_LANDMARK_ID_KEY));
-}
-
-static void
-landmark_coord_cb (GtkSpinButton *spin, HlWindow *self)
-{
-  HlLandmarkId id = row_landmark (GTK_WIDGET (spin));
-  const HlLandmarkInfo *info = hl_landmark_info (id);
-  HlLandmarks *lm = &self->plan->landmarks;
-  double x = gtk_spin_button_get_value (self->lm_x[id]);
-  double y = gtk_spin_button_get_value (self->lm_y[id]);
-  g_autofree char *field = NULL;
-
-  if (self->syncing > 0)
-    return;
-  if (hl_landmarks_has (lm, id) && lm->p[id].x == x && lm->p[id].y == y)
-    return;
-  field = g_strdup_printf ("landmark %s %c", info->key,
-                           spin == self->lm_x[id] ? 'x' : 'y');
-  if (!hl_window_begin_edit (self, field))
-    return;
-  hl_landmarks_set (lm, id, x, y);
-  hl_window_panel_sync_landmark (self, id);
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_GEOMETRY);
-}
-
-static void
-landmark_placed_cb (GtkCheckButton *check, HlWindow *self)
-{
-  HlLandmarkId id = row_landmark (GTK_WIDGET (check));
-  HlLandmarks *lm = &self->plan->landmarks;
-  gboolean on = gtk_check_button_get_active (check);
-
-  if (self->syncing > 0 || on == hl_landmarks_has (lm, id))
-    return;
-  hl_document_break_coalescing (self->document);
-  if (!hl_window_begin_edit (self, NULL))
-    return;
-  if (on)
-    hl_landmarks_set (lm, id, gtk_spin_button_get_value (self->lm_x[id]),
-                      gtk_spin_button_get_value (self->lm_y[id]));
-  else
-    hl_landmarks_unset (lm, id);
-  hl_window_panel_sync_landmark (self, id);
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_GEOMETRY);
-}
-
-static void
-show_landmark_hint (HlWindow *self, int id)
-{
-  if (id < 0 || id >= HL_LM_COUNT)
-    {
-      gtk_label_set_text (self->landmark_hint_label,
-                          _("Select a landmark to see where it goes."));
-      return;
-    }
-  {
-    const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) id);
-    g_autofree char *text = g_strdup_printf ("%s: %s", _(info->label), _(info->hint));
-
-    gtk_label_set_text (self->landmark_hint_label, text);
-  }
-}
-
-static void
-landmark_row_selected_cb (GtkListBox *list, GtkListBoxRow *row, HlWindow *self)
-{
-  int id = row != NULL ? (int) row_landmark (GTK_WIDGET (row)) : -1;
-
-  if (self->disposing)
-    return;
-  show_landmark_hint (self, id);
-  if (self->syncing > 0)
-    return;
-  if (hl_canvas_get_selected_landmark (self->canvas) != id)
-    hl_canvas_set_selected_landmark (self->canvas, id);
-}
-
-static GtkSpinButton *
-landmark_spin (HlWindow *self, HlLandmarkId id, const char *axis_label)
-{
-  GtkWidget *spin = gtk_spin_button_new_with_range (-HL_COORD_MAX_MM,
-                                                    HL_COORD_MAX_MM, 0.5);
-
-  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (spin), 1);
-  gtk_spin_button_set_increments (GTK_SPIN_BUTTON (spin), 0.5, 5.0);
-  gtk_editable_set_width_chars (GTK_EDITABLE (spin), 5);
-  gtk_widget_set_valign (spin, GTK_ALIGN_CENTER);
-  plan_undo_only (GTK_SPIN_BUTTON (spin));
-  gtk_accessible_update_property (GTK_ACCESSIBLE (spin),
-                                  GTK_ACCESSIBLE_PROPERTY_LABEL, axis_label, -1);
-  g_object_set_data (G_OBJECT (spin), HL_LANDMARK_ID_KEY, GINT_TO_POINTER (id));
-  g_signal_connect_object (spin, "value-changed",
-                           G_CALLBACK (landmark_coord_cb), self, 0);
-  return GTK_SPIN_BUTTON (spin);
-}
-
-static void
-build_landmark_rows (HlWindow *self)
-{
-  g_autoptr(GtkSizeGroup) names = gtk_size_group_new (GTK_SIZE_GROUP_HORIZONTAL);
-  GtkWidget *header = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
-  const char *titles[] = { N_("Landmark"), N_("x (mm)"), N_("y (mm)"), N_("Placed") };
-
-  for (guint i = 0; i < G_N_ELEMENTS (titles); i++)
-    {
-      GtkWidget *title = gtk_label_new (_(titles[i]));
-
-      gtk_widget_add_css_class (title, "heading");
-      gtk_label_set_xalign (GTK_LABEL (title), 0.0f);
-      if (i == 0)
-        {
-          gtk_size_group_add_widget (names, title);
-          gtk_widget_set_hexpand (title, TRUE);
-        }
-      else if (i < 3)
-        gtk_label_set_width_chars (GTK_LABEL (title), 8);
-      gtk_box_append (GTK_BOX (header), title);
-    }
-  gtk_widget_add_css_class (header, "landmark-header");
-  gtk_list_box_set_placeholder (self->landmark_list, NULL);
-  gtk_list_box_prepend (self->landmark_list, header);
-  gtk_list_box_row_set_selectable (GTK_LIST_BOX_ROW (gtk_widget_get_parent (header)), FALSE);
-  gtk_list_box_row_set_activatable (GTK_LIST_BOX_ROW (gtk_widget_get_parent (header)), FALSE);
-
-  for (int i = 0; i < HL_LM_COUNT; i++)
-    {
-      HlLandmarkId id = (HlLandmarkId) i;
-      const HlLandmarkInfo *info = hl_landmark_info (id);
-      GtkWidget *box = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
-      GtkWidget *names_box = gtk_box_new (GTK_ORIENTATION_VERTICAL, 0);
-      GtkWidget *name = gtk_label_new (_(info->label));
-      GtkWidget *kind = gtk_label_new (info->required ? _("required") : _("optional"));
-      GtkWidget *placed = gtk_check_button_new ();
-      GtkWidget *row;
-
-      gtk_label_set_xalign (GTK_LABEL (name), 0.0f);
-      gtk_label_set_wrap (GTK_LABEL (name), TRUE);
-      gtk_label_set_xalign (GTK_LABEL (kind), 0.0f);
-      gtk_widget_add_css_class (kind, "caption");
-      gtk_widget_add_css_class (kind, info->required ? "required" : "dim-label");
-      gtk_box_append (GTK_BOX (names_box), name);
-      gtk_box_append (GTK_BOX (names_box), kind);
-      gtk_widget_set_hexpand (names_box, TRUE);
-      gtk_widget_set_valign (names_box, GTK_ALIGN_CENTER);
-      gtk_size_group_add_widget (names, names_box);
-      gtk_box_append (GTK_BOX (box), names_box);
-
-      self->lm_x[i] = landmark_spin (self, id, _("x (mm)"));
-      self->lm_y[i] = landmark_spin (self, id, _("y (mm)"));
-      gtk_box_append (GTK_BOX (box), GTK_WIDGET (self->lm_x[i]));
-      gtk_box_append (GTK_BOX (box), GTK_WIDGET (self->lm_y[i]));
-
-      g_object_set_data (G_OBJECT (placed), HL_LANDMARK_ID_KEY, GINT_TO_POINTER (id));
-      gtk_widget_set_valign (placed, GTK_ALIGN_CENTER);
-      gtk_accessible_update_property (GTK_ACCESSIBLE (placed),
-                                      GTK_ACCESSIBLE_PROPERTY_LABEL, _("Placed"), -1);
-      g_signal_connect_object (placed, "toggled",
-                               G_CALLBACK (landmark_placed_cb), self, 0);
-      self->lm_placed[i] = GTK_CHECK_BUTTON (placed);
-      gtk_box_append (GTK_BOX (box), placed);
-
-      row = gtk_list_box_row_new ();
-      gtk_list_box_row_set_child (GTK_LIST_BOX_ROW (row), box);
-      gtk_widget_set_tooltip_text (row, _(info->hint));
-      g_object_set_data (G_OBJECT (row), HL_LANDMARK_ID_KEY, GINT_TO_POINTER (id));
-      gtk_list_box_append (self->landmark_list, row);
-      self->lm_row[i] = row;
-    }
-  g_signal_connect_object (self->landmark_list, "row-selected",
-                           G_CALLBACK (landmark_row_selected_cb), self, 0);
-  show_landmark_hint (self, -1);
-}
-
-void
-hl_window_panel_sync_landmark (HlWindow *self, HlLandmarkId id)
-{
-  const HlLandmarks *lm = &self->plan->landmarks;
-  gboolean placed = hl_landmarks_has (lm, id);
-
-  self->syncing++;
-  if (placed)
-    {
-      set_spin (self->lm_x[id], lm->p[id].x);
-      set_spin (self->lm_y[id], lm->p[id].y);
-    }
-  gtk_check_button_set_active (self->lm_placed[id], placed);
-  if (placed)
-    gtk_widget_remove_css_class (self->lm_row[id], "unplaced");
-  else
-    gtk_widget_add_css_class (self->lm_row[id], "unplaced");
-  self->syncing--;
-}
-
-void
-hl_window_panel_select_landmark (HlWindow *self, int id)
-{
-  GtkListBoxRow *current = gtk_list_box_get_selected_row (self->landmark_list);
-
-  self->syncing++;
-  if (id < 0 || id >= HL_LM_COUNT)
-    gtk_list_box_unselect_all (self->landmark_list);
-  else if (current == NULL || GTK_WIDGET (current) != self->lm_row[id])
-    gtk_list_box_select_row (self->landmark_list, GTK_LIST_BOX_ROW (self->lm_row[id]));
-  self->syncing--;
-  show_landmark_hint (self, id);
 }
 
 /* ---- options -------------------------------------------------------- */
@@ -466,17 +250,12 @@ hl_window_panel_sync_options (HlWindow *self)
 void
 hl_window_panel_sync (HlWindow *self)
 {
-  self->syncing++;
-  for (int i = 0; i < HL_LM_COUNT; i++)
-    hl_window_panel_sync_landmark (self, (HlLandmarkId) i);
-  self->syncing--;
   hl_window_panel_sync_options (self);
 }
 
 void
 hl_window_panel_init (HlWindow *self)
 {
-  build_landmark_rows (self);
   build_option_params (self);
   g_signal_connect_object (self->option_list, "row-selected",
                            G_CALLBACK (option_row_selected_cb), self, 0);
@@ -488,8 +267,7 @@ void
 hl_window_panel_bind_template (GtkWidgetClass *widget_class)
 {
   gtk_widget_class_bind_template_child (widget_class, HlWindow, case_page);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, landmark_list);
-  gtk_widget_class_bind_template_child (widget_class, HlWindow, landmark_hint_label);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, landmarks_page);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, option_list);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, add_option_button);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, duplicate_option_button);

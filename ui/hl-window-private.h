@@ -10,6 +10,7 @@
 #include "hl-canvas.h"
 #include "hl-case-page.h"
 #include "hl-document.h"
+#include "hl-landmarks-page.h"
 #include "hl-radiograph-page.h"
 #include "hl-results.h"
 #include "hl-ui-types.h"
@@ -41,8 +42,7 @@ struct _HlWindow {
   /* case page */
   HlCasePage *case_page;
   /* landmarks page */
-  GtkListBox *landmark_list;
-  GtkLabel *landmark_hint_label;
+  HlLandmarksPage *landmarks_page;
   /* options page */
   GtkListBox *option_list;
   GtkButton *add_option_button;
@@ -55,10 +55,6 @@ struct _HlWindow {
   HlAidsPage *aids_page;
 
   /* built in code */
-  GtkWidget *lm_row[HL_LM_COUNT];
-  GtkSpinButton *lm_x[HL_LM_COUNT];
-  GtkSpinButton *lm_y[HL_LM_COUNT];
-  GtkCheckButton *lm_placed[HL_LM_COUNT];
   GtkSpinButton *recon_spin[HL_RECON_N_PARAMS];
 
   /* owned */
@@ -105,9 +101,7 @@ void hl_window_show_error (HlWindow *self, const char *primary,
 /* hl-window-panel.c */
 void hl_window_panel_init (HlWindow *self);
 void hl_window_panel_sync (HlWindow *self);
-void hl_window_panel_sync_landmark (HlWindow *self, HlLandmarkId id);
 void hl_window_panel_sync_options (HlWindow *self);
-void hl_window_panel_select_landmark (HlWindow *self, int id);
 void hl_window_panel_bind_template (GtkWidgetClass *widget_class);
 
 /* hl-window-actions.c */

@@ -230,22 +230,11 @@ hl_window_print_handles (HlWindow *self)
   print_widget (self, "remove-option", GTK_WIDGET (self->remove_option_button));
   print_widget (self, "option-name", GTK_WIDGET (self->option_name_entry));
   hl_case_page_print_handles (self->case_page);
-  for (int i = 0; i < HL_LM_COUNT; i++)
-    {
-      g_autofree char *x = g_strdup_printf ("lm-x-%s", hl_landmark_info ((HlLandmarkId) i)->key);
-      g_autofree char *y = g_strdup_printf ("lm-y-%s", hl_landmark_info ((HlLandmarkId) i)->key);
-
-      print_widget (self, x, GTK_WIDGET (self->lm_x[i]));
-      print_widget (self, y, GTK_WIDGET (self->lm_y[i]));
-    }
+  hl_landmarks_page_print_handles (self->landmarks_page);
   {
     int on_canvas = hl_canvas_get_selected_landmark (self->canvas);
-    GtkListBoxRow *row = gtk_list_box_get_selected_row (self->landmark_list);
-    int in_table = -1;
+    int in_table = hl_landmarks_page_get_selected_landmark (self->landmarks_page);
 
-    for (int i = 0; i < HL_LM_COUNT && row != NULL; i++)
-      if (self->lm_row[i] == GTK_WIDGET (row))
-        in_table = i;
     printf ("SELECTED %s %s\n",
             on_canvas >= 0 ? hl_landmark_info ((HlLandmarkId) on_canvas)->key : "none",
             in_table >= 0 ? hl_landmark_info ((HlLandmarkId) in_table)->key : "none");

@@ -132,9 +132,6 @@ document_changed_cb (HlDocument *document, guint what, HlWindow *self)
   if (what & (HL_DOCUMENT_CHANGED_VALUES | HL_DOCUMENT_CHANGED_OPTIONS
               | HL_DOCUMENT_CHANGED_SELECTION | HL_DOCUMENT_CHANGED_REPLACED))
     hl_window_panel_sync (self);
-  else if (what & HL_DOCUMENT_CHANGED_GEOMETRY)
-    for (int i = 0; i < HL_LM_COUNT; i++)
-      hl_window_panel_sync_landmark (self, (HlLandmarkId) i);
   if (what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_FILE
               | HL_DOCUMENT_CHANGED_RESULTS))
     {
@@ -338,12 +335,23 @@ case_side_changed_cb (HlCasePage *page, HlWindow *self)
   hl_canvas_fit (self->canvas);
 }
 
+/* A row of the landmark table selected: the same landmark on the schematic. */
+static void
+page_selected_landmark_cb (HlLandmarksPage *page, GParamSpec *pspec, HlWindow *self)
+{
+  int id = hl_landmarks_page_get_selected_landmark (page);
+
+  if (!self->disposing && hl_canvas_get_selected_landmark (self->canvas) != id)
+    hl_canvas_set_selected_landmark (self->canvas, id);
+}
+
 static void
 canvas_selected_landmark_cb (HlCanvas *canvas, GParamSpec *pspec, HlWindow *self)
 {
   if (self->disposing)
     return;
-  hl_window_panel_select_landmark (self, hl_canvas_get_selected_landmark (canvas));
+  hl_landmarks_page_set_selected_landmark (self->landmarks_page,
+                                           hl_canvas_get_selected_landmark (canvas));
   self->handles_dirty = TRUE;
 }
 
@@ -479,6 +487,7 @@ hl_window_class_init (HlWindowClass *klass)
 
   g_type_ensure (HL_TYPE_AIDS_PAGE);
   g_type_ensure (HL_TYPE_CASE_PAGE);
+  g_type_ensure (HL_TYPE_LANDMARKS_PAGE);
   g_type_ensure (HL_TYPE_CANVAS);
   g_type_ensure (HL_TYPE_RESULTS);
   g_type_ensure (HL_TYPE_CHARTS_VIEW);
@@ -530,6 +539,9 @@ hl_window_init (HlWindow *self)
   hl_case_page_set_document (self->case_page, self->document);
   g_signal_connect_object (self->case_page, "side-changed",
                            G_CALLBACK (case_side_changed_cb), self, 0);
+  hl_landmarks_page_set_document (self->landmarks_page, self->document);
+  g_signal_connect_object (self->landmarks_page, "notify::selected-landmark",
+                           G_CALLBACK (page_selected_landmark_cb), self, 0);
   hl_window_panel_init (self);
   hl_template_tool_attach (self->canvas, self->document);
   GtkWidget *template_panel = hl_template_panel_new (self->document);
