@@ -538,6 +538,17 @@ dicom_prescan (int fd, off_t size, const char *path, HlError *err)
           len = h[6] | (h[7] << 8);
           head = 8;
         }
+      /* Undefined length: sequences, UN, and the pixel data (encapsulated)
+       * only; GDCM asserts on any other (a third fuzz finding: the
+       * program aborted). */
+      if (len == DICOM_UNDEFINED_LENGTH && !(implicit && !in_meta)
+          && !(h[4] == 'S' && h[5] == 'Q') && !(h[4] == 'U' && h[5] == 'N')
+          && !(group == 0x7fe0 && elem == 0x0010 && h[4] == 'O'
+               && (h[5] == 'B' || h[5] == 'W')))
+        return hl_error_set (err, HL_ERR_PARSE, path,
+                             _("The DICOM file \"%s\" cannot be opened: its element "
+                               "(%04X,%04X) has an undefined length its kind cannot have "
+                               "(damaged)"), path, group, elem);
       if (len == DICOM_UNDEFINED_LENGTH)
         {
           /* Items of defined length (the fragments of compressed pixel
