@@ -11,6 +11,8 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include <glib.h>
+
 #include "hl-buf.h"
 
 #define HL_BUF_MIN_CAP 4096
@@ -107,27 +109,48 @@ hl_buf_printf (HlBuf *b, const char *fmt, ...)
   va_end (ap);
 }
 
+/* A cell that reads whole as a number ("-2.5", "+1e3") stays a number. */
+static bool
+is_number (const char *field)
+{
+  char *end = NULL;
+  if (field[0] == '\0' || g_ascii_isspace (field[0]))
+    return false;
+  (void) g_ascii_strtod (field, &end);
+  return end != NULL && end != field && *end == '\0';
+}
+
 void
-hl_buf_csv_field (HlBuf *b, const char *field)
+hl_csv_field_append (GString *out, const char *field)
 {
   /* A text cell that a spreadsheet would run as a formula gets a leading
-   * apostrophe (OWASP, "CSV Injection"). */
-  bool formula = field[0] != '\0' && strchr ("=+-@\t\r", field[0]) != NULL;
+   * apostrophe (OWASP, "CSV Injection"); a number stays a number. */
+  bool formula = field[0] != '\0' && strchr ("=+-@\t\r", field[0]) != NULL
+                 && !is_number (field);
   if (strpbrk (field, ",\"\r\n") == NULL)
     {
       if (formula)
-        hl_buf_append (b, "'", 1);
-      hl_buf_puts (b, field);
+        g_string_append_c (out, '\'');
+      g_string_append (out, field);
       return;
     }
-  hl_buf_append (b, "\"", 1);
+  g_string_append_c (out, '"');
   if (formula)
-    hl_buf_append (b, "'", 1);
+    g_string_append_c (out, '\'');
   for (const char *p = field; *p != '\0'; p++)
     {
-      hl_buf_append (b, p, 1);
       if (*p == '"')
-        hl_buf_append (b, "\"", 1);
+        g_string_append_c (out, '"');
+      g_string_append_c (out, *p);
     }
-  hl_buf_append (b, "\"", 1);
+  g_string_append_c (out, '"');
+}
+
+void
+hl_buf_csv_field (HlBuf *b, const char *field)
+{
+  GString *s = g_string_sized_new (strlen (field) + 4);
+  hl_csv_field_append (s, field);
+  hl_buf_append (b, s->str, s->len);
+  g_string_free (s, TRUE);
 }

@@ -37,6 +37,14 @@ void hl_buf_printf (HlBuf *b, const char *fmt, ...)
   __attribute__ ((format (printf, 2, 3)));
 void hl_buf_vprintf (HlBuf *b, const char *fmt, va_list ap)
   __attribute__ ((format (printf, 2, 0)));
+/* The one CSV rule of every CSV the programs write (the command line's,
+ * the window's copies, sweeps): a cell with a comma, a quote or a line
+ * break is quoted, quotes doubled; a text cell a spreadsheet would run as
+ * a formula (=, +, -, @, tab, CR first) gets a leading apostrophe unless
+ * it reads whole as a number.  Appends to a GString. */
+typedef struct _GString GString;
+void hl_csv_field_append (GString *out, const char *field);
+/* The same rule into an HlBuf. */
 /* One CSV text field, quoted as RFC 4180 asks when it holds a comma, a
  * quote, CR or LF.  A field that begins with =, +, -, @, a tab or a CR
  * gets a leading apostrophe, as the OWASP CSV-injection guidance asks, so

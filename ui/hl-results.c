@@ -12,6 +12,7 @@
 #include <glib/gi18n.h>
 
 #include "hl-measure.h"
+#include "hl-buf.h"
 #include "hl-result-fields.h"
 #include "hl-results.h"
 
@@ -215,7 +216,6 @@ format_range (const HlMcSummary *s, guint k, gboolean native)
 }
 
 static void hl_results_show_ranges (HlResults *self);
-static void csv_append_field (GString *s, const char *text);
 
 static GtkWidget *
 make_label (const char *css, float xalign)
@@ -502,7 +502,7 @@ hl_results_format_ranges_csv (HlResults *self)
   for (guint k = 0; k < G_N_ELEMENTS (keys); k++)
     {
       g_string_append_printf (s, "%s,", keys[k]);
-      csv_append_field (s, _("× BW"));
+      hl_csv_field_append (s, _("× BW"));
       for (size_t c = 0; c < self->n_ranges; c++)
         {
           const HlMcSummary *m = &self->ranges[c];
@@ -514,7 +514,7 @@ hl_results_format_ranges_csv (HlResults *self)
             {
               g_autofree char *cell = g_strdup_printf ("%.*f", RANGE_DIGITS, v);
 
-              csv_append_field (s, cell);
+              hl_csv_field_append (s, cell);
             }
         }
       g_string_append_c (s, '\n');
@@ -529,7 +529,7 @@ hl_results_format_ranges_csv (HlResults *self)
         {
           g_autofree char *cell = g_strdup_printf ("%.*f", SHARE_DIGITS, 100.0 * v);
 
-          csv_append_field (s, cell);
+          hl_csv_field_append (s, cell);
         }
     }
   g_string_append_c (s, '\n');
@@ -619,24 +619,6 @@ hl_results_set_selected_option (HlResults *self, int index)
     }
 }
 
-static void
-csv_append_field (GString *s, const char *text)
-{
-  if (strpbrk (text, ",\"\n") == NULL)
-    {
-      g_string_append (s, text);
-      return;
-    }
-  g_string_append_c (s, '"');
-  for (const char *p = text; *p != '\0'; p++)
-    {
-      if (*p == '"')
-        g_string_append_c (s, '"');
-      g_string_append_c (s, *p);
-    }
-  g_string_append_c (s, '"');
-}
-
 char *
 hl_results_format_csv (const HlPlan *plan, const HlSolved *solved, size_t n)
 {
@@ -645,14 +627,14 @@ hl_results_format_csv (const HlPlan *plan, const HlSolved *solved, size_t n)
   for (size_t c = 1; c < n; c++)
     {
       g_string_append_c (s, ',');
-      csv_append_field (s, plan->options[c - 1].name);
+      hl_csv_field_append (s, plan->options[c - 1].name);
     }
   g_string_append_c (s, '\n');
 
   for (guint r = 0; r < N_ROWS; r++)
     {
       g_string_append_printf (s, "%s,", rows[r]->key);
-      csv_append_field (s, rows[r]->unit);
+      hl_csv_field_append (s, rows[r]->unit);
       for (size_t c = 0; c < n; c++)
         {
           g_autofree char *cell = NULL;
@@ -661,7 +643,7 @@ hl_results_format_csv (const HlPlan *plan, const HlSolved *solved, size_t n)
           if (solved[c].status != HL_OK)
             continue;
           cell = format_value (rows[r], rows[r]->get (&solved[c].result));
-          csv_append_field (s, cell);
+          hl_csv_field_append (s, cell);
         }
       g_string_append_c (s, '\n');
     }
@@ -673,7 +655,7 @@ hl_results_format_csv (const HlPlan *plan, const HlSolved *solved, size_t n)
 
       g_string_append_c (s, ',');
       if (solved[c].status == HL_OK)
-        csv_append_field (s, hl_flags_format (solved[c].result.flags, ";",
+        hl_csv_field_append (s, hl_flags_format (solved[c].result.flags, ";",
                                               buf, sizeof buf));
     }
   g_string_append (s, "\nerror,");
@@ -684,7 +666,7 @@ hl_results_format_csv (const HlPlan *plan, const HlSolved *solved, size_t n)
         {
           g_autofree char *msg = format_error (&solved[c]);
 
-          csv_append_field (s, msg);
+          hl_csv_field_append (s, msg);
         }
     }
   g_string_append_c (s, '\n');
