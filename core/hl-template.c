@@ -254,6 +254,15 @@ hl_template_place_default (const HlPlan *plan, const HlCatalogue *cat,
   if (st != HL_OK)
     return st;
 
+  /* Where the acetabulum is marked, start from the size the cup suggestion
+   * gives (teardrop to lateral margin): the teardrop distance alone is a
+   * radius only for a cup already seated at the teardrop, and overshoots
+   * from the native centre. */
+  HlCupSuggestion cup;
+  if (hl_template_suggest_cup (plan, t, cat, &cup, NULL) == HL_OK
+      && hl_cup_family_size_index (cf, cup.diameter_mm) >= 0)
+    t->cup_diameter_mm = cup.diameter_mm;
+
   /* Seat: the head centre level with the rotation centre. */
   HlTemplateFrame f;
   HlTemplateGeometry g;

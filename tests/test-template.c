@@ -432,6 +432,23 @@ templated_demo (HlCatalogue **cat, long *index)
   return plan;
 }
 
+/* The default placement starts from the suggested cup size where the
+ * acetabulum is marked (the demo marks the teardrop and the margin). */
+START_TEST (test_default_takes_suggested_cup)
+{
+  HlCatalogue *cat;
+  long k;
+  HlPlan *plan = templated_demo (&cat, &k);
+  const HlTemplate *t = &plan->options[k].recon.tmpl;
+  HlCupSuggestion cup;
+  HlError err;
+  ck_assert_int_eq (hl_template_suggest_cup (plan, t, cat, &cup, &err), HL_OK);
+  ck_assert_double_eq_tol (t->cup_diameter_mm, cup.diameter_mm, 1e-9);
+  hl_plan_free (plan);
+  hl_catalogue_free (cat);
+}
+END_TEST
+
 START_TEST (test_solve_follows_template)
 {
   HlCatalogue *cat;
@@ -693,6 +710,7 @@ template_suite (void)
   tcase_add_test (tc, test_hostile_catalogue);
   suite_add_tcase (s, tc);
   tc = tcase_create ("plan");
+  tcase_add_test (tc, test_default_takes_suggested_cup);
   tcase_add_test (tc, test_solve_follows_template);
   tcase_add_test (tc, test_plan_round_trip);
   tcase_add_test (tc, test_readouts_and_cup_suggestion);
