@@ -111,6 +111,7 @@ struct _HlRadiographPage {
   gboolean guiding;
   int guide_index;           /* HlLandmarkId asked for; kept when stopped */
   gboolean benchmark;
+  int test_answer;          /* test hook: 0 ask, 1 keep, 2 clear on a new import */
 };
 
 G_DEFINE_FINAL_TYPE (HlRadiographPage, hl_radiograph_page, GTK_TYPE_BOX)
@@ -282,6 +283,70 @@ sync_underlay (HlRadiographPage *self)
   start_load (self, rg->path, FALSE, rg->sha256);
 }
 
+/* Attaches a decoded image to the plan as one undoable edit.  `clear`:
+ * the landmarks go back to the defaults of a new plan and the calibration
+ * of the old image is dropped. */
+static void
+import_apply (HlRadiographPage *self, const char *path, const char *hex,
+              HlUnderlay *underlay, gboolean clear)
+{
+  if (hl_document_begin_edit (self->document, NULL) == NULL)
+    {
+      hl_underlay_free (underlay);
+      return;
+    }
+  HlPlan *plan = plan_of (self);
+  if (clear)
+    {
+      HlPlan *fresh = hl_plan_new ();
+      if (fresh != NULL)
+        {
+          hl_plan_set_demo_landmarks (fresh);
+          plan->landmarks = fresh->landmarks;
+          plan->calibration = fresh->calibration;
+          hl_plan_free (fresh);
+        }
+    }
+  const HlGrayImage *img = hl_underlay_get_image (underlay);
+  HlSpacingChoice sc;
+  if (hl_spacing_choose (&img->spacing, &sc, NULL) != HL_OK)
+    sc.source = HL_SPACING_NONE;   /* checked by the reader: cannot happen */
+  double typed = plan->radiograph.present ? plan->radiograph.pixel_spacing_mm
+                                          : HL_PIXEL_SPACING_DEFAULT_MM;
+  g_autofree char *abs = g_canonicalize_filename (path, NULL);
+  hl_image_attach_file (plan, abs, hex, &sc, typed, hl_underlay_get_width (underlay),
+                        hl_underlay_get_height (underlay));
+  drop_underlay (self);
+  self->underlay = underlay;
+  g_free (self->loaded_path);
+  self->loaded_path = g_strdup (plan->radiograph.path);
+  hl_canvas_set_underlay (self->canvas, self->underlay);
+  set_banner (self->image_banner, NULL);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
+}
+
+/* An image waiting for the answer to "keep or clear?". */
+typedef struct {
+  HlRadiographPage *self;   /* a reference */
+  char *path;
+  char hex[65];
+  HlUnderlay *underlay;
+} PendingImport;
+
+static void
+replace_response_cb (GtkDialog *dialog, int response, PendingImport *p)
+{
+  gtk_window_destroy (GTK_WINDOW (dialog));
+  if ((response == GTK_RESPONSE_ACCEPT || response == GTK_RESPONSE_REJECT)
+      && !p->self->disposed)
+    import_apply (p->self, p->path, p->hex, g_steal_pointer (&p->underlay),
+                  response == GTK_RESPONSE_REJECT);
+  hl_underlay_free (p->underlay);
+  g_free (p->path);
+  g_object_unref (p->self);
+  g_free (p);
+}
+
 static void
 import_done (HlRadiographPage *self, LoadJob *job)
 {
@@ -291,25 +356,38 @@ import_done (HlRadiographPage *self, LoadJob *job)
       hl_message_show_error (GTK_WIDGET (self), _("Could not import the image"), msg);
       return;
     }
-  if (hl_document_begin_edit (self->document, NULL) == NULL)
-    return;
-  HlPlan *plan = plan_of (self);
-  const HlGrayImage *img = hl_underlay_get_image (job->underlay);
-  HlSpacingChoice sc;
-  if (hl_spacing_choose (&img->spacing, &sc, NULL) != HL_OK)
-    sc.source = HL_SPACING_NONE;   /* checked by the reader: cannot happen */
-  double typed = plan->radiograph.present ? plan->radiograph.pixel_spacing_mm
-                                          : HL_PIXEL_SPACING_DEFAULT_MM;
-  g_autofree char *abs = g_canonicalize_filename (job->path, NULL);
-  hl_image_attach_file (plan, abs, job->hex, &sc, typed, hl_underlay_get_width (job->underlay),
-                        hl_underlay_get_height (job->underlay));
-  drop_underlay (self);
-  self->underlay = g_steal_pointer (&job->underlay);
-  g_free (self->loaded_path);
-  self->loaded_path = g_strdup (plan->radiograph.path);
-  hl_canvas_set_underlay (self->canvas, self->underlay);
-  set_banner (self->image_banner, NULL);
-  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
+  /* A new image over an old one: the landmarks and the calibration were
+   * placed on the old image, so keeping them is a choice, never silent. */
+  if (!plan_of (self)->radiograph.present || self->test_answer != 0)
+    {
+      import_apply (self, job->path, job->hex, g_steal_pointer (&job->underlay),
+                    self->test_answer == 2);
+      self->test_answer = 0;   /* the hook's answer holds for its own import only */
+      return;
+    }
+  PendingImport *p = g_new0 (PendingImport, 1);
+  p->self = g_object_ref (self);
+  p->path = g_strdup (job->path);
+  g_strlcpy (p->hex, job->hex, sizeof p->hex);
+  p->underlay = g_steal_pointer (&job->underlay);
+  GtkRoot *root = gtk_widget_get_root (GTK_WIDGET (self));
+  GtkWidget *dialog = gtk_message_dialog_new (GTK_IS_WINDOW (root) ? GTK_WINDOW (root) : NULL,
+                                              GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
+                                              GTK_MESSAGE_QUESTION, GTK_BUTTONS_NONE, "%s",
+                                              _("Keep the landmarks and the calibration of the "
+                                                "previous radiograph?"));
+  gtk_message_dialog_format_secondary_text (
+    GTK_MESSAGE_DIALOG (dialog), "%s",
+    _("They were placed on the previous image; the new one may show the hip at another "
+      "place and scale. Clear puts the landmarks back to the defaults of a new plan and "
+      "removes the calibration; Keep leaves both to be checked on the new image."));
+  gtk_dialog_add_buttons (GTK_DIALOG (dialog), _("_Cancel"), GTK_RESPONSE_CANCEL,
+                          _("C_lear"), GTK_RESPONSE_REJECT, _("_Keep"), GTK_RESPONSE_ACCEPT,
+                          NULL);
+  gtk_dialog_set_default_response (GTK_DIALOG (dialog), GTK_RESPONSE_CANCEL);
+  gtk_window_set_title (GTK_WINDOW (dialog), _("A new radiograph"));
+  g_signal_connect (dialog, "response", G_CALLBACK (replace_response_cb), p);
+  gtk_window_present (GTK_WINDOW (dialog));
 }
 
 static void
@@ -1060,6 +1138,12 @@ test_import_cb (gpointer data)
 {
   HlRadiographPage *self = data;
   const char *path = g_getenv ("HIPLEVER_TEST_UNDERLAY");
+  /* Over the plan's own image the hook keeps the landmarks and the
+   * calibration unless told otherwise (HIPLEVER_TEST_IMPORT_ANSWER=ask,
+   * keep or clear). */
+  const char *answer = g_getenv ("HIPLEVER_TEST_IMPORT_ANSWER");
+  self->test_answer = g_strcmp0 (answer, "ask") == 0 ? 0
+                      : g_strcmp0 (answer, "clear") == 0 ? 2 : 1;
   if (path != NULL && path[0] != '\0')
     import_file (self, path);
   return G_SOURCE_REMOVE;

@@ -2,6 +2,8 @@
 # New plan (Ctrl+N): the window starts from the schematic with every
 # landmark at a plausible default, no options and no radiograph, says which
 # landmarks to move, and asks first when the open plan has unsaved changes.
+# Importing a new radiograph over a plan's own asks whether to keep or clear
+# the landmarks and the calibration.
 #
 # Copyright 2026 the hiplever developers
 # SPDX-License-Identifier: GPL-3.0-or-later
@@ -48,4 +50,32 @@ hl_key alt+d
 hl_settle
 hl_quit_discarding
 check_new_plan "$HL_TMP/edited.xml"
+# 3. A new radiograph over the plan's own asks whether to keep or clear the
+# landmarks and the calibration (never silently keeps them).  The plan's
+# hip centre is moved off the default so that keeping and clearing differ.
+moved="$HL_TMP/moved.hlplan"
+sed 's/<landmark name="hip-centre" x-mm="-95" y-mm="0"/<landmark name="hip-centre" x-mm="-97" y-mm="1"/' \
+  "$HL_DEMO" >"$moved"
+cp "$SRCDIR/data/examples/demo-radiograph.png" "$HL_TMP/"
+grep -q 'x-mm="-97" y-mm="1"' "$moved" || hl_fail "could not move the hip centre"
+cp "$SRCDIR/data/examples/demo-radiograph.png" "$HL_TMP/new-image.png"
+for answer in clear keep; do
+  HIPLEVER_TEST_UNDERLAY="$HL_TMP/new-image.png" HIPLEVER_TEST_IMPORT_ANSWER=ask \
+    hl_start "import-$answer" --dump-summary-on-exit "$HL_TMP/import-$answer.xml" "$moved"
+  hl_wait_dialog "A new radiograph"
+  if [ "$answer" = clear ]; then hl_key alt+l; else hl_key alt+k; fi
+  sleep 1
+  hl_quit_discarding
+  s="$HL_TMP/import-$answer.xml"
+  path=$(xmllint --xpath "string(//*[local-name()='radiograph']/@path)" "$s")
+  case "$path" in *new-image.png) ;; *) hl_fail "$answer: the radiograph is '$path'" ;; esac
+  method=$(xmllint --xpath "string(//*[local-name()='calibration']/@method)" "$s")
+  if [ "$answer" = clear ]; then
+    hl_expect "clear: hip centre x back to the default" "$(hl_landmark "$s" hip-centre x-mm)" "~" -95
+    [ "$method" = assumed ] || hl_fail "clear: the calibration is '$method', not assumed"
+  else
+    hl_expect "keep: hip centre x kept" "$(hl_landmark "$s" hip-centre x-mm)" "~" -97
+    [ "$method" = marker ] || hl_fail "keep: the calibration is '$method', not the marker"
+  fi
+done
 echo "PASS"
