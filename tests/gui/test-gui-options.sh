@@ -94,6 +94,30 @@ names=$(option_names "$HL_TMP/removed.xml")
   || hl_fail "after two removals and an undo: $names"
 hl_note "ok: removed twice and undone once: $names"
 
+# A plan holds at most 64 options: Add refuses the 65th with a message, and
+# the plan keeps its 64 (Duplicate's refusal: test-trust).
+full="$HL_TMP/full.hlplan"
+python3 - "$plan" "$full" <<'PY'
+import re, sys
+text = open(sys.argv[1], encoding="utf-8").read()
+have = len(re.findall(r"<option[ >]", text))
+more = "".join('    <option name="Extra %d" femoral-offset-mm="%d"/>\n' % (i, i % 5)
+               for i in range(1, 64 - have + 1))
+open(sys.argv[2], "w", encoding="utf-8").write(text.replace("</options>", more + "  </options>", 1))
+PY
+[ "$(hl_count "$full" option)" = 64 ] || hl_fail "the full plan does not have 64 options"
+hl_start full --dump-summary-on-exit "$HL_TMP/full.xml" "$full"
+hl_key ctrl+shift+n
+hl_wait_dialog Error
+hl_grab option-limit
+hl_key Return
+sleep 0.5
+kill -0 "$HL_PID" 2>/dev/null || hl_fail "the program ended at the option limit"
+hl_quit_discarding
+n_full=$(xmllint --xpath "count(//*[local-name()='options']/*[local-name()='option'])" "$HL_TMP/full.xml")
+hl_expect "the plan keeps 64 options after Add" "$n_full" "~" 64
+hl_note "ok: the 65th option was refused"
+
 n=$(xmllint --xpath "count(//*[local-name()='result'][@kind='option'])" "$HL_TMP/options.xml")
 hl_expect "two more options solved in the summary" "$n" "~" "$((n0 + 2))"
 name=$(xmllint --xpath "string(//*[local-name()='options']/*[local-name()='option'][last()]/@name)" "$HL_TMP/options.xml")
