@@ -760,46 +760,21 @@ hl_plan_to_buffer (const HlPlan *plan, char **out, size_t *size, HlError *err)
 
 /* ---- The planning summary --------------------------------------------- */
 
-static bool
-is_leap_year (int y)
-{
-  return (y % 4 == 0 && y % 100 != 0) || y % 400 == 0;
-}
-
-static bool
-digits_at (const char *s, int n, int *value)
-{
-  *value = 0;
-  for (int i = 0; i < n; i++)
-    {
-      if (!is_digit (s[i]))
-        return false;
-      *value = *value * 10 + (s[i] - '0');
-    }
-  return true;
-}
-
 /* Accepts YYYY-MM-DDTHH:MM:SS[.fraction](Z|+hh:mm|-hh:mm), the xs:dateTime
- * forms a summary may carry. */
+ * forms a summary may carry: GLib reads the date (the calendar, the zone);
+ * the layout is checked here because GLib also takes forms the schema does
+ * not (a space for the "T", no seconds, no zone). */
 static bool
 iso_date_valid (const char *s)
 {
-  static const int days_in_month[12] = { 31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31 };
-  int year, month, day, hour, minute, second;
-
-  if (strlen (s) < 20 || !digits_at (s, 4, &year) || s[4] != '-'
-      || !digits_at (s + 5, 2, &month) || s[7] != '-' || !digits_at (s + 8, 2, &day)
-      || s[10] != 'T' || !digits_at (s + 11, 2, &hour) || s[13] != ':'
-      || !digits_at (s + 14, 2, &minute) || s[16] != ':'
-      || !digits_at (s + 17, 2, &second))
+  static const char layout[] = "dddd-dd-ddTdd:dd:dd";
+  size_t n = strlen (s);
+  if (n < sizeof layout - 1)
     return false;
-  if (year < 1 || month < 1 || month > 12 || hour > 23 || minute > 59 || second > 59)
-    return false;
-  int mdays = days_in_month[month - 1] + (month == 2 && is_leap_year (year));
-  if (day < 1 || day > mdays)
-    return false;
-
-  const char *p = s + 19;
+  for (size_t i = 0; i + 1 < sizeof layout; i++)
+    if (layout[i] == 'd' ? !is_digit (s[i]) : s[i] != layout[i])
+      return false;
+  const char *p = s + sizeof layout - 1;
   if (*p == '.')
     {
       p++;
@@ -808,11 +783,15 @@ iso_date_valid (const char *s)
       while (is_digit (*p))
         p++;
     }
-  if (strcmp (p, "Z") == 0)
-    return true;
-  int oh, om;
-  return (*p == '+' || *p == '-') && strlen (p) == 6 && digits_at (p + 1, 2, &oh)
-         && p[3] == ':' && digits_at (p + 4, 2, &om) && oh <= 14 && om <= 59;
+  if (strcmp (p, "Z") != 0
+      && !((*p == '+' || *p == '-') && strlen (p) == 6 && is_digit (p[1]) && is_digit (p[2])
+           && p[3] == ':' && is_digit (p[4]) && is_digit (p[5])))
+    return false;
+  GDateTime *dt = g_date_time_new_from_iso8601 (s, NULL);
+  if (dt == NULL)
+    return false;
+  g_date_time_unref (dt);
+  return true;
 }
 
 /* A measure only when its landmarks are placed. */
@@ -1044,12 +1023,18 @@ summary_to_buffer_for (const HlPlan *plan, const char *date_iso, const char *bas
   char now[HL_ISO_DATE_MAX];
   if (date_iso == NULL)
     {
-      time_t t = time (NULL);
-      struct tm tm;
-      if (gmtime_r (&t, &tm) == NULL
-          || strftime (now, sizeof now, "%Y-%m-%dT%H:%M:%SZ", &tm) == 0)
-        return hl_error_set (err, HL_ERR_INVALID, "date",
-                             _("Cannot read the current date and time"));
+      GDateTime *dt = g_date_time_new_now_utc ();
+      gchar *text = dt != NULL ? g_date_time_format (dt, "%Y-%m-%dT%H:%M:%SZ") : NULL;
+      if (dt != NULL)
+        g_date_time_unref (dt);
+      if (text == NULL || strlen (text) >= sizeof now)
+        {
+          g_free (text);
+          return hl_error_set (err, HL_ERR_INVALID, "date",
+                               _("Cannot read the current date and time"));
+        }
+      snprintf (now, sizeof now, "%s", text);
+      g_free (text);
       date_iso = now;
     }
   else if (!iso_date_valid (date_iso))

@@ -28,6 +28,8 @@
 #include "hl-palette.h"
 #include "hl-plan-io.h"
 #include "hl-render.h"
+#include <glib.h>
+
 #include "hl-report.h"
 #include "hl-result-fields.h"
 #include "hl-version.h"
@@ -264,10 +266,12 @@ hl_report_new (const HlPlan *plan, const HlReportSettings *settings, HlError *er
     snprintf (r->date, sizeof r->date, "%s", settings->date);
   else
     {
-      time_t t = time (NULL);
-      struct tm tm;
-      if (gmtime_r (&t, &tm) == NULL || strftime (r->date, sizeof r->date, "%Y-%m-%d", &tm) == 0)
-        snprintf (r->date, sizeof r->date, "%s", "?");
+      GDateTime *dt = g_date_time_new_now_utc ();
+      gchar *text = dt != NULL ? g_date_time_format (dt, "%Y-%m-%d") : NULL;
+      snprintf (r->date, sizeof r->date, "%s", text != NULL ? text : "?");
+      g_free (text);
+      if (dt != NULL)
+        g_date_time_unref (dt);
     }
   r->n_shown = plan->n_options < HL_REPORT_OPTIONS_MAX ? plan->n_options
                                                        : HL_REPORT_OPTIONS_MAX;
