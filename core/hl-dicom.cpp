@@ -218,12 +218,25 @@ check_header (const char *path, Header *h, HlError *err)
     }
   if (!read_us (ds, 0x0028, 0x0002, be, &h->samples))
     h->samples = 1;
-  if (!read_us (ds, 0x0028, 0x0101, be, &h->bits_stored) || h->bits_stored == 0
-      || h->bits_stored > h->bits_allocated)
+  /* Values GDCM asserts on, or may (the program would abort), refused
+   * here: a fuzz finding for the planar configuration. */
+  if (!read_us (ds, 0x0028, 0x0101, be, &h->bits_stored))
     h->bits_stored = h->bits_allocated;
-  if (!read_us (ds, 0x0028, 0x0102, be, &h->high_bit) || h->high_bit >= h->bits_allocated
-      || h->high_bit + 1 < h->bits_stored)
+  if (h->bits_stored == 0 || h->bits_stored > h->bits_allocated)
+    return fail (err, HL_ERR_PARSE, path,
+                 _("its Bits Stored (0028,0101) does not fit its Bits Allocated"));
+  if (!read_us (ds, 0x0028, 0x0102, be, &h->high_bit))
     h->high_bit = h->bits_stored - 1;
+  if (h->high_bit >= h->bits_allocated || h->high_bit + 1 < h->bits_stored)
+    return fail (err, HL_ERR_PARSE, path,
+                 _("its High Bit (0028,0102) does not fit its bits stored and allocated"));
+  unsigned v;
+  if (read_us (ds, 0x0028, 0x0006, be, &v) && v > 1)
+    return fail (err, HL_ERR_PARSE, path,
+                 _("its Planar Configuration (0028,0006) is neither 0 nor 1"));
+  if (read_us (ds, 0x0028, 0x0103, be, &v) && v > 1)
+    return fail (err, HL_ERR_PARSE, path,
+                 _("its Pixel Representation (0028,0103) is neither 0 nor 1"));
   if (h->samples != 1 && h->samples != 3)
     return fail (err, HL_ERR_PARSE, path,
                  _("its pixels have neither 1 nor 3 samples"));
