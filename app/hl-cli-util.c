@@ -61,30 +61,10 @@ hl_cli_vsnprintf (char *buf, size_t size, const char *fmt, va_list ap)
   return n;
 }
 
-static int
-cli_snprintf (char *buf, size_t size, const char *fmt, ...)
-  __attribute__ ((format (printf, 3, 4)));
-
-static int
-cli_snprintf (char *buf, size_t size, const char *fmt, ...)
-{
-  va_list ap;
-
-  va_start (ap, fmt);
-  int n = hl_cli_vsnprintf (buf, size, fmt, ap);
-  va_end (ap);
-  return n;
-}
-
 const char *
 hl_cli_format_fixed (char *buf, size_t size, int precision, double value)
 {
-  cli_snprintf (buf, size, "%.*f", precision, value);
-  /* A tiny negative value rounds to "-0.000", which reads as a change of
-   * sign that is not there. */
-  if (buf[0] == '-' && strspn (buf + 1, "0.") == strlen (buf + 1))
-    memmove (buf, buf + 1, strlen (buf));
-  return buf;
+  return hl_number_fixed (buf, size, precision, value);
 }
 
 /* Returns s past `prefix` and `sep` when s starts with both, else s. */

@@ -403,20 +403,11 @@ hl_chart_y_range (const HlChartData *d, HlChartQuantity q, bool with_bands,
 /* ---- CSV ------------------------------------------------------------------ */
 
 static void
-csv_number (HlBuf *b, double v, int precision)
+csv_number (HlBuf *b, double v, int decimals)
 {
-  char num[64];
-  if (!isfinite (v))
-    snprintf (num, sizeof num, ",nan");
-  else
-    {
-      snprintf (num, sizeof num, ",%.*f", precision, v);
-      /* "-0.000" reads as a sign that is not there. */
-      char *p = num + 1;
-      if (*p == '-' && strspn (p + 1, "0.") == strlen (p + 1))
-        memmove (p, p + 1, strlen (p));
-    }
-  hl_buf_puts (b, num);
+  char num[HL_NUMBER_TEXT_SIZE];
+  hl_buf_puts (b, ",");
+  hl_buf_puts (b, hl_number_fixed (num, sizeof num, decimals, v));
 }
 
 HlStatus

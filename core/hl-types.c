@@ -9,10 +9,29 @@
 #include <stdio.h>
 #include <string.h>
 
+#include <math.h>
+
 #include <glib.h>
 
 #include "hl-text.h"
 #include "hl-types.h"
+
+char *
+hl_number_fixed (char *buf, size_t size, int decimals, double value)
+{
+  char format[16];
+
+  if (!isfinite (value))
+    {
+      snprintf (buf, size, "%s", "nan");
+      return buf;
+    }
+  snprintf (format, sizeof format, "%%.%df", decimals < 0 ? 0 : decimals > 17 ? 17 : decimals);
+  g_ascii_formatd (buf, (gint) size, format, value);
+  if (buf[0] == '-' && strspn (buf + 1, "0.") == strlen (buf + 1))
+    memmove (buf, buf + 1, strlen (buf));
+  return buf;
+}
 
 char *
 hl_sha256_hex (const void *data, size_t size, char hex[HL_SHA256_HEX_SIZE])

@@ -57,6 +57,13 @@ const char *hl_status_name (HlStatus status);
 /* The digest of `size` bytes as hex; returns hex. */
 char *hl_sha256_hex (const void *data, size_t size, char hex[HL_SHA256_HEX_SIZE]);
 
+/* The one fixed-decimal number printer of the programs' tables and CSV:
+ * `decimals` after the point, always a point whatever the locale
+ * (g_ascii_formatd), "-0.000" written "0.000" (a sign that is not there),
+ * "nan" for a value that is not finite; returns buf. */
+#define HL_NUMBER_TEXT_SIZE 64
+char *hl_number_fixed (char *buf, size_t size, int decimals, double value);
+
 /* The operated side. */
 typedef enum {
   HL_SIDE_RIGHT = 0,
