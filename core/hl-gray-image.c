@@ -528,7 +528,9 @@ dicom_prescan (int fd, off_t size, const char *path, HlError *err)
       else if (long_vr (h + 4))
         {
           if (at + 12 > size || !pread_all (fd, h, 12, at))
-            break;
+            return hl_error_set (err, HL_ERR_PARSE, path,
+                                 _("The DICOM file \"%s\" cannot be opened: it ends in the "
+                                   "middle of an element (truncated or damaged)"), path);
           len = (uint32_t) h[8] | ((uint32_t) h[9] << 8) | ((uint32_t) h[10] << 16)
                 | ((uint32_t) h[11] << 24);
           head = 12;
