@@ -97,6 +97,11 @@ struct HlReport {
   double compute_s;
 };
 
+/* Set when a table of the layout could not be allocated (its block is then
+ * left out): the report and its PDF are refused instead of missing a
+ * table.  Per thread, reset before each layout. */
+static _Thread_local bool layout_out_of_memory;
+
 /* ---- Colours ------------------------------------------------------------ */
 
 static const HlRgba ink = { 0.10, 0.11, 0.12, 1.0 };
@@ -316,6 +321,7 @@ hl_report_new (const HlPlan *plan, const HlReportSettings *settings, HlError *er
   r->compute_s = now_s () - t0;
 
   /* The largest type that keeps to two pages. */
+  layout_out_of_memory = false;
   size_t n_scales = sizeof layout_scales / sizeof layout_scales[0];
   for (size_t i = 0; i < n_scales; i++)
     {
@@ -326,6 +332,13 @@ hl_report_new (const HlPlan *plan, const HlReportSettings *settings, HlError *er
     }
   if (r->n_pages > HL_REPORT_PAGES_MAX)
     r->n_pages = HL_REPORT_PAGES_MAX;
+  if (layout_out_of_memory)
+    {
+      hl_report_free (r);
+      hl_error_set (err, HL_ERR_NOMEM, "report", "%s",
+                    _("There is not enough memory for the report."));
+      return NULL;
+    }
   return r;
 }
 
@@ -554,11 +567,15 @@ table_new (int n_cols, int n_rows, int header_rows)
 {
   HlTable *t = calloc (1, sizeof *t);
   if (t == NULL)
-    return NULL;
+    {
+      layout_out_of_memory = true;
+      return NULL;
+    }
   t->cells = calloc ((size_t) (n_cols * n_rows), CELL_MAX);
   if (t->cells == NULL)
     {
       free (t);
+      layout_out_of_memory = true;
       return NULL;
     }
   t->n_cols = n_cols;
@@ -1472,13 +1489,23 @@ hl_report_pdf_to_buffer (const HlReport *r, unsigned char **out, size_t *size, H
   cairo_pdf_surface_set_metadata (surface, CAIRO_PDF_METADATA_CREATOR, "hiplever");
   cairo_pdf_surface_set_metadata (surface, CAIRO_PDF_METADATA_SUBJECT, hl_caution_short ());
   cairo_t *cr = cairo_create (surface);
+  layout_out_of_memory = false;
   for (int page = 0; page < r->n_pages; page++)
     {
       hl_report_draw_page (r, cr, page);
       cairo_show_page (cr);
     }
   cairo_destroy (cr);
-  return finish_stream (surface, &m, _("report"), out, size, err);
+  HlStatus st = finish_stream (surface, &m, _("report"), out, size, err);
+  if (st == HL_OK && layout_out_of_memory)
+    {
+      free (*out);
+      *out = NULL;
+      *size = 0;
+      st = hl_error_set (err, HL_ERR_NOMEM, "report", "%s",
+                         _("There is not enough memory for the report."));
+    }
+  return st;
 }
 
 HlStatus
