@@ -503,6 +503,13 @@ dicom_prescan (int fd, off_t size, const char *path, HlError *err)
       if (!pread_all (fd, h, 8, at))
         break;
       unsigned group = h[0] | (h[1] << 8), elem = h[2] | (h[3] << 8);
+      /* PS3.10: the file meta information (group 0002) follows "DICM";
+       * without it GDCM guesses the encoding and can allocate a length
+       * of 2 GB (a fuzz finding). */
+      if (n == 0 && group != 0x0002)
+        return hl_error_set (err, HL_ERR_PARSE, path,
+                             _("The DICOM file \"%s\" cannot be opened: it has no file meta "
+                               "information after its preamble (damaged)"), path);
       if (in_meta && group != 0x0002)
         {
           in_meta = false;
