@@ -23,6 +23,13 @@
 
 static char tmp_path[64];
 
+static void
+remove_tmp (void)
+{
+  if (tmp_path[0] != '\0')
+    unlink (tmp_path);
+}
+
 static const char *
 input_file (const uint8_t *data, size_t size)
 {
@@ -32,6 +39,7 @@ input_file (const uint8_t *data, size_t size)
       int fd = mkstemp (tmp_path);
       HL_FUZZ_CHECK (fd >= 0, "no temporary file");
       close (fd);
+      atexit (remove_tmp);   /* one file a process, gone when it ends */
     }
   FILE *f = fopen (tmp_path, "wb");
   HL_FUZZ_CHECK (f != NULL, "cannot write %s", tmp_path);
