@@ -133,6 +133,10 @@ run_target () {
     extra="-dict=plan.dict -max_len=65536"
     ;;
   core) extra="-max_len=2048" ;;
+  # The image target's DICOM files are read by GDCM in a child process
+  # (core/hl-dicom.cpp), which may ask for more than -rss_limit_mb before
+  # it dies; libFuzzer's malloc limit would count that as the parent's.
+  image) extra="-max_len=1048576 -malloc_limit_mb=8192" ;;
   *) extra="-max_len=1048576" ;;
   esac
   echo "run-fuzz: $t for $seconds s"
