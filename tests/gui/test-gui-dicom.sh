@@ -44,10 +44,12 @@ python3 "$SRCDIR/tests/make-dicom.py" "$dcm" --rows 600 --cols 800 --bits 16 \
   --imager-spacing "$SPACING_MM\\$SPACING_MM" --ermf "$ERMF" --window 30000,20000 \
   --burned-in YES || hl_fail "could not write the DICOM file"
 plan="$HL_TMP/case.hlplan"
-# The demo without its marker calibration: a marker placed by the user
-# would come before the file's calibration.
-sed '/<calibration/,/<\/calibration>/d' "$HL_DEMO" >"$plan"
+# The demo without its marker calibration (a marker placed by the user
+# would come before the file's calibration) and without its own radiograph
+# (the first RADIOGRAPH line below must be the imported file's).
+sed -e '/<calibration/,/<\/calibration>/d' -e '/<radiograph /d' "$HL_DEMO" >"$plan"
 grep -q '<calibration' "$plan" && hl_fail "the calibration was not taken out of the demo"
+grep -q '<radiograph ' "$plan" && hl_fail "the radiograph was not taken out of the demo"
 
 HIPLEVER_TEST_UNDERLAY="$dcm" HIPLEVER_AUTOSAVE_SECONDS=1
 export HIPLEVER_TEST_UNDERLAY HIPLEVER_AUTOSAVE_SECONDS
