@@ -127,6 +127,7 @@ run_target () {
   for d in "$here/tests/fuzz/corpus/$t" "$here/tests/fuzz/regressions/$t"; do
     [ -d "$d" ] && seeds="$seeds $d"
   done
+  asan_extra=""
   case $t in
   load)
     [ -d "$here/data/examples" ] && seeds="$seeds $here/data/examples"
@@ -136,7 +137,10 @@ run_target () {
   # The image target's DICOM files are read by GDCM in a child process
   # (core/hl-dicom.cpp), which may ask for more than -rss_limit_mb before
   # it dies; libFuzzer's malloc limit would count that as the parent's.
-  image) extra="-max_len=1048576 -malloc_limit_mb=8192" ;;
+  # Under AddressSanitizer the child has no address-space limit (the
+  # shadow memory needs it): the allocator's own cap stands in for it.
+  image) extra="-max_len=1048576 -malloc_limit_mb=8192"
+         asan_extra=":max_allocation_size_mb=3072:allocator_may_return_null=1" ;;
   *) extra="-max_len=1048576" ;;
   esac
   echo "run-fuzz: $t for $seconds s"
@@ -144,7 +148,7 @@ run_target () {
   start=$(date +%s)
   # -rss_limit_mb and -timeout make a memory blow-up or a hang a finding.
   # shellcheck disable=SC2086
-  if LC_ALL=C TZ=UTC ASAN_OPTIONS=detect_leaks=1 \
+  if LC_ALL=C TZ=UTC ASAN_OPTIONS="detect_leaks=1${asan_extra:-}" \
      UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
      nice -n "${FUZZ_NICE:-10}" "./fuzz-$t" -max_total_time="$seconds" -timeout=10 \
        -rss_limit_mb=512 -print_final_stats=1 -artifact_prefix="artifacts-$t/" \
