@@ -41,6 +41,8 @@
 #include <cstdlib>
 
 #include <fcntl.h>
+#include <poll.h>
+#include <time.h>
 #include <sys/resource.h>
 #include <sys/stat.h>
 #include <sys/wait.h>
@@ -595,14 +597,60 @@ write_all (int fd, const void *data, size_t n)
   return true;
 }
 
+/* The time the parent waits for the child, from the fork to the last
+ * byte: generous (a 100-megapixel JPEG 2000 decodes in a few seconds), and
+ * HIPLEVER_DICOM_TIMEOUT=SECONDS (a positive number, at most a day) sets
+ * another, e.g. for the tests. */
+#define HL_DICOM_TIMEOUT_DEFAULT_S 60.0
+
+static double
+child_timeout_seconds (void)
+{
+  const char *env = getenv ("HIPLEVER_DICOM_TIMEOUT");
+  if (env == nullptr || *env == '\0')
+    return HL_DICOM_TIMEOUT_DEFAULT_S;
+  std::istringstream in (env);
+  in.imbue (std::locale::classic ());
+  double v;
+  in >> v;
+  if (in.fail () || !in.eof () || !std::isfinite (v) || v <= 0 || v > 86400)
+    return HL_DICOM_TIMEOUT_DEFAULT_S;
+  return v;
+}
+
+static double
+now_seconds (void)
+{
+  struct timespec ts;
+  clock_gettime (CLOCK_MONOTONIC, &ts);
+  return static_cast<double> (ts.tv_sec) + 1e-9 * static_cast<double> (ts.tv_nsec);
+}
+
+/* Reads n bytes before `deadline` (now_seconds()): false at the end of the
+ * pipe, on an error, or (with *timed_out set) when the deadline passes. */
 static bool
-read_all (int fd, void *data, size_t n)
+read_all (int fd, void *data, size_t n, double deadline, bool *timed_out)
 {
   char *p = static_cast<char *> (data);
   while (n > 0)
     {
+      double left = deadline - now_seconds ();
+      if (left <= 0)
+        {
+          *timed_out = true;
+          return false;
+        }
+      struct pollfd pfd = { fd, POLLIN, 0 };
+      int ms = left > 3600.0 ? 3600 * 1000 : static_cast<int> (std::ceil (left * 1000.0));
+      int pr = poll (&pfd, 1, ms);
+      if (pr < 0 && errno == EINTR)
+        continue;
+      if (pr < 0)
+        return false;
+      if (pr == 0)
+        continue;               /* the deadline is checked above */
       ssize_t r = read (fd, p, n);
-      if (r < 0 && errno == EINTR)
+      if (r < 0 && (errno == EINTR || errno == EAGAIN))
         continue;
       if (r <= 0)
         return false;
@@ -651,6 +699,12 @@ child_read (const char *path, int fd)
   struct rlimit lim = { HL_DICOM_CHILD_ADDRESS_SPACE, HL_DICOM_CHILD_ADDRESS_SPACE };
   setrlimit (RLIMIT_AS, &lim);
 #endif
+#if HL_TEST_HOOKS
+  /* Test hook: a reader that hangs, for the parent's time limit. */
+  const char *hang = getenv ("HIPLEVER_TEST_DICOM_CHILD_SLEEP");
+  if (hang != nullptr && atoi (hang) > 0)
+    sleep (static_cast<unsigned> (atoi (hang)));
+#endif
   HlGrayImage *img = nullptr;
   HlError e;
   hl_error_clear (&e);
@@ -667,6 +721,14 @@ child_read (const char *path, int fd)
   /* _exit: none of the parent's exit handlers (GTK, the sanitizers' leak
    * check of a copied heap) run in the child. */
   _exit (ok ? 0 : 1);
+}
+
+static void
+kill_and_reap (pid_t pid)
+{
+  kill (pid, SIGKILL);
+  while (waitpid (pid, nullptr, 0) < 0 && errno == EINTR)
+    ;
 }
 
 static HlStatus
@@ -705,15 +767,20 @@ hl_dicom_read (const char *path, HlGrayImage **out, HlError *err)
     }
   close (fds[1]);
 
+  const double timeout = child_timeout_seconds ();
+  const double deadline = now_seconds () + timeout;
+  bool timed_out = false;
   HlStatus st = HL_ERR_PARSE;
   HlError e;
   hl_error_clear (&e);
   HlGrayImage head;
   HlGrayImage *img = nullptr;
-  bool ok = read_all (fds[0], &st, sizeof st) && read_all (fds[0], &e, sizeof e);
+  bool ok = read_all (fds[0], &st, sizeof st, deadline, &timed_out)
+            && read_all (fds[0], &e, sizeof e, deadline, &timed_out);
   if (ok && st == HL_OK)
     {
-      ok = read_all (fds[0], &head, sizeof head) && head.width > 0 && head.height > 0
+      ok = read_all (fds[0], &head, sizeof head, deadline, &timed_out)
+           && head.width > 0 && head.height > 0
            && static_cast<double> (head.width) * head.height <= 1e9;
       if (ok)
         {
@@ -726,18 +793,32 @@ hl_dicom_read (const char *path, HlGrayImage **out, HlError *err)
               free (px);
               img = nullptr;
               close (fds[0]);
-              kill (pid, SIGKILL);
-              while (waitpid (pid, nullptr, 0) < 0 && errno == EINTR)
-                ;
+              kill_and_reap (pid);
               return hl_error_set (err, HL_ERR_NOMEM, path,
                                    _("Out of memory reading \"%s\""), path);
             }
           *img = head;
           img->pixels = px;
-          ok = read_all (fds[0], px, n * sizeof (uint16_t));
+          ok = read_all (fds[0], px, n * sizeof (uint16_t), deadline, &timed_out);
         }
     }
   close (fds[0]);
+  if (timed_out)
+    {
+      /* A reader that hangs (a damaged file GDCM loops on, or a lock held
+       * at the fork) is stopped; the window and its plan go on. */
+      kill_and_reap (pid);
+      if (img != nullptr)
+        hl_gray_image_free (img);
+      char secs[32];
+      snprintf (secs, sizeof secs, "%g", timeout);
+      char msg[512];
+      snprintf (msg, sizeof msg,
+                _("reading the DICOM file took longer than %s s; the reader was stopped "
+                  "(the file may be damaged, or the computer too busy: try again, or set "
+                  "HIPLEVER_DICOM_TIMEOUT to more seconds)"), secs);
+      return fail (err, HL_ERR_IO, path, msg);
+    }
   int status = 0;
   while (waitpid (pid, &status, 0) < 0 && errno == EINTR)
     ;

@@ -16,7 +16,10 @@
  *  - rescale, window presets, frames, colour, burned-in annotation;
  *  - each bad input gets a message naming the problem;
  *  - 16-bit PNG and TIFF keep their depth (32000 stays 32000);
- *  - nothing identifying is in what the reader returns.
+ *  - nothing identifying is in what the reader returns;
+ *  - a DICOM reader that hangs (a test hook makes the reading child
+ *    sleep) is stopped at the time limit HIPLEVER_DICOM_TIMEOUT sets, with
+ *    a message, and the child is reaped.
  */
 #define _GNU_SOURCE   /* memmem */
 #include "config.h"
@@ -25,7 +28,10 @@
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
+#include <errno.h>
 #include <string.h>
+#include <sys/wait.h>
+#include <time.h>
 #include <unistd.h>
 
 #include <png.h>
@@ -445,6 +451,52 @@ START_TEST (test_missing_and_huge)
 }
 END_TEST
 
+#if HL_TEST_HOOKS
+static double
+mono_seconds (void)
+{
+  struct timespec ts;
+  clock_gettime (CLOCK_MONOTONIC, &ts);
+  return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
+}
+
+/* The reading child sleeps 30 s (test hook); with a limit of 1 s the
+ * file is refused within a few seconds, saying so, and no child is left
+ * behind.  Without the hook the same file loads. */
+START_TEST (test_child_timeout)
+{
+  const char *path = make_dicom ("slow.dcm", NULL, "--bits 12");
+  setenv ("HIPLEVER_TEST_DICOM_CHILD_SLEEP", "30", 1);
+  setenv ("HIPLEVER_DICOM_TIMEOUT", "1", 1);
+  HlError err = { 0 };
+  double t0 = mono_seconds ();
+  HlGrayImage *img = hl_gray_image_load (path, &err);
+  double took = mono_seconds () - t0;
+  ck_assert_msg (img == NULL, "a hanging reader gave an image");
+  ck_assert_msg (took >= 0.9 && took < 10.0, "refused after %.2f s", took);
+  ck_assert_msg (strstr (err.message, "took longer than 1 s") != NULL, "%s", err.message);
+  ck_assert_msg (strstr (err.message, "slow.dcm") != NULL, "%s", err.message);
+  errno = 0;
+  ck_assert_msg (waitpid (-1, NULL, WNOHANG) == -1 && errno == ECHILD,
+                 "the stopped reader was not reaped");
+
+  /* A reader that takes 1 s, within a limit of 20 s, gives the image. */
+  setenv ("HIPLEVER_TEST_DICOM_CHILD_SLEEP", "1", 1);
+  setenv ("HIPLEVER_DICOM_TIMEOUT", "20", 1);
+  img = load_ok (path);
+  ck_assert_int_eq (img->bits, 12);
+  hl_gray_image_free (img);
+
+  /* A limit that is not a positive number is the default (60 s). */
+  setenv ("HIPLEVER_DICOM_TIMEOUT", "-3", 1);
+  img = load_ok (path);
+  hl_gray_image_free (img);
+  unsetenv ("HIPLEVER_TEST_DICOM_CHILD_SLEEP");
+  unsetenv ("HIPLEVER_DICOM_TIMEOUT");
+}
+END_TEST
+#endif
+
 /* ---- PNG and TIFF at 16 bits -------------------------------------------- */
 
 #define IMG_W 40
@@ -553,6 +605,9 @@ image_suite (void)
       tcase_add_test (tc, test_frames_colour_burned);
       tcase_add_test (tc, test_nothing_identifying);
       tcase_add_loop_test (tc, test_bad, 0, N_OF (bad_cases));
+#if HL_TEST_HOOKS
+      tcase_add_test (tc, test_child_timeout);
+#endif
     }
   suite_add_tcase (s, tc);
   return s;
