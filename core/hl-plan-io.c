@@ -10,7 +10,6 @@
 #include "config.h"
 
 #include <errno.h>
-#include <pthread.h>
 #include <fcntl.h>
 #include <inttypes.h>
 #include <limits.h>
@@ -27,11 +26,9 @@
 #include <unistd.h>
 
 #include <glib.h>
-#include <libxml/SAX2.h>
 #include <libxml/parser.h>
 #include <libxml/tree.h>
 #include <libxml/xmlerror.h>
-#include <libxml/xmlschemas.h>
 
 #include "hl-buf.h"
 #include "hl-i18n.h"
@@ -43,6 +40,7 @@
 #include "hl-text.h"
 #include "hl-uncertainty.h"
 #include "hl-version.h"
+#include "hl-xml-load.h"
 
 /* Generated from data/hiplever-plan.xsd by core/embed-text.py. */
 extern const char hl_schema_data[];
@@ -59,7 +57,6 @@ extern const size_t hl_schema_data_len;
 #define HL_QUOTE(v) \
   INT_MAX, hl_text_quote ((const char *) (v), HL_QUOTED_VALUE_MAX, \
                           (char[HL_QUOTE_BUF]) { 0 }, HL_QUOTE_BUF)
-#define HL_XML_PARSE_OPTIONS (XML_PARSE_NONET | XML_PARSE_BIG_LINES)
 
 const char *
 hl_plan_schema_text (void)
@@ -1187,19 +1184,7 @@ typedef struct {
 } HlPlanNodes;
 
 typedef struct {
-  const char *name;          /* file name for messages, may be NULL */
-  HlError *err;
-  HlStatus status;           /* the first failure */
-  xmlParserCtxtPtr ctxt;     /* while parsing */
-  bool saw_doctype;
-  int doctype_line;
-  char doctype_name[HL_QUOTED_VALUE_MAX];
-  /* the first libxml2 error */
-  bool xml_error;
-  int xml_line;
-  xmlNodePtr xml_node;
-  char xml_element[HL_QUOTED_VALUE_MAX];
-  char xml_message[HL_ERROR_MESSAGE_MAX];
+  HlXmlLoad x;               /* the load: its file name, error, status */
   const char *base_file;     /* the plan file: image paths resolve against it */
 } HlReader;
 
@@ -1228,54 +1213,10 @@ describe_element (xmlNodePtr node, char *out, size_t size)
   snprintf (out, size, "<%s>", (const char *) node->name);
 }
 
-static int
-node_line (xmlNodePtr node)
-{
-  long line = node ? xmlGetLineNo (node) : 0;
-  return line > 0 && line < INT_MAX ? (int) line : 0;
-}
-
-static HlStatus reader_fail_at (HlReader *r, HlStatus status, int line,
-                                const char *element, const char *fmt, ...)
-  __attribute__ ((format (printf, 5, 6)));
+#define node_line hl_xml_node_line
 
 /* Records the first failure as "NAME: line N, element <E>: message". */
-static HlStatus
-reader_fail_at (HlReader *r, HlStatus status, int line, const char *element,
-                const char *fmt, ...)
-{
-  if (r->status != HL_OK)
-    return r->status;
-  r->status = status;
-
-  char what[HL_ERROR_MESSAGE_MAX];
-  va_list ap;
-  va_start (ap, fmt);
-  vsnprintf (what, sizeof what, fmt, ap);
-  va_end (ap);
-
-  char where[HL_ERROR_MESSAGE_MAX / 2];
-  size_t n = 0;
-  where[0] = '\0';
-  if (r->name != NULL)
-    n += (size_t) snprintf (where + n, sizeof where - n, "%s: ", r->name);
-  if (line > 0 && n < sizeof where)
-    n += (size_t) snprintf (where + n, sizeof where - n, _("line %d, "), line);
-  if (element != NULL && element[0] != '\0' && n < sizeof where)
-    n += (size_t) snprintf (where + n, sizeof where - n, _("element %s: "), element);
-  if (n >= 2 && n < sizeof where && where[n - 2] == ',')
-    {
-      where[n - 2] = ':';
-      where[n - 1] = ' ';
-    }
-
-  if (r->err != NULL)
-    {
-      hl_error_set (r->err, status, element ? element : "", "%s%s", where, what);
-      r->err->line = line;
-    }
-  return status;
-}
+#define reader_fail_at(r, ...) hl_xml_fail_at (&(r)->x, __VA_ARGS__)
 
 static HlStatus reader_fail (HlReader *r, HlStatus status, xmlNodePtr node,
                              const char *fmt, ...)
@@ -1293,220 +1234,6 @@ reader_fail (HlReader *r, HlStatus status, xmlNodePtr node, const char *fmt, ...
   vsnprintf (what, sizeof what, fmt, ap);
   va_end (ap);
   return reader_fail_at (r, status, node_line (node), element, "%s", what);
-}
-
-/* libxml2 writes "{urn:hiplever:plan}landmark"; people read "landmark". */
-static void
-clean_xml_message (char *msg)
-{
-  static const char ns[] = "{" HL_PLAN_NAMESPACE "}";
-  char *p;
-  while ((p = strstr (msg, ns)) != NULL)
-    memmove (p, p + sizeof ns - 1, strlen (p + sizeof ns - 1) + 1);
-  size_t len = strlen (msg);
-  while (len > 0 && (msg[len - 1] == '\n' || msg[len - 1] == ' '))
-    msg[--len] = '\0';
-}
-
-/* libxml2's parser messages in our words (they otherwise leak its own
- * terms, "use XML_PARSE_HUGE option" among them).  The line and the
- * element are added by the caller. */
-static const char *
-parser_message (const xmlError *e, char *buf, size_t size)
-{
-  switch (e->code)
-    {
-    case XML_ERR_DOCUMENT_EMPTY:
-    case XML_ERR_DOCUMENT_START:
-      return _("there is no XML element in it: the first '<' is missing");
-    case XML_ERR_DOCUMENT_END:
-    case XML_ERR_EXTRA_CONTENT:
-      return _("there is more after the end of the plan");
-    case XML_ERR_INVALID_HEX_CHARREF:
-    case XML_ERR_INVALID_DEC_CHARREF:
-    case XML_ERR_INVALID_CHARREF:
-    case XML_ERR_CHARREF_AT_EOF:
-    case XML_ERR_CHARREF_IN_PROLOG:
-    case XML_ERR_CHARREF_IN_EPILOG:
-      return _("a character reference (&#...;) is malformed or names a character "
-               "XML does not allow");
-    case XML_ERR_INVALID_CHAR:
-    case XML_ERR_INVALID_ENCODING:
-    case XML_ERR_UNKNOWN_ENCODING:
-    case XML_ERR_UNSUPPORTED_ENCODING:
-    case XML_ERR_ENCODING_NAME:
-    case XML_ERR_MISSING_ENCODING:
-      return _("the bytes here are not valid UTF-8 text, or a character XML does "
-               "not allow; plan files are UTF-8 encoded");
-    case XML_ERR_ENTITYREF_AT_EOF:
-    case XML_ERR_ENTITYREF_IN_PROLOG:
-    case XML_ERR_ENTITYREF_IN_EPILOG:
-    case XML_ERR_ENTITYREF_NO_NAME:
-    case XML_ERR_ENTITYREF_SEMICOL_MISSING:
-    case XML_ERR_UNDECLARED_ENTITY:
-    case XML_WAR_UNDECLARED_ENTITY:
-    case XML_ERR_UNPARSED_ENTITY:
-    case XML_ERR_ENTITY_IS_EXTERNAL:
-    case XML_ERR_ENTITY_IS_PARAMETER:
-    case XML_ERR_ENTITY_LOOP:
-    case XML_ERR_ENTITY_BOUNDARY:
-    case XML_ERR_ENTITY_PROCESSING:
-    case XML_ERR_PEREF_AT_EOF:
-    case XML_ERR_PEREF_IN_PROLOG:
-    case XML_ERR_PEREF_IN_EPILOG:
-    case XML_ERR_PEREF_IN_INT_SUBSET:
-    case XML_ERR_PEREF_NO_NAME:
-    case XML_ERR_PEREF_SEMICOL_MISSING:
-      if (e->str1 != NULL)
-        {
-          char q[HL_QUOTE_BUF];
-          snprintf (buf, size, _("the entity '&%s;' is not one a plan can have: only "
-                                 "&amp; &lt; &gt; &quot; &apos; and character "
-                                 "references are read; write '&' as &amp;"),
-                    hl_text_quote (e->str1, HL_QUOTED_VALUE_MAX, q, sizeof q));
-          return buf;
-        }
-      return _("an '&' starts an entity that a plan cannot have: only &amp; &lt; "
-               "&gt; &quot; &apos; and character references are read; write '&' "
-               "as &amp;");
-    case XML_ERR_LT_IN_ATTRIBUTE:
-      return _("an attribute value holds '<': write it as &lt;");
-    case XML_ERR_ATTRIBUTE_NOT_STARTED:
-    case XML_ERR_ATTRIBUTE_WITHOUT_VALUE:
-    case XML_ERR_STRING_NOT_STARTED:
-    case XML_ERR_VALUE_REQUIRED:
-      return _("an attribute has no value in quotes (name=\"value\")");
-    case XML_ERR_ATTRIBUTE_NOT_FINISHED:
-    case XML_ERR_STRING_NOT_CLOSED:
-    case XML_ERR_LITERAL_NOT_FINISHED:
-      return _("an attribute value is not closed by its quote, or is too long");
-    case XML_ERR_ATTRIBUTE_REDEFINED:
-    case XML_NS_ERR_ATTRIBUTE_REDEFINED:
-      return _("an attribute appears twice in one element");
-    case XML_ERR_COMMENT_NOT_FINISHED:
-    case XML_ERR_HYPHEN_IN_COMMENT:
-      return _("a comment is not closed by '-->', or holds '--'");
-    case XML_ERR_PI_NOT_STARTED:
-    case XML_ERR_PI_NOT_FINISHED:
-    case XML_ERR_XMLDECL_NOT_STARTED:
-    case XML_ERR_XMLDECL_NOT_FINISHED:
-    case XML_ERR_RESERVED_XML_NAME:
-    case XML_ERR_VERSION_MISSING:
-    case XML_ERR_UNKNOWN_VERSION:
-    case XML_ERR_STANDALONE_VALUE:
-      return _("the XML declaration or a processing instruction (<?...?>) is "
-               "malformed or misplaced");
-    case XML_ERR_CDATA_NOT_FINISHED:
-    case XML_ERR_MISPLACED_CDATA_END:
-      return _("a CDATA section is not closed by ']]>', is too long, or ']]>' "
-               "stands in text");
-    case XML_ERR_DOCTYPE_NOT_FINISHED:
-    case XML_ERR_EXT_SUBSET_NOT_FINISHED:
-    case XML_ERR_CONDSEC_NOT_STARTED:
-    case XML_ERR_CONDSEC_NOT_FINISHED:
-    case XML_ERR_CONDSEC_INVALID:
-    case XML_ERR_CONDSEC_INVALID_KEYWORD:
-      return _("a document type declaration is malformed; plan files never have one");
-    case XML_ERR_NAME_REQUIRED:
-    case XML_ERR_NMTOKEN_REQUIRED:
-    case XML_ERR_LT_REQUIRED:
-      return _("a '<' is not followed by an element name");
-    case XML_ERR_NAME_TOO_LONG:
-      return _("an element or attribute name is too long");
-    case XML_ERR_GT_REQUIRED:
-    case XML_ERR_TAG_NOT_FINISHED:
-    case XML_ERR_LTSLASH_REQUIRED:
-      return _("an element is not closed: the file ends, or a '>' or its end tag "
-               "is missing");
-    case XML_ERR_SPACE_REQUIRED:
-    case XML_ERR_SEPARATOR_REQUIRED:
-    case XML_ERR_EQUAL_REQUIRED:
-      return _("the attributes of an element are malformed: a space or '=' is "
-               "missing");
-    case XML_ERR_TAG_NAME_MISMATCH:
-    case XML_ERR_NOT_WELL_BALANCED:
-      return _("an end tag does not match the element it closes");
-    case XML_NS_ERR_UNDEFINED_NAMESPACE:
-    case XML_NS_ERR_QNAME:
-    case XML_NS_ERR_EMPTY:
-    case XML_NS_ERR_COLON:
-    case XML_ERR_NS_DECL_ERROR:
-      return _("a name uses a namespace prefix that is not declared, or is malformed");
-    case XML_ERR_NO_MEMORY:
-      return _("out of memory, or a text too long for a plan");
-    case XML_ERR_USER_STOP:
-      return _("reading was stopped");
-    case XML_ERR_INTERNAL_ERROR:
-    default:
-      return _("the file is nested too deeply, too long in one place, or broken "
-               "in a way a plan never is");
-    }
-}
-
-static void
-xml_error_cb (void *data, xmlErrorPtr e)
-{
-  HlReader *r = data;
-  if (r == NULL || e == NULL || e->level < XML_ERR_ERROR || r->xml_error)
-    return;
-  r->xml_error = true;
-  r->xml_line = e->line;
-  r->xml_node = NULL;
-  r->xml_element[0] = '\0';
-  if (e->node != NULL)
-    {
-      xmlNodePtr node = e->node;
-      if (node->type == XML_ATTRIBUTE_NODE)
-        node = node->parent;
-      if (node != NULL && node->type == XML_ELEMENT_NODE)
-        {
-          r->xml_node = node;
-          if (r->xml_line <= 0)
-            r->xml_line = node_line (node);
-        }
-    }
-  else if (r->ctxt != NULL && r->ctxt->name != NULL)
-    snprintf (r->xml_element, sizeof r->xml_element, "<%s>",
-              hl_text_quote ((const char *) r->ctxt->name, HL_QUOTED_VALUE_MAX - 3,
-                             (char[HL_QUOTE_BUF]) { 0 }, HL_QUOTE_BUF));
-  /* The parser's messages in our words; the schema's name the element and
-   * attribute and keep libxml2's wording, without its option names. */
-  bool schema = (e->domain == XML_FROM_SCHEMASV || e->domain == XML_FROM_SCHEMASP)
-                && e->code != XML_ERR_NO_MEMORY;
-  snprintf (r->xml_message, sizeof r->xml_message, "%s",
-            !schema ? parser_message (e, (char[HL_ERROR_MESSAGE_MAX]) { 0 },
-                                      HL_ERROR_MESSAGE_MAX)
-            : e->message != NULL && strstr (e->message, "XML_PARSE") == NULL
-            ? e->message : _("the file does not match the plan schema"));
-  clean_xml_message (r->xml_message);
-}
-
-/* The parser hands its own context to this handler. */
-static void
-parser_error_cb (void *ctx, xmlErrorPtr e)
-{
-  xmlParserCtxtPtr ctxt = ctx;
-  xml_error_cb (ctxt ? ctxt->_private : NULL, e);
-  /* The first fatal error decides; scanning on costs seconds on a flood. */
-  if (ctxt != NULL && e != NULL && e->level >= XML_ERR_FATAL) xmlStopParser (ctxt);
-}
-
-/* A plan never has a DTD: stop at the DOCTYPE, before its internal subset
- * or any external subset is looked at. */
-static void
-doctype_cb (void *ctx, const xmlChar *name, const xmlChar *external_id,
-            const xmlChar *system_id)
-{
-  xmlParserCtxtPtr ctxt = ctx;
-  HlReader *r = ctxt->_private;
-  if (r != NULL && !r->saw_doctype)
-    {
-      r->saw_doctype = true;
-      r->doctype_line = xmlSAX2GetLineNumber (ctx);
-      hl_text_quote (name ? (const char *) name : "", HL_QUOTED_VALUE_MAX - 1,
-                     r->doctype_name, sizeof r->doctype_name);
-    }
-  xmlStopParser (ctxt);
 }
 
 static const HlEnumAttr *
@@ -2143,7 +1870,7 @@ read_plan_element (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *node
   nodes->plan = node;
   bool have_case = false, have_landmarks = false;
 
-  for (xmlNodePtr c = node->children; c != NULL && r->status == HL_OK; c = c->next)
+  for (xmlNodePtr c = node->children; c != NULL && r->x.status == HL_OK; c = c->next)
     {
       if (c->type != XML_ELEMENT_NODE)
         continue;
@@ -2197,7 +1924,7 @@ read_plan_element (HlReader *r, xmlNodePtr node, HlPlan *plan, HlPlanNodes *node
     reader_fail (r, HL_ERR_PARSE, node, _("the <case> element is missing"));
   else if (!have_landmarks)
     reader_fail (r, HL_ERR_PARSE, node, _("the <landmarks> element is missing"));
-  return r->status == HL_OK;
+  return r->x.status == HL_OK;
 }
 
 /* The element a failed range check is about, from its field name. */
@@ -2306,121 +2033,33 @@ check_root (HlReader *r, xmlNodePtr root, bool *is_summary)
   return check_format_version (r, root);
 }
 
-/* The schema is compiled once per process and only read afterwards:
- * compiling it took most of the time of a load. */
-static pthread_once_t schema_once = PTHREAD_ONCE_INIT;
-static xmlSchemaPtr schema_compiled;
+static HlXmlSchema plan_schema = HL_XML_SCHEMA_INIT (hl_schema_data, hl_schema_data_len);
 
-static void
-schema_silent_cb (void *data, xmlErrorPtr error)
-{
-  (void) data;
-  (void) error;
-}
-
-static void
-schema_compile_once (void)
-{
-  xmlSchemaParserCtxtPtr pctxt = xmlSchemaNewMemParserCtxt (hl_schema_data,
-                                                            (int) hl_schema_data_len);
-  if (pctxt == NULL)
-    return;
-  xmlSchemaSetParserStructuredErrors (pctxt, schema_silent_cb, NULL);
-  schema_compiled = xmlSchemaParse (pctxt);
-  xmlSchemaFreeParserCtxt (pctxt);
-}
+static const HlXmlKind plan_kind = {
+  .doc_name = "plan",
+  .ns = HL_PLAN_NAMESPACE,
+  .max_bytes = HL_PLAN_MAX_BYTES,
+  .too_big = N_("the file is %zu bytes, more than the %u bytes a plan may have"),
+  .doctype = N_("the file has a document type declaration; plan files never have one, "
+                "so it is refused and nothing it declares or points to is read"),
+  .no_match = N_("the file does not match the plan schema"),
+  .schema_broken = N_("internal error: the built-in plan schema does not compile"),
+};
 
 static HlStatus
 validate_schema (HlReader *r, xmlDocPtr doc)
 {
-  r->xml_error = false;
-  pthread_once (&schema_once, schema_compile_once);
-  xmlSchemaPtr schema = schema_compiled;
-  if (schema == NULL)
-    return reader_fail_at (r, HL_ERR_PARSE, 0, NULL,
-                           _("internal error: the built-in plan schema does not compile"));
+  HlStatus st = hl_xml_validate (&r->x, &plan_schema, doc);
+  if (st != HL_ERR_PARSE || r->x.status != HL_OK)
+    return st;
 
-  xmlSchemaValidCtxtPtr vctxt = xmlSchemaNewValidCtxt (schema);
-  int rc = -1;
-  if (vctxt != NULL)
-    {
-      xmlSchemaSetValidStructuredErrors (vctxt, xml_error_cb, r);
-      rc = xmlSchemaValidateDoc (vctxt, doc);
-      xmlSchemaFreeValidCtxt (vctxt);
-    }
-  if (vctxt == NULL)
-    return reader_fail_at (r, HL_ERR_NOMEM, 0, NULL, _("out of memory"));
-  if (rc == 0)
-    return HL_OK;
-
-  if (r->xml_node != NULL && diagnose_element (r, r->xml_node))
-    return r->status;
+  if (r->x.xml_node != NULL && diagnose_element (r, r->x.xml_node))
+    return r->x.status;
 
   char element[HL_ERROR_FIELD_MAX] = "";
-  describe_element (r->xml_node, element, sizeof element);
-  /* Drop libxml2's "Element 'x': " lead-in; the element is named already. */
-  const char *msg = r->xml_error ? r->xml_message : _("the file does not match the plan schema");
-  if (strncmp (msg, "Element '", 9) == 0)
-    {
-      const char *end = strstr (msg, "': ");
-      if (end != NULL)
-        msg = end + 3;
-    }
-  return reader_fail_at (r, HL_ERR_PARSE, r->xml_line, element, "%s", msg);
-}
-
-static HlStatus
-parse_document (HlReader *r, const char *data, size_t size, xmlDocPtr *out)
-{
-  *out = NULL;
-  if (size == 0)
-    return reader_fail_at (r, HL_ERR_PARSE, 0, NULL, _("the file is empty"));
-  if (size > HL_PLAN_MAX_BYTES || size > INT_MAX)
-    return reader_fail_at (r, HL_ERR_PARSE, 0, NULL,
-                           _("the file is %zu bytes, more than the %u bytes a plan may have"),
-                           size, HL_PLAN_MAX_BYTES);
-  if (!hl_plan_scan_ok (data, size, r->name, r->err))
-    return r->status = HL_ERR_PARSE;
-
-  xmlParserCtxtPtr ctxt = xmlNewParserCtxt ();
-  if (ctxt == NULL || ctxt->sax == NULL)
-    {
-      xmlFreeParserCtxt (ctxt);
-      return reader_fail_at (r, HL_ERR_NOMEM, 0, NULL, _("out of memory"));
-    }
-  ctxt->_private = r;
-  ctxt->sax->internalSubset = doctype_cb;
-  ctxt->sax->externalSubset = NULL;
-  ctxt->sax->serror = parser_error_cb;
-  r->ctxt = ctxt;
-
-  xmlDocPtr doc = xmlCtxtReadMemory (ctxt, data, (int) size,
-                                     r->name ? r->name : "plan", NULL,
-                                     HL_XML_PARSE_OPTIONS);
-  bool well_formed = ctxt->wellFormed;
-  r->ctxt = NULL;
-  xmlFreeParserCtxt (ctxt);
-
-  if (r->saw_doctype)
-    {
-      xmlFreeDoc (doc);
-      char element[HL_QUOTED_VALUE_MAX + 16];
-      snprintf (element, sizeof element, "<!DOCTYPE %s>", r->doctype_name);
-      return reader_fail_at (r, HL_ERR_PARSE, r->doctype_line, element,
-                             _("the file has a document type declaration; plan files "
-                               "never have one, so it is refused and nothing it "
-                               "declares or points to is read"));
-    }
-  if (doc == NULL || !well_formed)
-    {
-      xmlFreeDoc (doc);
-      return reader_fail_at (r, HL_ERR_PARSE, r->xml_error ? r->xml_line : 0,
-                             r->xml_element,
-                             _("the file is not well-formed XML: %s"),
-                             r->xml_error ? r->xml_message : _("unknown error"));
-    }
-  *out = doc;
-  return HL_OK;
+  describe_element (r->x.xml_node, element, sizeof element);
+  return reader_fail_at (r, HL_ERR_PARSE, r->x.xml_line, element, "%s",
+                         hl_xml_schema_message (&r->x));
 }
 
 /* Before the schema: a plan without its case or its required landmarks
@@ -2495,7 +2134,7 @@ static HlStatus
 load_document (HlReader *r, const char *data, size_t size, HlPlan **out)
 {
   xmlDocPtr doc = NULL;
-  HlStatus st = parse_document (r, data, size, &doc);
+  HlStatus st = hl_xml_parse (&r->x, data, size, &doc);
   if (st != HL_OK)
     return st;
 
@@ -2539,7 +2178,7 @@ load_document (HlReader *r, const char *data, size_t size, HlPlan **out)
         memset (&plan->landmarks, 0, sizeof plan->landmarks);
     }
   if (st == HL_OK && !read_plan_element (r, plan_node, plan, &nodes))
-    st = r->status;
+    st = r->x.status;
 
   if (st == HL_OK)
     {
@@ -2552,8 +2191,8 @@ load_document (HlReader *r, const char *data, size_t size, HlPlan **out)
           char element[HL_ERROR_FIELD_MAX];
           describe_element (node, element, sizeof element);
           reader_fail_at (r, st, node_line (node), element, "%s", check.message);
-          if (r->err != NULL)
-            snprintf (r->err->field, sizeof r->err->field, "%s", check.field);
+          if (r->x.err != NULL)
+            snprintf (r->x.err->field, sizeof r->x.err->field, "%s", check.field);
         }
     }
 
@@ -2583,36 +2222,23 @@ static HlStatus
 load_buffer_for (const char *data, size_t size, const char *name_for_errors,
                  const char *base_file, HlPlan **out, HlError *err)
 {
-  HlReader r;
-  memset (&r, 0, sizeof r);
-  r.name = name_for_errors;
-  r.base_file = base_file;
-  r.err = err;
   hl_error_clear (err);
-
   if (is_wide_encoding ((const unsigned char *) data, size))
     return hl_error_set (err, HL_ERR_PARSE, name_for_errors ? name_for_errors : "",
                          _("%s: the file is in a UTF-16 or UTF-32 encoding; plan files "
                            "are UTF-8: save it again with UTF-8 encoding"),
                          name_for_errors ? name_for_errors : _("the plan"));
 
-  xmlInitParser ();
-
   HlCNumeric scope;
   if (!c_numeric_enter (&scope))
     return hl_error_set (err, HL_ERR_NOMEM, "", _("Cannot set up the C locale for numbers"));
 
-  /* Catches whatever a context-level handler does not; libxml2 keeps these
-   * per thread. */
-  xmlStructuredErrorFunc old_handler = xmlStructuredError;
-  void *old_context = xmlStructuredErrorContext;
-  xmlSetStructuredErrorFunc (&r, xml_error_cb);
-
+  HlReader r;
+  memset (&r, 0, sizeof r);
+  r.base_file = base_file;
+  hl_xml_load_begin (&r.x, &plan_kind, name_for_errors, err);
   HlStatus st = load_document (&r, data, size, out);
-
-  xmlSetStructuredErrorFunc (old_context, old_handler);
-  /* libxml2 keeps a copy of its last error per thread; it is ours now. */
-  xmlResetLastError ();
+  hl_xml_load_end (&r.x);
   c_numeric_leave (&scope);
   return st;
 }
