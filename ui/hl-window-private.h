@@ -11,13 +11,12 @@
 #include "hl-case-page.h"
 #include "hl-document.h"
 #include "hl-landmarks-page.h"
+#include "hl-options-page.h"
 #include "hl-radiograph-page.h"
 #include "hl-results.h"
 #include "hl-ui-types.h"
 
 G_BEGIN_DECLS
-
-#define HL_RECON_N_PARAMS 6
 
 /* What to do once the unsaved-changes question has been answered. */
 typedef enum {
@@ -44,18 +43,9 @@ struct _HlWindow {
   /* landmarks page */
   HlLandmarksPage *landmarks_page;
   /* options page */
-  GtkListBox *option_list;
-  GtkButton *add_option_button;
-  GtkButton *duplicate_option_button;
-  GtkButton *remove_option_button;
-  GtkEntry *option_name_entry;
-  GtkWidget *option_params;
-  GtkLabel *option_hint_label;
+  HlOptionsPage *options_page;
   /* aids page */
   HlAidsPage *aids_page;
-
-  /* built in code */
-  GtkSpinButton *recon_spin[HL_RECON_N_PARAMS];
 
   /* owned */
   HlDocument *document;      /* the plan, its history, results, analysis */
@@ -69,7 +59,6 @@ struct _HlWindow {
   HlAfterGuard after_guard;
 
   /* state */
-  guint syncing;             /* > 0 while widgets are set from the plan */
   gboolean disposing;        /* template children are going away */
   gboolean close_confirmed;
   gboolean skip_close_guard;
@@ -97,12 +86,6 @@ gboolean hl_window_is_modified (HlWindow *self);
 void hl_window_select_option (HlWindow *self, int index);
 void hl_window_show_error (HlWindow *self, const char *primary,
                            const char *secondary);
-
-/* hl-window-panel.c */
-void hl_window_panel_init (HlWindow *self);
-void hl_window_panel_sync (HlWindow *self);
-void hl_window_panel_sync_options (HlWindow *self);
-void hl_window_panel_bind_template (GtkWidgetClass *widget_class);
 
 /* hl-window-actions.c */
 void hl_window_actions_class_init (GtkWidgetClass *widget_class);

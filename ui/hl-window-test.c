@@ -164,7 +164,7 @@ print_template_control (const char *name, GtkWidget *widget, gpointer self)
 static void
 print_template (HlWindow *self)
 {
-  GtkWidget *panel = g_object_get_data (G_OBJECT (self), "hl-template-panel");
+  GtkWidget *panel = hl_options_page_get_template_panel (self->options_page);
   for (int part = 0; part < HL_TEMPLATE_PART_N; part++)
     {
       static const char *names[] = { "template-cup", "template-inclination", "template-stem" };
@@ -225,10 +225,7 @@ hl_window_print_handles (HlWindow *self)
     print_widget (self, "caution-full", GTK_WIDGET (self->caution_full_label));
   print_widget (self, "caution-short", GTK_WIDGET (self->caution_short_label));
   hl_aids_page_print_handles (self->aids_page);
-  print_widget (self, "add-option", GTK_WIDGET (self->add_option_button));
-  print_widget (self, "duplicate-option", GTK_WIDGET (self->duplicate_option_button));
-  print_widget (self, "remove-option", GTK_WIDGET (self->remove_option_button));
-  print_widget (self, "option-name", GTK_WIDGET (self->option_name_entry));
+  hl_options_page_print_handles (self->options_page);
   hl_case_page_print_handles (self->case_page);
   hl_landmarks_page_print_handles (self->landmarks_page);
   {
@@ -599,7 +596,7 @@ bench_finish (HlBench *bench)
           HL_BENCH_FRAMES * HL_BENCH_STEP_MM, HL_BENCH_IMAGE_W, HL_BENCH_IMAGE_H);
   if (bench->template_drag)
     {
-      GtkWidget *panel = g_object_get_data (G_OBJECT (self), "hl-template-panel");
+      GtkWidget *panel = hl_options_page_get_template_panel (self->options_page);
       printf ("template ranking visible: %u rows; the last ranking took %.1f ms off the main thread\n",
               hl_template_panel_get_n_ranked (panel), hl_template_panel_get_rank_ms (panel));
     }

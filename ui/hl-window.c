@@ -129,9 +129,6 @@ document_changed_cb (HlDocument *document, guint what, HlWindow *self)
 {
   if (self->disposing)
     return;
-  if (what & (HL_DOCUMENT_CHANGED_VALUES | HL_DOCUMENT_CHANGED_OPTIONS
-              | HL_DOCUMENT_CHANGED_SELECTION | HL_DOCUMENT_CHANGED_REPLACED))
-    hl_window_panel_sync (self);
   if (what & (HL_DOCUMENT_CHANGED_PLAN | HL_DOCUMENT_CHANGED_FILE
               | HL_DOCUMENT_CHANGED_RESULTS))
     {
@@ -201,7 +198,7 @@ hl_window_replace_plan (HlWindow *self, const HlPlan *plan, GFile *file)
   if (hl_document_replace (self->document, resolved != NULL ? resolved : plan, file))
     hl_autosave_plan_replaced (GTK_WINDOW (self));
   hl_plan_free (resolved);
-  hl_template_panel_set_warnings (g_object_get_data (G_OBJECT (self), "hl-template-panel"),
+  hl_template_panel_set_warnings (hl_options_page_get_template_panel (self->options_page),
                                   warnings);
   if (warnings != NULL)
     hl_message_show_status (GTK_WIDGET (self),
@@ -449,7 +446,6 @@ hl_window_dispose (GObject *object)
 
   /* Lists emit selection changes while their rows are removed. */
   self->disposing = TRUE;
-  self->syncing++;
   if (self->chooser != NULL)
     {
       gtk_native_dialog_destroy (self->chooser);
@@ -488,6 +484,7 @@ hl_window_class_init (HlWindowClass *klass)
   g_type_ensure (HL_TYPE_AIDS_PAGE);
   g_type_ensure (HL_TYPE_CASE_PAGE);
   g_type_ensure (HL_TYPE_LANDMARKS_PAGE);
+  g_type_ensure (HL_TYPE_OPTIONS_PAGE);
   g_type_ensure (HL_TYPE_CANVAS);
   g_type_ensure (HL_TYPE_RESULTS);
   g_type_ensure (HL_TYPE_CHARTS_VIEW);
@@ -504,7 +501,10 @@ hl_window_class_init (HlWindowClass *klass)
   gtk_widget_class_bind_template_child (widget_class, HlWindow, status_label);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, lower_stack);
   gtk_widget_class_bind_template_child (widget_class, HlWindow, charts_view);
-  hl_window_panel_bind_template (widget_class);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, case_page);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, landmarks_page);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, options_page);
+  gtk_widget_class_bind_template_child (widget_class, HlWindow, aids_page);
   hl_window_actions_class_init (widget_class);
 }
 
@@ -542,11 +542,9 @@ hl_window_init (HlWindow *self)
   hl_landmarks_page_set_document (self->landmarks_page, self->document);
   g_signal_connect_object (self->landmarks_page, "notify::selected-landmark",
                            G_CALLBACK (page_selected_landmark_cb), self, 0);
-  hl_window_panel_init (self);
+  hl_options_page_set_document (self->options_page, self->document);
   hl_template_tool_attach (self->canvas, self->document);
-  GtkWidget *template_panel = hl_template_panel_new (self->document);
-  gtk_box_append (GTK_BOX (gtk_widget_get_parent (self->option_params)), template_panel);
-  g_object_set_data (G_OBJECT (self), "hl-template-panel", template_panel);
+  GtkWidget *template_panel = hl_options_page_get_template_panel (self->options_page);
   hl_template_panel_set_changed_func (template_panel, template_panel_changed_cb, self);
   hl_template_panel_setup_catalogues (template_panel, GTK_WINDOW (self), G_ACTION_MAP (self));
   g_signal_connect_object (self->canvas, "notify::selected-template",
@@ -563,7 +561,6 @@ hl_window_init (HlWindow *self)
                            G_CALLBACK (document_changed_cb), self, 0);
   g_signal_connect_object (self->document, "error",
                            G_CALLBACK (document_error_cb), self, 0);
-  hl_window_panel_sync (self);
   hl_window_plan_edited (self);
 }
 
