@@ -7,12 +7,11 @@
 
 #define G_LOG_DOMAIN "hl-aids-page"
 
-#include <math.h>
 #include <stddef.h>
-#include <stdio.h>
 #include <glib/gi18n.h>
 
 #include "hl-aids-page.h"
+#include "hl-ui-util.h"
 
 /* A cane force in per cent of body weight: at most all of it. */
 #define HL_PERCENT_BW_MAX 100.0
@@ -33,24 +32,12 @@ struct _HlAidsPage {
   GtkSpinButton *load_ipsi_distance_spin;
   GtkSpinButton *load_midline_spin;
 
-  /* borrowed */
-  HlDocument *document;
-
-  /* state */
-  guint syncing;             /* > 0 while the controls are set from the plan */
+  HlPageLink link;
 };
 
 G_DEFINE_FINAL_TYPE (HlAidsPage, hl_aids_page, GTK_TYPE_BOX)
 
-/* A spin button that edits one double of the plan directly. */
-typedef struct {
-  size_t widget_offset;      /* of the GtkSpinButton * in HlAidsPage */
-  const char *field;         /* undo coalescing key */
-  size_t plan_offset;        /* of the double in HlPlan */
-  double lower, upper, step, page;
-} HlAidsSpin;
-
-static const HlAidsSpin spins[] = {
+static const HlPlanSpin spins[] = {
   { G_STRUCT_OFFSET (HlAidsPage, cane_distance_spin), "cane-distance",
     offsetof (HlPlan, cane.distance_mm), 0.0, HL_DISTANCE_MAX_MM, 5.0, 50.0 },
   { G_STRUCT_OFFSET (HlAidsPage, load_contra_mass_spin), "load-contra-mass",
@@ -68,25 +55,6 @@ static const HlAidsSpin spins[] = {
   { G_STRUCT_OFFSET (HlAidsPage, load_midline_spin), "load-midline",
     offsetof (HlPlan, loads.midline_kg), 0.0, HL_HAND_LOAD_MAX_KG, 0.5, 5.0 },
 };
-
-static GtkSpinButton *
-spin_at (HlAidsPage *self, const HlAidsSpin *b)
-{
-  return G_STRUCT_MEMBER (GtkSpinButton *, self, b->widget_offset);
-}
-
-static double
-plan_value (const HlPlan *plan, size_t offset)
-{
-  return *(const double *) ((const char *) plan + offset);
-}
-
-static void
-set_spin (GtkSpinButton *spin, double value)
-{
-  if (isfinite (value) && gtk_spin_button_get_value (spin) != value)
-    gtk_spin_button_set_value (spin, value);
-}
 
 static double
 cane_value_max (HlForceUnit unit)
@@ -109,7 +77,7 @@ static void
 sync_cane_value (HlAidsPage *self, const HlPlan *plan)
 {
   gtk_spin_button_set_range (self->cane_value_spin, 0.0, cane_value_max (plan->cane.unit));
-  set_spin (self->cane_value_spin, plan->cane.value);
+  hl_ui_set_spin (self->cane_value_spin, plan->cane.value);
 }
 
 /* The cane's caption: how much people put through a cane, and the plain
@@ -130,17 +98,16 @@ sync_cane_note (HlAidsPage *self, const HlPlan *plan)
 static void
 sync_page (HlAidsPage *self)
 {
-  const HlPlan *plan = hl_document_get_plan (self->document);
+  const HlPlan *plan = hl_document_get_plan (self->link.document);
 
-  self->syncing++;
-  for (guint i = 0; i < G_N_ELEMENTS (spins); i++)
-    set_spin (spin_at (self, &spins[i]), plan_value (plan, spins[i].plan_offset));
+  self->link.syncing++;
+  hl_plan_spins_sync (self, spins, G_N_ELEMENTS (spins), plan);
   gtk_check_button_set_active (self->cane_check, plan->cane.enabled);
   gtk_drop_down_set_selected (self->cane_hand_drop, (guint) plan->cane.hand);
   gtk_drop_down_set_selected (self->cane_unit_drop, (guint) plan->cane.unit);
   sync_cane_value (self, plan);
   sync_cane_note (self, plan);
-  self->syncing--;
+  self->link.syncing--;
 }
 
 static void
@@ -158,34 +125,13 @@ document_changed_cb (HlDocument *document, guint what, HlAidsPage *self)
 static HlPlan *
 begin_edit (HlAidsPage *self, const char *field)
 {
-  if (self->syncing > 0 || self->document == NULL)
-    return NULL;
-  if (field == NULL)
-    hl_document_break_coalescing (self->document);
-  return hl_document_begin_edit (self->document, field);
+  return hl_page_link_begin_edit (&self->link, field);
 }
 
 static void
 end_edit (HlAidsPage *self)
 {
-  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_VALUES);
-}
-
-static void
-spin_cb (GtkSpinButton *spin, gpointer user_data)
-{
-  const HlAidsSpin *b = user_data;
-  HlAidsPage *self = HL_AIDS_PAGE (gtk_widget_get_ancestor (GTK_WIDGET (spin),
-                                                            HL_TYPE_AIDS_PAGE));
-  double value = gtk_spin_button_get_value (spin);
-  HlPlan *plan;
-
-  if (self->syncing > 0 || self->document == NULL
-      || plan_value (hl_document_get_plan (self->document), b->plan_offset) == value
-      || (plan = begin_edit (self, b->field)) == NULL)
-    return;
-  *(double *) ((char *) plan + b->plan_offset) = value;
-  end_edit (self);
+  hl_document_end_edit (self->link.document, HL_DOCUMENT_CHANGED_VALUES);
 }
 
 static void
@@ -194,8 +140,8 @@ cane_toggled_cb (GtkCheckButton *check, HlAidsPage *self)
   gboolean on = gtk_check_button_get_active (check);
   HlPlan *plan;
 
-  if (self->syncing > 0 || self->document == NULL
-      || on == hl_document_get_plan (self->document)->cane.enabled
+  if (self->link.syncing > 0 || self->link.document == NULL
+      || on == hl_document_get_plan (self->link.document)->cane.enabled
       || (plan = begin_edit (self, NULL)) == NULL)
     return;
   plan->cane.enabled = on;
@@ -208,8 +154,8 @@ cane_hand_cb (GtkDropDown *drop, GParamSpec *pspec, HlAidsPage *self)
   HlHand hand = (HlHand) gtk_drop_down_get_selected (drop);
   HlPlan *plan;
 
-  if (self->syncing > 0 || self->document == NULL
-      || hand == hl_document_get_plan (self->document)->cane.hand
+  if (self->link.syncing > 0 || self->link.document == NULL
+      || hand == hl_document_get_plan (self->link.document)->cane.hand
       || (plan = begin_edit (self, NULL)) == NULL)
     return;
   plan->cane.hand = hand;
@@ -222,8 +168,8 @@ cane_value_cb (GtkSpinButton *spin, HlAidsPage *self)
   double value = gtk_spin_button_get_value (spin);
   HlPlan *plan;
 
-  if (self->syncing > 0 || self->document == NULL
-      || value == hl_document_get_plan (self->document)->cane.value
+  if (self->link.syncing > 0 || self->link.document == NULL
+      || value == hl_document_get_plan (self->link.document)->cane.value
       || (plan = begin_edit (self, "cane-value")) == NULL)
     return;
   plan->cane.value = value;
@@ -238,16 +184,16 @@ cane_unit_cb (GtkDropDown *drop, GParamSpec *pspec, HlAidsPage *self)
   HlPlan *plan;
   double newtons;
 
-  if (self->syncing > 0 || self->document == NULL
-      || unit == hl_document_get_plan (self->document)->cane.unit
+  if (self->link.syncing > 0 || self->link.document == NULL
+      || unit == hl_document_get_plan (self->link.document)->cane.unit
       || (plan = begin_edit (self, NULL)) == NULL)
     return;
   newtons = hl_force_to_newtons (plan->cane.value, plan->cane.unit, plan->mass_kg);
   plan->cane.unit = unit;
   plan->cane.value = hl_force_from_newtons (newtons, unit, plan->mass_kg);
-  self->syncing++;
+  self->link.syncing++;
   sync_cane_value (self, plan);
-  self->syncing--;
+  self->link.syncing--;
   end_edit (self);
 }
 
@@ -258,7 +204,8 @@ hl_aids_page_set_document (HlAidsPage *self, HlDocument *document)
 {
   g_return_if_fail (HL_IS_AIDS_PAGE (self));
   g_return_if_fail (HL_IS_DOCUMENT (document));
-  self->document = document;
+  g_return_if_fail (self->link.document == NULL);
+  self->link.document = document;
   g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), self, 0);
   sync_page (self);
 }
@@ -266,18 +213,8 @@ hl_aids_page_set_document (HlAidsPage *self, HlDocument *document)
 void
 hl_aids_page_print_handles (HlAidsPage *self)
 {
-  GtkWidget *check = GTK_WIDGET (self->cane_check);
-  GtkNative *native = gtk_widget_get_native (check);
-  graphene_point_t in = GRAPHENE_POINT_INIT (gtk_widget_get_width (check) / 2.0f,
-                                             gtk_widget_get_height (check) / 2.0f);
-  graphene_point_t out;
-  double tx, ty;
-
-  if (native == NULL || !gtk_widget_get_mapped (check)
-      || !gtk_widget_compute_point (check, GTK_WIDGET (native), &in, &out))
-    return;
-  gtk_native_get_surface_transform (native, &tx, &ty);
-  printf ("WIDGET cane-check %.0f %.0f\n", out.x + tx, out.y + ty);
+  g_return_if_fail (HL_IS_AIDS_PAGE (self));
+  hl_ui_print_widget ("cane-check", GTK_WIDGET (self->cane_check));
 }
 
 /* ---- GObject -------------------------------------------------------- */
@@ -319,16 +256,7 @@ hl_aids_page_init (HlAidsPage *self)
   /* Ctrl+Z in a number field means the plan's undo, not the text's. */
   gtk_editable_set_enable_undo (GTK_EDITABLE (self->cane_value_spin), FALSE);
   gtk_spin_button_set_increments (self->cane_value_spin, 1.0, 10.0);
-  for (guint i = 0; i < G_N_ELEMENTS (spins); i++)
-    {
-      const HlAidsSpin *b = &spins[i];
-      GtkSpinButton *spin = spin_at (self, b);
-
-      gtk_spin_button_set_range (spin, b->lower, b->upper);
-      gtk_spin_button_set_increments (spin, b->step, b->page);
-      gtk_editable_set_enable_undo (GTK_EDITABLE (spin), FALSE);
-      g_signal_connect (spin, "value-changed", G_CALLBACK (spin_cb), (gpointer) b);
-    }
+  hl_plan_spins_bind (self, &self->link, spins, G_N_ELEMENTS (spins));
   g_signal_connect_object (self->cane_check, "toggled", G_CALLBACK (cane_toggled_cb), self, 0);
   g_signal_connect_object (self->cane_hand_drop, "notify::selected",
                            G_CALLBACK (cane_hand_cb), self, 0);

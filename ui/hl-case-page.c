@@ -7,13 +7,12 @@
 
 #define G_LOG_DOMAIN "hl-case-page"
 
-#include <math.h>
 #include <stddef.h>
-#include <stdio.h>
 #include <glib/gi18n.h>
 
 #include "hl-case-page.h"
 #include "hl-settings.h"
+#include "hl-ui-util.h"
 
 /* The international avoirdupois pound, exactly. */
 #define HL_KG_PER_LB 0.45359237
@@ -41,11 +40,7 @@ struct _HlCasePage {
   GtkSpinButton *lean_spin;
   GtkSpinButton *capacity_spin;
 
-  /* borrowed */
-  HlDocument *document;
-
-  /* state */
-  guint syncing;             /* > 0 while the controls are set from the plan */
+  HlPageLink link;
   gboolean use_pounds;
 };
 
@@ -58,15 +53,7 @@ enum {
 
 static guint signals[N_SIGNALS];
 
-/* A spin button that edits one double of the plan directly. */
-typedef struct {
-  size_t widget_offset;      /* of the GtkSpinButton * in HlCasePage */
-  const char *field;         /* undo coalescing key */
-  size_t plan_offset;        /* of the double in HlPlan */
-  double lower, upper, step, page;
-} HlCaseSpin;
-
-static const HlCaseSpin spins[] = {
+static const HlPlanSpin spins[] = {
   { G_STRUCT_OFFSET (HlCasePage, limb_custom_spin), "limb-fraction",
     offsetof (HlPlan, model.limb_fraction_custom),
     HL_LIMB_FRACTION_MIN, HL_LIMB_FRACTION_MAX, 0.001, 0.01 },
@@ -91,35 +78,16 @@ static const HlCaseDrop drops[] = {
   { G_STRUCT_OFFSET (HlCasePage, abductor_mode_drop), offsetof (HlPlan, model.abductor_line) },
 };
 
-static GtkSpinButton *
-spin_at (HlCasePage *self, const HlCaseSpin *b)
-{
-  return G_STRUCT_MEMBER (GtkSpinButton *, self, b->widget_offset);
-}
-
 static GtkDropDown *
 drop_at (HlCasePage *self, const HlCaseDrop *b)
 {
   return G_STRUCT_MEMBER (GtkDropDown *, self, b->widget_offset);
 }
 
-static double
-plan_value (const HlPlan *plan, size_t offset)
-{
-  return *(const double *) ((const char *) plan + offset);
-}
-
 static int
 plan_enum (const HlPlan *plan, size_t offset)
 {
   return *(const int *) ((const char *) plan + offset);
-}
-
-static void
-set_spin (GtkSpinButton *spin, double value)
-{
-  if (isfinite (value) && gtk_spin_button_get_value (spin) != value)
-    gtk_spin_button_set_value (spin, value);
 }
 
 /* ---- from the plan -------------------------------------------------- */
@@ -131,15 +99,15 @@ sync_mass (HlCasePage *self, const HlPlan *plan)
 
   gtk_spin_button_set_range (self->mass_spin, HL_MASS_MIN_KG * factor,
                              HL_MASS_MAX_KG * factor);
-  set_spin (self->mass_spin, plan->mass_kg * factor);
+  hl_ui_set_spin (self->mass_spin, plan->mass_kg * factor);
 }
 
 static void
 sync_page (HlCasePage *self)
 {
-  const HlPlan *plan = hl_document_get_plan (self->document);
+  const HlPlan *plan = hl_document_get_plan (self->link.document);
 
-  self->syncing++;
+  self->link.syncing++;
   if (g_strcmp0 (gtk_editable_get_text (GTK_EDITABLE (self->label_entry)), plan->label) != 0)
     gtk_editable_set_text (GTK_EDITABLE (self->label_entry), plan->label);
   sync_mass (self, plan);
@@ -147,12 +115,11 @@ sync_page (HlCasePage *self)
   gtk_drop_down_set_selected (self->limb_drop, (guint) plan->model.limb_table);
   gtk_widget_set_sensitive (GTK_WIDGET (self->limb_custom_spin),
                             plan->model.limb_table == HL_LIMB_CUSTOM);
-  for (guint i = 0; i < G_N_ELEMENTS (spins); i++)
-    set_spin (spin_at (self, &spins[i]), plan_value (plan, spins[i].plan_offset));
+  hl_plan_spins_sync (self, spins, G_N_ELEMENTS (spins), plan);
   for (guint i = 0; i < G_N_ELEMENTS (drops); i++)
     gtk_drop_down_set_selected (drop_at (self, &drops[i]),
                                 (guint) plan_enum (plan, drops[i].plan_offset));
-  self->syncing--;
+  self->link.syncing--;
 }
 
 static void
@@ -168,17 +135,13 @@ document_changed_cb (HlDocument *document, guint what, HlCasePage *self)
 static HlPlan *
 begin_edit (HlCasePage *self, const char *field)
 {
-  if (self->syncing > 0 || self->document == NULL)
-    return NULL;
-  if (field == NULL)
-    hl_document_break_coalescing (self->document);
-  return hl_document_begin_edit (self->document, field);
+  return hl_page_link_begin_edit (&self->link, field);
 }
 
 static void
 end_edit (HlCasePage *self, HlDocumentChange what)
 {
-  hl_document_end_edit (self->document, what);
+  hl_document_end_edit (self->link.document, what);
 }
 
 static void
@@ -187,8 +150,8 @@ label_changed_cb (GtkEditable *editable, HlCasePage *self)
   const char *text = gtk_editable_get_text (editable);
   HlPlan *plan;
 
-  if (self->syncing > 0 || self->document == NULL
-      || g_strcmp0 (text, hl_document_get_plan (self->document)->label) == 0
+  if (self->link.syncing > 0 || self->link.document == NULL
+      || g_strcmp0 (text, hl_document_get_plan (self->link.document)->label) == 0
       || (plan = begin_edit (self, "label")) == NULL)
     return;
   g_strlcpy (plan->label, text, sizeof plan->label);
@@ -213,11 +176,11 @@ static void
 mass_unit_cb (GtkDropDown *drop, GParamSpec *pspec, HlCasePage *self)
 {
   self->use_pounds = gtk_drop_down_get_selected (drop) == 1;
-  if (self->document == NULL)
+  if (self->link.document == NULL)
     return;
-  self->syncing++;
-  sync_mass (self, hl_document_get_plan (self->document));
-  self->syncing--;
+  self->link.syncing++;
+  sync_mass (self, hl_document_get_plan (self->link.document));
+  self->link.syncing--;
 }
 
 static void
@@ -226,8 +189,8 @@ side_cb (GtkDropDown *drop, GParamSpec *pspec, HlCasePage *self)
   HlSide side = gtk_drop_down_get_selected (drop) == 1 ? HL_SIDE_LEFT : HL_SIDE_RIGHT;
   HlPlan *plan;
 
-  if (self->syncing > 0 || self->document == NULL
-      || side == hl_document_get_plan (self->document)->side
+  if (self->link.syncing > 0 || self->link.document == NULL
+      || side == hl_document_get_plan (self->link.document)->side
       || (plan = begin_edit (self, NULL)) == NULL)
     return;
   /* Over a radiograph the landmarks must stay on their pixels: the side
@@ -249,28 +212,11 @@ limb_cb (GtkDropDown *drop, GParamSpec *pspec, HlCasePage *self)
 
   gtk_widget_set_sensitive (GTK_WIDGET (self->limb_custom_spin),
                             table == HL_LIMB_CUSTOM);
-  if (self->syncing > 0 || self->document == NULL || table >= HL_LIMB_N
-      || table == (guint) hl_document_get_plan (self->document)->model.limb_table
+  if (self->link.syncing > 0 || self->link.document == NULL || table >= HL_LIMB_N
+      || table == (guint) hl_document_get_plan (self->link.document)->model.limb_table
       || (plan = begin_edit (self, NULL)) == NULL)
     return;
   plan->model.limb_table = (HlLimbTable) table;
-  end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
-}
-
-static void
-spin_cb (GtkSpinButton *spin, gpointer user_data)
-{
-  const HlCaseSpin *b = user_data;
-  HlCasePage *self = HL_CASE_PAGE (gtk_widget_get_ancestor (GTK_WIDGET (spin),
-                                                            HL_TYPE_CASE_PAGE));
-  double value = gtk_spin_button_get_value (spin);
-  HlPlan *plan;
-
-  if (self->syncing > 0 || self->document == NULL
-      || plan_value (hl_document_get_plan (self->document), b->plan_offset) == value
-      || (plan = begin_edit (self, b->field)) == NULL)
-    return;
-  *(double *) ((char *) plan + b->plan_offset) = value;
   end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
@@ -283,8 +229,8 @@ drop_cb (GtkDropDown *drop, GParamSpec *pspec, gpointer user_data)
   int value = (int) gtk_drop_down_get_selected (drop);
   HlPlan *plan;
 
-  if (self->syncing > 0 || self->document == NULL
-      || plan_enum (hl_document_get_plan (self->document), b->plan_offset) == value
+  if (self->link.syncing > 0 || self->link.document == NULL
+      || plan_enum (hl_document_get_plan (self->link.document), b->plan_offset) == value
       || (plan = begin_edit (self, NULL)) == NULL)
     return;
   *(int *) ((char *) plan + b->plan_offset) = value;
@@ -303,7 +249,7 @@ add_defaults_button (HlCasePage *self)
     return;
   gtk_grid_query_child (GTK_GRID (grid), anchor, NULL, &row, NULL, NULL);
   gtk_grid_insert_row (GTK_GRID (grid), row + 1);
-  gtk_grid_attach (GTK_GRID (grid), hl_settings_defaults_button_new (self->document),
+  gtk_grid_attach (GTK_GRID (grid), hl_settings_defaults_button_new (self->link.document),
                    0, row + 1, 3, 1);
 }
 
@@ -314,36 +260,20 @@ hl_case_page_set_document (HlCasePage *self, HlDocument *document)
 {
   g_return_if_fail (HL_IS_CASE_PAGE (self));
   g_return_if_fail (HL_IS_DOCUMENT (document));
-  g_return_if_fail (self->document == NULL);
-  self->document = document;
+  g_return_if_fail (self->link.document == NULL);
+  self->link.document = document;
   g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), self, 0);
   add_defaults_button (self);
   sync_page (self);
-}
-
-static void
-print_widget (const char *name, GtkWidget *widget)
-{
-  GtkNative *native = gtk_widget_get_native (widget);
-  graphene_point_t in = GRAPHENE_POINT_INIT (gtk_widget_get_width (widget) / 2.0f,
-                                             gtk_widget_get_height (widget) / 2.0f);
-  graphene_point_t out;
-  double tx, ty;
-
-  if (native == NULL || !gtk_widget_get_mapped (widget)
-      || !gtk_widget_compute_point (widget, GTK_WIDGET (native), &in, &out))
-    return;
-  gtk_native_get_surface_transform (native, &tx, &ty);
-  printf ("WIDGET %s %.0f %.0f\n", name, out.x + tx, out.y + ty);
 }
 
 void
 hl_case_page_print_handles (HlCasePage *self)
 {
   g_return_if_fail (HL_IS_CASE_PAGE (self));
-  print_widget ("mass-spin", GTK_WIDGET (self->mass_spin));
-  print_widget ("mass-unit", GTK_WIDGET (self->mass_unit_drop));
-  print_widget ("side", GTK_WIDGET (self->side_drop));
+  hl_ui_print_widget ("mass-spin", GTK_WIDGET (self->mass_spin));
+  hl_ui_print_widget ("mass-unit", GTK_WIDGET (self->mass_unit_drop));
+  hl_ui_print_widget ("side", GTK_WIDGET (self->side_drop));
 }
 
 /* ---- GObject -------------------------------------------------------- */
@@ -397,16 +327,7 @@ hl_case_page_init (HlCasePage *self)
   /* Ctrl+Z in a number field means the plan's undo, not the text's. */
   gtk_spin_button_set_increments (self->mass_spin, 0.5, 5.0);
   gtk_editable_set_enable_undo (GTK_EDITABLE (self->mass_spin), FALSE);
-  for (guint i = 0; i < G_N_ELEMENTS (spins); i++)
-    {
-      const HlCaseSpin *b = &spins[i];
-      GtkSpinButton *spin = spin_at (self, b);
-
-      gtk_spin_button_set_range (spin, b->lower, b->upper);
-      gtk_spin_button_set_increments (spin, b->step, b->page);
-      gtk_editable_set_enable_undo (GTK_EDITABLE (spin), FALSE);
-      g_signal_connect (spin, "value-changed", G_CALLBACK (spin_cb), (gpointer) b);
-    }
+  hl_plan_spins_bind (self, &self->link, spins, G_N_ELEMENTS (spins));
   for (guint i = 0; i < G_N_ELEMENTS (drops); i++)
     g_signal_connect (drop_at (self, &drops[i]), "notify::selected",
                       G_CALLBACK (drop_cb), (gpointer) &drops[i]);

@@ -12,6 +12,7 @@
 #include <glib/gi18n.h>
 
 #include "hl-landmarks-page.h"
+#include "hl-ui-util.h"
 
 #define HL_LANDMARK_ID_KEY "hl-landmark-id"
 
@@ -46,13 +47,6 @@ enum {
 
 static GParamSpec *props[N_PROPS];
 
-static void
-set_spin (GtkSpinButton *spin, double value)
-{
-  if (isfinite (value) && gtk_spin_button_get_value (spin) != value)
-    gtk_spin_button_set_value (spin, value);
-}
-
 static HlLandmarkId
 row_landmark (GtkWidget *widget)
 {
@@ -71,8 +65,8 @@ sync_landmark (HlLandmarksPage *self, const HlPlan *plan, HlLandmarkId id)
   self->syncing++;
   if (placed)
     {
-      set_spin (self->lm_x[id], lm->p[id].x);
-      set_spin (self->lm_y[id], lm->p[id].y);
+      hl_ui_set_spin (self->lm_x[id], lm->p[id].x);
+      hl_ui_set_spin (self->lm_y[id], lm->p[id].y);
     }
   gtk_check_button_set_active (self->lm_placed[id], placed);
   if (placed)
@@ -319,22 +313,6 @@ hl_landmarks_page_set_selected_landmark (HlLandmarksPage *self, int id)
   show_landmark_hint (self, id);
 }
 
-static void
-print_widget (const char *name, GtkWidget *widget)
-{
-  GtkNative *native = gtk_widget_get_native (widget);
-  graphene_point_t in = GRAPHENE_POINT_INIT (gtk_widget_get_width (widget) / 2.0f,
-                                             gtk_widget_get_height (widget) / 2.0f);
-  graphene_point_t out;
-  double tx, ty;
-
-  if (native == NULL || !gtk_widget_get_mapped (widget)
-      || !gtk_widget_compute_point (widget, GTK_WIDGET (native), &in, &out))
-    return;
-  gtk_native_get_surface_transform (native, &tx, &ty);
-  printf ("WIDGET %s %.0f %.0f\n", name, out.x + tx, out.y + ty);
-}
-
 void
 hl_landmarks_page_print_handles (HlLandmarksPage *self)
 {
@@ -345,8 +323,8 @@ hl_landmarks_page_print_handles (HlLandmarksPage *self)
       g_autofree char *x = g_strdup_printf ("lm-x-%s", key);
       g_autofree char *y = g_strdup_printf ("lm-y-%s", key);
 
-      print_widget (x, GTK_WIDGET (self->lm_x[i]));
-      print_widget (y, GTK_WIDGET (self->lm_y[i]));
+      hl_ui_print_widget (x, GTK_WIDGET (self->lm_x[i]));
+      hl_ui_print_widget (y, GTK_WIDGET (self->lm_y[i]));
     }
 }
 

@@ -16,6 +16,7 @@
 #include "hl-image.h"
 #include "hl-measure.h"
 #include "hl-radiograph-page.h"
+#include "hl-ui-util.h"
 #include "hl-underlay.h"
 #include "hl-version.h"
 #include "hl-message.h"
@@ -1087,30 +1088,15 @@ refresh (HlRadiographPage *self)
 
 /* ---- Test hooks -------------------------------------------------------------------- */
 
-static void
-print_widget (const char *name, GtkWidget *widget)
-{
-  GtkNative *native = gtk_widget_get_native (widget);
-  graphene_point_t in = GRAPHENE_POINT_INIT (gtk_widget_get_width (widget) / 2.0f,
-                                             gtk_widget_get_height (widget) / 2.0f);
-  graphene_point_t out;
-  double tx, ty;
-  if (native == NULL || !gtk_widget_get_mapped (widget)
-      || !gtk_widget_compute_point (widget, GTK_WIDGET (native), &in, &out))
-    return;
-  gtk_native_get_surface_transform (native, &tx, &ty);
-  printf ("WIDGET %s %.0f %.0f\n", name, out.x + tx, out.y + ty);
-}
-
 void
 hl_radiograph_page_print_handles (HlRadiographPage *self)
 {
   g_return_if_fail (HL_IS_RADIOGRAPH_PAGE (self));
-  print_widget ("radiograph-calibrate", self->calibrate_button);
-  print_widget ("radiograph-guide", self->guide_button);
-  print_widget ("radiograph-skip", self->skip_button);
-  print_widget ("radiograph-back", self->back_button);
-  print_widget ("radiograph-stop", self->stop_button);
+  hl_ui_print_widget ("radiograph-calibrate", self->calibrate_button);
+  hl_ui_print_widget ("radiograph-guide", self->guide_button);
+  hl_ui_print_widget ("radiograph-skip", self->skip_button);
+  hl_ui_print_widget ("radiograph-back", self->back_button);
+  hl_ui_print_widget ("radiograph-stop", self->stop_button);
 
   GtkNative *native = gtk_widget_get_native (GTK_WIDGET (self->canvas));
   graphene_point_t in = GRAPHENE_POINT_INIT (0, 0), out;
