@@ -640,7 +640,7 @@ cmd_solve (const HlCliCommand *cmd, const HlCliArgs *args)
       HlError err;
 
       hl_error_clear (&err);
-      if (hl_summary_to_buffer (plan, NULL, &xml, &size, &err) != HL_OK)
+      if (hl_summary_to_buffer_solved (plan, NULL, &xml, &size, &err) != HL_OK)
         {
           hl_cli_report_error (path, NULL, &err);
           status = HL_CLI_EXIT_INVALID;
@@ -716,13 +716,13 @@ cmd_summary (const HlCliCommand *cmd, const HlCliArgs *args)
     {
       char *xml = NULL;
       size_t size = 0;
-      st = hl_summary_to_buffer (plan, NULL, &xml, &size, &err);
+      st = hl_summary_to_buffer_solved (plan, NULL, &xml, &size, &err);
       if (st == HL_OK)
         status = hl_cli_write_output (out, xml, size);
       free (xml);
     }
   else
-    st = hl_summary_save_file (plan, out, &err);
+    st = hl_summary_save_file_solved (plan, out, &err);
   hl_plan_free (plan);
   if (status != HL_CLI_EXIT_OK)
     return status;

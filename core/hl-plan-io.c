@@ -939,14 +939,17 @@ write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
   put_result_number (b, "acetabular-offset-change-mm", r->acetabular_offset_change_mm);
   put_result_number (b, "global-offset-change-mm", r->global_offset_change_mm);
   put_result_number (b, "abductor-length-change-mm", r->abductor_length_change_mm);
-  put_result_number (b, "jrf-bw-p05", mc->jrf_bw.p05);
-  put_result_number (b, "jrf-bw-p50", mc->jrf_bw.p50);
-  put_result_number (b, "jrf-bw-p95", mc->jrf_bw.p95);
-  put_result_number (b, "abductor-force-bw-p05", mc->abductor_force_bw.p05);
-  put_result_number (b, "abductor-force-bw-p50", mc->abductor_force_bw.p50);
-  put_result_number (b, "abductor-force-bw-p95", mc->abductor_force_bw.p95);
-  if (index >= 0)
-    put_result_number (b, "share-lower-than-native", mc->share_lower_jrf);
+  if (mc != NULL)     /* NULL: the ranges were not computed (a <refusal> says why) */
+    {
+      put_result_number (b, "jrf-bw-p05", mc->jrf_bw.p05);
+      put_result_number (b, "jrf-bw-p50", mc->jrf_bw.p50);
+      put_result_number (b, "jrf-bw-p95", mc->jrf_bw.p95);
+      put_result_number (b, "abductor-force-bw-p05", mc->abductor_force_bw.p05);
+      put_result_number (b, "abductor-force-bw-p50", mc->abductor_force_bw.p50);
+      put_result_number (b, "abductor-force-bw-p95", mc->abductor_force_bw.p95);
+      if (index >= 0)
+        put_result_number (b, "share-lower-than-native", mc->share_lower_jrf);
+    }
 
   hl_buf_puts (b, " flags=\"");
   bool first = true;
@@ -983,39 +986,235 @@ write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
   hl_buf_puts (b, "  </result>\n");
 }
 
-/* The plan's Monte Carlo ranges; *out (1 + n_options entries) is malloc'd. */
-static HlStatus
-run_uncertainty (const HlPlan *plan, HlMcSummary **out, HlMcInfo *info, HlError *err)
-{
-  HlModel model;
-  HlMcSettings settings;
-  HlStatus st = hl_model_prepare (&model, plan, err);
-  if (st != HL_OK)
-    return st;
-  hl_mc_settings_for_plan (plan, &settings, NULL);
+/* What a summary shows: native and each option solved on its own, a
+ * refused row keeping its refusal instead of numbers, and the Monte Carlo
+ * ranges of native and the options that solved.  A plan that loads always
+ * has one (only running out of memory stops it). */
+typedef struct {
+  HlResult *results;       /* 1 + n_options rows, 0 native */
+  HlError *row_errors;     /* a row's refusal; status HL_OK when it solved */
+  HlError prepare;         /* the plan's refusal: nothing could be solved */
+  HlMcSummary *mc;         /* 1 + n_options, or NULL: not computed */
+  HlMcInfo mc_info;
+  HlError mc_error;        /* why the ranges were not computed */
+} HlSummaryData;
 
-  HlMcSummary *summary = calloc (1 + plan->n_options, sizeof *summary);
-  HlMcWorkspace *ws = hl_mc_workspace_new (settings.n_samples,
-                                           plan->n_options > 0 ? plan->n_options : 1);
-  if (summary == NULL || ws == NULL)
-    st = hl_error_set (err, HL_ERR_NOMEM, "uncertainty",
-                       _("Out of memory for the uncertainty samples"));
-  else
-    st = hl_mc_run (ws, &model, plan->options, plan->n_options, &settings,
-                    summary, info, err);
-  hl_mc_workspace_free (ws);
-  if (st != HL_OK)
-    {
-      free (summary);
-      return st;
-    }
-  *out = summary;
-  return HL_OK;
+static void
+summary_data_clear (HlSummaryData *d)
+{
+  free (d->results);
+  free (d->row_errors);
+  free (d->mc);
+  memset (d, 0, sizeof *d);
 }
 
 static HlStatus
+summary_nomem (HlError *err)
+{
+  return hl_error_set (err, HL_ERR_NOMEM, "", _("Out of memory while solving the plan"));
+}
+
+/* The Monte Carlo ranges of native and the options that solved (native
+ * solved). */
+static HlStatus
+summary_uncertainty (const HlPlan *plan, const HlModel *model, HlSummaryData *d,
+                     HlError *err)
+{
+  const size_t rows = 1 + plan->n_options;
+  size_t n_ok = 0;
+  HlOption *solved = malloc (rows * sizeof *solved);
+  size_t *row_of = malloc (rows * sizeof *row_of);
+  HlMcSummary *mc = calloc (rows, sizeof *mc);
+  HlMcSettings settings;
+  hl_mc_settings_for_plan (plan, &settings, NULL);
+  HlMcWorkspace *ws = hl_mc_workspace_new (settings.n_samples,
+                                           plan->n_options > 0 ? plan->n_options : 1);
+  HlStatus st = HL_OK;
+  if (solved == NULL || row_of == NULL || mc == NULL || ws == NULL)
+    st = hl_error_set (err, HL_ERR_NOMEM, "uncertainty",
+                       _("Out of memory for the uncertainty samples"));
+  else
+    {
+      for (size_t i = 0; i < plan->n_options; i++)
+        if (d->row_errors[1 + i].status == HL_OK)
+          {
+            solved[n_ok] = plan->options[i];
+            row_of[n_ok++] = 1 + i;
+          }
+      HlStatus run = hl_mc_run (ws, model, solved, n_ok, &settings, mc, &d->mc_info,
+                                &d->mc_error);
+      if (run == HL_ERR_NOMEM)
+        {
+          if (err != NULL)
+            *err = d->mc_error;
+          st = run;
+        }
+      else if (run == HL_OK)
+        {
+          d->mc = calloc (rows, sizeof *d->mc);
+          if (d->mc == NULL)
+            st = hl_error_set (err, HL_ERR_NOMEM, "uncertainty",
+                               _("Out of memory for the uncertainty samples"));
+          else
+            {
+              d->mc[0] = mc[0];
+              for (size_t k = 0; k < n_ok; k++)
+                d->mc[row_of[k]] = mc[1 + k];
+            }
+        }
+    }
+  hl_mc_workspace_free (ws);
+  free (solved);
+  free (row_of);
+  free (mc);
+  return st;
+}
+
+static HlStatus
+summary_solve (const HlPlan *plan, HlSummaryData *d, HlError *err)
+{
+  const size_t rows = 1 + plan->n_options;
+  memset (d, 0, sizeof *d);
+  d->results = calloc (rows, sizeof *d->results);
+  d->row_errors = calloc (rows, sizeof *d->row_errors);
+  if (d->results == NULL || d->row_errors == NULL)
+    {
+      summary_data_clear (d);
+      return summary_nomem (err);
+    }
+  hl_error_clear (&d->prepare);
+  hl_error_clear (&d->mc_error);
+  HlModel model;
+  if (hl_model_prepare (&model, plan, &d->prepare) != HL_OK)
+    {
+      if (d->prepare.status == HL_ERR_NOMEM)
+        {
+          if (err != NULL)
+            *err = d->prepare;
+          summary_data_clear (d);
+          return HL_ERR_NOMEM;
+        }
+      return HL_OK;
+    }
+  for (size_t i = 0; i < rows; i++)
+    {
+      hl_error_clear (&d->row_errors[i]);
+      if (hl_model_solve (&model, i == 0 ? NULL : &plan->options[i - 1].recon,
+                          &d->results[i], &d->row_errors[i]) != HL_OK)
+        {
+          memset (&d->results[i], 0, sizeof d->results[i]);
+          if (d->row_errors[i].status == HL_OK)     /* a refusal always says why */
+            d->row_errors[i].status = HL_ERR_DEGENERATE;
+        }
+    }
+  HlStatus st = HL_OK;
+  if (d->row_errors[0].status != HL_OK)
+    hl_error_set (&d->mc_error, HL_ERR_DEGENERATE, "uncertainty",
+                  _("The uncertainty ranges were not computed: native cannot be solved"));
+  else
+    st = summary_uncertainty (plan, &model, d, err);
+  if (st != HL_OK)
+    summary_data_clear (d);
+  return st;
+}
+
+/* The first refusal a summary carries, worded as hl_plan_solve_all and
+ * the uncertainty would word it; false when there is none. */
+static bool
+summary_first_refusal (const HlPlan *plan, const HlSummaryData *d, HlError *err)
+{
+  if (d->prepare.status != HL_OK)
+    {
+      if (err != NULL)
+        *err = d->prepare;
+      return true;
+    }
+  for (size_t i = 0; i <= plan->n_options; i++)
+    if (d->row_errors[i].status != HL_OK)
+      {
+        if (err != NULL)
+          {
+            *err = d->row_errors[i];
+            hl_solve_refusal (err, plan, i);
+          }
+        return true;
+      }
+  if (d->mc == NULL)
+    {
+      if (err != NULL)
+        *err = d->mc_error;
+      return true;
+    }
+  return false;
+}
+
+/* <refusal>: what could not be solved, in place of its numbers. */
+static void
+write_refusal (HlBuf *b, const char *kind, long index, const char *name,
+               const HlError *e)
+{
+  hl_buf_puts (b, "  <refusal kind=\"");
+  hl_buf_puts (b, kind);
+  hl_buf_puts (b, "\"");
+  if (index >= 0)
+    {
+      char num[32];
+      snprintf (num, sizeof num, "%ld", index);
+      hl_buf_puts (b, " option-index=\"");
+      hl_buf_puts (b, num);
+      hl_buf_puts (b, "\" option-name=\"");
+      buf_escaped (b, name, true);
+      hl_buf_puts (b, "\"");
+    }
+  if (e->field[0] != '\0')
+    {
+      hl_buf_puts (b, " field=\"");
+      buf_escaped (b, e->field, true);
+      hl_buf_puts (b, "\"");
+      /* "landmark KEY": the landmark on its own too */
+      const char *lm = strncmp (e->field, "landmark ", 9) == 0 ? e->field + 9 : NULL;
+      if (lm != NULL && hl_landmark_from_key (lm) != HL_LM_COUNT)
+        {
+          hl_buf_puts (b, " landmark=\"");
+          hl_buf_puts (b, lm);
+          hl_buf_puts (b, "\"");
+        }
+    }
+  hl_buf_puts (b, ">");
+  buf_escaped (b, e->message, false);
+  hl_buf_puts (b, "</refusal>\n");
+}
+
+static void
+write_results (HlBuf *b, const HlPlan *plan, const HlSummaryData *d)
+{
+  hl_buf_puts (b, "<results>\n");
+  if (d->prepare.status != HL_OK)
+    write_refusal (b, "plan", -1, NULL, &d->prepare);
+  else
+    {
+      for (size_t i = 0; i <= plan->n_options; i++)
+        {
+          long index = (long) i - 1;
+          const char *name = i == 0 ? NULL : plan->options[i - 1].name;
+          if (d->row_errors[i].status != HL_OK)
+            write_refusal (b, i == 0 ? "native" : "option", index, name,
+                           &d->row_errors[i]);
+          else
+            write_result (b, &d->results[i], d->mc != NULL ? &d->mc[i] : NULL, index,
+                          name, plan);
+        }
+      if (d->mc == NULL)
+        write_refusal (b, "uncertainty", -1, NULL, &d->mc_error);
+    }
+  hl_buf_puts (b, "</results>\n");
+}
+
+/* solved_only: a plan whose summary would carry a refusal is refused with
+ * it, and nothing is made (the command line's contract). */
+static HlStatus
 summary_to_buffer_for (const HlPlan *plan, const char *date_iso, const char *base_file,
-                       char **out, size_t *size, HlError *err)
+                       bool solved_only, char **out, size_t *size, HlError *err)
 {
   char now[HL_ISO_DATE_MAX];
   if (date_iso == NULL)
@@ -1043,25 +1242,23 @@ summary_to_buffer_for (const HlPlan *plan, const char *date_iso, const char *bas
   if (st != HL_OK)
     return st;
 
-  HlResult *results = calloc (1 + plan->n_options, sizeof *results);
-  if (results == NULL)
-    return hl_error_set (err, HL_ERR_NOMEM, "", _("Out of memory while solving the plan"));
-  st = hl_plan_solve_all (plan, results, err);
-  HlMcSummary *mc = NULL;
-  HlMcInfo mc_info = { 0 };
-  if (st == HL_OK)
-    st = run_uncertainty (plan, &mc, &mc_info, err);
+  HlSummaryData d;
+  st = summary_solve (plan, &d, err);
   if (st != HL_OK)
+    return st;
+  HlError refusal;
+  if (solved_only && summary_first_refusal (plan, &d, &refusal))
     {
-      free (results);
-      return st;
+      summary_data_clear (&d);
+      if (err != NULL)
+        *err = refusal;
+      return refusal.status;
     }
 
   HlCNumeric scope;
   if (!c_numeric_enter (&scope))
     {
-      free (results);
-      free (mc);
+      summary_data_clear (&d);
       return hl_error_set (err, HL_ERR_NOMEM, "", _("Cannot set up the C locale for numbers"));
     }
 
@@ -1092,25 +1289,25 @@ summary_to_buffer_for (const HlPlan *plan, const char *date_iso, const char *bas
       hl_buf_puts (&b, date_iso);
       hl_buf_puts (&b, "\" plan-sha256=\"");
       hl_buf_puts (&b, hex);
-      snprintf (line, sizeof line,
-                "\" uncertainty-seed=\"%" PRIu64 "\" uncertainty-samples-used=\"%zu\""
-                " uncertainty-samples-dropped=\"%zu\"/>\n",
-                mc_info.seed, mc_info.n_used, mc_info.n_dropped);
-      hl_buf_puts (&b, line);
+      hl_buf_puts (&b, "\"");
+      if (d.mc != NULL)
+        {
+          snprintf (line, sizeof line,
+                    " uncertainty-seed=\"%" PRIu64 "\" uncertainty-samples-used=\"%zu\""
+                    " uncertainty-samples-dropped=\"%zu\"",
+                    d.mc_info.seed, d.mc_info.n_used, d.mc_info.n_dropped);
+          hl_buf_puts (&b, line);
+        }
+      hl_buf_puts (&b, "/>\n");
       hl_buf_append (&b, plan_text.data, plan_text.len);
-      hl_buf_puts (&b, "<results>\n");
-      write_result (&b, &results[0], &mc[0], -1, NULL, plan);
-      for (size_t i = 0; i < plan->n_options; i++)
-        write_result (&b, &results[1 + i], &mc[1 + i], (long) i, plan->options[i].name,
-                      plan);
-      hl_buf_puts (&b, "</results>\n</planning-summary>\n");
+      write_results (&b, plan, &d);
+      hl_buf_puts (&b, "</planning-summary>\n");
     }
   if (plan_text.failed)
     b.failed = true;
   c_numeric_leave (&scope);
   hl_buf_clear (&plan_text);
-  free (results);
-  free (mc);
+  summary_data_clear (&d);
   return finish_buffer (&b, w.status, out, size, err);
 }
 
@@ -1118,7 +1315,14 @@ HlStatus
 hl_summary_to_buffer (const HlPlan *plan, const char *date_iso, char **out,
                       size_t *size, HlError *err)
 {
-  return summary_to_buffer_for (plan, date_iso, NULL, out, size, err);
+  return summary_to_buffer_for (plan, date_iso, NULL, false, out, size, err);
+}
+
+HlStatus
+hl_summary_to_buffer_solved (const HlPlan *plan, const char *date_iso, char **out,
+                             size_t *size, HlError *err)
+{
+  return summary_to_buffer_for (plan, date_iso, NULL, true, out, size, err);
 }
 
 /* Writes text the caller no longer needs, then frees it; a failure to make
@@ -1157,7 +1361,16 @@ hl_summary_save_file (const HlPlan *plan, const char *path, HlError *err)
 {
   char *text = NULL;
   size_t size = 0;
-  HlStatus st = summary_to_buffer_for (plan, NULL, path, &text, &size, err);
+  HlStatus st = summary_to_buffer_for (plan, NULL, path, false, &text, &size, err);
+  return write_owned_text (st, path, text, size, false, err);
+}
+
+HlStatus
+hl_summary_save_file_solved (const HlPlan *plan, const char *path, HlError *err)
+{
+  char *text = NULL;
+  size_t size = 0;
+  HlStatus st = summary_to_buffer_for (plan, NULL, path, true, &text, &size, err);
   return write_owned_text (st, path, text, size, false, err);
 }
 

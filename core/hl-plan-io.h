@@ -56,11 +56,23 @@ HlStatus hl_plan_save_file_backup (const HlPlan *plan, const char *path,
 /* The planning summary: the plan plus results for native and every option,
  * their flags, the caution text and provenance (program version, model
  * version, date in ISO 8601, SHA-256 of the serialised plan).  `date_iso`
- * may be NULL for the current UTC time. */
+ * may be NULL for the current UTC time.  Every plan that loads has one: a
+ * row that cannot be solved gets a <refusal> (its message, field and
+ * landmark) instead of numbers, a plan whose landmarks allow no solve one
+ * <refusal kind="plan">, and the uncertainty ranges, computed over native
+ * and the options that solved, a <refusal kind="uncertainty"> when they
+ * could not be. */
 HlStatus hl_summary_to_buffer (const HlPlan *plan, const char *date_iso,
                                char **out, size_t *size, HlError *err);
 HlStatus hl_summary_save_file (const HlPlan *plan, const char *path,
                                HlError *err);
+/* The same for the command line (`summary`, `solve --format xml`): a plan
+ * whose summary would carry a refusal is refused with the first one,
+ * worded as hl_plan_solve_all() words it, and nothing is written. */
+HlStatus hl_summary_to_buffer_solved (const HlPlan *plan, const char *date_iso,
+                                      char **out, size_t *size, HlError *err);
+HlStatus hl_summary_save_file_solved (const HlPlan *plan, const char *path,
+                                      HlError *err);
 
 #ifdef __cplusplus
 }

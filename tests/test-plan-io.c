@@ -950,8 +950,10 @@ START_TEST (test_summary_refusals)
       free (out);
     }
 
-  /* A midline on the operated side cannot be solved: the summary fails with
-   * the solver's status and message. */
+  /* A midline on the operated side cannot be solved: the summary carries
+   * the plan and the solver's refusal in its own element, with no result
+   * and no range, and loads back; the command line's variant fails with
+   * the solver's status and message and makes nothing. */
   HlLandmarks lm = plan->landmarks;
   plan->landmarks.p[HL_LM_MIDLINE].x = plan->landmarks.p[HL_LM_HIP_CENTRE].x - 40.0;
   HlModel model;
@@ -959,8 +961,23 @@ START_TEST (test_summary_refusals)
   hl_error_clear (&expect);
   HlStatus st = hl_model_prepare (&model, plan, &expect);
   ck_assert_int_ne (st, HL_OK);
-  char *out = (char *) "untouched";
-  ck_assert_int_eq (hl_summary_to_buffer (plan, HL_SUMMARY_DATE, &out, NULL, &err), st);
+  char *out = NULL;
+  size_t n_out = 0;
+  ck_assert_int_eq (hl_summary_to_buffer (plan, HL_SUMMARY_DATE, &out, &n_out, &err), HL_OK);
+  ck_assert_ptr_nonnull (strstr (out, "<refusal kind=\"plan\" field=\"landmark midline\""
+                                      " landmark=\"midline\">"));
+  ck_assert_ptr_nonnull (strstr (out, expect.message));
+  ck_assert_ptr_null (strstr (out, "<result "));
+  ck_assert_ptr_null (strstr (out, "uncertainty-samples-used"));
+  HlPlan *back = NULL;
+  ck_assert_msg (hl_plan_load_buffer (out, n_out, "s.xml", &back, &err) == HL_OK, "%s",
+                 err.message);
+  ck_assert_double_eq (back->landmarks.p[HL_LM_MIDLINE].x,
+                       plan->landmarks.p[HL_LM_MIDLINE].x);
+  hl_plan_free (back);
+  free (out);
+  out = (char *) "untouched";
+  ck_assert_int_eq (hl_summary_to_buffer_solved (plan, HL_SUMMARY_DATE, &out, NULL, &err), st);
   ck_assert_str_eq (out, "untouched");
   ck_assert_str_eq (err.message, expect.message);
   plan->landmarks = lm;

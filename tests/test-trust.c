@@ -13,6 +13,7 @@
 #include <errno.h>
 #include <fcntl.h>
 #include <limits.h>
+#include <math.h>
 #include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -603,10 +604,65 @@ random_name (char *out, size_t size, int index)
   snprintf (out + len, size - len, "#%d", index);
 }
 
-/* The property: every plan that loads gives a planning summary that
- * loads, under the size limit, and gives the same plan back. */
+static size_t
+count_text (const char *hay, const char *needle)
+{
+  size_t n = 0;
+  for (const char *p = strstr (hay, needle); p != NULL; p = strstr (p + 1, needle))
+    n++;
+  return n;
+}
+
+/* Moves the plan's geometry so that a good share of the plans cannot be
+ * solved, in each of the ways a plan that loads can fail: case k % 4 == 1
+ * puts the abductor landmarks anywhere near the hip centre (lines through
+ * or medial to it, origin and insertion too close: native refused, which
+ * leaves nothing to solve, as preparing the model solves native), 2 tilts the inter-teardrop line by up to 60 degrees (no
+ * row can be prepared), 3 gives the options femoral shifts of up to the
+ * 50 mm the file allows (some options refused, native solved). */
+static void
+unsettle (HlPlan *plan, int k)
+{
+  HlLandmarks *lm = &plan->landmarks;
+  HlVec2 hc = lm->p[HL_LM_HIP_CENTRE];
+  switch (k % 4)
+    {
+    case 1:
+      hl_landmarks_set (lm, HL_LM_ABDUCTOR_ORIGIN, hc.x + rng_uniform (-60, 60),
+                        hc.y + rng_uniform (-20, 100));
+      hl_landmarks_set (lm, HL_LM_ABDUCTOR_INSERTION, hc.x + rng_uniform (-60, 60),
+                        hc.y + rng_uniform (-60, 20));
+      break;
+    case 2:
+      {
+        HlVec2 a = lm->p[HL_LM_TEARDROP];
+        double w = 124.0, t = rng_uniform (-60, 60) * 3.14159265358979 / 180.0;
+        hl_landmarks_set (lm, HL_LM_TEARDROP_OTHER, a.x + w * cos (t), a.y + w * sin (t));
+      }
+      break;
+    case 3:
+      for (size_t i = 0; i < plan->n_options; i++)
+        {
+          plan->options[i].recon.femoral_offset_mm = rng_uniform (-50, 50);
+          plan->options[i].recon.femoral_length_mm = rng_uniform (-50, 50);
+          plan->options[i].recon.cup_medial_mm = rng_uniform (-50, 50);
+        }
+      break;
+    default:
+      break;
+    }
+}
+
+/* The property: every plan that loads, solvable or not, gives a planning
+ * summary that loads, under the size limit, and gives the same plan back;
+ * each row the solver refuses has a <refusal> in its place and no numbers,
+ * a plan that cannot be prepared one <refusal kind="plan">, and the
+ * uncertainty ranges are there exactly when no <refusal
+ * kind="uncertainty"> says why not. */
 START_TEST (test_summary_of_every_plan_loads)
 {
+  int n_loaded = 0, n_all_solved = 0, n_plan_refused = 0, n_abductor_refused = 0,
+      n_option_refused = 0;
   size_t size;
   char *demo = slurp (HL_EXAMPLE, &size);
   HlPlan *base = NULL;
@@ -634,6 +690,7 @@ START_TEST (test_summary_of_every_plan_loads)
           random_name (name, k < 20 ? sizeof name : 24, i + 1);
           ck_assert_int_ge (hl_plan_add_option (plan, name, &rc), 0);
         }
+      unsettle (plan, k);
       size_t nl = 0;
       while (nl + 5 < sizeof plan->notes && (k < 20 || nl < 200))
         {
@@ -648,8 +705,15 @@ START_TEST (test_summary_of_every_plan_loads)
       ck_assert_msg (hl_plan_to_buffer (plan, &text, &n_text, &err) == HL_OK, "%s",
                      err.message);
       HlPlan *loaded = NULL;
-      ck_assert_msg (hl_plan_load_buffer (text, n_text, "p.hlplan", &loaded, &err) == HL_OK,
-                     "case %d: the plan does not load: %s", k, err.message);
+      if (hl_plan_load_buffer (text, n_text, "p.hlplan", &loaded, &err) != HL_OK)
+        {
+          /* Only a moved geometry may be refused on loading. */
+          ck_assert_msg (k % 4 != 0, "case %d: the plan does not load: %s", k, err.message);
+          hl_plan_free (plan);
+          free (text);
+          continue;
+        }
+      n_loaded++;
       char *summary = NULL;
       size_t n_summary = 0;
       ck_assert_msg (hl_summary_to_buffer (loaded, "2026-01-01T00:00:00Z", &summary,
@@ -664,6 +728,58 @@ START_TEST (test_summary_of_every_plan_loads)
       for (size_t i = 0; i < back->n_options; i++)
         ck_assert_str_eq (back->options[i].name, loaded->options[i].name);
       ck_assert_str_eq (back->label, loaded->label);
+
+      /* What the solver refuses, row by row, against the summary. */
+      HlModel model;
+      HlError prep;
+      hl_error_clear (&prep);
+      size_t rows = 1 + loaded->n_options;
+      size_t n_results = count_text (summary, "<result kind=");
+      size_t n_refusals = count_text (summary, "<refusal kind=");
+      size_t n_mc_refused = count_text (summary, "<refusal kind=\"uncertainty\"");
+      if (hl_model_prepare (&model, loaded, &prep) != HL_OK)
+        {
+          n_plan_refused++;
+          if (strncmp (prep.field, "landmark abductor", 17) == 0)
+            n_abductor_refused++;     /* native's line: prepare solves native */
+          ck_assert_msg (n_results == 0 && n_refusals == 1
+                         && count_text (summary, "<refusal kind=\"plan\"") == 1,
+                         "case %d: a plan that cannot be prepared: %zu results, "
+                         "%zu refusals", k, n_results, n_refusals);
+          ck_assert_msg (strstr (summary, prep.field) != NULL, "case %d: no field %s", k,
+                         prep.field);
+        }
+      else
+        {
+          HlResult *res = calloc (rows, sizeof *res);
+          HlStatus *row_st = calloc (rows, sizeof *row_st);
+          ck_assert (res != NULL && row_st != NULL);
+          hl_model_solve_rows (&model, loaded, res, row_st, NULL);
+          size_t n_solved = 0, n_refused_options = 0;
+          for (size_t i = 0; i < rows; i++)
+            {
+              n_solved += row_st[i] == HL_OK;
+              n_refused_options += i > 0 && row_st[i] != HL_OK;
+            }
+          ck_assert_msg (n_results == n_solved, "case %d: %zu results, %zu rows solved", k,
+                         n_results, n_solved);
+          ck_assert_uint_eq (count_text (summary, "<refusal kind=\"option\""),
+                             n_refused_options);
+          ck_assert_uint_eq (count_text (summary, "<refusal kind=\"native\""),
+                             row_st[0] != HL_OK);
+          if (row_st[0] != HL_OK)
+            ck_assert_uint_eq (n_mc_refused, 1);
+          if (n_refused_options > 0)
+            n_option_refused++;
+          if (n_solved == rows)
+            n_all_solved++;
+          /* The ranges on every result, or on none and the reason said. */
+          ck_assert_uint_eq (count_text (summary, " jrf-bw-p05="),
+                             n_mc_refused ? 0 : n_results);
+          ck_assert_uint_eq (n_refusals, rows - n_solved + n_mc_refused);
+          free (res);
+          free (row_st);
+        }
       hl_plan_free (back);
       hl_plan_free (loaded);
       hl_plan_free (plan);
@@ -671,6 +787,13 @@ START_TEST (test_summary_of_every_plan_loads)
       free (text);
     }
   hl_plan_free (base);
+  /* Every kind of plan was met. */
+  ck_assert_msg (n_loaded >= 150 && n_all_solved > 0
+                 && n_plan_refused > n_abductor_refused && n_abductor_refused > 0
+                 && n_option_refused > 0,
+                 "loaded %d: all solved %d, plan refused %d (%d for native's abductor "
+                 "line), an option refused %d", n_loaded, n_all_solved, n_plan_refused,
+                 n_abductor_refused, n_option_refused);
 }
 END_TEST
 
