@@ -117,8 +117,9 @@ static const HlCliCommand commands[] = {
        "lowers the joint load against native."),
     hl_cli_uncertainty_options, 1, 1, hl_cli_uncertainty },
   { "report", "PLAN -o OUT.pdf",
-    N_("Write the A4 PDF report (one or two pages): case, inputs, results, "
-       "ranges, schematic, charts, assumptions, sources and the caution."),
+    N_("Write the A4 PDF report (two pages, more when the content needs them): "
+       "case, inputs, results, ranges, schematic, charts, assumptions, sources "
+       "and the caution."),
     hl_cli_report_options, 1, 1, hl_cli_report },
   { "figure", "PLAN -o OUT.svg|OUT.png [--size WxH | --preset slide|half-slide] [--option N]",
     N_("Draw the schematic with the force vectors; the format follows the "

@@ -1,37 +1,37 @@
-/* hl-report.c: the A4 PDF report, figures and sweep tables (cairo only).
+/* hl-report.c: the A4 PDF report, figures and sweep tables (cairo and pango).
  *
  * Copyright 2026 the hiplever developers
  * SPDX-License-Identifier: GPL-3.0-or-later
  *
- * Layout is a flow of blocks.  Each block draws itself at a given y, or
- * only measures itself (draw false); the flow breaks pages between blocks.
- * The whole flow is run once per page drawn, so a page needs no stored
- * positions, and once to count the pages for each type scale tried.
+ * The content comes from the core (core/hl-report-data.c): every line and
+ * every table cell is text already.  Here it is set: pango wraps and
+ * measures every paragraph and cell, the content becomes a flow of items
+ * (a paragraph, a table row, a chart row, the figure), and the flow is cut
+ * into as many A4 pages as it needs.  A heading, a caption and a table's
+ * header stay with what follows them; a table that runs onto the next page
+ * repeats its header there; a results table with many options is set in
+ * groups of columns, each with the native hip for reference.  The items
+ * are placed once, in hl_report_new; a page is drawn from those places.
  */
 #include "config.h"
 
 #include <cairo-pdf.h>
 #include <cairo-svg.h>
 #include <math.h>
-#include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
-#include <time.h>
 
-#include "hl-analysis.h"
+#include <glib.h>
+#include <pango/pangocairo.h>
+
 #include "hl-chart.h"
 #include "hl-i18n.h"
-#include "hl-image.h"
-#include "hl-measure.h"
 #include "hl-palette.h"
 #include "hl-plan-io.h"
 #include "hl-render.h"
-#include <glib.h>
-
 #include "hl-report.h"
-#include "hl-result-fields.h"
 #include "hl-version.h"
 
 /* Page geometry, pt. */
@@ -46,61 +46,35 @@
 #define TYPE_BODY 8.0
 #define TYPE_TABLE 7.4
 #define TYPE_SMALL 6.8
-#define LINE_FACTOR 1.28
-/* Scales tried, largest first, until the report keeps to two pages. */
-static const double layout_scales[] = { 1.0, 0.93, 0.86, 0.8, 0.74, 0.68, 0.63, 0.58 };
+/* Baseline to baseline, times the font's own line height. */
+#define LINE_SPACING 1.08
+#define FONT_FAMILY "Sans"
+/* Scales tried, largest first, for a report that keeps to two pages; a
+ * report that needs more is set at the largest scale of the fewest pages. */
+static const double layout_scales[] = { 1.0, 0.93, 0.86, 0.8, 0.74 };
+#define PAGES_PREFERRED 2
 /* Heights of the figure and of one chart panel at scale 1, pt. */
 #define FIGURE_H 300.0
 #define CHART_H 118.0
 #define CHART_COLS 2
+/* The results table: the quantity column, and at most this many case
+ * columns (native and options) side by side; more options are set in
+ * further groups of columns. */
+#define RESULT_LABEL_W 150.0
+#define RESULT_LABEL_W_MAX 210.0
 #define RESULT_COL_MAX 96.0
-/* Room for one table cell's text. */
-#define CELL_MAX 160
+#define RESULT_CASES_MAX 7
+/* The landmarks table in three columns side by side. */
+#define LANDMARK_COLS 3
+#define LANDMARK_NUM_W 38.0
+/* Width of the case name beside the inverse answers. */
+#define ANSWER_NAME_W 96.0
+#define CELL_PAD 2.6
+#define CELL_PAD_Y 1.6
 /* Figure drawing margin, px. */
 #define FIGURE_MARGIN_PX 12.0
-/* A report needs at least this many samples for its ranges to mean much;
- * fewer are drawn all the same but the note says so. */
-#define CHART_STEPS 81
-#define PERCENT 100.0
-/* Changes against native smaller than this share are shown as 0.0%. */
-#define CHANGE_EPS 1e-9
-
-/* The inverse questions asked for each case. */
-typedef struct {
-  size_t row;              /* 0 native, 1 + i option i */
-  HlInverseAnswer answer;
-  char text[384];
-} HlReportAnswer;
-
-struct HlReport {
-  HlPlan *plan;
-  HlReportSettings settings;
-  char date[32];
-  HlModel model;
-  HlResult *results;       /* 1 + n_options */
-  size_t n_shown;          /* options in the tables */
-
-  bool have_mc;
-  HlMcSettings mc;
-  bool m_assumed;
-  HlMcSummary *mc_summary;
-  HlMcInfo mc_info;
-
-  HlReportAnswer *answers;
-  size_t n_answers;
-
-  HlChartData *charts[HL_CHART_N];
-  int figure_option;
-
-  double scale;
-  int n_pages;
-  double compute_s;
-};
-
-/* Set when a table of the layout could not be allocated (its block is then
- * left out): the report and its PDF are refused instead of missing a
- * table.  Per thread, reset before each layout. */
-static _Thread_local bool layout_out_of_memory;
+#define VIEW_COLS_MAX (1 + RESULT_CASES_MAX + 2)
+#define ITEM_VIEWS_MAX LANDMARK_COLS
 
 /* ---- Colours ------------------------------------------------------------ */
 
@@ -109,6 +83,7 @@ static const HlRgba ink_soft = { 0.33, 0.35, 0.38, 1.0 };
 static const HlRgba rule = { 0.72, 0.74, 0.77, 1.0 };
 static const HlRgba shade = { 0.93, 0.94, 0.95, 1.0 };
 static const HlRgba zebra = { 0.972, 0.976, 0.98, 1.0 };
+static const HlRgba caution_ink = { 0.55, 0.2, 0.0, 1.0 };
 
 static void
 set_rgba (cairo_t *cr, HlRgba c)
@@ -122,262 +97,78 @@ heading_colour (void)
   return hl_palette_color (HL_ROLE_WEIGHT, false);
 }
 
-/* ---- Settings and data --------------------------------------------------- */
+/* ---- The flow ------------------------------------------------------------ */
 
-void
-hl_report_settings_init (HlReportSettings *s)
-{
-  memset (s, 0, sizeof *s);
-  s->date = NULL;
-  s->target_jrf_bw = HL_REPORT_TARGET_JRF_BW_DEFAULT;
-  s->uncertainty = true;
-  s->figure_option = HL_REPORT_FIGURE_FIRST;
-}
+/* Part of a table set as one block: some of its body rows and columns, at
+ * x with these widths. */
+typedef struct {
+  const HlReportTable *t;
+  int first;               /* first body row (a row index of t) */
+  int n;                   /* body rows */
+  int n_cols;
+  int cols[VIEW_COLS_MAX];
+  double widths[VIEW_COLS_MAX];
+  double x;
+  double size;
+} HlTableView;
 
-static double
-now_s (void)
-{
-  struct timespec ts;
-  clock_gettime (CLOCK_MONOTONIC, &ts);
-  return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
-}
-
-static bool
-add_answer (HlReport *r, size_t row, HlStatus st, const HlInverseAnswer *a)
-{
-  if (st != HL_OK && st != HL_ERR_NOT_REACHABLE && st != HL_ERR_NOT_CONVERGED)
-    return false;
-  HlReportAnswer *ra = &r->answers[r->n_answers++];
-  ra->row = row;
-  ra->answer = *a;
-  hl_inverse_answer_format (a, ra->text, sizeof ra->text);
-  return true;
-}
-
-/* Native: the cane, each hand's load and the lean; each option as well the
- * two femoral offset questions. */
-#define ANSWERS_NATIVE 4
-#define ANSWERS_OPTION 6
-
-static HlStatus
-compute_answers (HlReport *r, HlError *err)
-{
-  const HlPlan *p = r->plan;
-  double target = r->settings.target_jrf_bw;
-
-  r->answers = calloc (ANSWERS_NATIVE + ANSWERS_OPTION * r->n_shown, sizeof *r->answers);
-  if (r->answers == NULL)
-    return hl_error_set (err, HL_ERR_NOMEM, "report", "%s",
-                         _("There is not enough memory for the report."));
-  for (size_t row = 0; row <= r->n_shown; row++)
-    {
-      const HlRecon *recon = row == 0 ? NULL : &p->options[row - 1].recon;
-      HlInverseAnswer a;
-      HlError e;
-      bool ok = true;   /* after a failure, e keeps its message */
-
-      if (recon != NULL)
-        {
-          if (ok)
-            hl_error_clear (&e);
-          ok = ok && add_answer (r, row, hl_inverse_offset_for_arm (&r->model, recon, NULL,
-                                                                    &a, &e), &a);
-          if (ok)
-            hl_error_clear (&e);
-          ok = ok && add_answer (r, row, hl_inverse_offset_for_global (&r->model, recon,
-                                                                       NULL, &a, &e), &a);
-        }
-      if (ok)
-        hl_error_clear (&e);
-      ok = ok && add_answer (r, row, hl_inverse_cane_for_jrf (&r->model, recon, target,
-                                                              p->cane.distance_mm, NULL,
-                                                              &a, &e), &a);
-      if (recon == NULL)
-        for (int site = HL_LOAD_SITE_CONTRALATERAL; ok && site <= HL_LOAD_SITE_IPSILATERAL;
-             site++)
-          {
-            hl_error_clear (&e);
-            ok = add_answer (r, row, hl_inverse_load_for_jrf (&r->model, recon,
-                                                              (HlLoadSite) site, target,
-                                                              NULL, &a, &e), &a);
-          }
-      if (ok)
-        hl_error_clear (&e);
-      ok = ok && add_answer (r, row, hl_inverse_lean_for_capacity (&r->model, recon, NULL,
-                                                                   &a, &e), &a);
-      if (!ok)
-        {
-          if (err != NULL)
-            *err = e;
-          return e.status != HL_OK ? e.status : HL_ERR_INVALID;
-        }
-    }
-  return HL_OK;
-}
-
-static HlStatus
-compute_mc (HlReport *r, HlError *err)
-{
-  const HlPlan *p = r->plan;
-  hl_mc_settings_for_plan (p, &r->mc, &r->m_assumed);
-  r->mc_summary = calloc (1 + p->n_options, sizeof *r->mc_summary);
-  HlMcWorkspace *ws = hl_mc_workspace_new (r->mc.n_samples,
-                                           p->n_options > 0 ? p->n_options : 1);
-  HlStatus st;
-  if (r->mc_summary == NULL || ws == NULL)
-    st = hl_error_set (err, HL_ERR_NOMEM, "report", "%s",
-                       _("There is not enough memory for the uncertainty samples."));
-  else
-    st = hl_mc_run (ws, &r->model, p->options, p->n_options, &r->mc, r->mc_summary,
-                    &r->mc_info, err);
-  hl_mc_workspace_free (ws);
-  r->have_mc = st == HL_OK;
-  return st;
-}
-
-static int layout_count_pages (const HlReport *r, double scale);
-
-HlReport *
-hl_report_new (const HlPlan *plan, const HlReportSettings *settings, HlError *err)
-{
-  HlReportSettings defaults;
-  if (settings == NULL)
-    {
-      hl_report_settings_init (&defaults);
-      settings = &defaults;
-    }
-  if (!(settings->target_jrf_bw >= HL_REPORT_TARGET_JRF_BW_MIN
-        && settings->target_jrf_bw <= HL_REPORT_TARGET_JRF_BW_MAX))
-    {
-      hl_error_set (err, HL_ERR_INVALID, "report target-jrf",
-                    _("The joint-load target is %g x body weight: it must be between "
-                      "%g and %g"), settings->target_jrf_bw,
-                    HL_REPORT_TARGET_JRF_BW_MIN, HL_REPORT_TARGET_JRF_BW_MAX);
-      return NULL;
-    }
-
-  double t0 = now_s ();
-  HlReport *r = calloc (1, sizeof *r);
-  if (r == NULL || (r->plan = hl_plan_copy (plan)) == NULL)
-    {
-      free (r);
-      hl_error_set (err, HL_ERR_NOMEM, "report", "%s",
-                    _("There is not enough memory for the report."));
-      return NULL;
-    }
-  r->settings = *settings;
-  r->settings.date = NULL;
-  if (settings->date != NULL)
-    snprintf (r->date, sizeof r->date, "%s", settings->date);
-  else
-    {
-      GDateTime *dt = g_date_time_new_now_utc ();
-      gchar *text = dt != NULL ? g_date_time_format (dt, "%Y-%m-%d") : NULL;
-      snprintf (r->date, sizeof r->date, "%s", text != NULL ? text : "?");
-      g_free (text);
-      if (dt != NULL)
-        g_date_time_unref (dt);
-    }
-  r->n_shown = plan->n_options < HL_REPORT_OPTIONS_MAX ? plan->n_options
-                                                       : HL_REPORT_OPTIONS_MAX;
-  int fo = settings->figure_option;
-  if (fo == HL_REPORT_FIGURE_FIRST)
-    fo = plan->n_options > 0 ? 0 : -1;
-  r->figure_option = fo >= 0 && (size_t) fo < plan->n_options ? fo : -1;
-
-  HlStatus st = hl_model_prepare (&r->model, r->plan, err);
-  if (st == HL_OK)
-    {
-      r->results = calloc (1 + plan->n_options, sizeof *r->results);
-      st = r->results == NULL
-           ? hl_error_set (err, HL_ERR_NOMEM, "report", "%s",
-                           _("There is not enough memory for the report."))
-           : hl_plan_solve_all (r->plan, r->results, err);
-    }
-  if (st == HL_OK && settings->uncertainty)
-    st = compute_mc (r, err);
-  if (st == HL_OK)
-    st = compute_answers (r, err);
-  for (int k = 0; st == HL_OK && k < HL_CHART_N; k++)
-    {
-      r->charts[k] = hl_chart_data_new (r->plan, (HlChartKind) k, CHART_STEPS,
-                                        HL_CHART_BAND_STEPS_DEFAULT,
-                                        r->have_mc ? &(HlMcSettings) {
-                                          .seed = r->mc.seed,
-                                          .n_samples = HL_CHART_BAND_SAMPLES_DEFAULT,
-                                          .landmark_sd_mm = r->mc.landmark_sd_mm,
-                                          .magnification_sd = r->mc.magnification_sd,
-                                          .magnification = r->mc.magnification,
-                                          .line_angle_sd_deg = r->mc.line_angle_sd_deg,
-                                        } : NULL, err);
-      if (r->charts[k] == NULL)
-        st = err != NULL && err->status != HL_OK ? err->status : HL_ERR_NOMEM;
-    }
-  if (st != HL_OK)
-    {
-      hl_report_free (r);
-      return NULL;
-    }
-  r->compute_s = now_s () - t0;
-
-  /* The largest type that keeps to two pages. */
-  layout_out_of_memory = false;
-  size_t n_scales = sizeof layout_scales / sizeof layout_scales[0];
-  for (size_t i = 0; i < n_scales; i++)
-    {
-      r->scale = layout_scales[i];
-      r->n_pages = layout_count_pages (r, r->scale);
-      if (r->n_pages <= HL_REPORT_PAGES_MAX)
-        break;
-    }
-  if (r->n_pages > HL_REPORT_PAGES_MAX)
-    r->n_pages = HL_REPORT_PAGES_MAX;
-  if (layout_out_of_memory)
-    {
-      hl_report_free (r);
-      hl_error_set (err, HL_ERR_NOMEM, "report", "%s",
-                    _("There is not enough memory for the report."));
-      return NULL;
-    }
-  return r;
-}
-
-void
-hl_report_free (HlReport *r)
-{
-  if (r == NULL)
-    return;
-  for (int k = 0; k < HL_CHART_N; k++)
-    hl_chart_data_free (r->charts[k]);
-  free (r->answers);
-  free (r->mc_summary);
-  free (r->results);
-  hl_plan_free (r->plan);
-  free (r);
-}
-
-int
-hl_report_n_pages (const HlReport *r)
-{
-  return r->n_pages;
-}
-
-double
-hl_report_compute_seconds (const HlReport *r)
-{
-  return r->compute_s;
-}
-
-/* ---- Text ------------------------------------------------------------------ */
+typedef enum {
+  ITEM_TEXT,               /* a paragraph; with mark: a list item */
+  ITEM_HEADING,            /* a section heading with its rule */
+  ITEM_CAUTION,            /* the caution box */
+  ITEM_COLUMNS,            /* two columns of lines */
+  ITEM_ROW,                /* a row of one or more table views (row -1: the header) */
+  ITEM_ANSWER,             /* a case name and one answer beside it */
+  ITEM_FIGURE,
+  ITEM_LEGEND,
+  ITEM_CHART_ROW,
+} HlItemKind;
 
 typedef struct {
-  const HlReport *r;
-  cairo_t *cr;
-  double s;          /* type scale */
-  int page;          /* the page being laid out */
-  int target;        /* the page being drawn; -1 to measure */
+  HlItemKind kind;
+  const char *text;
+  const char *label;       /* ITEM_ANSWER: the case; ITEM_CAUTION: the title */
+  char mark[24];           /* a list item's bullet or number */
+  double x, w, size;
+  bool bold;
+  HlRgba colour;
+  int views[ITEM_VIEWS_MAX];
+  int n_views;
+  int row;                 /* ITEM_ROW: body row k of the views, -1 the header */
+  int header;              /* ITEM_ROW: the item of its header, -1 none */
+  bool show_label;         /* ITEM_ANSWER: first of its case */
+  int chart;               /* ITEM_CHART_ROW: the chart */
+  const HlReportLines *left, *right;   /* ITEM_COLUMNS */
+
+  double h;
+  double gap_after;
+  bool keep_with_next;
+  bool new_page;           /* leaves the first page (the schematic after page 1) */
+
+  int page;                /* placed */
   double y;
-} HlLayout;
+  bool repeat_header;      /* at the top of a page: its header above it */
+} HlItem;
+
+struct HlReport {
+  HlReportData *d;
+  /* For the figure and the notes: the data's own. */
+  const HlPlan *plan;
+  int figure_option;
+  HlReportSettings settings;
+
+  PangoContext *pango;
+  double scale;
+  int n_pages;
+
+  HlItem *items;
+  size_t n_items, cap_items;
+  HlTableView *views;
+  size_t n_views, cap_views;
+  double head_h;           /* the running head of a continuation page */
+};
+
+/* ---- Text ------------------------------------------------------------------ */
 
 static double
 page_bottom (void)
@@ -397,757 +188,633 @@ content_width (void)
   return HL_REPORT_PAGE_WIDTH_PT - 2.0 * MARGIN_X;
 }
 
-static void
-set_font (cairo_t *cr, double size, bool bold)
+/* A pango layout of `text` in `width` pt at `size` pt: words wrap, a word
+ * longer than the width breaks between characters (no hyphen added). */
+static PangoLayout *
+text_layout (const HlReport *r, const char *text, double width, double size, bool bold,
+             bool right)
 {
-  cairo_select_font_face (cr, "sans-serif", CAIRO_FONT_SLANT_NORMAL,
-                          bold ? CAIRO_FONT_WEIGHT_BOLD : CAIRO_FONT_WEIGHT_NORMAL);
-  cairo_set_font_size (cr, size);
+  PangoLayout *layout = pango_layout_new (r->pango);
+  PangoFontDescription *fd = pango_font_description_new ();
+  pango_font_description_set_family (fd, FONT_FAMILY);
+  pango_font_description_set_weight (fd, bold ? PANGO_WEIGHT_BOLD : PANGO_WEIGHT_NORMAL);
+  pango_font_description_set_absolute_size (fd, size * PANGO_SCALE);
+  pango_layout_set_font_description (layout, fd);
+  pango_font_description_free (fd);
+  PangoAttrList *attrs = pango_attr_list_new ();
+  pango_attr_list_insert (attrs, pango_attr_insert_hyphens_new (FALSE));
+  pango_layout_set_attributes (layout, attrs);
+  pango_attr_list_unref (attrs);
+  pango_layout_set_width (layout, (int) floor (fmax (width, 1.0) * PANGO_SCALE));
+  pango_layout_set_wrap (layout, PANGO_WRAP_WORD_CHAR);
+  pango_layout_set_line_spacing (layout, LINE_SPACING);
+  pango_layout_set_alignment (layout, right ? PANGO_ALIGN_RIGHT : PANGO_ALIGN_LEFT);
+  pango_layout_set_text (layout, text != NULL ? text : "", -1);
+  return layout;
 }
 
+/* Measures, and with cr non-NULL draws, wrapped text from (x, y) in
+ * `width`; returns its height.  Empty text has no height. */
 static double
-text_width (cairo_t *cr, const char *s)
+text_block (const HlReport *r, cairo_t *cr, const char *text, double x, double y,
+            double width, double size, bool bold, HlRgba colour, bool right)
 {
-  cairo_text_extents_t e;
-  cairo_text_extents (cr, s, &e);
-  return e.x_advance;
-}
-
-/* Draws s with its top at y. */
-static void
-show_at (cairo_t *cr, const char *s, double x, double y, double size)
-{
-  cairo_font_extents_t fe;
-  cairo_font_extents (cr, &fe);
-  cairo_move_to (cr, x, y + fe.ascent + 0.5 * (size * LINE_FACTOR - fe.height));
-  cairo_show_text (cr, s);
-}
-
-/* Word-wrapped text in `width` from (x, y); returns its height.  Lines
- * break at spaces; a word longer than the width gets a line of its own. */
-static double
-wrap_text (cairo_t *cr, const char *text, double x, double y, double width,
-           double size, bool bold, HlRgba colour, bool right, bool draw)
-{
-  const double lh = size * LINE_FACTOR;
-  char line[1024];
-  size_t len = 0;
-  int n_lines = 0;
-  const char *p = text;
-
-  set_font (cr, size, bold);
-  set_rgba (cr, colour);
-  while (true)
+  if (text == NULL || text[0] == '\0')
+    return 0.0;
+  PangoLayout *layout = text_layout (r, text, width, size, bold, right);
+  int w, h;
+  pango_layout_get_size (layout, &w, &h);
+  if (cr != NULL)
     {
-      while (*p == ' ')
-        p++;
-      const char *w_end = p;
-      while (*w_end != '\0' && *w_end != ' ' && *w_end != '\n')
-        w_end++;
-      size_t wl = (size_t) (w_end - p);
-      bool flush = false;
-
-      if (wl > 0)
-        {
-          char trial[1024];
-          int n = snprintf (trial, sizeof trial, "%.*s%s%.*s", (int) len, line,
-                            len > 0 ? " " : "", (int) wl, p);
-          if (len > 0 && (n >= (int) sizeof trial || text_width (cr, trial) > width))
-            flush = true;
-          else
-            {
-              snprintf (line, sizeof line, "%s", trial);
-              len = strlen (line);
-              p = w_end;
-            }
-        }
-      bool end = *p == '\0' && !flush;
-      bool newline = !flush && *p == '\n';
-      if (flush || end || newline)
-        {
-          if (len > 0 || newline)
-            {
-              if (draw)
-                show_at (cr, line, right ? x + width - text_width (cr, line) : x,
-                         y + n_lines * lh, size);
-              n_lines++;
-            }
-          len = 0;
-          line[0] = '\0';
-          if (newline)
-            p++;
-          if (end)
-            break;
-        }
+      cairo_save (cr);
+      set_rgba (cr, colour);
+      cairo_move_to (cr, x, y);
+      pango_cairo_show_layout (cr, layout);
+      cairo_restore (cr);
     }
-  return n_lines * lh;
+  g_object_unref (layout);
+  return (double) h / PANGO_SCALE;
 }
 
-/* ---- Tables -------------------------------------------------------------- */
+/* ---- Building the flow --------------------------------------------------------- */
 
-typedef struct {
-  int n_cols;
-  int n_rows;              /* including the header rows */
-  int header_rows;
-  const double *widths;    /* pt, sum = table width */
-  const bool *right;       /* per column */
-  char (*cells)[CELL_MAX]; /* n_rows * n_cols */
-  const bool *bold_rows;   /* may be NULL */
-} HlTable;
+static HlItem *
+item_add (HlReport *r, HlItemKind kind)
+{
+  if (r->n_items == r->cap_items)
+    {
+      r->cap_items = r->cap_items ? 2 * r->cap_items : 128;
+      r->items = g_renew (HlItem, r->items, r->cap_items);
+    }
+  HlItem *it = &r->items[r->n_items++];
+  memset (it, 0, sizeof *it);
+  it->kind = kind;
+  it->header = -1;
+  it->colour = ink;
+  it->x = content_left ();
+  it->w = content_width ();
+  return it;
+}
 
-#define CELL_PAD 2.6
+/* The gap after the last item: a block ends there. */
+static void
+end_block (HlReport *r)
+{
+  if (r->n_items > 0)
+    r->items[r->n_items - 1].gap_after = BLOCK_GAP * r->scale;
+}
 
+static HlItem *
+add_text (HlReport *r, const char *text, double size, bool bold, HlRgba colour)
+{
+  HlItem *it = item_add (r, ITEM_TEXT);
+  it->text = text;
+  it->size = size;
+  it->bold = bold;
+  it->colour = colour;
+  it->h = text_block (r, NULL, text, it->x, 0, it->w, size, bold, colour, false);
+  return it;
+}
+
+static void
+add_heading (HlReport *r, const char *text, bool new_page)
+{
+  HlItem *it = item_add (r, ITEM_HEADING);
+  it->text = text;
+  it->size = TYPE_HEADING * r->scale;
+  it->h = text_block (r, NULL, text, it->x, 0, it->w, it->size, true, ink, false) + 3.0;
+  it->keep_with_next = true;
+  it->new_page = new_page;
+}
+
+static void
+add_list (HlReport *r, const HlReportLines *lines, bool numbered)
+{
+  double indent = numbered ? 12.0 : 8.0;
+  for (size_t i = 0; i < lines->n; i++)
+    {
+      HlItem *it = item_add (r, ITEM_TEXT);
+      it->text = lines->items[i];
+      it->size = TYPE_SMALL * r->scale;
+      if (numbered)
+        snprintf (it->mark, sizeof it->mark, "%zu.", i + 1);
+      else
+        snprintf (it->mark, sizeof it->mark, "\xe2\x80\xa2");
+      it->x = content_left () + indent;
+      it->w = content_width () - indent;
+      it->h = text_block (r, NULL, it->text, 0, 0, it->w, it->size, false, ink, false);
+    }
+}
+
+static int
+view_add (HlReport *r, const HlReportTable *t, int first, int n, const int *cols,
+          const double *widths, int n_cols, double x, double size)
+{
+  if (r->n_views == r->cap_views)
+    {
+      r->cap_views = r->cap_views ? 2 * r->cap_views : 16;
+      r->views = g_renew (HlTableView, r->views, r->cap_views);
+    }
+  HlTableView *v = &r->views[r->n_views];
+  memset (v, 0, sizeof *v);
+  v->t = t;
+  v->first = first;
+  v->n = n;
+  v->n_cols = n_cols;
+  for (int c = 0; c < n_cols; c++)
+    {
+      v->cols[c] = cols[c];
+      v->widths[c] = widths[c];
+    }
+  v->x = x;
+  v->size = size;
+  return (int) r->n_views++;
+}
+
+static bool
+cell_bold (const HlReportTable *t, int trow)
+{
+  return trow < t->header_rows || (t->emphasis != NULL && t->emphasis[trow]);
+}
+
+static bool
+cell_right (const HlReportTable *t, int trow, int col)
+{
+  return t->numeric[col] && !(trow < t->header_rows && col == 0);
+}
+
+/* One table row of a view: trow a row index of the table. */
 static double
-table_row_height (cairo_t *cr, const HlTable *t, int row, double size)
+view_row (const HlReport *r, cairo_t *cr, const HlTableView *v, int trow, double y,
+          bool stripe)
 {
   double h = 0.0;
-  for (int c = 0; c < t->n_cols; c++)
-    {
-      bool bold = row < t->header_rows || (t->bold_rows && t->bold_rows[row]);
-      double ch = wrap_text (cr, t->cells[row * t->n_cols + c], 0, 0,
-                             t->widths[c] - 2 * CELL_PAD, size, bold, ink, false, false);
-      h = fmax (h, ch);
-    }
-  return h + 2.0 * 1.6;
-}
+  for (int c = 0; c < v->n_cols; c++)
+    h = fmax (h, text_block (r, NULL, hl_report_table_cell (v->t, trow, v->cols[c]), 0, 0,
+                             v->widths[c] - 2 * CELL_PAD, v->size, cell_bold (v->t, trow),
+                             ink, false));
+  h += 2.0 * CELL_PAD_Y;
+  if (cr == NULL)
+    return h;
 
-static double
-table_block (cairo_t *cr, const HlTable *t, double x, double y, double size, bool draw)
-{
   double total_w = 0.0;
-  for (int c = 0; c < t->n_cols; c++)
-    total_w += t->widths[c];
-
-  double cy = y;
-  for (int row = 0; row < t->n_rows; row++)
+  for (int c = 0; c < v->n_cols; c++)
+    total_w += v->widths[c];
+  bool header = trow < v->t->header_rows;
+  if (header || stripe)
     {
-      double h = table_row_height (cr, t, row, size);
-      bool header = row < t->header_rows;
-      bool bold = header || (t->bold_rows && t->bold_rows[row]);
-      if (draw)
-        {
-          if (header || (row - t->header_rows) % 2 == 1)
-            {
-              set_rgba (cr, header ? shade : zebra);
-              cairo_rectangle (cr, x, cy, total_w, h);
-              cairo_fill (cr);
-            }
-          double cx = x;
-          for (int c = 0; c < t->n_cols; c++)
-            {
-              wrap_text (cr, t->cells[row * t->n_cols + c], cx + CELL_PAD, cy + 1.6,
-                         t->widths[c] - 2 * CELL_PAD, size, bold, ink,
-                         t->right[c] && !(header && c == 0), true);
-              cx += t->widths[c];
-            }
-          if (header && row == t->header_rows - 1)
-            {
-              set_rgba (cr, ink_soft);
-              cairo_set_line_width (cr, 0.7);
-              cairo_move_to (cr, x, cy + h);
-              cairo_line_to (cr, x + total_w, cy + h);
-              cairo_stroke (cr);
-            }
-        }
-      cy += h;
+      set_rgba (cr, header ? shade : zebra);
+      cairo_rectangle (cr, v->x, y, total_w, h);
+      cairo_fill (cr);
     }
-  if (draw)
+  double cx = v->x;
+  for (int c = 0; c < v->n_cols; c++)
     {
-      set_rgba (cr, rule);
-      cairo_set_line_width (cr, 0.6);
-      cairo_move_to (cr, x, cy);
-      cairo_line_to (cr, x + total_w, cy);
+      text_block (r, cr, hl_report_table_cell (v->t, trow, v->cols[c]), cx + CELL_PAD,
+                  y + CELL_PAD_Y, v->widths[c] - 2 * CELL_PAD, v->size,
+                  cell_bold (v->t, trow), ink, cell_right (v->t, trow, v->cols[c]));
+      cx += v->widths[c];
+    }
+  if (header && trow == v->t->header_rows - 1)
+    {
+      set_rgba (cr, ink_soft);
+      cairo_set_line_width (cr, 0.7);
+      cairo_move_to (cr, v->x, y + h);
+      cairo_line_to (cr, v->x + total_w, y + h);
       cairo_stroke (cr);
     }
-  return cy - y;
+  return h;
 }
 
-static HlTable *
-table_new (int n_cols, int n_rows, int header_rows)
-{
-  HlTable *t = calloc (1, sizeof *t);
-  if (t == NULL)
-    {
-      layout_out_of_memory = true;
-      return NULL;
-    }
-  t->cells = calloc ((size_t) (n_cols * n_rows), CELL_MAX);
-  if (t->cells == NULL)
-    {
-      free (t);
-      layout_out_of_memory = true;
-      return NULL;
-    }
-  t->n_cols = n_cols;
-  t->n_rows = n_rows;
-  t->header_rows = header_rows;
-  return t;
-}
-
-static void
-table_free (HlTable *t)
-{
-  if (t == NULL)
-    return;
-  free (t->cells);
-  free (t);
-}
-
-static void
-cell_set (HlTable *t, int row, int col, const char *fmt, ...)
-  __attribute__ ((format (printf, 4, 5)));
-
-static void
-cell_set (HlTable *t, int row, int col, const char *fmt, ...)
-{
-  va_list ap;
-  va_start (ap, fmt);
-  vsnprintf (t->cells[row * t->n_cols + col], CELL_MAX, fmt, ap);
-  va_end (ap);
-}
-
-/* ---- Blocks -------------------------------------------------------------- */
-
-typedef double (*HlBlockFn) (HlLayout *L, double y, bool draw);
-
-static const char *
-case_name (const HlReport *r, size_t row)
-{
-  return row == 0 ? _("Native") : r->plan->options[row - 1].name;
-}
-
+/* The header rows (row < 0) or body row k of every view of an item;
+ * returns the height. */
 static double
-block_title (HlLayout *L, double y, bool draw)
+row_item (const HlReport *r, cairo_t *cr, const HlItem *it, double y)
 {
-  const HlReport *r = L->r;
-  const HlPlan *p = r->plan;
-  const double s = L->s;
-  double x = content_left (), w = content_width ();
-  char line[512];
   double h = 0.0;
-
-  h += wrap_text (L->cr, _("Hip biomechanics planning report: single-leg stance"),
-                  x, y + h, w, TYPE_TITLE * s, true, ink, false, draw);
-  snprintf (line, sizeof line, _("Case: %s"), p->label);
-  h += wrap_text (L->cr, line, x, y + h + 2, w, TYPE_CASE * s, true, ink, false, draw) + 2;
-  snprintf (line, sizeof line,
-            _("Operated side: %s  \xc2\xb7  body mass %.1f kg (body weight %.1f N)  "
-              "\xc2\xb7  report date %s  \xc2\xb7  hiplever %s, mechanical model %s"),
-            _(hl_side_name (p->side)), p->mass_kg, hl_plan_body_weight (p), r->date,
-            hl_program_version (), HL_MODEL_VERSION);
-  h += wrap_text (L->cr, line, x, y + h + 1, w, TYPE_BODY * s, false, ink_soft, false, draw) + 1;
-  return h;
-}
-
-static double
-block_caution (HlLayout *L, double y, bool draw)
-{
-  const double s = L->s;
-  const double pad = 6.0 * s;
-  const double bar = 4.0;
-  double x = content_left (), w = content_width ();
-  double tw = w - 2 * pad - bar;
-  double h1 = wrap_text (L->cr, _("CAUTION: planning aid only"), 0, 0, tw,
-                         TYPE_CASE * s, true, ink, false, false);
-  double h2 = wrap_text (L->cr, hl_caution_text (), 0, 0, tw, TYPE_BODY * s, false, ink,
-                         false, false);
-  double h = h1 + h2 + 2 * pad + 2;
-  if (draw)
+  for (int i = 0; i < it->n_views; i++)
     {
-      HlRgba fill = hl_palette_color (HL_ROLE_ERROR_FILL, false);
-      HlRgba edge = hl_palette_color (HL_ROLE_ERROR, false);
-      set_rgba (L->cr, fill);
-      cairo_rectangle (L->cr, x, y, w, h);
-      cairo_fill (L->cr);
-      set_rgba (L->cr, edge);
-      cairo_rectangle (L->cr, x, y, bar, h);
-      cairo_fill (L->cr);
-      cairo_set_line_width (L->cr, 1.4);
-      cairo_rectangle (L->cr, x + 0.7, y + 0.7, w - 1.4, h - 1.4);
-      cairo_stroke (L->cr);
-      wrap_text (L->cr, _("CAUTION: planning aid only"), x + bar + pad, y + pad, tw,
-                 TYPE_CASE * s, true, (HlRgba) { 0.55, 0.2, 0.0, 1.0 }, false, true);
-      wrap_text (L->cr, hl_caution_text (), x + bar + pad, y + pad + h1 + 2, tw,
-                 TYPE_BODY * s, false, ink, false, true);
+      const HlTableView *v = &r->views[it->views[i]];
+      double vh = 0.0;
+      if (it->row < 0)
+        for (int hr = 0; hr < v->t->header_rows; hr++)
+          vh += view_row (r, NULL, v, hr, 0, false);
+      else if (it->row < v->n)
+        vh = view_row (r, NULL, v, v->first + it->row, 0, false);
+      h = fmax (h, vh);
     }
-  return h;
-}
-
-static double
-heading (HlLayout *L, const char *text, double y, bool draw)
-{
-  double x = content_left (), w = content_width ();
-  double h = wrap_text (L->cr, text, x, y, w, TYPE_HEADING * L->s, true, heading_colour (),
-                        false, draw);
-  if (draw)
-    {
-      set_rgba (L->cr, rule);
-      cairo_set_line_width (L->cr, 0.6);
-      cairo_move_to (L->cr, x, y + h + 0.8);
-      cairo_line_to (L->cr, x + w, y + h + 0.8);
-      cairo_stroke (L->cr);
-    }
-  return h + 3.0;
-}
-
-/* Two key-value columns side by side. */
-static double
-kv_columns (HlLayout *L, double y, const char *const *left, int n_left,
-            const char *const *right, int n_right, bool draw)
-{
-  const double s = L->s;
-  double colw = 0.5 * content_width () - 6.0;
-  double hl = 0.0, hr = 0.0;
-  for (int i = 0; i < n_left; i++)
-    hl += wrap_text (L->cr, left[i], content_left (), y + hl, colw, TYPE_BODY * s * 0.95,
-                     false, ink, false, draw);
-  for (int i = 0; i < n_right; i++)
-    hr += wrap_text (L->cr, right[i], content_left () + colw + 12.0, y + hr, colw,
-                     TYPE_BODY * s * 0.95, false, ink, false, draw);
-  return fmax (hl, hr);
-}
-
-static const char *
-hand_words (HlHand hand)
-{
-  return hand == HL_HAND_IPSILATERAL ? _("same-side hand") : _("opposite hand");
-}
-
-static double
-block_inputs (HlLayout *L, double y, bool draw)
-{
-  const HlReport *r = L->r;
-  const HlPlan *p = r->plan;
-  const HlLimbTableInfo *limb = hl_limb_table_info (p->model.limb_table);
-  char l[8][256], rt[8][256];
-  const char *lp[8], *rp[8];
-  int nl = 0, nr = 0;
-  double h = heading (L, _("Inputs"), y, draw);
-
-  snprintf (l[nl++], 256, _("Stance-limb mass fraction %.4f (%s)"),
-            hl_plan_limb_fraction (p), limb != NULL ? _(limb->label) : "");
-  snprintf (l[nl++], 256, _("Body-weight line: %s"),
-            p->model.bw_line == HL_BW_LINE_SEGMENTAL
-            ? _("segmental (whole-body centre of mass on the midline)")
-            : _("on the midline (simplified)"));
-  if (p->model.abductor_line == HL_ABDUCTOR_LINE_AUTO
-      && hl_landmarks_has (&p->landmarks, HL_LM_ABDUCTOR_ORIGIN))
-    snprintf (l[nl++], 256, "%s", _("Abductor line: from the placed origin to the insertion"));
-  else
-    snprintf (l[nl++], 256, _("Abductor line: %.1f deg to the horizontal through the insertion"),
-              p->model.abductor_angle_deg);
-  snprintf (l[nl++], 256, _("Lateral trunk lean: %.1f mm towards the stance side"),
-            p->model.lean_mm);
-  double m = r->mc.magnification;
-  bool assumed = r->m_assumed;
-  if (!r->have_mc)
-    hl_calibration_magnification (&p->calibration, &m, &assumed, NULL);
-  if (p->radiograph.present)
-    snprintf (l[nl++], 256, _("Magnification %.3f; calibration: %s"), m,
-              hl_cal_source_label (hl_image_calibration_source (p)));
-  else
-    snprintf (l[nl++], 256, assumed ? _("Magnification %.3f (assumed: no usable calibration)")
-                                    : _("Magnification %.3f (from the calibration)"), m);
-  snprintf (l[nl++], 256, _("Abductor capacity %.2f N m per kg (an assumption)"),
-            p->capacity.torque_nm_per_kg);
-
-  if (p->cane.enabled)
-    snprintf (rt[nr++], 256, _("Cane: %.1f N (%.1f%% of body weight) in the %s, %.0f mm from "
-                               "the midline"),
-              hl_plan_cane_force (p), PERCENT * hl_plan_cane_force (p) / hl_plan_body_weight (p),
-              hand_words (p->cane.hand), p->cane.distance_mm);
-  else
-    snprintf (rt[nr++], 256, "%s", _("Cane: none"));
-  for (int hand = 0; hand < 2; hand++)
-    snprintf (rt[nr++], 256, _("Load in the %s: %.1f kg, %.0f mm from the midline"),
-              hand_words ((HlHand) hand), p->loads.hand[hand].mass_kg,
-              p->loads.hand[hand].distance_mm);
-  snprintf (rt[nr++], 256, _("Load on the midline: %.1f kg"), p->loads.midline_kg);
-  snprintf (rt[nr++], 256, _("Flag tolerances: global offset drop %.1f mm, leg length %.1f mm, "
-                             "abductor slackening %.1f mm"),
-            p->tol.global_offset_drop_mm, p->tol.leg_length_mm, p->tol.abductor_slack_mm);
-  snprintf (rt[nr++], 256, _("Uncertainty: %zu samples, seed %llu; SD landmark %.2g mm, "
-                             "magnification %.3g, line angle %.2g deg"),
-            p->uncertainty.n_samples, (unsigned long long) p->uncertainty.seed,
-            p->uncertainty.landmark_sd_mm, p->uncertainty.magnification_sd,
-            p->uncertainty.line_angle_sd_deg);
-  for (int i = 0; i < nl; i++)
-    lp[i] = l[i];
-  for (int i = 0; i < nr; i++)
-    rp[i] = rt[i];
-  h += kv_columns (L, y + h, lp, nl, rp, nr, draw);
-  return h;
-}
-
-static double
-block_landmarks (HlLayout *L, double y, bool draw)
-{
-  const HlPlan *p = L->r->plan;
-  /* three columns side by side keep the table as short as it was with
-   * the mechanics landmarks alone */
-  enum { N_COLS = 3 };
-  const int per_col = (HL_LM_COUNT + N_COLS - 1) / N_COLS;
-  double colw = content_width () / N_COLS - 8.0;
-  const double widths[3] = { colw - 76.0, 38.0, 38.0 };
-  const bool right[3] = { false, true, true };
-  double h = wrap_text (L->cr, _("Landmarks, plan frame in true millimetres (x towards the "
-                                 "patient's left, y superior)"),
-                        content_left (), y, content_width (), TYPE_BODY * L->s, true, ink,
-                        false, draw) + 2.0;
-  double th = 0.0;
-
-  for (int side = 0; side < N_COLS; side++)
-    {
-      int first = side * per_col;
-      int last = first + per_col < HL_LM_COUNT ? first + per_col : HL_LM_COUNT;
-      HlTable *t = table_new (3, 1 + last - first, 1);
-      if (t == NULL)
-        return h;
-      t->widths = widths;
-      t->right = right;
-      cell_set (t, 0, 0, "%s", _("Landmark"));
-      cell_set (t, 0, 1, "%s", _("x (mm)"));
-      cell_set (t, 0, 2, "%s", _("y (mm)"));
-      for (int i = first; i < last; i++)
-        {
-          const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) i);
-          int row = 1 + i - first;
-          cell_set (t, row, 0, "%s%s", _(info->label), info->required ? " *" : "");
-          if (hl_landmarks_has (&p->landmarks, (HlLandmarkId) i))
-            {
-              cell_set (t, row, 1, "%.1f", p->landmarks.p[i].x);
-              cell_set (t, row, 2, "%.1f", p->landmarks.p[i].y);
-            }
-          else
-            {
-              cell_set (t, row, 1, "%s", _("not placed"));
-              cell_set (t, row, 2, "%s", "");
-            }
-        }
-      double x = content_left () + side * (colw + 12.0);
-      th = fmax (th, table_block (L->cr, t, x, y + h, TYPE_SMALL * L->s, draw));
-      table_free (t);
-    }
-  h += th;
-  h += wrap_text (L->cr, _("* needed by the mechanics"), content_left (), y + h + 1,
-                  content_width (), TYPE_SMALL * L->s, false, ink_soft, false, draw) + 1;
-  return h;
-}
-
-/* The implants of the templated options, with the four numbers they make
- * (templating.md section 2), under the options table. */
-static double
-block_implants (HlLayout *L, double y, bool draw)
-{
-  const HlReport *r = L->r;
-  const HlPlan *p = r->plan;
-  int n = 0;
-  for (size_t i = 0; i < r->n_shown; i++)
-    n += p->options[i].recon.tmpl.on;
-  if (n == 0)
-    return 0.0;
-  double h = 4.0 + wrap_text (L->cr, _("Implants of the templated options (catalogue as "
-                                       "recorded in the plan; sizes in mm)"),
-                              content_left (), y + 4.0, content_width (), TYPE_BODY * L->s,
-                              true, ink, false, draw) + 2.0;
-  double w = (content_width () - 110.0) / 5.0;
-  const double widths[6] = { 110.0, w, w, w, 0.6 * w, 1.4 * w };
-  const bool right[6] = { false, false, false, false, false, false };
-  HlTable *t = table_new (6, 1 + n, 1);
-  if (t == NULL)
+  if (cr == NULL)
     return h;
-  t->widths = widths;
-  t->right = right;
-  const char *heads[6] = {
-    _("Option"), _("Catalogue"), _("Cup: family, size, liner, inclination"),
-    _("Stem: family, size, version, seat"), _("Head"),
-    _("Derived: cup medialisation, cup height, femoral offset, femoral length (mm)"),
-  };
-  for (int c = 0; c < 6; c++)
-    cell_set (t, 0, c, "%s", heads[c]);
-  int row = 1;
-  for (size_t i = 0; i < r->n_shown; i++)
+  for (int i = 0; i < it->n_views; i++)
     {
-      const HlRecon *rc = &p->options[i].recon;
-      const HlTemplate *tm = &rc->tmpl;
-      if (!tm->on)
+      const HlTableView *v = &r->views[it->views[i]];
+      double total_w = 0.0;
+      for (int c = 0; c < v->n_cols; c++)
+        total_w += v->widths[c];
+      if (it->row < 0)
+        {
+          double yy = y;
+          for (int hr = 0; hr < v->t->header_rows; hr++)
+            yy += view_row (r, cr, v, hr, yy, false);
+          continue;
+        }
+      if (it->row >= v->n)
         continue;
-      const HlCatalogueRef *ref = NULL;
-      for (size_t k = 0; k < p->n_catalogues; k++)
-        if (strcmp (p->catalogues[k].id, tm->catalogue) == 0)
-          ref = &p->catalogues[k];
-      cell_set (t, row, 0, "%s", p->options[i].name);
-      cell_set (t, row, 1, "%s %s%s", tm->catalogue, ref != NULL ? _("version ") : "",
-                ref != NULL ? ref->version : "");
-      cell_set (t, row, 2, "%s, %.0f, %s, %.1f°", tm->cup_family, tm->cup_diameter_mm,
-                tm->liner, tm->inclination_deg);
-      cell_set (t, row, 3, "%s, %s, %s, %+.1f mm", tm->stem_family, tm->stem_size,
-                tm->version, tm->seat_mm);
-      cell_set (t, row, 4, "%+.0f mm", tm->head_length_mm);
-      cell_set (t, row, 5, "%+.1f, %+.1f, %+.1f, %+.1f%s", rc->cup_medial_mm,
-                rc->cup_superior_mm, rc->femoral_offset_mm, rc->femoral_length_mm,
-                tm->resolved ? "" : _(" (as saved: catalogue not at hand or changed)"));
-      row++;
-    }
-  h += table_block (L->cr, t, content_left (), y + h, TYPE_TABLE * L->s, draw);
-  table_free (t);
-  return h;
-}
-
-static double
-block_options (HlLayout *L, double y, bool draw)
-{
-  const HlReport *r = L->r;
-  const HlPlan *p = r->plan;
-  double h = wrap_text (L->cr, _("Reconstruction options (changes against the native hip)"),
-                        content_left (), y, content_width (), TYPE_BODY * L->s, true, ink,
-                        false, draw) + 2.0;
-  if (p->n_options == 0)
-    return h + wrap_text (L->cr, _("No options in this plan: the native hip only."),
-                          content_left (), y + h, content_width (), TYPE_BODY * L->s,
-                          false, ink, false, draw);
-
-  double wname = content_width () - 6 * 62.0;
-  const double widths[7] = { wname, 62, 62, 62, 62, 62, 62 };
-  const bool right[7] = { false, true, true, true, true, true, true };
-  HlTable *t = table_new (7, 1 + (int) r->n_shown, 1);
-  if (t == NULL)
-    return h;
-  t->widths = widths;
-  t->right = right;
-  const char *heads[7] = {
-    _("Option"), _("Cup medialisation (mm, + medial)"), _("Cup height (mm, + superior)"),
-    _("Femoral offset (mm, + lateral)"), _("Femoral length (mm, + longer)"),
-    _("Head length (mm, + longer)"), _("Neck-shaft angle (deg)"),
-  };
-  for (int c = 0; c < 7; c++)
-    cell_set (t, 0, c, "%s", heads[c]);
-  for (size_t i = 0; i < r->n_shown; i++)
-    {
-      const HlRecon *rc = &p->options[i].recon;
-      int row = 1 + (int) i;
-      cell_set (t, row, 0, "%s", p->options[i].name);
-      cell_set (t, row, 1, "%+.1f", rc->cup_medial_mm);
-      cell_set (t, row, 2, "%+.1f", rc->cup_superior_mm);
-      cell_set (t, row, 3, "%+.1f", rc->femoral_offset_mm);
-      cell_set (t, row, 4, "%+.1f", rc->femoral_length_mm);
-      cell_set (t, row, 5, "%+.1f", rc->head_length_mm);
-      cell_set (t, row, 6, "%.1f", rc->neck_shaft_angle_deg);
-    }
-  h += table_block (L->cr, t, content_left (), y + h, TYPE_TABLE * L->s, draw);
-  table_free (t);
-  h += block_implants (L, y + h, draw);
-  if (p->n_options > r->n_shown)
-    {
-      char note[160];
-      snprintf (note, sizeof note, _("%zu further options are not shown here: see the "
-                                     "planning summary."), p->n_options - r->n_shown);
-      h += wrap_text (L->cr, note, content_left (), y + h + 1, content_width (),
-                      TYPE_SMALL * L->s, false, ink_soft, false, draw) + 1;
+      view_row (r, cr, v, v->first + it->row, y, it->row % 2 == 1);
+      if (it->row == v->n - 1)
+        {
+          double vh = view_row (r, NULL, v, v->first + it->row, 0, false);
+          set_rgba (cr, rule);
+          cairo_set_line_width (cr, 0.6);
+          cairo_move_to (cr, v->x, y + vh);
+          cairo_line_to (cr, v->x + total_w, y + vh);
+          cairo_stroke (cr);
+        }
     }
   return h;
 }
 
-static double
-block_results (HlLayout *L, double y, bool draw)
+/* A table set as n_sets views side by side (views[i]), every row one item;
+ * the header stays with the first row and comes again on a new page. */
+static void
+add_table_rows (HlReport *r, const int *views, int n_views)
 {
-  const HlReport *r = L->r;
-  const HlResultField *rows[HL_RESULT_FIELD_MAX];
-  const int n_plain = (int) hl_result_fields_for (HL_OUT_REPORT, rows);
-  const int n_mc = r->have_mc ? 3 : 0;
-  const int n_cols = 2 + (int) r->n_shown;
-  double h = heading (L, _("Results: native hip and options (change against native)"), y, draw);
+  HlItem *head = item_add (r, ITEM_ROW);
+  size_t head_index = r->n_items - 1;
+  int n_rows = 0;
+  for (int i = 0; i < n_views; i++)
+    {
+      head->views[i] = views[i];
+      n_rows = MAX (n_rows, r->views[views[i]].n);
+    }
+  head->n_views = n_views;
+  head->row = -1;
+  head->keep_with_next = n_rows > 0;
+  head->h = row_item (r, NULL, head, 0);
+  for (int k = 0; k < n_rows; k++)
+    {
+      HlItem *it = item_add (r, ITEM_ROW);
+      for (int i = 0; i < n_views; i++)
+        it->views[i] = views[i];
+      it->n_views = n_views;
+      it->row = k;
+      it->header = (int) head_index;
+      it->h = row_item (r, NULL, it, 0);
+    }
+}
 
-  HlTable *t = table_new (n_cols, 1 + n_plain + n_mc, 1);
-  if (t == NULL)
-    return h;
-  double label_w = 150.0;
-  /* Few columns stay near their labels instead of spreading over the page. */
-  double colw = fmin (RESULT_COL_MAX, (content_width () - label_w) / (n_cols - 1));
-  double widths[2 + HL_REPORT_OPTIONS_MAX];
-  bool right[2 + HL_REPORT_OPTIONS_MAX];
-  bool bold[32] = { false };
-  widths[0] = label_w;
-  right[0] = false;
+/* A whole table in the content width: column 0 `first_w` wide, the rest
+ * sharing what is left in the proportions of `weights` (NULL: equal). */
+static void
+add_table (HlReport *r, const HlReportTable *t, double first_w, const double *weights,
+           double size)
+{
+  int cols[VIEW_COLS_MAX];
+  double widths[VIEW_COLS_MAX];
+  double sum = 0.0;
+  int n_cols = MIN (t->n_cols, VIEW_COLS_MAX);
   for (int c = 1; c < n_cols; c++)
-    widths[c] = colw, right[c] = true;
-  t->widths = widths;
-  t->right = right;
-  t->bold_rows = bold;
-  for (int i = 0; i < n_plain; i++)   /* the joint force in body weights, the headline */
-    bold[1 + i] = strcmp (rows[i]->key, "joint-reaction-force-bw") == 0;
-
-  cell_set (t, 0, 0, "%s", _("Quantity"));
-  for (size_t row = 0; row <= r->n_shown; row++)
-    cell_set (t, 0, 1 + (int) row, "%s", case_name (r, row));
-
-  for (int i = 0; i < n_plain; i++)
+    sum += weights != NULL ? weights[c] : 1.0;
+  for (int c = 0; c < n_cols; c++)
     {
-      const HlResultField *rr = rows[i];
-      double native = rr->get (&r->results[0]);
-      cell_set (t, 1 + i, 0, "%s", _(rr->label));
-      for (size_t row = 0; row <= r->n_shown; row++)
+      cols[c] = c;
+      widths[c] = c == 0 ? first_w
+                         : (content_width () - first_w) * (weights != NULL ? weights[c] : 1.0)
+                           / sum;
+    }
+  int v = view_add (r, t, t->header_rows, t->n_rows - t->header_rows, cols, widths, n_cols,
+                    content_left (), size);
+  add_table_rows (r, &v, 1);
+}
+
+static void
+add_title (HlReport *r)
+{
+  const HlReportData *d = r->d;
+  const double s = r->scale;
+  add_text (r, d->title, TYPE_TITLE * s, true, ink)->gap_after = 2.0;
+  add_text (r, d->case_line, TYPE_CASE * s, true, ink)->gap_after = 1.0;
+  add_text (r, d->meta_line, TYPE_BODY * s, false, ink_soft);
+  end_block (r);
+
+  HlItem *it = item_add (r, ITEM_CAUTION);
+  it->label = d->caution_title;
+  it->text = d->caution_text;
+  double tw = content_width () - 2 * 6.0 * s - 4.0;
+  it->h = text_block (r, NULL, it->label, 0, 0, tw, TYPE_CASE * s, true, ink, false)
+          + text_block (r, NULL, it->text, 0, 0, tw, TYPE_BODY * s, false, ink, false)
+          + 2 * 6.0 * s + 2.0;
+  end_block (r);
+}
+
+static void
+add_inputs (HlReport *r)
+{
+  const HlReportData *d = r->d;
+  add_heading (r, d->inputs_heading, false);
+  HlItem *it = item_add (r, ITEM_COLUMNS);
+  it->left = &d->inputs_left;
+  it->right = &d->inputs_right;
+  it->size = TYPE_BODY * r->scale * 0.95;
+  double colw = 0.5 * content_width () - 6.0, hl = 0.0, hr = 0.0;
+  for (size_t i = 0; i < it->left->n; i++)
+    hl += text_block (r, NULL, it->left->items[i], 0, 0, colw, it->size, false, ink, false);
+  for (size_t i = 0; i < it->right->n; i++)
+    hr += text_block (r, NULL, it->right->items[i], 0, 0, colw, it->size, false, ink, false);
+  it->h = fmax (hl, hr);
+  end_block (r);
+}
+
+static void
+add_landmarks (HlReport *r)
+{
+  const HlReportData *d = r->d;
+  const HlReportTable *t = &d->landmarks;
+  add_text (r, d->landmarks_caption, TYPE_BODY * r->scale, true, ink)->keep_with_next = true;
+  r->items[r->n_items - 1].gap_after = 2.0;
+  int body = t->n_rows - t->header_rows;
+  int per_col = (body + LANDMARK_COLS - 1) / LANDMARK_COLS;
+  double colw = content_width () / LANDMARK_COLS - 8.0;
+  const int cols[3] = { 0, 1, 2 };
+  const double widths[3] = { colw - 2 * LANDMARK_NUM_W, LANDMARK_NUM_W, LANDMARK_NUM_W };
+  int views[LANDMARK_COLS];
+  for (int k = 0; k < LANDMARK_COLS; k++)
+    {
+      int first = k * per_col;
+      int n = MIN (per_col, body - first);
+      views[k] = view_add (r, t, t->header_rows + first, MAX (n, 0), cols, widths, 3,
+                           content_left () + k * (colw + 12.0), TYPE_SMALL * r->scale);
+    }
+  add_table_rows (r, views, LANDMARK_COLS);
+  r->items[r->n_items - 1].gap_after = 1.0;
+  add_text (r, d->landmarks_note, TYPE_SMALL * r->scale, false, ink_soft);
+  end_block (r);
+}
+
+static void
+add_options (HlReport *r)
+{
+  const HlReportData *d = r->d;
+  const double s = r->scale;
+  add_text (r, d->options_caption, TYPE_BODY * s, true, ink)->keep_with_next = true;
+  r->items[r->n_items - 1].gap_after = 2.0;
+  if (d->options_none != NULL)
+    add_text (r, d->options_none, TYPE_BODY * s, false, ink);
+  else
+    add_table (r, &d->options, content_width () - 6 * 62.0, NULL, TYPE_TABLE * s);
+  if (d->implants_caption != NULL)
+    {
+      r->items[r->n_items - 1].gap_after = 4.0;
+      add_text (r, d->implants_caption, TYPE_BODY * s, true, ink)->keep_with_next = true;
+      r->items[r->n_items - 1].gap_after = 2.0;
+      const double weights[6] = { 0, 1, 1, 1, 0.6, 1.4 };
+      add_table (r, &d->implants, 110.0, weights, TYPE_TABLE * s);
+    }
+  end_block (r);
+}
+
+static void
+add_against (HlReport *r)
+{
+  const HlReportData *d = r->d;
+  add_heading (r, d->against_heading, false);
+  for (size_t i = 0; i < d->against.n; i++)
+    add_text (r, d->against.items[i], TYPE_BODY * r->scale, false, ink);
+  end_block (r);
+}
+
+/* The results in groups of at most RESULT_CASES_MAX case columns, as even
+ * as they come; native leads every group. */
+static void
+add_results (HlReport *r)
+{
+  const HlReportData *d = r->d;
+  const HlReportTable *t = &d->results_table;
+  size_t n_opts = d->n_cases - 1;
+  size_t per_group = RESULT_CASES_MAX - 1;
+  size_t n_groups = n_opts == 0 ? 1 : (n_opts + per_group - 1) / per_group;
+  size_t in_group = n_groups == 0 ? 0 : (n_opts + n_groups - 1) / n_groups;
+
+  add_heading (r, d->results_heading, false);
+  for (size_t g = 0; g < n_groups; g++)
+    {
+      size_t first = g * in_group, last = MIN (n_opts, first + in_group);
+      int cols[VIEW_COLS_MAX];
+      double widths[VIEW_COLS_MAX];
+      int n_cols = 0;
+      cols[n_cols++] = 0;
+      cols[n_cols++] = 1;
+      for (size_t o = first; o < last; o++)
+        cols[n_cols++] = 2 + (int) o;
+      /* Few columns stay near their labels instead of spreading. */
+      double colw = fmin (RESULT_COL_MAX, (content_width () - RESULT_LABEL_W) / (n_cols - 1));
+      /* Room left over goes to the quantities' names first. */
+      widths[0] = fmax (RESULT_LABEL_W, fmin (RESULT_LABEL_W_MAX,
+                                              content_width () - (n_cols - 1) * colw));
+      for (int c = 1; c < n_cols; c++)
+        widths[c] = colw;
+      int v = view_add (r, t, t->header_rows, t->n_rows - t->header_rows, cols, widths,
+                        n_cols, content_left (), TYPE_TABLE * r->scale);
+      add_table_rows (r, &v, 1);
+      if (g + 1 < n_groups)
+        r->items[r->n_items - 1].gap_after = 5.0;
+    }
+  if (d->mc_note != NULL)
+    {
+      r->items[r->n_items - 1].gap_after = BLOCK_GAP * r->scale;
+      add_text (r, d->mc_note, TYPE_SMALL * r->scale, false, ink_soft);
+    }
+  end_block (r);
+}
+
+static void
+add_lines (HlReport *r, const char *heading, const HlReportLines *lines)
+{
+  add_heading (r, heading, false);
+  for (size_t i = 0; i < lines->n; i++)
+    add_text (r, lines->items[i], TYPE_BODY * r->scale, false, ink);
+  end_block (r);
+}
+
+static void
+add_capacity (HlReport *r)
+{
+  const HlReportData *d = r->d;
+  add_heading (r, d->capacity_heading, false);
+  add_text (r, d->capacity_text, TYPE_BODY * r->scale, false, ink)->gap_after = 1.0;
+  add_text (r, d->capacity_note, TYPE_SMALL * r->scale, false, ink_soft);
+  end_block (r);
+}
+
+static void
+add_inverse (HlReport *r)
+{
+  const HlReportData *d = r->d;
+  const double size = TYPE_BODY * r->scale;
+  add_heading (r, d->inverse_heading, false);
+  add_text (r, d->inverse_caveat, size, false, ink);
+  double group_h = 0.0, label_h = 0.0;
+  for (size_t i = 0; i < d->n_answers; i++)
+    {
+      const HlReportAnswer *a = &d->answers[i];
+      HlItem *it = item_add (r, ITEM_ANSWER);
+      it->label = d->case_names[a->row];
+      it->text = a->text;
+      it->size = size;
+      it->show_label = i == 0 || d->answers[i - 1].row != a->row;
+      it->h = text_block (r, NULL, it->text, 0, 0, content_width () - ANSWER_NAME_W, size,
+                          false, ink, false);
+      if (it->show_label)
         {
-          double v = rr->get (&r->results[row]);
-          char *cell = t->cells[(1 + i) * n_cols + 1 + (int) row];
-          if (!isfinite (v))
-            snprintf (cell, CELL_MAX, "%s", _("not measured"));
-          else if (row == 0 || rr->kind != HL_FIELD_PERCENT || fabs (native) < CHANGE_EPS)
-            snprintf (cell, CELL_MAX, rr->kind == HL_FIELD_CHANGE ? "%+.*f" : "%.*f",
-                      rr->decimals, v);
-          else
-            {
-              double pct = PERCENT * (v - native) / fabs (native);
-              if (fabs (pct) < 0.05)
-                pct = 0.0;
-              snprintf (cell, CELL_MAX, "%.*f (%+.1f%%)", rr->decimals, v, pct);
-            }
+          group_h = 0.0;
+          label_h = text_block (r, NULL, it->label, 0, 0, ANSWER_NAME_W - 4, size, true, ink,
+                                false);
         }
+      group_h += it->h;
+      /* The case's name may take more lines than its answers. */
+      if (i + 1 == d->n_answers || d->answers[i + 1].row != a->row)
+        it->gap_after = 2.0 + fmax (0.0, label_h - group_h);
     }
-  if (r->have_mc)
+  end_block (r);
+}
+
+static void
+add_figure (HlReport *r)
+{
+  add_heading (r, r->d->figure_heading, true);
+  HlItem *it = item_add (r, ITEM_FIGURE);
+  it->h = FIGURE_H * r->scale;
+  end_block (r);
+}
+
+static void
+chart_style (const HlReport *r, HlChartStyle *style)
+{
+  hl_chart_style_init (style, false);
+  style->font_px = 7.0 * r->scale;
+  style->line_px = 1.2;
+  style->show_legend = false;
+  style->show_bands = r->d->have_mc;
+}
+
+static void
+add_charts (HlReport *r, cairo_t *measure)
+{
+  const HlReportData *d = r->d;
+  HlChartStyle style;
+  chart_style (r, &style);
+  add_heading (r, d->charts_heading, false);
+  HlItem *it = item_add (r, ITEM_LEGEND);
+  it->h = hl_chart_draw_legend (measure, d->charts[0], &style, content_left (), 0,
+                                content_width (), d->have_mc, false) + 2.0;
+  it->keep_with_next = true;
+  for (int k = 0; k < HL_CHART_N; k++)
     {
-      int base = 1 + n_plain;
-      cell_set (t, base, 0, "%s", _("Joint force, 5-95% range (x body weight)"));
-      cell_set (t, base + 1, 0, "%s", _("Abductor force, 5-95% range (x body weight)"));
-      cell_set (t, base + 2, 0, "%s", _("Samples in which the option lowers the joint "
-                                        "force against native"));
-      for (size_t row = 0; row <= r->n_shown; row++)
+      it = item_add (r, ITEM_CHART_ROW);
+      it->chart = k;
+      it->h = CHART_H * r->scale;
+    }
+  end_block (r);
+}
+
+static void
+build_flow (HlReport *r, cairo_t *measure)
+{
+  const HlReportData *d = r->d;
+  r->n_items = 0;
+  r->n_views = 0;
+  add_title (r);
+  add_inputs (r);
+  add_landmarks (r);
+  add_options (r);
+  add_against (r);
+  add_results (r);
+  add_lines (r, d->flags_heading, &d->flags);
+  add_capacity (r);
+  add_inverse (r);
+  add_figure (r);
+  add_charts (r, measure);
+  add_heading (r, d->assumptions_heading, false);
+  add_list (r, &d->assumptions, false);
+  end_block (r);
+  add_heading (r, d->sources_heading, false);
+  add_list (r, &d->sources, true);
+  end_block (r);
+}
+
+/* ---- Pages ------------------------------------------------------------------- */
+
+/* Height of the items from i on that must stay together: i and every item
+ * that follows an item kept with the next. */
+static double
+kept_height (const HlReport *r, size_t i)
+{
+  double h = r->items[i].h;
+  while (r->items[i].keep_with_next && i + 1 < r->n_items)
+    {
+      h += r->items[i].gap_after;
+      i++;
+      h += r->items[i].h;
+    }
+  return h;
+}
+
+/* Places every item on a page; returns the number of pages. */
+static int
+paginate (HlReport *r)
+{
+  int page = 0;
+  double top = MARGIN_TOP;
+  double y = top;
+  double room = page_bottom () - (MARGIN_TOP + r->head_h);
+
+  for (size_t i = 0; i < r->n_items; i++)
+    {
+      HlItem *it = &r->items[i];
+      bool at_top = y <= top + 1e-6;
+      double need = fmin (kept_height (r, i), room);
+      bool is_row = it->kind == ITEM_ROW && it->header >= 0;
+      double header_h = is_row ? r->items[it->header].h : 0.0;
+      if (!at_top && ((it->new_page && page == 0) || y + need > page_bottom ()))
         {
-          const HlMcSummary *m = &r->mc_summary[row];
-          int c = 1 + (int) row;
-          cell_set (t, base, c, "%.2f to %.2f", m->jrf_bw.p05, m->jrf_bw.p95);
-          cell_set (t, base + 1, c, "%.2f to %.2f", m->abductor_force_bw.p05,
-                    m->abductor_force_bw.p95);
-          if (row == 0 || !isfinite (m->share_lower_jrf))
-            cell_set (t, base + 2, c, "%s", row == 0 ? _("(reference)") : "");
-          else
-            cell_set (t, base + 2, c, "%.0f%%", PERCENT * m->share_lower_jrf);
+          page++;
+          top = MARGIN_TOP + r->head_h;
+          y = top;
+          at_top = true;
         }
-    }
-  h += table_block (L->cr, t, content_left (), y + h, TYPE_TABLE * L->s, draw);
-  table_free (t);
-  return h;
-}
-
-static double
-block_flags (HlLayout *L, double y, bool draw)
-{
-  const HlReport *r = L->r;
-  double h = heading (L, _("Flags in plain words"), y, draw);
-  char line[6144];
-
-  for (size_t row = 0; row <= r->n_shown; row++)
-    {
-      const HlResult *res = &r->results[row];
-      size_t len = (size_t) snprintf (line, sizeof line, "%s: ", case_name (r, row));
-      if (res->flags == 0)
-        snprintf (line + len, sizeof line - len, "%s", _("none."));
-      for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
+      it->repeat_header = false;
+      if (at_top && is_row && r->items[it->header].page != page)
         {
-          if ((res->flags & bit) == 0 || len >= sizeof line)
-            continue;
-          len += (size_t) snprintf (line + len, sizeof line - len, "%s", hl_flag_text ((HlFlag) bit));
-          if (bit == HL_FLAG_IMPLAUSIBLE && len < sizeof line)
-            {
-              char why[4 * HL_ERROR_MESSAGE_MAX];
-              hl_implausible_describe_all (res, " ", why, sizeof why);
-              len += (size_t) snprintf (line + len, sizeof line - len, ": %s", why);
-            }
-          if (bit == HL_FLAG_ABDUCTORS_NOT_NEEDED && len < sizeof line)
-            len += (size_t) snprintf (line + len, sizeof line - len,
-                                      _(" (unbalanced moment %.2f N m)"),
-                                      fabs (res->unbalanced_nmm) / 1000.0);
-          if (len < sizeof line)
-            len += (size_t) snprintf (line + len, sizeof line - len, "; ");
+          it->repeat_header = true;
+          y += header_h;
         }
-      if (res->flags != 0 && len >= 2 && len < sizeof line)
-        line[len - 2] = '.', line[len - 1] = '\0';
-      h += wrap_text (L->cr, line, content_left (), y + h, content_width (),
-                      TYPE_BODY * L->s, false, ink, false, draw);
+      if (it->kind == ITEM_ANSWER && at_top && i > 0)
+        it->show_label = true;
+      it->page = page;
+      it->y = y;
+      y += it->h + it->gap_after;
     }
-  const char *cane_note = hl_plan_cane_note (r->plan);
-  if (cane_note != NULL)
-    h += wrap_text (L->cr, cane_note, content_left (), y + h, content_width (),
-                    TYPE_BODY * L->s, false, ink, false, draw);
-  return h;
+  return page + 1;
 }
 
-static double
-block_capacity (HlLayout *L, double y, bool draw)
+static void
+layout (HlReport *r, double scale)
 {
-  const HlReport *r = L->r;
-  const HlPlan *p = r->plan;
-  char line[1024];
-  size_t len = 0;
-
-  len += (size_t) snprintf (line + len, sizeof line - len,
-                            _("Capacity use: an abductor torque capacity of %.2f N m per kg "
-                              "(%.0f N m for %.1f kg) over the native moment arm of %.1f mm "
-                              "gives %.0f N; the demand is "),
-                            p->capacity.torque_nm_per_kg,
-                            p->capacity.torque_nm_per_kg * p->mass_kg, p->mass_kg,
-                            r->results[0].abductor_arm_mm, r->model.capacity_force_n);
-  for (size_t row = 0; row <= r->n_shown && len < sizeof line; row++)
-    len += (size_t) snprintf (line + len, sizeof line - len, "%s%.0f%% (%s)",
-                              row == 0 ? "" : ", ", PERCENT * r->results[row].demand,
-                              case_name (r, row));
-  if (len < sizeof line)
-    snprintf (line + len, sizeof line - len, "%s",
-              /* xgettext:no-c-format */ _(". Above 100% the pelvis cannot be held level in stance."));
-  double h = heading (L, _("Abductor capacity"), y, draw);
-  h += wrap_text (L->cr, line, content_left (), y + h, content_width (), TYPE_BODY * L->s,
-                  false, ink, false, draw);
-  h += wrap_text (L->cr, hl_capacity_assumption_text (), content_left (), y + h + 1,
-                  content_width (), TYPE_SMALL * L->s, false, ink_soft, false, draw) + 1;
-  return h;
+  cairo_surface_t *s = cairo_recording_surface_create (CAIRO_CONTENT_COLOR_ALPHA, NULL);
+  cairo_t *cr = cairo_create (s);
+  r->scale = scale;
+  r->head_h = text_block (r, NULL, r->d->continued, 0, 0, content_width (),
+                          TYPE_BODY * scale, true, ink_soft, false) + 4.0;
+  build_flow (r, cr);
+  r->n_pages = paginate (r);
+  cairo_destroy (cr);
+  cairo_surface_destroy (s);
 }
 
-static double
-block_inverse (HlLayout *L, double y, bool draw)
-{
-  const HlReport *r = L->r;
-  char title[160];
-  snprintf (title, sizeof title, _("Inverse questions (joint-load target %.2f x body weight)"),
-            r->settings.target_jrf_bw);
-  double h = heading (L, title, y, draw);
-  double name_w = 96.0;
-  h += wrap_text (L->cr, hl_inverse_caveat (), content_left (), y + h, content_width (),
-                  TYPE_BODY * L->s, false, ink, false, draw);
+/* ---- Drawing an item ------------------------------------------------------------ */
 
-  for (size_t i = 0; i < r->n_answers; i++)
-    {
-      const HlReportAnswer *a = &r->answers[i];
-      if (i == 0 || r->answers[i - 1].row != a->row)
-        wrap_text (L->cr, case_name (r, a->row), content_left (), y + h, name_w - 4,
-                   TYPE_BODY * L->s, true, ink, false, draw);
-      h += wrap_text (L->cr, a->text, content_left () + name_w, y + h,
-                      content_width () - name_w, TYPE_BODY * L->s, false, ink, false, draw);
-      if (i + 1 < r->n_answers && r->answers[i + 1].row != a->row)
-        h += 2.0;
-    }
-  return h;
-}
-
-static double
-block_mc_note (HlLayout *L, double y, bool draw)
-{
-  const HlReport *r = L->r;
-  char line[640];
-  if (!r->have_mc)
-    return 0.0;
-  snprintf (line, sizeof line,
-            _("Ranges: Monte Carlo with %zu samples used (%zu dropped), seed %llu; landmark "
-              "placement SD %.2g mm per coordinate, magnification SD %.3g about M = %.3f, "
-              "abductor line angle SD %.2g deg; native and options share each sample. "
-              "Percentiles by definition 7 of Hyndman & Fan 1996. The ranges cover these "
-              "input errors only, not the error of the model itself."),
-            r->mc_info.n_used, r->mc_info.n_dropped, (unsigned long long) r->mc_info.seed,
-            r->mc.landmark_sd_mm, r->mc.magnification_sd, r->mc.magnification,
-            r->mc.line_angle_sd_deg);
-  return wrap_text (L->cr, line, content_left (), y, content_width (), TYPE_SMALL * L->s,
-                    false, ink_soft, false, draw);
-}
-
+/* The schematic of page 2 in a width x height box at the report's own
+ * text size; markers, lines and bars follow it. */
 /* The schematic of page 2 in a width x height box at the report's own
  * text size; markers, lines and bars follow it. */
 #define REPORT_FIGURE_FONT_PT 8.0
@@ -1184,229 +851,139 @@ hl_report_figure_layout (const HlReport *r, HlRenderLayout *layout, double *widt
   cairo_surface_destroy (rec);
 }
 
-static double
-block_figure (HlLayout *L, double y, bool draw)
+
+static void
+draw_heading (const HlReport *r, cairo_t *cr, const HlItem *it)
 {
-  const HlReport *r = L->r;
-  char title[160];
-  if (r->figure_option >= 0)
-    snprintf (title, sizeof title, _("Schematic: option \"%s\" over the native hip (faint), "
-                                     "forces to one scale"),
-              r->plan->options[r->figure_option].name);
-  else
-    snprintf (title, sizeof title, "%s", _("Schematic: the native hip, forces to one scale"));
-  double h = heading (L, title, y, draw);
-  double fh = FIGURE_H * L->s;
-  if (draw)
+  double h = text_block (r, cr, it->text, it->x, it->y, it->w, it->size, true,
+                         heading_colour (), false);
+  set_rgba (cr, rule);
+  cairo_set_line_width (cr, 0.6);
+  cairo_move_to (cr, it->x, it->y + h + 0.8);
+  cairo_line_to (cr, it->x + it->w, it->y + h + 0.8);
+  cairo_stroke (cr);
+}
+
+static void
+draw_caution (const HlReport *r, cairo_t *cr, const HlItem *it)
+{
+  const double s = r->scale;
+  const double pad = 6.0 * s;
+  const double bar = 4.0;
+  double x = it->x, y = it->y, w = it->w, h = it->h;
+  double tw = w - 2 * pad - bar;
+  set_rgba (cr, hl_palette_color (HL_ROLE_ERROR_FILL, false));
+  cairo_rectangle (cr, x, y, w, h);
+  cairo_fill (cr);
+  set_rgba (cr, hl_palette_color (HL_ROLE_ERROR, false));
+  cairo_rectangle (cr, x, y, bar, h);
+  cairo_fill (cr);
+  cairo_set_line_width (cr, 1.4);
+  cairo_rectangle (cr, x + 0.7, y + 0.7, w - 1.4, h - 1.4);
+  cairo_stroke (cr);
+  double h1 = text_block (r, cr, it->label, x + bar + pad, y + pad, tw, TYPE_CASE * s, true,
+                          caution_ink, false);
+  text_block (r, cr, it->text, x + bar + pad, y + pad + h1 + 2, tw, TYPE_BODY * s, false,
+              ink, false);
+}
+
+static void
+draw_columns (const HlReport *r, cairo_t *cr, const HlItem *it)
+{
+  double colw = 0.5 * content_width () - 6.0;
+  double y = it->y;
+  for (size_t i = 0; i < it->left->n; i++)
+    y += text_block (r, cr, it->left->items[i], content_left (), y, colw, it->size, false,
+                     ink, false);
+  y = it->y;
+  for (size_t i = 0; i < it->right->n; i++)
+    y += text_block (r, cr, it->right->items[i], content_left () + colw + 12.0, y, colw,
+                     it->size, false, ink, false);
+}
+
+static void
+draw_item (const HlReport *r, cairo_t *cr, const HlItem *it)
+{
+  const HlReportData *d = r->d;
+  switch (it->kind)
     {
-      cairo_t *cr = L->cr;
+    case ITEM_TEXT:
+      if (it->mark[0] != '\0')
+        text_block (r, cr, it->mark, content_left (), it->y, it->x - content_left (),
+                    it->size, false, ink, false);
+      text_block (r, cr, it->text, it->x, it->y, it->w, it->size, it->bold, it->colour, false);
+      break;
+    case ITEM_HEADING:
+      draw_heading (r, cr, it);
+      break;
+    case ITEM_CAUTION:
+      draw_caution (r, cr, it);
+      break;
+    case ITEM_COLUMNS:
+      draw_columns (r, cr, it);
+      break;
+    case ITEM_ROW:
+      if (it->repeat_header)
+        row_item (r, cr, &r->items[it->header], it->y - r->items[it->header].h);
+      row_item (r, cr, it, it->y);
+      break;
+    case ITEM_ANSWER:
+      if (it->show_label)
+        text_block (r, cr, it->label, content_left (), it->y, ANSWER_NAME_W - 4, it->size,
+                    true, ink, false);
+      text_block (r, cr, it->text, content_left () + ANSWER_NAME_W, it->y,
+                  content_width () - ANSWER_NAME_W, it->size, false, ink, false);
+      break;
+    case ITEM_FIGURE:
       cairo_save (cr);
-      cairo_translate (cr, content_left (), y + h);
-      cairo_rectangle (cr, 0, 0, content_width (), fh);
+      cairo_translate (cr, content_left (), it->y);
+      cairo_rectangle (cr, 0, 0, content_width (), it->h);
       cairo_clip (cr);
-      report_figure (r, cr, content_width (), fh, NULL);
+      report_figure (r, cr, content_width (), it->h, NULL);
       cairo_restore (cr);
       set_rgba (cr, rule);
       cairo_set_line_width (cr, 0.6);
-      cairo_rectangle (cr, content_left (), y + h, content_width (), fh);
+      cairo_rectangle (cr, content_left (), it->y, content_width (), it->h);
       cairo_stroke (cr);
-    }
-  return h + fh;
-}
-
-static double
-block_charts (HlLayout *L, double y, bool draw)
-{
-  const HlReport *r = L->r;
-  HlChartStyle style;
-  hl_chart_style_init (&style, false);
-  style.font_px = 7.0 * L->s;
-  style.line_px = 1.2;
-  style.show_legend = false;
-  style.show_bands = r->have_mc;
-
-  double h = heading (L, _("Charts: joint force (left) and abductor force (right)"), y, draw);
-  h += hl_chart_draw_legend (L->cr, r->charts[0], &style, content_left (), y + h,
-                             content_width (), r->have_mc, draw) + 2.0;
-  double cw = content_width () / CHART_COLS;
-  double ch = CHART_H * L->s;
-  for (int k = 0; k < HL_CHART_N; k++)
-    {
-      if (draw)
+      break;
+    case ITEM_LEGEND:
+    case ITEM_CHART_ROW:
+      {
+        HlChartStyle style;
+        chart_style (r, &style);
+        if (it->kind == ITEM_LEGEND)
+          {
+            hl_chart_draw_legend (cr, d->charts[0], &style, content_left (), it->y,
+                                  content_width (), d->have_mc, true);
+            break;
+          }
+        double cw = content_width () / CHART_COLS;
         for (int q = 0; q < HL_CHART_QUANTITY_N; q++)
-          hl_chart_draw (L->cr, r->charts[k], (HlChartQuantity) q, &style,
-                         content_left () + q * cw, y + h, cw - 4.0, ch);
-      h += ch;
+          hl_chart_draw (cr, d->charts[it->chart], (HlChartQuantity) q, &style,
+                         content_left () + q * cw, it->y, cw - 4.0, it->h);
+      }
+      break;
     }
-  return h;
-}
-
-static double
-block_assumptions (HlLayout *L, double y, bool draw)
-{
-  const HlReport *r = L->r;
-  const HlPlan *p = r->plan;
-  char weight[256];
-  snprintf (weight, sizeof weight,
-            _("The superincumbent weight is body weight x (1 - %.4f), acting on the %s line; "
-              "aids and loads are vertical forces at their distances from the midline."),
-            hl_plan_limb_fraction (p),
-            p->model.bw_line == HL_BW_LINE_SEGMENTAL ? _("segmental") : _("midline"));
-  const char *items[] = {
-    _("A static posture in the frontal plane: single-leg stance, not walking, stairs or "
-      "rising from a chair (free-body method after Pauwels)."),
-    _("Rigid segments and a frictionless hip joint: the joint force acts through the hip "
-      "centre."),
-    _("Muscles only pull; one resultant abductor line of action stands for the whole group; "
-      "no antagonists, no co-contraction."),
-    weight,
-    _("Landmarks are at true size after the magnification correction; a reconstruction "
-      "moves them rigidly with the pelvis or the femur."),
-    _("The abductor capacity (N m per kg) is an assumption taken from young-adult figures, "
-      "not measured in this patient."),
-  };
-  double h = heading (L, _("Assumptions"), y, draw);
-  for (size_t i = 0; i < sizeof items / sizeof items[0]; i++)
-    {
-      wrap_text (L->cr, "\xe2\x80\xa2", content_left (), y + h, 8, TYPE_SMALL * L->s, false,
-                 ink, false, draw);
-      h += wrap_text (L->cr, items[i], content_left () + 8, y + h, content_width () - 8,
-                      TYPE_SMALL * L->s, false, ink, false, draw);
-    }
-  return h;
-}
-
-static double
-block_sources (HlLayout *L, double y, bool draw)
-{
-  const HlPlan *p = L->r->plan;
-  const HlLimbTableInfo *limb = hl_limb_table_info (p->model.limb_table);
-  char limb_line[512];
-  snprintf (limb_line, sizeof limb_line, _("Stance-limb mass fraction: %s."),
-            limb != NULL ? limb->source : "");
-  const char *items[] = {
-    _("Pauwels F 1976, Biomechanics of the Normal and Diseased Hip, Springer: the free-body "
-      "method of single-leg stance."),
-    limb_line,
-    _("Kotzar GM et al. 1991, J Orthop Res 9:621-633, and Bergmann G et al. 2001, J Biomech "
-      "34:859-871: joint loads measured in vivo, for comparison and the default target."),
-    _("Brand RA, Crowninshield RD 1980, Clin Orthop 147:181-184; Neumann DA 1998, Phys Ther "
-      "78:490-501: the cane."),
-    _("Bergmann G, Graichen F, Rohlmann A 1997, Clin Orthop 335:190-201: loads carried in "
-      "the hands."),
-    _("Mahmood SS et al. 2016, Acta Orthop 87:36-41: the global offset flag (5 mm)."),
-    _("Brew CJ et al. 2012, J Arthroplasty 27:643-647: the assumed magnification 1.20 and "
-      "its spread."),
-    _("Sugimoto D et al. 2014, Clin J Sport Med 24:422-428; Rasch A et al. 2010, Acta Orthop "
-      "81:183-188: abductor capacity anchors."),
-    _("Hyndman RJ, Fan Y 1996, Am Stat 50:361-365: percentiles. Okabe M, Ito K 2008, Color "
-      "Universal Design: the colours."),
-  };
-  double h = heading (L, _("Sources"), y, draw);
-  for (size_t i = 0; i < sizeof items / sizeof items[0]; i++)
-    {
-      char num[8];
-      snprintf (num, sizeof num, "%zu.", i + 1);
-      wrap_text (L->cr, num, content_left (), y + h, 12, TYPE_SMALL * L->s, false, ink,
-                 false, draw);
-      h += wrap_text (L->cr, items[i], content_left () + 12, y + h, content_width () - 12,
-                      TYPE_SMALL * L->s, false, ink, false, draw);
-    }
-  return h;
-}
-
-/* ---- Flow -------------------------------------------------------------------- */
-
-typedef struct {
-  HlBlockFn fn;
-  bool new_page;     /* starts page 2 */
-} HlBlock;
-
-static const HlBlock blocks[] = {
-  { block_title, false },
-  { block_caution, false },
-  { block_inputs, false },
-  { block_landmarks, false },
-  { block_options, false },
-  { block_results, false },
-  { block_mc_note, false },
-  { block_flags, false },
-  { block_capacity, false },
-  { block_inverse, false },
-  { block_figure, true },
-  { block_charts, false },
-  { block_assumptions, false },
-  { block_sources, false },
-};
-
-static void
-draw_running_head (HlLayout *L, bool draw)
-{
-  if (L->page == 0)
-    return;
-  char line[256];
-  snprintf (line, sizeof line, _("Case: %s (continued)"), L->r->plan->label);
-  L->y += wrap_text (L->cr, line, content_left (), L->y, content_width (), TYPE_BODY * L->s,
-                     true, ink_soft, false, draw) + 4.0;
 }
 
 static void
 draw_footer (const HlReport *r, cairo_t *cr, int page)
 {
   double y = HL_REPORT_PAGE_HEIGHT_PT - FOOTER_H;
-  char right[128];
   set_rgba (cr, rule);
   cairo_set_line_width (cr, 0.6);
   cairo_move_to (cr, content_left (), y);
   cairo_line_to (cr, content_left () + content_width (), y);
   cairo_stroke (cr);
+  char right[128];
   snprintf (right, sizeof right, _("Page %d of %d"), page + 1, r->n_pages);
   double rw = 70.0;
-  wrap_text (cr, hl_caution_short (), content_left (), y + 3, content_width () - rw,
-             TYPE_SMALL, true, (HlRgba) { 0.55, 0.2, 0.0, 1.0 }, false, true);
-  wrap_text (cr, right, content_left () + content_width () - rw, y + 3, rw, TYPE_SMALL,
-             false, ink_soft, true, true);
-  char ver[160];
-  snprintf (ver, sizeof ver, _("hiplever %s, mechanical model %s"), hl_program_version (),
-            HL_MODEL_VERSION);
-  wrap_text (cr, ver, content_left () + content_width () - 2 * rw, y + 3 + TYPE_SMALL * 1.4,
-             2 * rw, TYPE_SMALL, false, ink_soft, true, true);
-}
-
-/* Runs the flow; draws the blocks of page `target` (or none for -1) and
- * returns the number of pages used. */
-static int
-layout_run (const HlReport *r, cairo_t *cr, double scale, int target)
-{
-  HlLayout L = { r, cr, scale, 0, target, MARGIN_TOP };
-
-  for (size_t i = 0; i < sizeof blocks / sizeof blocks[0]; i++)
-    {
-      double h = blocks[i].fn (&L, L.y, false);
-      bool at_top = L.y <= MARGIN_TOP + 1e-6;
-      if ((blocks[i].new_page && L.page == 0) || (!at_top && L.y + h > page_bottom ()))
-        {
-          L.page++;
-          L.y = MARGIN_TOP;
-          draw_running_head (&L, L.page == target);
-        }
-      if (L.page == target && h > 0.0)
-        blocks[i].fn (&L, L.y, true);
-      if (h > 0.0)
-        L.y += h + BLOCK_GAP * scale;
-    }
-  return L.page + 1;
-}
-
-static int
-layout_count_pages (const HlReport *r, double scale)
-{
-  cairo_surface_t *s = cairo_recording_surface_create (CAIRO_CONTENT_COLOR_ALPHA, NULL);
-  cairo_t *cr = cairo_create (s);
-  int n = layout_run (r, cr, scale, -1);
-  cairo_destroy (cr);
-  cairo_surface_destroy (s);
-  return n;
+  text_block (r, cr, r->d->footer_caution, content_left (), y + 3, content_width () - rw,
+              TYPE_SMALL, true, caution_ink, false);
+  text_block (r, cr, right, content_left () + content_width () - rw, y + 3, rw, TYPE_SMALL,
+              false, ink_soft, true);
+  text_block (r, cr, r->d->footer_version, content_left () + content_width () - 2 * rw,
+              y + 3 + TYPE_SMALL * 1.4, 2 * rw, TYPE_SMALL, false, ink_soft, true);
 }
 
 void
@@ -1418,9 +995,86 @@ hl_report_draw_page (const HlReport *r, cairo_t *cr, int page)
   cairo_set_source_rgb (cr, 1.0, 1.0, 1.0);
   cairo_rectangle (cr, 0, 0, HL_REPORT_PAGE_WIDTH_PT, HL_REPORT_PAGE_HEIGHT_PT);
   cairo_fill (cr);
-  layout_run (r, cr, r->scale, page);
+  if (page > 0)
+    text_block (r, cr, r->d->continued, content_left (), MARGIN_TOP, content_width (),
+                TYPE_BODY * r->scale, true, ink_soft, false);
+  for (size_t i = 0; i < r->n_items; i++)
+    if (r->items[i].page == page)
+      draw_item (r, cr, &r->items[i]);
   draw_footer (r, cr, page);
   cairo_restore (cr);
+}
+
+/* ---- The report --------------------------------------------------------------- */
+
+HlReport *
+hl_report_new (const HlPlan *plan, const HlReportSettings *settings, HlError *err)
+{
+  HlReportData *d = hl_report_data_new (plan, settings, err);
+  if (d == NULL)
+    return NULL;
+  HlReport *r = g_new0 (HlReport, 1);
+  r->d = d;
+  r->plan = d->plan;
+  r->figure_option = d->figure_option;
+  r->settings = d->settings;
+
+  /* One context for measuring and drawing, independent of any device:
+   * unhinted metrics, so a line breaks where it was measured on a PDF, a
+   * print or a picture alike; sizes are absolute, in points. */
+  r->pango = pango_font_map_create_context (pango_cairo_font_map_get_default ());
+  cairo_font_options_t *fo = cairo_font_options_create ();
+  cairo_font_options_set_hint_metrics (fo, CAIRO_HINT_METRICS_OFF);
+  cairo_font_options_set_hint_style (fo, CAIRO_HINT_STYLE_NONE);
+  pango_cairo_context_set_font_options (r->pango, fo);
+  cairo_font_options_destroy (fo);
+  pango_context_set_round_glyph_positions (r->pango, FALSE);
+
+  /* The largest type that keeps to two pages; when none does, the
+   * largest type of the fewest pages. */
+  size_t best = 0;
+  int best_pages = 0;
+  for (size_t i = 0; i < G_N_ELEMENTS (layout_scales); i++)
+    {
+      layout (r, layout_scales[i]);
+      if (r->n_pages <= PAGES_PREFERRED)
+        return r;
+      if (i == 0 || r->n_pages < best_pages)
+        best = i, best_pages = r->n_pages;
+    }
+  layout (r, layout_scales[best]);
+  return r;
+}
+
+void
+hl_report_free (HlReport *r)
+{
+  if (r == NULL)
+    return;
+  if (r->pango != NULL)
+    g_object_unref (r->pango);
+  g_free (r->items);
+  g_free (r->views);
+  hl_report_data_free (r->d);
+  g_free (r);
+}
+
+int
+hl_report_n_pages (const HlReport *r)
+{
+  return r->n_pages;
+}
+
+double
+hl_report_compute_seconds (const HlReport *r)
+{
+  return r->d->compute_s;
+}
+
+const HlReportData *
+hl_report_data (const HlReport *r)
+{
+  return r->d;
 }
 
 /* ---- Output to memory ----------------------------------------------------------- */
@@ -1489,23 +1143,13 @@ hl_report_pdf_to_buffer (const HlReport *r, unsigned char **out, size_t *size, H
   cairo_pdf_surface_set_metadata (surface, CAIRO_PDF_METADATA_CREATOR, "hiplever");
   cairo_pdf_surface_set_metadata (surface, CAIRO_PDF_METADATA_SUBJECT, hl_caution_short ());
   cairo_t *cr = cairo_create (surface);
-  layout_out_of_memory = false;
   for (int page = 0; page < r->n_pages; page++)
     {
       hl_report_draw_page (r, cr, page);
       cairo_show_page (cr);
     }
   cairo_destroy (cr);
-  HlStatus st = finish_stream (surface, &m, _("report"), out, size, err);
-  if (st == HL_OK && layout_out_of_memory)
-    {
-      free (*out);
-      *out = NULL;
-      *size = 0;
-      st = hl_error_set (err, HL_ERR_NOMEM, "report", "%s",
-                         _("There is not enough memory for the report."));
-    }
-  return st;
+  return finish_stream (surface, &m, _("report"), out, size, err);
 }
 
 HlStatus
@@ -1660,7 +1304,7 @@ hl_report_sweeps_csv (const HlReport *r, char **out, size_t *size, HlError *err)
     {
       char *csv = NULL;
       size_t len = 0;
-      HlStatus st = hl_chart_data_to_csv (r->charts[k], r->plan, &csv, &len, err);
+      HlStatus st = hl_chart_data_to_csv (r->d->charts[k], r->plan, &csv, &len, err);
       if (st != HL_OK)
         {
           free (all);

@@ -3,19 +3,22 @@
  * Copyright 2026 the hiplever developers
  * SPDX-License-Identifier: GPL-3.0-or-later
  *
- * The report is built in two steps, as the charts are: hl_report_new runs
- * the core once (results, Monte Carlo ranges, inverse answers, chart
- * sweeps) and keeps a copy of the plan; hl_report_draw_page then draws any
- * page into any cairo context in points of an A4 page (a PDF surface, a
- * print context, a preview), as often as needed.  Nothing here computes
- * mechanics.
+ * The report is built in two steps, as the charts are: hl_report_new has
+ * the core compute its content (core/hl-report-data.h: results, Monte
+ * Carlo ranges, inverse answers, chart series, every table cell and line
+ * as text) and sets it on A4 pages with pango; hl_report_draw_page then
+ * draws any page into any cairo context in points of an A4 page (a PDF
+ * surface, a print context, a preview), as often as needed.  Nothing here
+ * computes mechanics or formats a number.
  *
  * Page 1: the case, the caution, the inputs, the results table with the
- * changes against native and the 5-95% ranges, the flags in plain words,
- * the capacity use and the inverse answers.  Page 2: the schematic with the
- * force vectors, the charts, the assumptions and the sources.  Type and
- * rows shrink a little when a plan has many options, so that the report
- * keeps to two pages; the first HL_REPORT_OPTIONS_MAX options are shown.
+ * changes against native and the 5-95% ranges, leg length and offset
+ * against the other hip in words, the flags in plain words, the capacity
+ * use and the inverse answers.  Then, on a page of its own: the schematic
+ * with the force vectors, the charts, the assumptions and the sources.
+ * Every option is shown: content that does not fit a page goes on the
+ * next one (type shrinks a little first when that keeps the report to two
+ * pages).
  *
  * Every file is written atomically (rendered to memory, then
  * hl_write_file_atomic), so a failure never leaves a partial file.
@@ -28,6 +31,7 @@
 
 #include "hl-plan.h"
 #include "hl-render.h"
+#include "hl-report-data.h"
 #include "hl-types.h"
 
 #ifdef __cplusplus
@@ -37,28 +41,6 @@ extern "C" {
 /* A4 in PostScript points (210 x 297 mm, rounded to whole points). */
 #define HL_REPORT_PAGE_WIDTH_PT 595.0
 #define HL_REPORT_PAGE_HEIGHT_PT 842.0
-#define HL_REPORT_PAGES_MAX 2
-/* Columns of the results table beyond native that fit an A4 page. */
-#define HL_REPORT_OPTIONS_MAX 6
-
-/* The joint-load target of the inverse questions, x body weight: our
- * default, a round figure below the 2.1-2.8 BW measured in static
- * single-leg stance (Kotzar et al. 1991, J Orthop Res 9:621-633). */
-#define HL_REPORT_TARGET_JRF_BW_DEFAULT 2.0
-#define HL_REPORT_TARGET_JRF_BW_MIN 0.5
-#define HL_REPORT_TARGET_JRF_BW_MAX 10.0
-
-typedef struct {
-  const char *date;        /* shown as the report's date; NULL: today (UTC) */
-  double target_jrf_bw;    /* for the cane and load questions */
-  bool uncertainty;        /* run the Monte Carlo: ranges and chart bands */
-  int figure_option;       /* option in the schematic: -1 native, or an index;
-                            * HL_REPORT_FIGURE_FIRST: the first option if any */
-} HlReportSettings;
-
-#define HL_REPORT_FIGURE_FIRST (-2)
-
-void hl_report_settings_init (HlReportSettings *settings);
 
 typedef struct HlReport HlReport;
 
@@ -68,8 +50,11 @@ HlReport *hl_report_new (const HlPlan *plan, const HlReportSettings *settings,
                          HlError *err);
 void hl_report_free (HlReport *report);
 
-/* 1 or 2. */
+/* The number of pages: 2 for most plans, more when the content needs
+ * them (many options). */
 int hl_report_n_pages (const HlReport *report);
+/* The content the report shows (the core's). */
+const HlReportData *hl_report_data (const HlReport *report);
 
 /* Draws page `page` (0-based) with its origin at the top left, in points
  * of an A4 page; the caller scales for anything else. */

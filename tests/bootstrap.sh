@@ -20,7 +20,8 @@ poppler-utils imagemagick locales desktop-file-utils appstream libgtk-4-bin
 valgrind clang libclang-rt-14-dev bsdutils
 adwaita-icon-theme librsvg2-common fonts-dejavu-core at-spi2-core dbus
 shared-mime-info libglib2.0-bin
-g++ cmake libgdcm-dev libgdcm-tools libpng-dev libtiff-dev libjpeg-dev"
+g++ cmake libgdcm-dev libgdcm-tools libpng-dev libtiff-dev libjpeg-dev
+libpango1.0-dev"
 
 if [ "$(id -u)" -eq 0 ]; then sudo=""; else sudo="sudo"; fi
 
