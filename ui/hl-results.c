@@ -8,6 +8,7 @@
 #define G_LOG_DOMAIN "hl-results"
 
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 #include <glib/gi18n.h>
 
@@ -25,18 +26,22 @@ typedef HlResultField HlResultRow;
 static const HlResultRow *rows[HL_RESULT_FIELD_MAX];
 static guint n_rows;
 
-/* Flags come right under the option names, where a warning is seen
- * before the numbers it qualifies. */
+/* The table is four grids: the option names (header) over the body, the
+ * quantity names left of it and an empty corner.  Only the body scrolls;
+ * the header follows its horizontal adjustment and the names its vertical
+ * one, so both stay in view.  Columns line up by one horizontal size group
+ * per option column, rows by one vertical size group per row; no cell in a
+ * row group wraps, so a row's height does not depend on the width it is
+ * measured for.  Body rows, top to bottom: the flags, right under the
+ * option names, where a warning is seen before the numbers it qualifies;
+ * then what a surgeon plans by: leg length and global offset against the
+ * other hip, in words and numbers; then the quantities. */
 #define N_ROWS n_rows
-#define HEADER_ROW 0
-#define FLAGS_ROW 1
-/* Then what a surgeon plans by: leg length and global offset against the
- * other hip, in words and numbers. */
-#define AGAINST_LEG_ROW 2
-#define AGAINST_GO_ROW 3
+#define FLAGS_ROW 0
+#define AGAINST_LEG_ROW 1
+#define AGAINST_GO_ROW 2
 #define N_AGAINST_ROWS 2
-#define FIRST_VALUE_ROW 4
-#define FIRST_COLUMN 2   /* after the quantity and its unit */
+#define FIRST_VALUE_ROW 3
 
 /* Monte Carlo rows, each right under the figure it qualifies. */
 typedef enum {
@@ -57,16 +62,25 @@ static const struct {
 };
 #define RANGE_DIGITS 2
 #define SHARE_DIGITS 0
-#define NOTE_ROW (FIRST_VALUE_ROW + (int) (N_ROWS + N_RANGE_ROWS))
+#define N_BODY_ROWS (FIRST_VALUE_ROW + (int) (N_ROWS + N_RANGE_ROWS))
+#define MAX_BODY_ROWS (FIRST_VALUE_ROW + HL_RESULT_FIELD_MAX + N_RANGE_ROWS)
+
+/* The body's smallest height, px: a few rows stay readable in a short pane. */
+#define BODY_MIN_HEIGHT 90
 
 typedef struct {
+  GtkSizeGroup *width;       /* the column: header and every cell */
+  GtkSizeGroup *number;      /* the figures and their ranges, right-aligned */
   GtkWidget *header;
+  GtkWidget *cell[HL_RESULT_FIELD_MAX];   /* value and change side by side */
   GtkWidget *value[HL_RESULT_FIELD_MAX];
   GtkWidget *change[HL_RESULT_FIELD_MAX];
   GtkWidget *range[N_RANGE_ROWS];
-  GtkWidget *flags;          /* a box: the short lines, then the sentences on demand */
-  GtkWidget *flags_short;
-  GtkWidget *flags_more;     /* an expander */
+  GtkWidget *range_cell[N_RANGE_ROWS];   /* the box holding it */
+  GtkWidget *flags;          /* a box: "No flags", or the short lines as a button */
+  GtkWidget *flags_none;     /* "No flags" */
+  GtkWidget *flags_short;    /* one line per flag, the child of: */
+  GtkWidget *flags_more;     /* a menu button: the full sentences in a popover */
   GtkWidget *flags_full;
   GtkWidget *against[N_AGAINST_ROWS];
   GtkWidget *error;
@@ -75,21 +89,42 @@ typedef struct {
 struct _HlResults {
   GtkWidget parent_instance;
 
-  GtkWidget *grid;
+  GtkWidget *layout;         /* the outer grid */
+  GtkWidget *header_grid;    /* option names, scrolled with the body's x */
+  GtkWidget *names_grid;     /* quantity names and units, with the body's y */
+  GtkWidget *body_grid;
+  GtkWidget *header_scroll;
+  GtkWidget *names_scroll;
+  GtkWidget *body_scroll;
+  GtkSizeGroup *row_group[MAX_BODY_ROWS];
+  GtkWidget *row_name[MAX_BODY_ROWS];     /* the name of each body row */
+  GtkWidget *row_anchor[MAX_BODY_ROWS];   /* its empty cell in the body */
   GArray *columns;   /* of HlResultsColumn */
   GtkWidget *common_error;   /* one message over all columns */
   int selected;      /* option index, -1 none */
   HlMcSummary *ranges;       /* n_ranges columns, NULL: none shown */
   size_t n_ranges;
   gboolean *column_ok;       /* of the last update, for the ranges */
-  GtkWidget *range_label[N_RANGE_ROWS];
-  GtkWidget *range_unit[N_RANGE_ROWS];
+  GtkWidget *range_label[N_RANGE_ROWS];   /* names of the range rows */
   GtkWidget *range_note;
   HlDocument *document;      /* borrowed */
   gboolean stale;            /* changed while hidden: follows when shown */
 };
 
 G_DEFINE_FINAL_TYPE (HlResults, hl_results, GTK_TYPE_WIDGET)
+
+enum {
+  SIGNAL_VIEW_CHANGED,
+  N_SIGNALS
+};
+
+static guint signals[N_SIGNALS];
+
+static void
+view_changed_cb (HlResults *self)
+{
+  g_signal_emit (self, signals[SIGNAL_VIEW_CHANGED], 0);
+}
 
 static void refresh_if_stale (HlResults *self);
 
@@ -228,6 +263,15 @@ make_label (const char *css, float xalign)
   return label;
 }
 
+/* Sets a label's text only when it changes: an unchanged label is not
+ * measured again, and a drag changes few of them. */
+static void
+set_text (GtkWidget *label, const char *text)
+{
+  if (g_strcmp0 (gtk_label_get_text (GTK_LABEL (label)), text) != 0)
+    gtk_label_set_text (GTK_LABEL (label), text);
+}
+
 static void
 hl_results_clear_columns (HlResults *self)
 {
@@ -235,104 +279,120 @@ hl_results_clear_columns (HlResults *self)
     {
       HlResultsColumn *col = &g_array_index (self->columns, HlResultsColumn, c);
 
-      gtk_grid_remove (GTK_GRID (self->grid), col->header);
+      gtk_grid_remove (GTK_GRID (self->header_grid), col->header);
       for (guint r = 0; r < N_ROWS; r++)
-        {
-          gtk_grid_remove (GTK_GRID (self->grid), col->value[r]);
-          gtk_grid_remove (GTK_GRID (self->grid), col->change[r]);
-        }
+        gtk_grid_remove (GTK_GRID (self->body_grid), col->cell[r]);
       for (guint k = 0; k < N_RANGE_ROWS; k++)
-        gtk_grid_remove (GTK_GRID (self->grid), col->range[k]);
-      gtk_grid_remove (GTK_GRID (self->grid), col->flags);
+        gtk_grid_remove (GTK_GRID (self->body_grid), col->range_cell[k]);
+      gtk_grid_remove (GTK_GRID (self->body_grid), col->flags);
       for (guint k = 0; k < N_AGAINST_ROWS; k++)
-        gtk_grid_remove (GTK_GRID (self->grid), col->against[k]);
-      gtk_grid_remove (GTK_GRID (self->grid), col->error);
+        gtk_grid_remove (GTK_GRID (self->body_grid), col->against[k]);
+      gtk_grid_remove (GTK_GRID (self->body_grid), col->error);
+      g_object_unref (col->width);
+      g_object_unref (col->number);
     }
   g_array_set_size (self->columns, 0);
-  if (self->common_error != NULL)
-    {
-      gtk_grid_remove (GTK_GRID (self->grid), self->common_error);
-      self->common_error = NULL;
-    }
+}
+
+/* A body cell of column `col` in body row `y`: lined up with the option's
+ * name above it and the quantity's name left of it. */
+static void
+attach_cell (HlResults *self, HlResultsColumn *col, GtkWidget *cell, int x, int y)
+{
+  gtk_size_group_add_widget (col->width, cell);
+  gtk_size_group_add_widget (self->row_group[y], cell);
+  gtk_grid_attach (GTK_GRID (self->body_grid), cell, x, y, 1, 1);
 }
 
 static void
 hl_results_build_columns (HlResults *self, size_t n)
 {
-  GtkGrid *grid = GTK_GRID (self->grid);
-
   hl_results_clear_columns (self);
   for (size_t c = 0; c < n; c++)
     {
       HlResultsColumn col;
-      int x = FIRST_COLUMN + 2 * (int) c;
+      int x = (int) c;
 
+      col.width = gtk_size_group_new (GTK_SIZE_GROUP_HORIZONTAL);
+      col.number = gtk_size_group_new (GTK_SIZE_GROUP_HORIZONTAL);
       col.header = make_label ("results-header", 0.0f);
       gtk_label_set_wrap (GTK_LABEL (col.header), TRUE);
       gtk_label_set_wrap_mode (GTK_LABEL (col.header), PANGO_WRAP_WORD_CHAR);
       gtk_label_set_width_chars (GTK_LABEL (col.header), 12);
       gtk_label_set_max_width_chars (GTK_LABEL (col.header), 18);
       gtk_widget_set_valign (col.header, GTK_ALIGN_END);
-      gtk_grid_attach (grid, col.header, x, HEADER_ROW, 2, 1);
+      gtk_size_group_add_widget (col.width, col.header);
+      gtk_grid_attach (GTK_GRID (self->header_grid), col.header, x, 0, 1, 1);
       for (guint r = 0; r < N_ROWS; r++)
         {
+          col.cell[r] = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
           col.value[r] = make_label ("results-value", 1.0f);
           gtk_label_set_width_chars (GTK_LABEL (col.value[r]), 7);
-          gtk_grid_attach (grid, col.value[r], x, value_row_y (r), 1, 1);
+          gtk_size_group_add_widget (col.number, col.value[r]);
+          gtk_box_append (GTK_BOX (col.cell[r]), col.value[r]);
           col.change[r] = make_label ("results-change", 0.0f);
           gtk_label_set_width_chars (GTK_LABEL (col.change[r]), 8);
-          gtk_grid_attach (grid, col.change[r], x + 1, value_row_y (r), 1, 1);
+          gtk_box_append (GTK_BOX (col.cell[r]), col.change[r]);
+          attach_cell (self, &col, col.cell[r], x, value_row_y (r));
         }
       for (guint k = 0; k < N_RANGE_ROWS; k++)
         {
+          /* In a box of its own: a widget in two groups of one
+           * orientation, one inside the other's member, never ends. */
+          col.range_cell[k] = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 0);
           col.range[k] = make_label ("results-range", 1.0f);
           gtk_widget_add_css_class (col.range[k], "dim-label");
-          gtk_grid_attach (grid, col.range[k], x, range_row_y (k), 1, 1);
-          gtk_widget_set_visible (col.range[k], FALSE);
+          gtk_size_group_add_widget (col.number, col.range[k]);
+          gtk_box_append (GTK_BOX (col.range_cell[k]), col.range[k]);
+          attach_cell (self, &col, col.range_cell[k], x, range_row_y (k));
+          gtk_widget_set_visible (col.range_cell[k], FALSE);
         }
-      col.flags = gtk_box_new (GTK_ORIENTATION_VERTICAL, 0);
+      col.flags = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 0);
       gtk_widget_add_css_class (col.flags, "results-flags");
-      gtk_widget_set_valign (col.flags, GTK_ALIGN_START);
+      col.flags_none = make_label (NULL, 0.0f);
+      gtk_label_set_text (GTK_LABEL (col.flags_none), _("No flags"));
+      gtk_widget_set_valign (col.flags_none, GTK_ALIGN_START);
+      gtk_box_append (GTK_BOX (col.flags), col.flags_none);
+      /* The short lines are a button: a click or Enter, not a hover,
+       * shows the full sentences with their reasons. */
       col.flags_short = make_label (NULL, 0.0f);
-      gtk_label_set_wrap (GTK_LABEL (col.flags_short), TRUE);
-      gtk_label_set_max_width_chars (GTK_LABEL (col.flags_short), 26);
-      gtk_box_append (GTK_BOX (col.flags), col.flags_short);
-      col.flags_more = gtk_expander_new (_("Why"));
-      col.flags_full = make_label ("caption", 0.0f);
+      col.flags_full = make_label ("results-flags-full", 0.0f);
       gtk_label_set_wrap (GTK_LABEL (col.flags_full), TRUE);
-      gtk_label_set_max_width_chars (GTK_LABEL (col.flags_full), 26);
-      gtk_label_set_selectable (GTK_LABEL (col.flags_full), TRUE);
-      gtk_expander_set_child (GTK_EXPANDER (col.flags_more), col.flags_full);
+      gtk_label_set_max_width_chars (GTK_LABEL (col.flags_full), 48);
+      col.flags_more = gtk_menu_button_new ();
+      gtk_menu_button_set_child (GTK_MENU_BUTTON (col.flags_more), col.flags_short);
+      gtk_menu_button_set_always_show_arrow (GTK_MENU_BUTTON (col.flags_more), TRUE);
+      gtk_widget_add_css_class (col.flags_more, "flat");
+      gtk_widget_set_tooltip_text (col.flags_more,
+                                   _("Click for the flags in full sentences, with their reasons"));
+      {
+        GtkWidget *popover = gtk_popover_new ();
+
+        gtk_popover_set_child (GTK_POPOVER (popover), col.flags_full);
+        gtk_menu_button_set_popover (GTK_MENU_BUTTON (col.flags_more), popover);
+        g_signal_connect_object (popover, "notify::visible", G_CALLBACK (view_changed_cb),
+                                 self, G_CONNECT_SWAPPED);
+      }
       gtk_box_append (GTK_BOX (col.flags), col.flags_more);
-      gtk_grid_attach (grid, col.flags, x, FLAGS_ROW, 2, 1);
+      attach_cell (self, &col, col.flags, x, FLAGS_ROW);
       for (guint k = 0; k < N_AGAINST_ROWS; k++)
         {
           col.against[k] = make_label ("results-value", 0.0f);
-          gtk_label_set_wrap (GTK_LABEL (col.against[k]), TRUE);
-          gtk_label_set_max_width_chars (GTK_LABEL (col.against[k]), 18);
-          gtk_grid_attach (grid, col.against[k], x, AGAINST_LEG_ROW + (int) k, 2, 1);
+          attach_cell (self, &col, col.against[k], x, AGAINST_LEG_ROW + (int) k);
         }
+      /* Over the column's figures (hidden then); leg length and offset
+       * against the other side come from the landmarks and stay. */
       col.error = make_label ("results-error", 0.0f);
       gtk_label_set_wrap (GTK_LABEL (col.error), TRUE);
       gtk_label_set_max_width_chars (GTK_LABEL (col.error), 22);
       gtk_widget_set_valign (col.error, GTK_ALIGN_START);
-      gtk_grid_attach (grid, col.error, x, FLAGS_ROW, 2,
-                       (int) (N_ROWS + N_RANGE_ROWS + N_AGAINST_ROWS) + 1);
+      gtk_size_group_add_widget (col.width, col.error);
+      gtk_grid_attach (GTK_GRID (self->body_grid), col.error, x, FIRST_VALUE_ROW, 1,
+                       N_BODY_ROWS - FIRST_VALUE_ROW);
       gtk_widget_set_visible (col.error, FALSE);
       g_array_append_val (self->columns, col);
     }
-  self->common_error = make_label ("results-error", 0.0f);
-  gtk_label_set_wrap (GTK_LABEL (self->common_error), TRUE);
-  gtk_widget_set_valign (self->common_error, GTK_ALIGN_START);
-  gtk_grid_attach (grid, self->common_error, FIRST_COLUMN, FLAGS_ROW,
-                   2 * (int) n, (int) (N_ROWS + N_RANGE_ROWS + N_AGAINST_ROWS) + 1);
   self->column_ok = g_renew (gboolean, self->column_ok, MAX (n, 1));
-  /* The note spans the columns there are now. */
-  g_object_ref (self->range_note);
-  gtk_grid_remove (grid, self->range_note);
-  gtk_grid_attach (grid, self->range_note, 0, NOTE_ROW, FIRST_COLUMN + 2 * (int) n, 1);
-  g_object_unref (self->range_note);
-  gtk_widget_set_visible (self->common_error, FALSE);
   hl_results_set_selected_option (self, self->selected);
 }
 
@@ -357,7 +417,7 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
     {
       g_autofree char *msg = format_error (&solved[0]);
 
-      gtk_label_set_text (GTK_LABEL (self->common_error), msg);
+      set_text (self->common_error, msg);
     }
 
   for (size_t c = 0; c < n; c++)
@@ -366,15 +426,11 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
       const HlSolved *s = &solved[c];
       gboolean ok = s->status == HL_OK;
 
-      if (c == 0)
-        gtk_label_set_text (GTK_LABEL (col->header), _("Native"));
-      else
-        gtk_label_set_text (GTK_LABEL (col->header), plan->options[c - 1].name);
+      set_text (col->header, c == 0 ? _("Native") : plan->options[c - 1].name);
 
       for (guint r = 0; r < N_ROWS; r++)
         {
-          gtk_widget_set_visible (col->value[r], ok);
-          gtk_widget_set_visible (col->change[r], ok);
+          gtk_widget_set_visible (col->cell[r], ok);
           if (!ok)
             continue;
 
@@ -384,8 +440,8 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
 
           if (c > 0 && solved[0].status == HL_OK)
             change = format_change (rows[r], v, rows[r]->get (&solved[0].result));
-          gtk_label_set_text (GTK_LABEL (col->value[r]), value);
-          gtk_label_set_text (GTK_LABEL (col->change[r]), change != NULL ? change : "");
+          set_text (col->value[r], value);
+          set_text (col->change[r], change != NULL ? change : "");
         }
 
       /* Leg length and global offset against the other hip: measures of
@@ -407,7 +463,9 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
                                         sizeof full[1]);
         for (guint k = 0; k < N_AGAINST_ROWS; k++)
           {
-            gtk_label_set_text (GTK_LABEL (col->against[k]), text[k]);
+            if (g_strcmp0 (gtk_label_get_text (GTK_LABEL (col->against[k])), text[k]) == 0)
+              continue;
+            set_text (col->against[k], text[k]);
             gtk_widget_set_tooltip_text (col->against[k], full[k]);
             gtk_accessible_update_property (GTK_ACCESSIBLE (col->against[k]),
                                             GTK_ACCESSIBLE_PROPERTY_LABEL, full[k], -1);
@@ -422,9 +480,17 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
           g_autofree char *flags = format_flags_short (&s->result);
           g_autofree char *full = format_flags (&s->result);
 
-          gtk_label_set_text (GTK_LABEL (col->flags_short), flags);
-          gtk_label_set_text (GTK_LABEL (col->flags_full), full);
+          if (g_strcmp0 (gtk_label_get_text (GTK_LABEL (col->flags_short)), flags) != 0)
+            {
+              g_autofree char *name = g_strdup_printf (_("%s. Show the full sentences"), flags);
+
+              set_text (col->flags_short, flags);
+              gtk_accessible_update_property (GTK_ACCESSIBLE (col->flags_more),
+                                              GTK_ACCESSIBLE_PROPERTY_LABEL, name, -1);
+            }
+          set_text (col->flags_full, full);
           gtk_widget_set_visible (col->flags_more, s->result.flags != 0);
+          gtk_widget_set_visible (col->flags_none, s->result.flags == 0);
           if (s->result.flags != 0)
             gtk_widget_add_css_class (col->flags, "flagged");
           else
@@ -434,7 +500,7 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
         {
           g_autofree char *msg = format_error (s);
 
-          gtk_label_set_text (GTK_LABEL (col->error), msg);
+          set_text (col->error, msg);
         }
     }
   hl_results_show_ranges (self);
@@ -448,7 +514,6 @@ hl_results_show_ranges (HlResults *self)
   for (guint k = 0; k < N_RANGE_ROWS; k++)
     {
       gtk_widget_set_visible (self->range_label[k], shown);
-      gtk_widget_set_visible (self->range_unit[k], shown);
     }
   for (guint c = 0; c < self->columns->len; c++)
     {
@@ -459,11 +524,11 @@ hl_results_show_ranges (HlResults *self)
           g_autofree char *text = NULL;
           gboolean visible = shown && self->column_ok[c];
 
-          gtk_widget_set_visible (col->range[k], visible);
+          gtk_widget_set_visible (col->range_cell[k], visible);
           if (!visible)
             continue;
           text = format_range (&self->ranges[c], k, c == 0);
-          gtk_label_set_text (GTK_LABEL (col->range[k]), text);
+          set_text (col->range[k], text);
         }
     }
 }
@@ -482,6 +547,7 @@ hl_results_set_ranges (HlResults *self, const HlMcSummary *ranges, size_t n,
       self->n_ranges = n;
     }
   gtk_label_set_text (GTK_LABEL (self->range_note), note != NULL ? note : "");
+  gtk_widget_set_tooltip_text (self->range_note, note);
   gtk_widget_set_visible (self->range_note, note != NULL && note[0] != '\0');
   hl_results_show_ranges (self);
 }
@@ -678,7 +744,11 @@ hl_results_dispose (GObject *object)
 {
   HlResults *self = HL_RESULTS (object);
 
-  g_clear_pointer (&self->grid, gtk_widget_unparent);
+  if (self->columns != NULL)
+    hl_results_clear_columns (self);
+  g_clear_pointer (&self->layout, gtk_widget_unparent);
+  for (int y = 0; y < MAX_BODY_ROWS; y++)
+    g_clear_object (&self->row_group[y]);
   G_OBJECT_CLASS (hl_results_parent_class)->dispose (object);
 }
 
@@ -705,72 +775,259 @@ hl_results_class_init (HlResultsClass *klass)
   widget_class->map = hl_results_map;
   gtk_widget_class_set_layout_manager_type (widget_class, GTK_TYPE_BIN_LAYOUT);
   gtk_widget_class_set_css_name (widget_class, "hlresults");
+
+  /* The table scrolled, or the full sentences of a column's flags were
+   * shown or hidden. */
+  signals[SIGNAL_VIEW_CHANGED] =
+    g_signal_new ("view-changed", G_TYPE_FROM_CLASS (klass), G_SIGNAL_RUN_LAST,
+                  0, NULL, NULL, NULL, G_TYPE_NONE, 0);
+}
+
+/* The name of body row `y` (spanning the unit column when `unit` is
+ * NULL), and an empty cell in the body that keeps the row, and its
+ * height, while the row's other cells are hidden. */
+static GtkWidget *
+add_row_name (HlResults *self, int y, const char *name, const char *unit)
+{
+  GtkWidget *label = make_label ("results-quantity", 0.0f);
+  GtkWidget *anchor = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 0);
+
+  gtk_label_set_text (GTK_LABEL (label), name);
+  gtk_label_set_yalign (GTK_LABEL (label), 0.0f);
+  gtk_size_group_add_widget (self->row_group[y], label);
+  gtk_grid_attach (GTK_GRID (self->names_grid), label, 0, y, unit != NULL ? 1 : 2, 1);
+  if (unit != NULL)
+    {
+      GtkWidget *u = make_label ("results-unit", 0.0f);
+
+      gtk_label_set_text (GTK_LABEL (u), unit);
+      gtk_label_set_yalign (GTK_LABEL (u), 0.0f);
+      gtk_grid_attach (GTK_GRID (self->names_grid), u, 1, y, 1, 1);
+      g_object_bind_property (label, "visible", u, "visible", G_BINDING_SYNC_CREATE);
+    }
+  gtk_widget_set_halign (anchor, GTK_ALIGN_START);
+  gtk_size_group_add_widget (self->row_group[y], anchor);
+  gtk_grid_attach (GTK_GRID (self->body_grid), anchor, 0, y, 1, 1);
+  g_object_bind_property (label, "visible", anchor, "visible", G_BINDING_SYNC_CREATE);
+  self->row_name[y] = label;
+  self->row_anchor[y] = anchor;
+  return label;
+}
+
+static GtkWidget *
+new_grid (void)
+{
+  GtkWidget *grid = gtk_grid_new ();
+
+  gtk_grid_set_column_spacing (GTK_GRID (grid), 12);
+  gtk_grid_set_row_spacing (GTK_GRID (grid), 2);
+  return grid;
 }
 
 static void
 hl_results_init (HlResults *self)
 {
-  GtkGrid *grid;
+  GtkGrid *layout;
+  GtkWidget *corner;
 
   self->columns = g_array_new (FALSE, TRUE, sizeof (HlResultsColumn));
   self->selected = -1;
-  self->grid = gtk_grid_new ();
-  grid = GTK_GRID (self->grid);
-  gtk_grid_set_column_spacing (grid, 6);
-  gtk_grid_set_row_spacing (grid, 2);
-  gtk_widget_set_parent (self->grid, GTK_WIDGET (self));
+  for (int y = 0; y < N_BODY_ROWS; y++)
+    self->row_group[y] = gtk_size_group_new (GTK_SIZE_GROUP_VERTICAL);
 
-  for (guint r = 0; r < N_ROWS; r++)
-    {
-      GtkWidget *label = make_label ("results-quantity", 0.0f);
-      GtkWidget *unit = make_label ("results-unit", 0.0f);
+  self->layout = gtk_grid_new ();
+  layout = GTK_GRID (self->layout);
+  gtk_grid_set_column_spacing (layout, 12);
+  gtk_grid_set_row_spacing (layout, 4);
+  gtk_widget_set_parent (self->layout, GTK_WIDGET (self));
 
-      gtk_label_set_text (GTK_LABEL (label), _(rows[r]->name));
-      gtk_label_set_text (GTK_LABEL (unit), rows[r]->unit[0] != '\0' ? _(rows[r]->unit) : "");
-      gtk_grid_attach (grid, label, 0, value_row_y (r), 1, 1);
-      gtk_grid_attach (grid, unit, 1, value_row_y (r), 1, 1);
-    }
-  for (guint k = 0; k < N_RANGE_ROWS; k++)
-    {
-      GtkWidget *label = make_label ("results-quantity", 0.0f);
-      GtkWidget *unit = make_label ("results-unit", 0.0f);
+  self->header_grid = new_grid ();
+  self->names_grid = new_grid ();
+  gtk_grid_set_column_spacing (GTK_GRID (self->names_grid), 6);
+  self->body_grid = new_grid ();
+  gtk_widget_set_valign (self->body_grid, GTK_ALIGN_START);
+  gtk_widget_set_valign (self->names_grid, GTK_ALIGN_START);
 
-      gtk_label_set_text (GTK_LABEL (label), _(range_rows[k].label));
-      gtk_label_set_text (GTK_LABEL (unit), _(range_rows[k].unit));
-      gtk_widget_add_css_class (label, "dim-label");
-      gtk_grid_attach (grid, label, 0, range_row_y (k), 1, 1);
-      gtk_grid_attach (grid, unit, 1, range_row_y (k), 1, 1);
-      gtk_widget_set_visible (label, FALSE);
-      gtk_widget_set_visible (unit, FALSE);
-      self->range_label[k] = label;
-      self->range_unit[k] = unit;
-    }
+  self->body_scroll = gtk_scrolled_window_new ();
+  gtk_scrolled_window_set_policy (GTK_SCROLLED_WINDOW (self->body_scroll),
+                                  GTK_POLICY_AUTOMATIC, GTK_POLICY_AUTOMATIC);
+  gtk_scrolled_window_set_min_content_height (GTK_SCROLLED_WINDOW (self->body_scroll),
+                                              BODY_MIN_HEIGHT);
+  gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (self->body_scroll), self->body_grid);
+  gtk_widget_set_hexpand (self->body_scroll, TRUE);
+  gtk_widget_set_vexpand (self->body_scroll, TRUE);
+  gtk_widget_add_css_class (self->body_scroll, "results-body");
+  for (int o = 0; o < 2; o++)
+    g_signal_connect_object (hl_results_get_adjustment (self, (GtkOrientation) o), "value-changed",
+                             G_CALLBACK (view_changed_cb), self, G_CONNECT_SWAPPED);
+
+  /* The option names move sideways with the body, never up or down. */
+  self->header_scroll = gtk_scrolled_window_new ();
+  gtk_scrolled_window_set_policy (GTK_SCROLLED_WINDOW (self->header_scroll),
+                                  GTK_POLICY_EXTERNAL, GTK_POLICY_NEVER);
+  gtk_scrolled_window_set_hadjustment (GTK_SCROLLED_WINDOW (self->header_scroll),
+                                       gtk_scrolled_window_get_hadjustment (GTK_SCROLLED_WINDOW (self->body_scroll)));
+  gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (self->header_scroll), self->header_grid);
+  gtk_widget_add_css_class (self->header_scroll, "results-header-row");
+
+  /* The quantity names move up and down with the body, never sideways. */
+  self->names_scroll = gtk_scrolled_window_new ();
+  gtk_scrolled_window_set_policy (GTK_SCROLLED_WINDOW (self->names_scroll),
+                                  GTK_POLICY_NEVER, GTK_POLICY_EXTERNAL);
+  gtk_scrolled_window_set_vadjustment (GTK_SCROLLED_WINDOW (self->names_scroll),
+                                       gtk_scrolled_window_get_vadjustment (GTK_SCROLLED_WINDOW (self->body_scroll)));
+  gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (self->names_scroll), self->names_grid);
+  gtk_widget_set_vexpand (self->names_scroll, TRUE);
+  gtk_widget_add_css_class (self->names_scroll, "results-names");
+
+  /* What the table shows, over the quantity names, left of the options. */
+  corner = make_label ("heading", 0.0f);
+  gtk_label_set_text (GTK_LABEL (corner),
+                      _("Results: static single-leg stance, change against native in brackets"));
+  gtk_label_set_wrap (GTK_LABEL (corner), TRUE);
+  gtk_label_set_max_width_chars (GTK_LABEL (corner), 20);
+  gtk_label_set_yalign (GTK_LABEL (corner), 1.0f);
+  gtk_grid_attach (layout, corner, 0, 0, 1, 1);
+  gtk_grid_attach (layout, self->header_scroll, 1, 0, 1, 1);
+  /* A plan that no column can solve: one message over all of them. */
+  self->common_error = make_label ("results-error", 0.0f);
+  gtk_label_set_wrap (GTK_LABEL (self->common_error), TRUE);
+  gtk_label_set_max_width_chars (GTK_LABEL (self->common_error), 60);
+  gtk_grid_attach (layout, self->common_error, 1, 1, 1, 1);
+  gtk_widget_set_visible (self->common_error, FALSE);
+  gtk_grid_attach (layout, self->names_scroll, 0, 2, 1, 1);
+  gtk_grid_attach (layout, self->body_scroll, 1, 2, 1, 1);
+  /* At most two lines under the table (the whole note in its tooltip),
+   * so the figures keep the height. */
   self->range_note = make_label ("results-note", 0.0f);
   gtk_label_set_wrap (GTK_LABEL (self->range_note), TRUE);
-  gtk_label_set_max_width_chars (GTK_LABEL (self->range_note), 90);
+  gtk_label_set_ellipsize (GTK_LABEL (self->range_note), PANGO_ELLIPSIZE_END);
+  gtk_label_set_lines (GTK_LABEL (self->range_note), 2);
   gtk_widget_add_css_class (self->range_note, "dim-label");
   gtk_widget_add_css_class (self->range_note, "caption");
-  gtk_grid_attach (grid, self->range_note, 0, NOTE_ROW, FIRST_COLUMN, 1);
+  gtk_grid_attach (layout, self->range_note, 0, 3, 2, 1);
   gtk_widget_set_visible (self->range_note, FALSE);
-  {
-    GtkWidget *label = make_label ("results-quantity", 0.0f);
 
-    gtk_label_set_text (GTK_LABEL (label), _("Flags"));
-    gtk_widget_set_valign (label, GTK_ALIGN_START);
-    gtk_grid_attach (grid, label, 0, FLAGS_ROW, 2, 1);
-  }
+  add_row_name (self, FLAGS_ROW, _("Flags"), NULL);
   {
     static const char *const against[N_AGAINST_ROWS] = {
       N_("Operated leg against the other"),
       N_("Global offset against the other side"),
     };
     for (guint k = 0; k < N_AGAINST_ROWS; k++)
-      {
-        GtkWidget *label = make_label ("results-quantity", 0.0f);
-        gtk_label_set_text (GTK_LABEL (label), _(against[k]));
-        gtk_grid_attach (grid, label, 0, AGAINST_LEG_ROW + (int) k, 2, 1);
-      }
+      add_row_name (self, AGAINST_LEG_ROW + (int) k, _(against[k]), NULL);
   }
+  for (guint r = 0; r < N_ROWS; r++)
+    add_row_name (self, value_row_y (r), _(rows[r]->name),
+                  rows[r]->unit[0] != '\0' ? _(rows[r]->unit) : "");
+  for (guint k = 0; k < N_RANGE_ROWS; k++)
+    {
+      GtkWidget *label = add_row_name (self, range_row_y (k), _(range_rows[k].label),
+                                       _(range_rows[k].unit));
+
+      gtk_widget_add_css_class (label, "dim-label");
+      gtk_widget_add_css_class (gtk_widget_get_next_sibling (label), "dim-label");
+      gtk_widget_set_visible (label, FALSE);
+      self->range_label[k] = label;
+    }
+}
+
+GtkAdjustment *
+hl_results_get_adjustment (HlResults *self, GtkOrientation orientation)
+{
+  GtkScrolledWindow *body;
+
+  g_return_val_if_fail (HL_IS_RESULTS (self), NULL);
+  body = GTK_SCROLLED_WINDOW (self->body_scroll);
+  return orientation == GTK_ORIENTATION_HORIZONTAL
+         ? gtk_scrolled_window_get_hadjustment (body)
+         : gtk_scrolled_window_get_vadjustment (body);
+}
+
+/* `widget`'s bounds in the coordinates of its window's surface (those
+ * of `xdotool mousemove --window`). */
+static gboolean
+surface_bounds (GtkWidget *widget, graphene_rect_t *out)
+{
+  GtkNative *native = gtk_widget_get_native (widget);
+  double tx, ty;
+
+  if (native == NULL || !gtk_widget_get_mapped (widget)
+      || !gtk_widget_compute_bounds (widget, GTK_WIDGET (native), out))
+    return FALSE;
+  gtk_native_get_surface_transform (native, &tx, &ty);
+  out->origin.x += (float) tx;
+  out->origin.y += (float) ty;
+  return TRUE;
+}
+
+static void
+print_rect (const char *what, const char *name, GtkWidget *widget)
+{
+  graphene_rect_t r;
+
+  if (surface_bounds (widget, &r))
+    printf ("%s %s %.0f %.0f %.0f %.0f\n", what, name, r.origin.x, r.origin.y,
+            r.size.width, r.size.height);
+}
+
+void
+hl_results_print_handles (HlResults *self)
+{
+  g_return_if_fail (HL_IS_RESULTS (self));
+  if (!gtk_widget_get_mapped (GTK_WIDGET (self)))
+    return;
+  printf ("RESULTS scroll %.0f %.0f\n",
+          gtk_adjustment_get_value (hl_results_get_adjustment (self, GTK_ORIENTATION_HORIZONTAL)),
+          gtk_adjustment_get_value (hl_results_get_adjustment (self, GTK_ORIENTATION_VERTICAL)));
+  print_rect ("RESULTS-AREA", "body", self->body_scroll);
+  print_rect ("RESULTS-AREA", "header", self->header_scroll);
+  print_rect ("RESULTS-AREA", "names", self->names_scroll);
+  {
+    graphene_rect_t r;
+
+    if (surface_bounds (self->body_scroll, &r))
+      printf ("WIDGET results-body %.0f %.0f\n", r.origin.x + r.size.width / 2,
+              r.origin.y + r.size.height / 2);
+  }
+  /* Each column's option name and its first figure; each row's name and
+   * its empty cell in the body. */
+  for (guint c = 0; c < self->columns->len; c++)
+    {
+      HlResultsColumn *col = &g_array_index (self->columns, HlResultsColumn, c);
+      g_autofree char *name = g_strdup_printf ("%u", c);
+
+      print_rect ("RESULTS-HEADER", name, col->header);
+      print_rect ("RESULTS-CELL", name, col->against[0]);
+      if (gtk_widget_get_mapped (col->flags_more))
+        {
+          g_autofree char *why = g_strdup_printf ("results-why-%u", c);
+          graphene_rect_t r;
+
+          if (surface_bounds (col->flags_more, &r))
+            printf ("WIDGET %s %.0f %.0f\n", why, r.origin.x + r.size.width / 2,
+                    r.origin.y + r.size.height / 2);
+          /* The full sentences, when shown: "RESULTS-WHY C LINES". */
+          if (gtk_widget_get_mapped (col->flags_full))
+            {
+              const char *text = gtk_label_get_text (GTK_LABEL (col->flags_full));
+              int lines = 1;
+
+              for (const char *p = text; *p != '\0'; p++)
+                lines += *p == '\n';
+              printf ("RESULTS-WHY %u %d\n", c, lines);
+            }
+        }
+    }
+  for (int y = 0; y < N_BODY_ROWS; y++)
+    {
+      g_autofree char *name = g_strdup_printf ("%d", y);
+
+      if (self->row_name[y] == NULL || !gtk_widget_get_visible (self->row_name[y]))
+        continue;
+      print_rect ("RESULTS-NAME", name, self->row_name[y]);
+      print_rect ("RESULTS-ROW", name, self->row_anchor[y]);
+    }
 }
 
 GtkWidget *

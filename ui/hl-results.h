@@ -4,10 +4,13 @@
  * SPDX-License-Identifier: GPL-3.0-or-later
  *
  * Columns are native and each reconstruction option; rows are the
- * quantities the core computes, each with its change against native in per
- * cent, then the plain-word flags.  A column whose solve failed shows the
- * error in plain words where its numbers would be.  Numbers follow the
- * process locale.
+ * plain-word flags (one short line each; a click on them shows the full
+ * sentences), leg length and global offset against the other side,
+ * then the quantities the core computes, each with its change against
+ * native in per cent.  A column whose solve failed shows the error in
+ * plain words where its numbers would be.  Numbers follow the process
+ * locale.  The table scrolls itself: the option names stay on top and the
+ * quantity names on the left while it scrolls.
  */
 #pragma once
 
@@ -41,6 +44,21 @@ void hl_results_set_ranges (HlResults *self, const HlMcSummary *ranges,
  * lower-jrf-than-native in %), each number as the window shows it; empty
  * when none are shown.  For tests. */
 char *hl_results_format_ranges_csv (HlResults *self);
+/* Signal "view-changed": the table scrolled, or a column's full flag
+ * sentences were shown or hidden. */
+
+/* The body's scrolling in `orientation`: the option names follow its
+ * horizontal one, the quantity names its vertical one. */
+GtkAdjustment *hl_results_get_adjustment (HlResults *self, GtkOrientation orientation);
+/* For the GUI tests (HIPLEVER_TEST_PRINT_HANDLES=1): prints, in window
+ * surface coordinates, "RESULTS scroll H V", "RESULTS-AREA body|header|names
+ * X Y W H", "RESULTS-HEADER C X Y W H" (option names), "RESULTS-CELL C ..."
+ * (each column's first cell), "RESULTS-NAME ROW ..." and "RESULTS-ROW ROW
+ * ..." (each shown row's name and its place in the body),
+ * "WIDGET results-body X Y", "WIDGET results-why-C X Y" (a flagged
+ * column's flags, a button) and "RESULTS-WHY C LINES" (its full sentences,
+ * while shown). */
+void hl_results_print_handles (HlResults *self);
 /* Highlights an option's column (-1: none). */
 void hl_results_set_selected_option (HlResults *self, int index);
 

@@ -246,6 +246,7 @@ hl_window_print_handles (HlWindow *self)
       printf ("ACCESSIBLE canvas %s\n", label != NULL ? label : "");
     }
   hl_radiograph_page_print_handles (self->radiograph_page);
+  hl_results_print_handles (self->results);
   print_lower_handles (self);
   hl_analysis_panel_print_handles (self->analysis_panel);
   print_template (self);
@@ -281,6 +282,12 @@ canvas_resized_cb (GtkWidget *canvas, GParamSpec *pspec, HlWindow *self)
   self->handles_dirty = TRUE;
 }
 
+static void
+results_view_cb (HlResults *results, HlWindow *self)
+{
+  self->handles_dirty = TRUE;
+}
+
 void
 hl_window_start_print_handles (HlWindow *self)
 {
@@ -288,6 +295,8 @@ hl_window_start_print_handles (HlWindow *self)
                            G_CALLBACK (panel_page_cb), self, 0);
   g_signal_connect_object (self, "notify::default-width",
                            G_CALLBACK (canvas_resized_cb), self, 0);
+  g_signal_connect_object (self->results, "view-changed",
+                           G_CALLBACK (results_view_cb), self, 0);
   gtk_widget_add_tick_callback (GTK_WIDGET (self), print_handles_tick_cb,
                                 g_new0 (guint, 1), g_free);
 }
