@@ -13,6 +13,7 @@
 #include <errno.h>
 #include <fcntl.h>
 #include <limits.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -175,8 +176,60 @@ hl_file_same (const char *a, const char *b)
 static HlStatus write_file_atomic (const char *path, const void *data, size_t size,
                                    bool keep_backup, HlError *err);
 
-/* Keeps the file at path as path HL_PLAN_BACKUP_SUFFIX: a hard link, so
- * the file itself is never missing, or a copy where the file system has no
+/* FNV-1a, 32 bits (Fowler, Noll and Vo; public domain): a name's short
+ * fingerprint, not a security measure. */
+static uint32_t
+name_hash (const char *s)
+{
+  uint32_t h = 2166136261u;
+  for (; *s != '\0'; s++)
+    {
+      h ^= (unsigned char) *s;
+      h *= 16777619u;
+    }
+  return h;
+}
+
+char *
+hl_backup_path (const char *path)
+{
+  const char *slash = strrchr (path, '/');
+  const char *base = slash != NULL ? slash + 1 : path;
+  size_t dir_len = (size_t) (base - path);
+  size_t base_len = strlen (base);
+  const size_t suffix_len = sizeof HL_PLAN_BACKUP_SUFFIX - 1;
+  const size_t mark_len = 9;              /* "." and 8 hex digits */
+  long name_max = 255;
+  char *dir = dir_len > 0 ? strndup (path, dir_len) : strdup (".");
+  if (dir == NULL)
+    return NULL;
+  errno = 0;
+  long v = pathconf (dir, _PC_NAME_MAX);
+  if (v > 0 && v <= 4096)
+    name_max = v;
+  free (dir);
+
+  size_t n = strlen (path) + suffix_len + 1;
+  char *out = malloc (n);
+  if (out == NULL)
+    return NULL;
+  if (base_len + suffix_len <= (size_t) name_max
+      || (size_t) name_max < suffix_len + mark_len + 1)
+    {
+      snprintf (out, n, "%s" HL_PLAN_BACKUP_SUFFIX, path);
+      return out;
+    }
+  size_t keep = (size_t) name_max - suffix_len - mark_len;
+  /* not inside a UTF-8 character */
+  while (keep > 0 && ((unsigned char) base[keep] & 0xc0) == 0x80)
+    keep--;
+  snprintf (out, n, "%.*s%.*s.%08x" HL_PLAN_BACKUP_SUFFIX, (int) dir_len, path, (int) keep,
+            base, (unsigned) name_hash (base));
+  return out;
+}
+
+/* Keeps the file at path as hl_backup_path (path): a hard link, so the
+ * file itself is never missing, or a copy where the file system has no
  * links.  Returns 0 or an errno value. */
 static int
 keep_previous_version (const char *path)
@@ -186,11 +239,9 @@ keep_previous_version (const char *path)
     return errno == ENOENT ? 0 : errno;
   if (!S_ISREG (st.st_mode))
     return 0;
-  size_t n = strlen (path) + sizeof HL_PLAN_BACKUP_SUFFIX;
-  char *backup = malloc (n);
+  char *backup = hl_backup_path (path);
   if (backup == NULL)
     return ENOMEM;
-  snprintf (backup, n, "%s" HL_PLAN_BACKUP_SUFFIX, path);
   int e = 0;
   if (unlink (backup) != 0 && errno != ENOENT)
     e = errno;
@@ -392,10 +443,15 @@ hl_out_file_commit (HlOutFile *f, HlError *err)
                        _("Cannot save \"%s\": it was changed while saving; nothing "
                          "was written"), path);
   else if (f->keep_backup && (e = keep_previous_version (f->target)) != 0)
-    st = hl_error_set (err, HL_ERR_IO, path,
-                       _("Cannot save \"%s\": the previous version could not be kept as "
-                         "\"%s%s\": %s; the file was not changed"),
-                       path, path, HL_PLAN_BACKUP_SUFFIX, strerror (e));
+    {
+      char *backup = hl_backup_path (f->target);
+      st = hl_error_set (err, HL_ERR_IO, path,
+                         _("Cannot save \"%s\": the previous version could not be kept "
+                           "as \"%s\": %s; the file was not changed"),
+                         path, backup != NULL ? backup : HL_PLAN_BACKUP_SUFFIX,
+                         strerror (e));
+      free (backup);
+    }
   else if (rename (f->tmp, f->target) != 0)
     {
       e = errno;

@@ -32,6 +32,14 @@ extern "C" {
 /* The previous version kept by a save with backup: PLAN.hlplan~ */
 #define HL_PLAN_BACKUP_SUFFIX "~"
 
+/* Where a save with backup keeps the previous version of path (malloc'd;
+ * NULL only when out of memory): path HL_PLAN_BACKUP_SUFFIX, or, when that
+ * name would be longer than the folder allows (a name of NAME_MAX bytes),
+ * the name cut at a character boundary, "." and 8 hex digits of a hash of
+ * the whole name, then the suffix: the same for the same name, different
+ * for names that only differ past the cut. */
+char *hl_backup_path (const char *path);
+
 /* Checks, without writing, that path may be written as above: HL_OK, or
  * HL_ERR_IO with a message naming what is in the way. */
 HlStatus hl_output_path_check (const char *path, HlError *err);
@@ -46,7 +54,7 @@ HlStatus hl_write_file_atomic (const char *path, const void *data,
 
 /* As hl_write_file_atomic, but once the new bytes are safely in the
  * temporary file and before the rename, an existing regular file at path
- * is kept as path HL_PLAN_BACKUP_SUFFIX (a hard link, or a copy where the
+ * is kept as hl_backup_path (path) (a hard link, or a copy where the
  * file system has no links), replacing an older backup.  The save stays
  * atomic: when it fails, path is unchanged.  When the backup cannot be
  * made the save is refused (HL_ERR_IO) and path is unchanged too. */

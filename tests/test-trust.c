@@ -22,7 +22,10 @@
 #include <time.h>
 #include <unistd.h>
 
+#include <glib.h>
+
 #include "hl-buf.h"
+#include "hl-file-write.h"
 #include "hl-image.h"
 #include "hl-text.h"
 #include "hl-plan-io.h"
@@ -328,6 +331,85 @@ load_text (const char *text, HlPlan **plan, HlError *err)
   hl_error_clear (err);
   return hl_plan_load_buffer (text, strlen (text), "test.hlplan", plan, err);
 }
+
+/* A plan saved with backup under names of 248 to NAME_MAX bytes: the
+ * previous version is kept, as NAME~ while that fits, else under the
+ * shortened name hl_backup_path() gives (at most NAME_MAX bytes, cut at
+ * a character boundary, different for names that differ only at the end). */
+START_TEST (test_long_names_backup)
+{
+  size_t size;
+  char *demo = slurp (HL_EXAMPLE, &size);
+  HlPlan *plan = NULL;
+  HlError err;
+  ck_assert_int_eq (load_text (demo, &plan, &err), HL_OK);
+  free (demo);
+  char *dir = make_temp_dir ();
+  long name_max = pathconf (dir, _PC_NAME_MAX);
+  if (name_max <= 0 || name_max > 1024)
+    name_max = 255;
+  int n_shortened = 0;
+  for (long len = 248; len <= name_max; len++)
+    {
+      char path[HL_PATH_MAX];
+      int at = snprintf (path, sizeof path, "%s/", dir);
+      /* "é" (2 bytes) repeated, then ".hlplan": the cut must not split one */
+      long body = len - 7;
+      for (long i = 0; i + 2 <= body; i += 2)
+        memcpy (path + at + i, "\xc3\xa9", 2);
+      if (body % 2 != 0)
+        path[at + body - 1] = 'n';
+      memcpy (path + at + body, ".hlplan", 8);
+      ck_assert_uint_eq (strlen (path + at), (size_t) len);
+      for (int k = 1; k <= 3; k++)
+        {
+          plan->mass_kg = 60.0 + k;
+          hl_error_clear (&err);
+          ck_assert_msg (hl_plan_save_file_backup (plan, path, &err) == HL_OK,
+                         "a name of %ld bytes, save %d: %s", len, k, err.message);
+        }
+      char *backup = hl_backup_path (path);
+      ck_assert_ptr_nonnull (backup);
+      const char *base = strrchr (backup, '/') + 1;
+      ck_assert_uint_le (strlen (base), (size_t) name_max);
+      ck_assert (g_utf8_validate (base, -1, NULL));
+      if (len + 1 <= name_max)
+        {
+          char plain[HL_PATH_MAX + 2];
+          snprintf (plain, sizeof plain, "%s~", path);
+          ck_assert_str_eq (backup, plain);
+        }
+      else
+        {
+          n_shortened++;
+          ck_assert_str_ne (base, path + at);
+          ck_assert (g_str_has_suffix (backup, "~"));
+          /* a name that differs only in its last letters has another backup */
+          char other[HL_PATH_MAX];
+          snprintf (other, sizeof other, "%s", path);
+          other[strlen (other) - 1] = 'm';
+          char *other_backup = hl_backup_path (other);
+          ck_assert_str_ne (other_backup, backup);
+          free (other_backup);
+        }
+      /* the file is the last save, the backup the one before */
+      HlPlan *now = NULL, *before = NULL;
+      ck_assert_int_eq (hl_plan_load_file (path, &now, &err), HL_OK);
+      ck_assert_msg (hl_plan_load_file (backup, &before, &err) == HL_OK, "%s", err.message);
+      ck_assert_double_eq (now->mass_kg, 63.0);
+      ck_assert_double_eq (before->mass_kg, 62.0);
+      hl_plan_free (now);
+      hl_plan_free (before);
+      ck_assert_int_eq (unlink (path), 0);
+      ck_assert_int_eq (unlink (backup), 0);
+      free (backup);
+    }
+  ck_assert_int_eq (count_entries (dir), 0);
+  ck_assert_int_ge (n_shortened, 1);
+  remove_tree (dir);
+  hl_plan_free (plan);
+}
+END_TEST
 
 START_TEST (test_option_limit_on_load)
 {
@@ -933,6 +1015,7 @@ trust_suite (void)
   tcase_add_test (tc, test_link_to_file_writes_target);
   tcase_add_test (tc, test_mode_kept);
   tcase_add_test (tc, test_long_names);
+  tcase_add_test (tc, test_long_names_backup);
   tcase_add_test (tc, test_same_file);
   suite_add_tcase (s, tc);
   tc = tcase_create ("radiograph");

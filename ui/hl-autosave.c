@@ -9,6 +9,7 @@
 
 #include <errno.h>
 #include <signal.h>
+#include <stdlib.h>
 #include <string.h>
 #include <sys/types.h>
 #include <unistd.h>
@@ -16,6 +17,7 @@
 #include <glib/gstdio.h>
 
 #include "hl-autosave.h"
+#include "hl-file-write.h"
 #include "hl-plan-io.h"
 #include "hl-version.h"
 #include "hl-message.h"
@@ -301,10 +303,12 @@ hl_autosave_confirm_save (GtkWindow *self)
   if (a == NULL || !a->recovered || a->confirmed || hl_document_get_file (doc_of (self)) == NULL)
     return FALSE;
   name = g_file_get_parse_name (hl_document_get_file (doc_of (self)));
+  char *backup = hl_backup_path (name);     /* a long name's backup is shortened */
   secondary = g_strdup_printf (_("The file holds the version saved before the program ended; "
                                  "the recovered plan has the later changes. The file's "
-                                 "present version is kept as “%s%s”."),
-                               name, HL_PLAN_BACKUP_SUFFIX);
+                                 "present version is kept as “%s”."),
+                               backup != NULL ? backup : name);
+  free (backup);
   dialog = gtk_message_dialog_new (GTK_WINDOW (self),
                                    GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
                                    GTK_MESSAGE_QUESTION, GTK_BUTTONS_NONE,
