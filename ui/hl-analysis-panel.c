@@ -21,12 +21,10 @@
 #include "hl-uncertainty.h"
 #include "hl-version.h"
 #include "hl-message.h"
+#include "hl-ui-util.h"
 
 #define PAGE_SPACING 6
-#define PAGE_MARGIN_X 10
-#define PAGE_MARGIN_Y 8
 #define LINE_SPACING 2
-#define GRID_COLUMN_SPACING 8
 #define ANSWER_MAX 512
 /* A capacity torque this close to a preset is that preset (N m/kg): the
  * presets are shown to two decimals, plan files keep more. */
@@ -49,16 +47,23 @@ struct _HlAnalysisPanel {
   /* borrowed */
   HlDocument *document;
 
-  /* built in code */
-  GtkWidget *scroll;           /* the page in the side panel */
+  /* template widgets */
+  GtkWidget *scroll;
+  GtkWidget *caveat_label;
   GtkWidget *for_label;
   GtkWidget *target_spin;
+  GtkWidget *target_note_label;
   GtkWidget *error_label;
-  HlAnswerRow rows[HL_QUESTION_N];
+  GtkWidget *answers_box;
   GtkWidget *capacity_drop;
   GtkWidget *capacity_source;
+  GtkWidget *capacity_assumption_label;
   GtkWidget *capacity_force_label;
   GtkWidget *capacity_grid;
+  GtkWidget *caution_label;
+
+  /* built in code */
+  HlAnswerRow rows[HL_QUESTION_N];
   size_t capacity_rows;
 
   /* state */
@@ -492,57 +497,26 @@ caption (const char *text)
   return label;
 }
 
-static GtkWidget *
-heading (const char *text)
-{
-  GtkWidget *label = gtk_label_new (text);
-
-  gtk_label_set_xalign (GTK_LABEL (label), 0.0f);
-  gtk_label_set_wrap (GTK_LABEL (label), TRUE);
-  gtk_widget_add_css_class (label, "heading");
-  return label;
-}
-
+/* What the template cannot hold: texts of the core, the answers' rows,
+ * the presets. */
 static void
 build (HlAnalysisPanel *self)
 {
-  GtkBox *box = GTK_BOX (self);
-  GtkWidget *target_row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
-  GtkWidget *target_label = gtk_label_new (_("Joint-load target"));
   g_autoptr(GtkStringList) presets = gtk_string_list_new (NULL);
   g_autofree char *target_note = NULL;
 
-  gtk_box_append (box, heading (_("Inverse answers")));
-  gtk_box_append (box, caption (hl_inverse_caveat ()));
-  self->for_label = caption ("");
-  gtk_box_append (box, self->for_label);
-
-  gtk_label_set_xalign (GTK_LABEL (target_label), 0.0f);
-  gtk_widget_set_hexpand (target_label, TRUE);
-  self->target_spin = gtk_spin_button_new_with_range (HL_REPORT_TARGET_JRF_BW_MIN,
-                                                      HL_REPORT_TARGET_JRF_BW_MAX,
-                                                      TARGET_STEP_BW);
-  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->target_spin), TARGET_DIGITS);
-  gtk_spin_button_set_increments (GTK_SPIN_BUTTON (self->target_spin), TARGET_STEP_BW,
-                                  TARGET_PAGE_BW);
-  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->target_spin),
-                             HL_REPORT_TARGET_JRF_BW_DEFAULT);
-  gtk_accessible_update_property (GTK_ACCESSIBLE (self->target_spin),
-                                  GTK_ACCESSIBLE_PROPERTY_LABEL, _("Joint-load target"), -1);
+  gtk_label_set_text (GTK_LABEL (self->caveat_label), hl_inverse_caveat ());
+  /* Configured with its range, so that it is as wide as its widest value. */
+  gtk_spin_button_configure (GTK_SPIN_BUTTON (self->target_spin),
+                             gtk_adjustment_new (HL_REPORT_TARGET_JRF_BW_DEFAULT,
+                                                 HL_REPORT_TARGET_JRF_BW_MIN,
+                                                 HL_REPORT_TARGET_JRF_BW_MAX,
+                                                 TARGET_STEP_BW, TARGET_PAGE_BW, 0.0),
+                             TARGET_STEP_BW, TARGET_DIGITS);
   g_signal_connect (self->target_spin, "value-changed", G_CALLBACK (target_changed_cb), self);
-  gtk_box_append (GTK_BOX (target_row), target_label);
-  gtk_box_append (GTK_BOX (target_row), self->target_spin);
-  gtk_box_append (GTK_BOX (target_row), gtk_label_new (_("× BW")));
-  gtk_box_append (box, target_row);
   target_note = g_strdup_printf (_("For the cane and load answers. Default %.1f × body weight: a round figure of ours below the 2.1–2.8 × BW measured in static single-leg stance (Kotzar et al. 1991, J Orthop Res 9:621-633)."),
                                  HL_REPORT_TARGET_JRF_BW_DEFAULT);
-  gtk_box_append (box, caption (target_note));
-
-  self->error_label = caption ("");
-  gtk_widget_remove_css_class (self->error_label, "dim-label");
-  gtk_widget_add_css_class (self->error_label, "error");
-  gtk_widget_set_visible (self->error_label, FALSE);
-  gtk_box_append (box, self->error_label);
+  gtk_label_set_text (GTK_LABEL (self->target_note_label), target_note);
 
   for (int q = 0; q < HL_QUESTION_N; q++)
     {
@@ -564,32 +538,17 @@ build (HlAnalysisPanel *self)
       g_signal_connect (row->apply, "clicked", G_CALLBACK (apply_clicked_cb), self);
       gtk_box_append (GTK_BOX (row->box), words);
       gtk_box_append (GTK_BOX (row->box), row->apply);
-      gtk_box_append (box, row->box);
+      gtk_box_append (GTK_BOX (self->answers_box), row->box);
     }
 
-  gtk_box_append (box, gtk_separator_new (GTK_ORIENTATION_HORIZONTAL));
-  gtk_box_append (box, heading (_("Abductor capacity")));
   for (int p = 0; p < HL_CAPACITY_PRESET_N; p++)
     gtk_string_list_append (presets, _(hl_capacity_preset_info ((HlCapacityPreset) p)->label));
   gtk_string_list_append (presets, _("Another value (type it on the Case page)"));
-  self->capacity_drop = gtk_drop_down_new (G_LIST_MODEL (g_object_ref (presets)), NULL);
-  gtk_accessible_update_property (GTK_ACCESSIBLE (self->capacity_drop),
-                                  GTK_ACCESSIBLE_PROPERTY_LABEL, _("Abductor capacity preset"), -1);
+  gtk_drop_down_set_model (GTK_DROP_DOWN (self->capacity_drop), G_LIST_MODEL (presets));
   g_signal_connect (self->capacity_drop, "notify::selected", G_CALLBACK (capacity_preset_cb), self);
-  gtk_box_append (box, self->capacity_drop);
-  self->capacity_source = caption ("");
-  gtk_box_append (box, self->capacity_source);
-  gtk_box_append (box, caption (hl_capacity_assumption_text ()));
-  self->capacity_force_label = caption ("");
-  gtk_widget_remove_css_class (self->capacity_force_label, "dim-label");
-  gtk_box_append (box, self->capacity_force_label);
-  self->capacity_grid = gtk_grid_new ();
-  gtk_grid_set_column_spacing (GTK_GRID (self->capacity_grid), GRID_COLUMN_SPACING);
-  gtk_grid_set_row_spacing (GTK_GRID (self->capacity_grid), LINE_SPACING);
-  gtk_box_append (box, self->capacity_grid);
-
-  gtk_box_append (box, gtk_separator_new (GTK_ORIENTATION_HORIZONTAL));
-  gtk_box_append (box, caption (hl_caution_short ()));
+  gtk_label_set_text (GTK_LABEL (self->capacity_assumption_label),
+                      hl_capacity_assumption_text ());
+  gtk_label_set_text (GTK_LABEL (self->caution_label), hl_caution_short ());
 }
 
 GtkWidget *
@@ -598,15 +557,9 @@ hl_analysis_panel_new (HlDocument *document)
   HlAnalysisPanel *self;
 
   g_return_val_if_fail (HL_IS_DOCUMENT (document), NULL);
-  self = g_object_new (HL_TYPE_ANALYSIS_PANEL,
-                       "orientation", GTK_ORIENTATION_VERTICAL,
-                       "spacing", PAGE_SPACING, NULL);
+  self = g_object_new (HL_TYPE_ANALYSIS_PANEL, NULL);
   self->document = document;
   build (self);
-  self->scroll = gtk_scrolled_window_new ();
-  gtk_scrolled_window_set_policy (GTK_SCROLLED_WINDOW (self->scroll), GTK_POLICY_NEVER,
-                                  GTK_POLICY_AUTOMATIC);
-  gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (self->scroll), GTK_WIDGET (self));
   g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), self, 0);
   g_signal_connect (self, "map", G_CALLBACK (panel_map_cb), NULL);
   g_signal_connect_object (gtk_scrolled_window_get_vadjustment (GTK_SCROLLED_WINDOW (self->scroll)),
@@ -615,38 +568,14 @@ hl_analysis_panel_new (HlDocument *document)
   return GTK_WIDGET (self);
 }
 
-GtkWidget *
-hl_analysis_panel_get_page (HlAnalysisPanel *self)
-{
-  g_return_val_if_fail (HL_IS_ANALYSIS_PANEL (self), NULL);
-  return self->scroll;
-}
-
 /* ---- test hooks ----------------------------------------------------- */
-
-static void
-print_widget (const char *name, GtkWidget *widget)
-{
-  GtkNative *native = widget != NULL ? gtk_widget_get_native (widget) : NULL;
-  graphene_point_t in, out;
-  double tx, ty;
-
-  if (widget == NULL || native == NULL || !gtk_widget_get_mapped (widget))
-    return;
-  in = GRAPHENE_POINT_INIT (gtk_widget_get_width (widget) / 2.0f,
-                            gtk_widget_get_height (widget) / 2.0f);
-  if (!gtk_widget_compute_point (widget, GTK_WIDGET (native), &in, &out))
-    return;
-  gtk_native_get_surface_transform (native, &tx, &ty);
-  printf ("WIDGET %s %.0f %.0f\n", name, out.x + tx, out.y + ty);
-}
 
 void
 hl_analysis_panel_print_handles (HlAnalysisPanel *self)
 {
   g_return_if_fail (HL_IS_ANALYSIS_PANEL (self));
-  print_widget ("analysis-target", self->target_spin);
-  print_widget ("capacity-preset", self->capacity_drop);
+  hl_ui_print_widget ("analysis-target", self->target_spin);
+  hl_ui_print_widget ("capacity-preset", self->capacity_drop);
   for (int q = 0; q < HL_QUESTION_N; q++)
     {
       const HlInverseAnswer *a = &self->answers[q];
@@ -655,7 +584,7 @@ hl_analysis_panel_print_handles (HlAnalysisPanel *self)
                            : a->status == HL_OK ? "ok"
                            : a->status == HL_ERR_NOT_REACHABLE ? "not-reachable" : "not-converged";
 
-      print_widget (name, self->rows[q].apply);
+      hl_ui_print_widget (name, self->rows[q].apply);
       printf ("ANSWER %s %s %.9g %d\n", hl_question_key ((HlQuestion) q), status,
               self->asked[q] && a->status == HL_OK ? a->value : NAN,
               gtk_widget_get_sensitive (self->rows[q].apply));
@@ -665,18 +594,41 @@ hl_analysis_panel_print_handles (HlAnalysisPanel *self)
 /* ---- GObject -------------------------------------------------------- */
 
 static void
+hl_analysis_panel_dispose (GObject *object)
+{
+  gtk_widget_dispose_template (GTK_WIDGET (object), HL_TYPE_ANALYSIS_PANEL);
+  G_OBJECT_CLASS (hl_analysis_panel_parent_class)->dispose (object);
+}
+
+static void
 hl_analysis_panel_class_init (HlAnalysisPanelClass *klass)
 {
+  GObjectClass *object_class = G_OBJECT_CLASS (klass);
+  GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
+
+  object_class->dispose = hl_analysis_panel_dispose;
   signals[SIGNAL_SHOWN_CHANGED] = g_signal_new ("shown-changed", G_TYPE_FROM_CLASS (klass),
                                                 G_SIGNAL_RUN_LAST, 0, NULL, NULL, NULL,
                                                 G_TYPE_NONE, 0);
+  gtk_widget_class_set_template_from_resource (widget_class,
+                                               "/org/hiplever/Hiplever/hl-analysis-panel.ui");
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, scroll);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, caveat_label);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, for_label);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, target_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, target_note_label);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, error_label);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, answers_box);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, capacity_drop);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, capacity_source);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, capacity_assumption_label);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, capacity_force_label);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, capacity_grid);
+  gtk_widget_class_bind_template_child (widget_class, HlAnalysisPanel, caution_label);
 }
 
 static void
 hl_analysis_panel_init (HlAnalysisPanel *self)
 {
-  gtk_widget_set_margin_start (GTK_WIDGET (self), PAGE_MARGIN_X);
-  gtk_widget_set_margin_end (GTK_WIDGET (self), PAGE_MARGIN_X);
-  gtk_widget_set_margin_top (GTK_WIDGET (self), PAGE_MARGIN_Y);
-  gtk_widget_set_margin_bottom (GTK_WIDGET (self), PAGE_MARGIN_Y);
+  gtk_widget_init_template (GTK_WIDGET (self));
 }

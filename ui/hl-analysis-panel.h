@@ -43,10 +43,10 @@ G_BEGIN_DECLS
 #define HL_TYPE_ANALYSIS_PANEL (hl_analysis_panel_get_type ())
 G_DECLARE_FINAL_TYPE (HlAnalysisPanel, hl_analysis_panel, HL, ANALYSIS_PANEL, GtkBox)
 
-/* The page for `document` (borrowed: it must outlive the page). */
+/* The page for `document` (borrowed: it must outlive the page), scrolled
+ * within itself; it goes into the side panel as it is.  Its template is
+ * ui/hl-analysis-panel.ui. */
 GtkWidget *hl_analysis_panel_new (HlDocument *document);
-/* The scrolled window around the page, which goes into the side panel. */
-GtkWidget *hl_analysis_panel_get_page (HlAnalysisPanel *self);
 
 /* The joint-load target of the page, x body weight (the default when
  * `self` is NULL). */

@@ -410,7 +410,7 @@ static void
 attach_analysis (HlWindow *self)
 {
   self->analysis_panel = HL_ANALYSIS_PANEL (hl_analysis_panel_new (self->document));
-  gtk_stack_add_titled (self->panel_stack, hl_analysis_panel_get_page (self->analysis_panel),
+  gtk_stack_add_titled (self->panel_stack, GTK_WIDGET (self->analysis_panel),
                         "analysis", _("Analysis"));
   g_signal_connect_object (self->analysis_panel, "shown-changed",
                            G_CALLBACK (handles_moved_cb), self, G_CONNECT_SWAPPED);
