@@ -6,7 +6,9 @@
  * The charts and the report must show what the core computes: their
  * numbers are checked against hl_model_solve of edited plans, not against
  * an outside source, so no source is cited.  The drawings are checked for
- * ink, colours and sizes; every error path is provoked.
+ * ink, colours and sizes; every error path is provoked.  The report loses
+ * nothing: the text of its PDF (pdftotext, poppler-utils) holds every cell
+ * of every table and every line the core made, with 1, 4 and 8 options.
  */
 #include "config.h"
 
@@ -18,7 +20,11 @@
 #include <time.h>
 #include <unistd.h>
 
+#include <glib.h>
+#include <glib/gstdio.h>
+
 #include "hl-chart.h"
+#include "hl-measure.h"
 #include "hl-plan-io.h"
 #include "hl-report.h"
 #include "hl-solve.h"
@@ -447,6 +453,234 @@ START_TEST (test_report)
 }
 END_TEST
 
+/* ---- the report loses nothing ----------------------------------------------------------- */
+
+/* The demo plan with n options named "Option k". */
+static HlPlan *
+plan_with_options (size_t n)
+{
+  HlPlan *plan = demo_plan ();
+  while (plan->n_options > 0)
+    hl_plan_remove_option (plan, plan->n_options - 1);
+  for (size_t i = 0; i < n; i++)
+    {
+      HlRecon r;
+      char name[HL_NAME_MAX];
+      hl_recon_init (&r);
+      r.femoral_offset_mm = 1.25 * (double) i - 2.0;
+      r.femoral_length_mm = 0.75 * (double) i - 1.5;
+      r.cup_medial_mm = 0.5 * (double) i;
+      snprintf (name, sizeof name, "Option %zu", i + 1);
+      ck_assert_int_ge (hl_plan_add_option (plan, name, &r), 0);
+    }
+  return plan;
+}
+
+/* Runs of white space as one space, none at the ends. */
+static char *
+squeeze (const char *text)
+{
+  GString *out = g_string_new (NULL);
+  bool space = false;
+  for (const char *p = text; *p != '\0'; p++)
+    {
+      if (g_ascii_isspace (*p))
+        {
+          space = out->len > 0;
+          continue;
+        }
+      if (space)
+        g_string_append_c (out, ' ');
+      space = false;
+      g_string_append_c (out, *p);
+    }
+  return g_string_free (out, FALSE);
+}
+
+static void
+assert_shown (const char *pdf_text, const char *what, const char *text)
+{
+  char *want = squeeze (text);
+  ck_assert_msg (want[0] == '\0' || strstr (pdf_text, want) != NULL,
+                 "%s not in the report: \"%s\"", what, want);
+  g_free (want);
+}
+
+/* A table cell that wraps inside its column comes out of pdftotext with
+ * the lines of the cells beside it in between: its words must appear in
+ * order, each within CELL_WORD_GAP words of the one before. */
+#define CELL_WORD_GAP 40
+
+static bool
+words_in_order (char **text, char **want, size_t from)
+{
+  if (want[0] == NULL)
+    return true;
+  for (size_t i = from; text[i] != NULL && i < from + CELL_WORD_GAP; i++)
+    if (strcmp (text[i], want[0]) == 0 && words_in_order (text, want + 1, i + 1))
+      return true;
+  return false;
+}
+
+static void
+assert_cell_shown (char **text_words, const char *what, const char *cell)
+{
+  char *squeezed = squeeze (cell);
+  char **want = g_strsplit (squeezed, " ", -1);
+  bool found = want[0] == NULL || want[0][0] == '\0';
+  for (size_t i = 0; !found && text_words[i] != NULL; i++)
+    found = strcmp (text_words[i], want[0]) == 0 && words_in_order (text_words, want + 1, i + 1);
+  ck_assert_msg (found, "%s not in the report: \"%s\"", what, squeezed);
+  g_strfreev (want);
+  g_free (squeezed);
+}
+
+static void
+assert_table_shown (const char *pdf_text, const char *what, const HlReportTable *t)
+{
+  char **words = g_strsplit (pdf_text, " ", -1);
+  for (int row = 0; row < t->n_rows; row++)
+    for (int col = 0; col < t->n_cols; col++)
+      assert_cell_shown (words, what, hl_report_table_cell (t, row, col));
+  g_strfreev (words);
+}
+
+static void
+assert_lines_shown (const char *pdf_text, const char *what, const HlReportLines *l)
+{
+  for (size_t i = 0; i < l->n; i++)
+    assert_shown (pdf_text, what, l->items[i]);
+}
+
+/* Option counts of the lost-content test. */
+static const size_t lost_option_counts[] = { 1, 4, 8 };
+/* Rows of pixels between the content's bottom and the footer rule. */
+#define FOOTER_BAND_TOP 807
+#define FOOTER_BAND_BOTTOM 810
+
+START_TEST (test_report_loses_nothing)
+{
+  size_t n_options = lost_option_counts[_i];
+  HlPlan *plan = plan_with_options (n_options);
+  HlReportSettings settings;
+  hl_report_settings_init (&settings);
+  settings.date = "2026-03-01";
+  HlError err;
+  hl_error_clear (&err);
+  HlReport *r = hl_report_new (plan, &settings, &err);
+  ck_assert_msg (r != NULL, "%s", err.message);
+  const HlReportData *d = hl_report_data (r);
+  int n_pages = hl_report_n_pages (r);
+
+  /* Every option is in the content: nothing is cut before drawing. */
+  ck_assert_uint_eq (d->n_cases, 1 + n_options);
+  ck_assert_int_eq (d->options.n_rows, 1 + (int) n_options);
+  ck_assert_int_eq (d->results_table.n_cols, 2 + (int) n_options);
+  ck_assert_uint_eq (d->against.n, 1 + n_options);
+  ck_assert_uint_eq (d->flags.n, 1 + n_options + (hl_plan_cane_note (plan) != NULL));
+
+  /* Leg length and offset against the other hip: the core's own words,
+   * those of the results view and the command line. */
+  for (size_t row = 0; row <= n_options; row++)
+    {
+      HlLandmarks lm;
+      HlMeasures ms;
+      char leg[160], go[160];
+      if (row == 0)
+        lm = plan->landmarks;
+      else
+        hl_recon_landmarks (plan, &plan->options[row - 1].recon, &lm);
+      hl_measure (&lm, plan->side, &ms);
+      ck_assert (isfinite (ms.leg_length_difference_mm));
+      char *want = g_strdup_printf ("%s: %s; %s.", row == 0 ? "Native" : plan->options[row - 1].name,
+                                    hl_measure_leg_length_words (ms.leg_length_difference_mm,
+                                                                 leg, sizeof leg),
+                                    hl_measure_global_offset_words (ms.global_offset_difference_mm,
+                                                                    go, sizeof go));
+      ck_assert_str_eq (d->against.items[row], want);
+      g_free (want);
+    }
+
+  /* The PDF's text holds all of it. */
+  unsigned char *pdf = NULL;
+  size_t size = 0;
+  ck_assert_int_eq (hl_report_pdf_to_buffer (r, &pdf, &size, &err), HL_OK);
+  char *dir = g_dir_make_tmp ("hl-test-report-XXXXXX", NULL);
+  ck_assert_ptr_nonnull (dir);
+  char *path = g_build_filename (dir, "report.pdf", NULL);
+  ck_assert (g_file_set_contents (path, (const char *) pdf, (gssize) size, NULL));
+  free (pdf);
+  char *tool = g_find_program_in_path ("pdftotext");
+  ck_assert_msg (tool != NULL, "pdftotext (poppler-utils, tests/bootstrap.sh) is needed");
+  char *argv[] = { tool, "-enc", "UTF-8", path, "-", NULL };
+  char *out = NULL;
+  int wait = 0;
+  ck_assert (g_spawn_sync (NULL, argv, NULL, G_SPAWN_STDERR_TO_DEV_NULL, NULL, NULL, &out,
+                           NULL, &wait, NULL));
+  ck_assert (g_spawn_check_wait_status (wait, NULL));
+  char *text = squeeze (out);
+  g_free (out);
+  g_free (tool);
+
+  for (int page = 1; page <= n_pages; page++)
+    {
+      char footer[32];
+      snprintf (footer, sizeof footer, "Page %d of %d", page, n_pages);
+      ck_assert_msg (strstr (text, footer) != NULL, "no \"%s\"", footer);
+    }
+  assert_shown (text, "title", d->title);
+  assert_shown (text, "caution", d->caution_text);
+  assert_lines_shown (text, "input", &d->inputs_left);
+  assert_lines_shown (text, "input", &d->inputs_right);
+  assert_table_shown (text, "landmark cell", &d->landmarks);
+  assert_table_shown (text, "option cell", &d->options);
+  assert_shown (text, "heading", d->against_heading);
+  assert_lines_shown (text, "against the other hip", &d->against);
+  assert_table_shown (text, "result cell", &d->results_table);
+  assert_shown (text, "ranges note", d->mc_note);
+  assert_lines_shown (text, "flags", &d->flags);
+  assert_shown (text, "capacity", d->capacity_text);
+  for (size_t i = 0; i < d->n_answers; i++)
+    assert_shown (text, "inverse answer", d->answers[i].text);
+  assert_shown (text, "heading", d->figure_heading);
+  assert_shown (text, "heading", d->sources_heading);
+  assert_lines_shown (text, "assumption", &d->assumptions);
+  assert_lines_shown (text, "source", &d->sources);
+  ck_assert (d->sources.n >= 9);
+  printf ("report with %zu options: %d pages, %zu characters of text\n", n_options, n_pages,
+          strlen (text));
+  g_free (text);
+  g_unlink (path);
+  g_rmdir (dir);
+  g_free (path);
+  g_free (dir);
+
+  /* Nothing runs over a page: the band between the content and the
+   * footer rule is blank on every page. */
+  int w = (int) HL_REPORT_PAGE_WIDTH_PT, h = (int) HL_REPORT_PAGE_HEIGHT_PT;
+  for (int page = 0; page < n_pages; page++)
+    {
+      cairo_surface_t *s = cairo_image_surface_create (CAIRO_FORMAT_RGB24, w, h);
+      cairo_t *cr = cairo_create (s);
+      hl_report_draw_page (r, cr, page);
+      cairo_destroy (cr);
+      cairo_surface_flush (s);
+      const unsigned char *px = cairo_image_surface_get_data (s);
+      int stride = cairo_image_surface_get_stride (s);
+      for (int y = FOOTER_BAND_TOP; y <= FOOTER_BAND_BOTTOM; y++)
+        for (int x = 0; x < w; x++)
+          {
+            const unsigned char *p = px + y * stride + 4 * x;
+            ck_assert_msg (p[0] > 250 && p[1] > 250 && p[2] > 250,
+                           "page %d: ink at (%d, %d) below the content", page + 1, x, y);
+          }
+      cairo_surface_destroy (s);
+    }
+  hl_report_free (r);
+  hl_plan_free (plan);
+}
+END_TEST
+
 START_TEST (test_report_errors)
 {
   HlPlan *plan = demo_plan ();
@@ -588,6 +822,8 @@ chart_report_suite (void)
   tc = tcase_create ("report");
   tcase_add_loop_test (tc, test_report, 0,
                        (int) (sizeof report_option_counts / sizeof report_option_counts[0]));
+  tcase_add_loop_test (tc, test_report_loses_nothing, 0,
+                       (int) (sizeof lost_option_counts / sizeof lost_option_counts[0]));
   tcase_set_timeout (tc, 60);
   suite_add_tcase (s, tc);
   tc = tcase_create ("figures");
