@@ -652,7 +652,7 @@ add_inverse (HlReport *r)
   const HlReportData *d = r->d;
   const double size = TYPE_BODY * r->scale;
   add_heading (r, d->inverse_heading, false);
-  add_text (r, d->inverse_caveat, size, false, ink);
+  add_text (r, d->inverse_caveat, size, false, ink)->gap_after = 3.0;
   double group_h = 0.0, label_h = 0.0;
   for (size_t i = 0; i < d->n_answers; i++)
     {
