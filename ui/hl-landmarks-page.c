@@ -28,6 +28,8 @@ struct _HlLandmarksPage {
   GtkSpinButton *lm_x[HL_LM_COUNT];
   GtkSpinButton *lm_y[HL_LM_COUNT];
   GtkCheckButton *lm_placed[HL_LM_COUNT];
+  GtkWidget *lm_names[HL_LM_COUNT];       /* name and "required"/"optional" */
+  GtkWidget *lm_title[4];                 /* the header of each column */
 
   /* borrowed */
   HlDocument *document;
@@ -193,29 +195,58 @@ landmark_spin (HlLandmarksPage *self, HlLandmarkId id, const char *axis_label)
   return GTK_SPIN_BUTTON (spin);
 }
 
+/* The table's columns: the name (and whether it is required) takes what
+ * the coordinates and the check leave; those have fixed widths, and each
+ * header title shares its column's width through a size group.  The names
+ * wrap (at most LM_NAME_CHARS wide), so no name asks for more than the
+ * panel has at its default width, in English or German.  No size group
+ * holds a wrapping label: a group measures all its members for one row's
+ * height, which would make every name as wide as the longest on one line. */
+#define LM_NAME_CHARS 16
+/* Room at the right for the overlay scrollbar, px. */
+#define LM_SCROLLBAR_ROOM 6
+
+enum { LM_COL_NAME, LM_COL_X, LM_COL_Y, LM_COL_PLACED, LM_N_COLS };
+
 static void
 build_landmark_rows (HlLandmarksPage *self)
 {
-  g_autoptr(GtkSizeGroup) names = gtk_size_group_new (GTK_SIZE_GROUP_HORIZONTAL);
   GtkWidget *header = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
-  const char *titles[] = { N_("Landmark"), N_("x (mm)"), N_("y (mm)"), N_("Placed") };
+  const char *titles[] = { N_("Landmark"), N_("x (mm)"), N_("y (mm)") };
+  GtkSizeGroup *cols[LM_N_COLS] = { NULL };
 
+  for (int k = LM_COL_X; k < LM_N_COLS; k++)
+    cols[k] = gtk_size_group_new (GTK_SIZE_GROUP_HORIZONTAL);
   for (guint i = 0; i < G_N_ELEMENTS (titles); i++)
     {
       GtkWidget *title = gtk_label_new (_(titles[i]));
 
       gtk_widget_add_css_class (title, "heading");
       gtk_label_set_xalign (GTK_LABEL (title), 0.0f);
-      if (i == 0)
+      if (i == LM_COL_NAME)
         {
-          gtk_size_group_add_widget (names, title);
+          gtk_label_set_ellipsize (GTK_LABEL (title), PANGO_ELLIPSIZE_END);
           gtk_widget_set_hexpand (title, TRUE);
         }
-      else if (i < 3)
-        gtk_label_set_width_chars (GTK_LABEL (title), 8);
+      else
+        gtk_size_group_add_widget (cols[i], title);
       gtk_box_append (GTK_BOX (header), title);
+      self->lm_title[i] = title;
     }
+  /* "Placed" as a check mark over the column of check boxes: the word
+   * ("Gesetzt" in German) is wider than the boxes. */
+  {
+    GtkWidget *mark = gtk_image_new_from_icon_name ("object-select-symbolic");
+
+    gtk_widget_set_tooltip_text (mark, _("Placed"));
+    gtk_accessible_update_property (GTK_ACCESSIBLE (mark),
+                                    GTK_ACCESSIBLE_PROPERTY_LABEL, _("Placed"), -1);
+    gtk_size_group_add_widget (cols[LM_COL_PLACED], mark);
+    gtk_box_append (GTK_BOX (header), mark);
+    self->lm_title[LM_COL_PLACED] = mark;
+  }
   gtk_widget_add_css_class (header, "landmark-header");
+  gtk_widget_set_margin_end (header, LM_SCROLLBAR_ROOM);
   gtk_list_box_set_placeholder (self->landmark_list, NULL);
   gtk_list_box_prepend (self->landmark_list, header);
   gtk_list_box_row_set_selectable (GTK_LIST_BOX_ROW (gtk_widget_get_parent (header)), FALSE);
@@ -234,6 +265,8 @@ build_landmark_rows (HlLandmarksPage *self)
 
       gtk_label_set_xalign (GTK_LABEL (name), 0.0f);
       gtk_label_set_wrap (GTK_LABEL (name), TRUE);
+      gtk_label_set_wrap_mode (GTK_LABEL (name), PANGO_WRAP_WORD_CHAR);
+      gtk_label_set_max_width_chars (GTK_LABEL (name), LM_NAME_CHARS);
       gtk_label_set_xalign (GTK_LABEL (kind), 0.0f);
       gtk_widget_add_css_class (kind, "caption");
       gtk_widget_add_css_class (kind, info->required ? "required" : "dim-label");
@@ -241,11 +274,13 @@ build_landmark_rows (HlLandmarksPage *self)
       gtk_box_append (GTK_BOX (names_box), kind);
       gtk_widget_set_hexpand (names_box, TRUE);
       gtk_widget_set_valign (names_box, GTK_ALIGN_CENTER);
-      gtk_size_group_add_widget (names, names_box);
       gtk_box_append (GTK_BOX (box), names_box);
+      self->lm_names[i] = names_box;
 
       self->lm_x[i] = landmark_spin (self, id, _("x (mm)"));
       self->lm_y[i] = landmark_spin (self, id, _("y (mm)"));
+      gtk_size_group_add_widget (cols[LM_COL_X], GTK_WIDGET (self->lm_x[i]));
+      gtk_size_group_add_widget (cols[LM_COL_Y], GTK_WIDGET (self->lm_y[i]));
       gtk_box_append (GTK_BOX (box), GTK_WIDGET (self->lm_x[i]));
       gtk_box_append (GTK_BOX (box), GTK_WIDGET (self->lm_y[i]));
 
@@ -256,15 +291,20 @@ build_landmark_rows (HlLandmarksPage *self)
       g_signal_connect_object (placed, "toggled",
                                G_CALLBACK (landmark_placed_cb), self, 0);
       self->lm_placed[i] = GTK_CHECK_BUTTON (placed);
+      gtk_size_group_add_widget (cols[LM_COL_PLACED], placed);
       gtk_box_append (GTK_BOX (box), placed);
 
       row = gtk_list_box_row_new ();
+      gtk_widget_set_margin_end (box, LM_SCROLLBAR_ROOM);
       gtk_list_box_row_set_child (GTK_LIST_BOX_ROW (row), box);
       gtk_widget_set_tooltip_text (row, _(info->hint));
       g_object_set_data (G_OBJECT (row), HL_LANDMARK_ID_KEY, GINT_TO_POINTER (id));
       gtk_list_box_append (self->landmark_list, row);
       self->lm_row[i] = row;
     }
+  /* The widgets hold their groups from here on. */
+  for (int k = LM_COL_X; k < LM_N_COLS; k++)
+    g_object_unref (cols[k]);
   g_signal_connect_object (self->landmark_list, "row-selected",
                            G_CALLBACK (landmark_row_selected_cb), self, 0);
   show_landmark_hint (self, -1);
@@ -313,6 +353,79 @@ hl_landmarks_page_set_selected_landmark (HlLandmarksPage *self, int id)
   show_landmark_hint (self, id);
 }
 
+/* The width a widget was given with its CSS margins, as its natural width
+ * is measured. */
+static int
+allocated_width (GtkWidget *widget)
+{
+  GtkAllocation a;
+
+  gtk_widget_get_allocation (widget, &a);
+  return a.width;
+}
+
+static GtkWidget *
+table_cell (HlLandmarksPage *self, int col, int row)
+{
+  switch (col)
+    {
+    case LM_COL_NAME: return self->lm_names[row];
+    case LM_COL_X: return GTK_WIDGET (self->lm_x[row]);
+    case LM_COL_Y: return GTK_WIDGET (self->lm_y[row]);
+    default: return GTK_WIDGET (self->lm_placed[row]);
+    }
+}
+
+/* For each column of the table (the header's title as row -1), how it
+ * fits the panel: "LMTABLE COLUMN SHORT OVER SHIFT", the most any cell
+ * lacks of its natural width, the most any cell reaches past the right
+ * edge of the table's view, in px (<= 0: fits), and the most a title's
+ * left edge is off its column's. */
+static void
+print_table_columns (HlLandmarksPage *self)
+{
+  static const char *const names[LM_N_COLS] = { "name", "x", "y", "placed" };
+  GtkWidget *view = gtk_widget_get_parent (GTK_WIDGET (self->landmark_list));
+
+  if (!gtk_widget_get_mapped (GTK_WIDGET (self->landmark_list)))
+    return;
+  for (int k = 0; k < LM_N_COLS; k++)
+    {
+      int shortfall = G_MININT, over = G_MININT, shift = 0;
+      double cell_x = NAN;
+
+      for (int r = 0; r < HL_LM_COUNT; r++)
+        {
+          GtkWidget *cell = table_cell (self, k, r);
+          graphene_rect_t b;
+          int nat;
+
+          gtk_widget_measure (cell, GTK_ORIENTATION_HORIZONTAL, -1, NULL, &nat, NULL, NULL);
+          if (!gtk_widget_compute_bounds (cell, view, &b))
+            continue;
+          shortfall = MAX (shortfall, nat - allocated_width (cell));
+          over = MAX (over, (int) ceil (b.origin.x + b.size.width) - gtk_widget_get_width (view));
+          if (isnan (cell_x))
+            cell_x = b.origin.x;
+        }
+      {
+        GtkWidget *title = self->lm_title[k];
+        graphene_rect_t b;
+        int nat;
+
+        gtk_widget_measure (title, GTK_ORIENTATION_HORIZONTAL, -1, NULL, &nat, NULL, NULL);
+        if (gtk_widget_compute_bounds (title, view, &b))
+          {
+            shortfall = MAX (shortfall, nat - allocated_width (title));
+            over = MAX (over, (int) ceil (b.origin.x + b.size.width) - gtk_widget_get_width (view));
+            if (!isnan (cell_x))
+              shift = (int) fabs (b.origin.x - cell_x);
+          }
+      }
+      printf ("LMTABLE %s %d %d %d\n", names[k], shortfall, over, shift);
+    }
+}
+
 void
 hl_landmarks_page_print_handles (HlLandmarksPage *self)
 {
@@ -326,6 +439,7 @@ hl_landmarks_page_print_handles (HlLandmarksPage *self)
       hl_ui_print_widget (x, GTK_WIDGET (self->lm_x[i]));
       hl_ui_print_widget (y, GTK_WIDGET (self->lm_y[i]));
     }
+  print_table_columns (self);
 }
 
 /* ---- GObject -------------------------------------------------------- */
