@@ -2223,20 +2223,6 @@ hl_render_hit_landmark (const HlPlan *plan, const HlView *view, double sx,
 
 /* ---- Figures ---------------------------------------------------------------- */
 
-static HlStatus
-figure_check (int width, int height, const char *path, HlError *err)
-{
-  if (width < HL_FIGURE_SIZE_MIN || width > HL_FIGURE_SIZE_MAX
-      || height < HL_FIGURE_SIZE_MIN || height > HL_FIGURE_SIZE_MAX)
-    return hl_error_set (err, HL_ERR_INVALID, "figure size",
-                         _("The figure size %d x %d px is outside %d to %d px."),
-                         width, height, HL_FIGURE_SIZE_MIN, HL_FIGURE_SIZE_MAX);
-  if (path == NULL || path[0] == '\0')
-    return hl_error_set (err, HL_ERR_INVALID, "figure path", "%s",
-                         _("No file name was given for the figure."));
-  return HL_OK;
-}
-
 void
 hl_render_figure_draw (cairo_t *cr, const HlPlan *plan, int option_index,
                        int width, int height, HlRenderPreset preset,
@@ -2252,79 +2238,4 @@ hl_render_figure_draw (cairo_t *cr, const HlPlan *plan, int option_index,
   HlView view;
   hl_render_fit_view_framed (&scene, &style, width, height, FIT_MARGIN_PX, &view);
   hl_render_scene (cr, &scene, &view, &style, width, height);
-}
-
-static void
-figure_draw (cairo_surface_t *surface, const HlPlan *plan, int option_index,
-             int width, int height, HlRenderPreset preset)
-{
-  cairo_t *cr = cairo_create (surface);
-  hl_render_figure_draw (cr, plan, option_index, width, height, preset, NULL);
-  cairo_destroy (cr);
-}
-
-HlStatus
-hl_render_figure_png (const HlPlan *plan, int option_index, int width,
-                      int height, const char *path, HlError *err)
-{
-  return hl_render_figure_png_preset (plan, option_index, width, height,
-                                      HL_RENDER_PRESET_AUTO, path, err);
-}
-
-HlStatus
-hl_render_figure_svg (const HlPlan *plan, int option_index, int width,
-                      int height, const char *path, HlError *err)
-{
-  return hl_render_figure_svg_preset (plan, option_index, width, height,
-                                      HL_RENDER_PRESET_AUTO, path, err);
-}
-
-HlStatus
-hl_render_figure_png_preset (const HlPlan *plan, int option_index, int width,
-                             int height, HlRenderPreset preset, const char *path,
-                             HlError *err)
-{
-  hl_render_preset_size (preset, &width, &height);
-  HlStatus st = figure_check (width, height, path, err);
-  if (st != HL_OK)
-    return st;
-  cairo_surface_t *surface = cairo_image_surface_create (CAIRO_FORMAT_RGB24,
-                                                         width, height);
-  if (cairo_surface_status (surface) != CAIRO_STATUS_SUCCESS)
-    {
-      cairo_surface_destroy (surface);
-      return hl_error_set (err, HL_ERR_NOMEM, "figure", "%s",
-                           _("There is not enough memory for the figure."));
-    }
-  figure_draw (surface, plan, option_index, width, height, preset);
-  cairo_status_t cs = cairo_surface_write_to_png (surface, path);
-  cairo_surface_destroy (surface);
-  if (cs != CAIRO_STATUS_SUCCESS)
-    return hl_error_set (err, HL_ERR_IO, path, _("Cannot write the figure: %s."),
-                         cairo_status_to_string (cs));
-  return HL_OK;
-}
-
-HlStatus
-hl_render_figure_svg_preset (const HlPlan *plan, int option_index, int width,
-                             int height, HlRenderPreset preset, const char *path,
-                             HlError *err)
-{
-  hl_render_preset_size (preset, &width, &height);
-  HlStatus st = figure_check (width, height, path, err);
-  if (st != HL_OK)
-    return st;
-  cairo_surface_t *surface = cairo_svg_surface_create (path, width, height);
-  cairo_status_t cs = cairo_surface_status (surface);
-  if (cs == CAIRO_STATUS_SUCCESS)
-    {
-      figure_draw (surface, plan, option_index, width, height, preset);
-      cairo_surface_finish (surface);
-      cs = cairo_surface_status (surface);
-    }
-  cairo_surface_destroy (surface);
-  if (cs != CAIRO_STATUS_SUCCESS)
-    return hl_error_set (err, HL_ERR_IO, path, _("Cannot write the figure: %s."),
-                         cairo_status_to_string (cs));
-  return HL_OK;
 }

@@ -222,24 +222,10 @@ int hl_render_hit_landmark (const HlPlan *plan, const HlView *view,
 
 /* ---- Figures ---------------------------------------------------------- */
 
-/* A width x height px figure of the plan with the option (-1 = native),
- * light style, fitted, with the caution.  Fail with HL_ERR_INVALID on a bad
- * size and HL_ERR_IO when the file cannot be written. */
+/* The figure's size limits, px; the figure files are written by
+ * hl_figure_save() (render/hl-report.h), through the atomic writer. */
 #define HL_FIGURE_SIZE_MIN 64
 #define HL_FIGURE_SIZE_MAX 8192
-HlStatus hl_render_figure_png (const HlPlan *plan, int option_index,
-                               int width, int height, const char *path,
-                               HlError *err);
-HlStatus hl_render_figure_svg (const HlPlan *plan, int option_index,
-                               int width, int height, const char *path,
-                               HlError *err);
-/* The same at a preset's size and text (AUTO: width x height). */
-HlStatus hl_render_figure_png_preset (const HlPlan *plan, int option_index,
-                                      int width, int height, HlRenderPreset preset,
-                                      const char *path, HlError *err);
-HlStatus hl_render_figure_svg_preset (const HlPlan *plan, int option_index,
-                                      int width, int height, HlRenderPreset preset,
-                                      const char *path, HlError *err);
 /* Draws the figure of the plan into `cr` as the files get it, recording
  * the layout into `layout` (may be NULL): for the tests. */
 void hl_render_figure_draw (cairo_t *cr, const HlPlan *plan, int option_index,

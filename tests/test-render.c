@@ -511,14 +511,14 @@ START_TEST (test_figures)
   snprintf (svg, sizeof svg, "%s/figure.svg", dir);
   HlError err;
 
-  ck_assert_int_eq (hl_render_figure_png (plan, 1, 900, 640, png, &err), HL_OK);
+  ck_assert_int_eq (hl_figure_save (plan, 1, 900, 640, png, &err), HL_OK);
   cairo_surface_t *s = cairo_image_surface_create_from_png (png);
   ck_assert_int_eq (cairo_surface_status (s), CAIRO_STATUS_SUCCESS);
   ck_assert_int_eq (cairo_image_surface_get_width (s), 900);
   ck_assert_int_eq (cairo_image_surface_get_height (s), 640);
   cairo_surface_destroy (s);
 
-  ck_assert_int_eq (hl_render_figure_svg (plan, -1, 800, 600, svg, &err), HL_OK);
+  ck_assert_int_eq (hl_figure_save (plan, -1, 800, 600, svg, &err), HL_OK);
   FILE *f = fopen (svg, "r");
   ck_assert_ptr_nonnull (f);
   char head[512] = "";
@@ -534,13 +534,14 @@ START_TEST (test_figures)
 }
 END_TEST
 
+/* A path of NULL or "" is used as it is; any other gets ".svg" or ".png". */
 static const struct {
   int w, h;
   const char *path;
   HlStatus expect;
 } figure_errors[] = {
-  { 10, 600, "/tmp/x.png", HL_ERR_INVALID },
-  { 800, HL_FIGURE_SIZE_MAX + 1, "/tmp/x.png", HL_ERR_INVALID },
+  { 10, 600, "/tmp/x", HL_ERR_INVALID },
+  { 800, HL_FIGURE_SIZE_MAX + 1, "/tmp/x", HL_ERR_INVALID },
   { 800, 600, NULL, HL_ERR_INVALID },
   { 800, 600, "", HL_ERR_INVALID },
   { 800, 600, "/nonexistent-hl-dir/sub/figure", HL_ERR_IO },
@@ -552,12 +553,16 @@ START_TEST (test_figure_errors)
   HlError err;
   for (int svg = 0; svg < 2; svg++)
     {
+      char path[256];
+      const char *p = figure_errors[_i].path;
+      if (p != NULL && p[0] != '\0')
+        {
+          snprintf (path, sizeof path, "%s%s", p, svg ? ".svg" : ".png");
+          p = path;
+        }
       hl_error_clear (&err);
-      HlStatus st = svg
-        ? hl_render_figure_svg (plan, 0, figure_errors[_i].w, figure_errors[_i].h,
-                                figure_errors[_i].path, &err)
-        : hl_render_figure_png (plan, 0, figure_errors[_i].w, figure_errors[_i].h,
-                                figure_errors[_i].path, &err);
+      HlStatus st = hl_figure_save (plan, 0, figure_errors[_i].w, figure_errors[_i].h, p,
+                                    &err);
       ck_assert_int_eq (st, figure_errors[_i].expect);
       ck_assert_int_eq (err.status, figure_errors[_i].expect);
       ck_assert (err.message[0] != '\0');
