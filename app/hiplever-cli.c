@@ -422,7 +422,7 @@ csv_rows (HlBuf *buf, const char *plan_name, const HlPlan *plan,
       hl_buf_csv_field (buf, case_name (plan, i));
       for (size_t c = 0; c < n_cols; c++)
         hl_buf_printf (buf, ",%s",
-                       hl_cli_format_fixed (num, sizeof num, cols[c]->csv_decimals,
+                       hl_format_number (num, sizeof num, cols[c]->csv_decimals,
                                             cols[c]->get (&results[i])));
       hl_flags_format (results[i].flags, ";", flags, sizeof flags);
       hl_buf_append (buf, ",", 1);
@@ -526,7 +526,7 @@ case_width (const HlPlan *plan, const HlResult *results, size_t i,
 
   for (size_t r = 0; r < n_rows; r++)
     {
-      hl_cli_format_fixed (num, sizeof num, rows[r]->decimals,
+      hl_format_number (num, sizeof num, rows[r]->decimals,
                            rows[r]->get (&results[i]));
       if (strlen (num) > width)
         width = strlen (num);
@@ -566,7 +566,7 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
       print_padded (_(rows[r]->label), label_width, false);
       for (size_t i = 0; i < n_cases; i++)
         {
-          hl_cli_format_fixed (num, sizeof num, rows[r]->decimals,
+          hl_format_number (num, sizeof num, rows[r]->decimals,
                                rows[r]->get (&results[i]));
           hl_cli_fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
           print_padded (num, case_width (plan, results, i, rows, n_rows), true);

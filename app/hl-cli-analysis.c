@@ -190,7 +190,7 @@ buf_number (HlBuf *buf, int precision, double v)
 {
   char num[HL_CLI_NUMBER_MAX];
   if (isfinite (v))
-    hl_buf_printf (buf, ",%s", hl_cli_format_fixed (num, sizeof num, precision, v));
+    hl_buf_printf (buf, ",%s", hl_format_number (num, sizeof num, precision, v));
   else
     hl_buf_printf (buf, ",nan");
 }

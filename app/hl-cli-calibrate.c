@@ -238,7 +238,7 @@ cell (char *buf, size_t size, double v)
 {
   if (!isfinite (v))
     return "-";
-  return hl_cli_format_fixed (buf, size, HL_CLI_MEASURE_DECIMALS, v);
+  return hl_format_number (buf, size, HL_CLI_MEASURE_DECIMALS, v);
 }
 
 #define HL_CLI_MEASURE_GAP 2

@@ -103,7 +103,7 @@ hl_cli_resolve_templates (const char *path, HlPlan *plan)
 static const char *
 num (char *buf, double v)
 {
-  hl_cli_format_fixed (buf, HL_CLI_NUMBER_MAX, v == floor (v) ? 0 : 1, v);
+  hl_format_number (buf, HL_CLI_NUMBER_MAX, v == floor (v) ? 0 : 1, v);
   return buf;
 }
 
@@ -184,7 +184,7 @@ csv_number (HlBuf *b, double v)
 {
   char buf[HL_CLI_NUMBER_MAX];
   hl_buf_puts (b, ",");
-  hl_buf_puts (b, hl_cli_format_fixed (buf, sizeof buf, FIT_DECIMALS, v));
+  hl_buf_puts (b, hl_format_number (buf, sizeof buf, FIT_DECIMALS, v));
 }
 
 static void
@@ -242,16 +242,16 @@ fit_text (HlBuf *b, const HlPlan *plan, const HlFitTable *t)
   for (size_t i = 0; i < t->n; i++)
     {
       const HlFitRow *r = &t->rows[i];
-      hl_cli_format_fixed (n[0], sizeof n[0], 1, r->recon.cup_medial_mm);
-      hl_cli_format_fixed (n[1], sizeof n[1], 1, r->recon.cup_superior_mm);
-      hl_cli_format_fixed (n[2], sizeof n[2], 1, r->recon.femoral_offset_mm);
-      hl_cli_format_fixed (n[3], sizeof n[3], 1, r->recon.femoral_length_mm);
-      hl_cli_format_fixed (n[4], sizeof n[4], 1, r->leg_length_residual_mm);
-      hl_cli_format_fixed (n[5], sizeof n[5], 1, r->global_offset_residual_mm);
-      hl_cli_format_fixed (n[6], sizeof n[6], 2, r->result.abductor_force_bw);
-      hl_cli_format_fixed (n[7], sizeof n[7], 2, r->result.jrf_bw);
+      hl_format_number (n[0], sizeof n[0], 1, r->recon.cup_medial_mm);
+      hl_format_number (n[1], sizeof n[1], 1, r->recon.cup_superior_mm);
+      hl_format_number (n[2], sizeof n[2], 1, r->recon.femoral_offset_mm);
+      hl_format_number (n[3], sizeof n[3], 1, r->recon.femoral_length_mm);
+      hl_format_number (n[4], sizeof n[4], 1, r->leg_length_residual_mm);
+      hl_format_number (n[5], sizeof n[5], 1, r->global_offset_residual_mm);
+      hl_format_number (n[6], sizeof n[6], 2, r->result.abductor_force_bw);
+      hl_format_number (n[7], sizeof n[7], 2, r->result.jrf_bw);
       char p95[HL_CLI_NUMBER_MAX];
-      hl_cli_format_fixed (p95, sizeof p95, 2, r->jrf_p95_bw);
+      hl_format_number (p95, sizeof p95, 2, r->jrf_p95_bw);
       hl_buf_printf (b, "%5zu %6g %-14s %5s %-12s %+5g %7s %7s %7s %7s %7s %7s %6s %6s %6s\n",
                      r->rank, r->tmpl.cup_diameter_mm, r->tmpl.liner, r->tmpl.stem_size,
                      r->tmpl.version, r->tmpl.head_length_mm, n[0], n[1], n[2], n[3],

@@ -61,12 +61,6 @@ hl_cli_vsnprintf (char *buf, size_t size, const char *fmt, va_list ap)
   return n;
 }
 
-const char *
-hl_cli_format_fixed (char *buf, size_t size, int precision, double value)
-{
-  return hl_number_fixed (buf, size, precision, value);
-}
-
 /* Returns s past `prefix` and `sep` when s starts with both, else s. */
 static const char *
 skip_prefix (const char *s, const char *prefix, const char *sep)

@@ -46,9 +46,6 @@ int hl_cli_fprintf (FILE *out, const char *fmt, ...)
   __attribute__ ((format (printf, 2, 3)));
 int hl_cli_vsnprintf (char *buf, size_t size, const char *fmt, va_list ap)
   __attribute__ ((format (printf, 3, 0)));
-/* Fixed-point with `precision` decimals; never prints "-0.000". */
-const char *hl_cli_format_fixed (char *buf, size_t size, int precision,
-                                 double value);
 
 /* "hiplever-cli: FILE:LINE: FIELD: MESSAGE" on stderr; the line is left
  * out when the error has none (0), the field when it is empty.  `context`

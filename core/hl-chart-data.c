@@ -407,7 +407,7 @@ csv_number (HlBuf *b, double v, int decimals)
 {
   char num[HL_NUMBER_TEXT_SIZE];
   hl_buf_puts (b, ",");
-  hl_buf_puts (b, hl_number_fixed (num, sizeof num, decimals, v));
+  hl_buf_puts (b, hl_format_number (num, sizeof num, decimals, v));
 }
 
 HlStatus

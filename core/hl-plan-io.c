@@ -3,9 +3,12 @@
  * Copyright 2026 the hiplever developers
  * SPDX-License-Identifier: GPL-3.0-or-later
  *
- * Files are written as text by hand rather than through a libxml2 tree, so
- * that the <plan> element is byte-for-byte the same in a plan file and in a
- * summary: the summary's digest can then be checked against either.
+ * Files are written by libxml2's xmlTextWriter into memory and handed to
+ * hl-file-write.c as bytes; numbers go through hl_format_number (the
+ * shortest text that reads back as the same double, always with a point).
+ * The summary takes the <plan> element's bytes from the plan file's text,
+ * so that it is byte-for-byte the same in both: the summary's digest can
+ * then be checked against either.  Loading goes through hl-xml-load.c.
  */
 #include "config.h"
 
@@ -29,13 +32,13 @@
 #include <libxml/parser.h>
 #include <libxml/tree.h>
 #include <libxml/xmlerror.h>
+#include <libxml/xmlwriter.h>
 
-#include "hl-buf.h"
 #include "hl-i18n.h"
 #include "hl-image.h"
 #include "hl-measure.h"
 #include "hl-plan-io.h"
-#include "hl-plan-scan.h"
+#include "hl-result-fields.h"
 #include "hl-template.h"
 #include "hl-text.h"
 #include "hl-uncertainty.h"
@@ -47,8 +50,6 @@ extern const char hl_schema_data[];
 extern const size_t hl_schema_data_len;
 
 #define HL_NUMBER_TEXT_MAX 40         /* "%.17g" of any double fits */
-#define HL_ROUND_TRIP_DIGITS_MIN 15   /* shortest first, DBL_DECIMAL_DIG last */
-#define HL_ROUND_TRIP_DIGITS_MAX 17
 #define HL_ISO_DATE_MAX 40
 #define HL_QUOTED_VALUE_MAX 40        /* bytes of a bad value quoted in a message */
 /* A value quoted with "%.*s": cut at a whole character, line breaks and
@@ -108,59 +109,7 @@ static const char *const number_attrs[] = {
   "seat-mm", "window-centre", "window-width",
 };
 
-/* ---- Numbers in the C locale ------------------------------------------- */
-
-/* Switches only LC_NUMERIC of this thread to "C": messages stay translated
- * and other threads are not affected. */
-typedef struct {
-  locale_t c;
-  locale_t old;
-} HlCNumeric;
-
-static bool
-c_numeric_enter (HlCNumeric *scope)
-{
-  locale_t base = duplocale (uselocale ((locale_t) 0));
-  if (base == (locale_t) 0)
-    return false;
-  scope->c = newlocale (LC_NUMERIC_MASK, "C", base);
-  if (scope->c == (locale_t) 0)
-    {
-      freelocale (base);
-      return false;
-    }
-  scope->old = uselocale (scope->c);
-  return true;
-}
-
-static void
-c_numeric_leave (HlCNumeric *scope)
-{
-  uselocale (scope->old);
-  freelocale (scope->c);
-}
-
-/* The shortest text that reads back as the same double. */
-static void
-format_number (char out[HL_NUMBER_TEXT_MAX], double v)
-{
-  if (isnan (v))
-    {
-      snprintf (out, HL_NUMBER_TEXT_MAX, "NaN");
-      return;
-    }
-  if (isinf (v))
-    {
-      snprintf (out, HL_NUMBER_TEXT_MAX, "%s", v > 0 ? "INF" : "-INF");
-      return;
-    }
-  for (int digits = HL_ROUND_TRIP_DIGITS_MIN; digits <= HL_ROUND_TRIP_DIGITS_MAX; digits++)
-    {
-      snprintf (out, HL_NUMBER_TEXT_MAX, "%.*g", digits, v);
-      if (strtod (out, NULL) == v)
-        return;
-    }
-}
+/* ---- Numbers (always with a point: GLib's ASCII conversions) ---------- */
 
 typedef enum {
   HL_NUMBER_OK,
@@ -181,7 +130,7 @@ is_digit (char c)
 }
 
 /* Decimal notation only ([+-]digits[.digits][e[+-]digits]): no hex floats,
- * no "nan" or "inf", which strtod alone would accept. */
+ * no "nan" or "inf", which g_ascii_strtod alone would accept. */
 static HlNumberParse
 parse_number (const char *text, double *out)
 {
@@ -234,9 +183,9 @@ parse_number (const char *text, double *out)
   size_t len = (size_t) (end - start);
   if (len >= sizeof buf)
     {
-      /* Very long decimal text: strtod reads it in place, the trailing
+      /* Very long decimal text: g_ascii_strtod reads it in place, the trailing
        * blanks are all it would stop at. */
-      double v = strtod (start, NULL);
+      double v = g_ascii_strtod (start, NULL);
       if (!isfinite (v))
         return HL_NUMBER_NOT_FINITE;
       *out = v;
@@ -244,41 +193,20 @@ parse_number (const char *text, double *out)
     }
   memcpy (buf, start, len);
   buf[len] = '\0';
-  double v = strtod (buf, NULL);
+  double v = g_ascii_strtod (buf, NULL);
   if (!isfinite (v))
     return HL_NUMBER_NOT_FINITE;
   *out = v;
   return HL_NUMBER_OK;
 }
 
-/* ---- A growing text buffer -------------------------------------------- */
-
-/* Escapes for an attribute value (in_attr) or element text.  Tabs and line
- * breaks in attributes, and carriage returns anywhere, are written as
- * character references so that a reader's normalisation keeps them. */
-static void
-buf_escaped (HlBuf *b, const char *s, bool in_attr)
-{
-  for (; *s != '\0'; s++)
-    {
-      switch (*s)
-        {
-        case '&': hl_buf_puts (b, "&amp;"); break;
-        case '<': hl_buf_puts (b, "&lt;"); break;
-        case '>': hl_buf_puts (b, "&gt;"); break;
-        case '"': hl_buf_puts (b, in_attr ? "&quot;" : "\""); break;
-        case '\r': hl_buf_puts (b, "&#13;"); break;
-        case '\n': hl_buf_puts (b, in_attr ? "&#10;" : "\n"); break;
-        case '\t': hl_buf_puts (b, in_attr ? "&#9;" : "\t"); break;
-        default: hl_buf_append (b, s, 1); break;
-        }
-    }
-}
-
 /* ---- Writing ----------------------------------------------------------- */
 
+/* Every file is written by libxml2's xmlTextWriter into memory (escaping,
+ * indentation, the declaration), then handed to hl-file-write.c as bytes
+ * (temporary file, fsync, rename, backup, the old file's mode). */
 typedef struct {
-  HlBuf *b;
+  xmlTextWriterPtr x;
   HlError *err;
   HlStatus status;   /* the first failure; later writes are skipped */
   const char *base_file;  /* the file written: image paths relative to it */
@@ -290,6 +218,52 @@ writer_fail (HlWriter *w, HlStatus status, const char *field, const char *what)
   if (w->status != HL_OK)
     return;
   w->status = hl_error_set (w->err, status, field, _("Cannot write the plan: %s"), what);
+}
+
+/* A libxml2 writer call: a negative result is a failure to write into
+ * memory. */
+static void
+writer_check (HlWriter *w, int rc)
+{
+  if (rc < 0 && w->status == HL_OK)
+    w->status = hl_error_set (w->err, HL_ERR_NOMEM, "",
+                              _("Out of memory while writing the plan"));
+}
+
+static void
+start (HlWriter *w, const char *name)
+{
+  if (w->status == HL_OK)
+    writer_check (w, xmlTextWriterStartElement (w->x, BAD_CAST name));
+}
+
+static void
+end (HlWriter *w)
+{
+  if (w->status == HL_OK)
+    writer_check (w, xmlTextWriterEndElement (w->x));
+}
+
+/* An attribute whose value is ours (a name from a table, a digest). */
+static void
+put_attr (HlWriter *w, const char *attr, const char *value)
+{
+  if (w->status == HL_OK)
+    writer_check (w, xmlTextWriterWriteAttribute (w->x, BAD_CAST attr, BAD_CAST value));
+}
+
+static void
+put_bool (HlWriter *w, const char *attr, bool value)
+{
+  put_attr (w, attr, value ? "true" : "false");
+}
+
+/* Element text (escaped by libxml2). */
+static void
+put_string (HlWriter *w, const char *text)
+{
+  if (w->status == HL_OK)
+    writer_check (w, xmlTextWriterWriteString (w->x, BAD_CAST text));
 }
 
 /* True when `s` (at most `size` bytes) is NUL-terminated, valid UTF-8 and
@@ -338,6 +312,8 @@ text_problem (const char *s, size_t size)
   return NULL;
 }
 
+/* A text attribute from the plan: checked first, so that nothing is
+ * written a reader would refuse. */
 static void
 put_text_attr (HlWriter *w, const char *attr, const char *s, size_t size,
                const char *field)
@@ -352,13 +328,10 @@ put_text_attr (HlWriter *w, const char *attr, const char *s, size_t size,
       writer_fail (w, HL_ERR_INVALID, field, what);
       return;
     }
-  hl_buf_puts (w->b, " ");
-  hl_buf_puts (w->b, attr);
-  hl_buf_puts (w->b, "=\"");
-  buf_escaped (w->b, s, true);
-  hl_buf_puts (w->b, "\"");
+  put_attr (w, attr, s);
 }
 
+/* A number of the plan: finite, at full precision. */
 static void
 put_number (HlWriter *w, const char *attr, double v, const char *field)
 {
@@ -371,25 +344,24 @@ put_number (HlWriter *w, const char *attr, double v, const char *field)
       writer_fail (w, HL_ERR_INVALID, field, what);
       return;
     }
-  char num[HL_NUMBER_TEXT_MAX];
-  format_number (num, v);
-  hl_buf_puts (w->b, " ");
-  hl_buf_puts (w->b, attr);
-  hl_buf_puts (w->b, "=\"");
-  hl_buf_puts (w->b, num);
-  hl_buf_puts (w->b, "\"");
+  char num[HL_NUMBER_TEXT_SIZE];
+  put_attr (w, attr, hl_format_number (num, sizeof num, HL_NUMBER_EXACT, v));
+}
+
+/* A computed number of the summary: NaN and INF written as xs:double has them. */
+static void
+put_result_number (HlWriter *w, const char *attr, double v)
+{
+  char num[HL_NUMBER_TEXT_SIZE];
+  put_attr (w, attr, hl_format_number (num, sizeof num, HL_NUMBER_EXACT, v));
 }
 
 static void
-put_result_number (HlBuf *b, const char *attr, double v)
+put_count (HlWriter *w, const char *attr, uint64_t v)
 {
-  char num[HL_NUMBER_TEXT_MAX];
-  format_number (num, v);
-  hl_buf_puts (b, " ");
-  hl_buf_puts (b, attr);
-  hl_buf_puts (b, "=\"");
-  hl_buf_puts (b, num);
-  hl_buf_puts (b, "\"");
+  char num[32];
+  snprintf (num, sizeof num, "%" PRIu64, v);
+  put_attr (w, attr, num);
 }
 
 static void
@@ -405,34 +377,21 @@ put_enum (HlWriter *w, const char *attr, int value, const char *const *names,
       writer_fail (w, HL_ERR_INVALID, field, what);
       return;
     }
-  hl_buf_puts (w->b, " ");
-  hl_buf_puts (w->b, attr);
-  hl_buf_puts (w->b, "=\"");
-  hl_buf_puts (w->b, names[value]);
-  hl_buf_puts (w->b, "\"");
+  put_attr (w, attr, names[value]);
 }
 
 /* The recorded Monte Carlo settings; the magnification is the calibration's
  * and is not repeated.  hl_plan_check has vetted the numbers. */
 static void
-write_uncertainty (HlBuf *b, const HlMcSettings *mc)
+write_uncertainty (HlWriter *w, const HlMcSettings *mc)
 {
-  char num[HL_NUMBER_TEXT_MAX];
-  char line[160];
-
-  snprintf (line, sizeof line, "  <uncertainty samples=\"%zu\" seed=\"%" PRIu64 "\"",
-            mc->n_samples, mc->seed);
-  hl_buf_puts (b, line);
-  format_number (num, mc->landmark_sd_mm);
-  hl_buf_puts (b, " landmark-sd-mm=\"");
-  hl_buf_puts (b, num);
-  format_number (num, mc->magnification_sd);
-  hl_buf_puts (b, "\" magnification-sd=\"");
-  hl_buf_puts (b, num);
-  format_number (num, mc->line_angle_sd_deg);
-  hl_buf_puts (b, "\" angle-sd-deg=\"");
-  hl_buf_puts (b, num);
-  hl_buf_puts (b, "\"/>\n");
+  start (w, "uncertainty");
+  put_count (w, "samples", mc->n_samples);
+  put_count (w, "seed", mc->seed);
+  put_result_number (w, "landmark-sd-mm", mc->landmark_sd_mm);
+  put_result_number (w, "magnification-sd", mc->magnification_sd);
+  put_result_number (w, "angle-sd-deg", mc->line_angle_sd_deg);
+  end (w);
 }
 
 /* The reference only, never the pixels; the path relative to the file
@@ -449,7 +408,7 @@ write_radiograph (HlWriter *w, const HlRadiograph *rg)
       w->status = st;
       return;
     }
-  hl_buf_puts (w->b, "  <radiograph");
+  start (w, "radiograph");
   put_text_attr (w, "path", path, sizeof path, "radiograph path");
   if (rg->sha256[0] != '\0')
     put_text_attr (w, "sha256", rg->sha256, sizeof rg->sha256, "radiograph sha256");
@@ -464,15 +423,12 @@ write_radiograph (HlWriter *w, const HlRadiograph *rg)
       put_number (w, "window-width", rg->window_width, "radiograph window-width");
     }
   if (rg->spacing_source != HL_SPACING_NONE)
-    {
-      hl_buf_puts (w->b, " spacing-source=\"");
-      hl_buf_puts (w->b, spacing_source_names[rg->spacing_source]);
-      hl_buf_puts (w->b, "\"");
-    }
-  hl_buf_puts (w->b, rg->invert ? " invert=\"true\"" : " invert=\"false\"");
+    put_enum (w, "spacing-source", (int) rg->spacing_source, spacing_source_names,
+              N_NAMES (spacing_source_names), "radiograph spacing-source");
+  put_bool (w, "invert", rg->invert);
   put_number (w, "opacity", rg->opacity, "radiograph opacity");
-  hl_buf_puts (w->b, rg->schematic_visible ? " schematic-visible=\"true\"/>\n"
-                                        : " schematic-visible=\"false\"/>\n");
+  put_bool (w, "schematic-visible", rg->schematic_visible);
+  end (w);
 }
 
 /* A templated option is written with the four numbers its template makes
@@ -497,10 +453,9 @@ option_as_saved (const HlPlan *plan, size_t i, HlOption *fresh)
 static void
 write_template (HlWriter *w, const HlTemplate *t, const char *field)
 {
-  HlBuf *b = w->b;
   char f[HL_ERROR_FIELD_MAX];
   snprintf (f, sizeof f, "%.80s template", field);
-  hl_buf_puts (b, ">\n      <template");
+  start (w, "template");
   put_text_attr (w, "catalogue", t->catalogue, sizeof t->catalogue, f);
   put_text_attr (w, "cup-family", t->cup_family, sizeof t->cup_family, f);
   put_number (w, "cup-diameter-mm", t->cup_diameter_mm, f);
@@ -513,7 +468,7 @@ write_template (HlWriter *w, const HlTemplate *t, const char *field)
   put_text_attr (w, "version", t->version, sizeof t->version, f);
   put_number (w, "seat-mm", t->seat_mm, f);
   put_number (w, "head-length-mm", t->head_length_mm, f);
-  hl_buf_puts (b, "/>\n    </option>\n");
+  end (w);
 }
 
 static void
@@ -521,43 +476,39 @@ write_catalogue_refs (HlWriter *w, const HlPlan *plan)
 {
   if (plan->n_catalogues == 0)
     return;
-  hl_buf_puts (w->b, "  <catalogues>\n");
+  start (w, "catalogues");
   for (size_t i = 0; i < plan->n_catalogues && i < HL_PLAN_CATALOGUES_MAX; i++)
     {
       const HlCatalogueRef *c = &plan->catalogues[i];
-      hl_buf_puts (w->b, "    <catalogue");
+      start (w, "catalogue");
       put_text_attr (w, "id", c->id, sizeof c->id, "catalogue");
       put_text_attr (w, "version", c->version, sizeof c->version, "catalogue");
       put_text_attr (w, "sha256", c->sha256, sizeof c->sha256, "catalogue");
-      hl_buf_puts (w->b, "/>\n");
+      end (w);
     }
-  hl_buf_puts (w->b, "  </catalogues>\n");
+  end (w);
 }
 
 static void
 write_plan_element (HlWriter *w, const HlPlan *plan)
 {
-  HlBuf *b = w->b;
-  char line[128];
+  start (w, "plan");
+  put_attr (w, "xmlns", HL_PLAN_NAMESPACE);
+  put_count (w, "format-version", HL_PLAN_FORMAT_VERSION);
 
-  snprintf (line, sizeof line, "<plan xmlns=\"%s\" format-version=\"%d\">\n",
-            HL_PLAN_NAMESPACE, HL_PLAN_FORMAT_VERSION);
-  hl_buf_puts (b, line);
-
-  hl_buf_puts (b, "  <case");
+  start (w, "case");
   put_text_attr (w, "label", plan->label, sizeof plan->label, "case label");
   put_number (w, "mass-kg", plan->mass_kg, "patient mass");
   put_enum (w, "operated-side", (int) plan->side, side_names, N_NAMES (side_names),
             "operated side");
-  hl_buf_puts (b, "/>\n");
+  end (w);
 
   const HlLimbTableInfo *limb = hl_limb_table_info (plan->model.limb_table);
   if (limb == NULL)
     writer_fail (w, HL_ERR_INVALID, "model limb-table",
                  _("the stance-limb mass table is unknown"));
-  hl_buf_puts (b, "  <model limb-table=\"");
-  hl_buf_puts (b, limb ? limb->key : "");
-  hl_buf_puts (b, "\"");
+  start (w, "model");
+  put_attr (w, "limb-table", limb ? limb->key : "");
   put_number (w, "limb-fraction", plan->model.limb_fraction_custom, "model limb-fraction");
   put_enum (w, "body-weight-line", (int) plan->model.bw_line, bw_line_names,
             N_NAMES (bw_line_names), "model body-weight-line");
@@ -566,9 +517,9 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
   put_number (w, "abductor-angle-deg", plan->model.abductor_angle_deg,
               "model abductor-angle");
   put_number (w, "lean-mm", plan->model.lean_mm, "model lean");
-  hl_buf_puts (b, "/>\n");
+  end (w);
 
-  hl_buf_puts (b, "  <landmarks>\n");
+  start (w, "landmarks");
   for (int i = 0; i < HL_LM_COUNT; i++)
     {
       if (!hl_landmarks_has (&plan->landmarks, (HlLandmarkId) i))
@@ -576,17 +527,16 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
       const HlLandmarkInfo *info = hl_landmark_info ((HlLandmarkId) i);
       char field[HL_ERROR_FIELD_MAX];
       snprintf (field, sizeof field, "landmark %s", info->key);
-      hl_buf_puts (b, "    <landmark name=\"");
-      hl_buf_puts (b, info->key);
-      hl_buf_puts (b, "\"");
+      start (w, "landmark");
+      put_attr (w, "name", info->key);
       put_number (w, "x-mm", plan->landmarks.p[i].x, field);
       put_number (w, "y-mm", plan->landmarks.p[i].y, field);
-      hl_buf_puts (b, "/>\n");
+      end (w);
     }
-  hl_buf_puts (b, "  </landmarks>\n");
+  end (w);
 
   const HlCalibration *cal = &plan->calibration;
-  hl_buf_puts (b, "  <calibration");
+  start (w, "calibration");
   put_enum (w, "method", (int) cal->method, cal_method_names,
             N_NAMES (cal_method_names), "calibration method");
   /* A marker or two-point calibration records the magnification its points
@@ -603,84 +553,73 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
   if (cal->n_points < 0 || cal->n_points > 3)
     writer_fail (w, HL_ERR_INVALID, "calibration points",
                  _("the number of calibration points is not between 0 and 3"));
-  if (cal->n_points <= 0)
-    hl_buf_puts (b, "/>\n");
-  else
+  for (int i = 0; i < cal->n_points && i < 3; i++)
     {
-      hl_buf_puts (b, ">\n");
-      for (int i = 0; i < cal->n_points && i < 3; i++)
-        {
-          hl_buf_puts (b, "    <point");
-          put_number (w, "x-mm", cal->points[i].x, "calibration point");
-          put_number (w, "y-mm", cal->points[i].y, "calibration point");
-          hl_buf_puts (b, "/>\n");
-        }
-      hl_buf_puts (b, "  </calibration>\n");
+      start (w, "point");
+      put_number (w, "x-mm", cal->points[i].x, "calibration point");
+      put_number (w, "y-mm", cal->points[i].y, "calibration point");
+      end (w);
     }
+  end (w);
   write_radiograph (w, &plan->radiograph);
 
-  hl_buf_puts (b, "  <aids>\n    <cane enabled=\"");
-  hl_buf_puts (b, plan->cane.enabled ? "true" : "false");
-  hl_buf_puts (b, "\"");
+  start (w, "aids");
+  start (w, "cane");
+  put_bool (w, "enabled", plan->cane.enabled);
   put_enum (w, "hand", (int) plan->cane.hand, hand_names, N_NAMES (hand_names),
             "cane hand");
   put_enum (w, "unit", (int) plan->cane.unit, force_unit_names,
             N_NAMES (force_unit_names), "cane unit");
   put_number (w, "value", plan->cane.value, "cane force");
   put_number (w, "distance-mm", plan->cane.distance_mm, "cane distance");
-  hl_buf_puts (b, "/>\n");
+  end (w);
   for (int h = 0; h < 2; h++)
     {
       const char *field = h == HL_HAND_CONTRALATERAL ? "load contralateral"
                                                      : "load ipsilateral";
-      hl_buf_puts (b, "    <hand-load hand=\"");
-      hl_buf_puts (b, hand_names[h]);
-      hl_buf_puts (b, "\"");
+      start (w, "hand-load");
+      put_attr (w, "hand", hand_names[h]);
       put_number (w, "mass-kg", plan->loads.hand[h].mass_kg, field);
       put_number (w, "distance-mm", plan->loads.hand[h].distance_mm, field);
-      hl_buf_puts (b, "/>\n");
+      end (w);
     }
-  hl_buf_puts (b, "    <midline-load");
+  start (w, "midline-load");
   put_number (w, "mass-kg", plan->loads.midline_kg, "load midline");
-  hl_buf_puts (b, "/>\n  </aids>\n");
+  end (w);
+  end (w);
 
-  hl_buf_puts (b, "  <tolerances");
+  start (w, "tolerances");
   put_number (w, "global-offset-drop-mm", plan->tol.global_offset_drop_mm,
               "tolerance global-offset");
   put_number (w, "leg-length-mm", plan->tol.leg_length_mm, "tolerance leg-length");
   put_number (w, "abductor-slack-mm", plan->tol.abductor_slack_mm,
               "tolerance abductor-slack");
-  hl_buf_puts (b, "/>\n  <capacity");
+  end (w);
+  start (w, "capacity");
   put_number (w, "torque-nm-per-kg", plan->capacity.torque_nm_per_kg, "capacity torque");
-  hl_buf_puts (b, "/>\n");
-  write_uncertainty (b, &plan->uncertainty);
+  end (w);
+  write_uncertainty (w, &plan->uncertainty);
 
-  if (plan->n_options == 0)
-    hl_buf_puts (b, "  <options/>\n");
-  else
+  start (w, "options");
+  for (size_t i = 0; i < plan->n_options; i++)
     {
-      hl_buf_puts (b, "  <options>\n");
-      for (size_t i = 0; i < plan->n_options; i++)
-        {
-          HlOption fresh;
-          const HlOption *o = option_as_saved (plan, i, &fresh);
-          char field[HL_ERROR_FIELD_MAX];
-          snprintf (field, sizeof field, "option %zu", i + 1);
-          hl_buf_puts (b, "    <option");
-          put_text_attr (w, "name", o->name, sizeof o->name, field);
-          put_number (w, "cup-medial-mm", o->recon.cup_medial_mm, field);
-          put_number (w, "cup-superior-mm", o->recon.cup_superior_mm, field);
-          put_number (w, "femoral-offset-mm", o->recon.femoral_offset_mm, field);
-          put_number (w, "femoral-length-mm", o->recon.femoral_length_mm, field);
-          put_number (w, "head-length-mm", o->recon.head_length_mm, field);
-          put_number (w, "neck-shaft-angle-deg", o->recon.neck_shaft_angle_deg, field);
-          if (o->recon.tmpl.on)
-            write_template (w, &o->recon.tmpl, field);
-          else
-            hl_buf_puts (b, "/>\n");
-        }
-      hl_buf_puts (b, "  </options>\n");
+      HlOption fresh;
+      const HlOption *o = option_as_saved (plan, i, &fresh);
+      char field[HL_ERROR_FIELD_MAX];
+      snprintf (field, sizeof field, "option %zu", i + 1);
+      start (w, "option");
+      put_text_attr (w, "name", o->name, sizeof o->name, field);
+      put_number (w, "cup-medial-mm", o->recon.cup_medial_mm, field);
+      put_number (w, "cup-superior-mm", o->recon.cup_superior_mm, field);
+      put_number (w, "femoral-offset-mm", o->recon.femoral_offset_mm, field);
+      put_number (w, "femoral-length-mm", o->recon.femoral_length_mm, field);
+      put_number (w, "head-length-mm", o->recon.head_length_mm, field);
+      put_number (w, "neck-shaft-angle-deg", o->recon.neck_shaft_angle_deg, field);
+      if (o->recon.tmpl.on)
+        write_template (w, &o->recon.tmpl, field);
+      end (w);
     }
+  end (w);
   write_catalogue_refs (w, plan);
 
   const char *problem = text_problem (plan->notes, sizeof plan->notes);
@@ -690,13 +629,10 @@ write_plan_element (HlWriter *w, const HlPlan *plan)
       snprintf (what, sizeof what, "notes: %s", _(problem));
       writer_fail (w, HL_ERR_INVALID, "notes", what);
     }
-  else
-    {
-      hl_buf_puts (b, "  <notes>");
-      buf_escaped (b, plan->notes, false);
-      hl_buf_puts (b, "</notes>\n");
-    }
-  hl_buf_puts (b, "</plan>\n");
+  start (w, "notes");
+  put_string (w, plan->notes);
+  end (w);
+  end (w);
 }
 
 /* Runs the range checks a reader applies, so that nothing is written that
@@ -713,19 +649,56 @@ check_for_writing (const HlPlan *plan, HlError *err)
   return HL_OK;
 }
 
-static HlStatus
-finish_buffer (HlBuf *b, HlStatus st, char **out, size_t *size, HlError *err)
+/* A writer into memory, indented by two spaces, the XML declaration
+ * written (UTF-8). */
+static xmlTextWriterPtr
+writer_new (xmlBufferPtr *buffer)
 {
-  if (st == HL_OK && b->failed)
-    st = hl_error_set (err, HL_ERR_NOMEM, "", _("Out of memory while writing the plan"));
-  if (st != HL_OK)
+  *buffer = xmlBufferCreate ();
+  xmlTextWriterPtr x = *buffer != NULL ? xmlNewTextWriterMemory (*buffer, 0) : NULL;
+  if (x != NULL && (xmlTextWriterSetIndent (x, 1) < 0
+                    || xmlTextWriterSetIndentString (x, BAD_CAST "  ") < 0
+                    || xmlTextWriterStartDocument (x, "1.0", "UTF-8", NULL) < 0))
     {
-      hl_buf_clear (b);
-      return st;
+      xmlFreeTextWriter (x);
+      x = NULL;
     }
-  *out = b->data;
+  if (x == NULL)
+    {
+      xmlBufferFree (*buffer);
+      *buffer = NULL;
+    }
+  return x;
+}
+
+/* Ends the document and hands its bytes over as malloc'd text. */
+static HlStatus
+writer_finish (HlWriter *w, xmlBufferPtr buffer, char **out, size_t *size)
+{
+  if (w->status == HL_OK)
+    writer_check (w, xmlTextWriterEndDocument (w->x));
+  xmlFreeTextWriter (w->x);   /* flushes into buffer */
+  w->x = NULL;
+  char *text = NULL;
+  size_t len = 0;
+  if (w->status == HL_OK)
+    {
+      len = (size_t) xmlBufferLength (buffer);
+      text = malloc (len + 1);
+      if (text == NULL)
+        writer_check (w, -1);
+      else
+        {
+          memcpy (text, xmlBufferContent (buffer), len);
+          text[len] = '\0';
+        }
+    }
+  xmlBufferFree (buffer);
+  if (w->status != HL_OK)
+    return w->status;
+  *out = text;
   if (size != NULL)
-    *size = b->len;
+    *size = len;
   return HL_OK;
 }
 
@@ -737,16 +710,12 @@ plan_to_buffer_for (const HlPlan *plan, const char *base_file, char **out,
   if (st != HL_OK)
     return st;
 
-  HlCNumeric scope;
-  if (!c_numeric_enter (&scope))
-    return hl_error_set (err, HL_ERR_NOMEM, "", _("Cannot set up the C locale for numbers"));
-
-  HlBuf b = { 0 };
-  HlWriter w = { &b, err, HL_OK, base_file };
-  hl_buf_puts (&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
+  xmlBufferPtr buffer;
+  HlWriter w = { writer_new (&buffer), err, HL_OK, base_file };
+  if (w.x == NULL)
+    return hl_error_set (err, HL_ERR_NOMEM, "", _("Out of memory while writing the plan"));
   write_plan_element (&w, plan);
-  c_numeric_leave (&scope);
-  return finish_buffer (&b, w.status, out, size, err);
+  return writer_finish (&w, buffer, out, size);
 }
 
 HlStatus
@@ -793,17 +762,14 @@ iso_date_valid (const char *s)
 
 /* A measure only when its landmarks are placed. */
 static bool
-put_measure (HlBuf *b, const char *attr, double v)
+measure_known (double v)
 {
-  if (!isfinite (v))
-    return false;
-  put_result_number (b, attr, v);
-  return true;
+  return isfinite (v);
 }
 
 /* <measures> of one result's landmarks; nothing when none can be taken. */
 static void
-write_measures (HlBuf *b, const HlPlan *plan, const HlRecon *recon)
+write_measures (HlWriter *w, const HlPlan *plan, const HlRecon *recon)
 {
   HlLandmarks lm;
   HlMeasures ms;
@@ -813,60 +779,64 @@ write_measures (HlBuf *b, const HlPlan *plan, const HlRecon *recon)
     hl_recon_landmarks (plan, recon, &lm);
   hl_measure (&lm, plan->side, &ms);
 
-  HlBuf attrs = { 0 };
-  bool any = false;
+  struct { char name[64]; double v; } values[16];
+  size_t n = 0;
   const struct { const char *prefix; const HlSideMeasures *m; } sides[] = {
     { "", &ms.operated }, { "other-", &ms.other },
   };
   for (size_t i = 0; i < 2; i++)
     {
-      char name[64];
       const HlSideMeasures *m = sides[i].m;
-      const struct { const char *key; double v; } values[] = {
+      const struct { const char *key; double v; } side_values[] = {
         { "acetabular-offset-mm", m->acetabular_offset_mm },
         { "femoral-offset-mm", m->femoral_offset_mm },
         { "global-offset-mm", m->global_offset_mm },
         { "hip-centre-height-mm", m->hip_centre_height_mm },
         { "leg-length-mm", m->leg_length_mm },
       };
-      for (size_t k = 0; k < sizeof values / sizeof values[0]; k++)
-        {
-          snprintf (name, sizeof name, "%s%s", sides[i].prefix, values[k].key);
-          any |= put_measure (&attrs, name, values[k].v);
-        }
+      for (size_t k = 0; k < sizeof side_values / sizeof side_values[0]; k++)
+        if (measure_known (side_values[k].v))
+          {
+            snprintf (values[n].name, sizeof values[n].name, "%s%s", sides[i].prefix,
+                      side_values[k].key);
+            values[n++].v = side_values[k].v;
+          }
     }
-  any |= put_measure (&attrs, "leg-length-difference-mm", ms.leg_length_difference_mm);
-  any |= put_measure (&attrs, "global-offset-difference-mm", ms.global_offset_difference_mm);
-  any |= put_measure (&attrs, "femoral-offset-difference-mm", ms.femoral_offset_difference_mm);
-  any |= put_measure (&attrs, "acetabular-offset-difference-mm",
-                      ms.acetabular_offset_difference_mm);
-  any |= put_measure (&attrs, "hip-centre-height-difference-mm",
-                      ms.hip_centre_height_difference_mm);
-  if (any)
+  const struct { const char *key; double v; } differences[] = {
+    { "leg-length-difference-mm", ms.leg_length_difference_mm },
+    { "global-offset-difference-mm", ms.global_offset_difference_mm },
+    { "femoral-offset-difference-mm", ms.femoral_offset_difference_mm },
+    { "acetabular-offset-difference-mm", ms.acetabular_offset_difference_mm },
+    { "hip-centre-height-difference-mm", ms.hip_centre_height_difference_mm },
+  };
+  for (size_t k = 0; k < sizeof differences / sizeof differences[0]; k++)
+    if (measure_known (differences[k].v))
+      {
+        snprintf (values[n].name, sizeof values[n].name, "%s", differences[k].key);
+        values[n++].v = differences[k].v;
+      }
+  if (n == 0)
+    return;
+
+  start (w, "measures");
+  for (size_t k = 0; k < n; k++)
+    put_result_number (w, values[k].name, values[k].v);
+  double m;
+  bool assumed;
+  if (hl_calibration_magnification (&plan->calibration, &m, &assumed, NULL) == HL_OK)
     {
-      double m;
-      bool assumed;
-      hl_buf_puts (b, "    <measures");
-      hl_buf_append (b, attrs.data, attrs.len);
-      if (hl_calibration_magnification (&plan->calibration, &m, &assumed, NULL) == HL_OK)
-        {
-          put_result_number (b, "magnification", m);
-          hl_buf_puts (b, assumed ? " magnification-assumed=\"true\""
-                               : " magnification-assumed=\"false\"");
-        }
-      hl_buf_puts (b, ms.side_contradiction ? " side-contradiction=\"true\"/>\n"
-                                         : " side-contradiction=\"false\"/>\n");
+      put_result_number (w, "magnification", m);
+      put_bool (w, "magnification-assumed", assumed);
     }
-  if (attrs.failed)
-    b->failed = true;
-  hl_buf_clear (&attrs);
+  put_bool (w, "side-contradiction", ms.side_contradiction);
+  end (w);
 }
 
 /* The implants of a templated option and the four numbers they make
  * (derived="now" from the resolved template, "saved" while the catalogue
  * is missing or changed). */
 static void
-write_implants (HlBuf *b, const HlPlan *plan, size_t index)
+write_implants (HlWriter *w, const HlPlan *plan, size_t index)
 {
   HlOption fresh;
   const HlOption *o = option_as_saved (plan, index, &fresh);
@@ -876,114 +846,106 @@ write_implants (HlBuf *b, const HlPlan *plan, size_t index)
     { "liner", t->liner }, { "stem-family", t->stem_family },
     { "stem-size", t->stem_size }, { "version", t->version },
   };
-  hl_buf_puts (b, "    <implants");
+  start (w, "implants");
   for (size_t i = 0; i < sizeof texts / sizeof texts[0]; i++)
-    {
-      hl_buf_puts (b, " ");
-      hl_buf_puts (b, texts[i].attr);
-      hl_buf_puts (b, "=\"");
-      buf_escaped (b, texts[i].v, true);
-      hl_buf_puts (b, "\"");
-    }
-  put_result_number (b, "cup-diameter-mm", t->cup_diameter_mm);
-  put_result_number (b, "inclination-deg", t->inclination_deg);
-  put_result_number (b, "seat-mm", t->seat_mm);
-  put_result_number (b, "head-length-mm", t->head_length_mm);
-  put_result_number (b, "cup-medial-mm", o->recon.cup_medial_mm);
-  put_result_number (b, "cup-superior-mm", o->recon.cup_superior_mm);
-  put_result_number (b, "femoral-offset-mm", o->recon.femoral_offset_mm);
-  put_result_number (b, "femoral-length-mm", o->recon.femoral_length_mm);
+    put_attr (w, texts[i].attr, texts[i].v);
+  put_result_number (w, "cup-diameter-mm", t->cup_diameter_mm);
+  put_result_number (w, "inclination-deg", t->inclination_deg);
+  put_result_number (w, "seat-mm", t->seat_mm);
+  put_result_number (w, "head-length-mm", t->head_length_mm);
+  put_result_number (w, "cup-medial-mm", o->recon.cup_medial_mm);
+  put_result_number (w, "cup-superior-mm", o->recon.cup_superior_mm);
+  put_result_number (w, "femoral-offset-mm", o->recon.femoral_offset_mm);
+  put_result_number (w, "femoral-length-mm", o->recon.femoral_length_mm);
   /* where the seat is measured from (templating.md section 2) */
   HlTemplateFrame f;
   hl_template_frame (&plan->landmarks, plan->side, &f);
-  hl_buf_puts (b, f.t_from_hip_centre ? " seat-from=\"hip-centre\""
-                                      : " seat-from=\"lesser-trochanter\"");
-  hl_buf_puts (b, t->resolved ? " derived=\"now\"/>\n" : " derived=\"saved\"/>\n");
+  put_attr (w, "seat-from", f.t_from_hip_centre ? "hip-centre" : "lesser-trochanter");
+  put_attr (w, "derived", t->resolved ? "now" : "saved");
+  end (w);
+}
+
+/* The explanation of an implausible result, printf'd by hl-solve.c in the
+ * thread's locale: in a machine file its numbers too have a point, so it
+ * is made with only this thread's LC_NUMERIC switched to "C" (messages
+ * stay translated, other threads are not affected). */
+static void
+implausible_text_c_numeric (const HlResult *r, char *why, size_t size)
+{
+  locale_t base = duplocale (uselocale ((locale_t) 0));
+  locale_t c = base != (locale_t) 0 ? newlocale (LC_NUMERIC_MASK, "C", base) : (locale_t) 0;
+  if (c == (locale_t) 0 && base != (locale_t) 0)
+    freelocale (base);
+  locale_t old = c != (locale_t) 0 ? uselocale (c) : (locale_t) 0;
+  hl_implausible_describe_all (r, " ", why, size);
+  if (c != (locale_t) 0)
+    {
+      uselocale (old);
+      freelocale (c);
+    }
 }
 
 static void
-write_result (HlBuf *b, const HlResult *r, const HlMcSummary *mc, long index,
+write_result (HlWriter *w, const HlResult *r, const HlMcSummary *mc, long index,
               const char *name, const HlPlan *plan)
 {
+  start (w, "result");
   if (index < 0)
-    hl_buf_puts (b, "  <result kind=\"native\"");
+    put_attr (w, "kind", "native");
   else
     {
-      char num[32];
-      snprintf (num, sizeof num, "%ld", index);
-      hl_buf_puts (b, "  <result kind=\"option\" option-index=\"");
-      hl_buf_puts (b, num);
-      hl_buf_puts (b, "\" option-name=\"");
-      buf_escaped (b, name, true);
-      hl_buf_puts (b, "\"");
+      put_attr (w, "kind", "option");
+      put_count (w, "option-index", (uint64_t) index);
+      put_attr (w, "option-name", name);
     }
-  put_result_number (b, "abductor-arm-mm", r->abductor_arm_mm);
-  put_result_number (b, "body-weight-arm-mm", r->bw_arm_mm);
-  put_result_number (b, "lever-ratio", r->lever_ratio);
-  put_result_number (b, "abductor-force-n", r->abductor_force_n);
-  put_result_number (b, "abductor-force-bw", r->abductor_force_bw);
-  put_result_number (b, "joint-force-x-n", r->jrf_x_n);
-  put_result_number (b, "joint-force-y-n", r->jrf_y_n);
-  put_result_number (b, "joint-force-n", r->jrf_n);
-  put_result_number (b, "joint-force-bw", r->jrf_bw);
-  put_result_number (b, "joint-force-angle-deg", hl_result_jrf_angle_deg (r));
-  hl_buf_puts (b, " joint-force-sense=\"");
-  buf_escaped (b, hl_result_jrf_sense (r), true);
-  hl_buf_puts (b, "\"");
-  put_result_number (b, "external-moment-nmm", r->moment_ext_nmm);
-  put_result_number (b, "unbalanced-moment-nmm", r->unbalanced_nmm);
-  put_result_number (b, "weight-line-x-mm", r->x_s_mm);
-  put_result_number (b, "demand", r->demand);
-  put_result_number (b, "leg-length-change-mm", r->leg_length_change_mm);
-  put_result_number (b, "femoral-offset-change-mm", r->femoral_offset_change_mm);
-  put_result_number (b, "acetabular-offset-change-mm", r->acetabular_offset_change_mm);
-  put_result_number (b, "global-offset-change-mm", r->global_offset_change_mm);
-  put_result_number (b, "abductor-length-change-mm", r->abductor_length_change_mm);
+  const HlResultField *fields[HL_RESULT_FIELD_MAX];
+  size_t n_fields = hl_result_fields_summary (fields);
+  for (size_t k = 0; k < n_fields; k++)
+    {
+      put_result_number (w, fields[k]->xml, fields[k]->get (r));
+      /* the sense of the joint force follows its angle */
+      if (strcmp (fields[k]->xml, "joint-force-angle-deg") == 0)
+        put_attr (w, "joint-force-sense", hl_result_jrf_sense (r));
+    }
   if (mc != NULL)     /* NULL: the ranges were not computed (a <refusal> says why) */
     {
-      put_result_number (b, "jrf-bw-p05", mc->jrf_bw.p05);
-      put_result_number (b, "jrf-bw-p50", mc->jrf_bw.p50);
-      put_result_number (b, "jrf-bw-p95", mc->jrf_bw.p95);
-      put_result_number (b, "abductor-force-bw-p05", mc->abductor_force_bw.p05);
-      put_result_number (b, "abductor-force-bw-p50", mc->abductor_force_bw.p50);
-      put_result_number (b, "abductor-force-bw-p95", mc->abductor_force_bw.p95);
+      put_result_number (w, "jrf-bw-p05", mc->jrf_bw.p05);
+      put_result_number (w, "jrf-bw-p50", mc->jrf_bw.p50);
+      put_result_number (w, "jrf-bw-p95", mc->jrf_bw.p95);
+      put_result_number (w, "abductor-force-bw-p05", mc->abductor_force_bw.p05);
+      put_result_number (w, "abductor-force-bw-p50", mc->abductor_force_bw.p50);
+      put_result_number (w, "abductor-force-bw-p95", mc->abductor_force_bw.p95);
       if (index >= 0)
-        put_result_number (b, "share-lower-than-native", mc->share_lower_jrf);
+        put_result_number (w, "share-lower-than-native", mc->share_lower_jrf);
     }
 
-  hl_buf_puts (b, " flags=\"");
-  bool first = true;
+  GString *flags = g_string_new (NULL);
   for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
     if (r->flags & bit)
-      {
-        if (!first)
-          hl_buf_puts (b, " ");
-        hl_buf_puts (b, hl_flag_key ((HlFlag) bit));
-        first = false;
-      }
-  hl_buf_puts (b, "\"");
+      g_string_append_printf (flags, "%s%s", flags->len > 0 ? " " : "",
+                              hl_flag_key ((HlFlag) bit));
+  put_attr (w, "flags", flags->str);
+  g_string_free (flags, TRUE);
 
-  hl_buf_puts (b, ">\n");
   for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
     if (r->flags & bit)
       {
-        hl_buf_puts (b, "    <flag key=\"");
-        hl_buf_puts (b, hl_flag_key ((HlFlag) bit));
-        hl_buf_puts (b, "\">");
-        buf_escaped (b, hl_flag_text ((HlFlag) bit), false);
+        start (w, "flag");
+        put_attr (w, "key", hl_flag_key ((HlFlag) bit));
+        put_string (w, hl_flag_text ((HlFlag) bit));
         if (bit == HL_FLAG_IMPLAUSIBLE)
           {
             char why[4 * HL_ERROR_MESSAGE_MAX];
-            hl_implausible_describe_all (r, " ", why, sizeof why);
-            hl_buf_puts (b, " ");
-            buf_escaped (b, why, false);
+            implausible_text_c_numeric (r, why, sizeof why);
+            put_string (w, " ");
+            put_string (w, why);
           }
-        hl_buf_puts (b, "</flag>\n");
+        end (w);
       }
   if (index >= 0 && plan->options[index].recon.tmpl.on)
-    write_implants (b, plan, (size_t) index);
-  write_measures (b, plan, index < 0 ? NULL : &plan->options[index].recon);
-  hl_buf_puts (b, "  </result>\n");
+    write_implants (w, plan, (size_t) index);
+  write_measures (w, plan, index < 0 ? NULL : &plan->options[index].recon);
+  end (w);
 }
 
 /* What a summary shows: native and each option solved on its own, a
@@ -1150,47 +1112,34 @@ summary_first_refusal (const HlPlan *plan, const HlSummaryData *d, HlError *err)
 
 /* <refusal>: what could not be solved, in place of its numbers. */
 static void
-write_refusal (HlBuf *b, const char *kind, long index, const char *name,
+write_refusal (HlWriter *w, const char *kind, long index, const char *name,
                const HlError *e)
 {
-  hl_buf_puts (b, "  <refusal kind=\"");
-  hl_buf_puts (b, kind);
-  hl_buf_puts (b, "\"");
+  start (w, "refusal");
+  put_attr (w, "kind", kind);
   if (index >= 0)
     {
-      char num[32];
-      snprintf (num, sizeof num, "%ld", index);
-      hl_buf_puts (b, " option-index=\"");
-      hl_buf_puts (b, num);
-      hl_buf_puts (b, "\" option-name=\"");
-      buf_escaped (b, name, true);
-      hl_buf_puts (b, "\"");
+      put_count (w, "option-index", (uint64_t) index);
+      put_attr (w, "option-name", name);
     }
   if (e->field[0] != '\0')
     {
-      hl_buf_puts (b, " field=\"");
-      buf_escaped (b, e->field, true);
-      hl_buf_puts (b, "\"");
+      put_attr (w, "field", e->field);
       /* "landmark KEY": the landmark on its own too */
       const char *lm = strncmp (e->field, "landmark ", 9) == 0 ? e->field + 9 : NULL;
       if (lm != NULL && hl_landmark_from_key (lm) != HL_LM_COUNT)
-        {
-          hl_buf_puts (b, " landmark=\"");
-          hl_buf_puts (b, lm);
-          hl_buf_puts (b, "\"");
-        }
+        put_attr (w, "landmark", lm);
     }
-  hl_buf_puts (b, ">");
-  buf_escaped (b, e->message, false);
-  hl_buf_puts (b, "</refusal>\n");
+  put_string (w, e->message);
+  end (w);
 }
 
 static void
-write_results (HlBuf *b, const HlPlan *plan, const HlSummaryData *d)
+write_results (HlWriter *w, const HlPlan *plan, const HlSummaryData *d)
 {
-  hl_buf_puts (b, "<results>\n");
+  start (w, "results");
   if (d->prepare.status != HL_OK)
-    write_refusal (b, "plan", -1, NULL, &d->prepare);
+    write_refusal (w, "plan", -1, NULL, &d->prepare);
   else
     {
       for (size_t i = 0; i <= plan->n_options; i++)
@@ -1198,16 +1147,16 @@ write_results (HlBuf *b, const HlPlan *plan, const HlSummaryData *d)
           long index = (long) i - 1;
           const char *name = i == 0 ? NULL : plan->options[i - 1].name;
           if (d->row_errors[i].status != HL_OK)
-            write_refusal (b, i == 0 ? "native" : "option", index, name,
+            write_refusal (w, i == 0 ? "native" : "option", index, name,
                            &d->row_errors[i]);
           else
-            write_result (b, &d->results[i], d->mc != NULL ? &d->mc[i] : NULL, index,
+            write_result (w, &d->results[i], d->mc != NULL ? &d->mc[i] : NULL, index,
                           name, plan);
         }
       if (d->mc == NULL)
-        write_refusal (b, "uncertainty", -1, NULL, &d->mc_error);
+        write_refusal (w, "uncertainty", -1, NULL, &d->mc_error);
     }
-  hl_buf_puts (b, "</results>\n");
+  end (w);
 }
 
 /* solved_only: a plan whose summary would carry a refusal is refused with
@@ -1255,60 +1204,60 @@ summary_to_buffer_for (const HlPlan *plan, const char *date_iso, const char *bas
       return refusal.status;
     }
 
-  HlCNumeric scope;
-  if (!c_numeric_enter (&scope))
+  /* The <plan> element as the plan file has it, byte for byte: its digest
+   * can be checked against either. */
+  char *plan_text = NULL;
+  size_t plan_len = 0;
+  st = plan_to_buffer_for (plan, base_file, &plan_text, &plan_len, err);
+  if (st != HL_OK)
     {
       summary_data_clear (&d);
-      return hl_error_set (err, HL_ERR_NOMEM, "", _("Cannot set up the C locale for numbers"));
+      return st;
     }
-
-  HlBuf plan_text = { 0 };
-  HlWriter w = { &plan_text, err, HL_OK, base_file };
-  write_plan_element (&w, plan);
-
-  HlBuf b = { 0 };
+  const char *element = strstr (plan_text, "<plan ");
+  size_t element_len = element != NULL ? plan_len - (size_t) (element - plan_text) : 0;
+  /* The digest covers "<plan " to "</plan>" without the final newline. */
+  while (element_len > 0 && element[element_len - 1] == '\n')
+    element_len--;
   char hex[HL_SHA256_HEX_SIZE];
-  char line[160];
-  if (w.status == HL_OK && !plan_text.failed)
-    {
-      /* The digest covers "<plan " to "</plan>" without the final newline. */
-      hl_sha256_hex (plan_text.data, plan_text.len - 1, hex);
+  hl_sha256_hex (element != NULL ? element : "", element_len, hex);
 
-      hl_buf_puts (&b, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
-      snprintf (line, sizeof line,
-                "<planning-summary xmlns=\"%s\" format-version=\"%d\">\n",
-                HL_PLAN_NAMESPACE, HL_PLAN_FORMAT_VERSION);
-      hl_buf_puts (&b, line);
-      hl_buf_puts (&b, "<caution>");
-      buf_escaped (&b, hl_caution_text (), false);
-      hl_buf_puts (&b, "</caution>\n<provenance program-version=\"");
-      buf_escaped (&b, hl_program_version (), true);
-      hl_buf_puts (&b, "\" model-version=\"");
-      buf_escaped (&b, HL_MODEL_VERSION, true);
-      hl_buf_puts (&b, "\" created=\"");
-      hl_buf_puts (&b, date_iso);
-      hl_buf_puts (&b, "\" plan-sha256=\"");
-      hl_buf_puts (&b, hex);
-      hl_buf_puts (&b, "\"");
-      if (d.mc != NULL)
-        {
-          snprintf (line, sizeof line,
-                    " uncertainty-seed=\"%" PRIu64 "\" uncertainty-samples-used=\"%zu\""
-                    " uncertainty-samples-dropped=\"%zu\"",
-                    d.mc_info.seed, d.mc_info.n_used, d.mc_info.n_dropped);
-          hl_buf_puts (&b, line);
-        }
-      hl_buf_puts (&b, "/>\n");
-      hl_buf_append (&b, plan_text.data, plan_text.len);
-      write_results (&b, plan, &d);
-      hl_buf_puts (&b, "</planning-summary>\n");
+  xmlBufferPtr buffer = NULL;
+  HlWriter w = { element != NULL ? writer_new (&buffer) : NULL, err, HL_OK, base_file };
+  if (w.x == NULL)
+    {
+      free (plan_text);
+      summary_data_clear (&d);
+      return hl_error_set (err, HL_ERR_NOMEM, "", _("Out of memory while writing the plan"));
     }
-  if (plan_text.failed)
-    b.failed = true;
-  c_numeric_leave (&scope);
-  hl_buf_clear (&plan_text);
+  start (&w, "planning-summary");
+  put_attr (&w, "xmlns", HL_PLAN_NAMESPACE);
+  put_count (&w, "format-version", HL_PLAN_FORMAT_VERSION);
+  start (&w, "caution");
+  put_string (&w, hl_caution_text ());
+  end (&w);
+  start (&w, "provenance");
+  put_attr (&w, "program-version", hl_program_version ());
+  put_attr (&w, "model-version", HL_MODEL_VERSION);
+  put_attr (&w, "created", date_iso);
+  put_attr (&w, "plan-sha256", hex);
+  if (d.mc != NULL)
+    {
+      put_count (&w, "uncertainty-seed", d.mc_info.seed);
+      put_count (&w, "uncertainty-samples-used", d.mc_info.n_used);
+      put_count (&w, "uncertainty-samples-dropped", d.mc_info.n_dropped);
+    }
+  end (&w);
+  if (w.status == HL_OK)
+    {
+      writer_check (&w, xmlTextWriterWriteRawLen (w.x, BAD_CAST element, (int) element_len));
+      writer_check (&w, xmlTextWriterWriteRaw (w.x, BAD_CAST "\n"));
+    }
+  write_results (&w, plan, &d);
+  end (&w);
+  free (plan_text);
   summary_data_clear (&d);
-  return finish_buffer (&b, w.status, out, size, err);
+  return writer_finish (&w, buffer, out, size);
 }
 
 HlStatus
@@ -2342,7 +2291,7 @@ check_plan_outline (HlReader *r, xmlNodePtr plan_node)
 }
 
 /* Everything after the bytes are in memory; called with the thread's
- * numbers in the C locale and libxml2's error output redirected. */
+ * libxml2's error output redirected. */
 static HlStatus
 load_document (HlReader *r, const char *data, size_t size, HlPlan **out)
 {
@@ -2442,17 +2391,12 @@ load_buffer_for (const char *data, size_t size, const char *name_for_errors,
                            "are UTF-8: save it again with UTF-8 encoding"),
                          name_for_errors ? name_for_errors : _("the plan"));
 
-  HlCNumeric scope;
-  if (!c_numeric_enter (&scope))
-    return hl_error_set (err, HL_ERR_NOMEM, "", _("Cannot set up the C locale for numbers"));
-
   HlReader r;
   memset (&r, 0, sizeof r);
   r.base_file = base_file;
   hl_xml_load_begin (&r.x, &plan_kind, name_for_errors, err);
   HlStatus st = load_document (&r, data, size, out);
   hl_xml_load_end (&r.x);
-  c_numeric_leave (&scope);
   return st;
 }
 

@@ -6,7 +6,8 @@
  * Every output that lists the quantities of an HlResult takes them from
  * here, in this order: the window's results view (ui/hl-results.c), the
  * command line's text table and CSV (app/hiplever-cli.c), the report's
- * results table (render/hl-report.c).  Each field says in which outputs
+ * results table (render/hl-report.c), the planning summary's <result>
+ * attributes (core/hl-plan-io.c).  Each field says in which outputs
  * it appears, its label and unit, the decimals shown to people, its CSV
  * column and decimals (a contract: 3, 4 for the lever ratio) and its
  * attribute in the planning summary's <result>.
@@ -27,6 +28,7 @@ typedef enum {
   HL_OUT_CSV     = 1u << 1,   /* the command line's CSV (solve, batch): a contract */
   HL_OUT_TEXT    = 1u << 2,   /* solve's text table */
   HL_OUT_REPORT  = 1u << 3,   /* the report's results table */
+  HL_OUT_SUMMARY = 1u << 4,   /* an attribute of the planning summary's <result> */
 } HlResultOutput;
 
 /* How a field reads against native. */
@@ -45,12 +47,13 @@ typedef struct {
   const char *csv;          /* CSV column, NULL when not in the CSV */
   int csv_decimals;
   const char *xml;          /* attribute of the summary's <result> */
+  int summary_order;        /* its place there (1, 2, ...; a contract), 0 when absent */
   HlFieldKind kind;
   unsigned outputs;         /* HlResultOutput bits */
   double (*get) (const HlResult *res);
 } HlResultField;
 
-#define HL_RESULT_FIELD_MAX 16
+#define HL_RESULT_FIELD_MAX 24
 
 /* Every field, in display order; *n gets the count. */
 const HlResultField *hl_result_fields (size_t *n);
@@ -59,6 +62,9 @@ const HlResultField *hl_result_fields (size_t *n);
  * returns how many. */
 size_t hl_result_fields_for (HlResultOutput output,
                              const HlResultField *out[HL_RESULT_FIELD_MAX]);
+
+/* The summary's fields in the order of its <result> attributes. */
+size_t hl_result_fields_summary (const HlResultField *out[HL_RESULT_FIELD_MAX]);
 
 #ifdef __cplusplus
 }

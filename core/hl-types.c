@@ -16,11 +16,30 @@
 #include "hl-text.h"
 #include "hl-types.h"
 
+#define ROUND_TRIP_DIGITS_MIN 15   /* the shortest first, DBL_DECIMAL_DIG last */
+#define ROUND_TRIP_DIGITS_MAX 17
+
 char *
-hl_number_fixed (char *buf, size_t size, int decimals, double value)
+hl_format_number (char *buf, size_t size, int decimals, double value)
 {
   char format[16];
 
+  if (decimals == HL_NUMBER_EXACT)
+    {
+      if (isnan (value))
+        snprintf (buf, size, "%s", "NaN");
+      else if (isinf (value))
+        snprintf (buf, size, "%s", value > 0 ? "INF" : "-INF");
+      else
+        for (int digits = ROUND_TRIP_DIGITS_MIN; digits <= ROUND_TRIP_DIGITS_MAX; digits++)
+          {
+            snprintf (format, sizeof format, "%%.%dg", digits);
+            g_ascii_formatd (buf, (gint) size, format, value);
+            if (g_ascii_strtod (buf, NULL) == value)
+              break;
+          }
+      return buf;
+    }
   if (!isfinite (value))
     {
       snprintf (buf, size, "%s", "nan");

@@ -57,12 +57,18 @@ const char *hl_status_name (HlStatus status);
 /* The digest of `size` bytes as hex; returns hex. */
 char *hl_sha256_hex (const void *data, size_t size, char hex[HL_SHA256_HEX_SIZE]);
 
-/* The one fixed-decimal number printer of the programs' tables and CSV:
- * `decimals` after the point, always a point whatever the locale
- * (g_ascii_formatd), "-0.000" written "0.000" (a sign that is not there),
- * "nan" for a value that is not finite; returns buf. */
+/* The one number formatter of every output (tables, CSV, plan files,
+ * summaries), always with a point whatever the locale (GLib's
+ * g_ascii_formatd):
+ *  - decimals >= 0: that many after the point, "-0.000" written "0.000"
+ *    (a sign that is not there), "nan" for a value that is not finite;
+ *  - decimals == HL_NUMBER_EXACT: the shortest text that reads back as the
+ *    same double (15 to 17 significant digits), "NaN", "INF", "-INF" for
+ *    the values that are not finite (xs:double's spelling).
+ * Returns buf (size >= HL_NUMBER_TEXT_SIZE is always enough). */
 #define HL_NUMBER_TEXT_SIZE 64
-char *hl_number_fixed (char *buf, size_t size, int decimals, double value);
+#define HL_NUMBER_EXACT (-1)
+char *hl_format_number (char *buf, size_t size, int decimals, double value);
 
 /* The operated side. */
 typedef enum {
