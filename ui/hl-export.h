@@ -6,7 +6,7 @@
  * Window actions (in the header-bar menu, with the accelerators of
  * hl-application.c):
  *
- *  win.export-report   "Export Report (PDF)…": the two-page A4 report of
+ *  win.export-report   "Export Report (PDF)…": the A4 report (two pages or more) of
  *                      hl-report.h, with the analysis page's joint-load
  *                      target and the selected option in the schematic;
  *  win.export-figure   "Export Figure (SVG/PNG)…": a small dialog for the

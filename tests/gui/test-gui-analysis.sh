@@ -183,19 +183,23 @@ torque=$(xmllint --xpath "string(//*[local-name()='capacity']/@torque-nm-per-kg)
 HL_TOL=1e-9
 hl_expect "the capacity preset below young women (before surgery, 1.13 x 0.82)" "$torque" "~" 0.9266
 
-[ "$(pdfinfo "$HL_TMP/report.pdf" | awk '/^Pages:/ { print $2 }')" = "2" ] \
-  || hl_fail "the report (.pdf added) does not have two pages"
+# Two pages or more: pages are added when the content needs them.
+report_pages=$(pdfinfo "$HL_TMP/report.pdf" | awk '/^Pages:/ { print $2 }')
+[ "${report_pages:-0}" -ge 2 ] \
+  || hl_fail "the report (.pdf added) has fewer than two pages (${report_pages:-none})"
 pdftotext "$HL_TMP/report.pdf" - | tr '\n' ' ' >"$HL_TMP/report.txt"
 grep -q "Planning aid only" "$HL_TMP/report.txt" || hl_fail "the report has no caution"
 grep -q "Demo case A" "$HL_TMP/report.txt" || hl_fail "the report does not name the case"
-hl_note "ok: Ctrl+Shift+E wrote a two-page report with the caution"
-[ "$(pdfinfo "$HL_TMP/printed.pdf" | awk '/^Pages:/ { print $2 }')" = "2" ] \
-  || hl_fail "Ctrl+P printed no two pages"
+grep -q "Page $report_pages of $report_pages" "$HL_TMP/report.txt" \
+  || hl_fail "the report's last page does not say Page $report_pages of $report_pages"
+hl_note "ok: Ctrl+Shift+E wrote a report of $report_pages pages with the caution"
+[ "$(pdfinfo "$HL_TMP/printed.pdf" | awk '/^Pages:/ { print $2 }')" = "$report_pages" ] \
+  || hl_fail "Ctrl+P printed not the report's $report_pages pages"
 pdfinfo "$HL_TMP/printed.pdf" | grep -q 'Page size:.*(A4)' \
   || hl_fail "the print is not on A4: $(pdfinfo "$HL_TMP/printed.pdf" | grep 'Page size')"
 pdftotext "$HL_TMP/printed.pdf" - | tr '\n' ' ' | grep -q "Planning aid only" \
   || hl_fail "the print has no caution"
-hl_note "ok: Ctrl+P printed two A4 pages with the caution"
+hl_note "ok: Ctrl+P printed the report's $report_pages A4 pages with the caution"
 xmllint --noout "$HL_TMP/figure.svg" || hl_fail "the figure is not a well-formed SVG"
 grep -q 'width="1600pt"' "$HL_TMP/figure.svg" || hl_fail "the figure is not 1600 wide: $(head -c 300 "$HL_TMP/figure.svg")"
 hl_note "ok: the figure is an SVG of the default size"
