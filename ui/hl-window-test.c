@@ -112,6 +112,17 @@ print_widget (HlWindow *self, const char *name, GtkWidget *widget)
     printf ("WIDGET %s %.0f %.0f\n", name, x, y);
 }
 
+/* "AREA name X Y W H": a widget's place and size. */
+static void
+print_area (HlWindow *self, const char *name, GtkWidget *widget)
+{
+  double x, y;
+
+  if (widget != NULL && surface_point (self, widget, 0, 0, &x, &y))
+    printf ("AREA %s %.0f %.0f %d %d\n", name, x, y,
+            gtk_widget_get_width (widget), gtk_widget_get_height (widget));
+}
+
 /* The stack switcher's button of the page holding `child`. */
 static void
 print_switcher_button (HlWindow *self, const char *name, GtkStack *stack, GtkWidget *child)
@@ -220,6 +231,8 @@ hl_window_print_handles (HlWindow *self)
       print_widget (self, name, child);
     }
   print_widget (self, "canvas", GTK_WIDGET (self->canvas));
+  print_area (self, "canvas", GTK_WIDGET (self->canvas));
+  print_area (self, "lower", gtk_widget_get_next_sibling (gtk_widget_get_next_sibling (GTK_WIDGET (self->canvas))));
   print_widget (self, "caution-toggle", GTK_WIDGET (self->caution_toggle));
   if (gtk_revealer_get_reveal_child (self->caution_revealer))
     print_widget (self, "caution-full", GTK_WIDGET (self->caution_full_label));
