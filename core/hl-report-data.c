@@ -294,7 +294,10 @@ build_heading (HlReportData *d)
   d->meta_line = dup_printf (_("Operated side: %s  \xc2\xb7  body mass %.1f kg (body weight "
                                     "%.1f N)  \xc2\xb7  report date %s  \xc2\xb7  hiplever %s, "
                                     "mechanical model %s"),
-                                  _(hl_side_name (p->side)), p->mass_kg,
+                                  /* TRANSLATORS: the operated side */
+                                  p->side == HL_SIDE_LEFT ? _("left")
+                                                          : _("right"),
+                                  p->mass_kg,
                                   hl_plan_body_weight (p), d->date, hl_program_version (),
                                   HL_MODEL_VERSION);
   d->caution_title = _("CAUTION: planning aid only");

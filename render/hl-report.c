@@ -978,8 +978,9 @@ draw_footer (const HlReport *r, cairo_t *cr, int page)
   char right[128];
   snprintf (right, sizeof right, _("Page %d of %d"), page + 1, r->n_pages);
   double rw = 70.0;
-  text_block (r, cr, r->d->footer_caution, content_left (), y + 3, content_width () - rw,
-              TYPE_SMALL, true, caution_ink, false);
+  /* clear of the page number and of the version line under it */
+  text_block (r, cr, r->d->footer_caution, content_left (), y + 3,
+              content_width () - 2 * rw - 6.0, TYPE_SMALL, true, caution_ink, false);
   text_block (r, cr, right, content_left () + content_width () - rw, y + 3, rw, TYPE_SMALL,
               false, ink_soft, true);
   text_block (r, cr, r->d->footer_version, content_left () + content_width () - 2 * rw,
