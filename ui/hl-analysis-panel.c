@@ -506,13 +506,13 @@ build (HlAnalysisPanel *self)
   g_autofree char *target_note = NULL;
 
   gtk_label_set_text (GTK_LABEL (self->caveat_label), hl_inverse_caveat ());
-  /* Configured with its range, so that it is as wide as its widest value. */
-  gtk_spin_button_configure (GTK_SPIN_BUTTON (self->target_spin),
-                             gtk_adjustment_new (HL_REPORT_TARGET_JRF_BW_DEFAULT,
-                                                 HL_REPORT_TARGET_JRF_BW_MIN,
-                                                 HL_REPORT_TARGET_JRF_BW_MAX,
-                                                 TARGET_STEP_BW, TARGET_PAGE_BW, 0.0),
-                             TARGET_STEP_BW, TARGET_DIGITS);
+  hl_ui_spin_set_range (GTK_SPIN_BUTTON (self->target_spin), HL_REPORT_TARGET_JRF_BW_MIN,
+                        HL_REPORT_TARGET_JRF_BW_MAX, TARGET_STEP_BW);
+  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->target_spin), TARGET_DIGITS);
+  gtk_spin_button_set_increments (GTK_SPIN_BUTTON (self->target_spin), TARGET_STEP_BW,
+                                  TARGET_PAGE_BW);
+  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->target_spin),
+                             HL_REPORT_TARGET_JRF_BW_DEFAULT);
   g_signal_connect (self->target_spin, "value-changed", G_CALLBACK (target_changed_cb), self);
   target_note = g_strdup_printf (_("For the cane and load answers. Default %.1f × body weight: a round figure of ours below the 2.1–2.8 × BW measured in static single-leg stance (Kotzar et al. 1991, J Orthop Res 9:621-633)."),
                                  HL_REPORT_TARGET_JRF_BW_DEFAULT);

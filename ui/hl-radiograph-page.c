@@ -23,7 +23,6 @@
 
 #define PAGE_KEY "hl-radiograph-page"
 #define PAGE_NAME "radiograph"
-#define PAGE_SPACING 6
 #define MEASURE_DECIMALS 1
 #define MAGNIFICATION_DECIMALS 4
 /* Differences to the other side beyond this are marked (common practice
@@ -55,9 +54,8 @@ struct _HlRadiographPage {
   /* borrowed */
   HlDocument *document;
   HlCanvas *canvas;
-  GtkWidget *scroll;              /* around the page, in the side panel */
 
-  /* built in code */
+  /* template widgets */
   GtkWidget *image_banner;
   GtkWidget *side_banner;
   GtkWidget *file_label;
@@ -86,6 +84,7 @@ struct _HlRadiographPage {
   GtkWidget *back_button;
   GtkWidget *stop_button;
   GtkWidget *measures_grid;
+  GtkWidget *caution_label;
   size_t grid_cases;
 
   /* owned */
@@ -503,8 +502,7 @@ edit (HlRadiographPage *self, const char *field)
 static void
 scale_changed_cb (GtkRange *range, HlRadiographPage *self)
 {
-  const char *field = g_object_get_data (G_OBJECT (range), "hl-field");
-  if (!edit (self, field))
+  if (!edit (self, "radiograph-opacity"))
     return;
   HlRadiograph *rg = &plan_of (self)->radiograph;
   double v = gtk_range_get_value (range);
@@ -1260,47 +1258,6 @@ bench_start_cb (gpointer data)
 
 /* ---- Building ----------------------------------------------------------------------------- */
 
-static GtkWidget *
-heading (const char *text)
-{
-  GtkWidget *l = gtk_label_new (text);
-  gtk_label_set_xalign (GTK_LABEL (l), 0.0f);
-  gtk_widget_add_css_class (l, "heading");
-  gtk_widget_set_margin_top (l, PAGE_SPACING);
-  return l;
-}
-
-static GtkWidget *
-wrap_label (const char *text)
-{
-  GtkWidget *l = gtk_label_new (text);
-  gtk_label_set_wrap (GTK_LABEL (l), TRUE);
-  gtk_label_set_xalign (GTK_LABEL (l), 0.0f);
-  gtk_label_set_max_width_chars (GTK_LABEL (l), 40);
-  return l;
-}
-
-static GtkWidget *
-add_scale (HlRadiographPage *self, GtkWidget *box, const char *label, double lo, double hi,
-           double step, const char *field)
-{
-  GtkWidget *row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
-  GtkWidget *l = gtk_label_new (label);
-  gtk_label_set_xalign (GTK_LABEL (l), 0.0f);
-  gtk_widget_set_size_request (l, 80, -1);
-  GtkWidget *s = gtk_scale_new_with_range (GTK_ORIENTATION_HORIZONTAL, lo, hi, step);
-  gtk_widget_set_hexpand (s, TRUE);
-  gtk_scale_set_draw_value (GTK_SCALE (s), TRUE);
-  gtk_scale_set_digits (GTK_SCALE (s), 2);
-  gtk_accessible_update_property (GTK_ACCESSIBLE (s), GTK_ACCESSIBLE_PROPERTY_LABEL, label, -1);
-  g_object_set_data (G_OBJECT (s), "hl-field", (gpointer) field);
-  g_signal_connect_object (s, "value-changed", G_CALLBACK (scale_changed_cb), self, 0);
-  gtk_box_append (GTK_BOX (row), l);
-  gtk_box_append (GTK_BOX (row), s);
-  gtk_box_append (GTK_BOX (box), row);
-  return s;
-}
-
 static void
 hl_radiograph_page_dispose (GObject *object)
 {
@@ -1316,6 +1273,7 @@ hl_radiograph_page_dispose (GObject *object)
       gtk_native_dialog_destroy (self->chooser);
       g_clear_object (&self->chooser);
     }
+  gtk_widget_dispose_template (GTK_WIDGET (object), HL_TYPE_RADIOGRAPH_PAGE);
   G_OBJECT_CLASS (hl_radiograph_page_parent_class)->dispose (object);
 }
 
@@ -1333,190 +1291,87 @@ hl_radiograph_page_finalize (GObject *object)
 static void
 hl_radiograph_page_class_init (HlRadiographPageClass *klass)
 {
+  GtkWidgetClass *widget_class = GTK_WIDGET_CLASS (klass);
+
   G_OBJECT_CLASS (klass)->dispose = hl_radiograph_page_dispose;
   G_OBJECT_CLASS (klass)->finalize = hl_radiograph_page_finalize;
+  gtk_widget_class_set_template_from_resource (widget_class,
+                                               "/org/hiplever/Hiplever/hl-radiograph-page.ui");
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, image_banner);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, side_banner);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, file_label);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, import_button);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, schematic_check);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, centre_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, width_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, auto_button);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, preset_button);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, window_label);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, progress);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, burned_banner);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, invert_check);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, opacity_scale);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, spacing_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, method_drop);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, size_spin);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, size_label);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, calibrate_button);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, calibrate_label);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, magnification_label);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, guide_button);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, guide_box);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, guide_label);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, skip_button);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, back_button);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, stop_button);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, measures_grid);
+  gtk_widget_class_bind_template_child (widget_class, HlRadiographPage, caution_label);
 }
 
 static void
 hl_radiograph_page_init (HlRadiographPage *self)
 {
   self->guide_index = 0;
+  gtk_widget_init_template (GTK_WIDGET (self));
 }
 
-static GtkWidget *
+/* What the template cannot hold (ranges of the core, texts of the core)
+ * and the controls' signals, connected once the page has its document. */
+static void
 build (HlRadiographPage *self)
 {
-  GtkWidget *box = GTK_WIDGET (self);
-  GtkWidget *row;
-  gtk_orientable_set_orientation (GTK_ORIENTABLE (self), GTK_ORIENTATION_VERTICAL);
-  gtk_box_set_spacing (GTK_BOX (self), PAGE_SPACING);
-  gtk_widget_set_margin_start (box, 2 * PAGE_SPACING);
-  gtk_widget_set_margin_end (box, 2 * PAGE_SPACING);
-  gtk_widget_set_margin_top (box, 2 * PAGE_SPACING);
-  gtk_widget_set_margin_bottom (box, 2 * PAGE_SPACING);
+  hl_ui_spin_set_range (GTK_SPIN_BUTTON (self->size_spin), 1.0, DIAMETER_MAX_MM, 0.1);
+  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->size_spin), 3);
+  hl_ui_spin_set_range (GTK_SPIN_BUTTON (self->centre_spin), HL_IMAGE_WINDOW_CENTRE_MIN,
+                        HL_IMAGE_WINDOW_CENTRE_MAX, 1.0);
+  hl_ui_spin_set_range (GTK_SPIN_BUTTON (self->width_spin), HL_IMAGE_WINDOW_WIDTH_MIN,
+                        HL_IMAGE_WINDOW_WIDTH_MAX, 1.0);
+  hl_ui_spin_set_range (GTK_SPIN_BUTTON (self->spacing_spin), HL_PIXEL_SPACING_MIN_MM,
+                        HL_PIXEL_SPACING_MAX_MM, 0.001);
+  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->spacing_spin), 4);
+  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->spacing_spin), HL_PIXEL_SPACING_DEFAULT_MM);
+  gtk_label_set_text (GTK_LABEL (self->caution_label), hl_caution_short ());
 
-  self->image_banner = wrap_label ("");
-  gtk_widget_add_css_class (self->image_banner, "error");
-  gtk_widget_set_visible (self->image_banner, FALSE);
-  gtk_box_append (GTK_BOX (box), self->image_banner);
-  self->side_banner = wrap_label ("");
-  gtk_widget_add_css_class (self->side_banner, "warning");
-  gtk_widget_set_visible (self->side_banner, FALSE);
-  gtk_box_append (GTK_BOX (box), self->side_banner);
-
-  self->burned_banner = wrap_label ("");
-  gtk_widget_add_css_class (self->burned_banner, "warning");
-  gtk_widget_set_visible (self->burned_banner, FALSE);
-  gtk_box_append (GTK_BOX (box), self->burned_banner);
-
-  self->import_button = gtk_button_new_with_mnemonic (_("_Import radiograph…"));
   g_signal_connect_object (self->import_button, "clicked", G_CALLBACK (import_clicked_cb), self, 0);
-  gtk_box_append (GTK_BOX (box), self->import_button);
-  self->progress = gtk_progress_bar_new ();
-  gtk_progress_bar_set_show_text (GTK_PROGRESS_BAR (self->progress), TRUE);
-  gtk_widget_set_visible (self->progress, FALSE);
-  gtk_box_append (GTK_BOX (box), self->progress);
-  self->file_label = wrap_label ("");
-  gtk_box_append (GTK_BOX (box), self->file_label);
-
-  gtk_box_append (GTK_BOX (box), heading (_("Calibration")));
-  static const char *const methods[N_METHODS + 1] = {
-    N_("None: assumed 1.20, not calibrated"), N_("Marker of known diameter"),
-    N_("Two points a known distance apart"), N_("Typed magnification factor"), NULL,
-  };
-  const char *translated[N_METHODS + 1];
-  for (int i = 0; i < N_METHODS; i++)
-    translated[i] = _(methods[i]);
-  translated[N_METHODS] = NULL;
-  self->method_drop = gtk_drop_down_new_from_strings (translated);
   g_signal_connect_object (self->method_drop, "notify::selected", G_CALLBACK (method_changed_cb),
                            self, 0);
-  gtk_box_append (GTK_BOX (box), self->method_drop);
-  row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
-  self->size_label = gtk_label_new ("");
-  gtk_widget_set_hexpand (self->size_label, TRUE);
-  gtk_label_set_xalign (GTK_LABEL (self->size_label), 0.0f);
-  self->size_spin = gtk_spin_button_new_with_range (1.0, DIAMETER_MAX_MM, 0.1);
-  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->size_spin), 3);
   g_signal_connect_object (self->size_spin, "value-changed", G_CALLBACK (size_changed_cb), self, 0);
-  gtk_box_append (GTK_BOX (row), self->size_label);
-  gtk_box_append (GTK_BOX (row), self->size_spin);
-  gtk_box_append (GTK_BOX (box), row);
-  self->calibrate_button = gtk_button_new_with_label (_("Calibrate on the image"));
   g_signal_connect_object (self->calibrate_button, "clicked", G_CALLBACK (calibrate_clicked_cb),
                            self, 0);
-  gtk_box_append (GTK_BOX (box), self->calibrate_button);
-  self->calibrate_label = wrap_label ("");
-  gtk_box_append (GTK_BOX (box), self->calibrate_label);
-  self->magnification_label = wrap_label ("");
-  gtk_box_append (GTK_BOX (box), self->magnification_label);
-
-  gtk_box_append (GTK_BOX (box), heading (_("Landmarks")));
-  self->guide_button = gtk_button_new_with_label (_("Place landmarks step by step"));
   g_signal_connect_object (self->guide_button, "clicked", G_CALLBACK (guide_clicked_cb), self, 0);
-  gtk_box_append (GTK_BOX (box), self->guide_button);
-  self->guide_box = gtk_box_new (GTK_ORIENTATION_VERTICAL, PAGE_SPACING);
-  /* The buttons come first so that they stay put under the pointer while
-   * the question below them changes length from step to step. */
-  row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
-  self->back_button = gtk_button_new_with_label (_("Back"));
-  self->skip_button = gtk_button_new_with_label (_("Skip"));
-  self->stop_button = gtk_button_new_with_label (_("Stop"));
   g_signal_connect_object (self->back_button, "clicked", G_CALLBACK (back_clicked_cb), self, 0);
   g_signal_connect_object (self->skip_button, "clicked", G_CALLBACK (skip_clicked_cb), self, 0);
   g_signal_connect_object (self->stop_button, "clicked", G_CALLBACK (stop_clicked_cb), self, 0);
-  gtk_box_append (GTK_BOX (row), self->back_button);
-  gtk_box_append (GTK_BOX (row), self->skip_button);
-  gtk_box_append (GTK_BOX (row), self->stop_button);
-  gtk_box_append (GTK_BOX (self->guide_box), row);
-  self->guide_label = wrap_label ("");
-  gtk_box_append (GTK_BOX (self->guide_box), self->guide_label);
-  gtk_widget_set_visible (self->guide_box, FALSE);
-  gtk_box_append (GTK_BOX (box), self->guide_box);
-
-  gtk_box_append (GTK_BOX (box), heading (_("Display")));
-  self->schematic_check = gtk_check_button_new_with_label (_("Show the schematic drawing"));
   g_signal_connect_object (self->schematic_check, "toggled", G_CALLBACK (toggle_cb), self, 0);
-  gtk_box_append (GTK_BOX (box), self->schematic_check);
-  static const struct { const char *label; double lo, hi; } spins[2] = {
-    { N_("Window centre"), HL_IMAGE_WINDOW_CENTRE_MIN, HL_IMAGE_WINDOW_CENTRE_MAX },
-    { N_("Window width"), HL_IMAGE_WINDOW_WIDTH_MIN, HL_IMAGE_WINDOW_WIDTH_MAX },
-  };
-  for (int i = 0; i < 2; i++)
-    {
-      row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
-      GtkWidget *sl = gtk_label_new (_(spins[i].label));
-      gtk_label_set_xalign (GTK_LABEL (sl), 0.0f);
-      gtk_widget_set_hexpand (sl, TRUE);
-      GtkWidget *sp = gtk_spin_button_new_with_range (spins[i].lo, spins[i].hi, 1.0);
-      gtk_spin_button_set_digits (GTK_SPIN_BUTTON (sp), 0);
-      gtk_accessible_update_property (GTK_ACCESSIBLE (sp), GTK_ACCESSIBLE_PROPERTY_LABEL,
-                                      _(spins[i].label), -1);
-      g_signal_connect_object (sp, "value-changed", G_CALLBACK (window_spin_cb), self, 0);
-      gtk_box_append (GTK_BOX (row), sl);
-      gtk_box_append (GTK_BOX (row), sp);
-      gtk_box_append (GTK_BOX (box), row);
-      if (i == 0)
-        self->centre_spin = sp;
-      else
-        self->width_spin = sp;
-    }
-  row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
-  self->auto_button = gtk_button_new_with_label (_("Automatic window"));
-  gtk_widget_set_tooltip_text (self->auto_button,
-                               _("From the grey values: 0.5th to 99.5th percentile"));
+  g_signal_connect_object (self->centre_spin, "value-changed", G_CALLBACK (window_spin_cb), self, 0);
+  g_signal_connect_object (self->width_spin, "value-changed", G_CALLBACK (window_spin_cb), self, 0);
   g_signal_connect_object (self->auto_button, "clicked", G_CALLBACK (auto_window_cb), self, 0);
-  self->preset_button = gtk_button_new_with_label (_("The file's window"));
   g_signal_connect_object (self->preset_button, "clicked", G_CALLBACK (preset_window_cb), self, 0);
-  gtk_box_append (GTK_BOX (row), self->auto_button);
-  gtk_box_append (GTK_BOX (row), self->preset_button);
-  gtk_box_append (GTK_BOX (box), row);
-  self->window_label = wrap_label (_("Drag with the right mouse button on the image to set "
-                                     "the window (across: width, up and down: centre); Page "
-                                     "Up and Page Down brighten and darken, with Shift widen "
-                                     "and narrow."));
-  gtk_widget_add_css_class (self->window_label, "dim-label");
-  gtk_box_append (GTK_BOX (box), self->window_label);
-
-  self->opacity_scale = add_scale (self, box, _("Opacity"), 0.0, 1.0, 0.05, "radiograph-opacity");
-  self->invert_check = gtk_check_button_new_with_label (_("Invert (bone dark)"));
+  g_signal_connect_object (self->opacity_scale, "value-changed", G_CALLBACK (scale_changed_cb),
+                           self, 0);
   g_signal_connect_object (self->invert_check, "toggled", G_CALLBACK (toggle_cb), self, 0);
-  gtk_box_append (GTK_BOX (box), self->invert_check);
-
-  row = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, PAGE_SPACING);
-  GtkWidget *l = wrap_label (_("Pixel spacing (image mm per pixel; taken from a DICOM file "
-                               "when it gives one, else 0.1 is an assumption: type the "
-                               "detector's value)"));
-  gtk_widget_set_hexpand (l, TRUE);
-  self->spacing_spin = gtk_spin_button_new_with_range (HL_PIXEL_SPACING_MIN_MM,
-                                                       HL_PIXEL_SPACING_MAX_MM, 0.001);
-  gtk_spin_button_set_digits (GTK_SPIN_BUTTON (self->spacing_spin), 4);
-  gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->spacing_spin), HL_PIXEL_SPACING_DEFAULT_MM);
   g_signal_connect_object (self->spacing_spin, "value-changed", G_CALLBACK (spacing_changed_cb),
                            self, 0);
-  gtk_box_append (GTK_BOX (row), l);
-  gtk_box_append (GTK_BOX (row), self->spacing_spin);
-  gtk_box_append (GTK_BOX (box), row);
-
-  gtk_box_append (GTK_BOX (box), heading (_("Radiographic measures")));
-  gtk_box_append (GTK_BOX (box),
-                  wrap_label (_("Operated side for native and each option; the difference "
-                                "to the other side is the target (0), marked beyond 5 mm.")));
-  self->measures_grid = gtk_grid_new ();
-  gtk_grid_set_column_spacing (GTK_GRID (self->measures_grid), 2 * PAGE_SPACING);
-  gtk_grid_set_row_spacing (GTK_GRID (self->measures_grid), 2);
-  GtkWidget *hscroll = gtk_scrolled_window_new ();
-  gtk_scrolled_window_set_policy (GTK_SCROLLED_WINDOW (hscroll), GTK_POLICY_AUTOMATIC,
-                                  GTK_POLICY_NEVER);
-  gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (hscroll), self->measures_grid);
-  gtk_box_append (GTK_BOX (box), hscroll);
-  gtk_box_append (GTK_BOX (box), wrap_label (hl_caution_short ()));
-
-  GtkWidget *scroll = gtk_scrolled_window_new ();
-  gtk_scrolled_window_set_policy (GTK_SCROLLED_WINDOW (scroll), GTK_POLICY_NEVER,
-                                  GTK_POLICY_AUTOMATIC);
-  gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (scroll), box);
-  return scroll;
 }
 
 static void
@@ -1543,7 +1398,7 @@ hl_radiograph_page_new (HlDocument *document, HlCanvas *canvas)
   HlRadiographPage *self = g_object_new (HL_TYPE_RADIOGRAPH_PAGE, NULL);
   self->document = document;
   self->canvas = canvas;
-  self->scroll = build (self);
+  build (self);
   g_signal_connect_object (canvas, "plan-clicked", G_CALLBACK (plan_clicked_cb), self, 0);
   g_signal_connect_object (document, "changed", G_CALLBACK (document_changed_cb), self, 0);
   g_signal_connect (self, "map", G_CALLBACK (page_map_cb), NULL);
@@ -1563,11 +1418,4 @@ hl_radiograph_page_new (HlDocument *document, HlCanvas *canvas)
 #endif
   refresh (self);
   return GTK_WIDGET (self);
-}
-
-GtkWidget *
-hl_radiograph_page_get_page (HlRadiographPage *self)
-{
-  g_return_val_if_fail (HL_IS_RADIOGRAPH_PAGE (self), NULL);
-  return self->scroll;
 }

@@ -10,9 +10,11 @@
  * or none: the assumed 1.20, said so), a calibrate mode in which the next
  * clicks on the canvas place the calibration points, the guided placement
  * of the landmarks one by one, and the radiographic measures of native and
- * every option beside the other side.
+ * every option beside the other side.  The page scrolls within itself and
+ * goes into the side panel as it is; its template is
+ * ui/hl-radiograph-page.ui.
  *
- * Every edit goes through the window (an undo step, then the one
+ * Every edit goes through the document (an undo step, then the one
  * recompute path); the page computes nothing itself, it calls the core.
  *
  * Test hooks (environment):
@@ -39,8 +41,6 @@ G_DECLARE_FINAL_TYPE (HlRadiographPage, hl_radiograph_page, HL, RADIOGRAPH_PAGE,
  * image when the plan's reference changed (a plan opened, an undo) and
  * reports a moved or changed image. */
 GtkWidget *hl_radiograph_page_new (HlDocument *document, HlCanvas *canvas);
-/* The scrolled window around the page, which goes into the side panel. */
-GtkWidget *hl_radiograph_page_get_page (HlRadiographPage *self);
 
 /* Imports the image file at `path` as if chosen in the file chooser (the
  * drag benchmark). */

@@ -9,6 +9,7 @@
 
 #include <math.h>
 #include <stdio.h>
+#include <stdlib.h>
 
 #include "hl-ui-util.h"
 
@@ -33,6 +34,21 @@ hl_ui_set_spin (GtkSpinButton *spin, double value)
 {
   if (isfinite (value) && gtk_spin_button_get_value (spin) != value)
     gtk_spin_button_set_value (spin, value);
+}
+
+/* The most digits a spin button shows (GTK's own limit). */
+#define HL_SPIN_MAX_DIGITS 20
+
+void
+hl_ui_spin_set_range (GtkSpinButton *spin, double lower, double upper, double step)
+{
+  int digits = 0;
+
+  if (fabs (step) < 1.0 && step != 0.0)
+    digits = MIN (abs ((int) floor (log10 (fabs (step)))), HL_SPIN_MAX_DIGITS);
+  gtk_spin_button_configure (spin, gtk_adjustment_new (lower, lower, upper, step, 10.0 * step, 0.0),
+                             step, (guint) digits);
+  gtk_spin_button_set_numeric (spin, TRUE);
 }
 
 HlPlan *

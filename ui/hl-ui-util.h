@@ -27,6 +27,11 @@ void hl_ui_print_widget (const char *name, GtkWidget *widget);
  * "value-changed" is emitted for nothing). */
 void hl_ui_set_spin (GtkSpinButton *spin, double value);
 
+/* Configures a spin button of a template as gtk_spin_button_new_with_range
+ * makes one: the range, `step`, the digits `step` has, numeric input; it
+ * is then as wide as that makes it (set other digits after). */
+void hl_ui_spin_set_range (GtkSpinButton *spin, double lower, double upper, double step);
+
 /* A page's link to its document. */
 typedef struct {
   HlDocument *document;      /* borrowed: outlives the page */

@@ -551,7 +551,7 @@ hl_window_init (HlWindow *self)
                            G_CALLBACK (template_selected_cb), self, 0);
   self->radiograph_page = HL_RADIOGRAPH_PAGE (hl_radiograph_page_new (self->document,
                                                                       self->canvas));
-  gtk_stack_add_titled (self->panel_stack, hl_radiograph_page_get_page (self->radiograph_page),
+  gtk_stack_add_titled (self->panel_stack, GTK_WIDGET (self->radiograph_page),
                         "radiograph", _("Radiograph"));
   attach_analysis (self);
   hl_export_attach (GTK_APPLICATION_WINDOW (self), self->document, self->analysis_panel);
