@@ -116,12 +116,12 @@ static const HlCliCommand commands[] = {
        "force and joint load, and the share of samples in which each option "
        "lowers the joint load against native."),
     hl_cli_uncertainty_options, 1, 1, hl_cli_uncertainty },
-  { "report", "PLAN -o OUT.pdf",
+  { "report", "PLAN -o OUT.pdf [--underlay | --no-underlay]",
     N_("Write the A4 PDF report (two pages, more when the content needs them): "
        "case, inputs, results, ranges, schematic, charts, assumptions, sources "
        "and the caution."),
     hl_cli_report_options, 1, 1, hl_cli_report },
-  { "figure", "PLAN -o OUT.svg|OUT.png [--size WxH | --preset slide|half-slide] [--option N]",
+  { "figure", "PLAN -o OUT.svg|OUT.png [--size WxH | --preset slide|half-slide] [--option N] [--underlay | --no-underlay]",
     N_("Draw the schematic with the force vectors; the format follows the "
        "file name."),
     hl_cli_figure_options, 1, 1, hl_cli_figure },

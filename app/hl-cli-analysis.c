@@ -27,6 +27,7 @@
 #include "hl-render.h"
 #include "hl-report.h"
 #include "hl-solve.h"
+#include "hl-underlay.h"
 #include "hl-version.h"
 #include "hl-cli.h"
 
@@ -46,8 +47,9 @@ enum { INVERSE_OPT_TARGET, INVERSE_OPT_FORMAT };
 enum { SWEEP_OPT_PARAM, SWEEP_OPT_FROM, SWEEP_OPT_TO, SWEEP_OPT_STEPS, SWEEP_OPT_CSV,
        SWEEP_OPT_MODE };
 enum { MC_OPT_SAMPLES, MC_OPT_SEED, MC_OPT_CSV };
-enum { REPORT_OPT_OUTPUT };
-enum { FIGURE_OPT_OUTPUT, FIGURE_OPT_SIZE, FIGURE_OPT_OPTION, FIGURE_OPT_PRESET };
+enum { REPORT_OPT_OUTPUT, REPORT_OPT_UNDERLAY, REPORT_OPT_NO_UNDERLAY };
+enum { FIGURE_OPT_OUTPUT, FIGURE_OPT_SIZE, FIGURE_OPT_OPTION, FIGURE_OPT_PRESET,
+       FIGURE_OPT_UNDERLAY, FIGURE_OPT_NO_UNDERLAY };
 
 const HlCliOption hl_cli_inverse_options[] = {
   { "target-jrf", 0, N_("BW"),
@@ -100,6 +102,11 @@ const HlCliOption hl_cli_report_options[] = {
   { "output", 'o', N_("OUT.pdf"),
     N_("where to write the report (required; written atomically; not - : "
        "a PDF is not written to standard output)") },
+  { "underlay", 0, NULL,
+    N_("the radiograph under the schematic, with the plan's window and "
+       "calibration (the default when the plan has one); a missing or "
+       "changed image is left out with a message") },
+  { "no-underlay", 0, NULL, N_("the schematic without the radiograph") },
   { NULL },
 };
 
@@ -115,6 +122,11 @@ const HlCliOption hl_cli_figure_options[] = {
   { "preset", 0, N_("slide|half-slide"),
     N_("slide: a 16:9 slide, 1920x1080, body text at least 24 px; half-slide: "
        "half of one, 960x1080, the same text (instead of --size)") },
+  { "underlay", 0, NULL,
+    N_("the radiograph under the drawing, with the plan's window and "
+       "calibration (the default when the plan has one); a missing or "
+       "changed image is left out with a message") },
+  { "no-underlay", 0, NULL, N_("the drawing without the radiograph") },
   { NULL },
 };
 
@@ -676,6 +688,45 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
   return status;
 }
 
+/* ---- The radiograph under report and figure ------------------------------------ */
+
+/* --underlay and --no-underlay: 1 asked for, 0 refused, -1 neither (the
+ * default: drawn when the plan has a radiograph); -2 both (said). */
+static int
+underlay_choice (const HlCliCommand *cmd, const HlCliArgs *args, int on, int off)
+{
+  if (args->value[on] != NULL && args->value[off] != NULL)
+    {
+      hl_cli_usage_error (_("%s: --underlay and --no-underlay exclude each other"),
+                          cmd->name);
+      return -2;
+    }
+  return args->value[on] != NULL ? 1 : args->value[off] != NULL ? 0 : -1;
+}
+
+/* The figure's radiograph, or NULL with a line on stderr saying why it is
+ * left out when it was asked for or the plan has one. */
+static HlUnderlay *
+figure_underlay (const char *path, const HlPlan *plan, int choice)
+{
+  if (choice == 0)
+    return NULL;
+  if (!plan->radiograph.present)
+    {
+      if (choice == 1)
+        hl_cli_error (_("%s: --underlay: the plan has no radiograph; the figure is drawn "
+                        "without one"), path);
+      return NULL;
+    }
+  HlError err;
+  hl_error_clear (&err);
+  HlUnderlay *u = hl_underlay_for_plan (plan, &err);
+  if (u == NULL)
+    hl_cli_error (_("%s: the figure is drawn without the radiograph: %s"), path,
+                  err.message);
+  return u;
+}
+
 /* ---- report ------------------------------------------------------------------ */
 
 int
@@ -692,6 +743,10 @@ hl_cli_report (const HlCliCommand *cmd, const HlCliArgs *args)
   if (status != HL_CLI_EXIT_OK)
     return status;
 
+  int underlay = underlay_choice (cmd, args, REPORT_OPT_UNDERLAY, REPORT_OPT_NO_UNDERLAY);
+  if (underlay == -2)
+    return HL_CLI_EXIT_USAGE;
+
   HlPlan *plan = hl_cli_load_plan (path);
   if (plan == NULL)
     return HL_CLI_EXIT_INVALID;
@@ -699,6 +754,10 @@ hl_cli_report (const HlCliCommand *cmd, const HlCliArgs *args)
   HlReportSettings settings;
   HlError err;
   hl_report_settings_init (&settings);
+  settings.underlay = underlay != 0;
+  if (underlay == 1 && !plan->radiograph.present)
+    hl_cli_error (_("%s: --underlay: the plan has no radiograph; the report's schematic is "
+                    "drawn without one"), path);
   hl_error_clear (&err);
   HlReport *report = hl_report_new (plan, &settings, &err);
   hl_plan_free (plan);
@@ -707,6 +766,10 @@ hl_cli_report (const HlCliCommand *cmd, const HlCliArgs *args)
       hl_cli_report_error (path, NULL, &err);
       return HL_CLI_EXIT_INVALID;
     }
+  const HlError *note = hl_report_underlay_note (report);
+  if (note != NULL)
+    hl_cli_error (_("%s: the report's schematic is drawn without the radiograph: %s"), path,
+                  note->message);
   unsigned char *pdf = NULL;
   size_t size = 0;
   HlStatus st = hl_report_pdf_to_buffer (report, &pdf, &size, &err);
@@ -776,6 +839,10 @@ hl_cli_figure (const HlCliCommand *cmd, const HlCliArgs *args)
   if (option_text != NULL && !parse_u64 (option_text, &option))
     return hl_cli_usage_error (_("%s: --option '%s' is not a whole number"), cmd->name,
                                option_text);
+  int underlay_asked = underlay_choice (cmd, args, FIGURE_OPT_UNDERLAY,
+                                        FIGURE_OPT_NO_UNDERLAY);
+  if (underlay_asked == -2)
+    return HL_CLI_EXIT_USAGE;
 
   HlPlan *plan = hl_cli_load_plan (path);
   if (plan == NULL)
@@ -790,10 +857,12 @@ hl_cli_figure (const HlCliCommand *cmd, const HlCliArgs *args)
       return HL_CLI_EXIT_INVALID;
     }
 
+  HlUnderlay *underlay = figure_underlay (path, plan, underlay_asked);
   HlError err;
   hl_error_clear (&err);
-  HlStatus st = hl_figure_save_preset (plan, (int) option - 1, width, height, preset, out,
-                                       &err);
+  HlStatus st = hl_figure_save_preset (plan, (int) option - 1, width, height, preset,
+                                       underlay, out, &err);
+  hl_underlay_free (underlay);
   hl_plan_free (plan);
   if (st != HL_OK)
     {

@@ -365,6 +365,52 @@ hl_image_verify (const HlRadiograph *rg, char *message, size_t message_size)
   return check;
 }
 
+HlGrayImage *
+hl_image_load_checked (const HlRadiograph *rg, HlError *err)
+{
+  if (!rg->present)
+    {
+      hl_error_set (err, HL_ERR_INVALID, "radiograph", "%s", _("The plan has no radiograph"));
+      return NULL;
+    }
+  char message[HL_IMAGE_PATH_MAX + 128];
+  HlImageCheck check = hl_image_verify (rg, message, sizeof message);
+  if (check != HL_IMAGE_OK)
+    {
+      hl_error_set (err, check == HL_IMAGE_CHANGED ? HL_ERR_INVALID : HL_ERR_IO, rg->path,
+                    "%s", message);
+      return NULL;
+    }
+  return hl_gray_image_load (rg->path, err);
+}
+
+/* The grey range of an image: 0 .. 2^bits - 1 (65535 without one, and for
+ * an image rescaled onto the whole 16-bit range). */
+static double
+grey_top (const HlGrayImage *img)
+{
+  int bits = img != NULL && img->bits > 0 && img->bits <= 16 ? img->bits : 16;
+  if (img != NULL && img->value_scale != 1.0)
+    bits = 16;
+  return (double) ((1u << bits) - 1u);
+}
+
+void
+hl_radiograph_display_window (const HlRadiograph *rg, const HlGrayImage *img,
+                              double *centre, double *width)
+{
+  if (rg->window_width > 0.0)
+    {
+      *centre = rg->window_centre;
+      *width = rg->window_width;
+    }
+  else if (rg->brightness != 0.0 || rg->contrast != 1.0 || img == NULL)
+    hl_window_from_brightness_contrast (rg->brightness, rg->contrast, grey_top (img),
+                                        centre, width);
+  else
+    hl_gray_image_default_window (img, centre, width, NULL);
+}
+
 /* The folder of `file` made absolute and free of "." and "..", links
  * followed (realpath), in out. */
 static bool

@@ -134,6 +134,22 @@ HlStatus hl_file_sha256_hex (const char *path, char hex[65], HlError *err);
 HlImageCheck hl_image_verify (const HlRadiograph *rg, char *message,
                               size_t message_size);
 
+/* The plan's radiograph read for an export (a figure, the report, print):
+ * the file is checked first (hl_image_verify), so that an image moved,
+ * missing or changed since the plan was saved is never drawn under the
+ * plan's landmarks.  NULL with err naming the file and saying which when
+ * the plan has none, the file is missing, changed or unreadable, or it
+ * cannot be decoded (hl_gray_image_load). */
+HlGrayImage *hl_image_load_checked (const HlRadiograph *rg, HlError *err);
+
+/* The window (centre and width in held values) the plan shows the image
+ * with: the plan's own window; else what the brightness and contrast of
+ * an older plan showed; else the image's preset or the automatic window
+ * (hl_gray_image_default_window).  `img` may be NULL while the image is
+ * not read: then the 16-bit range stands for the image's. */
+void hl_radiograph_display_window (const HlRadiograph *rg, const HlGrayImage *img,
+                                   double *centre, double *width);
+
 /* `path` resolved against the folder of `base_file` (the plan file) when
  * relative; absolute paths are copied.  Fails when it does not fit. */
 HlStatus hl_image_resolve_path (const char *base_file, const char *path,

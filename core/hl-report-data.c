@@ -40,6 +40,7 @@ hl_report_settings_init (HlReportSettings *s)
   s->target_jrf_bw = HL_REPORT_TARGET_JRF_BW_DEFAULT;
   s->uncertainty = true;
   s->figure_option = HL_REPORT_FIGURE_FIRST;
+  s->underlay = true;
 }
 
 static double

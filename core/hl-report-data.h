@@ -46,6 +46,8 @@ typedef struct {
   bool uncertainty;        /* run the Monte Carlo: ranges and chart bands */
   int figure_option;       /* option in the schematic: -1 native, or an index;
                             * HL_REPORT_FIGURE_FIRST: the first option if any */
+  bool underlay;           /* the radiograph under the schematic when the plan
+                            * has one (default true; render/hl-underlay.h) */
 } HlReportSettings;
 
 #define HL_REPORT_FIGURE_FIRST (-2)

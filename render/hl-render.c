@@ -19,6 +19,7 @@
 
 #include "hl-i18n.h"
 #include "hl-render.h"
+#include "hl-underlay.h"
 #include "hl-version.h"
 
 /* ---- Proportions of the drawn bones ------------------------------------
@@ -136,55 +137,6 @@ static bool
 vfinite (HlVec2 a)
 {
   return isfinite (a.x) && isfinite (a.y);
-}
-
-/* ---- Views -------------------------------------------------------------- */
-
-HlVec2
-hl_view_to_screen (const HlView *view, HlVec2 plan)
-{
-  return v2 (plan.x * view->scale + view->tx, -plan.y * view->scale + view->ty);
-}
-
-HlVec2
-hl_view_to_plan (const HlView *view, HlVec2 screen)
-{
-  return v2 ((screen.x - view->tx) / view->scale,
-             -(screen.y - view->ty) / view->scale);
-}
-
-void
-hl_view_fit_box (HlView *view, double x0, double y0, double x1, double y1,
-                 double width, double height, double margin)
-{
-  double bw = fabs (x1 - x0), bh = fabs (y1 - y0);
-  double aw = width - 2.0 * margin, ah = height - 2.0 * margin;
-  if (!(bw > 1.0))
-    bw = 1.0;
-  if (!(bh > 1.0))
-    bh = 1.0;
-  if (!(aw > 1.0))
-    aw = width > 1.0 ? width : 1.0;
-  if (!(ah > 1.0))
-    ah = height > 1.0 ? height : 1.0;
-
-  view->scale = clampd (fmin (aw / bw, ah / bh), HL_VIEW_SCALE_MIN,
-                        HL_VIEW_SCALE_MAX);
-  double cx = 0.5 * (x0 + x1), cy = 0.5 * (y0 + y1);
-  view->tx = 0.5 * width - cx * view->scale;
-  view->ty = 0.5 * height + cy * view->scale;
-}
-
-void
-hl_view_zoom_about (HlView *view, double factor, double sx, double sy)
-{
-  if (!(factor > 0.0) || !isfinite (factor))
-    return;
-  HlVec2 anchor = hl_view_to_plan (view, v2 (sx, sy));
-  view->scale = clampd (view->scale * factor, HL_VIEW_SCALE_MIN,
-                        HL_VIEW_SCALE_MAX);
-  view->tx = sx - anchor.x * view->scale;
-  view->ty = sy + anchor.y * view->scale;
 }
 
 /* ---- Style -------------------------------------------------------------- */
@@ -981,6 +933,22 @@ font (cairo_t *cr, const HlRenderStyle *style, double scale, bool bold)
   cairo_set_font_size (cr, style->font_px * scale);
 }
 
+/* A pale box behind text of the frame when the drawing lies over a
+ * radiograph (style->over_image), so that dark text stays readable on a
+ * dark image; nothing otherwise. */
+#define TEXT_BACKING_ALPHA 0.85
+static void
+text_backing (cairo_t *cr, const HlRenderStyle *style, double x, double y, double w,
+              double h)
+{
+  if (!style->over_image)
+    return;
+  cairo_new_path (cr);
+  cairo_rectangle (cr, x, y, w, h);
+  set_rgba (cr, style->bg, TEXT_BACKING_ALPHA);
+  cairo_fill (cr);
+}
+
 /* A label on a rounded pale pill, centred on (cx, cy). */
 static void
 label_pill (cairo_t *cr, const HlRenderStyle *style, const char *text,
@@ -1213,9 +1181,11 @@ draw_pelvis (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
   cairo_set_line_width (cr, BONE_LINE_PX);
   cairo_set_dash (cr, NULL, 0, 0);
 
+  /* Over a radiograph the bones are outlines only: the image shows them. */
+  double fill = style->over_image ? 0.0 : 1.0;
   cairo_new_path (cr);
   path_spline (cr, view, &l5, true);
-  set_rgba (cr, tone, 1.0);
+  set_rgba (cr, tone, fill);
   cairo_fill_preserve (cr);
   set_rgba (cr, faint, 1.0);
   cairo_stroke (cr);
@@ -1227,7 +1197,7 @@ draw_pelvis (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
       path_spline (cr, view, &sh->obturator[s], true);
     }
   cairo_set_fill_rule (cr, CAIRO_FILL_RULE_EVEN_ODD);
-  set_rgba (cr, tone, 1.0);
+  set_rgba (cr, tone, fill);
   cairo_fill_preserve (cr);
   cairo_set_fill_rule (cr, CAIRO_FILL_RULE_WINDING);
   cairo_path_t *hemis = cairo_copy_path (cr);
@@ -1286,11 +1256,15 @@ draw_femur (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
       cairo_set_dash (cr, NULL, 0, 0);
       return;
     }
-  /* Opaque, so the femoral head covers the acetabulum behind it. */
-  cairo_new_path (cr);
-  path_spline (cr, view, &fm->outline, true);
-  set_rgba (cr, mix (style->bg, style->fg, BONE_FILL_ALPHA * 1.4), 1.0);
-  cairo_fill (cr);
+  /* Opaque, so the femoral head covers the acetabulum behind it; over a
+   * radiograph an outline only. */
+  if (!style->over_image)
+    {
+      cairo_new_path (cr);
+      path_spline (cr, view, &fm->outline, true);
+      set_rgba (cr, mix (style->bg, style->fg, BONE_FILL_ALPHA * 1.4), 1.0);
+      cairo_fill (cr);
+    }
   cairo_set_dash (cr, NULL, 0, 0);
   set_rgba (cr, mix (style->bg, style->fg, BONE_LINE_ALPHA), 1.0);
   stroke_poly (cr, view, &fm->outline, false);
@@ -1723,6 +1697,9 @@ draw_side_markers (cairo_t *cr, const HlRenderStyle *style, double width)
       font (cr, style, 0.8, false);
       cairo_text_extents (cr, words[k], &te);
       double tx = k == 0 ? x : x + SIDE_MARKER_PX - te.x_advance;
+      double ty = y + SIDE_MARKER_PX + 1.0 * style->font_px;
+      text_backing (cr, style, tx - 2.0 * px_size, ty - 0.9 * style->font_px,
+                    te.x_advance + 4.0 * px_size, 1.15 * style->font_px);
       set_rgba (cr, style->fg, 0.75);
       cairo_move_to (cr, tx, y + SIDE_MARKER_PX + 1.0 * style->font_px);
       cairo_show_text (cr, words[k]);
@@ -1763,8 +1740,11 @@ draw_title (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
       snprintf (text + len, sizeof text - len, "...");
       cairo_text_extents (cr, text, &te);
     }
+  double tx = 0.5 * (width - te.x_advance), ty = BOX_MARGIN_PX + 1.2 * style->font_px;
+  text_backing (cr, style, tx - 4.0 * px_size, ty - 1.15 * style->font_px,
+                te.x_advance + 8.0 * px_size, 1.5 * style->font_px);
   set_rgba (cr, style->fg, 1.0);
-  cairo_move_to (cr, 0.5 * (width - te.x_advance), BOX_MARGIN_PX + 1.2 * style->font_px);
+  cairo_move_to (cr, tx, ty);
   cairo_show_text (cr, text);
 }
 
@@ -1795,6 +1775,8 @@ draw_bar (cairo_t *cr, const HlRenderStyle *style, double x, double y,
                0.75 * style->font_px + 0.45 * style->font_px };
   if (!draw)
     return box;
+  text_backing (cr, style, box.x - 2.0 * px_size, box.y - 2.0 * px_size,
+                box.w + 4.0 * px_size, box.h + 4.0 * px_size);
   cairo_set_dash (cr, NULL, 0, 0);
   cairo_set_line_width (cr, 2.0 * px_size);
   cairo_set_line_cap (cr, CAIRO_LINE_CAP_BUTT);
@@ -2036,7 +2018,7 @@ draw_caution (cairo_t *cr, const HlRenderStyle *style, double width,
 
   cairo_new_path (cr);
   cairo_rectangle (cr, 0, y, width, bh);
-  set_rgba (cr, style->bg, 0.92);
+  set_rgba (cr, style->bg, style->over_image ? 1.0 : 0.92);
   cairo_fill (cr);
   set_rgba (cr, style->fg, 0.4);
   cairo_set_line_width (cr, 1.0 * px_size);
@@ -2224,19 +2206,51 @@ hl_render_hit_landmark (const HlPlan *plan, const HlView *view, double sx,
 
 /* ---- Figures ---------------------------------------------------------------- */
 
+/* The style, scene and view of a figure. */
+static void
+figure_setup (const HlPlan *plan, int option_index, int width, int height,
+              HlRenderPreset preset, HlRenderStyle *style, HlScene *scene, HlView *view)
+{
+  hl_render_style_init (style, false);
+  hl_render_style_for_target (style, width, height, preset);
+  style->show_caution = true;
+  hl_scene_build (scene, plan, option_index);
+  /* The margin at this figure's size, not at the last drawing's. */
+  px_size = style->size;
+  hl_render_fit_view_framed (scene, style, width, height, FIT_MARGIN_PX, view);
+}
+
+void
+hl_render_figure_view (const HlPlan *plan, int option_index, int width, int height,
+                       HlRenderPreset preset, HlView *view)
+{
+  HlRenderStyle style;
+  HlScene scene;
+  figure_setup (plan, option_index, width, height, preset, &style, &scene, view);
+}
+
 void
 hl_render_figure_draw (cairo_t *cr, const HlPlan *plan, int option_index,
                        int width, int height, HlRenderPreset preset,
-                       HlRenderLayout *layout)
+                       HlUnderlay *underlay, HlRenderLayout *layout)
 {
   HlRenderStyle style;
-  hl_render_style_init (&style, false);
-  hl_render_style_for_target (&style, width, height, preset);
-  style.show_caution = true;
-  style.layout = layout;
   HlScene scene;
-  hl_scene_build (&scene, plan, option_index);
   HlView view;
-  hl_render_fit_view_framed (&scene, &style, width, height, FIT_MARGIN_PX, &view);
+  figure_setup (plan, option_index, width, height, preset, &style, &scene, &view);
+  style.layout = layout;
+  if (underlay != NULL)
+    {
+      /* The paper, then the radiograph at the figure's scale (1 device px
+       * per px of the figure), then the drawing over it. */
+      set_rgba (cr, style.bg, 1.0);
+      cairo_paint (cr);
+      if (hl_underlay_draw_plan (underlay, cr, plan, &view, 1.0))
+        {
+          style.paint_background = false;
+          style.over_image = true;
+          style.hide_schematic = !plan->radiograph.schematic_visible;
+        }
+    }
   hl_render_scene (cr, &scene, &view, &style, width, height);
 }

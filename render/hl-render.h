@@ -33,6 +33,7 @@
 #include "hl-plan.h"
 #include "hl-solve.h"
 #include "hl-template-shape.h"
+#include "hl-view.h"
 
 #ifdef __cplusplus
 extern "C" {
@@ -40,28 +41,10 @@ extern "C" {
 
 /* Millimetres of drawing per body weight of force. */
 #define HL_RENDER_FORCE_MM_PER_BW 40.0
-/* Zoom limits of a view, px per mm. */
-#define HL_VIEW_SCALE_MIN 0.05
-#define HL_VIEW_SCALE_MAX 40.0
+/* A radiograph under a drawing (hl-underlay.h). */
+typedef struct _HlUnderlay HlUnderlay;
 
-/* ---- Views ------------------------------------------------------------ */
-
-typedef struct {
-  double scale;   /* px per mm */
-  double tx, ty;  /* px */
-} HlView;
-
-HlVec2 hl_view_to_screen (const HlView *view, HlVec2 plan);
-HlVec2 hl_view_to_plan (const HlView *view, HlVec2 screen);
-
-/* Fits the plan-frame box [x0, x1] x [y0, y1] into a width x height
- * rectangle with `margin` px on each side, centred.  A degenerate box or
- * rectangle gives a usable view all the same. */
-void hl_view_fit_box (HlView *view, double x0, double y0, double x1,
-                      double y1, double width, double height, double margin);
-/* Multiplies the scale by `factor` (clamped to the limits) keeping the
- * plan point under the screen point (sx, sy) where it is. */
-void hl_view_zoom_about (HlView *view, double factor, double sx, double sy);
+/* Views (HlView, plan <-> screen): hl-view.h. */
 
 /* ---- Layout ----------------------------------------------------------- */
 
@@ -118,6 +101,8 @@ typedef struct {
   bool show_labels;          /* force values and moment arm lengths */
   bool hide_schematic;       /* no bones, midline or cups: a radiograph
                               * shows them (forces and handles stay) */
+  bool over_image;           /* drawn over a radiograph: the frame's text
+                              * (title, side words, bars) on a pale backing */
   int hover_landmark;        /* HlLandmarkId or -1 */
   int selected_landmark;     /* HlLandmarkId or -1 */
   int hover_template;        /* HlTemplatePart (hl-render-template.h) or -1 */
@@ -226,11 +211,20 @@ int hl_render_hit_landmark (const HlPlan *plan, const HlView *view,
  * hl_figure_save() (render/hl-report.h), through the atomic writer. */
 #define HL_FIGURE_SIZE_MIN 64
 #define HL_FIGURE_SIZE_MAX 8192
+/* The view a width x height figure of the plan is drawn with (as
+ * hl_render_figure_draw fits it): for placing things over a figure and for
+ * the tests. */
+void hl_render_figure_view (const HlPlan *plan, int option_index, int width,
+                            int height, HlRenderPreset preset, HlView *view);
 /* Draws the figure of the plan into `cr` as the files get it, recording
- * the layout into `layout` (may be NULL): for the tests. */
+ * the layout into `layout` (may be NULL).  With `underlay` (NULL: none;
+ * hl_underlay_for_plan) the radiograph lies under the drawing where the
+ * plan's calibration puts it, at the figure's scale, with the plan's
+ * window, opacity and choice of drawing the schematic bones over it; the
+ * forces, labels, templates, frame and caution are drawn over it. */
 void hl_render_figure_draw (cairo_t *cr, const HlPlan *plan, int option_index,
                             int width, int height, HlRenderPreset preset,
-                            HlRenderLayout *layout);
+                            HlUnderlay *underlay, HlRenderLayout *layout);
 
 #ifdef __cplusplus
 }

@@ -32,6 +32,7 @@
 #include "hl-plan-io.h"
 #include "hl-render.h"
 #include "hl-report.h"
+#include "hl-underlay.h"
 #include "hl-version.h"
 
 /* Page geometry, pt. */
@@ -156,6 +157,9 @@ struct HlReport {
   const HlPlan *plan;
   int figure_option;
   HlReportSettings settings;
+  HlUnderlay *underlay;    /* the radiograph under the schematic, or NULL */
+  bool underlay_left_out;  /* asked for but not drawn: underlay_note says why */
+  HlError underlay_note;
 
   PangoContext *pango;
   double scale;
@@ -818,6 +822,9 @@ layout (HlReport *r, double scale)
 /* The schematic of page 2 in a width x height box at the report's own
  * text size; markers, lines and bars follow it. */
 #define REPORT_FIGURE_FONT_PT 8.0
+/* Device px per point the radiograph's copy is chosen for: a page printed
+ * at 300 dpi (common practice for print), 300 / 72. */
+#define REPORT_UNDERLAY_DETAIL (300.0 / 72.0)
 
 static void
 report_figure (const HlReport *r, cairo_t *cr, double width, double height,
@@ -835,6 +842,17 @@ report_figure (const HlReport *r, cairo_t *cr, double width, double height,
   hl_scene_build (&scene, r->plan, r->figure_option);
   hl_render_fit_view_framed (&scene, &style, width, height, FIGURE_MARGIN_PX * style.size,
                              &view);
+  if (r->underlay != NULL)
+    {
+      cairo_set_source_rgb (cr, style.bg.r, style.bg.g, style.bg.b);
+      cairo_paint (cr);
+      if (hl_underlay_draw_plan (r->underlay, cr, r->plan, &view, REPORT_UNDERLAY_DETAIL))
+        {
+          style.paint_background = false;
+          style.over_image = true;
+          style.hide_schematic = !r->plan->radiograph.schematic_visible;
+        }
+    }
   hl_render_scene (cr, &scene, &view, &style, width, height);
 }
 
@@ -1019,6 +1037,14 @@ hl_report_new (const HlPlan *plan, const HlReportSettings *settings, HlError *er
   r->plan = d->plan;
   r->figure_option = d->figure_option;
   r->settings = d->settings;
+  /* The radiograph under the schematic: a missing or changed image leaves
+   * the report complete without it, and the note says why. */
+  hl_error_clear (&r->underlay_note);
+  if (r->settings.underlay && r->plan->radiograph.present)
+    {
+      r->underlay = hl_underlay_for_plan (r->plan, &r->underlay_note);
+      r->underlay_left_out = r->underlay == NULL;
+    }
 
   /* One context for measuring and drawing, independent of any device:
    * unhinted metrics, so a line breaks where it was measured on a PDF, a
@@ -1056,8 +1082,15 @@ hl_report_free (HlReport *r)
     g_object_unref (r->pango);
   g_free (r->items);
   g_free (r->views);
+  hl_underlay_free (r->underlay);
   hl_report_data_free (r->d);
   g_free (r);
+}
+
+const HlError *
+hl_report_underlay_note (const HlReport *r)
+{
+  return r->underlay_left_out ? &r->underlay_note : NULL;
 }
 
 int
@@ -1192,9 +1225,9 @@ hl_figure_format_from_path (const char *path, HlFigureFormat *format)
 
 static void
 figure_draw (cairo_t *cr, const HlPlan *plan, int option_index, int width, int height,
-             HlRenderPreset preset)
+             HlRenderPreset preset, HlUnderlay *underlay)
 {
-  hl_render_figure_draw (cr, plan, option_index, width, height, preset, NULL);
+  hl_render_figure_draw (cr, plan, option_index, width, height, preset, underlay, NULL);
 }
 
 HlStatus
@@ -1202,12 +1235,12 @@ hl_figure_to_buffer (const HlPlan *plan, int option_index, int width, int height
                      HlFigureFormat format, unsigned char **out, size_t *size, HlError *err)
 {
   return hl_figure_to_buffer_preset (plan, option_index, width, height,
-                                     HL_RENDER_PRESET_AUTO, format, out, size, err);
+                                     HL_RENDER_PRESET_AUTO, NULL, format, out, size, err);
 }
 
 HlStatus
 hl_figure_to_buffer_preset (const HlPlan *plan, int option_index, int width, int height,
-                            HlRenderPreset preset, HlFigureFormat format,
+                            HlRenderPreset preset, HlUnderlay *underlay, HlFigureFormat format,
                             unsigned char **out, size_t *size, HlError *err)
 {
   hl_render_preset_size (preset, &width, &height);
@@ -1238,7 +1271,7 @@ hl_figure_to_buffer_preset (const HlPlan *plan, int option_index, int width, int
       cairo_surface_t *surface = cairo_svg_surface_create_for_stream (mem_write_cb, &m,
                                                                       width, height);
       cairo_t *cr = cairo_create (surface);
-      figure_draw (cr, plan, option_index, width, height, preset);
+      figure_draw (cr, plan, option_index, width, height, preset, underlay);
       cairo_destroy (cr);
       return finish_stream (surface, &m, _("figure"), out, size, err);
     }
@@ -1251,7 +1284,7 @@ hl_figure_to_buffer_preset (const HlPlan *plan, int option_index, int width, int
                            _("There is not enough memory for the figure."));
     }
   cairo_t *cr = cairo_create (img);
-  figure_draw (cr, plan, option_index, width, height, preset);
+  figure_draw (cr, plan, option_index, width, height, preset, underlay);
   cairo_destroy (cr);
   cairo_status_t cs = cairo_surface_write_to_png_stream (img, mem_write_cb, &m);
   cairo_surface_destroy (img);
@@ -1271,12 +1304,13 @@ hl_figure_save (const HlPlan *plan, int option_index, int width, int height,
                 const char *path, HlError *err)
 {
   return hl_figure_save_preset (plan, option_index, width, height,
-                                HL_RENDER_PRESET_AUTO, path, err);
+                                HL_RENDER_PRESET_AUTO, NULL, path, err);
 }
 
 HlStatus
 hl_figure_save_preset (const HlPlan *plan, int option_index, int width, int height,
-                       HlRenderPreset preset, const char *path, HlError *err)
+                       HlRenderPreset preset, HlUnderlay *underlay, const char *path,
+                       HlError *err)
 {
   HlFigureFormat format;
   if (!hl_figure_format_from_path (path, &format))
@@ -1286,7 +1320,7 @@ hl_figure_save_preset (const HlPlan *plan, int option_index, int width, int heig
   unsigned char *data = NULL;
   size_t size = 0;
   HlStatus st = hl_figure_to_buffer_preset (plan, option_index, width, height, preset,
-                                            format, &data, &size, err);
+                                            underlay, format, &data, &size, err);
   if (st == HL_OK)
     st = hl_write_file_atomic (path, data, size, err);
   free (data);

@@ -56,6 +56,12 @@ int hl_report_n_pages (const HlReport *report);
 /* The content the report shows (the core's). */
 const HlReportData *hl_report_data (const HlReport *report);
 
+/* Why the radiograph asked for (settings.underlay) is not under the
+ * schematic: the plan's image is missing, changed, unreadable or cannot be
+ * placed.  NULL when it is there, or was not asked for, or the plan has
+ * none.  The report is complete without it; the caller says so. */
+const HlError *hl_report_underlay_note (const HlReport *report);
+
 /* Draws page `page` (0-based) with its origin at the top left, in points
  * of an A4 page; the caller scales for anything else. */
 void hl_report_draw_page (const HlReport *report, cairo_t *cr, int page);
@@ -92,14 +98,15 @@ HlStatus hl_figure_to_buffer (const HlPlan *plan, int option_index, int width,
 HlStatus hl_figure_save (const HlPlan *plan, int option_index, int width,
                          int height, const char *path, HlError *err);
 /* Both at a preset's size and text (HL_RENDER_PRESET_AUTO: width x height
- * with text and markers scaled to it). */
+ * with text and markers scaled to it), with the radiograph `underlay`
+ * under the drawing (NULL: none; hl_underlay_for_plan, borrowed). */
 HlStatus hl_figure_to_buffer_preset (const HlPlan *plan, int option_index, int width,
                                      int height, HlRenderPreset preset,
-                                     HlFigureFormat format, unsigned char **out,
-                                     size_t *size, HlError *err);
+                                     HlUnderlay *underlay, HlFigureFormat format,
+                                     unsigned char **out, size_t *size, HlError *err);
 HlStatus hl_figure_save_preset (const HlPlan *plan, int option_index, int width,
-                                int height, HlRenderPreset preset, const char *path,
-                                HlError *err);
+                                int height, HlRenderPreset preset, HlUnderlay *underlay,
+                                const char *path, HlError *err);
 
 /* ---- Sweep tables ----------------------------------------------------- */
 

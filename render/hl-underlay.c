@@ -14,6 +14,7 @@
 #include <glib.h>
 #include <glib/gi18n.h>
 
+#include "hl-image.h"
 #include "hl-underlay.h"
 
 /* Halved copies down to this size; below it the smallest is used. */
@@ -295,17 +296,19 @@ hl_underlay_plan_to_pixel (HlVec2 origin_mm, double mm_per_px, HlVec2 plan)
   return (HlVec2) { (plan.x - origin_mm.x) / mm_per_px, (origin_mm.y - plan.y) / mm_per_px };
 }
 
-void
-hl_underlay_draw (HlUnderlay *self, cairo_t *cr, const HlView *view,
-                  HlVec2 origin_mm, double mm_per_px, double opacity)
+/* As hl_underlay_draw, the copy chosen for `detail` device px per unit. */
+static void
+draw_detail (HlUnderlay *self, cairo_t *cr, const HlView *view, HlVec2 origin_mm,
+             double mm_per_px, double opacity, double detail)
 {
   if (self == NULL || !(mm_per_px > 0.0) || !(opacity > 0.0))
     return;
 
   /* Screen px per full-size image pixel, then the copy to draw from. */
   double k = mm_per_px * view->scale;
+  double kd = k * (detail > 0.0 && isfinite (detail) ? detail : 1.0);
   int level = 0;
-  while (level + 1 < self->n_levels && k * (1 << (level + 1)) <= 1.0 / MIP_MIN_ENLARGEMENT)
+  while (level + 1 < self->n_levels && kd * (1 << (level + 1)) <= 1.0 / MIP_MIN_ENLARGEMENT)
     level++;
   const Level *l = &self->level[level];
   double sx = (double) self->width / l->w;
@@ -342,4 +345,48 @@ hl_underlay_draw (HlUnderlay *self, cairo_t *cr, const HlView *view,
   else
     cairo_paint_with_alpha (cr, opacity);
   cairo_restore (cr);
+}
+
+void
+hl_underlay_draw (HlUnderlay *self, cairo_t *cr, const HlView *view,
+                  HlVec2 origin_mm, double mm_per_px, double opacity)
+{
+  draw_detail (self, cr, view, origin_mm, mm_per_px, opacity, 1.0);
+}
+
+HlUnderlay *
+hl_underlay_for_plan (const HlPlan *plan, HlError *err)
+{
+  const HlRadiograph *rg = &plan->radiograph;
+  /* An image the calibration cannot place is not read at all. */
+  HlImagePlacement placement;
+  if (rg->present && hl_image_placement (plan, &placement, err) != HL_OK)
+    return NULL;
+  HlGrayImage *img = hl_image_load_checked (rg, err);
+  if (img == NULL)
+    return NULL;
+  double centre, width;
+  hl_radiograph_display_window (rg, img, &centre, &width);
+  HlUnderlay *self = hl_underlay_new_from_gray (img);
+  if (self == NULL)
+    {
+      hl_error_set (err, HL_ERR_NOMEM, rg->path, _("Out of memory for the image \"%s\""),
+                    rg->path);
+      return NULL;
+    }
+  self->path = g_strdup (rg->path);
+  hl_underlay_set_window (self, centre, width, rg->invert);
+  return self;
+}
+
+bool
+hl_underlay_draw_plan (HlUnderlay *self, cairo_t *cr, const HlPlan *plan,
+                       const HlView *view, double detail)
+{
+  HlImagePlacement placement;
+  if (self == NULL || hl_image_placement (plan, &placement, NULL) != HL_OK)
+    return false;
+  draw_detail (self, cr, view, placement.origin_mm, placement.mm_per_pixel,
+               plan->radiograph.opacity, detail);
+  return true;
 }

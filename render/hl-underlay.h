@@ -18,7 +18,7 @@
  *
  * Placement: the image's top-left corner lies at `origin_mm` in the plan
  * frame, each pixel `mm_per_px` plan mm wide (hl_image_placement); the
- * view maps the plan frame to the screen (hl-render.h).
+ * view maps the plan frame to the screen (hl-view.h).
  */
 #pragma once
 
@@ -26,8 +26,9 @@
 #include <cairo.h>
 
 #include "hl-gray-image.h"
-#include "hl-render.h"
+#include "hl-plan.h"
 #include "hl-types.h"
+#include "hl-view.h"
 
 #ifdef __cplusplus
 extern "C" {
@@ -70,6 +71,27 @@ double hl_underlay_window_value (double v, double centre, double width, bool inv
 /* Paints the image at `opacity` (0..1) under whatever is drawn next. */
 void hl_underlay_draw (HlUnderlay *self, cairo_t *cr, const HlView *view,
                        HlVec2 origin_mm, double mm_per_px, double opacity);
+
+/* ---- Exports ------------------------------------------------------------ */
+
+/* The plan's radiograph for an export (figure, report, print), shown as
+ * the window shows it: the file checked against the plan's digest and read
+ * by the core (hl_image_load_checked), windowed with the plan's window or
+ * the image's default (hl_radiograph_display_window), inverted as the plan
+ * says.  NULL with err saying why when the plan has none, its calibration
+ * gives no magnification to place it with, or the file is missing,
+ * changed, unreadable or cannot be decoded: the export then goes on
+ * without it and says so. */
+HlUnderlay *hl_underlay_for_plan (const HlPlan *plan, HlError *err);
+
+/* Paints the image where the plan's calibration puts it
+ * (hl_image_placement), at the plan's opacity, under whatever is drawn
+ * next.  `detail` is the device pixels per drawing unit the copy is chosen
+ * for: 1 for a PNG (px), about 4 for a PDF drawn in points and printed at
+ * 300 dpi.  False, drawing nothing, when the calibration gives no
+ * magnification. */
+bool hl_underlay_draw_plan (HlUnderlay *self, cairo_t *cr, const HlPlan *plan,
+                            const HlView *view, double detail);
 
 /* The pixel (u, v) under a plan point, for tests. */
 HlVec2 hl_underlay_plan_to_pixel (HlVec2 origin_mm, double mm_per_px, HlVec2 plan);

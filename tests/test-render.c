@@ -16,8 +16,10 @@
 #include <string.h>
 #include <unistd.h>
 
+#include "hl-image.h"
 #include "hl-render.h"
 #include "hl-report.h"
+#include "hl-underlay.h"
 
 #define W 1000
 #define H 700
@@ -693,7 +695,7 @@ START_TEST (test_layout_figures)
       HlRenderLayout layout;
       cairo_surface_t *surface = cairo_image_surface_create (CAIRO_FORMAT_RGB24, w, h);
       cairo_t *cr = cairo_create (surface);
-      hl_render_figure_draw (cr, plan, option, w, h, c->preset, &layout);
+      hl_render_figure_draw (cr, plan, option, w, h, c->preset, NULL, &layout);
       cairo_destroy (cr);
       cairo_surface_destroy (surface);
       char what[96];
@@ -759,6 +761,193 @@ START_TEST (test_layout_report)
 }
 END_TEST
 
+/* ---- The radiograph under a figure ------------------------------------------ */
+
+/* A synthetic radiograph: mid-grey (128) with a black square of
+ * UL_SQUARE_PX pixels centred on pixel (UL_CENTRE_PX, UL_CENTRE_PX). */
+#define UL_SIDE_PX 400
+#define UL_CENTRE_PX 200
+#define UL_SQUARE_PX 60
+#define UL_GREY 128
+/* A free spot of the demo figure (between the femora, below the pelvis,
+ * beside the midline and the weight line), plan mm. */
+#define UL_FREE_X_MM (-55.0)
+#define UL_FREE_Y_MM (-175.0)
+/* Image pixels from the square's edge to the points checked inside and
+ * outside it: a few screen px at the smallest figure, clear of the
+ * anti-aliased edge. */
+#define UL_INSIDE_PX 12.0
+#define UL_OUTSIDE_PX 40.0
+
+static HlUnderlay *
+synthetic_underlay (void)
+{
+  cairo_surface_t *img = cairo_image_surface_create (CAIRO_FORMAT_RGB24, UL_SIDE_PX, UL_SIDE_PX);
+  cairo_t *cr = cairo_create (img);
+  cairo_set_source_rgb (cr, UL_GREY / 255.0, UL_GREY / 255.0, UL_GREY / 255.0);
+  cairo_paint (cr);
+  cairo_set_source_rgb (cr, 0, 0, 0);
+  cairo_rectangle (cr, UL_CENTRE_PX - UL_SQUARE_PX / 2, UL_CENTRE_PX - UL_SQUARE_PX / 2,
+                   UL_SQUARE_PX, UL_SQUARE_PX);
+  cairo_fill (cr);
+  cairo_destroy (cr);
+  HlUnderlay *u = hl_underlay_new_from_surface (img);
+  cairo_surface_destroy (img);
+  ck_assert_ptr_nonnull (u);
+  /* centre 128, width 256: 0 black, 128 mid-grey, as held */
+  hl_underlay_set_window (u, UL_GREY, 256.0, false);
+  return u;
+}
+
+/* The demo plan with the synthetic image placed so that the square's
+ * centre lies on the free spot; *mpp gets plan mm per image pixel. */
+static HlPlan *
+underlay_plan (double *mpp)
+{
+  HlPlan *plan = demo_plan ();
+  hl_image_attach (plan, "/nonexistent/synthetic.png", NULL, 0.3, UL_SIDE_PX, UL_SIDE_PX);
+  HlImagePlacement pl;
+  HlError err = { 0 };
+  ck_assert_int_eq (hl_image_placement (plan, &pl, &err), HL_OK);
+  *mpp = pl.mm_per_pixel;
+  plan->radiograph.origin_mm.x = UL_FREE_X_MM - UL_CENTRE_PX * pl.mm_per_pixel;
+  plan->radiograph.origin_mm.y = UL_FREE_Y_MM + UL_CENTRE_PX * pl.mm_per_pixel;
+  return plan;
+}
+
+/* The grey (mean of R, G, B) of the pixel under a plan point. */
+static double
+grey_at (cairo_surface_t *s, const HlView *view, HlVec2 plan)
+{
+  HlVec2 p = hl_view_to_screen (view, plan);
+  int x = (int) floor (p.x), y = (int) floor (p.y);
+  ck_assert (x >= 0 && y >= 0 && x < cairo_image_surface_get_width (s)
+             && y < cairo_image_surface_get_height (s));
+  cairo_surface_flush (s);
+  const unsigned char *row = cairo_image_surface_get_data (s)
+                             + (size_t) y * cairo_image_surface_get_stride (s);
+  uint32_t px = ((const uint32_t *) row)[x];
+  return (((px >> 16) & 0xff) + ((px >> 8) & 0xff) + (px & 0xff)) / 3.0;
+}
+
+typedef struct {
+  const char *name;
+  int width, height;
+  HlRenderPreset preset;
+} UnderlayCase;
+
+static const UnderlayCase underlay_cases[] = {
+  { "400 x 300", 400, 300, HL_RENDER_PRESET_AUTO },
+  { "1200 x 900", 1200, 900, HL_RENDER_PRESET_AUTO },
+  { "slide", 1920, 1080, HL_RENDER_PRESET_SLIDE },
+  { "A4 portrait", 595, 842, HL_RENDER_PRESET_AUTO },
+};
+
+/* The image lies where the calibration puts it, at the figure's scale,
+ * with the window set; the layout holds over it; without an underlay the
+ * spot is paper. */
+START_TEST (test_figure_underlay)
+{
+  const UnderlayCase *c = &underlay_cases[_i];
+  double mpp;
+  HlPlan *plan = underlay_plan (&mpp);
+  HlUnderlay *u = synthetic_underlay ();
+  int w = c->width, h = c->height;
+  HlView view;
+  hl_render_figure_view (plan, 0, w, h, c->preset, &view);
+  const HlVec2 centre = { UL_FREE_X_MM, UL_FREE_Y_MM };
+  /* inside the square near its edge, and just outside it on the grey */
+  const HlVec2 inside = { UL_FREE_X_MM + (UL_SQUARE_PX / 2 - UL_INSIDE_PX) * mpp, UL_FREE_Y_MM };
+  const HlVec2 outside = { UL_FREE_X_MM + (UL_SQUARE_PX / 2 + UL_OUTSIDE_PX) * mpp, UL_FREE_Y_MM };
+
+  for (int with = 0; with < 2; with++)
+    {
+      HlRenderLayout layout;
+      cairo_surface_t *s = cairo_image_surface_create (CAIRO_FORMAT_RGB24, w, h);
+      cairo_t *cr = cairo_create (s);
+      hl_render_figure_draw (cr, plan, 0, w, h, c->preset, with ? u : NULL, &layout);
+      cairo_destroy (cr);
+      char what[96];
+      snprintf (what, sizeof what, "%s, %s the radiograph", c->name, with ? "with" : "without");
+      double gc = grey_at (s, &view, centre), gi = grey_at (s, &view, inside),
+             go = grey_at (s, &view, outside);
+      if (with)
+        {
+          ck_assert_msg (gc < 20.0 && gi < 20.0, "%s: the square is %.0f / %.0f, not black",
+                         what, gc, gi);
+          ck_assert_msg (fabs (go - UL_GREY) <= CHANNEL_TOL,
+                         "%s: beside the square %.0f, not the image's grey %d", what, go,
+                         UL_GREY);
+        }
+      else
+        ck_assert_msg (gc > 255.0 - INK_TOL && gi > 255.0 - INK_TOL,
+                       "%s: the free spot is %.0f / %.0f, not paper", what, gc, gi);
+      check_layout (what, &layout, w, h,
+                    c->preset == HL_RENDER_PRESET_SLIDE ? HL_RENDER_SLIDE_TEXT_PX
+                                                        : HL_RENDER_TEXT_MIN_PX);
+      bool caution = false;
+      for (int i = 0; i < layout.n; i++)
+        caution |= layout.box[i].kind == HL_BOX_CAUTION;
+      ck_assert_msg (caution, "%s: no caution", what);
+      cairo_surface_destroy (s);
+    }
+
+  /* The window drawn is the one set: inverted, the square is white. */
+  hl_underlay_set_window (u, UL_GREY, 256.0, true);
+  cairo_surface_t *s = cairo_image_surface_create (CAIRO_FORMAT_RGB24, w, h);
+  cairo_t *cr = cairo_create (s);
+  hl_render_figure_draw (cr, plan, 0, w, h, c->preset, u, NULL);
+  cairo_destroy (cr);
+  ck_assert_msg (grey_at (s, &view, centre) > 235.0, "%s: inverted, the square is %.0f",
+                 c->name, grey_at (s, &view, centre));
+  cairo_surface_destroy (s);
+
+  hl_underlay_free (u);
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* The report loads the plan's radiograph itself: a missing file leaves the
+ * report complete and says why; not asked for, nothing is said. */
+START_TEST (test_report_underlay_missing)
+{
+  double mpp;
+  HlPlan *plan = underlay_plan (&mpp);
+  HlError err = { 0 };
+  HlReportSettings settings;
+  hl_report_settings_init (&settings);
+  ck_assert (settings.underlay);
+  settings.uncertainty = false;
+  settings.date = "2026-01-01";
+  HlReport *r = hl_report_new (plan, &settings, &err);
+  ck_assert_msg (r != NULL, "%s", err.message);
+  const HlError *note = hl_report_underlay_note (r);
+  ck_assert_ptr_nonnull (note);
+  ck_assert_msg (strstr (note->message, "/nonexistent/synthetic.png") != NULL,
+                 "the note does not name the file: %s", note->message);
+  HlRenderLayout layout;
+  double w, h;
+  hl_report_figure_layout (r, &layout, &w, &h);
+  check_layout ("report page 2, radiograph missing", &layout, w, h, 6.0);
+  hl_report_free (r);
+
+  settings.underlay = false;
+  r = hl_report_new (plan, &settings, &err);
+  ck_assert_ptr_nonnull (r);
+  ck_assert_ptr_null (hl_report_underlay_note (r));
+  hl_report_free (r);
+
+  /* A plan whose image the calibration cannot place is refused too. */
+  HlUnderlay *u = hl_underlay_for_plan (plan, &err);
+  ck_assert_ptr_null (u);
+  plan->radiograph.present = false;
+  u = hl_underlay_for_plan (plan, &err);
+  ck_assert_ptr_null (u);
+  ck_assert_int_ne (err.status, HL_OK);
+  hl_plan_free (plan);
+}
+END_TEST
+
 static Suite *
 render_suite (void)
 {
@@ -800,6 +989,13 @@ render_suite (void)
                        sizeof layout_cases / sizeof layout_cases[0]);
   tcase_add_test (tc, test_layout_window);
   tcase_add_test (tc, test_layout_report);
+  suite_add_tcase (s, tc);
+
+  tc = tcase_create ("underlay");
+  tcase_set_timeout (tc, 60);
+  tcase_add_loop_test (tc, test_figure_underlay, 0,
+                       sizeof underlay_cases / sizeof underlay_cases[0]);
+  tcase_add_test (tc, test_report_underlay_missing);
   suite_add_tcase (s, tc);
   return s;
 }

@@ -104,7 +104,7 @@ w_figure_preset (const char *path, size_t *size, char *why, size_t n)
   hl_error_clear (&err);
   *size = 2000;
   return report_err (hl_figure_save_preset (demo, 0, 320, 240, HL_RENDER_PRESET_HALF_SLIDE,
-                                            path, &err), &err, why, n);
+                                            NULL, path, &err), &err, why, n);
 }
 
 static const char csv_text[] =

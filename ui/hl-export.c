@@ -18,6 +18,7 @@
 #include "hl-render.h"
 #include "hl-report.h"
 #include "hl-settings.h"
+#include "hl-underlay.h"
 #include "hl-version.h"
 #include "hl-message.h"
 
@@ -27,6 +28,8 @@
 #define DIALOG_SPACING 8
 #define DIALOG_MARGIN 14
 #define FIGURE_SIZE_STEP 50
+/* The report chooser's choice: the radiograph under the schematic. */
+#define UNDERLAY_CHOICE "underlay"
 #define FIGURE_SIZE_PAGE 200
 
 typedef enum {
@@ -44,11 +47,17 @@ typedef struct {
   GtkWidget *width_spin;
   GtkWidget *height_spin;
   GtkWidget *option_drop;
+  GtkWidget *preset_drop;
+  GtkWidget *underlay_check;
   int figure_width;
   int figure_height;
   int figure_option;           /* -1 native, else an option index */
+  HlRenderPreset figure_preset;
+  gboolean figure_underlay;    /* the radiograph under the figure, when there is one */
+  gboolean report_underlay;    /* ... under the report's schematic (the chooser's choice) */
   HlReport *print_report;      /* while a print runs */
   GtkPrintOperation *print_op;
+  gboolean print_to_file;      /* the test hook's export, not a printer */
 } HlExport;
 
 static void
@@ -80,13 +89,37 @@ show_failure (HlExport *ex, GFile *file, const char *what, const HlError *err)
   hl_message_show_error (GTK_WIDGET (ex->window), primary, secondary);
 }
 
+/* `note`: why the radiograph asked for is left out, or NULL. */
 static void
-say_written (HlExport *ex, const char *what, GFile *file)
+say_written (HlExport *ex, const char *what, GFile *file, const HlError *note)
 {
   g_autofree char *name = g_file_get_parse_name (file);
-  g_autofree char *text = g_strdup_printf (_("%s written to %s"), what, name);
+  g_autofree char *text = NULL;
 
+  if (note != NULL)
+    text = g_strdup_printf (_("%s written to %s, without the radiograph: %s"), what, name,
+                            note->message);
+  else
+    text = g_strdup_printf (_("%s written to %s"), what, name);
   hl_message_show_status (GTK_WIDGET (ex->window), text);
+}
+
+/* The plan's radiograph for an export when asked for and the plan has
+ * one; NULL otherwise, and *left_out set with the reason in `note` when
+ * it was asked for but cannot be drawn. */
+static HlUnderlay *
+export_underlay (const HlPlan *plan, gboolean asked, gboolean *left_out, HlError *note)
+{
+  HlUnderlay *underlay = NULL;
+
+  hl_error_clear (note);
+  *left_out = FALSE;
+  if (asked && plan->radiograph.present)
+    {
+      underlay = hl_underlay_for_plan (plan, note);
+      *left_out = underlay == NULL;
+    }
+  return underlay;
 }
 
 static char *
@@ -129,6 +162,7 @@ report_settings (HlExport *ex, HlReportSettings *settings)
   settings->target_jrf_bw = hl_analysis_panel_get_target_bw (ex->analysis);
   /* The document keeps the selection within its options. */
   settings->figure_option = hl_document_get_selected_option (ex->document);
+  settings->underlay = ex->report_underlay;
 }
 
 static char *
@@ -210,21 +244,40 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
   g_autofree char *path = NULL;
   const char *what = NULL;
   const char *done = NULL;
-  HlError err;
+  HlError err, note;
+  gboolean left_out = FALSE;
 
   hl_error_clear (&err);
+  hl_error_clear (&note);
   switch (kind)
     {
     case EXPORT_REPORT:
       {
         HlReportSettings settings;
+        HlReport *report = NULL;
 
         what = _("report");
         done = _("Report");
         file = hl_export_with_extension (chosen, ".pdf");
         report_settings (ex, &settings);
-        if ((path = local_path (file, &err)) != NULL)
-          hl_report_save_pdf (hl_document_get_plan (ex->document), &settings, path, &err);
+        if ((path = local_path (file, &err)) != NULL
+            && (report = hl_report_new (hl_document_get_plan (ex->document), &settings,
+                                        &err)) != NULL)
+          {
+            unsigned char *pdf = NULL;
+            size_t size = 0;
+            const HlError *why = hl_report_underlay_note (report);
+
+            if (why != NULL)
+              {
+                note = *why;
+                left_out = TRUE;
+              }
+            if (hl_report_pdf_to_buffer (report, &pdf, &size, &err) == HL_OK)
+              hl_write_file_atomic (path, pdf, size, &err);
+            free (pdf);
+            hl_report_free (report);
+          }
       }
       break;
     case EXPORT_FIGURE:
@@ -242,8 +295,15 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
           file = hl_export_with_extension (chosen, filter_name != NULL && strstr (filter_name, "SVG") != NULL
                                          ? ".svg" : ".png");
         if ((path = local_path (file, &err)) != NULL)
-          hl_figure_save (hl_document_get_plan (ex->document), ex->figure_option, ex->figure_width, ex->figure_height,
-                          path, &err);
+          {
+            const HlPlan *plan = hl_document_get_plan (ex->document);
+            HlUnderlay *underlay = export_underlay (plan, ex->figure_underlay, &left_out,
+                                                    &note);
+
+            hl_figure_save_preset (plan, ex->figure_option, ex->figure_width,
+                                   ex->figure_height, ex->figure_preset, underlay, path, &err);
+            hl_underlay_free (underlay);
+          }
       }
       break;
     case EXPORT_SWEEPS:
@@ -263,7 +323,7 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
   if (err.status != HL_OK)
     show_failure (ex, file, what, &err);
   else
-    say_written (ex, done, file);
+    say_written (ex, done, file, left_out ? &note : NULL);
 }
 
 static void
@@ -277,6 +337,13 @@ chooser_response_cb (GtkNativeDialog *dialog, int response, HlExport *ex)
     {
       chosen = gtk_file_chooser_get_file (GTK_FILE_CHOOSER (dialog));
       filter = gtk_file_chooser_get_filter (GTK_FILE_CHOOSER (dialog));
+      if (g_object_get_data (G_OBJECT (dialog), UNDERLAY_CHOICE) != NULL)
+        {
+          const char *choice = gtk_file_chooser_get_choice (GTK_FILE_CHOOSER (dialog),
+                                                            UNDERLAY_CHOICE);
+
+          ex->report_underlay = choice != NULL && strcmp (choice, "true") == 0;
+        }
     }
   if (ex->chooser == dialog)
     {
@@ -318,6 +385,14 @@ choose_file (HlExport *ex, HlExportKind kind)
       g_autoptr(GtkFileFilter) pdf = filter_new (_("PDF documents (*.pdf)"), "*.pdf");
 
       gtk_file_chooser_add_filter (GTK_FILE_CHOOSER (chooser), pdf);
+      if (hl_document_get_plan (ex->document)->radiograph.present)
+        {
+          gtk_file_chooser_add_choice (GTK_FILE_CHOOSER (chooser), UNDERLAY_CHOICE,
+                                       _("Radiograph under the schematic"), NULL, NULL);
+          gtk_file_chooser_set_choice (GTK_FILE_CHOOSER (chooser), UNDERLAY_CHOICE,
+                                       ex->report_underlay ? "true" : "false");
+          g_object_set_data (G_OBJECT (chooser), UNDERLAY_CHOICE, GINT_TO_POINTER (1));
+        }
     }
   else if (kind == EXPORT_FIGURE)
     {
@@ -349,6 +424,46 @@ choose_file (HlExport *ex, HlExportKind kind)
 
 /* ---- the figure's size ---------------------------------------------- */
 
+/* The rows of the size drop-down: a size of one's own, then the presets of
+ * `hiplever-cli figure --preset` (hl_render_preset_size). */
+static const HlRenderPreset preset_rows[] = {
+  HL_RENDER_PRESET_AUTO, HL_RENDER_PRESET_SLIDE, HL_RENDER_PRESET_HALF_SLIDE,
+};
+
+static HlRenderPreset
+preset_of_row (guint row)
+{
+  return row < G_N_ELEMENTS (preset_rows) ? preset_rows[row] : HL_RENDER_PRESET_AUTO;
+}
+
+static guint
+row_of_preset (HlRenderPreset preset)
+{
+  for (guint i = 0; i < G_N_ELEMENTS (preset_rows); i++)
+    if (preset_rows[i] == preset)
+      return i;
+  return 0;
+}
+
+/* A preset fixes the size: the fields show it and wait. */
+static void
+preset_changed_cb (GtkDropDown *drop, GParamSpec *pspec, HlExport *ex)
+{
+  HlRenderPreset preset = preset_of_row (gtk_drop_down_get_selected (drop));
+  gboolean own = preset == HL_RENDER_PRESET_AUTO;
+
+  if (!own)
+    {
+      int w = ex->figure_width, h = ex->figure_height;
+
+      hl_render_preset_size (preset, &w, &h);
+      gtk_spin_button_set_value (GTK_SPIN_BUTTON (ex->width_spin), w);
+      gtk_spin_button_set_value (GTK_SPIN_BUTTON (ex->height_spin), h);
+    }
+  gtk_widget_set_sensitive (ex->width_spin, own);
+  gtk_widget_set_sensitive (ex->height_spin, own);
+}
+
 static void
 size_dialog_response_cb (GtkDialog *dialog, int response, HlExport *ex)
 {
@@ -359,6 +474,9 @@ size_dialog_response_cb (GtkDialog *dialog, int response, HlExport *ex)
       ex->figure_width = gtk_spin_button_get_value_as_int (GTK_SPIN_BUTTON (ex->width_spin));
       ex->figure_height = gtk_spin_button_get_value_as_int (GTK_SPIN_BUTTON (ex->height_spin));
       ex->figure_option = (int) gtk_drop_down_get_selected (GTK_DROP_DOWN (ex->option_drop)) - 1;
+      ex->figure_preset = preset_of_row (gtk_drop_down_get_selected (GTK_DROP_DOWN (ex->preset_drop)));
+      if (gtk_widget_get_sensitive (ex->underlay_check))
+        ex->figure_underlay = gtk_check_button_get_active (GTK_CHECK_BUTTON (ex->underlay_check));
     }
   ex->size_dialog = NULL;
   gtk_window_destroy (GTK_WINDOW (dialog));
@@ -411,7 +529,7 @@ show_size_dialog (HlExport *ex)
   dialog = gtk_dialog_new_with_buttons (_("Export Figure"), GTK_WINDOW (window),
                                         GTK_DIALOG_MODAL | GTK_DIALOG_DESTROY_WITH_PARENT,
                                         _("_Cancel"), GTK_RESPONSE_CANCEL,
-                                        _("_Choose File…"), GTK_RESPONSE_ACCEPT, NULL);
+                                        _("Choose _File…"), GTK_RESPONSE_ACCEPT, NULL);
   gtk_dialog_set_default_response (GTK_DIALOG (dialog), GTK_RESPONSE_ACCEPT);
   grid = gtk_grid_new ();
   gtk_grid_set_row_spacing (GTK_GRID (grid), DIALOG_SPACING);
@@ -421,18 +539,36 @@ show_size_dialog (HlExport *ex)
   gtk_widget_set_margin_top (grid, DIALOG_MARGIN);
   gtk_widget_set_margin_bottom (grid, DIALOG_MARGIN);
 
+  {
+    const char *const sizes[] = {
+      _("Size of your own"),
+      _("Slide: 1920 x 1080 px (16:9), text at least 24 px"),
+      _("Half slide: 960 x 1080 px, text at least 24 px"),
+      NULL,
+    };
+
+    ex->preset_drop = gtk_drop_down_new_from_strings (sizes);
+  }
+  gtk_drop_down_set_selected (GTK_DROP_DOWN (ex->preset_drop), row_of_preset (ex->figure_preset));
+  label = grid_label (_("_Size"));
+  gtk_label_set_mnemonic_widget (GTK_LABEL (label), ex->preset_drop);
+  gtk_grid_attach (GTK_GRID (grid), label, 0, 0, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), ex->preset_drop, 1, 0, 2, 1);
+
   ex->width_spin = size_spin (ex->figure_width, _("Width"));
   ex->height_spin = size_spin (ex->figure_height, _("Height"));
   label = grid_label (_("_Width"));
   gtk_label_set_mnemonic_widget (GTK_LABEL (label), ex->width_spin);
-  gtk_grid_attach (GTK_GRID (grid), label, 0, 0, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), ex->width_spin, 1, 0, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), grid_label (_("px (SVG: pt)")), 2, 0, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), label, 0, 1, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), ex->width_spin, 1, 1, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), grid_label (_("px (SVG: pt)")), 2, 1, 1, 1);
   label = grid_label (_("_Height"));
   gtk_label_set_mnemonic_widget (GTK_LABEL (label), ex->height_spin);
-  gtk_grid_attach (GTK_GRID (grid), label, 0, 1, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), ex->height_spin, 1, 1, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), grid_label (_("px (SVG: pt)")), 2, 1, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), label, 0, 2, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), ex->height_spin, 1, 2, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), grid_label (_("px (SVG: pt)")), 2, 2, 1, 1);
+  g_signal_connect (ex->preset_drop, "notify::selected", G_CALLBACK (preset_changed_cb), ex);
+  preset_changed_cb (GTK_DROP_DOWN (ex->preset_drop), NULL, ex);
 
   gtk_string_list_append (options, _("Native hip alone"));
   for (size_t i = 0; i < plan->n_options; i++)
@@ -441,18 +577,36 @@ show_size_dialog (HlExport *ex)
   gtk_drop_down_set_selected (GTK_DROP_DOWN (ex->option_drop), (guint) (option + 1));
   label = grid_label (_("_Drawn over the native hip"));
   gtk_label_set_mnemonic_widget (GTK_LABEL (label), ex->option_drop);
-  gtk_grid_attach (GTK_GRID (grid), label, 0, 2, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), ex->option_drop, 1, 2, 2, 1);
+  gtk_grid_attach (GTK_GRID (grid), label, 0, 3, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), ex->option_drop, 1, 3, 2, 1);
+
+  /* On by default when the plan has a radiograph; without one there is
+   * nothing to choose. */
+  ex->underlay_check = gtk_check_button_new_with_mnemonic (_("_Radiograph under the drawing, with its window and calibration"));
+  gtk_check_button_set_active (GTK_CHECK_BUTTON (ex->underlay_check),
+                               plan->radiograph.present && ex->figure_underlay);
+  gtk_widget_set_sensitive (ex->underlay_check, plan->radiograph.present);
+  if (!plan->radiograph.present)
+    gtk_widget_set_tooltip_text (ex->underlay_check, _("The plan has no radiograph."));
+  gtk_grid_attach (GTK_GRID (grid), ex->underlay_check, 0, 4, 3, 1);
+
   note = gtk_label_new (_("The schematic with the force vectors, light style, with the caution at its foot. The format follows the file name: .png or .svg."));
   gtk_label_set_wrap (GTK_LABEL (note), TRUE);
   gtk_label_set_max_width_chars (GTK_LABEL (note), 50);
   gtk_label_set_xalign (GTK_LABEL (note), 0.0f);
   gtk_widget_add_css_class (note, "dim-label");
-  gtk_grid_attach (GTK_GRID (grid), note, 0, 3, 3, 1);
+  gtk_grid_attach (GTK_GRID (grid), note, 0, 5, 3, 1);
   gtk_box_append (GTK_BOX (gtk_dialog_get_content_area (GTK_DIALOG (dialog))), grid);
 
   g_signal_connect (dialog, "response", G_CALLBACK (size_dialog_response_cb), ex);
   ex->size_dialog = dialog;
+  /* Return accepts at once: the focus starts in the width (which
+   * activates the default), or on the button when a preset fixes the size. */
+  gtk_window_set_focus (GTK_WINDOW (dialog),
+                        ex->figure_preset == HL_RENDER_PRESET_AUTO
+                        ? ex->width_spin
+                        : gtk_dialog_get_widget_for_response (GTK_DIALOG (dialog),
+                                                              GTK_RESPONSE_ACCEPT));
   gtk_window_present (GTK_WINDOW (dialog));
 }
 
@@ -483,9 +637,27 @@ draw_page_cb (GtkPrintOperation *op, GtkPrintContext *context, int page, HlExpor
   cairo_restore (cr);
 }
 
+/* The status after printing, with why the radiograph is left out when it
+ * is (before the report is dropped). */
+static void
+print_status (HlExport *ex, const char *done)
+{
+  const HlError *note = ex->print_report != NULL ? hl_report_underlay_note (ex->print_report)
+                                                 : NULL;
+  g_autofree char *text = note != NULL
+                          ? g_strdup_printf (_("%s, without the radiograph: %s"), done,
+                                             note->message)
+                          : g_strdup (done);
+
+  hl_message_show_status (GTK_WIDGET (ex->window), text);
+}
+
 static void
 print_done_cb (GtkPrintOperation *op, GtkPrintOperationResult result, HlExport *ex)
 {
+  if (result == GTK_PRINT_OPERATION_RESULT_APPLY)
+    print_status (ex, ex->print_to_file ? _("Report printed to a file")
+                                        : _("Report sent to the printer"));
   g_clear_pointer (&ex->print_report, hl_report_free);
   g_clear_object (&ex->print_op);
   if (result == GTK_PRINT_OPERATION_RESULT_ERROR)
@@ -496,8 +668,6 @@ print_done_cb (GtkPrintOperation *op, GtkPrintOperationResult result, HlExport *
       hl_message_show_error (GTK_WIDGET (ex->window), _("Could not print the report"),
                             error != NULL ? error->message : _("The printing system gave no reason."));
     }
-  else if (result == GTK_PRINT_OPERATION_RESULT_APPLY)
-    hl_message_show_status (GTK_WIDGET (ex->window), _("Report sent to the printer"));
 }
 
 static void
@@ -531,6 +701,7 @@ print_report (HlExport *ex)
       return;
     }
 
+
   /* Kept until "done": an operation with a dialog runs on after this returns. */
   op = ex->print_op = gtk_print_operation_new ();
   setup = gtk_page_setup_new ();
@@ -544,8 +715,10 @@ print_report (HlExport *ex)
   g_signal_connect (op, "begin-print", G_CALLBACK (begin_print_cb), ex);
   g_signal_connect (op, "draw-page", G_CALLBACK (draw_page_cb), ex);
   g_signal_connect (op, "done", G_CALLBACK (print_done_cb), ex);
+  ex->print_to_file = FALSE;
   if (export_to != NULL && export_to[0] != '\0')
     {
+      ex->print_to_file = TRUE;
       action = GTK_PRINT_OPERATION_ACTION_EXPORT;
       gtk_print_operation_set_export_filename (op, export_to);
     }
@@ -560,8 +733,6 @@ print_report (HlExport *ex)
       hl_message_show_error (GTK_WIDGET (window), _("Could not print the report"),
                             error != NULL ? error->message : _("The printing system gave no reason."));
     }
-  else if (action == GTK_PRINT_OPERATION_ACTION_EXPORT)
-    hl_message_show_status (GTK_WIDGET (window), _("Report printed to a file"));
 }
 
 /* ---- actions -------------------------------------------------------- */
@@ -610,6 +781,9 @@ hl_export_attach (GtkApplicationWindow *window, HlDocument *document,
   ex->figure_width = HL_EXPORT_FIGURE_WIDTH_DEFAULT;
   ex->figure_height = HL_EXPORT_FIGURE_HEIGHT_DEFAULT;
   ex->figure_option = -1;
+  ex->figure_preset = HL_RENDER_PRESET_AUTO;
+  ex->figure_underlay = TRUE;
+  ex->report_underlay = TRUE;
   g_object_set_data_full (G_OBJECT (window), EXPORT_KEY, ex, hl_export_free);
   g_action_map_add_action_entries (G_ACTION_MAP (window), export_actions,
                                    G_N_ELEMENTS (export_actions), ex);

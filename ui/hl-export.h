@@ -8,10 +8,15 @@
  *
  *  win.export-report   "Export Report (PDF)…": the A4 report (two pages or more) of
  *                      hl-report.h, with the analysis page's joint-load
- *                      target and the selected option in the schematic;
+ *                      target and the selected option in the schematic,
+ *                      the radiograph under it unless the chooser's choice
+ *                      "Radiograph under the schematic" is cleared;
  *  win.export-figure   "Export Figure (SVG/PNG)…": a small dialog for the
- *                      size (default 1600 x 1200) and the option drawn, then
- *                      the file; the format follows the extension;
+ *                      size (default 1600 x 1200, or the slide and
+ *                      half-slide presets of `hiplever-cli figure`), the
+ *                      option drawn and the radiograph under it (a check
+ *                      box, on when the plan has one), then the file; the
+ *                      format follows the extension;
  *  win.export-sweeps   "Export Sweeps (CSV)…": the report's four chart
  *                      sweeps in one table, the caution first as "# "
  *                      comment lines;
@@ -20,7 +25,9 @@
  *
  * Files are chosen with GtkFileChooserNative, written atomically
  * (hl_write_file_atomic), and every failure is said in a dialog with the
- * file and the reason.  Every export carries the caution of hl-version.h.
+ * file and the reason.  A radiograph that is missing or has changed since
+ * the plan was saved is left out and the status line says so.  Every
+ * export carries the caution of hl-version.h.
  *
  * Test hook (environment): HIPLEVER_TEST_PRINT_TO=FILE.pdf makes "Print…"
  * run the same print operation without its dialog, exporting the pages

@@ -536,21 +536,15 @@ grey_top (HlRadiographPage *self)
 }
 
 /* The window shown: the plan's; else what brightness and contrast of an
- * older plan showed; else the image's own preset or the automatic one. */
+ * older plan showed; else the image's own preset or the automatic one
+ * (the core's rule, which the exports follow too). */
 static void
 effective_window (HlRadiographPage *self, double *centre, double *width)
 {
-  const HlRadiograph *rg = &plan_of (self)->radiograph;
-  if (rg->window_width > 0.0)
-    {
-      *centre = rg->window_centre;
-      *width = rg->window_width;
-    }
-  else if (rg->brightness != 0.0 || rg->contrast != 1.0 || self->underlay == NULL)
-    hl_window_from_brightness_contrast (rg->brightness, rg->contrast, grey_top (self),
-                                        centre, width);
-  else
-    hl_gray_image_default_window (hl_underlay_get_image (self->underlay), centre, width, NULL);
+  hl_radiograph_display_window (&plan_of (self)->radiograph,
+                                self->underlay != NULL ? hl_underlay_get_image (self->underlay)
+                                                       : NULL,
+                                centre, width);
 }
 
 static void

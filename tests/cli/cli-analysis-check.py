@@ -13,6 +13,9 @@
 #       print ATTR of the result INDEX (0 native, 1 + i option i) of a
 #       planning summary at full precision.
 #   png-size FILE          print "WIDTH HEIGHT" from the PNG header
+#   png-dark-share FILE [BELOW]
+#       print the share (0..1) of pixels whose grey (mean of R, G, B) is
+#       below BELOW (default 80) in an 8-bit RGB or RGBA PNG
 #   csv-rows FILE          print the number of data rows of a CSV file
 #   sweep-rows SWEEP SOLVE VALUE
 #       the sweep rows at VALUE, from "option" on, must equal solve's CSV
@@ -22,6 +25,7 @@
 import csv
 import struct
 import sys
+import zlib
 import xml.etree.ElementTree as ET
 
 NS = "urn:hiplever:plan"
@@ -91,6 +95,63 @@ def png_size(path):
     print(w, h)
 
 
+def png_pixels(path):
+    """Width, height, bytes per pixel and the unfiltered rows of an 8-bit
+    RGB or RGBA PNG without interlace (what cairo writes)."""
+    with open(path, "rb") as f:
+        data = f.read()
+    if data[:8] != b"\x89PNG\r\n\x1a\n":
+        fail("%s is not a PNG" % path)
+    pos, idat, ihdr = 8, [], None
+    while pos < len(data):
+        n, kind = struct.unpack(">I4s", data[pos:pos + 8])
+        body = data[pos + 8:pos + 8 + n]
+        if kind == b"IHDR":
+            ihdr = struct.unpack(">IIBBBBB", body)
+        elif kind == b"IDAT":
+            idat.append(body)
+        pos += 12 + n
+    w, h, depth, colour, _, _, interlace = ihdr
+    if depth != 8 or colour not in (2, 6) or interlace != 0:
+        fail("%s: only 8-bit RGB or RGBA without interlace is read here" % path)
+    bpp = 3 if colour == 2 else 4
+    raw = zlib.decompress(b"".join(idat))
+    stride = w * bpp
+    rows, prev = [], bytearray(stride)
+    for y in range(h):
+        ftype = raw[y * (stride + 1)]
+        line = bytearray(raw[y * (stride + 1) + 1:(y + 1) * (stride + 1)])
+        for i in range(stride):
+            a = line[i - bpp] if i >= bpp else 0
+            b = prev[i]
+            c = prev[i - bpp] if i >= bpp else 0
+            if ftype == 1:
+                line[i] = (line[i] + a) & 0xFF
+            elif ftype == 2:
+                line[i] = (line[i] + b) & 0xFF
+            elif ftype == 3:
+                line[i] = (line[i] + ((a + b) >> 1)) & 0xFF
+            elif ftype == 4:
+                p = a + b - c
+                pa, pb, pc = abs(p - a), abs(p - b), abs(p - c)
+                pred = a if pa <= pb and pa <= pc else (b if pb <= pc else c)
+                line[i] = (line[i] + pred) & 0xFF
+        rows.append(line)
+        prev = line
+    return w, h, bpp, rows
+
+
+def png_dark_share(path, below="80"):
+    w, h, bpp, rows = png_pixels(path)
+    limit = 3 * float(below)
+    dark = 0
+    for line in rows:
+        for x in range(0, w * bpp, bpp):
+            if line[x] + line[x + 1] + line[x + 2] < limit:
+                dark += 1
+    print("%.4f" % (dark / float(w * h)))
+
+
 def read_csv(path):
     with open(path, newline="") as f:
         return list(csv.reader(f))
@@ -127,6 +188,8 @@ def main(argv):
         result(*args)
     elif cmd == "png-size" and len(args) == 1:
         png_size(args[0])
+    elif cmd == "png-dark-share" and len(args) in (1, 2):
+        png_dark_share(*args)
     elif cmd == "csv-rows" and len(args) == 1:
         print(len(read_csv(args[0])) - 1)
     elif cmd == "sweep-rows" and len(args) == 3:

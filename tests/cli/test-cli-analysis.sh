@@ -51,12 +51,13 @@ expect_rc () {
 out_has () { grep -q -e "$1" "$WORK/out"; }
 err_has () { grep -q -e "$1" "$WORK/err"; }
 no_file () { [ ! -e "$1" ]; }
+not_in () { ! grep -q -e "$1" "$2"; }
 differ () { ! cmp -s "$1" "$2"; }
 no_temp_left () { [ -z "$(find "$1" -name '.*' -type f)" ]; }
 near () { python3 -c "import sys; sys.exit(0 if abs(float('$1') - float('$2')) <= float('$3') else 1)"; }
 have () { command -v "$1" >/dev/null; }
 
-for tool in xmllint python3 pdfinfo pdftotext; do
+for tool in xmllint python3 pdfinfo pdftotext pdfimages; do
   check "$tool is installed" have "$tool"
 done
 
@@ -190,6 +191,91 @@ for plan in "${EXAMPLES[@]}"; do
   fi
 done
 check "no temporary files left by the writers" no_temp_left "$WORK"
+
+# ---- the radiograph under the figure and the report -----------------------------------
+
+# The demo's synthetic radiograph has a dark background: under the figure it
+# darkens a large share of the pixels, while without it only lines and text
+# are dark.  Shares of pixels with a grey below 80 of 255.
+more () { python3 -c "import sys; sys.exit(0 if float('$1') > float('$2') else 1)"; }
+dark () { $CHECK png-dark-share "$1"; }
+run figure "$DEMO" -o "$WORK/u.png" --size 400x300
+expect_rc 0 "figure with the radiograph (the default)"
+check "figure with the radiograph: nothing on stderr" [ ! -s "$WORK/err" ]
+run figure "$DEMO" -o "$WORK/u-asked.png" --size 400x300 --underlay
+expect_rc 0 "figure --underlay"
+check "--underlay draws what the default draws" cmp -s "$WORK/u.png" "$WORK/u-asked.png"
+run figure "$DEMO" -o "$WORK/nu.png" --size 400x300 --no-underlay
+expect_rc 0 "figure --no-underlay"
+dark_u=$(dark "$WORK/u.png")
+dark_nu=$(dark "$WORK/nu.png")
+check "the radiograph darkens the figure: $dark_u of the pixels dark, over 0.08" more "$dark_u" 0.08
+check "without it few pixels are dark: $dark_nu, under 0.03" more 0.03 "$dark_nu"
+run figure "$DEMO" -o "$WORK/u.svg" --preset slide
+expect_rc 0 "figure --preset slide with the radiograph (SVG)"
+check "the SVG embeds the radiograph as an image" grep -q "<image" "$WORK/u.svg"
+run figure "$DEMO" -o "$WORK/nu.svg" --preset slide --no-underlay
+check "the SVG without it has no image" not_in "<image" "$WORK/nu.svg"
+
+# The plan's window is the one drawn: a window below every grey shows the
+# whole image white (few dark pixels), one above every grey black (the bones
+# dark too, beyond the default window's dark background).
+mkdir -p "$WORK/wl"
+cp "$SRC/data/examples/demo-radiograph.png" "$WORK/wl/"
+$CHECK edit "$DEMO" "$WORK/wl/white.hlplan" radiograph 0 window-centre=-1000 window-width=10
+$CHECK edit "$DEMO" "$WORK/wl/black.hlplan" radiograph 0 window-centre=100000 window-width=10
+$CHECK edit "$DEMO" "$WORK/wl/invert.hlplan" radiograph 0 invert=true
+run figure "$WORK/wl/white.hlplan" -o "$WORK/wl/white.png" --size 400x300
+expect_rc 0 "figure with a window below every grey"
+run figure "$WORK/wl/black.hlplan" -o "$WORK/wl/black.png" --size 400x300
+run figure "$WORK/wl/invert.hlplan" -o "$WORK/wl/invert.png" --size 400x300
+dark_white=$(dark "$WORK/wl/white.png")
+dark_black=$(dark "$WORK/wl/black.png")
+dark_inv=$(dark "$WORK/wl/invert.png")
+check "a window below every grey: the image white ($dark_white dark, under 0.03)" more 0.03 "$dark_white"
+dark_u_more=$(python3 -c "print(1.2 * float('$dark_u'))")
+check "a window above every grey: the image black ($dark_black dark, over $dark_u_more)" \
+  more "$dark_black" "$dark_u_more"
+check "inverted: the dark background turns light ($dark_inv dark, under $dark_u)" more "$dark_u" "$dark_inv"
+
+# A missing or changed image: the export goes on without it and says so.
+mkdir -p "$WORK/miss" "$WORK/changed"
+cp "$DEMO" "$WORK/miss/demo.hlplan"
+run figure "$WORK/miss/demo.hlplan" -o "$WORK/miss/f.png" --size 400x300
+expect_rc 0 "figure of a plan whose radiograph is missing"
+check "the missing radiograph is said on stderr" err_has "figure is drawn without the radiograph: .*missing"
+check "the figure without the missing radiograph is the one without any" cmp -s "$WORK/miss/f.png" "$WORK/nu.png"
+cp "$DEMO" "$WORK/changed/demo.hlplan"
+{ cat "$SRC/data/examples/demo-radiograph.png"; printf 'x'; } >"$WORK/changed/demo-radiograph.png"
+run figure "$WORK/changed/demo.hlplan" -o "$WORK/changed/f.png" --size 400x300
+expect_rc 0 "figure of a plan whose radiograph has changed"
+check "the changed radiograph is said on stderr" err_has "figure is drawn without the radiograph: .*changed"
+check "a changed radiograph is not drawn" cmp -s "$WORK/changed/f.png" "$WORK/nu.png"
+run figure "$SRC/data/examples/minimal.hlplan" -o "$WORK/min.png" --underlay
+expect_rc 0 "figure --underlay of a plan without a radiograph"
+check "--underlay without a radiograph is said" err_has "the plan has no radiograph"
+run figure "$DEMO" -o "$WORK/both.png" --underlay --no-underlay
+expect_rc 2 "figure --underlay --no-underlay"
+check "no figure with both" no_file "$WORK/both.png"
+
+# The report's schematic: the radiograph is an image in the PDF.
+images () { pdfimages -list "$1" 2>/dev/null | tail -n +3 | wc -l; }
+run report "$DEMO" -o "$WORK/u.pdf"
+expect_rc 0 "report with the radiograph (the default)"
+check "report with the radiograph: nothing on stderr" [ ! -s "$WORK/err" ]
+check "the report embeds the radiograph ($(images "$WORK/u.pdf") images)" [ "$(images "$WORK/u.pdf")" -ge 1 ]
+pdftotext "$WORK/u.pdf" - | tr '\n' ' ' >"$WORK/u.txt"
+check "the report with the radiograph keeps the caution" grep -q "$CAUTION_START" "$WORK/u.txt"
+run report "$DEMO" -o "$WORK/nu.pdf" --no-underlay
+expect_rc 0 "report --no-underlay"
+check "the report --no-underlay has no image" [ "$(images "$WORK/nu.pdf")" -eq 0 ]
+run report "$WORK/miss/demo.hlplan" -o "$WORK/miss/r.pdf" --underlay
+expect_rc 0 "report of a plan whose radiograph is missing"
+check "the report says the radiograph is left out" err_has "schematic is drawn without the radiograph: .*missing"
+check "the report without the missing radiograph has no image" [ "$(images "$WORK/miss/r.pdf")" -eq 0 ]
+usage_case_early () { run "$@"; expect_rc 2 "$*"; }
+usage_case_early report "$DEMO" -o "$WORK/both.pdf" --underlay --no-underlay
+check "no report with both" no_file "$WORK/both.pdf"
 
 # ---- inverse answers plugged back -------------------------------------------------
 

@@ -155,6 +155,36 @@ hl_key Return
 sleep 1
 hl_key ctrl+a
 choose "$HL_TMP/figure.svg"
+# The dialog's presets are the command line's: a slide with the plan's
+# radiograph under it, then a half slide with the check box cleared
+# (Alt+S the size, Alt+R the radiograph, Alt+F accepts).  The size list
+# opens on its first row; figure_preset KEYS... moves down to the preset.
+figure_preset () {
+  hl_key F10
+  sleep 0.5
+  hl_key i
+  sleep 1
+  hl_key alt+s
+  sleep 0.3
+  hl_key space
+  sleep 0.8
+  hl_key "$@" Return
+  sleep 0.5
+}
+figure_preset Down
+hl_grab figure-dialog-slide
+hl_key alt+f
+sleep 1
+hl_key ctrl+a
+choose "$HL_TMP/slide.svg"
+figure_preset Down Down
+hl_key alt+r
+sleep 0.3
+hl_grab figure-dialog-half-slide
+hl_key alt+f
+sleep 1
+hl_key ctrl+a
+choose "$HL_TMP/half-slide.svg"
 hl_key F10
 sleep 0.5
 hl_key w
@@ -203,6 +233,13 @@ hl_note "ok: Ctrl+P printed the report's $report_pages A4 pages with the caution
 xmllint --noout "$HL_TMP/figure.svg" || hl_fail "the figure is not a well-formed SVG"
 grep -q 'width="1600pt"' "$HL_TMP/figure.svg" || hl_fail "the figure is not 1600 wide: $(head -c 300 "$HL_TMP/figure.svg")"
 hl_note "ok: the figure is an SVG of the default size"
+grep -q 'width="1920pt" height="1080pt"' "$HL_TMP/slide.svg" \
+  || hl_fail "the slide preset is not 1920 x 1080: $(head -c 300 "$HL_TMP/slide.svg")"
+grep -q '<image' "$HL_TMP/slide.svg" || hl_fail "the slide does not carry the radiograph"
+grep -q 'width="960pt" height="1080pt"' "$HL_TMP/half-slide.svg" \
+  || hl_fail "the half-slide preset is not 960 x 1080: $(head -c 300 "$HL_TMP/half-slide.svg")"
+grep -q '<image' "$HL_TMP/half-slide.svg" && hl_fail "the half slide carries the radiograph with the box cleared"
+hl_note "ok: the dialog's slide (with the radiograph) and half slide (without) are the CLI's sizes"
 head -n 1 "$HL_TMP/sweeps.csv" | grep -q '^# hiplever' || hl_fail "the sweep table does not start with a comment"
 grep -q '^# Planning aid only' "$HL_TMP/sweeps.csv" || hl_fail "the sweep table has no caution"
 grep -q '^param,value,option,' "$HL_TMP/sweeps.csv" || hl_fail "the sweep table has no header"
