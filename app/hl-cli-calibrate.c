@@ -18,6 +18,7 @@
 #include <string.h>
 
 #include "hl-cli-calibrate.h"
+#include "hl-deadline.h"
 #include "hl-i18n.h"
 #include "hl-image.h"
 #include "hl-measure.h"
@@ -197,8 +198,11 @@ void
 hl_cli_check_radiograph (const char *plan_path, const HlPlan *plan)
 {
   char message[HL_IMAGE_PATH_MAX + 128];
+  /* A check cut short by a batch plan's time budget says nothing: the
+   * plan fails with the budget's message. */
   if (plan->radiograph.present
-      && hl_image_verify (&plan->radiograph, message, sizeof message) != HL_IMAGE_OK)
+      && hl_image_verify (&plan->radiograph, message, sizeof message) != HL_IMAGE_OK
+      && !hl_deadline_passed ())
     hl_cli_error (_("%s: %s; the plan is used without it"), plan_path, message);
 }
 

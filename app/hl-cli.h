@@ -31,8 +31,9 @@ typedef enum {
 } HlCliExit;
 
 /* batch: the failures table beside OUT, and each plan's time budget for
- * loading and solving (checked after each; loading is itself bounded by
- * the 8 MiB file and 64-option limits), s. */
+ * loading, solving and checking the radiograph, s (hl-deadline.h: checked
+ * inside the core's loops; parsing is bounded by the 8 MiB file and
+ * 64-option limits instead); HIPLEVER_BATCH_PLAN_SECONDS sets another. */
 #define HL_CLI_FAILURES_SUFFIX "-failures"
 #define HL_CLI_BATCH_PLAN_SECONDS 10
 

@@ -20,6 +20,7 @@
 /* Bytes read to tell an image file's type (DICOM: "DICM" at 128). */
 #define HL_IMAGE_SNIFF_BYTES 132
 
+#include "hl-deadline.h"
 #include "hl-gray-image.h"
 #include "hl-i18n.h"
 #include "hl-image.h"
@@ -330,6 +331,12 @@ hl_file_sha256_hex (const char *path, char hex[65], HlError *err)
       if (n == 0)
         break;
       g_checksum_update (sum, buf, (gssize) n);
+      /* within the calling thread's time budget (hl-deadline.h) */
+      if (hl_deadline_passed ())
+        {
+          st = hl_deadline_error (err, _("Reading the radiograph"));
+          break;
+        }
     }
   free (buf);
   close (fd);

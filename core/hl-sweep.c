@@ -9,6 +9,7 @@
 #include <stdio.h>
 #include <string.h>
 
+#include "hl-deadline.h"
 #include "hl-i18n.h"
 #include "hl-sweep.h"
 
@@ -359,6 +360,24 @@ hl_sweep_run_steps (const HlPlan *plan, const HlModel *model,
     {
       const double v = hl_sweep_value (spec, first + i);
       HlStatus model_st = HL_OK;
+
+      /* Within the calling thread's time budget (hl-deadline.h), checked
+       * every 256 steps: the steps not computed are NaN and refused. */
+      if ((i & 255) == 0 && hl_deadline_passed ())
+        {
+          for (size_t k = i; k < n; k++)
+            {
+              if (values != NULL)
+                values[k] = hl_sweep_value (spec, first + k);
+              for (size_t row = 0; row < rows; row++)
+                {
+                  result_set_nan (&results[row * n + k]);
+                  if (status != NULL)
+                    status[row * n + k] = HL_ERR_INVALID;
+                }
+            }
+          return hl_deadline_error (err, _("The sweep"));
+        }
 
       if (values != NULL)
         values[i] = v;

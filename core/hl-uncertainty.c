@@ -15,6 +15,7 @@
 #include <gsl/gsl_randist.h>
 #include <gsl/gsl_statistics_double.h>
 
+#include "hl-deadline.h"
 #include "hl-i18n.h"
 #include "hl-measure.h"
 #include "hl-uncertainty.h"
@@ -269,6 +270,10 @@ hl_mc_run (HlMcWorkspace *ws, const HlModel *model, const HlOption *options,
 
   for (size_t j = 0; j < n; j++)
     {
+      /* within the calling thread's time budget (hl-deadline.h): every 64
+       * samples, some thousands of solves at most */
+      if ((j & 63) == 0 && hl_deadline_passed ())
+        return hl_deadline_error (err, _("The uncertainty run"));
       bool ok = perturb (&m, model, ws->rng, lsd, asd, msd,
                          s->magnification);
       for (size_t row = 0; ok && row < rows; row++)

@@ -25,9 +25,15 @@
 #include <glib.h>
 
 #include "hl-buf.h"
+#include "hl-catalogue.h"
+#include "hl-deadline.h"
 #include "hl-file-write.h"
+#include "hl-fit.h"
 #include "hl-image.h"
+#include "hl-sweep.h"
+#include "hl-template.h"
 #include "hl-text.h"
+#include "hl-uncertainty.h"
 #include "hl-plan-io.h"
 #include "hl-test-util.h"
 
@@ -643,6 +649,138 @@ START_TEST (test_radiograph_checked_before_hash)
 }
 END_TEST
 
+/* ---- Work is bounded: a time budget stops the long loops ---------------- */
+
+static double
+mono_now (void)
+{
+  struct timespec ts;
+  clock_gettime (CLOCK_MONOTONIC, &ts);
+  return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
+}
+
+#define HL_BUDGET_MARGIN_S 0.25   /* a loaded, shared machine's scheduling */
+
+static void
+expect_budget_stop (HlStatus st, const HlError *err, double took, double budget,
+                    const char *what)
+{
+  ck_assert_msg (st == HL_ERR_INVALID, "%s: not stopped by the budget (status %d)", what,
+                 (int) st);
+  ck_assert_msg (strstr (err->message, "over the time budget") != NULL, "%s: %s", what,
+                 err->message);
+  ck_assert_str_eq (err->field, "time budget");
+  ck_assert_msg (took < budget + HL_BUDGET_MARGIN_S, "%s: stopped after %.3f s, budget %g s",
+                 what, took, budget);
+}
+
+/* The calling thread's time budget (hl-deadline.h, what batch gives each
+ * plan) stops the core's long loops from inside: the Monte Carlo, the
+ * sweep, the fit ranking and hashing a radiograph each return the budget's
+ * refusal within a small margin of a budget that has run out, where
+ * without a budget the same calls finish; and a 20 ms budget cuts the hash
+ * of a 256 MB radiograph (which takes far longer) within the margin. */
+START_TEST (test_budget_stops_loops)
+{
+  HlCatalogue *cat = NULL;
+  HlPlan *plan = NULL;
+  HlError err;
+  hl_error_clear (&err);
+  ck_assert_int_eq (hl_catalogue_load_demo (&cat, &err), HL_OK);
+  ck_assert_int_eq (hl_plan_load_file (HL_EXAMPLE, &plan, &err), HL_OK);
+  HlTemplate t;
+  ck_assert_int_eq (hl_template_place_default (plan, cat, &t, &err), HL_OK);
+  long k = hl_plan_add_option (plan, "Budget template", NULL);
+  ck_assert_int_ge (k, 0);
+  ck_assert_int_eq (hl_plan_set_template (plan, (size_t) k, &t, cat, &err), HL_OK);
+  HlModel model;
+  ck_assert_int_eq (hl_model_prepare (&model, plan, &err), HL_OK);
+  const double expired = 1e-6;
+
+  for (int budgeted = 0; budgeted < 2; budgeted++)
+    {
+      /* Monte Carlo: 200,000 samples of native and every option. */
+      HlMcSettings s;
+      hl_mc_settings_for_plan (plan, &s, NULL);
+      s.n_samples = HL_MC_PLAN_SAMPLES_MAX;
+      HlMcWorkspace *ws = hl_mc_workspace_new (s.n_samples, plan->n_options);
+      HlMcSummary *sum = calloc (1 + plan->n_options, sizeof *sum);
+      ck_assert (ws != NULL && sum != NULL);
+      if (budgeted)
+        hl_deadline_begin (expired);
+      hl_error_clear (&err);
+      double t0 = mono_now ();
+      HlStatus st = hl_mc_run (ws, &model, plan->options, plan->n_options, &s, sum, NULL,
+                               &err);
+      double took = mono_now () - t0;
+      if (budgeted)
+        expect_budget_stop (st, &err, took, expired, "Monte Carlo");
+      else
+        ck_assert_msg (st == HL_OK, "%s", err.message);
+      hl_mc_workspace_free (ws);
+      free (sum);
+
+      /* A sweep of every step a sweep may have. */
+      HlSweepSpec spec = { HL_SWEEP_FEMORAL_OFFSET, -10.0, 10.0,
+                           HL_SWEEP_ROWS_MAX / (1 + plan->n_options), HL_SWEEP_MODE_ADD };
+      size_t n_res = (1 + plan->n_options) * spec.n_steps;
+      HlResult *res = calloc (n_res, sizeof *res);
+      ck_assert_ptr_nonnull (res);
+      hl_error_clear (&err);
+      t0 = mono_now ();
+      st = hl_sweep_run (plan, &model, &spec, NULL, res, NULL, n_res, &err);
+      took = mono_now () - t0;
+      if (budgeted)
+        {
+          expect_budget_stop (st, &err, took, expired, "sweep");
+          ck_assert (isnan (res[n_res - 1].jrf_n));     /* not computed: no number */
+        }
+      else
+        ck_assert_msg (st == HL_OK, "%s", err.message);
+      free (res);
+
+      /* The fit ranking over every size, with its Monte Carlo. */
+      HlFitTable table;
+      hl_error_clear (&err);
+      t0 = mono_now ();
+      st = hl_fit_rank (plan, (size_t) k, cat, HL_FIT_SIZES, &table, &err);
+      took = mono_now () - t0;
+      if (budgeted)
+        expect_budget_stop (st, &err, took, expired, "fit ranking");
+      else
+        ck_assert_msg (st == HL_OK, "%s", err.message);
+      hl_fit_table_clear (&table);
+      hl_deadline_end ();
+    }
+
+  /* Hashing 256 MB (sparse, behind a PNG signature). */
+  char *dir = make_temp_dir ();
+  char big[HL_PATH_MAX];
+  snprintf (big, sizeof big, "%s/large.png", dir);
+  static const unsigned char png_sig[8] = { 0x89, 'P', 'N', 'G', '\r', '\n', 0x1a, '\n' };
+  int fd = open (big, O_WRONLY | O_CREAT | O_TRUNC, 0600);
+  ck_assert_int_ge (fd, 0);
+  ck_assert_int_eq (write (fd, png_sig, sizeof png_sig), (ssize_t) sizeof png_sig);
+  ck_assert_int_eq (ftruncate (fd, 256LL * 1024 * 1024), 0);
+  close (fd);
+  char hex[65];
+  double t0 = mono_now ();
+  ck_assert_int_eq (hl_file_sha256_hex (big, hex, &err), HL_OK);
+  double full = mono_now () - t0;
+  const double budget = 0.02;
+  hl_deadline_begin (budget);
+  t0 = mono_now ();
+  HlStatus st = hl_file_sha256_hex (big, hex, &err);
+  double took = mono_now () - t0;
+  hl_deadline_end ();
+  expect_budget_stop (st, &err, took, budget, "hashing");
+  ck_assert_msg (took < full, "cut at %.3f s, the whole hash took %.3f s", took, full);
+  remove_tree (dir);
+  hl_plan_free (plan);
+  hl_catalogue_free (cat);
+}
+END_TEST
+
 /* ---- Every output reads back --------------------------------------------- */
 
 static uint64_t rng_state = 0x9E3779B97F4A7C15ull;
@@ -1016,6 +1154,7 @@ trust_suite (void)
   tcase_add_test (tc, test_mode_kept);
   tcase_add_test (tc, test_long_names);
   tcase_add_test (tc, test_long_names_backup);
+  tcase_add_test (tc, test_budget_stops_loops);
   tcase_add_test (tc, test_same_file);
   suite_add_tcase (s, tc);
   tc = tcase_create ("radiograph");

@@ -164,6 +164,33 @@ run batch plan.hlplan bad.hlplan --csv strict.csv
 expect_rc 1 "batch without --keep-going"
 check "without --keep-going nothing is written" test ! -e strict.csv
 
+# Each batch plan's time budget stops its work from inside the long loops:
+# a 400 MB radiograph beside the plan takes seconds to hash; with a budget
+# of 0.05 s (HIPLEVER_BATCH_PLAN_SECONDS) the plan fails with the budget's
+# message long before the hash could end, and its radiograph is not
+# reported as changed.
+mkdir budget
+cp plan.hlplan budget/plan.hlplan
+printf '\211PNG\r\n\032\n' > budget/demo-radiograph.png
+truncate -s 400M budget/demo-radiograph.png
+t0=$(date +%s%N)
+run batch budget/plan.hlplan --keep-going --csv budget.csv
+full_ms=$(( ($(date +%s%N) - t0) / 1000000 ))
+expect_rc 0 "batch with a 400 MB radiograph, the default budget"
+check "the radiograph is reported as changed" err_has "changed"
+t0=$(date +%s%N)
+HIPLEVER_BATCH_PLAN_SECONDS=0.05 run batch budget/plan.hlplan --keep-going --csv budget.csv
+cut_ms=$(( ($(date +%s%N) - t0) / 1000000 ))
+expect_rc 3 "batch over a tiny time budget"
+check "the failure names the budget" \
+  grep -q '^budget/plan.hlplan,"loading and solving took .* s, over the time budget of 0.05 s"$' \
+  budget-failures.csv
+check "cut short: ${cut_ms} ms against ${full_ms} ms for the whole" \
+  test "$cut_ms" -lt "$full_ms"
+check "cut within a small margin of the budget (${cut_ms} ms)" test "$cut_ms" -lt 1000
+check "no radiograph warning for a check cut short" bash -c '! grep -q changed "$0"' "$WORK/err"
+rm -rf budget budget.csv budget-failures.csv
+
 # CSV injection (OWASP): text cells that a spreadsheet would run get a
 # leading apostrophe; negative numbers stay numbers.
 sed 's/"Standard stem"/"=HYPERLINK(1)"/; s/"Lateralised stem +6 mm"/"-2+3"/' plan.hlplan > inj.hlplan
