@@ -59,7 +59,7 @@ save_to (HlWindow *self, GFile *file)
   if (path == NULL)
     hl_error_set (&err, HL_ERR_IO, "file", "%s", _("only local files can be saved"));
   else if (!hl_autosave_target_is_newer (path, &err))
-    hl_plan_save_file_backup (self->plan, path, &err);
+    hl_plan_save_file_backup (hl_window_get_plan (self), path, &err);
 
   if (err.status != HL_OK)
     {
@@ -119,7 +119,7 @@ take_chooser_file (HlWindow *self, GtkNativeDialog *dialog, int response)
 static char *
 suggested_name (HlWindow *self, const char *suffix)
 {
-  return hl_path_suggested_name (self->plan->label, _("case"), suffix);
+  return hl_path_suggested_name (hl_window_get_plan (self)->label, _("case"), suffix);
 }
 
 /* ---- open ----------------------------------------------------------- */
@@ -210,7 +210,7 @@ static void
 hl_window_guard (HlWindow *self, HlAfterGuard then)
 {
   GtkWidget *dialog;
-  const char *label = self->plan->label[0] != '\0' ? self->plan->label : _("Untitled case");
+  const char *label = hl_window_get_plan (self)->label[0] != '\0' ? hl_window_get_plan (self)->label : _("Untitled case");
 
   if (!hl_window_is_modified (self) || self->skip_close_guard)
     {
@@ -324,7 +324,7 @@ export_response_cb (GtkNativeDialog *dialog, int response, HlWindow *self)
   if (path == NULL)
     hl_error_set (&err, HL_ERR_IO, "file", "%s", _("only local files can be written"));
   else
-    hl_summary_save_file (self->plan, path, &err);
+    hl_summary_save_file (hl_window_get_plan (self), path, &err);
   if (err.status != HL_OK)
     {
       g_autofree char *name = g_file_get_parse_name (file);
@@ -349,7 +349,7 @@ export_response_cb (GtkNativeDialog *dialog, int response, HlWindow *self)
 static gboolean
 hl_window_option_room (HlWindow *self)
 {
-  if (self->plan->n_options < HL_PLAN_MAX_OPTIONS)
+  if (hl_window_get_plan (self)->n_options < HL_PLAN_MAX_OPTIONS)
     return TRUE;
   g_autofree char *detail =
     g_strdup_printf (_("A plan holds at most %d options; remove one before adding "
@@ -362,50 +362,52 @@ void
 hl_window_add_option (HlWindow *self)
 {
   g_autofree char *name = NULL;
+  HlPlan *plan;
   long index;
 
-  for (unsigned k = (unsigned) self->plan->n_options + 1; name == NULL; k++)
+  for (unsigned k = (unsigned) hl_window_get_plan (self)->n_options + 1; name == NULL; k++)
     {
       g_autofree char *candidate = g_strdup_printf (_("Option %u"), k);
       gboolean used = FALSE;
 
-      for (size_t i = 0; i < self->plan->n_options && !used; i++)
-        used = g_strcmp0 (self->plan->options[i].name, candidate) == 0;
+      for (size_t i = 0; i < hl_window_get_plan (self)->n_options && !used; i++)
+        used = g_strcmp0 (hl_window_get_plan (self)->options[i].name, candidate) == 0;
       if (!used)
         name = g_steal_pointer (&candidate);
     }
   if (!hl_window_option_room (self))
     return;
   hl_document_break_coalescing (self->document);
-  if (!hl_window_begin_edit (self, NULL))
+  if ((plan = hl_document_begin_edit (self->document, NULL)) == NULL)
     return;
-  index = hl_plan_add_option (self->plan, name, NULL);
+  index = hl_plan_add_option (plan, name, NULL);
   if (index < 0)
     {
       hl_window_show_error (self, _("Out of memory"), _("The option was not added."));
       return;
     }
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_OPTIONS);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_OPTIONS);
   hl_window_select_option (self, (int) index);
 }
 
 void
 hl_window_duplicate_option (HlWindow *self)
 {
+  HlPlan *plan;
   long index;
 
   if (hl_window_selected_option (self) < 0 || !hl_window_option_room (self))
     return;
   hl_document_break_coalescing (self->document);
-  if (!hl_window_begin_edit (self, NULL))
+  if ((plan = hl_document_begin_edit (self->document, NULL)) == NULL)
     return;
-  index = hl_plan_duplicate_option (self->plan, (size_t) hl_window_selected_option (self));
+  index = hl_plan_duplicate_option (plan, (size_t) hl_window_selected_option (self));
   if (index < 0)
     {
       hl_window_show_error (self, _("Out of memory"), _("The option was not duplicated."));
       return;
     }
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_OPTIONS);
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_OPTIONS);
   hl_window_select_option (self, (int) index);
 }
 
@@ -413,16 +415,17 @@ void
 hl_window_remove_option (HlWindow *self)
 {
   int index = hl_window_selected_option (self);
+  HlPlan *plan;
 
-  if (index < 0 || (size_t) index >= self->plan->n_options)
+  if (index < 0 || (size_t) index >= hl_window_get_plan (self)->n_options)
     return;
   hl_document_break_coalescing (self->document);
-  if (!hl_window_begin_edit (self, NULL))
+  if ((plan = hl_document_begin_edit (self->document, NULL)) == NULL)
     return;
-  hl_plan_remove_option (self->plan, (size_t) index);
-  if ((size_t) index >= self->plan->n_options)
-    index = (int) self->plan->n_options - 1;
-  hl_window_end_edit (self, HL_DOCUMENT_CHANGED_OPTIONS);
+  hl_plan_remove_option (plan, (size_t) index);
+  if ((size_t) index >= plan->n_options)
+    index = (int) plan->n_options - 1;
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_OPTIONS);
   hl_window_select_option (self, index);
 }
 

@@ -52,8 +52,6 @@ struct _HlWindow {
   char *dump_path;
 
   /* borrowed */
-  HlPlan *plan;              /* the document's: written only between
-                              * hl_window_begin_edit and hl_window_end_edit */
   GtkNativeDialog *chooser;
   GtkWidget *guard_dialog;
   HlAfterGuard after_guard;
@@ -74,10 +72,6 @@ struct _HlWindow {
 };
 
 /* hl-window.c */
-gboolean hl_window_begin_edit (HlWindow *self, const char *field);
-void hl_window_end_edit (HlWindow *self, HlDocumentChange what);
-/* hl_window_end_edit for an edit of any part of the plan. */
-void hl_window_plan_edited (HlWindow *self);
 int hl_window_selected_option (HlWindow *self);
 void hl_window_replace_plan (HlWindow *self, const HlPlan *plan, GFile *file);
 void hl_window_update_title (HlWindow *self);

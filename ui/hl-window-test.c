@@ -73,7 +73,7 @@ hl_window_write_dump (HlWindow *self)
   if (self->dump_path == NULL)
     return;
   hl_error_clear (&err);
-  if (hl_summary_save_file (self->plan, self->dump_path, &err) != HL_OK)
+  if (hl_summary_save_file (hl_window_get_plan (self), self->dump_path, &err) != HL_OK)
     {
       g_autofree char *msg = hl_window_format_error (&err);
 
@@ -188,9 +188,9 @@ print_template (HlWindow *self)
     return;
   hl_template_panel_foreach_control (panel, print_template_control, self);
   int sel = hl_canvas_get_selected_option (self->canvas);
-  const HlTemplate *tm = sel >= 0 && (size_t) sel < self->plan->n_options
-                         && self->plan->options[sel].recon.tmpl.on
-                         ? &self->plan->options[sel].recon.tmpl : NULL;
+  const HlTemplate *tm = sel >= 0 && (size_t) sel < hl_window_get_plan (self)->n_options
+                         && hl_window_get_plan (self)->options[sel].recon.tmpl.on
+                         ? &hl_window_get_plan (self)->options[sel].recon.tmpl : NULL;
   printf ("TEMPLATE selected %d ranked %u busy %d rank-ms %.1f cup-x %.3f cup-mm %.0f "
           "inclination %.2f stem %s seat %.3f\n",
           hl_canvas_get_selected_template (self->canvas),
@@ -204,7 +204,7 @@ void
 hl_window_print_handles (HlWindow *self)
 {
   g_autoptr(GListModel) pages = G_LIST_MODEL (gtk_stack_get_pages (self->panel_stack));
-  const HlLandmarks *lm = &self->plan->landmarks;
+  const HlLandmarks *lm = &hl_window_get_plan (self)->landmarks;
   GtkWidget *switcher = gtk_widget_get_prev_sibling (GTK_WIDGET (self->panel_stack));
   GtkWidget *child;
   guint page = 0;
@@ -467,7 +467,7 @@ print_results_idle_cb (gpointer user_data)
     return G_SOURCE_CONTINUE;
   size_t n;
   const HlSolved *solved = hl_document_get_solved (self->document, &n);
-  g_autofree char *csv = hl_results_format_csv (self->plan, solved, n);
+  g_autofree char *csv = hl_results_format_csv (hl_window_get_plan (self), solved, n);
   g_autofree char *ranges = hl_results_format_ranges_csv (self->results);
 
   fputs (csv, stdout);
@@ -613,7 +613,7 @@ bench_finish (HlBench *bench)
 
   printf ("benchmark-drag: %d frames, %zu options, %s moved %.1f mm laterally; "
           "charts shown with 5-95%% bands, a %d x %d radiograph under the schematic\n",
-          HL_BENCH_FRAMES, self->plan->n_options,
+          HL_BENCH_FRAMES, hl_window_get_plan (self)->n_options,
           bench->template_drag ? "the cup template" : "abductor insertion",
           HL_BENCH_FRAMES * HL_BENCH_STEP_MM, HL_BENCH_IMAGE_W, HL_BENCH_IMAGE_H);
   if (bench->template_drag)
@@ -668,12 +668,12 @@ bench_tick_cb (GtkWidget *widget, GdkFrameClock *clock, gpointer user_data)
       bench->after_id = g_signal_connect (clock, "after-paint",
                                           G_CALLBACK (bench_after_paint_cb), bench);
       bench->clock = clock;
-      bench->start = self->plan->landmarks.p[id];
+      bench->start = hl_window_get_plan (self)->landmarks.p[id];
       bench->prepares_before = hl_document_get_prepare_count (self->document);
       bench->charts_before = hl_charts_view_get_compute_count (HL_CHARTS_VIEW (self->charts_view));
       if (bench->template_drag)
         {
-          const HlTemplate *tm = &self->plan->options[0].recon.tmpl;
+          const HlTemplate *tm = &hl_window_get_plan (self)->options[0].recon.tmpl;
           bench->start = (HlVec2) { tm->cup_x_mm, tm->cup_y_mm };
           g_signal_emit_by_name (self->canvas, "template-drag-begin", HL_TEMPLATE_PART_CUP);
         }
@@ -762,13 +762,13 @@ hl_window_run_benchmark_drag (HlWindow *self, gint64 process_start_us)
   bench->image_path = bench_write_image (&bench->image_dir);
   if (bench->image_path != NULL)
     hl_radiograph_page_import (self->radiograph_page, bench->image_path);
-  while (self->plan->n_options < HL_BENCH_OPTIONS)
+  while (hl_window_get_plan (self)->n_options < HL_BENCH_OPTIONS)
     hl_window_add_option (self);
-  if (self->plan->n_options > 0)
+  if (hl_window_get_plan (self)->n_options > 0)
     hl_window_select_option (self, 0);
   bench->template_drag = g_strcmp0 (g_getenv ("HIPLEVER_BENCHMARK_TEMPLATE"), "1") == 0
-                         && self->plan->n_options > 0
-                         && self->plan->options[0].recon.tmpl.on;
+                         && hl_window_get_plan (self)->n_options > 0
+                         && hl_window_get_plan (self)->options[0].recon.tmpl.on;
   if (bench->template_drag)
     gtk_stack_set_visible_child_name (self->panel_stack, "options");
   hl_charts_view_set_show_bands (HL_CHARTS_VIEW (self->charts_view), TRUE);
@@ -776,7 +776,7 @@ hl_window_run_benchmark_drag (HlWindow *self, gint64 process_start_us)
   bench->self = self;
   bench->process_start_us = process_start_us;
   /* Lateral is towards -x for a right hip (plan x points to the left). */
-  bench->lateral = self->plan->side == HL_SIDE_RIGHT ? -1.0 : 1.0;
+  bench->lateral = hl_window_get_plan (self)->side == HL_SIDE_RIGHT ? -1.0 : 1.0;
   bench->interval_ms = g_array_new (FALSE, FALSE, sizeof (double));
   bench->work_ms = g_array_new (FALSE, FALSE, sizeof (double));
   bench->cpu_ms = g_array_new (FALSE, FALSE, sizeof (double));

@@ -62,7 +62,7 @@ hl_window_show_error (HlWindow *self, const char *primary,
 void
 hl_window_update_title (HlWindow *self)
 {
-  const char *label = self->plan->label[0] != '\0' ? self->plan->label
+  const char *label = hl_window_get_plan (self)->label[0] != '\0' ? hl_window_get_plan (self)->label
                                                     : _("Untitled case");
   g_autofree char *title = NULL;
   g_autofree char *recovered = hl_autosave_is_recovered (GTK_WINDOW (self))
@@ -84,7 +84,7 @@ hl_window_update_actions (HlWindow *self)
 {
   GtkWidget *w = GTK_WIDGET (self);
   int selected = hl_window_selected_option (self);
-  gboolean has_option = selected >= 0 && (size_t) selected < self->plan->n_options;
+  gboolean has_option = selected >= 0 && (size_t) selected < hl_window_get_plan (self)->n_options;
 
   gtk_widget_action_set_enabled (w, "win.undo", hl_document_can_undo (self->document));
   gtk_widget_action_set_enabled (w, "win.redo", hl_document_can_redo (self->document));
@@ -114,8 +114,8 @@ hl_window_update_status (HlWindow *self)
   else
     {
       text = g_strdup_printf (_("Plan: %s  ·  %zu reconstruction options  ·  body weight %.0f N"),
-                              where, self->plan->n_options,
-                              hl_plan_body_weight (self->plan));
+                              where, hl_window_get_plan (self)->n_options,
+                              hl_plan_body_weight (hl_window_get_plan (self)));
       gtk_widget_remove_css_class (GTK_WIDGET (self->status_label), "error");
     }
   if (g_strcmp0 (gtk_label_get_text (self->status_label), text) != 0)
@@ -144,27 +144,6 @@ document_error_cb (HlDocument *document, const char *primary, const char *second
                    HlWindow *self)
 {
   hl_window_show_error (self, primary, secondary);
-}
-
-/* For the pages not yet on the document's signal: an edit of any kind. */
-void
-hl_window_plan_edited (HlWindow *self)
-{
-  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
-}
-
-void
-hl_window_end_edit (HlWindow *self, HlDocumentChange what)
-{
-  hl_document_end_edit (self->document, what);
-}
-
-/* Records the plan as it is now as one undo step; `field` coalesces
- * repeated edits of one control. */
-gboolean
-hl_window_begin_edit (HlWindow *self, const char *field)
-{
-  return hl_document_begin_edit (self->document, field) != NULL;
 }
 
 void
@@ -217,7 +196,7 @@ const HlPlan *
 hl_window_get_plan (HlWindow *self)
 {
   g_return_val_if_fail (HL_IS_WINDOW (self), NULL);
-  return self->plan;
+  return hl_document_get_plan (self->document);
 }
 
 gboolean
@@ -514,7 +493,6 @@ hl_window_init (HlWindow *self)
   gtk_widget_init_template (GTK_WIDGET (self));
 
   self->document = hl_document_new ();
-  self->plan = (HlPlan *) hl_document_get_plan (self->document);
 
   gtk_label_set_text (self->caution_short_label, hl_caution_short ());
   gtk_label_set_text (self->caution_full_label, hl_caution_text ());
@@ -561,7 +539,8 @@ hl_window_init (HlWindow *self)
                            G_CALLBACK (document_changed_cb), self, 0);
   g_signal_connect_object (self->document, "error",
                            G_CALLBACK (document_error_cb), self, 0);
-  hl_window_plan_edited (self);
+  /* Every view shows the plan the document starts with. */
+  hl_document_end_edit (self->document, HL_DOCUMENT_CHANGED_PLAN);
 }
 
 HlWindow *
