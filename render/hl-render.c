@@ -1035,9 +1035,15 @@ placer_overlap (const Placer *pl, double x, double y, double w, double h)
 #define LABEL_RINGS 10
 #define LABEL_LEADER_LINES 1.5
 
-static void
-label_place (cairo_t *cr, const HlRenderStyle *style, Placer *pl,
-             const char *text, double cx, double cy, HlRgba color)
+/* Where a label goes: (cx, cy) where it belongs, (bx, by) its centre. */
+typedef struct {
+  double cx, cy, bx, by, w, h;
+} LabelSpot;
+
+/* Chooses the label's place and takes it in the placer; draws nothing. */
+static LabelSpot
+label_choose (cairo_t *cr, const HlRenderStyle *style, Placer *pl,
+              const char *text, double cx, double cy)
 {
   static const double dirs[][2] = {
     { 0, 1 }, { 0, -1 }, { 0.6, 0 }, { -0.6, 0 }, { 0.6, 1 }, { -0.6, 1 },
@@ -1078,6 +1084,17 @@ label_place (cairo_t *cr, const HlRenderStyle *style, Placer *pl,
               }
           }
     }
+  placer_add (pl, bx - 0.5 * w, by - 0.5 * h, w, h);
+  layout_add (style, HL_BOX_LABEL, bx - 0.5 * w, by - 0.5 * h, w, h);
+  return (LabelSpot) { cx, cy, bx, by, w, h };
+}
+
+static void
+label_draw (cairo_t *cr, const HlRenderStyle *style, const LabelSpot *at,
+            const char *text, HlRgba color)
+{
+  double cx = at->cx, cy = at->cy, bx = at->bx, by = at->by, w = at->w, h = at->h;
+
   if (hypot (bx - cx, by - cy) > LABEL_LEADER_LINES * (h + 2.0))
     {
       /* From the label's nearest edge back to where it belongs. */
@@ -1091,9 +1108,16 @@ label_place (cairo_t *cr, const HlRenderStyle *style, Placer *pl,
       cairo_line_to (cr, cx, cy);
       cairo_stroke (cr);
     }
-  placer_add (pl, bx - 0.5 * w, by - 0.5 * h, w, h);
-  layout_add (style, HL_BOX_LABEL, bx - 0.5 * w, by - 0.5 * h, w, h);
   label_pill (cr, style, text, bx, by, color);
+}
+
+static void
+label_place (cairo_t *cr, const HlRenderStyle *style, Placer *pl,
+             const char *text, double cx, double cy, HlRgba color)
+{
+  LabelSpot at = label_choose (cr, style, pl, text, cx, cy);
+
+  label_draw (cr, style, &at, text, color);
 }
 
 /* Splits text into at most WRAP_LINES_MAX lines of at most max_w px. */
@@ -1317,10 +1341,75 @@ draw_line_mm (cairo_t *cr, const HlView *view, HlVec2 a, HlVec2 b)
   cairo_stroke (cr);
 }
 
+/* A digest (FNV-1a, 64 bits) of what a layer draws. */
+typedef struct {
+  uint64_t h;
+} Digest;
+
+#define DIGEST_INIT { 0xcbf29ce484222325ULL }
+
+static void
+digest_bytes (Digest *d, const void *data, size_t n)
+{
+  const unsigned char *p = data;
+
+  for (size_t i = 0; i < n; i++)
+    {
+      d->h ^= p[i];
+      d->h *= 0x100000001b3ULL;
+    }
+}
+
+static void
+digest_double (Digest *d, double v)
+{
+  if (v == 0.0)
+    v = 0.0;   /* -0 and +0 draw the same */
+  digest_bytes (d, &v, sizeof v);
+}
+
+static void
+digest_vec (Digest *d, HlVec2 v)
+{
+  digest_double (d, v.x);
+  digest_double (d, v.y);
+}
+
+static void
+digest_poly (Digest *d, const Poly *poly)
+{
+  digest_bytes (d, &poly->n, sizeof poly->n);
+  for (int i = 0; i < poly->n; i++)
+    digest_vec (d, poly->p[i]);
+}
+
+static void
+digest_hemi (Digest *d, const Hemi *h)
+{
+  digest_bytes (d, &h->ok, sizeof h->ok);
+  digest_vec (d, h->hip);
+  digest_vec (d, h->base);
+  digest_double (d, h->ls);
+  digest_double (d, h->ku);
+  digest_double (d, h->kv_up);
+  digest_double (d, h->shift);
+}
+
+static void
+digest_frame (Digest *d, const MidFrame *f)
+{
+  digest_vec (d, f->m);
+  digest_vec (d, f->up);
+  digest_vec (d, f->across);
+}
+
+/* The midline and its label; with `draw` false only the label's place is
+ * taken (the base layer is a picture drawn earlier).  `key`, when not
+ * NULL, takes in what is drawn. */
 static void
 draw_midline (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
               Placer *pl, const HlScene *scene, const Shapes *sh, double y_lo,
-              double y_hi)
+              double y_hi, bool draw, Digest *key)
 {
   if (!hl_landmarks_has (&scene->native, HL_LM_MIDLINE))
     return;
@@ -1328,18 +1417,34 @@ draw_midline (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
   double span_lo = y_lo - f.m.y, span_hi = y_hi - f.m.y;
   HlVec2 a = vadd (f.m, vmul (f.up, span_lo / fmax (f.up.y, 0.5)));
   HlVec2 b = vadd (f.m, vmul (f.up, span_hi / fmax (f.up.y, 0.5)));
-  static const double dash[] = { 12.0, 4.0, 2.0, 4.0 };
-  cairo_set_dash (cr, dash, 4, 0);
-  cairo_set_line_width (cr, CONSTRUCTION_LINE_PX);
-  set_rgba (cr, style->fg, MIDLINE_ALPHA);
-  draw_line_mm (cr, view, a, b);
-  cairo_set_dash (cr, NULL, 0, 0);
+  if (key != NULL)
+    {
+      digest_vec (key, a);
+      digest_vec (key, b);
+    }
+  if (draw)
+    {
+      static const double dash[] = { 12.0, 4.0, 2.0, 4.0 };
+      cairo_set_dash (cr, dash, 4, 0);
+      cairo_set_line_width (cr, CONSTRUCTION_LINE_PX);
+      set_rgba (cr, style->fg, MIDLINE_ALPHA);
+      draw_line_mm (cr, view, a, b);
+      cairo_set_dash (cr, NULL, 0, 0);
+    }
 
   if (style->show_labels)
     {
+      const char *text = _("Midline");
       HlVec2 s = hl_view_to_screen (view, a);
       font (cr, style, 0.9, false);
-      label_place (cr, style, pl, _("Midline"), s.x, s.y - 10.0, style->fg);
+      LabelSpot at = label_choose (cr, style, pl, text, s.x, s.y - 10.0);
+      if (key != NULL)
+        {
+          digest_bytes (key, text, strlen (text));
+          digest_bytes (key, &at, sizeof at);
+        }
+      if (draw)
+        label_draw (cr, style, &at, text, style->fg);
     }
 }
 
@@ -2039,10 +2144,56 @@ draw_caution (cairo_t *cr, const HlRenderStyle *style, double width,
 
 /* ---- The whole schematic ---------------------------------------------------- */
 
-void
-hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
-                 const HlRenderStyle *style, double width, double height)
+/* The base layer's digest: what it draws besides the shapes. */
+static void
+digest_base (Digest *key, const HlView *view, const HlRenderStyle *style,
+             double width, double height, const Shapes *sh)
 {
+  const HlRgba colours[2] = { style->fg, style->bg };
+
+  digest_double (key, view->scale);
+  digest_double (key, view->tx);
+  digest_double (key, view->ty);
+  digest_double (key, width);
+  digest_double (key, height);
+  digest_double (key, px_size);
+  digest_double (key, style->font_px);
+  for (int k = 0; k < 2; k++)
+    {
+      digest_double (key, colours[k].r);
+      digest_double (key, colours[k].g);
+      digest_double (key, colours[k].b);
+      digest_double (key, colours[k].a);
+    }
+  digest_bytes (key, &style->dark, sizeof style->dark);
+  digest_bytes (key, &style->paint_background, sizeof style->paint_background);
+  digest_bytes (key, &style->hide_schematic, sizeof style->hide_schematic);
+  digest_bytes (key, &style->show_labels, sizeof style->show_labels);
+  /* What draw_pelvis draws from. */
+  digest_bytes (key, &sh->pelvis.ok, sizeof sh->pelvis.ok);
+  if (sh->pelvis.ok)
+    {
+      digest_frame (key, &sh->pelvis.f);
+      digest_hemi (key, &sh->sacrum_frame);
+      for (int s = 0; s < 2; s++)
+        {
+          digest_poly (key, &sh->hemi[s]);
+          digest_poly (key, &sh->obturator[s]);
+        }
+      digest_poly (key, &sh->sacrum);
+    }
+}
+
+/* hl_render_scene by layers; with `key` (and no layers) only the base
+ * layer's digest, nothing drawn. */
+static void
+scene_draw (cairo_t *cr, const HlScene *scene, const HlView *view,
+            const HlRenderStyle *style, double width, double height,
+            unsigned layers, Digest *key)
+{
+  bool base_layer = (layers & HL_RENDER_LAYER_BASE) != 0;
+  bool top_layer = (layers & HL_RENDER_LAYER_TOP) != 0;
+
   if (cr == NULL || scene == NULL || view == NULL || style == NULL
       || !(view->scale > 0.0) || !isfinite (view->scale))
     return;
@@ -2056,7 +2207,7 @@ hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
   cairo_set_line_join (cr, CAIRO_LINE_JOIN_BEVEL);
   cairo_set_line_cap (cr, CAIRO_LINE_CAP_ROUND);
 
-  if (style->paint_background)
+  if (base_layer && style->paint_background)
     {
       set_rgba (cr, style->bg, 1.0);
       cairo_paint (cr);
@@ -2128,10 +2279,26 @@ hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
       style->layout->body_text_px = SMALLEST_TEXT_SCALE * style->font_px;
     }
 
+  /* The base layer: its state is restored after it, so the top layer
+   * draws the same with it or over a picture of it. */
+  if (key != NULL)
+    digest_base (key, view, style, width, height, &sh);
+  cairo_save (cr);
   if (!style->hide_schematic)
     {
-      draw_midline (cr, view, style, &pl, scene, &sh, y_lo, y_hi);
-      draw_pelvis (cr, view, style, &sh);
+      draw_midline (cr, view, style, &pl, scene, &sh, y_lo, y_hi, base_layer, key);
+      if (base_layer)
+        draw_pelvis (cr, view, style, &sh);
+    }
+  cairo_restore (cr);
+  if (!top_layer)
+    {
+      cairo_restore (cr);
+      return;
+    }
+
+  if (!style->hide_schematic)
+    {
       draw_femur (cr, view, style, &sh.other_femur, false);
       draw_femur (cr, view, style, &sh.shown_femur, false);
       draw_acetabula (cr, view, style, &sh);
@@ -2169,6 +2336,34 @@ hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
     draw_error_box (cr, style, scene, width);
 
   cairo_restore (cr);
+}
+
+void
+hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
+                 const HlRenderStyle *style, double width, double height)
+{
+  scene_draw (cr, scene, view, style, width, height, HL_RENDER_LAYERS_ALL, NULL);
+}
+
+void
+hl_render_scene_layers (cairo_t *cr, const HlScene *scene, const HlView *view,
+                        const HlRenderStyle *style, double width, double height,
+                        HlRenderLayers layers)
+{
+  scene_draw (cr, scene, view, style, width, height, layers, NULL);
+}
+
+uint64_t
+hl_render_scene_base_key (cairo_t *cr, const HlScene *scene, const HlView *view,
+                          const HlRenderStyle *style, double width, double height)
+{
+  Digest key = DIGEST_INIT;
+
+  if (cr == NULL || scene == NULL || view == NULL || style == NULL
+      || !(view->scale > 0.0) || !isfinite (view->scale))
+    return 0;
+  scene_draw (cr, scene, view, style, width, height, 0, &key);
+  return key.h != 0 ? key.h : 1;
 }
 
 void

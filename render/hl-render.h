@@ -27,6 +27,7 @@
 #pragma once
 
 #include <stdbool.h>
+#include <stdint.h>
 #include <cairo.h>
 
 #include "hl-palette.h"
@@ -185,6 +186,33 @@ void hl_render_fit_view_framed (const HlScene *scene, const HlRenderStyle *style
 void hl_render_scene (cairo_t *cr, const HlScene *scene, const HlView *view,
                       const HlRenderStyle *style, double width,
                       double height);
+
+/* The scene in two layers, for a view that keeps a picture of the bottom
+ * one while the rest moves (a landmark drag that leaves the pelvis where
+ * it is):
+ *  - HL_RENDER_LAYER_BASE: the background (when the style paints it), the
+ *    midline with its label and the pelvis;
+ *  - HL_RENDER_LAYER_TOP: everything drawn over them.
+ * BASE and then TOP on one target draw exactly what hl_render_scene draws. */
+typedef enum {
+  HL_RENDER_LAYER_BASE = 1 << 0,
+  HL_RENDER_LAYER_TOP = 1 << 1,
+  HL_RENDER_LAYERS_ALL = HL_RENDER_LAYER_BASE | HL_RENDER_LAYER_TOP,
+} HlRenderLayers;
+
+void hl_render_scene_layers (cairo_t *cr, const HlScene *scene,
+                             const HlView *view, const HlRenderStyle *style,
+                             double width, double height,
+                             HlRenderLayers layers);
+
+/* A digest of everything HL_RENDER_LAYER_BASE draws (view, size, colours,
+ * the midline, its label's place, the pelvis outlines): equal keys, equal
+ * base layers.  Text is measured with `cr`, the target the layers go to;
+ * nothing is drawn.  0 for nothing to draw. */
+uint64_t hl_render_scene_base_key (cairo_t *cr, const HlScene *scene,
+                                   const HlView *view,
+                                   const HlRenderStyle *style, double width,
+                                   double height);
 
 /* Draws scene->tmpl, the option's implant template (nothing for a manual
  * option); hl_render_scene calls it.  In hl-render-template.c, with the

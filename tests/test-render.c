@@ -948,6 +948,148 @@ START_TEST (test_report_underlay_missing)
 }
 END_TEST
 
+/* ---- Layers: the base layer as a picture under the top layer ---- */
+
+typedef struct {
+  int option;
+  bool dark;
+  bool labels;
+  bool paint_background;
+  int selected;
+  int hover;
+} LayerCase;
+
+static const LayerCase layer_cases[] = {
+  { -1, false, true, true, -1, -1 },
+  { 0, false, true, true, HL_LM_ABDUCTOR_INSERTION, HL_LM_HIP_CENTRE },
+  { 1, true, true, false, HL_LM_MIDLINE, -1 },
+  { 0, false, false, true, -1, HL_LM_TEARDROP },
+};
+
+static cairo_surface_t *
+draw_layers (const HlPlan *plan, const LayerCase *c, const HlView *fixed_view,
+             unsigned layers_first, unsigned layers_then)
+{
+  cairo_surface_t *s = cairo_image_surface_create (CAIRO_FORMAT_RGB24, W, H);
+  cairo_t *cr = cairo_create (s);
+  HlScene scene;
+  HlView view;
+  HlRenderStyle style;
+
+  hl_render_style_init (&style, c->dark);
+  style.show_labels = c->labels;
+  style.paint_background = c->paint_background;
+  style.selected_landmark = c->selected;
+  style.hover_landmark = c->hover;
+  /* Under a drawing that paints no background: a grey like a radiograph. */
+  cairo_set_source_rgb (cr, 0.35, 0.35, 0.35);
+  cairo_paint (cr);
+  hl_scene_build (&scene, plan, c->option);
+  if (fixed_view != NULL)
+    view = *fixed_view;
+  else
+    hl_render_fit_view (&scene, W, H, MARGIN_PX, &view);
+  hl_render_scene_layers (cr, &scene, &view, &style, W, H, (HlRenderLayers) layers_first);
+  if (layers_then != 0)
+    hl_render_scene_layers (cr, &scene, &view, &style, W, H, (HlRenderLayers) layers_then);
+  cairo_destroy (cr);
+  cairo_surface_flush (s);
+  return s;
+}
+
+static bool
+same_pixels (cairo_surface_t *a, cairo_surface_t *b)
+{
+  int stride = cairo_image_surface_get_stride (a);
+
+  return stride == cairo_image_surface_get_stride (b)
+         && memcmp (cairo_image_surface_get_data (a), cairo_image_surface_get_data (b),
+                    (size_t) stride * H) == 0;
+}
+
+/* The base layer and then the top layer draw exactly the whole scene. */
+START_TEST (test_layers_same_picture)
+{
+  HlPlan *plan = demo_plan ();
+  const LayerCase *c = &layer_cases[_i];
+  cairo_surface_t *all = draw_layers (plan, c, NULL, HL_RENDER_LAYERS_ALL, 0);
+  cairo_surface_t *split = draw_layers (plan, c, NULL, HL_RENDER_LAYER_BASE, HL_RENDER_LAYER_TOP);
+  cairo_surface_t *base = draw_layers (plan, c, NULL, HL_RENDER_LAYER_BASE, 0);
+
+  ck_assert_msg (same_pixels (all, split), "case %d: base + top differs from the scene", _i);
+  ck_assert_msg (!same_pixels (all, base), "case %d: the top layer drew nothing", _i);
+  cairo_surface_destroy (all);
+  cairo_surface_destroy (split);
+  cairo_surface_destroy (base);
+  hl_plan_free (plan);
+}
+END_TEST
+
+static uint64_t
+base_key (const HlPlan *plan, const HlView *view, const HlRenderStyle *style)
+{
+  cairo_surface_t *s = cairo_image_surface_create (CAIRO_FORMAT_RGB24, W, H);
+  cairo_t *cr = cairo_create (s);
+  HlScene scene;
+  uint64_t key;
+
+  hl_scene_build (&scene, plan, 0);
+  key = hl_render_scene_base_key (cr, &scene, view, style, W, H);
+  cairo_destroy (cr);
+  cairo_surface_destroy (s);
+  return key;
+}
+
+/* The key changes with what the base layer draws and only with that: a
+ * femoral landmark dragged leaves it, the pelvis's landmarks, the view and
+ * the colours change it. */
+START_TEST (test_layers_base_key)
+{
+  HlPlan *plan = demo_plan ();
+  HlScene scene;
+  HlView view;
+  HlRenderStyle style;
+  LayerCase c = { 0, false, true, true, -1, -1 };
+
+  hl_render_style_init (&style, false);
+  hl_scene_build (&scene, plan, 0);
+  hl_render_fit_view (&scene, W, H, MARGIN_PX, &view);
+  uint64_t key = base_key (plan, &view, &style);
+  ck_assert_uint_ne (key, 0);
+  ck_assert_uint_eq (base_key (plan, &view, &style), key);
+
+  cairo_surface_t *before = draw_layers (plan, &c, &view, HL_RENDER_LAYER_BASE, 0);
+  HlVec2 ins = plan->landmarks.p[HL_LM_ABDUCTOR_INSERTION];
+  plan->landmarks.p[HL_LM_ABDUCTOR_INSERTION].x = ins.x + 4.0;
+  ck_assert_uint_eq (base_key (plan, &view, &style), key);
+  cairo_surface_t *after = draw_layers (plan, &c, &view, HL_RENDER_LAYER_BASE, 0);
+  ck_assert_msg (same_pixels (before, after), "an equal key drew a different base layer");
+  cairo_surface_destroy (before);
+  cairo_surface_destroy (after);
+  plan->landmarks.p[HL_LM_ABDUCTOR_INSERTION] = ins;
+
+  static const HlLandmarkId pelvic[] = { HL_LM_MIDLINE, HL_LM_HIP_CENTRE,
+                                         HL_LM_ABDUCTOR_ORIGIN };
+  for (size_t k = 0; k < sizeof pelvic / sizeof pelvic[0]; k++)
+    {
+      HlVec2 p = plan->landmarks.p[pelvic[k]];
+      plan->landmarks.p[pelvic[k]].x = p.x + 3.0;
+      ck_assert_msg (base_key (plan, &view, &style) != key,
+                     "moving landmark %d left the base key", (int) pelvic[k]);
+      plan->landmarks.p[pelvic[k]] = p;
+    }
+  ck_assert_uint_eq (base_key (plan, &view, &style), key);
+
+  HlView moved = view;
+  moved.tx += 1.0;
+  ck_assert_uint_ne (base_key (plan, &moved, &style), key);
+  HlRenderStyle dark;
+  hl_render_style_init (&dark, true);
+  ck_assert_uint_ne (base_key (plan, &view, &dark), key);
+  hl_plan_free (plan);
+}
+END_TEST
+
 static Suite *
 render_suite (void)
 {
@@ -974,6 +1116,12 @@ render_suite (void)
   tcase_add_test (tc, test_render_null_plan);
   tcase_add_loop_test (tc, test_render_mirror, 0,
                        sizeof mirror_options / sizeof mirror_options[0]);
+  suite_add_tcase (s, tc);
+
+  tc = tcase_create ("layers");
+  tcase_add_loop_test (tc, test_layers_same_picture, 0,
+                       sizeof layer_cases / sizeof layer_cases[0]);
+  tcase_add_test (tc, test_layers_base_key);
   suite_add_tcase (s, tc);
 
   tc = tcase_create ("figure");
