@@ -72,6 +72,17 @@ struct _HlCanvas
   /* owned */
   cairo_surface_t *underlay_cache;  /* background and radiograph, at underlay_key */
   UnderlayKey underlay_key;
+  guint underlay_generation;        /* bumped with each new underlay_cache */
+  /* The underlay with the scene's base layer over it (hl-render.h:
+   * background, midline, pelvis): while a drag leaves that layer as it
+   * is, each frame copies this picture and draws only the top layer. */
+  cairo_surface_t *base_cache;
+  uint64_t base_key;                /* hl_render_scene_base_key of base_cache */
+  guint base_under;                 /* underlay_generation in it, 0 for none */
+  int base_scale;
+  uint64_t last_base_key;           /* the base layer the last frame drew */
+  guint last_base_under;
+  guint base_reuses;                /* frames drawn over base_cache */
   HlScene scene;
   HlView view;
   gboolean view_fitted;
@@ -475,6 +486,13 @@ hl_canvas_get_view (HlCanvas *self, double *scale, double *tx, double *ty)
   *scale = self->view.scale;
   *tx = self->view.tx;
   *ty = self->view.ty;
+}
+
+guint
+hl_canvas_get_base_reuses (HlCanvas *self)
+{
+  g_return_val_if_fail (HL_IS_CANVAS (self), 0);
+  return self->base_reuses;
 }
 
 /* ---- Hover and drag ---------------------------------------------------- */
@@ -929,7 +947,47 @@ hl_canvas_underlay_picture (HlCanvas *self, const HlRenderStyle *style,
                     placement->mm_per_pixel, rg->opacity);
   cairo_destroy (cr);
   self->underlay_key = key;
+  if (++self->underlay_generation == 0)
+    self->underlay_generation = 1;
   return self->underlay_cache;
+}
+
+/* The picture under the top layer: `under` (the radiograph, or NULL)
+ * with the base layer drawn over it.  Both go into a recording, as on the
+ * canvas's own node, and the recording is replayed into the picture: so
+ * copying the picture gives the very pixels that drawing would (text
+ * included, at any scale). */
+static cairo_surface_t *
+hl_canvas_base_picture (HlCanvas *self, cairo_t *target, const HlRenderStyle *style,
+                        cairo_surface_t *under, int width, int height, int scale)
+{
+  cairo_surface_t *rec, *picture;
+  cairo_font_options_t *fonts = cairo_font_options_create ();
+  cairo_t *cr;
+
+  rec = cairo_recording_surface_create (CAIRO_CONTENT_COLOR_ALPHA,
+                                        &(cairo_rectangle_t) { 0, 0, width, height });
+  cr = cairo_create (rec);
+  cairo_get_font_options (target, fonts);
+  cairo_set_font_options (cr, fonts);
+  cairo_font_options_destroy (fonts);
+  cairo_set_antialias (cr, cairo_get_antialias (target));
+  if (under != NULL)
+    {
+      cairo_set_source_surface (cr, under, 0, 0);
+      cairo_paint (cr);
+    }
+  hl_render_scene_layers (cr, &self->scene, &self->view, style, width, height,
+                          HL_RENDER_LAYER_BASE);
+  cairo_destroy (cr);
+  picture = cairo_image_surface_create (CAIRO_FORMAT_ARGB32, width * scale, height * scale);
+  cairo_surface_set_device_scale (picture, scale, scale);
+  cr = cairo_create (picture);
+  cairo_set_source_surface (cr, rec, 0, 0);
+  cairo_paint (cr);
+  cairo_destroy (cr);
+  cairo_surface_destroy (rec);
+  return picture;
 }
 
 static void
@@ -948,18 +1006,53 @@ hl_canvas_snapshot (GtkWidget *widget, GtkSnapshot *snapshot)
   cairo_t *cr = gtk_snapshot_append_cairo (snapshot,
                                            &GRAPHENE_RECT_INIT (0, 0, width, height));
   HlImagePlacement placement;
+  cairo_surface_t *under = NULL;
+  guint under_generation = 0;
+  int scale = gtk_widget_get_scale_factor (widget);
   if (self->underlay != NULL && self->plan != NULL
       && hl_image_placement (self->plan, &placement, NULL) == HL_OK)
     {
-      cairo_surface_t *cache = hl_canvas_underlay_picture (self, &style, &placement,
-                                                           width, height);
-
-      cairo_set_source_surface (cr, cache, 0, 0);
-      cairo_paint (cr);
+      under = hl_canvas_underlay_picture (self, &style, &placement, width, height);
+      under_generation = self->underlay_generation;
       style.paint_background = FALSE;
     }
   style.hide_schematic = self->schematic_hidden;
-  hl_render_scene (cr, &self->scene, &self->view, &style, width, height);
+
+  /* The base layer as a picture once it stays the same for two frames (a
+   * drag of anything but the pelvis); while it changes every frame, drawn
+   * directly. */
+  uint64_t key = hl_render_scene_base_key (cr, &self->scene, &self->view, &style,
+                                           width, height);
+  gboolean same = key != 0 && key == self->last_base_key
+                  && under_generation == self->last_base_under;
+  self->last_base_key = key;
+  self->last_base_under = under_generation;
+  if (same && (self->base_cache == NULL || self->base_key != key
+               || self->base_under != under_generation || self->base_scale != scale))
+    {
+      g_clear_pointer (&self->base_cache, cairo_surface_destroy);
+      self->base_cache = hl_canvas_base_picture (self, cr, &style, under, width, height, scale);
+      self->base_key = key;
+      self->base_under = under_generation;
+      self->base_scale = scale;
+    }
+  if (same)
+    {
+      self->base_reuses++;
+      cairo_set_source_surface (cr, self->base_cache, 0, 0);
+      cairo_paint (cr);
+      hl_render_scene_layers (cr, &self->scene, &self->view, &style, width, height,
+                              HL_RENDER_LAYER_TOP);
+    }
+  else
+    {
+      if (under != NULL)
+        {
+          cairo_set_source_surface (cr, under, 0, 0);
+          cairo_paint (cr);
+        }
+      hl_render_scene (cr, &self->scene, &self->view, &style, width, height);
+    }
   cairo_destroy (cr);
 }
 
@@ -1047,6 +1140,7 @@ hl_canvas_finalize (GObject *object)
   HlCanvas *self = HL_CANVAS (object);
 
   g_clear_pointer (&self->underlay_cache, cairo_surface_destroy);
+  g_clear_pointer (&self->base_cache, cairo_surface_destroy);
   G_OBJECT_CLASS (hl_canvas_parent_class)->finalize (object);
 }
 

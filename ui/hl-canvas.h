@@ -101,5 +101,9 @@ gboolean hl_canvas_get_click_placement (HlCanvas *self);
 void hl_canvas_pan_by (HlCanvas *self, double dx, double dy);
 /* The view (px per mm, offsets), for tests that compute screen points. */
 void hl_canvas_get_view (HlCanvas *self, double *scale, double *tx, double *ty);
+/* How many frames were drawn over the kept picture of the schematic's base
+ * layer (the radiograph, the midline and the pelvis) instead of drawing it
+ * again: for the drag benchmark. */
+guint hl_canvas_get_base_reuses (HlCanvas *self);
 
 G_END_DECLS

@@ -499,6 +499,16 @@ typedef struct {
   gulong after_id;
   gint64 paint_start_us;
   gint64 paint_start_cpu_us;
+  /* Where a frame's time goes: the update (the drag's edit, the solve,
+   * the views' own updates) and then layout, snapshot and render. */
+  gulong update_id;
+  gint64 update_end_us;
+  gint64 update_end_cpu_us;
+  GArray *update_ms;
+  GArray *update_cpu_ms;
+  GArray *draw_ms;
+  GArray *draw_cpu_ms;
+  guint base_reuses_before;
   gint64 last_frame_us;
   gint64 process_start_us;
   double startup_s;
@@ -589,11 +599,20 @@ bench_before_paint_cb (GdkFrameClock *clock, HlBench *bench)
   bench->paint_start_cpu_us = thread_cpu_us ();
 }
 
+/* Connected after the window's tick callback: the end of the update. */
+static void
+bench_update_cb (GdkFrameClock *clock, HlBench *bench)
+{
+  bench->update_end_us = g_get_monotonic_time ();
+  bench->update_end_cpu_us = thread_cpu_us ();
+}
+
 static void
 bench_after_paint_cb (GdkFrameClock *clock, HlBench *bench)
 {
-  double ms = (g_get_monotonic_time () - bench->paint_start_us) / 1000.0;
-  double cpu = (thread_cpu_us () - bench->paint_start_cpu_us) / 1000.0;
+  gint64 now = g_get_monotonic_time (), now_cpu = thread_cpu_us ();
+  double ms = (now - bench->paint_start_us) / 1000.0;
+  double cpu = (now_cpu - bench->paint_start_cpu_us) / 1000.0;
 
   if (bench->startup_s == 0.0)
     bench->startup_s = process_age_s (bench->process_start_us);
@@ -601,6 +620,18 @@ bench_after_paint_cb (GdkFrameClock *clock, HlBench *bench)
     {
       g_array_append_val (bench->work_ms, ms);
       g_array_append_val (bench->cpu_ms, cpu);
+      if (bench->update_end_us >= bench->paint_start_us)
+        {
+          double v[4] = { (bench->update_end_us - bench->paint_start_us) / 1000.0,
+                          (bench->update_end_cpu_us - bench->paint_start_cpu_us) / 1000.0,
+                          (now - bench->update_end_us) / 1000.0,
+                          (now_cpu - bench->update_end_cpu_us) / 1000.0 };
+
+          g_array_append_val (bench->update_ms, v[0]);
+          g_array_append_val (bench->update_cpu_ms, v[1]);
+          g_array_append_val (bench->draw_ms, v[2]);
+          g_array_append_val (bench->draw_cpu_ms, v[3]);
+        }
     }
 }
 
@@ -631,6 +662,12 @@ bench_finish (HlBench *bench)
           quantile (bench->work_ms, 0.5), quantile (bench->work_ms, HL_BENCH_P95));
   printf ("frame CPU time of the main thread: median %.2f ms, p95 %.2f ms\n",
           quantile (bench->cpu_ms, 0.5), quantile (bench->cpu_ms, HL_BENCH_P95));
+  printf ("frame parts, median: update (edit, solve, views) %.2f ms, CPU %.2f ms; "
+          "layout, snapshot and render %.2f ms, CPU %.2f ms; "
+          "schematic's base layer reused in %u frames\n",
+          quantile (bench->update_ms, 0.5), quantile (bench->update_cpu_ms, 0.5),
+          quantile (bench->draw_ms, 0.5), quantile (bench->draw_cpu_ms, 0.5),
+          hl_canvas_get_base_reuses (HL_CANVAS (self->canvas)) - bench->base_reuses_before);
   printf ("startup to first frame: %.3f s (target <= 0.5 s)\n", bench->startup_s);
   printf ("resident memory: %.1f MB (target <= 100 MB); of it %.1f MB mapped files (libraries, fonts), %.1f MB own\n",
           status_mb ("VmRSS:"), status_mb ("RssFile:"), status_mb ("RssAnon:"));
@@ -638,6 +675,11 @@ bench_finish (HlBench *bench)
 
   g_signal_handler_disconnect (bench->clock, bench->before_id);
   g_signal_handler_disconnect (bench->clock, bench->after_id);
+  g_signal_handler_disconnect (bench->clock, bench->update_id);
+  g_array_unref (bench->update_ms);
+  g_array_unref (bench->update_cpu_ms);
+  g_array_unref (bench->draw_ms);
+  g_array_unref (bench->draw_cpu_ms);
   g_array_unref (bench->interval_ms);
   g_array_unref (bench->work_ms);
   g_array_unref (bench->cpu_ms);
@@ -667,6 +709,9 @@ bench_tick_cb (GtkWidget *widget, GdkFrameClock *clock, gpointer user_data)
                                            G_CALLBACK (bench_before_paint_cb), bench);
       bench->after_id = g_signal_connect (clock, "after-paint",
                                           G_CALLBACK (bench_after_paint_cb), bench);
+      bench->update_id = g_signal_connect (clock, "update",
+                                           G_CALLBACK (bench_update_cb), bench);
+      bench->base_reuses_before = hl_canvas_get_base_reuses (HL_CANVAS (self->canvas));
       bench->clock = clock;
       bench->start = hl_window_get_plan (self)->landmarks.p[id];
       bench->prepares_before = hl_document_get_prepare_count (self->document);
@@ -780,5 +825,9 @@ hl_window_run_benchmark_drag (HlWindow *self, gint64 process_start_us)
   bench->interval_ms = g_array_new (FALSE, FALSE, sizeof (double));
   bench->work_ms = g_array_new (FALSE, FALSE, sizeof (double));
   bench->cpu_ms = g_array_new (FALSE, FALSE, sizeof (double));
+  bench->update_ms = g_array_new (FALSE, FALSE, sizeof (double));
+  bench->update_cpu_ms = g_array_new (FALSE, FALSE, sizeof (double));
+  bench->draw_ms = g_array_new (FALSE, FALSE, sizeof (double));
+  bench->draw_cpu_ms = g_array_new (FALSE, FALSE, sizeof (double));
   gtk_widget_add_tick_callback (GTK_WIDGET (self), bench_tick_cb, bench, NULL);
 }
