@@ -279,19 +279,32 @@ hl_results_clear_columns (HlResults *self)
     {
       HlResultsColumn *col = &g_array_index (self->columns, HlResultsColumn, c);
 
-      gtk_grid_remove (GTK_GRID (self->header_grid), col->header);
+      gtk_grid_remove (GTK_GRID (self->header_grid), gtk_widget_get_parent (col->header));
       for (guint r = 0; r < N_ROWS; r++)
         gtk_grid_remove (GTK_GRID (self->body_grid), col->cell[r]);
       for (guint k = 0; k < N_RANGE_ROWS; k++)
         gtk_grid_remove (GTK_GRID (self->body_grid), col->range_cell[k]);
       gtk_grid_remove (GTK_GRID (self->body_grid), col->flags);
       for (guint k = 0; k < N_AGAINST_ROWS; k++)
-        gtk_grid_remove (GTK_GRID (self->body_grid), col->against[k]);
-      gtk_grid_remove (GTK_GRID (self->body_grid), col->error);
+        gtk_grid_remove (GTK_GRID (self->body_grid), gtk_widget_get_parent (col->against[k]));
+      gtk_grid_remove (GTK_GRID (self->body_grid), gtk_widget_get_parent (col->error));
       g_object_unref (col->width);
       g_object_unref (col->number);
     }
   g_array_set_size (self->columns, 0);
+}
+
+/* A box around one widget.  Only such boxes join the size groups: a
+ * group re-measures all its members when one changes, and a box is
+ * measured again from its child's kept size, where a label would lay out
+ * its text again. */
+static GtkWidget *
+wrap (GtkWidget *child)
+{
+  GtkWidget *box = gtk_box_new (GTK_ORIENTATION_VERTICAL, 0);
+
+  gtk_box_append (GTK_BOX (box), child);
+  return box;
 }
 
 /* A body cell of column `col` in body row `y`: lined up with the option's
@@ -320,16 +333,24 @@ hl_results_build_columns (HlResults *self, size_t n)
       gtk_label_set_wrap_mode (GTK_LABEL (col.header), PANGO_WRAP_WORD_CHAR);
       gtk_label_set_width_chars (GTK_LABEL (col.header), 12);
       gtk_label_set_max_width_chars (GTK_LABEL (col.header), 18);
-      gtk_widget_set_valign (col.header, GTK_ALIGN_END);
-      gtk_size_group_add_widget (col.width, col.header);
-      gtk_grid_attach (GTK_GRID (self->header_grid), col.header, x, 0, 1, 1);
+      {
+        GtkWidget *box = wrap (col.header);
+
+        gtk_widget_set_valign (box, GTK_ALIGN_END);
+        gtk_size_group_add_widget (col.width, box);
+        gtk_grid_attach (GTK_GRID (self->header_grid), box, x, 0, 1, 1);
+      }
       for (guint r = 0; r < N_ROWS; r++)
         {
           col.cell[r] = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 6);
           col.value[r] = make_label ("results-value", 1.0f);
           gtk_label_set_width_chars (GTK_LABEL (col.value[r]), 7);
-          gtk_size_group_add_widget (col.number, col.value[r]);
-          gtk_box_append (GTK_BOX (col.cell[r]), col.value[r]);
+          {
+            GtkWidget *box = wrap (col.value[r]);
+
+            gtk_size_group_add_widget (col.number, box);
+            gtk_box_append (GTK_BOX (col.cell[r]), box);
+          }
           col.change[r] = make_label ("results-change", 0.0f);
           gtk_label_set_width_chars (GTK_LABEL (col.change[r]), 8);
           gtk_box_append (GTK_BOX (col.cell[r]), col.change[r]);
@@ -342,8 +363,12 @@ hl_results_build_columns (HlResults *self, size_t n)
           col.range_cell[k] = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 0);
           col.range[k] = make_label ("results-range", 1.0f);
           gtk_widget_add_css_class (col.range[k], "dim-label");
-          gtk_size_group_add_widget (col.number, col.range[k]);
-          gtk_box_append (GTK_BOX (col.range_cell[k]), col.range[k]);
+          {
+            GtkWidget *box = wrap (col.range[k]);
+
+            gtk_size_group_add_widget (col.number, box);
+            gtk_box_append (GTK_BOX (col.range_cell[k]), box);
+          }
           attach_cell (self, &col, col.range_cell[k], x, range_row_y (k));
           gtk_widget_set_visible (col.range_cell[k], FALSE);
         }
@@ -378,18 +403,22 @@ hl_results_build_columns (HlResults *self, size_t n)
       for (guint k = 0; k < N_AGAINST_ROWS; k++)
         {
           col.against[k] = make_label ("results-value", 0.0f);
-          attach_cell (self, &col, col.against[k], x, AGAINST_LEG_ROW + (int) k);
+          attach_cell (self, &col, wrap (col.against[k]), x, AGAINST_LEG_ROW + (int) k);
         }
       /* Over the column's figures (hidden then); leg length and offset
        * against the other side come from the landmarks and stay. */
       col.error = make_label ("results-error", 0.0f);
       gtk_label_set_wrap (GTK_LABEL (col.error), TRUE);
       gtk_label_set_max_width_chars (GTK_LABEL (col.error), 22);
-      gtk_widget_set_valign (col.error, GTK_ALIGN_START);
-      gtk_size_group_add_widget (col.width, col.error);
-      gtk_grid_attach (GTK_GRID (self->body_grid), col.error, x, FIRST_VALUE_ROW, 1,
-                       N_BODY_ROWS - FIRST_VALUE_ROW);
-      gtk_widget_set_visible (col.error, FALSE);
+      {
+        GtkWidget *box = wrap (col.error);
+
+        gtk_widget_set_valign (box, GTK_ALIGN_START);
+        gtk_size_group_add_widget (col.width, box);
+        gtk_grid_attach (GTK_GRID (self->body_grid), box, x, FIRST_VALUE_ROW, 1,
+                         N_BODY_ROWS - FIRST_VALUE_ROW);
+        gtk_widget_set_visible (box, FALSE);
+      }
       g_array_append_val (self->columns, col);
     }
   self->column_ok = g_renew (gboolean, self->column_ok, MAX (n, 1));
@@ -474,7 +503,7 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
 
       self->column_ok[c] = ok;
       gtk_widget_set_visible (col->flags, ok);
-      gtk_widget_set_visible (col->error, !ok && !common);
+      gtk_widget_set_visible (gtk_widget_get_parent (col->error), !ok && !common);
       if (ok)
         {
           g_autofree char *flags = format_flags_short (&s->result);
@@ -787,21 +816,27 @@ hl_results_class_init (HlResultsClass *klass)
  * NULL), and an empty cell in the body that keeps the row, and its
  * height, while the row's other cells are hidden. */
 static GtkWidget *
-add_row_name (HlResults *self, int y, const char *name, const char *unit)
+add_row_name (HlResults *self, int y, const char *name, const char *unit, gboolean dim)
 {
   GtkWidget *label = make_label ("results-quantity", 0.0f);
+  GtkWidget *box = wrap (label);
   GtkWidget *anchor = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 0);
 
   gtk_label_set_text (GTK_LABEL (label), name);
-  gtk_label_set_yalign (GTK_LABEL (label), 0.0f);
-  gtk_size_group_add_widget (self->row_group[y], label);
-  gtk_grid_attach (GTK_GRID (self->names_grid), label, 0, y, unit != NULL ? 1 : 2, 1);
+  if (dim)
+    gtk_widget_add_css_class (label, "dim-label");
+  gtk_size_group_add_widget (self->row_group[y], box);
+  gtk_grid_attach (GTK_GRID (self->names_grid), box, 0, y, unit != NULL ? 1 : 2, 1);
+  label = box;     /* the row's name from here on: shown and hidden whole */
   if (unit != NULL)
     {
       GtkWidget *u = make_label ("results-unit", 0.0f);
 
       gtk_label_set_text (GTK_LABEL (u), unit);
       gtk_label_set_yalign (GTK_LABEL (u), 0.0f);
+      gtk_widget_set_valign (u, GTK_ALIGN_START);
+      if (dim)
+        gtk_widget_add_css_class (u, "dim-label");
       gtk_grid_attach (GTK_GRID (self->names_grid), u, 1, y, 1, 1);
       g_object_bind_property (label, "visible", u, "visible", G_BINDING_SYNC_CREATE);
     }
@@ -908,25 +943,23 @@ hl_results_init (HlResults *self)
   gtk_grid_attach (layout, self->range_note, 0, 3, 2, 1);
   gtk_widget_set_visible (self->range_note, FALSE);
 
-  add_row_name (self, FLAGS_ROW, _("Flags"), NULL);
+  add_row_name (self, FLAGS_ROW, _("Flags"), NULL, FALSE);
   {
     static const char *const against[N_AGAINST_ROWS] = {
       N_("Operated leg against the other"),
       N_("Global offset against the other side"),
     };
     for (guint k = 0; k < N_AGAINST_ROWS; k++)
-      add_row_name (self, AGAINST_LEG_ROW + (int) k, _(against[k]), NULL);
+      add_row_name (self, AGAINST_LEG_ROW + (int) k, _(against[k]), NULL, FALSE);
   }
   for (guint r = 0; r < N_ROWS; r++)
     add_row_name (self, value_row_y (r), _(rows[r]->name),
-                  rows[r]->unit[0] != '\0' ? _(rows[r]->unit) : "");
+                  rows[r]->unit[0] != '\0' ? _(rows[r]->unit) : "", FALSE);
   for (guint k = 0; k < N_RANGE_ROWS; k++)
     {
       GtkWidget *label = add_row_name (self, range_row_y (k), _(range_rows[k].label),
-                                       _(range_rows[k].unit));
+                                       _(range_rows[k].unit), TRUE);
 
-      gtk_widget_add_css_class (label, "dim-label");
-      gtk_widget_add_css_class (gtk_widget_get_next_sibling (label), "dim-label");
       gtk_widget_set_visible (label, FALSE);
       self->range_label[k] = label;
     }
