@@ -881,6 +881,9 @@ hl_render_fit_view (const HlScene *scene, double width, double height,
 #define CAUTION_PAD_PX (10.0 * px_size)
 #define LEGEND_RESERVE_EM 17.0
 #define LEGEND_ASPECT_MIN 1.45
+/* The share of its scale a drawing keeps when it gives the legend its
+ * column. */
+#define LEGEND_KEEP_SCALE 0.97
 #define FRAME_FULL_HEIGHT_PX (520.0 * px_size)
 #define FRAME_SMALL_RATIO 0.6
 #define WIDE_ASPECT 2.0
@@ -906,8 +909,7 @@ hl_render_fit_view_framed (const HlScene *scene, const HlRenderStyle *style,
     }
   double right = 0.0;
   double legend_w = LEGEND_RESERVE_EM * style->font_px;
-  if (style->show_legend && width - legend_w > LEGEND_ASPECT_MIN * (height - top - bottom))
-    right = legend_w;
+  bool wide_for_legend = width - legend_w > LEGEND_ASPECT_MIN * (height - top - bottom);
   /* A wide, low rectangle (a window on a 1366 x 768 screen: the default
    * 1280 x 768 window gives the schematic 810 x 371 px, 2.18 to 1) has room
    * for the markers and the bars in its corners beside the bones: keep only
@@ -919,6 +921,18 @@ hl_render_fit_view_framed (const HlScene *scene, const HlRenderStyle *style,
     }
   if (height - top - bottom < 0.5 * height)
     top = bottom = 0.0;
+  /* The legend's column is kept clear where the rectangle is wide enough,
+   * and also where the bones, held by the height, keep their scale beside
+   * it (a small figure): the legend then stands beside the drawing rather
+   * than over it. */
+  if (style->show_legend && legend_w < width)
+    {
+      HlView full, beside;
+      hl_render_fit_view (scene, width, height - top - bottom, margin, &full);
+      hl_render_fit_view (scene, width - legend_w, height - top - bottom, margin, &beside);
+      if (wide_for_legend || beside.scale >= LEGEND_KEEP_SCALE * full.scale)
+        right = legend_w;
+    }
   hl_render_fit_view (scene, width - right, height - top - bottom, margin, view);
   view->ty += top;
 }
@@ -1931,16 +1945,97 @@ draw_scale_bars (cairo_t *cr, const HlView *view, const HlRenderStyle *style,
 }
 
 /* kind: 0 an arrow, 1 a required handle, 2 an optional handle, 3 a moved
- * landmark, 4 the native femur. */
+ * landmark, 4 the native femur, 5 both handles (the compact form). */
 typedef struct {
   HlPaletteRole role;
   const char *text;
   int kind;
 } LegendRow;
 
+/* The legend's forms, tried in turn until one fits its corner: the full
+ * one; a compact one (the smallest text, tighter rows, one row for both
+ * kinds of landmark); the compact one in two columns. */
+typedef struct {
+  bool compact;
+  int columns;
+} LegendForm;
+
+static const LegendForm legend_forms[] = { { false, 1 }, { true, 1 }, { true, 2 } };
+#define LEGEND_FULL_SCALE 0.9
+#define LEGEND_FULL_ROW_EM 1.35
+#define LEGEND_COMPACT_ROW_EM 1.2
+#define LEGEND_SAMPLE_PX (26.0 * px_size)
+#define LEGEND_COMPACT_SAMPLE_PX (20.0 * px_size)
+
+static void
+legend_glyph (cairo_t *cr, const HlRenderStyle *style, const LegendRow *row, double sx,
+              double cy, double sample)
+{
+  HlRgba c = hl_palette_color (row->role, style->dark);
+  switch (row->kind)
+    {
+    case 0:
+      {
+        double dashes[HL_PALETTE_DASHES_MAX];
+        int nd = hl_palette_dashes (row->role, dashes);
+        set_rgba (cr, c, 1.0);
+        arrow_path (cr, v2 (sx, cy), v2 (sx + sample, cy),
+                    row->role == HL_ROLE_JOINT ? ARROW_JOINT_PX : ARROW_PX, dashes, nd);
+      }
+      break;
+    case 1:
+    case 2:
+    case 5:
+      for (int k = 1; k <= 2; k++)
+        {
+          if (row->kind != 5 && row->kind != k)
+            continue;
+          /* both: the round one left, the diamond right */
+          double gx = row->kind != 5 ? sx + 0.5 * sample
+                                     : sx + (k == 1 ? 0.25 : 0.75) * sample;
+          double r = k == 1 ? HANDLE_RADIUS_PX : HANDLE_OPTIONAL_RADIUS_PX;
+          if (row->kind == 5)
+            r *= 0.8;
+          handle_shape (cr, v2 (gx, cy), k == 1, r);
+          set_rgba (cr, hl_palette_color (k == 1 ? HL_ROLE_HANDLE : HL_ROLE_HANDLE_OPTIONAL,
+                                          style->dark), 1.0);
+          cairo_fill_preserve (cr);
+          set_rgba (cr, style->fg, 0.9);
+          cairo_set_line_width (cr, 1.2 * px_size);
+          cairo_stroke (cr);
+        }
+      break;
+    case 3:
+      set_rgba (cr, c, 1.0);
+      cairo_set_line_width (cr, 1.6 * px_size);
+      cairo_new_path (cr);
+      cairo_move_to (cr, sx + 0.5 * sample - MARKER_HALF_PX, cy - MARKER_HALF_PX);
+      cairo_line_to (cr, sx + 0.5 * sample + MARKER_HALF_PX, cy + MARKER_HALF_PX);
+      cairo_move_to (cr, sx + 0.5 * sample - MARKER_HALF_PX, cy + MARKER_HALF_PX);
+      cairo_line_to (cr, sx + 0.5 * sample + MARKER_HALF_PX, cy - MARKER_HALF_PX);
+      cairo_stroke (cr);
+      break;
+    default:
+      {
+        static const double dash[] = { 5.0, 4.0 };
+        cairo_set_dash (cr, dash, 2, 0);
+        set_rgba (cr, style->fg, NATIVE_GHOST_ALPHA);
+        cairo_set_line_width (cr, BONE_LINE_PX);
+        cairo_new_path (cr);
+        cairo_move_to (cr, sx, cy);
+        cairo_line_to (cr, sx + sample, cy);
+        cairo_stroke (cr);
+        cairo_set_dash (cr, NULL, 0, 0);
+      }
+      break;
+    }
+}
+
+/* Draws (or only measures into *box) the legend in the form given, its
+ * bottom right corner at (width - margin, bottom); returns its width. */
 static double
 draw_legend (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
-             double width, double bottom, bool draw, Rect *box)
+             double width, double bottom, bool draw, Rect *box, LegendForm form)
 {
   LegendRow rows[HL_FORCE_N + 4];
   int n = 0;
@@ -1964,24 +2059,36 @@ draw_legend (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
           rows[n++] = (LegendRow) { role, hl_force_label (f->kind), 0 };
         }
     }
-  rows[n++] = (LegendRow) { HL_ROLE_HANDLE, _("Required landmark"), 1 };
-  rows[n++] = (LegendRow) { HL_ROLE_HANDLE_OPTIONAL, _("Optional landmark"), 2 };
+  if (form.compact)
+    rows[n++] = (LegendRow) { HL_ROLE_HANDLE, _("Landmark: required, optional"), 5 };
+  else
+    {
+      rows[n++] = (LegendRow) { HL_ROLE_HANDLE, _("Required landmark"), 1 };
+      rows[n++] = (LegendRow) { HL_ROLE_HANDLE_OPTIONAL, _("Optional landmark"), 2 };
+    }
   if (scene->has_option)
     {
       rows[n++] = (LegendRow) { HL_ROLE_OPTION, _("Option: moved landmark, cup"), 3 };
       rows[n++] = (LegendRow) { HL_ROLE_OPTION, _("Native femur"), 4 };
     }
 
-  font (cr, style, 0.9, false);
-  double row_h = style->font_px * 1.35, sample = 26.0 * px_size, w = 0.0;
+  double scale = form.compact ? SMALLEST_TEXT_SCALE : LEGEND_FULL_SCALE;
+  double row_h = style->font_px * scale * (form.compact ? LEGEND_COMPACT_ROW_EM
+                                                        : LEGEND_FULL_ROW_EM / LEGEND_FULL_SCALE);
+  double sample = form.compact ? LEGEND_COMPACT_SAMPLE_PX : LEGEND_SAMPLE_PX;
+  int cols = form.columns > 1 && n > 1 ? form.columns : 1;
+  int per_col = (n + cols - 1) / cols;
+  font (cr, style, scale, false);
+  double col_w[2] = { 0.0, 0.0 };
   for (int i = 0; i < n; i++)
     {
       cairo_text_extents_t te;
       cairo_text_extents (cr, rows[i].text, &te);
-      w = fmax (w, te.x_advance);
+      int c = i / per_col;
+      col_w[c] = fmax (col_w[c], te.x_advance + sample + 2.0 * LABEL_GAP_PX);
     }
-  double bw = w + sample + 3.0 * LABEL_GAP_PX;
-  double bh = n * row_h + LABEL_GAP_PX;
+  double bw = col_w[0] + (cols > 1 ? col_w[1] : 0.0) + LABEL_GAP_PX;
+  double bh = per_col * row_h + LABEL_GAP_PX;
   double x = width - BOX_MARGIN_PX - bw, y = bottom - bh;
   if (box != NULL)
     *box = (Rect) { x, y, bw, bh };
@@ -1999,62 +2106,45 @@ draw_legend (cairo_t *cr, const HlRenderStyle *style, const HlScene *scene,
 
   for (int i = 0; i < n; i++)
     {
-      double cy = y + LABEL_GAP_PX * 0.5 + (i + 0.5) * row_h;
-      double sx = x + LABEL_GAP_PX;
-      HlRgba c = hl_palette_color (rows[i].role, style->dark);
-      switch (rows[i].kind)
-        {
-        case 0:
-          {
-            double dashes[HL_PALETTE_DASHES_MAX];
-            int nd = hl_palette_dashes (rows[i].role, dashes);
-            set_rgba (cr, c, 1.0);
-            arrow_path (cr, v2 (sx, cy), v2 (sx + sample, cy),
-                        rows[i].role == HL_ROLE_JOINT ? ARROW_JOINT_PX : ARROW_PX,
-                        dashes, nd);
-          }
-          break;
-        case 1:
-        case 2:
-          handle_shape (cr, v2 (sx + 0.5 * sample, cy), rows[i].kind == 1,
-                        rows[i].kind == 1 ? HANDLE_RADIUS_PX
-                                          : HANDLE_OPTIONAL_RADIUS_PX);
-          set_rgba (cr, c, 1.0);
-          cairo_fill_preserve (cr);
-          set_rgba (cr, style->fg, 0.9);
-          cairo_set_line_width (cr, 1.2 * px_size);
-          cairo_stroke (cr);
-          break;
-        case 3:
-          set_rgba (cr, c, 1.0);
-          cairo_set_line_width (cr, 1.6 * px_size);
-          cairo_new_path (cr);
-          cairo_move_to (cr, sx + 0.5 * sample - MARKER_HALF_PX, cy - MARKER_HALF_PX);
-          cairo_line_to (cr, sx + 0.5 * sample + MARKER_HALF_PX, cy + MARKER_HALF_PX);
-          cairo_move_to (cr, sx + 0.5 * sample - MARKER_HALF_PX, cy + MARKER_HALF_PX);
-          cairo_line_to (cr, sx + 0.5 * sample + MARKER_HALF_PX, cy - MARKER_HALF_PX);
-          cairo_stroke (cr);
-          break;
-        default:
-          {
-            static const double dash[] = { 5.0, 4.0 };
-            cairo_set_dash (cr, dash, 2, 0);
-            set_rgba (cr, style->fg, NATIVE_GHOST_ALPHA);
-            cairo_set_line_width (cr, BONE_LINE_PX);
-            cairo_new_path (cr);
-            cairo_move_to (cr, sx, cy);
-            cairo_line_to (cr, sx + sample, cy);
-            cairo_stroke (cr);
-            cairo_set_dash (cr, NULL, 0, 0);
-          }
-          break;
-        }
+      int c = i / per_col;
+      double cy = y + LABEL_GAP_PX * 0.5 + (i - c * per_col + 0.5) * row_h;
+      double sx = x + LABEL_GAP_PX + (c > 0 ? col_w[0] : 0.0);
+      legend_glyph (cr, style, &rows[i], sx, cy, sample);
       set_rgba (cr, style->fg, 1.0);
-      font (cr, style, 0.9, false);
-      cairo_move_to (cr, sx + sample + LABEL_GAP_PX, cy + 0.35 * style->font_px);
+      font (cr, style, scale, false);
+      cairo_move_to (cr, sx + sample + LABEL_GAP_PX, cy + 0.35 * style->font_px * scale / LEGEND_FULL_SCALE);
       cairo_show_text (cr, rows[i].text);
     }
   return bw;
+}
+
+/* When no form of the legend fits: a line in the smallest text says so
+ * in its corner, so that it is never dropped silently. */
+static Rect
+legend_note (cairo_t *cr, const HlRenderStyle *style, double width, double bottom,
+             bool draw)
+{
+  const char *text = _("No room for the legend at this size");
+  font (cr, style, SMALLEST_TEXT_SCALE, false);
+  cairo_text_extents_t te;
+  cairo_text_extents (cr, text, &te);
+  double h = style->font_px * SMALLEST_TEXT_SCALE * LEGEND_COMPACT_ROW_EM;
+  double w = fmin (te.x_advance + 2.0 * LABEL_PAD_PX, width - 2.0 * BOX_MARGIN_PX);
+  Rect r = { width - BOX_MARGIN_PX - w, bottom - h, w, h };
+  if (draw)
+    {
+      cairo_save (cr);
+      cairo_new_path (cr);
+      cairo_rectangle (cr, r.x, r.y, r.w, r.h);
+      set_rgba (cr, style->bg, 0.85);
+      cairo_fill_preserve (cr);
+      cairo_clip (cr);
+      set_rgba (cr, style->fg, 0.8);
+      cairo_move_to (cr, r.x + LABEL_PAD_PX, r.y + 0.78 * h);
+      cairo_show_text (cr, text);
+      cairo_restore (cr);
+    }
+  return r;
 }
 
 static void
@@ -2259,16 +2349,27 @@ scene_draw (cairo_t *cr, const HlScene *scene, const HlView *view,
                       bars[k].x, bars[k].y, bars[k].w, bars[k].h);
         }
     }
-  bool legend = style->show_legend;
+  /* The legend in the first of its forms that leaves the drawing room
+   * (at most 60% of the height below the frame and half the width); when
+   * none does, a line says it is left out. */
+  bool legend = false, legend_noted = false;
+  LegendForm form = legend_forms[0];
   Rect legend_box = { 0 };
-  if (legend)
+  double legend_bottom = foot - BOX_MARGIN_PX;
+  if (style->show_legend)
     {
-      draw_legend (cr, style, scene, width, foot - BOX_MARGIN_PX, false, &legend_box);
       double room = foot - (style->show_frame ? BOX_MARGIN_PX + SIDE_MARKER_PX : 0.0);
-      legend = legend_box.h <= 0.6 * room && legend_box.w <= 0.5 * width;
-    }
-  if (legend)
-    {
+      for (size_t k = 0; k < N_ELEMENTS (legend_forms) && !legend; k++)
+        {
+          form = legend_forms[k];
+          draw_legend (cr, style, scene, width, legend_bottom, false, &legend_box, form);
+          legend = legend_box.h <= 0.6 * room && legend_box.w <= 0.5 * width;
+        }
+      if (!legend)
+        {
+          legend_box = legend_note (cr, style, width, legend_bottom, false);
+          legend_noted = true;
+        }
       placer_add (&pl, legend_box.x, legend_box.y, legend_box.w, legend_box.h);
       layout_add (style, HL_BOX_LEGEND, legend_box.x, legend_box.y, legend_box.w,
                   legend_box.h);
@@ -2276,6 +2377,8 @@ scene_draw (cairo_t *cr, const HlScene *scene, const HlView *view,
   if (style->layout != NULL)
     {
       style->layout->legend_shown = legend;
+      style->layout->legend_compact = legend && form.compact;
+      style->layout->legend_noted = legend_noted;
       style->layout->body_text_px = SMALLEST_TEXT_SCALE * style->font_px;
     }
 
@@ -2331,7 +2434,9 @@ scene_draw (cairo_t *cr, const HlScene *scene, const HlView *view,
   if (style->show_frame)
     draw_scale_bars (cr, view, style, width, foot - BOX_MARGIN_PX * 0.5, true, bars);
   if (legend)
-    draw_legend (cr, style, scene, width, foot - BOX_MARGIN_PX, true, NULL);
+    draw_legend (cr, style, scene, width, legend_bottom, true, NULL, form);
+  else if (legend_noted)
+    legend_note (cr, style, width, legend_bottom, true);
   if (!scene->solved)
     draw_error_box (cr, style, scene, width);
 

@@ -72,7 +72,10 @@ typedef struct {
   int n;
   HlRenderBox box[HL_RENDER_LAYOUT_MAX];
   double body_text_px;   /* the font size of label text, px */
-  bool legend_shown;
+  bool legend_shown;     /* the legend is drawn (its box is HL_BOX_LEGEND) */
+  bool legend_compact;   /* ... in its compact form (a small or crowded drawing) */
+  bool legend_noted;     /* no form fits: a line in the legend's corner (the
+                          * HL_BOX_LEGEND box) says it is left out */
 } HlRenderLayout;
 
 /* ---- Style ------------------------------------------------------------ */

@@ -662,6 +662,17 @@ check_layout (const char *what, const HlRenderLayout *l, double w, double h,
                  what, l->body_text_px, min_text_px);
 }
 
+/* The legend is drawn (full or compact), with its box in the layout. */
+static void
+check_legend (const char *what, const HlRenderLayout *l)
+{
+  int n = 0;
+  for (int i = 0; i < l->n; i++)
+    n += l->box[i].kind == HL_BOX_LEGEND;
+  ck_assert_msg (l->legend_shown && !l->legend_noted, "%s: the legend is left out", what);
+  ck_assert_msg (n == 1, "%s: %d legend boxes", what, n);
+}
+
 typedef struct {
   const char *name;
   int width, height;
@@ -701,11 +712,55 @@ START_TEST (test_layout_figures)
       char what[96];
       snprintf (what, sizeof what, "%s, option %d", c->name, option);
       check_layout (what, &layout, w, h, c->min_text_px);
-      /* the caution is in every figure */
+      /* the caution and the legend are in every figure */
       bool caution = false;
       for (int i = 0; i < layout.n; i++)
         caution |= layout.box[i].kind == HL_BOX_CAUTION;
       ck_assert_msg (caution, "%s: no caution", what);
+      check_legend (what, &layout);
+    }
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* The legend is never dropped silently: at 400 x 300 with the most rows
+ * (a cane, a carried load and an option) it is drawn in its compact form
+ * beside the bones; at a size too small for any form a line in its corner
+ * says it is left out. */
+START_TEST (test_layout_legend_small)
+{
+  HlPlan *plan = demo_plan ();
+  plan->cane.enabled = true;
+  plan->cane.hand = HL_HAND_CONTRALATERAL;
+  plan->cane.unit = HL_FORCE_UNIT_PERCENT_BW;
+  plan->cane.value = 15.0;
+  plan->cane.distance_mm = 280.0;
+  plan->loads.hand[HL_HAND_IPSILATERAL].mass_kg = 4.0;
+  plan->loads.hand[HL_HAND_IPSILATERAL].distance_mm = 220.0;
+  static const struct { int w, h; bool shown; } sizes[] = {
+    { 400, 300, true }, { 480, 360, true }, { 160, 120, false },
+  };
+  for (size_t k = 0; k < sizeof sizes / sizeof sizes[0]; k++)
+    {
+      int w = sizes[k].w, h = sizes[k].h;
+      HlRenderLayout layout;
+      cairo_surface_t *surface = cairo_image_surface_create (CAIRO_FORMAT_RGB24, w, h);
+      cairo_t *cr = cairo_create (surface);
+      hl_render_figure_draw (cr, plan, 0, w, h, HL_RENDER_PRESET_AUTO, NULL, &layout);
+      cairo_destroy (cr);
+      cairo_surface_destroy (surface);
+      char what[64];
+      snprintf (what, sizeof what, "figure %d x %d, crowded", w, h);
+      int n = 0;
+      for (int i = 0; i < layout.n; i++)
+        n += layout.box[i].kind == HL_BOX_LEGEND;
+      ck_assert_msg (n == 1, "%s: %d legend boxes", what, n);
+      ck_assert_msg (layout.legend_shown != layout.legend_noted,
+                     "%s: the legend is neither drawn nor said to be left out", what);
+      ck_assert_msg (layout.legend_shown == sizes[k].shown, "%s: legend %s", what,
+                     layout.legend_shown ? "drawn" : "left out");
+      if (sizes[k].shown)
+        check_layout (what, &layout, w, h, HL_RENDER_TEXT_MIN_PX);
     }
   hl_plan_free (plan);
 }
@@ -736,6 +791,7 @@ START_TEST (test_layout_window)
       char what[64];
       snprintf (what, sizeof what, "window %d x %d", w, h);
       check_layout (what, &layout, w, h, HL_RENDER_TEXT_MIN_PX);
+      check_legend (what, &layout);
     }
   hl_plan_free (plan);
 }
@@ -756,6 +812,7 @@ START_TEST (test_layout_report)
   double w, h;
   hl_report_figure_layout (r, &layout, &w, &h);
   check_layout ("report page 2", &layout, w, h, 6.0);
+  check_legend ("report page 2", &layout);
   hl_report_free (r);
   hl_plan_free (plan);
 }
@@ -1137,6 +1194,7 @@ render_suite (void)
                        sizeof layout_cases / sizeof layout_cases[0]);
   tcase_add_test (tc, test_layout_window);
   tcase_add_test (tc, test_layout_report);
+  tcase_add_test (tc, test_layout_legend_small);
   suite_add_tcase (s, tc);
 
   tc = tcase_create ("underlay");
