@@ -64,6 +64,11 @@
 static const unsigned long long DECODED_MAX_BYTES = 1ULL << 30;
 static const int VALUES_MAX = 4;
 
+/* The reading child's memory budget, in two stages (see
+ * child_limit_memory): raised after the header pass to what the header
+ * says the decoding needs. */
+static void child_allow_decoding (unsigned long long decoded_bytes);
+
 namespace {
 
 /* Up to `max` decimal-string values of an element (DS/IS); returns the
@@ -343,6 +348,8 @@ read_image (const char *path, HlGrayImage **out, HlError *err)
   HlStatus st = check_header (path, &h, err);
   if (st != HL_OK)
     return st;
+  child_allow_decoding ((unsigned long long) h.rows * h.cols * h.samples
+                        * (h.bits_allocated / 8) * (unsigned long long) h.frames);
 
   gdcm::ImageReader reader;
   reader.SetFileName (path);
@@ -564,10 +571,23 @@ hl_dicom_available (void)
  * that hands back the image through a pipe; when the child dies, the file
  * is refused with a message and the program goes on. */
 
-/* The child's address space: far above the 100-megapixel cap's needs,
- * far below what a damaged length makes GDCM ask for.  Not set under
- * AddressSanitizer, whose shadow memory needs a huge address space. */
-#define HL_DICOM_CHILD_ADDRESS_SPACE (3ull << 30)
+/* The child's address space, on top of what it inherits from the parent.
+ * A damaged length makes GDCM allocate (and fill) what the length says,
+ * gigabytes from a file of a few hundred bytes, so the budget grows in two
+ * stages: the header pass gets HEADER_BASE plus twice the file (no element
+ * before the pixel data can be longer than the file); the decoding then
+ * gets HEADER_BASE, four times the file and six times the decoded size the
+ * header declared (GDCM holds the file's pixel data, its decoded buffer
+ * and the frames, and we copy and convert: a 100-megapixel 16-bit file,
+ * plain or RLE, peaks at about seven times its decoded size in resident
+ * memory, measured), and never more than HARD in all.  Not set under
+ * AddressSanitizer, whose shadow memory needs a huge address space (the
+ * fuzz runs cap single allocations instead). */
+#define HL_DICOM_CHILD_HEADER_BASE (256ull << 20)
+#define HL_DICOM_CHILD_ADDRESS_SPACE_HARD (3ull << 30)
+
+static unsigned long long child_vm_bytes;      /* inherited at the fork */
+static unsigned long long child_file_bytes;
 
 #if defined(__SANITIZE_ADDRESS__)
 #define HL_DICOM_ASAN 1
@@ -677,6 +697,61 @@ read_guarded (const char *path, HlGrayImage **out, HlError *err)
     }
 }
 
+/* Sets the soft address-space limit to the inherited size plus BUDGET,
+ * under the hard limit set at the start. */
+static void
+child_set_budget (unsigned long long budget)
+{
+#ifndef HL_DICOM_ASAN
+  unsigned long long soft = child_vm_bytes + std::min (budget, HL_DICOM_CHILD_ADDRESS_SPACE_HARD);
+  struct rlimit lim;
+  if (getrlimit (RLIMIT_AS, &lim) != 0)
+    return;
+  if (lim.rlim_max != RLIM_INFINITY && soft > lim.rlim_max)
+    soft = lim.rlim_max;
+  lim.rlim_cur = soft;
+  setrlimit (RLIMIT_AS, &lim);
+#else
+  (void) budget;
+#endif
+}
+
+static void
+child_allow_decoding (unsigned long long decoded_bytes)
+{
+  if (child_file_bytes == 0)        /* not in the reading child */
+    return;
+  child_set_budget (HL_DICOM_CHILD_HEADER_BASE + 4 * child_file_bytes + 6 * decoded_bytes);
+}
+
+/* The first stage (see HL_DICOM_CHILD_HEADER_BASE): the hard limit at the
+ * inherited size plus HARD, the soft one at the header pass's budget. */
+static void
+child_limit_memory (const char *path)
+{
+#ifndef HL_DICOM_ASAN
+  long page = sysconf (_SC_PAGESIZE);
+  unsigned long long vm_pages = 0;
+  FILE *statm = fopen ("/proc/self/statm", "re");
+  if (statm != nullptr)
+    {
+      if (fscanf (statm, "%llu", &vm_pages) != 1)
+        vm_pages = 0;
+      fclose (statm);
+    }
+  child_vm_bytes = vm_pages * (unsigned long long) (page > 0 ? page : 4096);
+  struct stat sb;
+  child_file_bytes = stat (path, &sb) == 0 && sb.st_size > 0 ? (unsigned long long) sb.st_size : 1;
+  struct rlimit lim = { child_vm_bytes + HL_DICOM_CHILD_ADDRESS_SPACE_HARD,
+                        child_vm_bytes + HL_DICOM_CHILD_ADDRESS_SPACE_HARD };
+  setrlimit (RLIMIT_AS, &lim);
+  child_set_budget (HL_DICOM_CHILD_HEADER_BASE + 2 * std::min (child_file_bytes,
+                                                               HL_DICOM_CHILD_ADDRESS_SPACE_HARD));
+#else
+  (void) path;
+#endif
+}
+
 [[noreturn]] static void
 child_read (const char *path, int fd)
 {
@@ -695,10 +770,7 @@ child_read (const char *path, int fd)
       dup2 (devnull, STDERR_FILENO);
       close (devnull);
     }
-#ifndef HL_DICOM_ASAN
-  struct rlimit lim = { HL_DICOM_CHILD_ADDRESS_SPACE, HL_DICOM_CHILD_ADDRESS_SPACE };
-  setrlimit (RLIMIT_AS, &lim);
-#endif
+  child_limit_memory (path);
 #if HL_TEST_HOOKS
   /* Test hook: a reader that hangs, for the parent's time limit. */
   const char *hang = getenv ("HIPLEVER_TEST_DICOM_CHILD_SLEEP");

@@ -128,6 +128,7 @@ run_target () {
     [ -d "$d" ] && seeds="$seeds $d"
   done
   asan_extra=""
+  timeout=10
   case $t in
   load)
     [ -d "$here/data/examples" ] && seeds="$seeds $here/data/examples"
@@ -138,9 +139,13 @@ run_target () {
   # (core/hl-dicom.cpp), which may ask for more than -rss_limit_mb before
   # it dies; libFuzzer's malloc limit would count that as the parent's.
   # Under AddressSanitizer the child has no address-space limit (the
-  # shadow memory needs it): the allocator's own cap stands in for it.
+  # shadow memory needs it): the allocator's own cap stands in for it,
+  # just above the 1 GiB decoded-size cap.  Every input forks a reader, so
+  # an input gets 30 s before it counts as a hang (the reader's own limit
+  # is 60 s): a busy machine slows a fork and a large allocation a lot.
   image) extra="-max_len=1048576 -malloc_limit_mb=8192"
-         asan_extra=":max_allocation_size_mb=3072:allocator_may_return_null=1" ;;
+         timeout=30
+         asan_extra=":max_allocation_size_mb=1100:allocator_may_return_null=1" ;;
   *) extra="-max_len=1048576" ;;
   esac
   echo "run-fuzz: $t for $seconds s"
@@ -150,7 +155,7 @@ run_target () {
   # shellcheck disable=SC2086
   if LC_ALL=C TZ=UTC ASAN_OPTIONS="detect_leaks=1${asan_extra:-}" \
      UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
-     nice -n "${FUZZ_NICE:-10}" "./fuzz-$t" -max_total_time="$seconds" -timeout=10 \
+     nice -n "${FUZZ_NICE:-10}" "./fuzz-$t" -max_total_time="$seconds" -timeout="$timeout" \
        -rss_limit_mb=512 -print_final_stats=1 -artifact_prefix="artifacts-$t/" \
        $extra "corpus-$t" $seeds > "fuzz-$t.log" 2>&1; then
     result="no crash, hang or leak"
