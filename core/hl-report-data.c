@@ -176,10 +176,10 @@ add_answer (HlReportData *d, size_t row, HlStatus st, const HlInverseAnswer *a)
   return true;
 }
 
-/* Native: the cane, each hand's load and the lean; each option as well the
- * two femoral offset questions. */
+/* Native: the cane, each hand's load and the lean; each option: the two
+ * femoral offset questions, the cane and the lean. */
 #define ANSWERS_NATIVE 4
-#define ANSWERS_OPTION 6
+#define ANSWERS_OPTION 4
 
 static HlStatus
 compute_answers (HlReportData *d, HlError *err)
@@ -845,4 +845,49 @@ hl_report_data_free (HlReportData *d)
     table_clear (tables[i]);
   hl_plan_free (d->plan);
   free (d);
+}
+
+/* ---- The sweeps as one table ------------------------------------------------ */
+
+HlStatus
+hl_report_data_sweeps_csv (const HlReportData *d, char **out, size_t *size, HlError *err)
+{
+  char *all = NULL;
+  size_t all_len = 0;
+
+  for (int k = 0; k < HL_CHART_N; k++)
+    {
+      char *csv = NULL;
+      size_t len = 0;
+      HlStatus st = hl_chart_data_to_csv (d->charts[k], d->plan, &csv, &len, err);
+      if (st != HL_OK)
+        {
+          free (all);
+          return st;
+        }
+      /* Every table but the first without its header line. */
+      const char *body = csv;
+      if (k > 0)
+        {
+          const char *nl = strchr (csv, '\n');
+          body = nl != NULL ? nl + 1 : csv + len;
+        }
+      size_t blen = len - (size_t) (body - csv);
+      char *grown = realloc (all, all_len + blen + 1);
+      if (grown == NULL)
+        {
+          free (csv);
+          free (all);
+          return hl_error_set (err, HL_ERR_NOMEM, "sweep", "%s",
+                               _("There is not enough memory for the table."));
+        }
+      all = grown;
+      memcpy (all + all_len, body, blen);
+      all_len += blen;
+      all[all_len] = '\0';
+      free (csv);
+    }
+  *out = all;
+  *size = all_len;
+  return HL_OK;
 }

@@ -150,6 +150,12 @@ HlReportData *hl_report_data_new (const HlPlan *plan, const HlReportSettings *se
                                   HlError *err);
 void hl_report_data_free (HlReportData *data);
 
+/* The report's four chart sweeps in one CSV table (the header of
+ * HL_SWEEP_CSV_HEADER once; the param column tells them apart).  *out is
+ * malloc'd and NUL-terminated. */
+HlStatus hl_report_data_sweeps_csv (const HlReportData *data, char **out, size_t *size,
+                                    HlError *err);
+
 #ifdef __cplusplus
 }
 #endif

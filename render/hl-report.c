@@ -1332,42 +1332,5 @@ hl_figure_save_preset (const HlPlan *plan, int option_index, int width, int heig
 HlStatus
 hl_report_sweeps_csv (const HlReport *r, char **out, size_t *size, HlError *err)
 {
-  char *all = NULL;
-  size_t all_len = 0;
-
-  for (int k = 0; k < HL_CHART_N; k++)
-    {
-      char *csv = NULL;
-      size_t len = 0;
-      HlStatus st = hl_chart_data_to_csv (r->d->charts[k], r->plan, &csv, &len, err);
-      if (st != HL_OK)
-        {
-          free (all);
-          return st;
-        }
-      /* Every table but the first without its header line. */
-      const char *body = csv;
-      if (k > 0)
-        {
-          const char *nl = strchr (csv, '\n');
-          body = nl != NULL ? nl + 1 : csv + len;
-        }
-      size_t blen = len - (size_t) (body - csv);
-      char *grown = realloc (all, all_len + blen + 1);
-      if (grown == NULL)
-        {
-          free (csv);
-          free (all);
-          return hl_error_set (err, HL_ERR_NOMEM, "sweep", "%s",
-                               _("There is not enough memory for the table."));
-        }
-      all = grown;
-      memcpy (all + all_len, body, blen);
-      all_len += blen;
-      all[all_len] = '\0';
-      free (csv);
-    }
-  *out = all;
-  *size = all_len;
-  return HL_OK;
+  return hl_report_data_sweeps_csv (r->d, out, size, err);
 }

@@ -110,9 +110,8 @@ HlStatus hl_figure_save_preset (const HlPlan *plan, int option_index, int width,
 
 /* ---- Sweep tables ----------------------------------------------------- */
 
-/* The report's four chart sweeps in one CSV table (the header of
- * HL_SWEEP_CSV_HEADER in hl-chart.h; the param column tells them apart).
- * *out is malloc'd and NUL-terminated. */
+/* The report's four chart sweeps in one CSV table:
+ * hl_report_data_sweeps_csv of its content. */
 HlStatus hl_report_sweeps_csv (const HlReport *report, char **out, size_t *size,
                                HlError *err);
 
