@@ -487,6 +487,22 @@ hl_window_class_init (HlWindowClass *klass)
   hl_window_actions_class_init (widget_class);
 }
 
+/* The lower area's share of the height under the caution strip when the
+ * window first opens (never below its smallest height); the schematic
+ * takes every later change of the window's height. */
+#define HL_LOWER_SHARE 0.4
+
+static gboolean
+first_split_tick_cb (GtkWidget *paned, GdkFrameClock *clock, gpointer data)
+{
+  int height = gtk_widget_get_height (paned);
+
+  if (height <= 0)
+    return G_SOURCE_CONTINUE;
+  gtk_paned_set_position (GTK_PANED (paned), (int) lround ((1.0 - HL_LOWER_SHARE) * height));
+  return G_SOURCE_REMOVE;
+}
+
 static void
 hl_window_init (HlWindow *self)
 {
@@ -511,6 +527,8 @@ hl_window_init (HlWindow *self)
   g_signal_connect_object (self->canvas, "notify::selected-option",
                            G_CALLBACK (canvas_selected_option_cb), self, 0);
 
+  gtk_widget_add_tick_callback (gtk_widget_get_parent (GTK_WIDGET (self->canvas)),
+                                first_split_tick_cb, NULL, NULL);
   hl_canvas_set_document (self->canvas, self->document);
   hl_results_set_document (self->results, self->document);
   hl_aids_page_set_document (self->aids_page, self->document);
