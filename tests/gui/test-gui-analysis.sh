@@ -230,6 +230,13 @@ pdfinfo "$HL_TMP/printed.pdf" | grep -q 'Page size:.*(A4)' \
 pdftotext "$HL_TMP/printed.pdf" - | tr '\n' ' ' | grep -q "Planning aid only" \
   || hl_fail "the print has no caution"
 hl_note "ok: Ctrl+P printed the report's $report_pages A4 pages with the caution"
+# The plan has a radiograph: the report and the print carry it under the
+# schematic (the chooser's choice and print default to it).
+for pdf in report printed; do
+  n=$(pdfimages -list "$HL_TMP/$pdf.pdf" 2>/dev/null | tail -n +3 | wc -l)
+  [ "$n" -ge 1 ] || hl_fail "the $pdf PDF does not carry the radiograph (no image in it)"
+done
+hl_note "ok: the report and the print carry the radiograph"
 xmllint --noout "$HL_TMP/figure.svg" || hl_fail "the figure is not a well-formed SVG"
 grep -q 'width="1600pt"' "$HL_TMP/figure.svg" || hl_fail "the figure is not 1600 wide: $(head -c 300 "$HL_TMP/figure.svg")"
 hl_note "ok: the figure is an SVG of the default size"
