@@ -393,20 +393,20 @@ case_name (const HlPlan *plan, size_t i)
 }
 
 static void
-csv_header (HlBuf *buf, bool with_plan)
+csv_header (GString *buf, bool with_plan)
 {
   if (with_plan)
-    hl_buf_printf (buf, "plan,");
+    g_string_append_printf (buf, "plan,");
   const HlResultField *cols[HL_RESULT_FIELD_MAX];
   size_t n_cols = hl_result_fields_for (HL_OUT_CSV, cols);
-  hl_buf_printf (buf, "option");
+  g_string_append_printf (buf, "option");
   for (size_t c = 0; c < n_cols; c++)
-    hl_buf_printf (buf, ",%s", cols[c]->csv);
-  hl_buf_printf (buf, ",flags\n");
+    g_string_append_printf (buf, ",%s", cols[c]->csv);
+  g_string_append_printf (buf, ",flags\n");
 }
 
 static void
-csv_rows (HlBuf *buf, const char *plan_name, const HlPlan *plan,
+csv_rows (GString *buf, const char *plan_name, const HlPlan *plan,
           const HlResult *results)
 {
   const HlResultField *cols[HL_RESULT_FIELD_MAX];
@@ -419,18 +419,18 @@ csv_rows (HlBuf *buf, const char *plan_name, const HlPlan *plan,
 
       if (plan_name != NULL)
         {
-          hl_buf_csv_field (buf, plan_name);
-          hl_buf_append (buf, ",", 1);
+          hl_csv_field_append (buf, plan_name);
+          g_string_append_len (buf, ",", 1);
         }
-      hl_buf_csv_field (buf, case_name (plan, i));
+      hl_csv_field_append (buf, case_name (plan, i));
       for (size_t c = 0; c < n_cols; c++)
-        hl_buf_printf (buf, ",%s",
+        g_string_append_printf (buf, ",%s",
                        hl_format_number (num, sizeof num, cols[c]->csv_decimals,
                                             cols[c]->get (&results[i])));
       hl_flags_format (results[i].flags, ";", flags, sizeof flags);
-      hl_buf_append (buf, ",", 1);
-      hl_buf_csv_field (buf, flags);
-      hl_buf_append (buf, "\n", 1);
+      g_string_append_len (buf, ",", 1);
+      hl_csv_field_append (buf, flags);
+      g_string_append_len (buf, "\n", 1);
     }
 }
 
@@ -667,21 +667,12 @@ cmd_solve (const HlCliCommand *cmd, const HlCliArgs *args)
 
   if (format == FORMAT_CSV)
     {
-      HlBuf buf;
+      GString *buf = g_string_new (NULL);
 
-      hl_buf_init (&buf);
-      csv_header (&buf, false);
-      csv_rows (&buf, NULL, plan, results);
-      if (buf.failed)
-        {
-          hl_cli_error (_("%s: out of memory"), path);
-          status = HL_CLI_EXIT_INVALID;
-        }
-      else
-        {
-          fwrite (buf.data, 1, buf.len, stdout);
-        }
-      hl_buf_clear (&buf);
+      csv_header (buf, false);
+      csv_rows (buf, NULL, plan, results);
+      fwrite (buf->str, 1, buf->len, stdout);
+      g_string_free (buf, TRUE);
     }
   else
     {
@@ -796,30 +787,24 @@ batch_out_open (BatchOut *o, const char *path)
 
 /* Writes and empties buf. */
 static void
-batch_out_put (BatchOut *o, HlBuf *buf)
+batch_out_put (BatchOut *o, GString *buf)
 {
-  if (buf->failed && o->status == HL_CLI_EXIT_OK)
-    {
-      hl_cli_error (_("%s: out of memory"), o->path);
-      o->status = HL_CLI_EXIT_INVALID;
-    }
   if (o->status == HL_CLI_EXIT_OK && buf->len > 0)
     {
       HlError err;
       hl_error_clear (&err);
       if (o->file == NULL)
         {
-          if (fwrite (buf->data, 1, buf->len, stdout) != buf->len)
+          if (fwrite (buf->str, 1, buf->len, stdout) != buf->len)
             o->status = HL_CLI_EXIT_INVALID;
         }
-      else if (hl_out_file_write (o->file, buf->data, buf->len, &err) != HL_OK)
+      else if (hl_out_file_write (o->file, buf->str, buf->len, &err) != HL_OK)
         {
           hl_cli_report_error (o->path, NULL, &err);
           o->status = HL_CLI_EXIT_INVALID;
         }
     }
-  hl_buf_clear (buf);
-  hl_buf_init (buf);
+  g_string_truncate (buf, 0);
 }
 
 /* Keeps the file (commit) or leaves what was there (abort). */
@@ -967,8 +952,7 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
   /* The failures table, with --keep-going and a file for the table. */
   char *fail_path = NULL;
   BatchOut fail_out = { 0 };
-  HlBuf fail_buf;
-  hl_buf_init (&fail_buf);
+  GString *fail_buf = g_string_new (NULL);
   if (keep_going && !hl_cli_is_stdout (out))
     {
       fail_path = failures_path (out);
@@ -986,7 +970,7 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
           free (fail_path);
           return status;
         }
-      hl_buf_puts (&fail_buf, "plan,error\n");
+      g_string_append (fail_buf, "plan,error\n");
     }
 
   BatchOut table;
@@ -998,10 +982,9 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
       free (fail_path);
       return status;
     }
-  HlBuf buf;
-  hl_buf_init (&buf);
-  csv_header (&buf, true);
-  batch_out_put (&table, &buf);
+  GString *buf = g_string_new (NULL);
+  csv_header (buf, true);
+  batch_out_put (&table, buf);
 
   for (int i = 0; i < args->n_operands; i++)
     {
@@ -1019,8 +1002,8 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
            * so its rows need not be written. */
           if (keep_going || n_failed == 0 || table.file == NULL)
             {
-              csv_rows (&buf, path, plan, results);
-              batch_out_put (&table, &buf);
+              csv_rows (buf, path, plan, results);
+              batch_out_put (&table, buf);
             }
         }
       else
@@ -1029,12 +1012,12 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
           hl_cli_report_error (path, NULL, &err);
           if (fail_path != NULL)
             {
-              hl_buf_csv_field (&fail_buf, path);
-              hl_buf_append (&fail_buf, ",", 1);
-              hl_buf_csv_field (&fail_buf, err.message[0] != '\0'
+              hl_csv_field_append (fail_buf, path);
+              g_string_append_len (fail_buf, ",", 1);
+              hl_csv_field_append (fail_buf, err.message[0] != '\0'
                                            ? err.message : hl_status_name (err.status));
-              hl_buf_append (&fail_buf, "\n", 1);
-              batch_out_put (&fail_out, &fail_buf);
+              g_string_append_len (fail_buf, "\n", 1);
+              batch_out_put (&fail_out, fail_buf);
             }
         }
       free (results);
@@ -1048,19 +1031,19 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
     }
   if (progress_shown)
     hl_cli_fprintf (stderr, "\n");
-  hl_buf_clear (&buf);
+  g_string_free (buf, TRUE);
 
   if (keep_going)
     {
       status = batch_out_close (&table, true);
       if (fail_path != NULL)
         {
-          batch_out_put (&fail_out, &fail_buf);
+          batch_out_put (&fail_out, fail_buf);
           int fs = batch_out_close (&fail_out, true);
           if (status == HL_CLI_EXIT_OK)
             status = fs;
         }
-      hl_buf_clear (&fail_buf);
+      g_string_free (fail_buf, TRUE);
       if (status == HL_CLI_EXIT_OK && n_failed > 0)
         {
           if (fail_path != NULL)
@@ -1120,6 +1103,10 @@ int
 main (int argc, char **argv)
 {
   setlocale (LC_ALL, "");
+  /* Messages in the user's language, numbers always with a point: every
+   * CSV, table and message the command line prints is read by programs as
+   * well as people (hl_format_number does the same in the core). */
+  setlocale (LC_NUMERIC, "C");
   /* Uninstalled runs (the tests) use the catalogues built in the build tree. */
   const char *localedir = getenv ("HIPLEVER_LOCALEDIR");
   bindtextdomain (GETTEXT_PACKAGE, localedir != NULL && localedir[0] != '\0' ? localedir

@@ -186,25 +186,21 @@ case_name (const HlPlan *plan, size_t row)
 }
 
 static int
-write_stdout (const char *path, const HlBuf *buf)
+write_stdout (const char *path, const GString *buf)
 {
-  if (buf->failed)
-    {
-      hl_cli_error (_("%s: out of memory"), path);
-      return HL_CLI_EXIT_INVALID;
-    }
-  fwrite (buf->data, 1, buf->len, stdout);
+  (void) path;
+  fwrite (buf->str, 1, buf->len, stdout);
   return HL_CLI_EXIT_OK;
 }
 
 static void
-buf_number (HlBuf *buf, int precision, double v)
+buf_number (GString *buf, int precision, double v)
 {
   char num[HL_CLI_NUMBER_MAX];
   if (isfinite (v))
-    hl_buf_printf (buf, ",%s", hl_format_number (num, sizeof num, precision, v));
+    g_string_append_printf (buf, ",%s", hl_format_number (num, sizeof num, precision, v));
   else
-    hl_buf_printf (buf, ",nan");
+    g_string_append_printf (buf, ",nan");
 }
 
 /* ---- inverse -------------------------------------------------------------- */
@@ -291,26 +287,25 @@ hl_cli_inverse (const HlCliCommand *cmd, const HlCliArgs *args)
       return HL_CLI_EXIT_INVALID;
     }
 
-  HlBuf buf;
-  hl_buf_init (&buf);
+  GString *buf = g_string_new (NULL);
   int status = HL_CLI_EXIT_OK;
   if (csv)
-    hl_buf_printf (&buf, "option,question,site,status,value,unit,goal,achieved,lower,"
+    g_string_append_printf (buf, "option,question,site,status,value,unit,goal,achieved,lower,"
                              "upper,at_limit,range_limited,answer\n");
   else
     {
-      hl_buf_printf (&buf, _("Plan: %s\nCase: %s\n"), path, plan->label);
-      hl_buf_printf (&buf, _("Joint-load target: %.2f x body weight%s\n"), target,
+      g_string_append_printf (buf, _("Plan: %s\nCase: %s\n"), path, plan->label);
+      g_string_append_printf (buf, _("Joint-load target: %.2f x body weight%s\n"), target,
                          args->value[INVERSE_OPT_TARGET] == NULL
                          ? _(" (our default; --target-jrf to change)") : "");
-      hl_buf_printf (&buf, "%s\n", hl_inverse_caveat ());
+      g_string_append_printf (buf, "%s\n", hl_inverse_caveat ());
     }
 
   for (size_t row = 0; row <= plan->n_options && status == HL_CLI_EXIT_OK; row++)
     {
       const HlRecon *recon = row == 0 ? NULL : &plan->options[row - 1].recon;
       if (!csv)
-        hl_buf_printf (&buf, row == 0 ? "\n%s:\n" : _("\noption \"%s\":\n"),
+        g_string_append_printf (buf, row == 0 ? "\n%s:\n" : _("\noption \"%s\":\n"),
                            row == 0 ? _("native") : plan->options[row - 1].name);
       for (size_t i = 0; i < sizeof questions / sizeof questions[0]; i++)
         {
@@ -335,30 +330,30 @@ hl_cli_inverse (const HlCliCommand *cmd, const HlCliArgs *args)
           hl_inverse_answer_format (&a, text, sizeof text);
           if (!csv)
             {
-              hl_buf_printf (&buf, "  %s\n", text);
+              g_string_append_printf (buf, "  %s\n", text);
               continue;
             }
-          hl_buf_csv_field (&buf, case_name (plan, row));
-          hl_buf_printf (&buf, ",%s,%s,%s", q->key,
+          hl_csv_field_append (buf, case_name (plan, row));
+          g_string_append_printf (buf, ",%s,%s,%s", q->key,
                              q->site < HL_LOAD_SITE_N ? site_keys[q->site] : "",
                              answer_status_key (st));
-          buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, st == HL_OK ? a.value : NAN);
-          hl_buf_printf (&buf, ",%s", a.unit != NULL ? a.unit : "");
-          buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.goal);
-          buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.achieved);
-          buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.lower);
-          buf_number (&buf, HL_CLI_INVERSE_CSV_PRECISION, a.upper);
-          hl_buf_printf (&buf, ",%s,%s,", a.at_limit ? "true" : "false",
+          buf_number (buf, HL_CLI_INVERSE_CSV_PRECISION, st == HL_OK ? a.value : NAN);
+          g_string_append_printf (buf, ",%s", a.unit != NULL ? a.unit : "");
+          buf_number (buf, HL_CLI_INVERSE_CSV_PRECISION, a.goal);
+          buf_number (buf, HL_CLI_INVERSE_CSV_PRECISION, a.achieved);
+          buf_number (buf, HL_CLI_INVERSE_CSV_PRECISION, a.lower);
+          buf_number (buf, HL_CLI_INVERSE_CSV_PRECISION, a.upper);
+          g_string_append_printf (buf, ",%s,%s,", a.at_limit ? "true" : "false",
                              a.range_limited ? "true" : "false");
-          hl_buf_csv_field (&buf, text);
-          hl_buf_append (&buf, "\n", 1);
+          hl_csv_field_append (buf, text);
+          g_string_append_len (buf, "\n", 1);
         }
     }
   if (status == HL_CLI_EXIT_OK && !csv)
-    hl_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+    g_string_append_printf (buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
   if (status == HL_CLI_EXIT_OK)
-    status = write_stdout (path, &buf);
-  hl_buf_clear (&buf);
+    status = write_stdout (path, buf);
+  g_string_free (buf, TRUE);
   hl_plan_free (plan);
   return status;
 }
@@ -456,32 +451,30 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
   const HlSweepParamInfo *info = hl_sweep_param_info (spec.param);
   size_t name_w = strlen ("native");
   int value_w = 0;
-  HlBuf buf;
-  hl_buf_init (&buf);
+  GString *buf = g_string_new (NULL);
   if (status == HL_CLI_EXIT_OK && !csv)
     {
       char head[96];
       for (size_t i = 0; i < plan->n_options; i++)
         if (hl_cli_text_width (plan->options[i].name) > name_w)
           name_w = hl_cli_text_width (plan->options[i].name);
-      hl_buf_printf (&buf, _("Plan: %s\nSweep of %s (%s) from %g to %g in %zu values; "
+      g_string_append_printf (buf, _("Plan: %s\nSweep of %s (%s) from %g to %g in %zu values; "
                                  "--csv gives every column.\n"),
                          path, _(info->label), info->unit, spec.from, spec.to, spec.n_steps);
       if (info->per_option)
-        hl_buf_printf (&buf, "%s\n", spec.mode == HL_SWEEP_MODE_ADD
+        g_string_append_printf (buf, "%s\n", spec.mode == HL_SWEEP_MODE_ADD
                        ? _("Mode add: each value is added to every option's own "
                            "setting; the native row is the reference.")
                        : _("Mode set: each value replaces every option's own "
                            "setting; the native row is the reference."));
-      hl_buf_printf (&buf, "\n");
+      g_string_append_printf (buf, "\n");
       snprintf (head, sizeof head, "%s (%s)", info->key, info->unit);
       value_w = (int) strlen (head);
-      hl_buf_printf (&buf, "%*s  %-*s  %9s  %9s  %9s  %9s  %9s  %s\n", value_w, head,
+      g_string_append_printf (buf, "%*s  %-*s  %9s  %9s  %9s  %9s  %9s  %s\n", value_w, head,
                          (int) name_w, _("case"), "arm_mm", "Fa_N", "Fa_BW", "J_N", "J_BW",
                          _("flags"));
-      status = write_stdout (path, &buf);
-      hl_buf_clear (&buf);
-      hl_buf_init (&buf);
+      status = write_stdout (path, buf);
+      g_string_truncate (buf, 0);
     }
   for (size_t first = 0; status == HL_CLI_EXIT_OK && first < spec.n_steps; first += block)
     {
@@ -526,7 +519,7 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
             const HlResult *r = &results[row * count + step];
             char flags[256];
             size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
-            hl_buf_printf (&buf, "%*g  %s%*s  %9.*f  %9.*f  %9.*f  %9.*f  %9.*f  %s\n",
+            g_string_append_printf (buf, "%*g  %s%*s  %9.*f  %9.*f  %9.*f  %9.*f  %9.*f  %s\n",
                                value_w, values[step], case_name (plan, row), (int) pad, "",
                                HL_DECIMALS_MM, r->abductor_arm_mm,
                                HL_DECIMALS_N, r->abductor_force_n,
@@ -534,16 +527,15 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
                                HL_DECIMALS_N, r->jrf_n, HL_DECIMALS_BW, r->jrf_bw,
                                hl_flags_format (r->flags, ";", flags, sizeof flags));
           }
-      status = write_stdout (path, &buf);
-      hl_buf_clear (&buf);
-      hl_buf_init (&buf);
+      status = write_stdout (path, buf);
+      g_string_truncate (buf, 0);
     }
   if (status == HL_CLI_EXIT_OK && !csv)
     {
-      hl_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
-      status = write_stdout (path, &buf);
+      g_string_append_printf (buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+      status = write_stdout (path, buf);
     }
-  hl_buf_clear (&buf);
+  g_string_free (buf, TRUE);
 
   free (values);
   free (results);
@@ -612,31 +604,30 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
     }
   hl_mc_workspace_free (ws);
 
-  HlBuf buf;
-  hl_buf_init (&buf);
+  GString *buf = g_string_new (NULL);
   if (status == HL_CLI_EXIT_OK && csv)
     {
-      hl_buf_printf (&buf, "option,abductor_force_BW_p05,abductor_force_BW_p50,"
+      g_string_append_printf (buf, "option,abductor_force_BW_p05,abductor_force_BW_p50,"
                                "abductor_force_BW_p95,jrf_BW_p05,jrf_BW_p50,jrf_BW_p95,"
                                "jrf_N_p05,jrf_N_p50,jrf_N_p95,share_lower_jrf_than_native\n");
       for (size_t row = 0; row <= plan->n_options; row++)
         {
           const HlMcSummary *s = &summary[row];
-          hl_buf_csv_field (&buf, case_name (plan, row));
-          buf_number (&buf, 4, s->abductor_force_bw.p05);
-          buf_number (&buf, 4, s->abductor_force_bw.p50);
-          buf_number (&buf, 4, s->abductor_force_bw.p95);
-          buf_number (&buf, 4, s->jrf_bw.p05);
-          buf_number (&buf, 4, s->jrf_bw.p50);
-          buf_number (&buf, 4, s->jrf_bw.p95);
-          buf_number (&buf, 3, s->jrf_n.p05);
-          buf_number (&buf, 3, s->jrf_n.p50);
-          buf_number (&buf, 3, s->jrf_n.p95);
+          hl_csv_field_append (buf, case_name (plan, row));
+          buf_number (buf, 4, s->abductor_force_bw.p05);
+          buf_number (buf, 4, s->abductor_force_bw.p50);
+          buf_number (buf, 4, s->abductor_force_bw.p95);
+          buf_number (buf, 4, s->jrf_bw.p05);
+          buf_number (buf, 4, s->jrf_bw.p50);
+          buf_number (buf, 4, s->jrf_bw.p95);
+          buf_number (buf, 3, s->jrf_n.p05);
+          buf_number (buf, 3, s->jrf_n.p50);
+          buf_number (buf, 3, s->jrf_n.p95);
           if (row == 0)
-            hl_buf_printf (&buf, ",");
+            g_string_append_printf (buf, ",");
           else
-            buf_number (&buf, 4, s->share_lower_jrf);
-          hl_buf_append (&buf, "\n", 1);
+            buf_number (buf, 4, s->share_lower_jrf);
+          g_string_append_len (buf, "\n", 1);
         }
     }
   else if (status == HL_CLI_EXIT_OK)
@@ -645,20 +636,20 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
       for (size_t i = 0; i < plan->n_options; i++)
         if (hl_cli_text_width (plan->options[i].name) > name_w)
           name_w = hl_cli_text_width (plan->options[i].name);
-      hl_buf_printf (&buf, _("Plan: %s\nCase: %s\n"), path, plan->label);
-      hl_buf_printf (&buf, _("Seed %" PRIu64 "; %zu samples asked, %zu used, %zu "
+      g_string_append_printf (buf, _("Plan: %s\nCase: %s\n"), path, plan->label);
+      g_string_append_printf (buf, _("Seed %" PRIu64 "; %zu samples asked, %zu used, %zu "
                                  "dropped (a row could not be solved)\n"),
                          info.seed, mc.n_samples, info.n_used, info.n_dropped);
-      hl_buf_printf (&buf, _("Errors (SD): landmark placement %g mm per coordinate, "
+      g_string_append_printf (buf, _("Errors (SD): landmark placement %g mm per coordinate, "
                                  "magnification %g about M = %.3f%s, abductor line angle "
                                  "%g deg\n"),
                          mc.landmark_sd_mm, mc.magnification_sd, mc.magnification,
                          m_assumed ? _(" (assumed)") : _(" (calibrated)"),
                          mc.line_angle_sd_deg);
-      hl_buf_printf (&buf, "%s\n\n",
+      g_string_append_printf (buf, "%s\n\n",
                          _("Percentiles 5th / 50th / 95th (Hyndman & Fan definition 7); "
                            "native and options share each sample."));
-      hl_buf_printf (&buf, "%-*s  %-24s  %-24s  %s\n", (int) name_w, _("case"),
+      g_string_append_printf (buf, "%-*s  %-24s  %-24s  %s\n", (int) name_w, _("case"),
                          _("abductor force (xBW)"), _("joint force (xBW)"),
                          _("lower joint force than native"));
       for (size_t row = 0; row <= plan->n_options; row++)
@@ -670,19 +661,19 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
           snprintf (j, sizeof j, "%.3f / %.3f / %.3f", s->jrf_bw.p05, s->jrf_bw.p50,
                     s->jrf_bw.p95);
           size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
-          hl_buf_printf (&buf, "%s%*s  %-24s  %-24s  ", case_name (plan, row),
+          g_string_append_printf (buf, "%s%*s  %-24s  %-24s  ", case_name (plan, row),
                              (int) pad, "", a, j);
           if (row == 0)
-            hl_buf_printf (&buf, "%s\n", _("(reference)"));
+            g_string_append_printf (buf, "%s\n", _("(reference)"));
           else
-            hl_buf_printf (&buf, _("%.1f%% of samples\n"),
+            g_string_append_printf (buf, _("%.1f%% of samples\n"),
                                HL_CLI_PERCENT * s->share_lower_jrf);
         }
-      hl_buf_printf (&buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+      g_string_append_printf (buf, "\n%s %s\n", _("Caution:"), hl_caution_text ());
     }
   if (status == HL_CLI_EXIT_OK)
-    status = write_stdout (path, &buf);
-  hl_buf_clear (&buf);
+    status = write_stdout (path, buf);
+  g_string_free (buf, TRUE);
   free (summary);
   hl_plan_free (plan);
   return status;

@@ -180,29 +180,29 @@ hl_cli_catalogue (const HlCliCommand *cmd, const HlCliArgs *args)
 /* ---- fit PLAN ---------------------------------------------------------- */
 
 static void
-csv_number (HlBuf *b, double v)
+csv_number (GString *b, double v)
 {
   char buf[HL_CLI_NUMBER_MAX];
-  hl_buf_puts (b, ",");
-  hl_buf_puts (b, hl_format_number (buf, sizeof buf, FIT_DECIMALS, v));
+  g_string_append (b, ",");
+  g_string_append (b, hl_format_number (buf, sizeof buf, FIT_DECIMALS, v));
 }
 
 static void
-fit_csv (HlBuf *b, const HlFitTable *t)
+fit_csv (GString *b, const HlFitTable *t)
 {
-  hl_buf_puts (b, fit_csv_header);
-  hl_buf_puts (b, "\n");
+  g_string_append (b, fit_csv_header);
+  g_string_append (b, "\n");
   for (size_t i = 0; i < t->n; i++)
     {
       const HlFitRow *r = &t->rows[i];
-      hl_buf_printf (b, "%zu", r->rank);
+      g_string_append_printf (b, "%zu", r->rank);
       csv_number (b, r->tmpl.cup_diameter_mm);
-      hl_buf_puts (b, ",");
-      hl_buf_csv_field (b, r->tmpl.liner);
-      hl_buf_puts (b, ",");
-      hl_buf_csv_field (b, r->tmpl.stem_size);
-      hl_buf_puts (b, ",");
-      hl_buf_csv_field (b, r->tmpl.version);
+      g_string_append (b, ",");
+      hl_csv_field_append (b, r->tmpl.liner);
+      g_string_append (b, ",");
+      hl_csv_field_append (b, r->tmpl.stem_size);
+      g_string_append (b, ",");
+      hl_csv_field_append (b, r->tmpl.version);
       csv_number (b, r->tmpl.head_length_mm);
       csv_number (b, r->recon.cup_medial_mm);
       csv_number (b, r->recon.cup_superior_mm);
@@ -215,16 +215,16 @@ fit_csv (HlBuf *b, const HlFitTable *t)
       csv_number (b, r->result.abductor_force_bw);
       csv_number (b, r->result.jrf_bw);
       csv_number (b, r->jrf_p95_bw);
-      hl_buf_puts (b, "\n");
+      g_string_append (b, "\n");
     }
 }
 
 static void
-fit_text (HlBuf *b, const HlPlan *plan, const HlFitTable *t)
+fit_text (GString *b, const HlPlan *plan, const HlFitTable *t)
 {
   char n[8][HL_CLI_NUMBER_MAX];
   const HlOption *o = &plan->options[t->option];
-  hl_buf_printf (b, _("Implant combinations for option \"%s\", ranked by |leg length "
+  g_string_append_printf (b, _("Implant combinations for option \"%s\", ranked by |leg length "
                       "residual| + |global offset residual| against %s (ties: lower "
                       "joint force); joint force 95th percentile over %zu Monte Carlo "
                       "samples.\n"),
@@ -233,9 +233,9 @@ fit_text (HlBuf *b, const HlPlan *plan, const HlFitTable *t)
   HlTemplateFrame f;
   hl_template_frame (&plan->landmarks, plan->side, &f);
   if (f.t_from_hip_centre)
-    hl_buf_puts (b, _("The lesser trochanter tip is not placed: the stem's seat is "
+    g_string_append (b, _("The lesser trochanter tip is not placed: the stem's seat is "
                       "measured from the hip centre's projection on the shaft axis.\n"));
-  hl_buf_printf (b, "%5s %6s %-14s %5s %-12s %5s %7s %7s %7s %7s %7s %7s %6s %6s %6s\n",
+  g_string_append_printf (b, "%5s %6s %-14s %5s %-12s %5s %7s %7s %7s %7s %7s %7s %6s %6s %6s\n",
                  _("rank"), _("cup"), _("liner"), _("stem"), _("version"), _("head"),
                  _("c_med"), _("c_sup"), _("f_off"), _("f_len"), _("LL res"),
                  _("GO res"), _("abd BW"), _("JRF BW"), _("p95"));
@@ -252,12 +252,12 @@ fit_text (HlBuf *b, const HlPlan *plan, const HlFitTable *t)
       hl_format_number (n[7], sizeof n[7], 2, r->result.jrf_bw);
       char p95[HL_CLI_NUMBER_MAX];
       hl_format_number (p95, sizeof p95, 2, r->jrf_p95_bw);
-      hl_buf_printf (b, "%5zu %6g %-14s %5s %-12s %+5g %7s %7s %7s %7s %7s %7s %6s %6s %6s\n",
+      g_string_append_printf (b, "%5zu %6g %-14s %5s %-12s %+5g %7s %7s %7s %7s %7s %7s %6s %6s %6s\n",
                      r->rank, r->tmpl.cup_diameter_mm, r->tmpl.liner, r->tmpl.stem_size,
                      r->tmpl.version, r->tmpl.head_length_mm, n[0], n[1], n[2], n[3],
                      n[4], n[5], n[6], n[7], p95);
     }
-  hl_buf_puts (b, _("Residual: + longer / more offset than the target. Planning aid "
+  g_string_append (b, _("Residual: + longer / more offset than the target. Planning aid "
                     "only: a static estimate, not a substitute for surgical judgement.\n"));
 }
 
@@ -402,20 +402,13 @@ hl_cli_fit (const HlCliCommand *cmd, const HlCliArgs *args)
     }
   else
     {
-      HlBuf b;
-      hl_buf_init (&b);
+      GString *b = g_string_new (NULL);
       if (csv)
-        fit_csv (&b, &table);
+        fit_csv (b, &table);
       else
-        fit_text (&b, plan, &table);
-      if (b.failed)
-        {
-          hl_cli_error (_("out of memory"));
-          status = HL_CLI_EXIT_INVALID;
-        }
-      else
-        status = hl_cli_write_output ("-", b.data, b.len);
-      hl_buf_clear (&b);
+        fit_text (b, plan, &table);
+      status = hl_cli_write_output ("-", b->str, b->len);
+      g_string_free (b, TRUE);
     }
   hl_fit_table_clear (&table);
   hl_plan_free (plan);

@@ -9,7 +9,9 @@
  */
 #pragma once
 
-#include "hl-buf.h"
+#include <glib.h>
+
+#include "hl-text.h"
 #include "hl-catalogue.h"
 #include "hl-plan.h"
 

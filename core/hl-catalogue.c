@@ -24,10 +24,10 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include <glib.h>
 #include <libxml/parser.h>
 #include <libxml/tree.h>
 
-#include "hl-buf.h"
 #include "hl-catalogue.h"
 #include "hl-i18n.h"
 #include "hl-xml-load.h"
@@ -852,8 +852,7 @@ hl_catalogue_set_load (HlCatalogueSet **out, const char *const *paths, size_t n_
 {
   HlCatalogueSet *set = hl_catalogue_set_new ();
   HlCatalogue *demo = NULL;
-  HlBuf b;
-  hl_buf_init (&b);
+  GString *b = g_string_new (NULL);
   if (problems != NULL)
     *problems = NULL;
   if (set == NULL || hl_catalogue_load_demo (&demo, NULL) != HL_OK
@@ -871,24 +870,24 @@ hl_catalogue_set_load (HlCatalogueSet **out, const char *const *paths, size_t n_
         continue;
       if (hl_catalogue_load_file (paths[i], &cat, &e) != HL_OK)
         {
-          hl_buf_puts (&b, e.message);
-          hl_buf_puts (&b, "\n");
+          g_string_append (b, e.message);
+          g_string_append_c (b, '\n');
           continue;
         }
       if (hl_catalogue_set_add (set, cat) != HL_OK)
         {
           hl_catalogue_free (cat);
-          hl_buf_clear (&b);
+          g_string_free (b, TRUE);
           hl_catalogue_set_free (set);
           return HL_ERR_NOMEM;
         }
     }
-  if (problems != NULL && b.len > 0 && !b.failed)
-    {
-      *problems = b.data;
-      hl_buf_init (&b);
-    }
-  hl_buf_clear (&b);
+  /* GLib allocates with the system malloc (since 2.46): the caller frees
+   * the text with free(). */
+  if (problems != NULL && b->len > 0)
+    *problems = g_string_free (b, FALSE);
+  else
+    g_string_free (b, TRUE);
   *out = set;
   return HL_OK;
 }

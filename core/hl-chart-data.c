@@ -6,14 +6,14 @@
  */
 #include "config.h"
 
-#include <locale.h>
+#include <glib.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
-#include "hl-buf.h"
 #include "hl-chart-data.h"
+#include "hl-text.h"
 #include "hl-i18n.h"
 #include "hl-result-fields.h"
 
@@ -403,11 +403,11 @@ hl_chart_y_range (const HlChartData *d, HlChartQuantity q, bool with_bands,
 /* ---- CSV ------------------------------------------------------------------ */
 
 static void
-csv_number (HlBuf *b, double v, int decimals)
+csv_number (GString *b, double v, int decimals)
 {
   char num[HL_NUMBER_TEXT_SIZE];
-  hl_buf_puts (b, ",");
-  hl_buf_puts (b, hl_format_number (num, sizeof num, decimals, v));
+  g_string_append_c (b, ',');
+  g_string_append (b, hl_format_number (num, sizeof num, decimals, v));
 }
 
 HlStatus
@@ -420,50 +420,38 @@ hl_sweep_to_csv (const HlPlan *plan, const HlSweepSpec *spec, const double *valu
     return hl_error_set (err, HL_ERR_INVALID, "sweep parameter",
                          _("Unknown sweep parameter %d"), (int) spec->param);
 
-  locale_t c_locale = newlocale (LC_NUMERIC_MASK, "C", (locale_t) 0);
-  if (c_locale == (locale_t) 0)
-    return hl_error_set (err, HL_ERR_NOMEM, "sweep", "%s",
-                         _("Cannot set up the C locale for numbers"));
-  locale_t old = uselocale (c_locale);
-
   const HlResultField *fields[HL_RESULT_FIELD_MAX];
   const size_t n_fields = hl_result_fields_for (HL_OUT_CSV, fields);
-  HlBuf b;
-  hl_buf_init (&b);
+  GString *b = g_string_new (HL_SWEEP_CSV_HEADER "\n");
   size_t rows = 1 + plan->n_options;
-  hl_buf_puts (&b, HL_SWEEP_CSV_HEADER "\n");
   for (size_t step = 0; step < spec->n_steps; step++)
     for (size_t row = 0; row < rows; row++)
       {
         const HlResult *r = &results[row * spec->n_steps + step];
         bool ok = status == NULL || status[row * spec->n_steps + step] == HL_OK;
-        char num[64];
+        char num[HL_NUMBER_TEXT_SIZE];
         char flags[256];
 
-        hl_buf_puts (&b, info->key);
-        snprintf (num, sizeof num, ",%.6g,", values[step]);
-        hl_buf_puts (&b, num);
-        hl_buf_csv_field (&b, row == 0 ? "native" : plan->options[row - 1].name);
+        g_string_append (b, info->key);
+        g_string_append_c (b, ',');
+        g_string_append (b, hl_format_number (num, sizeof num, HL_NUMBER_SIGNIFICANT (6),
+                                              values[step]));
+        g_string_append_c (b, ',');
+        hl_csv_field_append (b, row == 0 ? "native" : plan->options[row - 1].name);
         for (size_t c = 0; c < n_fields; c++)
-          csv_number (&b, ok ? fields[c]->get (r) : NAN, fields[c]->csv_decimals);
-        hl_buf_puts (&b, ",");
+          csv_number (b, ok ? fields[c]->get (r) : NAN, fields[c]->csv_decimals);
+        g_string_append_c (b, ',');
         if (ok)
-          hl_buf_csv_field (&b, hl_flags_format (r->flags, ";", flags, sizeof flags));
+          hl_csv_field_append (b, hl_flags_format (r->flags, ";", flags, sizeof flags));
         else
-          hl_buf_puts (&b, "not-solved");
-        hl_buf_puts (&b, "\n");
+          g_string_append (b, "not-solved");
+        g_string_append_c (b, '\n');
       }
 
-  uselocale (old);
-  freelocale (c_locale);
-  if (b.failed)
-    {
-      free (b.data);
-      return hl_error_set (err, HL_ERR_NOMEM, "sweep", "%s",
-                           _("There is not enough memory for the table."));
-    }
-  *out = b.data;
-  *size = b.len;
+  /* GLib allocates with the system malloc (since 2.46): the caller frees
+   * the text with free(). */
+  *size = b->len;
+  *out = g_string_free (b, FALSE);
   return HL_OK;
 }
 

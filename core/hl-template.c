@@ -7,13 +7,14 @@
  */
 #include "config.h"
 
+#include <glib.h>
+
 #include <math.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
-#include "hl-buf.h"
 #include "hl-i18n.h"
 #include "hl-template.h"
 
@@ -312,27 +313,24 @@ hl_plan_catalogue_ref (const HlPlan *plan, const char *id)
 }
 
 static void
-warn (HlBuf *b, const char *fmt, ...) __attribute__ ((format (printf, 2, 3)));
+warn (GString *b, const char *fmt, ...) __attribute__ ((format (printf, 2, 3)));
 
 static void
-warn (HlBuf *b, const char *fmt, ...)
+warn (GString *b, const char *fmt, ...)
 {
-  char line[HL_ERROR_MESSAGE_MAX + 128];
   va_list ap;
   va_start (ap, fmt);
-  vsnprintf (line, sizeof line, fmt, ap);
+  g_string_append_vprintf (b, fmt, ap);
   va_end (ap);
-  hl_buf_puts (b, line);
-  hl_buf_puts (b, "\n");
+  g_string_append_c (b, '\n');
 }
 
 size_t
 hl_plan_resolve_templates (HlPlan *plan, const HlCatalogueSet *set, char **warnings)
 {
-  HlBuf b;
+  GString *b = g_string_new (NULL);
   size_t unresolved = 0;
 
-  hl_buf_init (&b);
   if (warnings != NULL)
     *warnings = NULL;
   for (size_t i = 0; i < plan->n_options; i++)
@@ -348,12 +346,12 @@ hl_plan_resolve_templates (HlPlan *plan, const HlCatalogueSet *set, char **warni
       hl_error_clear (&e);
       unresolved++;
       if (cat == NULL)
-        warn (&b, _("Option \"%s\": the implant catalogue \"%s\" is not loaded; "
+        warn (b, _("Option \"%s\": the implant catalogue \"%s\" is not loaded; "
                     "the option keeps the numbers it was saved with until the "
                     "catalogue is added."), o->name, t->catalogue);
       else if (ref == NULL || strcmp (ref->sha256, cat->sha256) != 0
                || strcmp (ref->version, cat->version) != 0)
-        warn (&b, _("Option \"%s\": the implant catalogue \"%s\" has changed since "
+        warn (b, _("Option \"%s\": the implant catalogue \"%s\" has changed since "
                     "the plan was saved (version %s, now %s%s); the option keeps "
                     "the numbers it was saved with until its template is applied "
                     "again."), o->name, t->catalogue,
@@ -361,17 +359,17 @@ hl_plan_resolve_templates (HlPlan *plan, const HlCatalogueSet *set, char **warni
               ref && strcmp (ref->version, cat->version) == 0
               ? _(", same version but other contents") : "");
       else if (hl_template_resolve (t, cat, &e) != HL_OK)
-        warn (&b, _("Option \"%s\": %s; the option keeps the numbers it was "
+        warn (b, _("Option \"%s\": %s; the option keeps the numbers it was "
                     "saved with."), o->name, e.message);
       else
         unresolved--;
     }
-  if (warnings != NULL && b.len > 0 && !b.failed)
-    {
-      *warnings = b.data;    /* the buffer's text, handed over */
-      hl_buf_init (&b);
-    }
-  hl_buf_clear (&b);
+  /* GLib allocates with the system malloc (since 2.46): the caller frees
+   * the text with free(). */
+  if (warnings != NULL && b->len > 0)
+    *warnings = g_string_free (b, FALSE);
+  else
+    g_string_free (b, TRUE);
   return unresolved;
 }
 

@@ -9,6 +9,8 @@
 #include <stdio.h>
 #include <string.h>
 
+#include <glib.h>
+
 #include "hl-i18n.h"
 #include "hl-text.h"
 
@@ -139,4 +141,41 @@ hl_text_quote (const char *s, size_t max, char *buf, size_t size)
     }
   buf[out] = '\0';
   return buf;
+}
+
+/* A cell that reads whole as a number ("-2.5", "+1e3") stays a number. */
+static bool
+is_number (const char *field)
+{
+  char *end = NULL;
+  if (field[0] == '\0' || g_ascii_isspace (field[0]))
+    return false;
+  (void) g_ascii_strtod (field, &end);
+  return end != NULL && end != field && *end == '\0';
+}
+
+void
+hl_csv_field_append (GString *out, const char *field)
+{
+  /* A text cell that a spreadsheet would run as a formula gets a leading
+   * apostrophe (OWASP, "CSV Injection"); a number stays a number. */
+  bool formula = field[0] != '\0' && strchr ("=+-@\t\r", field[0]) != NULL
+                 && !is_number (field);
+  if (strpbrk (field, ",\"\r\n") == NULL)
+    {
+      if (formula)
+        g_string_append_c (out, '\'');
+      g_string_append (out, field);
+      return;
+    }
+  g_string_append_c (out, '"');
+  if (formula)
+    g_string_append_c (out, '\'');
+  for (const char *p = field; *p != '\0'; p++)
+    {
+      if (*p == '"')
+        g_string_append_c (out, '"');
+      g_string_append_c (out, *p);
+    }
+  g_string_append_c (out, '"');
 }

@@ -38,6 +38,16 @@ const char *hl_text_unsafe (const char *s, char *buf, size_t size);
  * replaced by '?'.  Writes to buf (size >= max + 1) and returns it. */
 const char *hl_text_quote (const char *s, size_t max, char *buf, size_t size);
 
+/* The one CSV rule of every CSV the programs write (the command line's,
+ * the window's copies, sweeps): a cell with a comma, a quote or a line
+ * break is quoted as RFC 4180 asks, quotes doubled; a text cell a
+ * spreadsheet would run as a formula (=, +, -, @, tab, CR first) gets a
+ * leading apostrophe (OWASP, "CSV Injection") unless it reads whole as a
+ * number.  Use it for text (names, flags, messages); numbers come from
+ * hl_format_number.  Appends to a GString. */
+typedef struct _GString GString;
+void hl_csv_field_append (GString *out, const char *field);
+
 #ifdef __cplusplus
 }
 #endif

@@ -45,6 +45,13 @@ hl_format_number (char *buf, size_t size, int decimals, double value)
       snprintf (buf, size, "%s", "nan");
       return buf;
     }
+  if (decimals <= HL_NUMBER_SIGNIFICANT (1))
+    {
+      int digits = -100 - decimals;
+      snprintf (format, sizeof format, "%%.%dg", digits > 17 ? 17 : digits);
+      g_ascii_formatd (buf, (gint) size, format, value);
+      return buf;
+    }
   snprintf (format, sizeof format, "%%.%df", decimals < 0 ? 0 : decimals > 17 ? 17 : decimals);
   g_ascii_formatd (buf, (gint) size, format, value);
   if (buf[0] == '-' && strspn (buf + 1, "0.") == strlen (buf + 1))

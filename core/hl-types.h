@@ -64,10 +64,13 @@ char *hl_sha256_hex (const void *data, size_t size, char hex[HL_SHA256_HEX_SIZE]
  *    (a sign that is not there), "nan" for a value that is not finite;
  *  - decimals == HL_NUMBER_EXACT: the shortest text that reads back as the
  *    same double (15 to 17 significant digits), "NaN", "INF", "-INF" for
- *    the values that are not finite (xs:double's spelling).
+ *    the values that are not finite (xs:double's spelling);
+ *  - decimals == HL_NUMBER_SIGNIFICANT (n): n significant digits as "%.ng"
+ *    writes them (1 <= n <= 17), "nan" for a value that is not finite.
  * Returns buf (size >= HL_NUMBER_TEXT_SIZE is always enough). */
 #define HL_NUMBER_TEXT_SIZE 64
 #define HL_NUMBER_EXACT (-1)
+#define HL_NUMBER_SIGNIFICANT(n) (-100 - (n))
 char *hl_format_number (char *buf, size_t size, int decimals, double value);
 
 /* The operated side. */

@@ -13,7 +13,7 @@
 #include <glib/gi18n.h>
 
 #include "hl-measure.h"
-#include "hl-buf.h"
+#include "hl-text.h"
 #include "hl-result-fields.h"
 #include "hl-results.h"
 
