@@ -155,8 +155,8 @@ static const HlCliCommand commands[] = {
 static void
 print_command_help (const HlCliCommand *cmd)
 {
-  hl_cli_fprintf (stdout, "  %s %s\n      %s\n", cmd->name, cmd->synopsis,
-                  _(cmd->summary));
+  fprintf (stdout, "  %s %s\n      %s\n", cmd->name, cmd->synopsis,
+           _(cmd->summary));
   for (const HlCliOption *o = cmd->options; o->long_name != NULL; o++)
     {
       char flag[HL_CLI_NUMBER_MAX];
@@ -165,49 +165,49 @@ print_command_help (const HlCliCommand *cmd)
         snprintf (flag, sizeof flag, "-%c, --%s", o->short_name, o->long_name);
       else
         snprintf (flag, sizeof flag, "--%s", o->long_name);
-      hl_cli_fprintf (stdout, "      %s%s%s\n          %s\n", flag,
-                      o->arg_name != NULL ? " " : "",
-                      o->arg_name != NULL ? _(o->arg_name) : "", _(o->help));
+      fprintf (stdout, "      %s%s%s\n          %s\n", flag,
+               o->arg_name != NULL ? " " : "",
+               o->arg_name != NULL ? _(o->arg_name) : "", _(o->help));
     }
 }
 
 static void
 print_help (void)
 {
-  hl_cli_fprintf (stdout,
-                  _("Usage: %s SUBCOMMAND [OPTION...] [ARGUMENT...]\n"
-                    "       %s --help | --version\n\n"
-                    "A static frontal-plane estimate of single-leg stance for "
-                    "planning hip arthroplasty.\n\n"),
-                  HL_CLI_PROGRAM, HL_CLI_PROGRAM);
-  hl_cli_fprintf (stdout, "%s\n", _("Subcommands:"));
+  fprintf (stdout,
+           _("Usage: %s SUBCOMMAND [OPTION...] [ARGUMENT...]\n"
+             "       %s --help | --version\n\n"
+             "A static frontal-plane estimate of single-leg stance for "
+             "planning hip arthroplasty.\n\n"),
+           HL_CLI_PROGRAM, HL_CLI_PROGRAM);
+  fprintf (stdout, "%s\n", _("Subcommands:"));
   for (size_t i = 0; i < N_COMMANDS; i++)
     print_command_help (&commands[i]);
-  hl_cli_fprintf (stdout, "\n%s\n", _("Options:"));
-  hl_cli_fprintf (stdout, "  -h, --help\n      %s\n",
-                  _("show this help and exit (also after a subcommand)"));
-  hl_cli_fprintf (stdout, "  -V, --version\n      %s\n",
-                  _("show the program and model versions and exit"));
-  hl_cli_fprintf (stdout, "\n%s\n", _("Exit status:"));
-  hl_cli_fprintf (stdout, "  0  %s\n", _("success"));
-  hl_cli_fprintf (stdout, "  1  %s\n",
-                  _("invalid input, or an output that could not be written; "
-                    "the message reads \"hiplever-cli: FILE:LINE: FIELD: "
-                    "MESSAGE\" (the line is left out when there is none)"));
-  hl_cli_fprintf (stdout, "  2  %s\n",
-                  _("usage error: unknown subcommand or option, or a missing "
-                    "argument"));
-  hl_cli_fprintf (stdout, "  3  %s\n",
-                  _("batch --keep-going: some plans failed (listed in the "
-                    "failures table)"));
-  hl_cli_fprintf (stdout, "\n%s\n", hl_caution_text ());
+  fprintf (stdout, "\n%s\n", _("Options:"));
+  fprintf (stdout, "  -h, --help\n      %s\n",
+           _("show this help and exit (also after a subcommand)"));
+  fprintf (stdout, "  -V, --version\n      %s\n",
+           _("show the program and model versions and exit"));
+  fprintf (stdout, "\n%s\n", _("Exit status:"));
+  fprintf (stdout, "  0  %s\n", _("success"));
+  fprintf (stdout, "  1  %s\n",
+           _("invalid input, or an output that could not be written; "
+             "the message reads \"hiplever-cli: FILE:LINE: FIELD: "
+             "MESSAGE\" (the line is left out when there is none)"));
+  fprintf (stdout, "  2  %s\n",
+           _("usage error: unknown subcommand or option, or a missing "
+             "argument"));
+  fprintf (stdout, "  3  %s\n",
+           _("batch --keep-going: some plans failed (listed in the "
+             "failures table)"));
+  fprintf (stdout, "\n%s\n", hl_caution_text ());
 }
 
 static void
 print_version (void)
 {
-  hl_cli_fprintf (stdout, "%s %s\n", HL_CLI_PROGRAM, hl_program_version ());
-  hl_cli_fprintf (stdout, _("mechanical model %s\n"), HL_MODEL_VERSION);
+  fprintf (stdout, "%s %s\n", HL_CLI_PROGRAM, hl_program_version ());
+  fprintf (stdout, _("mechanical model %s\n"), HL_MODEL_VERSION);
 }
 
 /* A negative number ("-10,0", "-.5") is a value or an operand, never an
@@ -468,9 +468,9 @@ print_padded (const char *s, size_t width, bool right)
   size_t pad = w < width ? width - w : 0;
 
   if (right)
-    hl_cli_fprintf (stdout, "%*s%s", (int) pad, "", s);
+    fprintf (stdout, "%*s%s", (int) pad, "", s);
   else
-    hl_cli_fprintf (stdout, "%s%*s", s, (int) pad, "");
+    fprintf (stdout, "%s%*s", s, (int) pad, "");
 }
 
 #define HL_CLI_COLUMN_GAP 2
@@ -482,41 +482,41 @@ print_context (const char *path, const HlPlan *plan)
   const HlLimbTableInfo *limb = hl_limb_table_info (plan->model.limb_table);
   const char *hand_name[2] = { _("contralateral"), _("ipsilateral") };
 
-  hl_cli_fprintf (stdout, _("Plan: %s\n"), path);
-  hl_cli_fprintf (stdout,
-                  _("Case: %s; operated side: %s; body mass %.1f kg "
-                    "(body weight %.0f N)\n"),
-                  plan->label, _(hl_side_name (plan->side)), plan->mass_kg,
-                  hl_plan_body_weight (plan));
-  hl_cli_fprintf (stdout,
-                  _("Stance-limb mass fraction %.4f (%s); body-weight line: %s; "
-                    "abductor line: %s\n"),
-                  hl_plan_limb_fraction (plan),
-                  limb != NULL ? _(limb->label) : "",
-                  plan->model.bw_line == HL_BW_LINE_SEGMENTAL
-                  ? _("segmental") : _("on the midline"),
-                  plan->model.abductor_line == HL_ABDUCTOR_LINE_AUTO
-                  ? _("from origin to insertion where the origin is placed")
-                  : _("set angle through the insertion"));
-  hl_cli_fprintf (stdout,
-                  _("Abductor capacity: %.2f N m per kg of body mass (an "
-                    "assumption: adjust it to the patient)\n"),
-                  plan->capacity.torque_nm_per_kg);
+  fprintf (stdout, _("Plan: %s\n"), path);
+  fprintf (stdout,
+           _("Case: %s; operated side: %s; body mass %.1f kg "
+             "(body weight %.0f N)\n"),
+           plan->label, _(hl_side_name (plan->side)), plan->mass_kg,
+           hl_plan_body_weight (plan));
+  fprintf (stdout,
+           _("Stance-limb mass fraction %.4f (%s); body-weight line: %s; "
+             "abductor line: %s\n"),
+           hl_plan_limb_fraction (plan),
+           limb != NULL ? _(limb->label) : "",
+           plan->model.bw_line == HL_BW_LINE_SEGMENTAL
+           ? _("segmental") : _("on the midline"),
+           plan->model.abductor_line == HL_ABDUCTOR_LINE_AUTO
+           ? _("from origin to insertion where the origin is placed")
+           : _("set angle through the insertion"));
+  fprintf (stdout,
+           _("Abductor capacity: %.2f N m per kg of body mass (an "
+             "assumption: adjust it to the patient)\n"),
+           plan->capacity.torque_nm_per_kg);
   if (plan->cane.enabled)
-    hl_cli_fprintf (stdout, _("Cane: %s hand, %.0f N, %.0f mm from the midline\n"),
-                    hand_name[plan->cane.hand == HL_HAND_IPSILATERAL],
-                    hl_plan_cane_force (plan), plan->cane.distance_mm);
+    fprintf (stdout, _("Cane: %s hand, %.0f N, %.0f mm from the midline\n"),
+             hand_name[plan->cane.hand == HL_HAND_IPSILATERAL],
+             hl_plan_cane_force (plan), plan->cane.distance_mm);
   if (hl_plan_cane_note (plan) != NULL)
-    hl_cli_fprintf (stdout, "  %s\n", hl_plan_cane_note (plan));
+    fprintf (stdout, "  %s\n", hl_plan_cane_note (plan));
   for (int h = 0; h < 2; h++)
     if (plan->loads.hand[h].mass_kg > 0.0)
-      hl_cli_fprintf (stdout,
-                      _("Load in the %s hand: %.1f kg, %.0f mm from the midline\n"),
-                      hand_name[h], plan->loads.hand[h].mass_kg,
-                      plan->loads.hand[h].distance_mm);
+      fprintf (stdout,
+               _("Load in the %s hand: %.1f kg, %.0f mm from the midline\n"),
+               hand_name[h], plan->loads.hand[h].mass_kg,
+               plan->loads.hand[h].distance_mm);
   if (plan->loads.midline_kg > 0.0)
-    hl_cli_fprintf (stdout, _("Load on the midline: %.1f kg\n"),
-                    plan->loads.midline_kg);
+    fprintf (stdout, _("Load on the midline: %.1f kg\n"),
+             plan->loads.midline_kg);
 }
 
 /* The width of case i's column: its name or its widest number. */
@@ -554,15 +554,15 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
     }
 
   print_context (path, plan);
-  hl_cli_fprintf (stdout, "\n");
+  fprintf (stdout, "\n");
   print_padded ("", label_width, false);
   for (size_t i = 0; i < n_cases; i++)
     {
-      hl_cli_fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
+      fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
       print_padded (case_name (plan, i),
                     case_width (plan, results, i, rows, n_rows), true);
     }
-  hl_cli_fprintf (stdout, "\n");
+  fprintf (stdout, "\n");
 
   for (size_t r = 0; r < n_rows; r++)
     {
@@ -571,42 +571,42 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
         {
           hl_format_number (num, sizeof num, rows[r]->decimals,
                                rows[r]->get (&results[i]));
-          hl_cli_fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
+          fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
           print_padded (num, case_width (plan, results, i, rows, n_rows), true);
         }
-      hl_cli_fprintf (stdout, "\n");
+      fprintf (stdout, "\n");
     }
 
   hl_cli_print_against_other (plan);
 
-  hl_cli_fprintf (stdout, "\n%s\n", _("Flags:"));
+  fprintf (stdout, "\n%s\n", _("Flags:"));
   for (size_t i = 0; i < n_cases; i++)
     {
       const HlResult *r = &results[i];
 
       if (r->flags == 0)
-        hl_cli_fprintf (stdout, "  %s: %s\n", case_name (plan, i), _("none"));
+        fprintf (stdout, "  %s: %s\n", case_name (plan, i), _("none"));
       for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
         {
           if ((r->flags & bit) == 0)
             continue;
-          hl_cli_fprintf (stdout, "  %s: %s", case_name (plan, i),
-                          hl_flag_text ((HlFlag) bit));
+          fprintf (stdout, "  %s: %s", case_name (plan, i),
+                   hl_flag_text ((HlFlag) bit));
           if (bit == HL_FLAG_ABDUCTORS_NOT_NEEDED)
-            hl_cli_fprintf (stdout, _(" (unbalanced moment %.3f N m)"),
-                            fabs (r->unbalanced_nmm) / HL_CLI_NMM_PER_NM);
-          hl_cli_fprintf (stdout, "\n");
+            fprintf (stdout, _(" (unbalanced moment %.3f N m)"),
+                     fabs (r->unbalanced_nmm) / HL_CLI_NMM_PER_NM);
+          fprintf (stdout, "\n");
           if (bit == HL_FLAG_IMPLAUSIBLE)
             {
               char why[4 * HL_ERROR_MESSAGE_MAX];
               hl_implausible_describe_all (r, "\n    - ", why, sizeof why);
-              hl_cli_fprintf (stdout, "    - %s\n", why);
+              fprintf (stdout, "    - %s\n", why);
             }
         }
     }
 
   hl_cli_print_measures (plan);
-  hl_cli_fprintf (stdout, "\n%s %s\n", _("Caution:"), hl_caution_text ());
+  fprintf (stdout, "\n%s %s\n", _("Caution:"), hl_caution_text ());
 }
 
 typedef enum {
@@ -744,11 +744,11 @@ cmd_validate (const HlCliCommand *cmd, const HlCliArgs *args)
       HlResult *results = plan != NULL ? solve_plan (path, plan) : NULL;
 
       if (results != NULL)
-        hl_cli_fprintf (stdout,
-                        ngettext ("%s: valid (%zu option)\n",
-                                  "%s: valid (%zu options)\n",
-                                  plan->n_options),
-                        path, plan->n_options);
+        fprintf (stdout,
+                 ngettext ("%s: valid (%zu option)\n",
+                           "%s: valid (%zu options)\n",
+                           plan->n_options),
+                 path, plan->n_options);
       else
         status = HL_CLI_EXIT_INVALID;
       free (results);
@@ -993,7 +993,7 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
       HlError err;
 
       if (progress_shown)
-        hl_cli_fprintf (stderr, "\r");
+        fprintf (stderr, "\r");
       hl_error_clear (&err);
       HlResult *results = batch_solve (path, &plan, &err);
       if (results != NULL)
@@ -1025,12 +1025,12 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
 
       if (progress)
         {
-          hl_cli_fprintf (stderr, "%d/%d", i + 1, args->n_operands);
+          fprintf (stderr, "%d/%d", i + 1, args->n_operands);
           progress_shown = true;
         }
     }
   if (progress_shown)
-    hl_cli_fprintf (stderr, "\n");
+    fprintf (stderr, "\n");
   g_string_free (buf, TRUE);
 
   if (keep_going)
@@ -1145,11 +1145,11 @@ main (int argc, char **argv)
 
   if (args.help)
     {
-      hl_cli_fprintf (stdout, _("Usage: %s %s\n\n"), HL_CLI_PROGRAM,
-                      cmd->name);
+      fprintf (stdout, _("Usage: %s %s\n\n"), HL_CLI_PROGRAM,
+               cmd->name);
       print_command_help (cmd);
-      hl_cli_fprintf (stdout, "\n%s\n", _("Run 'hiplever-cli --help' for "
-                                          "every subcommand."));
+      fprintf (stdout, "\n%s\n", _("Run 'hiplever-cli --help' for "
+                                   "every subcommand."));
     }
   else
     {

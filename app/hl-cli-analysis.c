@@ -132,20 +132,15 @@ const HlCliOption hl_cli_figure_options[] = {
 
 /* ---- Shared helpers ------------------------------------------------------ */
 
-/* A number in the C locale, the whole text. */
+/* A number with a point, the whole text (GLib's locale-independent
+ * conversion). */
 static bool
 parse_double (const char *text, double *out)
 {
-  locale_t c = newlocale (LC_NUMERIC_MASK, "C", (locale_t) 0);
-  if (c == (locale_t) 0)
-    return false;
-  locale_t old = uselocale (c);
   char *end = NULL;
   errno = 0;
-  double v = strtod (text, &end);
+  double v = g_ascii_strtod (text, &end);
   bool ok = end != text && *end == '\0' && errno == 0;
-  uselocale (old);
-  freelocale (c);
   if (ok)
     *out = v;
   return ok;

@@ -215,8 +215,8 @@ bench_solve (const HlPlan *plan, long count)
   double ns = (now_ns () - t0) / (double) count;
   (void) sink;
 
-  hl_cli_fprintf (stdout,
-                  _("1) one solve: %.1f ns per solve (mean of %ld; target <= %.0f ns)\n"),
+  fprintf (stdout,
+           _("1) one solve: %.1f ns per solve (mean of %ld; target <= %.0f ns)\n"),
                   ns, count, HL_BENCH_SOLVE_TARGET_NS);
   if (failed > 0)
     hl_cli_error (_("bench: %ld of %ld solves failed"), failed, count);
@@ -371,10 +371,10 @@ bench_whatif (const HlPlan *demo, long count)
         ms = pass_ms;
     }
 
-  hl_cli_fprintf (stdout,
-                  _("2) what-if solves: %.2f ms for %ld random what-ifs on one core, "
-                    "cane and loads set on the prepared model, best of %d (target <= %.0f ms "
-                    "for %ld)\n"),
+  fprintf (stdout,
+           _("2) what-if solves: %.2f ms for %ld random what-ifs on one core, "
+             "cane and loads set on the prepared model, best of %d (target <= %.0f ms "
+             "for %ld)\n"),
                   ms, count, HL_BENCH_WHATIF_PASSES, HL_BENCH_WHATIF_TARGET_MS, HL_BENCH_WHATIFS);
 
   long refused = 0;
@@ -387,12 +387,12 @@ bench_whatif (const HlPlan *demo, long count)
       return false;
     }
   failed += refused;
-  hl_cli_fprintf (stdout,
-                  _("batch what-ifs: %.2f ms for the same %ld what-ifs on one core, "
-                    "structure of arrays with the joint force angle, best of %d "
-                    "(target <= %.0f ms for %ld)\n"),
-                  batch_ms, count, HL_BENCH_WHATIF_PASSES, HL_BENCH_BATCH_TARGET_MS,
-                  HL_BENCH_WHATIFS);
+  fprintf (stdout,
+           _("batch what-ifs: %.2f ms for the same %ld what-ifs on one core, "
+             "structure of arrays with the joint force angle, best of %d "
+             "(target <= %.0f ms for %ld)\n"),
+           batch_ms, count, HL_BENCH_WHATIF_PASSES, HL_BENCH_BATCH_TARGET_MS,
+           HL_BENCH_WHATIFS);
 
   long slow_count = count / HL_BENCH_REPREPARE_DIVISOR;
   plan->cane.unit = HL_FORCE_UNIT_N;
@@ -413,9 +413,9 @@ bench_whatif (const HlPlan *demo, long count)
   double us = (now_ns () - t0) / NS_PER_US / (double) (slow_count > 0 ? slow_count : 1);
   (void) sink;
 
-  hl_cli_fprintf (stdout,
-                  _("   re-preparing the model for each what-if instead: %.3f us per "
-                    "what-if (mean of %ld)\n"), us, slow_count);
+  fprintf (stdout,
+           _("   re-preparing the model for each what-if instead: %.3f us per "
+             "what-if (mean of %ld)\n"), us, slow_count);
   free (table);
   hl_plan_free (plan);
   if (failed > 0)
@@ -543,9 +543,9 @@ bench_files (const HlPlan *demo, long count)
   if (!ok)
     return false;
 
-  hl_cli_fprintf (stdout,
-                  _("3) plan files: %.3f s to load, validate and solve %ld files "
-                    "(target <= %.0f s for %ld)\n"),
+  fprintf (stdout,
+           _("3) plan files: %.3f s to load, validate and solve %ld files "
+             "(target <= %.0f s for %ld)\n"),
                   s, count, HL_BENCH_FILES_TARGET_S, HL_BENCH_FILES);
   return true;
 }
@@ -573,14 +573,14 @@ bench_analysis (bool quick)
       hl_cli_report_error ("bench", NULL, &err);
       return false;
     }
-  hl_cli_fprintf (stdout,
-                  _("4) sweep: %.3f ms for %zu points of native and %zu options, "
-                    "best of %d (target <= %.1f ms)\n"),
+  fprintf (stdout,
+           _("4) sweep: %.3f ms for %zu points of native and %zu options, "
+             "best of %d (target <= %.1f ms)\n"),
                   res.sweep_ms, res.sweep_steps, res.n_options, res.repeats,
                   HL_BENCH_SWEEP_TARGET_MS);
-  hl_cli_fprintf (stdout,
-                  _("5) Monte Carlo: %.3f ms for %zu samples of native and %zu "
-                    "options, best of %d (target <= %.1f ms)\n"),
+  fprintf (stdout,
+           _("5) Monte Carlo: %.3f ms for %zu samples of native and %zu "
+             "options, best of %d (target <= %.1f ms)\n"),
                   res.mc_ms, res.mc_samples, res.n_options, res.repeats,
                   HL_BENCH_MC_TARGET_MS);
   return true;
@@ -628,9 +628,9 @@ bench_report (bool quick)
         }
       best = t < best ? t : best;
     }
-  hl_cli_fprintf (stdout,
-                  _("6) report: %.3f s for a %d-page PDF of native and %zu options, "
-                    "best of %d (target <= %.1f s)\n"),
+  fprintf (stdout,
+           _("6) report: %.3f s for a %d-page PDF of native and %zu options, "
+             "best of %d (target <= %.1f s)\n"),
                   best, pages, plan->n_options, repeats, HL_BENCH_REPORT_TARGET_S);
   hl_plan_free (plan);
   return true;
@@ -701,10 +701,10 @@ bench_fit (bool quick)
       hl_fit_table_clear (&table);
       best = t < best ? t : best;
     }
-  hl_cli_fprintf (stdout,
-                  _("7) fit --sizes on the demo plan: %.1f ms (CPU %.1f ms) for %zu "
-                    "combinations ranked, each with a %zu-sample Monte Carlo, best "
-                    "of %d (target <= %.0f ms)\n"),
+  fprintf (stdout,
+           _("7) fit --sizes on the demo plan: %.1f ms (CPU %.1f ms) for %zu "
+             "combinations ranked, each with a %zu-sample Monte Carlo, best "
+             "of %d (target <= %.0f ms)\n"),
                   best, best_cpu, rows, samples, repeats, HL_BENCH_FIT_TARGET_MS);
   hl_plan_free (plan);
   return true;
@@ -722,9 +722,9 @@ hl_cli_bench (bool quick)
     }
 
   if (quick)
-    hl_cli_fprintf (stdout, "%s\n",
-                    _("Quick run: reduced counts, a smoke test; the targets "
-                      "are for the full counts."));
+    fprintf (stdout, "%s\n",
+             _("Quick run: reduced counts, a smoke test; the targets "
+               "are for the full counts."));
   /* Flushed line by line, so a long run shows each figure as it comes. */
   fflush (stdout);
 

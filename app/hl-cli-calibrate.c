@@ -96,22 +96,22 @@ report (const char *where, const HlCalibration *cal)
       hl_cli_report_error (where, NULL, &err);
       return HL_CLI_EXIT_INVALID;
     }
-  hl_cli_fprintf (stdout, _("Calibration method: %s\n"), method_words (cal->method));
+  fprintf (stdout, _("Calibration method: %s\n"), method_words (cal->method));
   if (cal->method == HL_CAL_MARKER)
-    hl_cli_fprintf (stdout, _("Marker diameter: %.2f mm; %d points\n"),
-                    cal->marker_diameter_mm, cal->n_points);
+    fprintf (stdout, _("Marker diameter: %.2f mm; %d points\n"),
+             cal->marker_diameter_mm, cal->n_points);
   else if (cal->method == HL_CAL_TWO_POINT)
-    hl_cli_fprintf (stdout, _("Known distance: %.2f mm; %d points\n"),
-                    cal->known_distance_mm, cal->n_points);
-  hl_cli_fprintf (stdout, _("Magnification: %.*f (measured / true)\n"),
-                  HL_CLI_MAGNIFICATION_DECIMALS, m);
+    fprintf (stdout, _("Known distance: %.2f mm; %d points\n"),
+             cal->known_distance_mm, cal->n_points);
+  fprintf (stdout, _("Magnification: %.*f (measured / true)\n"),
+           HL_CLI_MAGNIFICATION_DECIMALS, m);
   if (assumed)
-    hl_cli_fprintf (stdout, "%s\n",
-                    _("Assumed, not calibrated: the mean AP pelvis magnification "
-                      "of Brew et al. 2012 (J Arthroplasty 27:643-647), range "
-                      "1.17-1.234"));
+    fprintf (stdout, "%s\n",
+             _("Assumed, not calibrated: the mean AP pelvis magnification "
+               "of Brew et al. 2012 (J Arthroplasty 27:643-647), range "
+               "1.17-1.234"));
   else
-    hl_cli_fprintf (stdout, "%s\n", _("Calibrated: not assumed"));
+    fprintf (stdout, "%s\n", _("Calibrated: not assumed"));
   return HL_CLI_EXIT_OK;
 }
 
@@ -141,7 +141,7 @@ hl_cli_calibrate (const HlCliCommand *cmd, const HlCliArgs *args)
           return HL_CLI_EXIT_INVALID;
         }
       hl_cli_check_radiograph (path, plan);
-      hl_cli_fprintf (stdout, _("Plan: %s\n"), path);
+      fprintf (stdout, _("Plan: %s\n"), path);
       int status = report (path, &plan->calibration);
       hl_plan_free (plan);
       return status;
@@ -265,14 +265,14 @@ hl_cli_print_against_other (const HlPlan *plan)
       if (!isfinite (ms.leg_length_difference_mm) && !isfinite (ms.global_offset_difference_mm))
         continue;
       if (!header)
-        hl_cli_fprintf (stdout, "\n%s\n", _("Against the other hip:"));
+        fprintf (stdout, "\n%s\n", _("Against the other hip:"));
       header = true;
       char leg[160], go[160];
-      hl_cli_fprintf (stdout, "  %s: %s; %s\n",
-                      i == 0 ? _("native") : plan->options[i - 1].name,
-                      hl_measure_leg_length_words (ms.leg_length_difference_mm, leg, sizeof leg),
-                      hl_measure_global_offset_words (ms.global_offset_difference_mm, go,
-                                                      sizeof go));
+      fprintf (stdout, "  %s: %s; %s\n",
+               i == 0 ? _("native") : plan->options[i - 1].name,
+               hl_measure_leg_length_words (ms.leg_length_difference_mm, leg, sizeof leg),
+               hl_measure_global_offset_words (ms.global_offset_difference_mm, go,
+                                               sizeof go));
     }
 }
 
@@ -328,43 +328,43 @@ hl_cli_print_measures (const HlPlan *plan)
 
   bool assumed;
   double m = hl_image_display_magnification (plan, &assumed);
-  hl_cli_fprintf (stdout, "\n%s\n", _("Radiographic measures (mm, operated side; "
-                                      "\"diff\" is operated minus other side, "
-                                      "the target is 0):"));
-  hl_cli_fprintf (stdout, _("Magnification %.*f%s\n"), HL_DECIMALS_MAGNIFICATION, m,
-                  assumed ? _(" (assumed, not calibrated)") : "");
-  hl_cli_fprintf (stdout, "%-*s", (int) label_w, "");
+  fprintf (stdout, "\n%s\n", _("Radiographic measures (mm, operated side; "
+                               "\"diff\" is operated minus other side, "
+                               "the target is 0):"));
+  fprintf (stdout, _("Magnification %.*f%s\n"), HL_DECIMALS_MAGNIFICATION, m,
+           assumed ? _(" (assumed, not calibrated)") : "");
+  fprintf (stdout, "%-*s", (int) label_w, "");
   for (size_t i = 0; i < n_cases; i++)
     {
       char head[HL_NAME_MAX + 16];
       const char *name = i == 0 ? _("native") : plan->options[i - 1].name;
       snprintf (head, sizeof head, "%s", name);
-      hl_cli_fprintf (stdout, "%*s%*s%s", HL_CLI_MEASURE_GAP, "",
-                      (int) (col_w[i] - hl_cli_text_width (head)), "", head);
+      fprintf (stdout, "%*s%*s%s", HL_CLI_MEASURE_GAP, "",
+               (int) (col_w[i] - hl_cli_text_width (head)), "", head);
       snprintf (head, sizeof head, "%s", _("diff"));
-      hl_cli_fprintf (stdout, "%*s%8s", HL_CLI_MEASURE_GAP, "", head);
+      fprintf (stdout, "%*s%8s", HL_CLI_MEASURE_GAP, "", head);
     }
-  hl_cli_fprintf (stdout, "%*s%s\n", HL_CLI_MEASURE_GAP, "", _("other side"));
+  fprintf (stdout, "%*s%s\n", HL_CLI_MEASURE_GAP, "", _("other side"));
   for (size_t r = 0; r < N_MEASURE_ROWS; r++)
     {
       const char *label = _(measure_rows[r].label);
-      hl_cli_fprintf (stdout, "%s%*s", label,
-                      (int) (label_w - hl_cli_text_width (label)), "");
+      fprintf (stdout, "%s%*s", label,
+               (int) (label_w - hl_cli_text_width (label)), "");
       for (size_t i = 0; i < n_cases; i++)
         {
-          hl_cli_fprintf (stdout, "%*s%*s", HL_CLI_MEASURE_GAP, "", (int) col_w[i],
-                          cell (num, sizeof num, side_value (&ms[i].operated, r)));
-          hl_cli_fprintf (stdout, "%*s%8s", HL_CLI_MEASURE_GAP, "",
-                          cell (num, sizeof num, difference_value (&ms[i], r)));
+          fprintf (stdout, "%*s%*s", HL_CLI_MEASURE_GAP, "", (int) col_w[i],
+                   cell (num, sizeof num, side_value (&ms[i].operated, r)));
+          fprintf (stdout, "%*s%8s", HL_CLI_MEASURE_GAP, "",
+                   cell (num, sizeof num, difference_value (&ms[i], r)));
         }
-      hl_cli_fprintf (stdout, "%*s%*s\n", HL_CLI_MEASURE_GAP, "", (int) other_w,
-                      cell (num, sizeof num, side_value (&ms[0].other, r)));
+      fprintf (stdout, "%*s%*s\n", HL_CLI_MEASURE_GAP, "", (int) other_w,
+               cell (num, sizeof num, side_value (&ms[0].other, r)));
     }
   if (ms[0].side_contradiction)
-    hl_cli_fprintf (stdout, "%s\n",
-                    _("Warning: the landmarks contradict the operated side: the "
-                      "operated hip centre lies on the other side of the midline. "
-                      "Check the operated side and the landmarks."));
+    fprintf (stdout, "%s\n",
+             _("Warning: the landmarks contradict the operated side: the "
+               "operated hip centre lies on the other side of the midline. "
+               "Check the operated side and the landmarks."));
   free (col_w);
   free (ms);
 }

@@ -46,30 +46,30 @@ hl_cli_image (const HlCliCommand *cmd, const HlCliArgs *args)
   bool from_file;
   hl_gray_image_default_window (img, &centre, &width, &from_file);
 
-  hl_cli_fprintf (stdout, "format: %s\n", hl_image_format_name (img->format));
-  hl_cli_fprintf (stdout, "width: %d\n", img->width);
-  hl_cli_fprintf (stdout, "height: %d\n", img->height);
-  hl_cli_fprintf (stdout, "bits: %d\n", img->bits);
-  hl_cli_fprintf (stdout, "photometric: %s\n", img->photometric);
+  fprintf (stdout, "format: %s\n", hl_image_format_name (img->format));
+  fprintf (stdout, "width: %d\n", img->width);
+  fprintf (stdout, "height: %d\n", img->height);
+  fprintf (stdout, "bits: %d\n", img->bits);
+  fprintf (stdout, "photometric: %s\n", img->photometric);
   if (sc.source == HL_SPACING_NONE)
-    hl_cli_fprintf (stdout, "mm_per_pixel: none\n");
+    fprintf (stdout, "mm_per_pixel: none\n");
   else
-    hl_cli_fprintf (stdout, "mm_per_pixel: %.6g\n", sc.mm_per_pixel);
-  hl_cli_fprintf (stdout, "spacing_source: %s\n", hl_spacing_source_name (sc.source));
-  hl_cli_fprintf (stdout, "window_centre: %.6g\n", centre);
-  hl_cli_fprintf (stdout, "window_width: %.6g\n", width);
+    fprintf (stdout, "mm_per_pixel: %.6g\n", sc.mm_per_pixel);
+  fprintf (stdout, "spacing_source: %s\n", hl_spacing_source_name (sc.source));
+  fprintf (stdout, "window_centre: %.6g\n", centre);
+  fprintf (stdout, "window_width: %.6g\n", width);
   if (sc.source != HL_SPACING_NONE)
     {
-      hl_cli_fprintf (stdout, "magnification: %.6g\n", sc.magnification);
-      hl_cli_fprintf (stdout, "magnification_assumed: %s\n", sc.assumed ? "yes" : "no");
-      hl_cli_fprintf (stdout, "detector_spacing_mm: %.6g\n", sc.detector_spacing_mm);
+      fprintf (stdout, "magnification: %.6g\n", sc.magnification);
+      fprintf (stdout, "magnification_assumed: %s\n", sc.assumed ? "yes" : "no");
+      fprintf (stdout, "detector_spacing_mm: %.6g\n", sc.detector_spacing_mm);
     }
-  hl_cli_fprintf (stdout, "window_source: %s\n", from_file ? "file" : "auto");
-  hl_cli_fprintf (stdout, "frames: %d\n", img->frames);
-  hl_cli_fprintf (stdout, "burned_in_annotation: %s\n",
-                  img->burned_in_annotation ? "yes" : "no");
+  fprintf (stdout, "window_source: %s\n", from_file ? "file" : "auto");
+  fprintf (stdout, "frames: %d\n", img->frames);
+  fprintf (stdout, "burned_in_annotation: %s\n",
+           img->burned_in_annotation ? "yes" : "no");
   if (img->note[0] != '\0')
-    hl_cli_fprintf (stdout, "note: %s\n", img->note);
+    fprintf (stdout, "note: %s\n", img->note);
   hl_gray_image_free (img);
   return HL_CLI_EXIT_OK;
 }

@@ -122,56 +122,56 @@ hl_cli_catalogue (const HlCliCommand *cmd, const HlCliArgs *args)
       hl_cli_error ("%s", err.message);
       return HL_CLI_EXIT_INVALID;
     }
-  hl_cli_fprintf (stdout, _("%s: a valid implant catalogue\n"), path);
-  hl_cli_fprintf (stdout, _("catalogue %s, version %s: %s\n"), cat->id, cat->version,
-                  cat->label);
-  hl_cli_fprintf (stdout, "sha256 %s\n", cat->sha256);
+  fprintf (stdout, _("%s: a valid implant catalogue\n"), path);
+  fprintf (stdout, _("catalogue %s, version %s: %s\n"), cat->id, cat->version,
+           cat->label);
+  fprintf (stdout, "sha256 %s\n", cat->sha256);
   for (size_t i = 0; i < cat->n_cups; i++)
     {
       const HlCupFamily *f = &cat->cups[i];
-      hl_cli_fprintf (stdout, _("cup family %s (%s): %zu sizes, outer diameter (mm)"),
-                      f->id, f->label, f->n_sizes);
+      fprintf (stdout, _("cup family %s (%s): %zu sizes, outer diameter (mm)"),
+               f->id, f->label, f->n_sizes);
       for (size_t k = 0; k < f->n_sizes; k++)
-        hl_cli_fprintf (stdout, " %s", num (a, f->diameters_mm[k]));
-      hl_cli_fprintf (stdout, _("; liners"));
+        fprintf (stdout, " %s", num (a, f->diameters_mm[k]));
+      fprintf (stdout, _("; liners"));
       for (size_t k = 0; k < f->n_liners; k++)
-        hl_cli_fprintf (stdout, _(" %s (%s mm)"), f->liners[k].id,
-                        num (a, f->liners[k].lateralisation_mm));
-      hl_cli_fprintf (stdout, "\n");
+        fprintf (stdout, _(" %s (%s mm)"), f->liners[k].id,
+                 num (a, f->liners[k].lateralisation_mm));
+      fprintf (stdout, "\n");
     }
   for (size_t i = 0; i < cat->n_stems; i++)
     {
       const HlStemFamily *f = &cat->stems[i];
-      hl_cli_fprintf (stdout, _("stem family %s (%s), %s: versions"), f->id, f->label,
-                      f->fixation == HL_FIXATION_CEMENTED ? _("cemented") : _("cementless"));
+      fprintf (stdout, _("stem family %s (%s), %s: versions"), f->id, f->label,
+               f->fixation == HL_FIXATION_CEMENTED ? _("cemented") : _("cementless"));
       for (size_t k = 0; k < f->n_versions; k++)
-        hl_cli_fprintf (stdout, _(" %s (neck-shaft angle %s deg)"), f->versions[k].id,
-                        num (a, f->versions[k].neck_shaft_angle_deg));
-      hl_cli_fprintf (stdout, _("; %zu sizes\n"), f->n_sizes);
+        fprintf (stdout, _(" %s (neck-shaft angle %s deg)"), f->versions[k].id,
+                 num (a, f->versions[k].neck_shaft_angle_deg));
+      fprintf (stdout, _("; %zu sizes\n"), f->n_sizes);
       for (size_t k = 0; k < f->n_sizes; k++)
         {
           const HlStemSize *s = &f->sizes[k];
-          hl_cli_fprintf (stdout, _("  size %s: length %s mm; neck offset/height (mm)"),
-                          s->size, num (a, s->length_mm));
+          fprintf (stdout, _("  size %s: length %s mm; neck offset/height (mm)"),
+                   s->size, num (a, s->length_mm));
           for (size_t v = 0; v < f->n_versions; v++)
-            hl_cli_fprintf (stdout, " %s %s/%s", f->versions[v].id,
-                            num (a, s->necks[v].offset_mm), num (b, s->necks[v].height_mm));
-          hl_cli_fprintf (stdout, _("; body width at levels (mm)"));
+            fprintf (stdout, " %s %s/%s", f->versions[v].id,
+                     num (a, s->necks[v].offset_mm), num (b, s->necks[v].height_mm));
+          fprintf (stdout, _("; body width at levels (mm)"));
           for (size_t w = s->n_body; w-- > 0;)
-            hl_cli_fprintf (stdout, " %s:%s", num (a, s->body[w].level_mm),
-                            num (b, s->body[w].width_mm));
-          hl_cli_fprintf (stdout, "\n");
+            fprintf (stdout, " %s:%s", num (a, s->body[w].level_mm),
+                     num (b, s->body[w].width_mm));
+          fprintf (stdout, "\n");
         }
     }
   for (size_t i = 0; i < cat->n_heads; i++)
     {
       const HlHeadFamily *f = &cat->heads[i];
-      hl_cli_fprintf (stdout, _("head family %s, diameter %s mm: lengths (mm)"), f->id,
-                      num (a, f->diameter_mm));
+      fprintf (stdout, _("head family %s, diameter %s mm: lengths (mm)"), f->id,
+               num (a, f->diameter_mm));
       for (size_t k = 0; k < f->n_lengths; k++)
-        hl_cli_fprintf (stdout, " %s%s", f->lengths_mm[k] > 0 ? "+" : "",
-                        num (a, f->lengths_mm[k]));
-      hl_cli_fprintf (stdout, "\n");
+        fprintf (stdout, " %s%s", f->lengths_mm[k] > 0 ? "+" : "",
+                 num (a, f->lengths_mm[k]));
+      fprintf (stdout, "\n");
     }
   hl_catalogue_free (cat);
   return HL_CLI_EXIT_OK;
@@ -390,12 +390,12 @@ hl_cli_fit (const HlCliCommand *cmd, const HlCliArgs *args)
             {
               status = hl_cli_write_output (out, text, size);
               if (status == HL_CLI_EXIT_OK)
-                hl_cli_fprintf (stdout, _("%s: option \"%s\" now has rank %llu: cup %g mm, "
-                                          "liner %s, stem %s size %s %s, head %+g mm\n"),
-                                out, plan->options[option].name, rank,
-                                row->tmpl.cup_diameter_mm, row->tmpl.liner,
-                                row->tmpl.stem_family, row->tmpl.stem_size,
-                                row->tmpl.version, row->tmpl.head_length_mm);
+                fprintf (stdout, _("%s: option \"%s\" now has rank %llu: cup %g mm, "
+                                   "liner %s, stem %s size %s %s, head %+g mm\n"),
+                         out, plan->options[option].name, rank,
+                         row->tmpl.cup_diameter_mm, row->tmpl.liner,
+                         row->tmpl.stem_family, row->tmpl.stem_size,
+                         row->tmpl.version, row->tmpl.head_length_mm);
             }
           free (text);
         }

@@ -15,52 +15,6 @@
 #include "hl-plan-io.h"
 
 
-/* Created once and never changed, so sharing it is re-entrant. */
-static locale_t
-c_locale (void)
-{
-  static locale_t loc = (locale_t) 0;
-
-  if (loc == (locale_t) 0)
-    loc = newlocale (LC_ALL_MASK, "C", (locale_t) 0);
-  return loc;
-}
-
-int
-hl_cli_vfprintf (FILE *out, const char *fmt, va_list ap)
-{
-  locale_t c = c_locale ();
-  locale_t old = c != (locale_t) 0 ? uselocale (c) : (locale_t) 0;
-  int n = vfprintf (out, fmt, ap);
-
-  if (old != (locale_t) 0)
-    uselocale (old);
-  return n;
-}
-
-int
-hl_cli_fprintf (FILE *out, const char *fmt, ...)
-{
-  va_list ap;
-
-  va_start (ap, fmt);
-  int n = hl_cli_vfprintf (out, fmt, ap);
-  va_end (ap);
-  return n;
-}
-
-int
-hl_cli_vsnprintf (char *buf, size_t size, const char *fmt, va_list ap)
-{
-  locale_t c = c_locale ();
-  locale_t old = c != (locale_t) 0 ? uselocale (c) : (locale_t) 0;
-  int n = vsnprintf (buf, size, fmt, ap);
-
-  if (old != (locale_t) 0)
-    uselocale (old);
-  return n;
-}
-
 /* Returns s past `prefix` and `sep` when s starts with both, else s. */
 static const char *
 skip_prefix (const char *s, const char *prefix, const char *sep)
@@ -95,14 +49,14 @@ hl_cli_report_error (const char *file, const char *context, const HlError *err)
         message = after;
     }
 
-  hl_cli_fprintf (stderr, "%s: %s", HL_CLI_PROGRAM, file);
+  fprintf (stderr, "%s: %s", HL_CLI_PROGRAM, file);
   if (err->line > 0)
-    hl_cli_fprintf (stderr, ":%d", err->line);
+    fprintf (stderr, ":%d", err->line);
   if (context != NULL && context[0] != '\0')
-    hl_cli_fprintf (stderr, ": %s", context);
+    fprintf (stderr, ": %s", context);
   if (err->field[0] != '\0' && strcmp (err->field, file) != 0)
-    hl_cli_fprintf (stderr, ": %s", err->field);
-  hl_cli_fprintf (stderr, ": %s\n", message);
+    fprintf (stderr, ": %s", err->field);
+  fprintf (stderr, ": %s\n", message);
 }
 
 void
@@ -110,11 +64,11 @@ hl_cli_error (const char *fmt, ...)
 {
   va_list ap;
 
-  hl_cli_fprintf (stderr, "%s: ", HL_CLI_PROGRAM);
+  fprintf (stderr, "%s: ", HL_CLI_PROGRAM);
   va_start (ap, fmt);
-  hl_cli_vfprintf (stderr, fmt, ap);
+  vfprintf (stderr, fmt, ap);
   va_end (ap);
-  hl_cli_fprintf (stderr, "\n");
+  fprintf (stderr, "\n");
 }
 
 int
@@ -122,13 +76,13 @@ hl_cli_usage_error (const char *fmt, ...)
 {
   va_list ap;
 
-  hl_cli_fprintf (stderr, "%s: ", HL_CLI_PROGRAM);
+  fprintf (stderr, "%s: ", HL_CLI_PROGRAM);
   va_start (ap, fmt);
-  hl_cli_vfprintf (stderr, fmt, ap);
+  vfprintf (stderr, fmt, ap);
   va_end (ap);
-  hl_cli_fprintf (stderr, "\n");
-  hl_cli_fprintf (stderr, _("Try '%s --help' for more information.\n"),
-                  HL_CLI_PROGRAM);
+  fprintf (stderr, "\n");
+  fprintf (stderr, _("Try '%s --help' for more information.\n"),
+           HL_CLI_PROGRAM);
   return HL_CLI_EXIT_USAGE;
 }
 

@@ -3,9 +3,8 @@
  * Copyright 2026 the hiplever developers
  * SPDX-License-Identifier: GPL-3.0-or-later
  *
- * Everything the command line prints goes through hl_cli_printf and
- * friends, which format in the C locale whatever the user's locale is, so
- * numbers always use '.'; translated words are looked up before the call.
+ * The command line runs with LC_NUMERIC "C" (set once in main): whatever
+ * it prints has numbers with '.', its words are translated.
  */
 #pragma once
 
@@ -42,13 +41,6 @@ typedef enum {
 /* Room for one formatted number. */
 #define HL_CLI_NUMBER_MAX 64
 
-/* C-locale formatting. */
-int hl_cli_vfprintf (FILE *out, const char *fmt, va_list ap)
-  __attribute__ ((format (printf, 2, 0)));
-int hl_cli_fprintf (FILE *out, const char *fmt, ...)
-  __attribute__ ((format (printf, 2, 3)));
-int hl_cli_vsnprintf (char *buf, size_t size, const char *fmt, va_list ap)
-  __attribute__ ((format (printf, 3, 0)));
 
 /* "hiplever-cli: FILE:LINE: FIELD: MESSAGE" on stderr; the line is left
  * out when the error has none (0), the field when it is empty.  `context`
