@@ -402,20 +402,44 @@ grey_top (const HlGrayImage *img)
   return (double) ((1u << bits) - 1u);
 }
 
-void
-hl_radiograph_display_window (const HlRadiograph *rg, const HlGrayImage *img,
-                              double *centre, double *width)
+/* The plan's own window or the one of its brightness and contrast; false
+ * when the image's own window is the one shown. */
+static bool
+plan_window (const HlRadiograph *rg, const HlGrayImage *img, double *centre, double *width)
 {
   if (rg->window_width > 0.0)
     {
       *centre = rg->window_centre;
       *width = rg->window_width;
+      return true;
     }
-  else if (rg->brightness != 0.0 || rg->contrast != 1.0 || img == NULL)
-    hl_window_from_brightness_contrast (rg->brightness, rg->contrast, grey_top (img),
-                                        centre, width);
-  else
+  if (rg->brightness != 0.0 || rg->contrast != 1.0 || img == NULL)
+    {
+      hl_window_from_brightness_contrast (rg->brightness, rg->contrast, grey_top (img),
+                                          centre, width);
+      return true;
+    }
+  return false;
+}
+
+void
+hl_radiograph_display_window (const HlRadiograph *rg, const HlGrayImage *img,
+                              double *centre, double *width)
+{
+  if (!plan_window (rg, img, centre, width))
     hl_gray_image_default_window (img, centre, width, NULL);
+}
+
+void
+hl_radiograph_display_window_known (const HlRadiograph *rg, const HlGrayImage *img,
+                                    double image_centre, double image_width,
+                                    double *centre, double *width)
+{
+  if (!plan_window (rg, img, centre, width))
+    {
+      *centre = image_centre;
+      *width = image_width;
+    }
 }
 
 /* The folder of `file` made absolute and free of "." and "..", links

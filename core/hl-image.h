@@ -149,6 +149,13 @@ HlGrayImage *hl_image_load_checked (const HlRadiograph *rg, HlError *err);
  * not read: then the 16-bit range stands for the image's. */
 void hl_radiograph_display_window (const HlRadiograph *rg, const HlGrayImage *img,
                                    double *centre, double *width);
+/* The same with the image's own window (hl_gray_image_default_window: the
+ * automatic one is a histogram of every pixel) already worked out, for a
+ * view that shows the image on every edit. */
+void hl_radiograph_display_window_known (const HlRadiograph *rg,
+                                         const HlGrayImage *img,
+                                         double image_centre, double image_width,
+                                         double *centre, double *width);
 
 /* `path` resolved against the folder of `base_file` (the plan file) when
  * relative; absolute paths are copied.  Fails when it does not fit. */

@@ -48,6 +48,7 @@ struct _HlUnderlay {
   int width, height;
 
   double centre, window;   /* the window in held values */
+  double default_centre, default_window;  /* the image's own (preset or automatic) */
   bool invert;
   bool lut_valid;
   uint8_t lut[LUT_SIZE];
@@ -93,8 +94,8 @@ hl_underlay_new_from_gray (HlGrayImage *img)
   self->height = img->height;
   double c, w;
   hl_gray_image_default_window (img, &c, &w, NULL);
-  self->centre = c;
-  self->window = w;
+  self->centre = self->default_centre = c;
+  self->window = self->default_window = w;
   if (!make_levels (self))
     {
       hl_underlay_free (self);
@@ -209,6 +210,13 @@ hl_underlay_set_window (HlUnderlay *self, double centre, double width, bool inve
   self->window = width;
   self->invert = invert;
   invalidate (self);
+}
+
+void
+hl_underlay_get_default_window (const HlUnderlay *self, double *centre, double *width)
+{
+  *centre = self->default_centre;
+  *width = self->default_window;
 }
 
 double

@@ -59,6 +59,10 @@ const HlGrayImage *hl_underlay_get_image (const HlUnderlay *self);
 /* Window centre and width (> 0) in the held grey values, and invert. */
 void hl_underlay_set_window (HlUnderlay *self, double centre, double width,
                              bool invert);
+/* The image's own window (its preset or the automatic one), worked out
+ * once when the underlay was made (hl_gray_image_default_window). */
+void hl_underlay_get_default_window (const HlUnderlay *self, double *centre,
+                                     double *width);
 
 /* The shown grey 0..1 of held value v under a window (DICOM's linear
  * window function), inverted when asked. */

@@ -487,6 +487,55 @@ START_TEST (test_brightness_contrast_window)
 }
 END_TEST
 
+/* The window shown with the image's own window worked out once (the
+ * underlay keeps it) is the window the plan's rule gives: the plan's own
+ * window, an older plan's brightness and contrast, else the image's. */
+START_TEST (test_known_default_window)
+{
+  cairo_surface_t *s = cairo_image_surface_create (CAIRO_FORMAT_RGB24, 64, 48);
+  cairo_t *cr = cairo_create (s);
+  cairo_pattern_t *ramp = cairo_pattern_create_linear (0, 0, 64, 0);
+  cairo_pattern_add_color_stop_rgb (ramp, 0.0, 0.2, 0.2, 0.2);
+  cairo_pattern_add_color_stop_rgb (ramp, 1.0, 0.7, 0.7, 0.7);
+  cairo_set_source (cr, ramp);
+  cairo_paint (cr);
+  cairo_pattern_destroy (ramp);
+  cairo_destroy (cr);
+  HlUnderlay *ul = hl_underlay_new_from_surface (s);
+  cairo_surface_destroy (s);
+  ck_assert_ptr_nonnull (ul);
+  const HlGrayImage *img = hl_underlay_get_image (ul);
+  double dc, dw, kc, kw, c, w;
+  hl_underlay_get_default_window (ul, &kc, &kw);
+  hl_gray_image_default_window (img, &dc, &dw, NULL);
+  ck_assert_double_eq (kc, dc);
+  ck_assert_double_eq (kw, dw);
+  /* A ramp from 51 to 178 of 255: not the whole range. */
+  ck_assert_double_lt (kw, 200.0);
+
+  HlRadiograph rg;
+  for (int k = 0; k < 3; k++)
+    {
+      hl_radiograph_init (&rg);
+      if (k == 1)
+        {
+          rg.window_centre = 90.0;
+          rg.window_width = 40.0;
+        }
+      else if (k == 2)
+        {
+          rg.brightness = 0.1;
+          rg.contrast = 1.5;
+        }
+      hl_radiograph_display_window (&rg, img, &c, &w);
+      hl_radiograph_display_window_known (&rg, img, kc, kw, &dc, &dw);
+      ck_assert_double_eq (dc, c);
+      ck_assert_double_eq (dw, w);
+    }
+  hl_underlay_free (ul);
+}
+END_TEST
+
 /* ---- Bad image files ------------------------------------------------------- */
 
 static uint32_t
@@ -782,6 +831,7 @@ radiograph_suite (void)
   tc = tcase_create ("adjust");
   tcase_add_loop_test (tc, test_window_value, 0, N_OF (window_cases));
   tcase_add_loop_test (tc, test_brightness_contrast_window, 0, N_OF (old_adjust));
+  tcase_add_test (tc, test_known_default_window);
   suite_add_tcase (s, tc);
   tc = tcase_create ("files");
   tcase_add_loop_test (tc, test_bad_image, 0, N_OF (bad_images));

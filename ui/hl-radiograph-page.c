@@ -541,10 +541,20 @@ grey_top (HlRadiographPage *self)
 static void
 effective_window (HlRadiographPage *self, double *centre, double *width)
 {
-  hl_radiograph_display_window (&plan_of (self)->radiograph,
-                                self->underlay != NULL ? hl_underlay_get_image (self->underlay)
-                                                       : NULL,
-                                centre, width);
+  const HlRadiograph *rg = &plan_of (self)->radiograph;
+
+  if (self->underlay != NULL)
+    {
+      /* The image's own window as worked out once: the automatic one is a
+       * histogram of every pixel, too slow for every frame of a drag. */
+      double image_centre, image_width;
+
+      hl_underlay_get_default_window (self->underlay, &image_centre, &image_width);
+      hl_radiograph_display_window_known (rg, hl_underlay_get_image (self->underlay),
+                                          image_centre, image_width, centre, width);
+    }
+  else
+    hl_radiograph_display_window (rg, NULL, centre, width);
 }
 
 static void
