@@ -81,6 +81,9 @@ static const HlXmlKind catalogue_kind = {
                 "so it is refused and nothing it declares is read"),
   .no_match = N_("the file does not match the catalogue schema"),
   .schema_broken = N_("internal error: the built-in catalogue schema does not compile"),
+  .is_folder = N_("\"%s\" is a folder, not a catalogue file"),
+  .file_too_big = N_("\"%s\" is %jd bytes, more than the %u bytes a catalogue may have"),
+  .file_grew = N_("\"%s\" is more than the %u bytes a catalogue may have"),
 };
 
 static HlStatus fail (CatReader *r, xmlNodePtr node, int line, const char *fmt, ...)
@@ -565,49 +568,12 @@ HlStatus
 hl_catalogue_load_file (const char *path, HlCatalogue **out, HlError *err)
 {
   hl_error_clear (err);
-  int fd = open (path, O_RDONLY | O_CLOEXEC | O_NOCTTY | O_NONBLOCK);
-  if (fd < 0)
-    return hl_error_set (err, HL_ERR_IO, path, _("Cannot open \"%s\": %s"), path,
-                         strerror (errno));
-  struct stat sb;
-  if (fstat (fd, &sb) != 0 || !S_ISREG (sb.st_mode))
-    {
-      close (fd);
-      return hl_error_set (err, HL_ERR_IO, path, _("\"%s\" is not a regular file"), path);
-    }
-  if (sb.st_size > (off_t) HL_CATALOGUE_MAX_BYTES)
-    {
-      close (fd);
-      return hl_error_set (err, HL_ERR_PARSE, path,
-                           _("%s: the file is %lld bytes, more than the %u bytes a "
-                             "catalogue may have"), path, (long long) sb.st_size,
-                           HL_CATALOGUE_MAX_BYTES);
-    }
-  size_t size = (size_t) sb.st_size;
-  char *data = malloc (size + 1);
-  if (data == NULL)
-    {
-      close (fd);
-      return hl_error_set (err, HL_ERR_NOMEM, path, _("out of memory"));
-    }
-  size_t got = 0;
-  while (got < size)
-    {
-      ssize_t n = read (fd, data + got, size - got);
-      if (n < 0 && errno == EINTR)
-        continue;
-      if (n <= 0)
-        break;
-      got += (size_t) n;
-    }
-  close (fd);
-  if (got != size)
-    {
-      free (data);
-      return hl_error_set (err, HL_ERR_IO, path, _("Cannot read \"%s\""), path);
-    }
-  data[size] = '\0';
-  HlStatus st = hl_catalogue_load_buffer (data, size, path, out, err);
+  char *data = NULL;
+  size_t size = 0;
+  HlStatus st = hl_xml_read_file (&catalogue_kind, path, &data, &size, err);
+  if (st != HL_OK)
+    return st;
+  st = hl_catalogue_load_buffer (data, size, path, out, err);
   free (data);
   if (st == HL_OK)
     {

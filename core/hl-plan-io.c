@@ -2206,6 +2206,9 @@ static const HlXmlKind plan_kind = {
                 "so it is refused and nothing it declares or points to is read"),
   .no_match = N_("the file does not match the plan schema"),
   .schema_broken = N_("internal error: the built-in plan schema does not compile"),
+  .is_folder = N_("\"%s\" is a folder, not a plan file"),
+  .file_too_big = N_("\"%s\" is %jd bytes, more than the %u bytes a plan file may have"),
+  .file_grew = N_("\"%s\" is more than the %u bytes a plan file may have"),
 };
 
 static HlStatus
@@ -2411,71 +2414,9 @@ HlStatus
 hl_plan_load_file (const char *path, HlPlan **out, HlError *err)
 {
   hl_error_clear (err);
-  /* Non-blocking so that a FIFO given by mistake cannot hang the open. */
-  int fd = open (path, O_RDONLY | O_CLOEXEC | O_NOCTTY | O_NONBLOCK);
-  if (fd < 0)
-    return hl_error_set (err, HL_ERR_IO, path, _("Cannot open \"%s\": %s"), path,
-                         strerror (errno));
-
-  struct stat sb;
-  HlStatus st = HL_OK;
-  if (fstat (fd, &sb) != 0)
-    st = hl_error_set (err, HL_ERR_IO, path, _("Cannot read \"%s\": %s"), path,
-                       strerror (errno));
-  else if (S_ISDIR (sb.st_mode))
-    st = hl_error_set (err, HL_ERR_IO, path, _("\"%s\" is a folder, not a plan file"), path);
-  else if (!S_ISREG (sb.st_mode))
-    st = hl_error_set (err, HL_ERR_IO, path, _("\"%s\" is not a regular file"), path);
-  else if ((uintmax_t) sb.st_size > HL_PLAN_MAX_BYTES)
-    st = hl_error_set (err, HL_ERR_PARSE, path,
-                       _("\"%s\" is %jd bytes, more than the %u bytes a plan file may have"),
-                       path, (intmax_t) sb.st_size, HL_PLAN_MAX_BYTES);
-  if (st != HL_OK)
-    {
-      close (fd);
-      return st;
-    }
-
-  /* Bounded: the file may have grown since fstat. */
-  size_t cap = (size_t) sb.st_size + 1;
-  char *data = malloc (cap + 1);
+  char *data = NULL;
   size_t len = 0;
-  while (data != NULL && st == HL_OK)
-    {
-      if (len == cap)
-        {
-          if (cap > HL_PLAN_MAX_BYTES)
-            {
-              st = hl_error_set (err, HL_ERR_PARSE, path,
-                                 _("\"%s\" is more than the %u bytes a plan file may have"),
-                                 path, HL_PLAN_MAX_BYTES);
-              break;
-            }
-          size_t grown_cap = cap * 2 > HL_PLAN_MAX_BYTES + 1 ? HL_PLAN_MAX_BYTES + 1 : cap * 2;
-          char *grown = realloc (data, grown_cap + 1);
-          if (grown == NULL)
-            {
-              st = hl_error_set (err, HL_ERR_NOMEM, path,
-                                 _("Out of memory while reading \"%s\""), path);
-              break;
-            }
-          data = grown;
-          cap = grown_cap;
-        }
-      ssize_t n = read (fd, data + len, cap - len);
-      if (n < 0 && errno == EINTR)
-        continue;
-      if (n < 0)
-        st = hl_error_set (err, HL_ERR_IO, path, _("Cannot read \"%s\": %s"), path,
-                           strerror (errno));
-      else if (n == 0)
-        break;
-      else
-        len += (size_t) n;
-    }
-  close (fd);
-  if (st == HL_OK && data == NULL)
-    st = hl_error_set (err, HL_ERR_NOMEM, path, _("Out of memory while reading \"%s\""), path);
+  HlStatus st = hl_xml_read_file (&plan_kind, path, &data, &len, err);
   if (st == HL_OK)
     st = load_buffer_for (data, len, path, path, out, err);
   free (data);

@@ -5,10 +5,17 @@
  */
 #include "config.h"
 
+#include <errno.h>
+#include <fcntl.h>
+#include <inttypes.h>
 #include <limits.h>
 #include <stdarg.h>
+#include <stdint.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
 
 #include <libxml/SAX2.h>
 
@@ -367,6 +374,89 @@ hl_xml_parse (HlXmlLoad *l, const char *data, size_t size, xmlDocPtr *out)
   *out = doc;
   return HL_OK;
 }
+
+/* The kind's own sentences carry the conversions hl-xml-load.h gives them. */
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wformat-nonliteral"
+HlStatus
+hl_xml_read_file (const HlXmlKind *kind, const char *path, char **out, size_t *out_len,
+                  HlError *err)
+{
+  *out = NULL;
+  int fd = open (path, O_RDONLY | O_CLOEXEC | O_NOCTTY | O_NONBLOCK);
+  if (fd < 0)
+    return hl_error_set (err, HL_ERR_IO, path, _("Cannot open \"%s\": %s"), path,
+                         strerror (errno));
+
+  struct stat sb;
+  HlStatus st = HL_OK;
+  const unsigned max = (unsigned) kind->max_bytes;
+  if (fstat (fd, &sb) != 0)
+    st = hl_error_set (err, HL_ERR_IO, path, _("Cannot read \"%s\": %s"), path,
+                       strerror (errno));
+  else if (S_ISDIR (sb.st_mode))
+    st = hl_error_set (err, HL_ERR_IO, path, _(kind->is_folder), path);
+  else if (!S_ISREG (sb.st_mode))
+    st = hl_error_set (err, HL_ERR_IO, path, _("\"%s\" is not a regular file"), path);
+  else if ((uintmax_t) sb.st_size > kind->max_bytes)
+    st = hl_error_set (err, HL_ERR_PARSE, path, _(kind->file_too_big), path,
+                       (intmax_t) sb.st_size, max);
+  if (st != HL_OK)
+    {
+      close (fd);
+      return st;
+    }
+
+  /* Bounded: the file may have grown since fstat. */
+  size_t cap = (size_t) sb.st_size + 1;
+  char *data = malloc (cap + 1);
+  size_t len = 0;
+  while (data != NULL && st == HL_OK)
+    {
+      if (len == cap)
+        {
+          if (cap > kind->max_bytes)
+            {
+              st = hl_error_set (err, HL_ERR_PARSE, path, _(kind->file_grew), path, max);
+              break;
+            }
+          size_t grown_cap = cap * 2 > kind->max_bytes + 1 ? kind->max_bytes + 1 : cap * 2;
+          char *grown = realloc (data, grown_cap + 1);
+          if (grown == NULL)
+            {
+              st = hl_error_set (err, HL_ERR_NOMEM, path,
+                                 _("Out of memory while reading \"%s\""), path);
+              break;
+            }
+          data = grown;
+          cap = grown_cap;
+        }
+      ssize_t n = read (fd, data + len, cap - len);
+      if (n < 0 && errno == EINTR)
+        continue;
+      if (n < 0)
+        st = hl_error_set (err, HL_ERR_IO, path, _("Cannot read \"%s\": %s"), path,
+                           strerror (errno));
+      else if (n == 0)
+        break;
+      else
+        len += (size_t) n;
+    }
+  close (fd);
+  if (st == HL_OK && data == NULL)
+    st = hl_error_set (err, HL_ERR_NOMEM, path, _("Out of memory while reading \"%s\""),
+                       path);
+  if (st != HL_OK)
+    {
+      free (data);
+      return st;
+    }
+  data[len] = '\0';
+  *out = data;
+  *out_len = len;
+  return HL_OK;
+}
+#pragma GCC diagnostic pop
 
 /* ---- The compiled-in schemas ------------------------------------------ */
 

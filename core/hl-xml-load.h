@@ -53,6 +53,13 @@ typedef struct {
   const char *no_match;
   /* "internal error: the built-in ... schema does not compile" */
   const char *schema_broken;
+  /* Reading the file: "\"%s\" is a folder, not a ... file" (the path),
+   * "\"%s\" is %jd bytes, more than the %u bytes a ... may have" (the
+   * path, its size, max_bytes), "\"%s\" is more than the %u bytes a ...
+   * may have" (the path, max_bytes: it grew while it was read). */
+  const char *is_folder;
+  const char *file_too_big;
+  const char *file_grew;
 } HlXmlKind;
 
 typedef struct {
@@ -89,6 +96,14 @@ HlStatus hl_xml_fail_at (HlXmlLoad *l, HlStatus status, int line, const char *el
 
 /* The line an element starts on, 0 when unknown. */
 int hl_xml_node_line (xmlNodePtr node);
+
+/* The bytes of a regular file, at most kind->max_bytes of them (checked
+ * before and while reading: the file may grow), NUL-terminated, malloc'd
+ * into *data; opened non-blocking, so that a named pipe given by mistake
+ * cannot hang the open.  HL_OK, or HL_ERR_IO / HL_ERR_PARSE / HL_ERR_NOMEM
+ * with a message naming the path. */
+HlStatus hl_xml_read_file (const HlXmlKind *kind, const char *path, char **data,
+                           size_t *len, HlError *err);
 
 /* Size cap, pre-scan, hardened parse: *out is the document, or NULL and
  * the failure recorded. */
