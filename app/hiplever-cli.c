@@ -703,6 +703,12 @@ cmd_summary (const HlCliCommand *cmd, const HlCliArgs *args)
   HlPlan *plan = hl_cli_load_plan (path);
   if (plan == NULL)
     return HL_CLI_EXIT_INVALID;
+  status = hl_cli_check_output_radiograph (cmd->name, out, plan);
+  if (status != HL_CLI_EXIT_OK)
+    {
+      hl_plan_free (plan);
+      return status;
+    }
 
   HlError err;
   hl_error_clear (&err);
@@ -866,13 +872,23 @@ batch_plan_seconds (void)
  * the plan's time budget (hl-deadline.h: the core's loops stop when it
  * runs out); on failure err says why, with the option at fault in front. */
 static HlResult *
-batch_solve_within (const char *path, HlPlan **plan_out, HlError *err)
+batch_solve_within (const char *path, char *const *outs, HlPlan **plan_out,
+                    bool *clash, HlError *err)
 {
   HlPlan *plan = NULL;
 
   *plan_out = NULL;
   if (hl_plan_load_file (path, &plan, err) != HL_OK)
     return NULL;
+  /* An output that is this plan's radiograph stops the whole batch. */
+  for (int i = 0; i < 2; i++)
+    if (outs[i] != NULL
+        && hl_cli_check_output_radiograph ("batch", outs[i], plan) != HL_CLI_EXIT_OK)
+      {
+        *clash = true;
+        hl_plan_free (plan);
+        return NULL;
+      }
   HlModel model;
   HlResult *results = NULL;
   if (hl_model_prepare (&model, plan, err) == HL_OK)
@@ -924,10 +940,11 @@ batch_solve_within (const char *path, HlPlan **plan_out, HlError *err)
 }
 
 static HlResult *
-batch_solve (const char *path, HlPlan **plan_out, HlError *err)
+batch_solve (const char *path, char *const *outs, HlPlan **plan_out, bool *clash,
+             HlError *err)
 {
   hl_deadline_begin (batch_plan_seconds ());
-  HlResult *results = batch_solve_within (path, plan_out, err);
+  HlResult *results = batch_solve_within (path, outs, plan_out, clash, err);
   hl_deadline_end ();
   return results;
 }
@@ -985,6 +1002,7 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
   GString *buf = g_string_new (NULL);
   csv_header (buf, true);
   batch_out_put (&table, buf);
+  char *outs[2] = { hl_cli_is_stdout (out) ? NULL : (char *) out, fail_path };
 
   for (int i = 0; i < args->n_operands; i++)
     {
@@ -995,7 +1013,19 @@ cmd_batch (const HlCliCommand *cmd, const HlCliArgs *args)
       if (progress_shown)
         fprintf (stderr, "\r");
       hl_error_clear (&err);
-      HlResult *results = batch_solve (path, &plan, &err);
+      bool clash = false;
+      HlResult *results = batch_solve (path, outs, &plan, &clash, &err);
+      if (clash)
+        {
+          /* The message is printed; nothing is written. */
+          batch_out_close (&table, false);
+          if (fail_path != NULL)
+            batch_out_close (&fail_out, false);
+          g_string_free (buf, TRUE);
+          g_string_free (fail_buf, TRUE);
+          free (fail_path);
+          return HL_CLI_EXIT_INVALID;
+        }
       if (results != NULL)
         {
           /* Without --keep-going a file is dropped after the first failure,

@@ -736,6 +736,11 @@ hl_cli_report (const HlCliCommand *cmd, const HlCliArgs *args)
   HlPlan *plan = hl_cli_load_plan (path);
   if (plan == NULL)
     return HL_CLI_EXIT_INVALID;
+  if (hl_cli_check_output_radiograph (cmd->name, out, plan) != HL_CLI_EXIT_OK)
+    {
+      hl_plan_free (plan);
+      return HL_CLI_EXIT_INVALID;
+    }
 
   HlReportSettings settings;
   HlError err;
@@ -833,6 +838,11 @@ hl_cli_figure (const HlCliCommand *cmd, const HlCliArgs *args)
   HlPlan *plan = hl_cli_load_plan (path);
   if (plan == NULL)
     return HL_CLI_EXIT_INVALID;
+  if (hl_cli_check_output_radiograph (cmd->name, out, plan) != HL_CLI_EXIT_OK)
+    {
+      hl_plan_free (plan);
+      return HL_CLI_EXIT_INVALID;
+    }
   if (option_text == NULL)
     option = plan->n_options > 0 ? 1 : 0;
   if (option > plan->n_options)

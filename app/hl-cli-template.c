@@ -298,7 +298,9 @@ hl_cli_fit (const HlCliCommand *cmd, const HlCliArgs *args)
       if (out == NULL)
         return hl_cli_usage_error (_("%s: --apply needs -o OUT.hlplan (where to write "
                                      "the plan)"), cmd->name);
-      int st = hl_cli_check_output (cmd->name, out, false, args->operands, args->n_operands);
+      /* The inputs: the plan and the catalogue given with --catalogue. */
+      char *inputs[] = { args->operands[0], (char *) extra };
+      int st = hl_cli_check_output (cmd->name, out, false, inputs, extra != NULL ? 2 : 1);
       if (st != HL_CLI_EXIT_OK)
         return st;
     }
@@ -333,6 +335,12 @@ hl_cli_fit (const HlCliCommand *cmd, const HlCliArgs *args)
   HlPlan *plan = hl_cli_load_plan (path);   /* resolves the templates */
   if (plan == NULL)
     return HL_CLI_EXIT_INVALID;
+  if (apply != NULL
+      && hl_cli_check_output_radiograph (cmd->name, out, plan) != HL_CLI_EXIT_OK)
+    {
+      hl_plan_free (plan);
+      return HL_CLI_EXIT_INVALID;
+    }
   long option = name ? find_option (plan, name) : hl_fit_first_templated (plan);
   int status = HL_CLI_EXIT_OK;
   if (option < 0)

@@ -152,6 +152,18 @@ hl_cli_check_output (const char *command, const char *out, bool stdout_ok,
 }
 
 int
+hl_cli_check_output_radiograph (const char *command, const char *out, const HlPlan *plan)
+{
+  if (out == NULL || hl_cli_is_stdout (out) || plan == NULL || !plan->radiograph.present
+      || !hl_file_same (out, plan->radiograph.path))
+    return HL_CLI_EXIT_OK;
+  hl_cli_error (_("%s: the output %s is the plan's radiograph %s: refused, so that the "
+                  "radiograph is not overwritten; nothing was written"),
+                command, out, plan->radiograph.path);
+  return HL_CLI_EXIT_INVALID;
+}
+
+int
 hl_cli_write_output (const char *out, const void *data, size_t size)
 {
   if (hl_cli_is_stdout (out))

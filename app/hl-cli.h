@@ -67,6 +67,11 @@ int hl_cli_usage_error (const char *fmt, ...)
 bool hl_cli_is_stdout (const char *out);
 int hl_cli_check_output (const char *command, const char *out, bool stdout_ok,
                          char *const *inputs, int n_inputs);
+/* The same rule against the plan's radiograph, an input of every command
+ * that loads the plan: run after loading, before anything is written;
+ * returns HL_CLI_EXIT_OK or HL_CLI_EXIT_INVALID with the message printed. */
+int hl_cli_check_output_radiograph (const char *command, const char *out,
+                                    const HlPlan *plan);
 /* Writes to out atomically, or to standard output for "-"; returns an
  * exit status, the message printed on failure. */
 int hl_cli_write_output (const char *out, const void *data, size_t size);

@@ -106,6 +106,31 @@ run summary plan.hlplan -o plan.hlplan
 check "says the output is the input" err_has "is the input"
 rm -f plan-link.hlplan plan.orig
 
+# The plan's radiograph and a --catalogue file are inputs too: an output
+# onto them (also through a link) is refused and they keep their bytes.
+cp "$SRC/data/examples/demo-radiograph.png" demo-radiograph.png
+cp demo-radiograph.png radiograph.orig
+ln -s demo-radiograph.png radiograph-link.png
+cp "$SRC/data/catalogues/demo.hlcat" cat.hlcat
+cp cat.hlcat cat.orig
+for args in "summary plan.hlplan -o demo-radiograph.png" \
+            "summary plan.hlplan -o radiograph-link.png" \
+            "report plan.hlplan -o demo-radiograph.png" \
+            "figure plan.hlplan -o demo-radiograph.png" \
+            "fit plan.hlplan --apply 1 -o demo-radiograph.png" \
+            "batch other.hlplan plan.hlplan --csv demo-radiograph.png" \
+            "batch plan.hlplan bad.hlplan --keep-going --csv demo-radiograph.png"; do
+  # shellcheck disable=SC2086
+  run $args
+  if [ "$rc" -eq 1 ] && cmp -s demo-radiograph.png radiograph.orig \
+     && err_has "is the plan's radiograph"; then pass; else
+    fail "$args: exit $rc, or the radiograph changed, or no message"; fi
+done
+run fit plan.hlplan --catalogue cat.hlcat --apply 1 -o cat.hlcat
+if [ "$rc" -eq 1 ] && cmp -s cat.hlcat cat.orig && err_has "is the input"; then pass; else
+  fail "fit --catalogue cat.hlcat -o cat.hlcat: exit $rc, or the catalogue changed"; fi
+rm -f demo-radiograph.png radiograph.orig radiograph-link.png cat.hlcat cat.orig
+
 # "-" is standard output for the text outputs, and no file named "-".
 run summary plan.hlplan -o -
 expect_rc 0 "summary -o -"
