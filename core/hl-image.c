@@ -131,11 +131,19 @@ hl_image_set_pixel_spacing (HlPlan *plan, double spacing_mm, HlError *err)
     return st;
   double ratio = spacing_mm / plan->radiograph.pixel_spacing_mm;
   double m_old = hl_image_display_magnification (plan, NULL);
+  HlCalibration cal = plan->calibration;
   for (int i = 0; i < 3; i++)
     {
-      plan->calibration.points[i].x *= ratio;
-      plan->calibration.points[i].y *= ratio;
+      cal.points[i].x *= ratio;
+      cal.points[i].y *= ratio;
     }
+  /* A marker or two points measured at 1.2 give 2.4 at twice the spacing:
+   * refused as any calibration outside the limits is (a plan holding it
+   * could not be saved). */
+  if (hl_calibration_magnification (&plan->calibration, NULL, NULL, NULL) == HL_OK
+      && (st = hl_calibration_magnification (&cal, NULL, NULL, err)) != HL_OK)
+    return st;
+  plan->calibration = cal;
   double m_new = hl_image_display_magnification (plan, NULL);
   plan->radiograph.pixel_spacing_mm = spacing_mm;
   if (plan->radiograph.present)

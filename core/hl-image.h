@@ -69,7 +69,9 @@ double hl_image_display_magnification (const HlPlan *plan, bool *assumed);
 
 /* Changes the pixel spacing.  Calibration points are image mm, so they
  * scale with it; landmarks are rescaled about the image origin so that
- * each stays on its pixel. */
+ * each stays on its pixel.  A spacing that would take the magnification of
+ * a calibration that gives one outside 1.0-1.5 is refused with the
+ * calibration's message, and nothing changes. */
 HlStatus hl_image_set_pixel_spacing (HlPlan *plan, double spacing_mm,
                                      HlError *err);
 

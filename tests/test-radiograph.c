@@ -798,6 +798,25 @@ START_TEST (test_pixel_spacing_change)
   ck_assert_double_eq_tol (plan->landmarks.p[HL_LM_HIP_CENTRE].y, before.y, 1e-9);
   ck_assert_int_eq (hl_image_set_pixel_spacing (plan, 5.0, &err), HL_ERR_INVALID);
   ck_assert_str_eq (err.field, "radiograph pixel-spacing");
+  /* A spacing that takes the marker's magnification past 1.5 (0.13 mm:
+   * 1.2 x 1.3 = 1.56) or under 1.0 (0.08 mm: 0.96) is refused with the
+   * magnification named (limits 1.0-1.5, HL_MAGNIFICATION_MIN/MAX), and
+   * nothing changes: a plan holding it could not be saved. */
+  static const struct { double spacing; const char *says; } past[] = {
+    { 0.13, "comes out at 1.560" }, { 0.08, "comes out at 0.960" },
+  };
+  for (size_t k = 0; k < N_OF (past); k++)
+    {
+      HlCalibration kept = plan->calibration;
+      hl_error_clear (&err);
+      ck_assert_int_eq (hl_image_set_pixel_spacing (plan, past[k].spacing, &err),
+                        HL_ERR_INVALID);
+      ck_assert_msg (strstr (err.message, past[k].says) != NULL, "%s", err.message);
+      ck_assert_double_eq (plan->radiograph.pixel_spacing_mm, 0.125);
+      ck_assert_mem_eq (&plan->calibration, &kept, sizeof kept);
+      ck_assert_double_eq_tol (plan->landmarks.p[HL_LM_HIP_CENTRE].x, before.x, 1e-9);
+      ck_assert_double_eq_tol (hl_image_display_magnification (plan, NULL), 1.5, 1e-12);
+    }
 
   /* A typed factor does not follow the spacing: landmarks move with
    * their pixels. */

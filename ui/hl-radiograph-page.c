@@ -673,11 +673,22 @@ stop_calibrating (HlRadiographPage *self)
 static void
 apply_calibration (HlRadiographPage *self, const HlCalibration *cal, const char *field)
 {
+  HlError err;
+  hl_error_clear (&err);
+  /* A calibration that gives a magnification outside 1.0-1.5 (a marker
+   * diameter typed so that the placed points make 1.58) is refused with
+   * the magnification named, as the loader and the writer refuse it. */
+  if ((hl_calibration_complete (cal) || cal->method == HL_CAL_TYPED)
+      && hl_calibration_magnification (cal, NULL, NULL, &err) != HL_OK)
+    {
+      g_autofree char *msg = hl_document_format_error (&err);
+      hl_message_show_error (GTK_WIDGET (self), _("The calibration was not changed"), msg);
+      refresh (self);
+      return;
+    }
   if (!(hl_document_begin_edit (self->document, field) != NULL))
     return;
   HlPlan *plan = plan_of (self);
-  HlError err;
-  hl_error_clear (&err);
   /* A marker still without its points gives no magnification yet: it is
    * recorded as chosen and the assumed 1.20 stands until it is placed. */
   if (hl_image_apply_calibration (plan, cal, &err) != HL_OK)
@@ -693,7 +704,11 @@ method_changed_cb (GtkDropDown *drop, GParamSpec *pspec, HlRadiographPage *self)
   stop_calibrating (self);
   HlCalibration cal = plan_of (self)->calibration;
   cal.method = method_of_index (gtk_drop_down_get_selected (drop));
-  if (cal.n_points < points_needed (cal.method))
+  /* Points kept from before that give no magnification for the new
+   * method are dropped: it is chosen, and placed again. */
+  if (cal.n_points < points_needed (cal.method)
+      || (hl_calibration_complete (&cal)
+          && hl_calibration_magnification (&cal, NULL, NULL, NULL) != HL_OK))
     cal.n_points = 0;
   apply_calibration (self, &cal, NULL);
 }
@@ -1099,6 +1114,9 @@ hl_radiograph_page_print_handles (HlRadiographPage *self)
   hl_ui_print_widget ("radiograph-skip", self->skip_button);
   hl_ui_print_widget ("radiograph-back", self->back_button);
   hl_ui_print_widget ("radiograph-stop", self->stop_button);
+  /* the spin button's text, not its centre (the buttons are there) */
+  GtkWidget *size_text = gtk_widget_get_first_child (self->size_spin);
+  hl_ui_print_widget ("radiograph-size", size_text != NULL ? size_text : self->size_spin);
 
   GtkNative *native = gtk_widget_get_native (GTK_WIDGET (self->canvas));
   graphene_point_t in = GRAPHENE_POINT_INIT (0, 0), out;

@@ -146,6 +146,21 @@ done
 hl_settle
 hl_grab calibrated
 
+# A marker diameter that would make the magnification about 1.54 (19 mm
+# for the 25 mm marker drawn at 1.168; limits 1.0-1.5,
+# HL_MAGNIFICATION_MIN/MAX) is refused with a message naming it, and the
+# calibration stays as clicked (checked below against the clicked circle).
+hl_mark
+hl_click radiograph-size
+sleep 0.3
+hl_key ctrl+a
+xdotool type --delay 50 19
+hl_key Return
+hl_wait_dialog Error
+hl_grab diameter-refused
+hl_key Return
+sleep 0.5
+
 # The circle through the clicked pixels, in image mm at the magnification
 # the image was shown with, gives the magnification expected.
 set -- $(last VIEW)
@@ -171,6 +186,8 @@ hl_expect "magnification against the clicked circle" \
 hl_expect "magnification against the drawn marker ($drawn_m)" \
   "$(awk -v a="$m" -v b="$drawn_m" 'BEGIN { d = a / b - 1; print d < 0 ? -d : d }')" "<=" "$DRAWN_M_REL_TOL"
 [ "$(hl_count "$dump" point)" = "3" ] || hl_fail "the calibration does not hold three points"
+diameter=$(xmllint --xpath "string(//*[local-name()='calibration']/@marker-diameter-mm)" "$dump")
+hl_expect "the marker diameter after the refused 19 mm" "$diameter" "~" "$DIAMETER_MM"
 
 want=$(sha256sum "$img" | cut -d' ' -f1)
 got=$(xmllint --xpath "string(//*[local-name()='radiograph']/@sha256)" "$dump")
