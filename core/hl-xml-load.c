@@ -223,6 +223,146 @@ parser_message (const xmlError *e, char *buf, size_t size)
     }
 }
 
+/* A name from libxml2 (an attribute, an element list) without its
+ * "{namespace}" parts: "{urn:hiplever:plan}notes" is read "notes". */
+static void
+strip_namespaces (char *s)
+{
+  static const char xml_ns[] = "{http://www.w3.org/XML/1998/namespace}";
+  char *open;
+  /* xml:lang, xml:space keep their prefix */
+  while ((open = strstr (s, xml_ns)) != NULL)
+    {
+      memcpy (open, "xml:", 4);
+      memmove (open + 4, open + sizeof xml_ns - 1, strlen (open + sizeof xml_ns - 1) + 1);
+    }
+  while ((open = strchr (s, '{')) != NULL)
+    {
+      char *close = strchr (open, '}');
+      if (close == NULL)
+        break;
+      memmove (open, close + 1, strlen (close + 1) + 1);
+    }
+}
+
+/* The elements libxml2 lists after "Expected is ( ... )", without the
+ * namespaces, into buf; false when the message has none. */
+static bool
+expected_list (const char *message, char *buf, size_t size)
+{
+  const char *p = message != NULL ? strstr (message, "Expected is ") : NULL;
+  const char *open = p != NULL ? strchr (p, '(') : NULL;
+  const char *close = open != NULL ? strrchr (open, ')') : NULL;
+  if (close == NULL)
+    return false;
+  open++;
+  while (open < close && *open == ' ')
+    open++;
+  while (close > open && close[-1] == ' ')
+    close--;
+  char *names = g_strndup (open, (gsize) (close - open));
+  strip_namespaces (names);
+  snprintf (buf, size, "%s", names);
+  g_free (names);
+  return buf[0] != '\0';
+}
+
+/* The schema validator's messages in our words (libxml2's wording, "This
+ * element is not expected. Expected is ( ... )", "identity-constraint",
+ * "nillable", is never shown): what is wrong, with the attribute and the
+ * value at fault; the caller adds the line and the element. */
+static const char *
+schema_message (const xmlError *e, const char *no_match, char *buf, size_t size)
+{
+  char name[HL_XML_QUOTED_MAX];
+  char value[HL_XML_QUOTED_MAX];
+  char list[HL_ERROR_MESSAGE_MAX / 2];
+  snprintf (list, sizeof list, "%s", e->str1 != NULL ? e->str1 : "");
+  strip_namespaces (list);
+  hl_text_quote (list, HL_XML_QUOTED_MAX - 1, name, sizeof name);
+  hl_text_quote (e->str1 != NULL ? e->str1 : "", HL_XML_QUOTED_MAX - 1, value,
+                 sizeof value);
+  switch (e->code)
+    {
+    case XML_SCHEMAV_ELEMENT_CONTENT:
+    case XML_SCHEMAV_CVC_COMPLEX_TYPE_2_4:
+      {
+        bool missing = e->message != NULL && strstr (e->message, "Missing child") != NULL;
+        if (!expected_list (e->message, list, sizeof list))
+          return missing ? _("an element that belongs here is missing")
+                         : _("this element does not belong here");
+        snprintf (buf, size,
+                  missing ? _("an element that belongs here is missing; expected: %s")
+                          : _("this element does not belong here; expected here: %s"),
+                  list);
+        return buf;
+      }
+    case XML_SCHEMAV_CVC_COMPLEX_TYPE_3_2_1:
+    case XML_SCHEMAV_CVC_COMPLEX_TYPE_3_2_2:
+    case XML_SCHEMAV_CVC_TYPE_3_1_1:
+    case XML_SCHEMAV_ATTRUNKNOWN:
+      snprintf (buf, size, _("the attribute %s is not one this element can have"), name);
+      return buf;
+    case XML_SCHEMAV_CVC_COMPLEX_TYPE_4:
+      snprintf (buf, size, _("the attribute %s is missing; this element needs it"), name);
+      return buf;
+    case XML_SCHEMAV_CVC_COMPLEX_TYPE_2_1:
+      return _("this element must be empty");
+    case XML_SCHEMAV_CVC_COMPLEX_TYPE_2_3:
+      return _("this element holds text, where only elements belong");
+    case XML_SCHEMAV_CVC_DATATYPE_VALID_1_2_1:
+    case XML_SCHEMAV_CVC_DATATYPE_VALID_1_2_2:
+    case XML_SCHEMAV_CVC_DATATYPE_VALID_1_2_3:
+      snprintf (buf, size, _("the value '%s' is not of the kind this attribute takes "
+                             "(a number, a whole number, true or false, or a name)"),
+                value);
+      return buf;
+    case XML_SCHEMAV_CVC_ENUMERATION_VALID:
+      snprintf (list, sizeof list, "%s", e->str2 != NULL ? e->str2 : "");
+      snprintf (buf, size, _("the value '%s' is not one of %s"), value, list);
+      return buf;
+    case XML_SCHEMAV_CVC_MININCLUSIVE_VALID:
+    case XML_SCHEMAV_CVC_MINEXCLUSIVE_VALID:
+      snprintf (buf, size, _("the value '%s' is below the smallest allowed, %s"), value,
+                e->str2 != NULL ? e->str2 : "");
+      return buf;
+    case XML_SCHEMAV_CVC_MAXINCLUSIVE_VALID:
+    case XML_SCHEMAV_CVC_MAXEXCLUSIVE_VALID:
+      snprintf (buf, size, _("the value '%s' is above the largest allowed, %s"), value,
+                e->str2 != NULL ? e->str2 : "");
+      return buf;
+    case XML_SCHEMAV_CVC_LENGTH_VALID:
+    case XML_SCHEMAV_CVC_MINLENGTH_VALID:
+    case XML_SCHEMAV_CVC_MAXLENGTH_VALID:
+    case XML_SCHEMAV_CVC_TOTALDIGITS_VALID:
+    case XML_SCHEMAV_CVC_FRACTIONDIGITS_VALID:
+      snprintf (buf, size, _("the value '%s' is too long or too short here"), value);
+      return buf;
+    case XML_SCHEMAV_CVC_PATTERN_VALID:
+      snprintf (buf, size, _("the value '%s' is not written in the form this attribute "
+                             "takes"), value);
+      return buf;
+    case XML_SCHEMAV_CVC_IDC:
+      /* libxml2 gives the repeated value as "['hip-centre']" */
+      if (e->str1 != NULL && strncmp (e->str1, "Duplicate", 9) != 0)
+        {
+          snprintf (list, sizeof list, "%s", e->str1);
+          size_t n = strlen (list);
+          if (n >= 2 && list[0] == '[' && list[n - 1] == ']')
+            {
+              list[n - 1] = '\0';
+              hl_text_quote (list + 1, HL_XML_QUOTED_MAX - 1, value, sizeof value);
+              snprintf (buf, size, _("the name %s is used twice; each must be unique "
+                                     "here"), value);
+              return buf;
+            }
+        }
+      return _("a name that must be unique here is used twice");
+    default:
+      return _(no_match);
+    }
+}
+
 static void
 xml_error_cb (void *data, xmlErrorPtr e)
 {
@@ -252,15 +392,13 @@ xml_error_cb (void *data, xmlErrorPtr e)
                 hl_text_quote ((const char *) l->ctxt->name, HL_XML_QUOTED_MAX - 3,
                                q, sizeof q));
     }
-  /* The parser's messages in our words; the schema's name the element and
-   * attribute and keep libxml2's wording, without its option names. */
+  /* The parser's and the schema's messages in our words. */
   bool schema = (e->domain == XML_FROM_SCHEMASV || e->domain == XML_FROM_SCHEMASP)
                 && e->code != XML_ERR_NO_MEMORY;
   char buf[HL_ERROR_MESSAGE_MAX];
   snprintf (l->xml_message, sizeof l->xml_message, "%s",
             !schema ? parser_message (e, buf, sizeof buf)
-            : e->message != NULL && strstr (e->message, "XML_PARSE") == NULL
-            ? e->message : _(l->kind->no_match));
+            : schema_message (e, l->kind->no_match, buf, sizeof buf));
   clean_xml_message (l->xml_message, l->kind->ns);
 }
 

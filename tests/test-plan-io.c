@@ -1149,6 +1149,34 @@ static const HlBadCase bad_cases[] = {
     XML_DECL "<planning-summary xmlns=\"urn:hiplever:plan\" format-version=\"1\">\n"
     PLAN_OPEN CASE_OK PLAN_CLOSE "</planning-summary>\n", NULL, HL_ERR_PARSE, 3,
     { "the plan has no landmarks" }, "Expected is" },
+  /* The schema's findings in our words, never libxml2's ("This element is
+   * not expected. Expected is ( ... )", "identity-constraint", ...). */
+  { "schema: an element out of place",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK "  <hologram/>\n" PLAN_CLOSE, NULL,
+    HL_ERR_PARSE, 9, { "line 9, element <hologram>", "does not belong here; expected here: ",
+                       "options, catalogues, notes" }, "{urn" },
+  { "schema: an attribute an element cannot have",
+    XML_DECL PLAN_OPEN
+    "  <case label=\"x\" mass-kg=\"72.5\" operated-side=\"right\" colour=\"red\"/>\n"
+    LANDMARKS_OK PLAN_CLOSE, NULL, HL_ERR_PARSE, 3,
+    { "line 3, element <case>", "the attribute colour is not one this element can have" },
+    "not allowed" },
+  { "schema: a required attribute missing",
+    XML_DECL PLAN_OPEN "  <case label=\"x\" operated-side=\"right\"/>\n"
+    LANDMARKS_OK PLAN_CLOSE, NULL, HL_ERR_PARSE, 3,
+    { "the attribute mass-kg is missing" }, "required but missing" },
+  { "schema: text among elements",
+    XML_DECL PLAN_OPEN CASE_OK "  <landmarks>hello\n" LM_HIP LM_MID LM_INS
+    "  </landmarks>\n" PLAN_CLOSE, NULL, HL_ERR_PARSE, 4,
+    { "holds text, where only elements belong" }, "element-only" },
+  { "schema: a landmark twice",
+    XML_DECL PLAN_OPEN CASE_OK "  <landmarks>\n" LM_HIP LM_HIP LM_MID LM_INS
+    "  </landmarks>\n" PLAN_CLOSE, NULL, HL_ERR_PARSE, 6,
+    { "the name 'hip-centre' is used twice" }, "identity-constraint" },
+  { "schema: xml:lang",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK "  <notes xml:lang=\"de\">x</notes>\n"
+    PLAN_CLOSE, NULL, HL_ERR_PARSE, 9,
+    { "the attribute xml:lang is not one this element can have" }, "{http" },
   /* Magnification limits 1.0-1.5 (HL_MAGNIFICATION_MIN/MAX): AP pelvis
    * magnification 117-123.4% (Brew et al. 2012, J Arthroplasty
    * 27:643-647); the margin is common practice.  Each calibration method. */
