@@ -158,6 +158,7 @@ struct HlReport {
   int figure_option;
   HlReportSettings settings;
   HlUnderlay *underlay;    /* the radiograph under the schematic, or NULL */
+  bool underlay_borrowed;  /* the caller's (hl_report_new_with_underlay) */
   bool underlay_left_out;  /* asked for but not drawn: underlay_note says why */
   HlError underlay_note;
 
@@ -1029,6 +1030,13 @@ hl_report_draw_page (const HlReport *r, cairo_t *cr, int page)
 HlReport *
 hl_report_new (const HlPlan *plan, const HlReportSettings *settings, HlError *err)
 {
+  return hl_report_new_with_underlay (plan, settings, NULL, err);
+}
+
+HlReport *
+hl_report_new_with_underlay (const HlPlan *plan, const HlReportSettings *settings,
+                             HlUnderlay *underlay, HlError *err)
+{
   HlReportData *d = hl_report_data_new (plan, settings, err);
   if (d == NULL)
     return NULL;
@@ -1040,7 +1048,12 @@ hl_report_new (const HlPlan *plan, const HlReportSettings *settings, HlError *er
   /* The radiograph under the schematic: a missing or changed image leaves
    * the report complete without it, and the note says why. */
   hl_error_clear (&r->underlay_note);
-  if (r->settings.underlay && r->plan->radiograph.present)
+  if (r->settings.underlay && r->plan->radiograph.present && underlay != NULL)
+    {
+      r->underlay = underlay;
+      r->underlay_borrowed = true;
+    }
+  else if (r->settings.underlay && r->plan->radiograph.present)
     {
       r->underlay = hl_underlay_for_plan (r->plan, &r->underlay_note);
       r->underlay_left_out = r->underlay == NULL;
@@ -1082,7 +1095,8 @@ hl_report_free (HlReport *r)
     g_object_unref (r->pango);
   g_free (r->items);
   g_free (r->views);
-  hl_underlay_free (r->underlay);
+  if (!r->underlay_borrowed)
+    hl_underlay_free (r->underlay);
   hl_report_data_free (r->d);
   g_free (r);
 }

@@ -48,6 +48,12 @@ typedef struct HlReport HlReport;
  * solved, a setting is out of range, or memory runs out. */
 HlReport *hl_report_new (const HlPlan *plan, const HlReportSettings *settings,
                          HlError *err);
+/* The same, with the radiograph already in memory (the window's, shown
+ * with the plan's window and level): used under the schematic when the
+ * settings ask for it, borrowed, never read from its file again.  NULL
+ * `underlay`: as hl_report_new. */
+HlReport *hl_report_new_with_underlay (const HlPlan *plan, const HlReportSettings *settings,
+                                       HlUnderlay *underlay, HlError *err);
 void hl_report_free (HlReport *report);
 
 /* The number of pages: 2 for most plans, more when the content needs

@@ -105,6 +105,36 @@ hl_underlay_new_from_gray (HlGrayImage *img)
 }
 
 HlUnderlay *
+hl_underlay_copy (const HlUnderlay *src)
+{
+  if (src == NULL)
+    return NULL;
+  HlGrayImage *img = hl_gray_image_alloc (src->img->format, src->width, src->height);
+  if (img == NULL)
+    return NULL;
+  uint16_t *px = img->pixels;
+  *img = *src->img;
+  img->pixels = px;
+  memcpy (px, src->img->pixels, (size_t) src->width * (size_t) src->height * sizeof *px);
+  HlUnderlay *self = g_new0 (HlUnderlay, 1);
+  self->img = img;
+  self->width = src->width;
+  self->height = src->height;
+  self->path = g_strdup (src->path);
+  self->centre = src->centre;
+  self->window = src->window;
+  self->default_centre = src->default_centre;
+  self->default_window = src->default_window;
+  self->invert = src->invert;
+  if (!make_levels (self))
+    {
+      hl_underlay_free (self);
+      return NULL;
+    }
+  return self;
+}
+
+HlUnderlay *
 hl_underlay_new_from_surface (cairo_surface_t *image)
 {
   if (image == NULL || cairo_surface_get_type (image) != CAIRO_SURFACE_TYPE_IMAGE

@@ -47,6 +47,9 @@ HlUnderlay *hl_underlay_new_from_gray (HlGrayImage *img);
  * NULL when it is not one. */
 HlUnderlay *hl_underlay_new_from_surface (cairo_surface_t *image);
 void hl_underlay_free (HlUnderlay *self);
+/* An independent copy: image, window and inversion (NULL when memory runs
+ * out), for work that outlives the original, such as a print. */
+HlUnderlay *hl_underlay_copy (const HlUnderlay *src);
 
 int hl_underlay_get_width (const HlUnderlay *self);
 int hl_underlay_get_height (const HlUnderlay *self);

@@ -42,6 +42,7 @@ typedef struct {
   GtkWindow *window;           /* borrowed: the export lives on the window */
   HlDocument *document;        /* borrowed: the window's */
   HlAnalysisPanel *analysis;   /* borrowed: its joint-load target */
+  HlRadiographPage *radiograph; /* borrowed: the radiograph as the window shows it */
   GtkNativeDialog *chooser;
   GtkWidget *size_dialog;
   GtkWidget *width_spin;
@@ -56,6 +57,7 @@ typedef struct {
   gboolean figure_underlay;    /* the radiograph under the figure, when there is one */
   gboolean report_underlay;    /* ... under the report's schematic (the chooser's choice) */
   HlReport *print_report;      /* while a print runs */
+  HlUnderlay *print_underlay;  /* its copy of the window's radiograph */
   GtkPrintOperation *print_op;
   gboolean print_to_file;      /* the test hook's export, not a printer */
 } HlExport;
@@ -71,6 +73,7 @@ hl_export_free (gpointer data)
       g_clear_object (&ex->chooser);
     }
   g_clear_pointer (&ex->print_report, hl_report_free);
+  g_clear_pointer (&ex->print_underlay, hl_underlay_free);
   g_clear_object (&ex->print_op);
   g_free (ex);
 }
@@ -105,21 +108,41 @@ say_written (HlExport *ex, const char *what, GFile *file, const HlError *note)
 }
 
 /* The plan's radiograph for an export when asked for and the plan has
- * one; NULL otherwise, and *left_out set with the reason in `note` when
- * it was asked for but cannot be drawn. */
+ * one: the window's, already decoded and checked (borrowed, *owned
+ * FALSE), else read from its file now (while the window's still loads;
+ * *owned TRUE); NULL otherwise, and *left_out set with the reason in
+ * `note` when it was asked for but cannot be drawn. */
 static HlUnderlay *
-export_underlay (const HlPlan *plan, gboolean asked, gboolean *left_out, HlError *note)
+export_underlay (HlExport *ex, const HlPlan *plan, gboolean asked, gboolean *left_out,
+                 HlError *note, gboolean *owned)
 {
   HlUnderlay *underlay = NULL;
 
   hl_error_clear (note);
   *left_out = FALSE;
+  *owned = FALSE;
   if (asked && plan->radiograph.present)
     {
-      underlay = hl_underlay_for_plan (plan, note);
+      underlay = ex->radiograph != NULL ? hl_radiograph_page_get_underlay (ex->radiograph) : NULL;
+      if (underlay == NULL)
+        {
+          underlay = hl_underlay_for_plan (plan, note);
+          *owned = underlay != NULL;
+        }
       *left_out = underlay == NULL;
     }
   return underlay;
+}
+
+/* A report with the window's radiograph when it has it in memory. */
+static HlReport *
+export_report_new (HlExport *ex, const HlReportSettings *settings, HlError *err)
+{
+  const HlPlan *plan = hl_document_get_plan (ex->document);
+  HlUnderlay *shown = settings->underlay && ex->radiograph != NULL
+                        ? hl_radiograph_page_get_underlay (ex->radiograph) : NULL;
+
+  return hl_report_new_with_underlay (plan, settings, shown, err);
 }
 
 static char *
@@ -261,8 +284,7 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
         file = hl_export_with_extension (chosen, ".pdf");
         report_settings (ex, &settings);
         if ((path = local_path (file, &err)) != NULL
-            && (report = hl_report_new (hl_document_get_plan (ex->document), &settings,
-                                        &err)) != NULL)
+            && (report = export_report_new (ex, &settings, &err)) != NULL)
           {
             unsigned char *pdf = NULL;
             size_t size = 0;
@@ -297,12 +319,14 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
         if ((path = local_path (file, &err)) != NULL)
           {
             const HlPlan *plan = hl_document_get_plan (ex->document);
-            HlUnderlay *underlay = export_underlay (plan, ex->figure_underlay, &left_out,
-                                                    &note);
+            gboolean owned;
+            HlUnderlay *underlay = export_underlay (ex, plan, ex->figure_underlay, &left_out,
+                                                    &note, &owned);
 
             hl_figure_save_preset (plan, ex->figure_option, ex->figure_width,
                                    ex->figure_height, ex->figure_preset, underlay, path, &err);
-            hl_underlay_free (underlay);
+            if (owned)
+              hl_underlay_free (underlay);
           }
       }
       break;
@@ -659,6 +683,7 @@ print_done_cb (GtkPrintOperation *op, GtkPrintOperationResult result, HlExport *
     print_status (ex, ex->print_to_file ? _("Report printed to a file")
                                         : _("Report sent to the printer"));
   g_clear_pointer (&ex->print_report, hl_report_free);
+  g_clear_pointer (&ex->print_underlay, hl_underlay_free);
   g_clear_object (&ex->print_op);
   if (result == GTK_PRINT_OPERATION_RESULT_ERROR)
     {
@@ -692,11 +717,17 @@ print_report (HlExport *ex)
     return;
   hl_error_clear (&err);
   report_settings (ex, &settings);
-  ex->print_report = hl_report_new (hl_document_get_plan (ex->document), &settings, &err);
+  /* A print runs on after this returns, while the window may load another
+   * image: the report draws from a copy of the one shown. */
+  if (settings.underlay && ex->radiograph != NULL)
+    ex->print_underlay = hl_underlay_copy (hl_radiograph_page_get_underlay (ex->radiograph));
+  ex->print_report = hl_report_new_with_underlay (hl_document_get_plan (ex->document),
+                                                  &settings, ex->print_underlay, &err);
   if (ex->print_report == NULL)
     {
       g_autofree char *msg = hl_document_format_error (&err);
 
+      g_clear_pointer (&ex->print_underlay, hl_underlay_free);
       hl_message_show_error (GTK_WIDGET (window), _("Could not print the report"), msg);
       return;
     }
@@ -729,6 +760,7 @@ print_report (HlExport *ex)
   if (result == GTK_PRINT_OPERATION_RESULT_ERROR)
     {
       g_clear_pointer (&ex->print_report, hl_report_free);
+      g_clear_pointer (&ex->print_underlay, hl_underlay_free);
       g_clear_object (&ex->print_op);
       hl_message_show_error (GTK_WIDGET (window), _("Could not print the report"),
                             error != NULL ? error->message : _("The printing system gave no reason."));
@@ -770,7 +802,7 @@ static const GActionEntry export_actions[] = {
 
 void
 hl_export_attach (GtkApplicationWindow *window, HlDocument *document,
-                  HlAnalysisPanel *analysis)
+                  HlAnalysisPanel *analysis, HlRadiographPage *radiograph)
 {
   HlExport *ex = g_new0 (HlExport, 1);
 
@@ -778,6 +810,7 @@ hl_export_attach (GtkApplicationWindow *window, HlDocument *document,
   ex->window = GTK_WINDOW (window);
   ex->document = document;
   ex->analysis = analysis;
+  ex->radiograph = radiograph;
   ex->figure_width = HL_EXPORT_FIGURE_WIDTH_DEFAULT;
   ex->figure_height = HL_EXPORT_FIGURE_HEIGHT_DEFAULT;
   ex->figure_option = -1;

@@ -25,8 +25,11 @@
  *
  * Files are chosen with GtkFileChooserNative, written atomically
  * (hl_write_file_atomic), and every failure is said in a dialog with the
- * file and the reason.  A radiograph that is missing or has changed since
- * the plan was saved is left out and the status line says so.  Every
+ * file and the reason.  The radiograph is the one the window shows
+ * (decoded once, off the main thread, by the Radiograph page); only while
+ * that still loads is it read from its file for the export.  A radiograph
+ * that is missing or has changed since the plan was saved is left out and
+ * the status line says so.  Every
  * export carries the caution of hl-version.h.
  *
  * Test hook (environment): HIPLEVER_TEST_PRINT_TO=FILE.pdf makes "Print…"
@@ -39,6 +42,7 @@
 #include "hl-analysis-panel.h"
 #include "hl-document.h"
 #include "hl-plan.h"
+#include "hl-radiograph-page.h"
 
 G_BEGIN_DECLS
 
@@ -49,7 +53,7 @@ G_BEGIN_DECLS
 /* Adds the actions to the window, for the document it shows; called once
  * from its init. */
 void hl_export_attach (GtkApplicationWindow *window, HlDocument *document,
-                       HlAnalysisPanel *analysis);
+                       HlAnalysisPanel *analysis, HlRadiographPage *radiograph);
 
 /* The sweep table as written by "Export Sweeps (CSV)…": the caution and
  * the case as leading "# " lines, then hl_report_sweeps_csv's table.

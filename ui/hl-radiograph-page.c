@@ -1441,3 +1441,13 @@ hl_radiograph_page_new (HlDocument *document, HlCanvas *canvas)
   refresh (self);
   return GTK_WIDGET (self);
 }
+
+HlUnderlay *
+hl_radiograph_page_get_underlay (HlRadiographPage *self)
+{
+  g_return_val_if_fail (HL_IS_RADIOGRAPH_PAGE (self), NULL);
+  const HlRadiograph *rg = &plan_of (self)->radiograph;
+  if (!rg->present || self->underlay == NULL || g_strcmp0 (self->loaded_path, rg->path) != 0)
+    return NULL;
+  return self->underlay;
+}

@@ -30,6 +30,8 @@
 #include "hl-canvas.h"
 #include "hl-document.h"
 
+#include "hl-underlay.h"
+
 G_BEGIN_DECLS
 
 #define HL_TYPE_RADIOGRAPH_PAGE (hl_radiograph_page_get_type ())
@@ -45,6 +47,12 @@ GtkWidget *hl_radiograph_page_new (HlDocument *document, HlCanvas *canvas);
 /* Imports the image file at `path` as if chosen in the file chooser (the
  * drag benchmark). */
 void hl_radiograph_page_import (HlRadiographPage *self, const char *path);
+
+/* The plan's radiograph as the window shows it (decoded, checked against
+ * the plan's digest, windowed and inverted as the plan says), borrowed,
+ * for the exports to draw without reading the file again; NULL while it
+ * loads, when the plan has none, or when it could not be used. */
+HlUnderlay *hl_radiograph_page_get_underlay (HlRadiographPage *self);
 
 /* From the handle printer (HIPLEVER_TEST_PRINT_HANDLES): WIDGET lines for
  * the page's controls and "VIEW scale tx ty x0 y0" (the canvas view and

@@ -550,7 +550,8 @@ hl_window_init (HlWindow *self)
   gtk_stack_add_titled (self->panel_stack, GTK_WIDGET (self->radiograph_page),
                         "radiograph", _("Radiograph"));
   attach_analysis (self);
-  hl_export_attach (GTK_APPLICATION_WINDOW (self), self->document, self->analysis_panel);
+  hl_export_attach (GTK_APPLICATION_WINDOW (self), self->document, self->analysis_panel,
+                    self->radiograph_page);
   hl_autosave_attach (GTK_WINDOW (self), self->document);
   hl_a11y_label_controls (GTK_WIDGET (self));
   g_signal_connect_object (self->document, "changed",
