@@ -32,6 +32,7 @@
 
 #include "hl-palette.h"
 #include "hl-plan.h"
+#include "hl-scene.h"
 #include "hl-solve.h"
 #include "hl-template-shape.h"
 #include "hl-view.h"
@@ -133,39 +134,7 @@ void hl_render_preset_size (HlRenderPreset preset, int *width, int *height);
 
 /* ---- Scenes ----------------------------------------------------------- */
 
-/* Everything the drawing needs from one plan and one option, solved once.
- * Build it after each edit of the plan and draw it as often as needed. */
-typedef struct {
-  const HlPlan *plan;        /* borrowed */
-  int option_index;          /* -1 = native; an index out of range = native */
-  bool has_option;
-
-  HlLandmarks native;        /* the plan's landmarks */
-  HlLandmarks shown;         /* the option's (= native without an option) */
-
-  bool prepared;             /* hl_model_prepare succeeded */
-  bool solved;               /* the result and forces are valid */
-  HlError error;             /* why not, when !solved */
-  HlModel model;
-  HlResult result;
-  HlForceSet forces;
-  /* The option's implant template (hl-template-shape.h), drawn by
-   * hl-render-template.c; has_template false for a manual option. */
-  bool has_template;
-  HlTemplateShape tmpl;
-} HlScene;
-
-/* Never fails: a plan that cannot be solved gives a scene with solved false
- * and the reason in scene->error. */
-void hl_scene_build (HlScene *scene, const HlPlan *plan, int option_index);
-
-/* The same from the model the caller prepared and what hl_model_solve
- * gave for this option (status, result, error), so a plan solved once is
- * not solved again for the drawing.  `model` NULL: it could not be
- * prepared, `error` says why. */
-void hl_scene_build_solved (HlScene *scene, const HlPlan *plan, int option_index,
-                            const HlModel *model, HlStatus status,
-                            const HlResult *result, const HlError *error);
+/* HlScene, hl_scene_build and hl_scene_build_solved: core/hl-scene.h. */
 
 /* The plan-frame box around the placed landmarks and the drawn bones.
  * Returns false (and a default box around the origin) when nothing is
