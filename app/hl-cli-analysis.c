@@ -651,10 +651,11 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
         {
           const HlMcSummary *s = &summary[row];
           char a[64], j[64];
-          snprintf (a, sizeof a, "%.3f / %.3f / %.3f", s->abductor_force_bw.p05,
-                    s->abductor_force_bw.p50, s->abductor_force_bw.p95);
-          snprintf (j, sizeof j, "%.3f / %.3f / %.3f", s->jrf_bw.p05, s->jrf_bw.p50,
-                    s->jrf_bw.p95);
+          snprintf (a, sizeof a, "%.*f / %.*f / %.*f", HL_DECIMALS_BW, s->abductor_force_bw.p05,
+                    HL_DECIMALS_BW,
+                    s->abductor_force_bw.p50, HL_DECIMALS_BW, s->abductor_force_bw.p95);
+          snprintf (j, sizeof j, "%.*f / %.*f / %.*f", HL_DECIMALS_BW, s->jrf_bw.p05,
+                    HL_DECIMALS_BW, s->jrf_bw.p50, HL_DECIMALS_BW, s->jrf_bw.p95);
           size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
           g_string_append_printf (buf, "%s%*s  %-24s  %-24s  ", case_name (plan, row),
                              (int) pad, "", a, j);

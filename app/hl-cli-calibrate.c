@@ -98,10 +98,10 @@ report (const char *where, const HlCalibration *cal)
     }
   fprintf (stdout, _("Calibration method: %s\n"), method_words (cal->method));
   if (cal->method == HL_CAL_MARKER)
-    fprintf (stdout, _("Marker diameter: %.2f mm; %d points\n"),
+    fprintf (stdout, _("Marker diameter: %.1f mm; %d points\n"),
              cal->marker_diameter_mm, cal->n_points);
   else if (cal->method == HL_CAL_TWO_POINT)
-    fprintf (stdout, _("Known distance: %.2f mm; %d points\n"),
+    fprintf (stdout, _("Known distance: %.1f mm; %d points\n"),
              cal->known_distance_mm, cal->n_points);
   fprintf (stdout, _("Magnification: %.*f (measured / true)\n"),
            HL_CLI_MAGNIFICATION_DECIMALS, m);

@@ -293,7 +293,7 @@ build_heading (HlReportData *d)
   d->title = g_strdup (_("Hip biomechanics planning report: single-leg stance"));
   d->case_line = dup_printf (_("Case: %s"), p->label);
   d->meta_line = dup_printf (_("Operated side: %s  \xc2\xb7  body mass %.1f kg (body weight "
-                                    "%.1f N)  \xc2\xb7  report date %s  \xc2\xb7  hiplever %s, "
+                                    "%.0f N)  \xc2\xb7  report date %s  \xc2\xb7  hiplever %s, "
                                     "mechanical model %s"),
                                   /* TRANSLATORS: the operated side */
                                   p->side == HL_SIDE_LEFT ? _("left")
@@ -346,7 +346,7 @@ build_inputs (HlReportData *d)
                                  p->capacity.torque_nm_per_kg));
 
   if (p->cane.enabled)
-    lines_add (r, dup_printf (_("Cane: %.1f N (%.1f%% of body weight) in the %s, %.0f mm "
+    lines_add (r, dup_printf (_("Cane: %.0f N (%.1f%% of body weight) in the %s, %.0f mm "
                                      "from the midline"),
                                    hl_plan_cane_force (p),
                                    PERCENT * hl_plan_cane_force (p) / hl_plan_body_weight (p),

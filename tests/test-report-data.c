@@ -240,6 +240,30 @@ START_TEST (test_refusals)
 }
 END_TEST
 
+/* Forces people read are in whole newtons: the body weight in the heading
+ * and the cane in the inputs (72.5 kg: 711.0 N; a 15% cane: 106.6 N). */
+START_TEST (test_inputs_in_whole_newtons)
+{
+  HlPlan *plan = plan_with (0);
+  plan->mass_kg = 72.5;
+  plan->cane.enabled = true;
+  plan->cane.unit = HL_FORCE_UNIT_PERCENT_BW;
+  plan->cane.value = 15.0;
+  HlReportData *d = data_of (plan, false);
+  ck_assert_msg (strstr (d->meta_line, "(body weight 711 N)") != NULL, "%s", d->meta_line);
+  bool cane = false;
+  for (size_t i = 0; i < d->inputs_right.n; i++)
+    cane |= strncmp (d->inputs_right.items[i], "Cane: 107 N (15.0% of body weight)",
+                     strlen ("Cane: 107 N (15.0% of body weight)")) == 0;
+  for (size_t i = 0; i < d->inputs_left.n; i++)
+    cane |= strncmp (d->inputs_left.items[i], "Cane: 107 N (15.0% of body weight)",
+                     strlen ("Cane: 107 N (15.0% of body weight)")) == 0;
+  ck_assert_msg (cane, "no input line \"Cane: 107 N (15.0%% of body weight) ...\"");
+  hl_report_data_free (d);
+  hl_plan_free (plan);
+}
+END_TEST
+
 static Suite *
 report_data_suite (void)
 {
@@ -251,6 +275,7 @@ report_data_suite (void)
   tcase_add_test (tc, test_without_uncertainty);
   tcase_add_test (tc, test_sweeps_csv);
   tcase_add_test (tc, test_refusals);
+  tcase_add_test (tc, test_inputs_in_whole_newtons);
   suite_add_tcase (s, tc);
   return s;
 }

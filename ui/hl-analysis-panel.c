@@ -514,7 +514,7 @@ build (HlAnalysisPanel *self)
   gtk_spin_button_set_value (GTK_SPIN_BUTTON (self->target_spin),
                              HL_REPORT_TARGET_JRF_BW_DEFAULT);
   g_signal_connect (self->target_spin, "value-changed", G_CALLBACK (target_changed_cb), self);
-  target_note = g_strdup_printf (_("For the cane and load answers. Default %.1f × body weight: a round figure of ours below the 2.1–2.8 × BW measured in static single-leg stance (Kotzar et al. 1991, J Orthop Res 9:621-633)."),
+  target_note = g_strdup_printf (_("For the cane and load answers. Default %.2f × body weight: a round figure of ours below the 2.1–2.8 × BW measured in static single-leg stance (Kotzar et al. 1991, J Orthop Res 9:621-633)."),
                                  HL_REPORT_TARGET_JRF_BW_DEFAULT);
   gtk_label_set_text (GTK_LABEL (self->target_note_label), target_note);
 

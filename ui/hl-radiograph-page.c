@@ -24,7 +24,7 @@
 #define PAGE_KEY "hl-radiograph-page"
 #define PAGE_NAME "radiograph"
 #define MEASURE_DECIMALS 1
-#define MAGNIFICATION_DECIMALS 4
+#define MAGNIFICATION_DECIMALS HL_DECIMALS_MAGNIFICATION
 /* Differences to the other side beyond this are marked (common practice
  * for leg length; the same figure is used for the offsets as a prompt to
  * look, not a threshold of any source). */
@@ -1079,12 +1079,12 @@ refresh (HlRadiographPage *self)
   g_autofree char *mag = NULL;
   if (hl_calibration_magnification (cal, &m, &assumed, &err) == HL_OK)
     mag = assumed
-      ? g_strdup_printf (_("Magnification %.2f: assumed, not calibrated (mean AP pelvis "
+      ? g_strdup_printf (_("Magnification %.3f: assumed, not calibrated (mean AP pelvis "
                            "magnification, Brew et al. 2012, J Arthroplasty 27:643-647)"), m)
       : g_strdup_printf (_("Magnification %.*f (measured / true), calibrated"),
                          MAGNIFICATION_DECIMALS, m);
   else
-    mag = g_strdup_printf (_("Not calibrated yet (%s): the assumed %.2f is used, "
+    mag = g_strdup_printf (_("Not calibrated yet (%s): the assumed %.3f is used, "
                              "not calibrated"), err.message, HL_MAGNIFICATION_ASSUMED);
   g_autofree char *mag_source = rg->present
     ? g_strdup_printf (_("%s. Calibration in use: %s."), mag,

@@ -138,6 +138,9 @@ for plan in "${EXAMPLES[@]}"; do
   expect_rc 0 "uncertainty $name"
   check "uncertainty $name prints the seed" out_has "^Seed 7; 500 samples asked"
   check "uncertainty $name prints the settings" out_has "^Errors (SD): landmark placement"
+  # multiples of body weight to 2 decimals, as the window and the report
+  check "uncertainty $name: body-weight multiples to 2 decimals" \
+    out_has "^native  *[0-9]\.[0-9][0-9] / [0-9]\.[0-9][0-9] / [0-9]\.[0-9][0-9]  *[0-9]\.[0-9][0-9] / [0-9]\.[0-9][0-9] / [0-9]\.[0-9][0-9]  "
   cp "$WORK/out" "$WORK/$name.mc7"
   run uncertainty "$plan" --samples 500 --seed 7
   check "uncertainty $name: the same seed gives the same output" cmp -s "$WORK/out" "$WORK/$name.mc7"

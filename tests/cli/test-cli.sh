@@ -500,7 +500,8 @@ expect_rc 2 "sweep --mode twice"
 # magnification 1.25).
 run calibrate --marker -10,0 0,10 10,0 --diameter 16
 expect_rc 0 "calibrate --marker -10,0 ..."
-check "calibrate with a negative first point" out_has "Magnification: 1.25"
+check "calibrate with a negative first point" out_has "Magnification: 1.250 "
+check "calibrate gives the diameter to 1 decimal (mm)" out_has "^Marker diameter: 16.0 mm; 3 points"
 run calibrate --marker 0,10 -10,0 10,0 --diameter 16
 expect_rc 0 "calibrate --marker 0,10 -10,0 ..."
 run calibrate --two-point -60,0 -.5,0 --distance 50
