@@ -42,12 +42,15 @@ hl_cli_report_error (const char *file, const char *context, const HlError *err)
   snprintf (line_prefix, sizeof line_prefix, "line %d", err->line);
   snprintf (element_prefix, sizeof element_prefix, "element %s", err->field);
   const char *rest = err->line > 0 ? skip_prefix (message, line_prefix, ", ") : message;
-  if (rest != message && err->field[0] != '\0')
+  if (rest != message)
     {
-      const char *after = skip_prefix (rest, element_prefix, ": ");
-      if (after != rest)
-        message = after;
+      /* "line 6, element <x>: ...": the line once; the element once */
+      const char *after = err->field[0] != '\0' ? skip_prefix (rest, element_prefix, ": ")
+                                                : rest;
+      message = after;
     }
+  else if (err->line > 0)
+    message = skip_prefix (message, line_prefix, ": ");   /* "line 6: ..." */
 
   fprintf (stderr, "%s: %s", HL_CLI_PROGRAM, file);
   if (err->line > 0)

@@ -1756,13 +1756,22 @@ read_calibration (HlReader *r, xmlNodePtr node, HlPlan *plan)
       if (has_recorded
           && !(fabs (from_points - cal->magnification) <= HL_MAGNIFICATION_AGREE_TOL))
         {
+          /* Three decimals, or "1e+308" for a value far out (never 300
+           * digits). */
+          char points_text[HL_NUMBER_TEXT_SIZE], recorded_text[HL_NUMBER_TEXT_SIZE];
+          const double far = 1e6;
+          hl_format_number (points_text, sizeof points_text,
+                            fabs (from_points) < far ? 3 : HL_NUMBER_EXACT, from_points);
+          hl_format_number (recorded_text, sizeof recorded_text,
+                            fabs (cal->magnification) < far ? 3 : HL_NUMBER_EXACT,
+                            cal->magnification);
           reader_fail (r, HL_ERR_PARSE, node,
-                       _("the calibration points give a magnification of %.3f, but "
-                         "the plan records %.3f: the points or the magnification "
+                       _("the calibration points give a magnification of %s, but "
+                         "the plan records %s: the points or the magnification "
                          "were changed after the landmarks were scaled, so the "
                          "landmarks may be at the wrong scale; correct the "
                          "magnification attribute or the points so they agree"),
-                       from_points, cal->magnification);
+                       points_text, recorded_text);
           return false;
         }
       cal->magnification = from_points;

@@ -465,6 +465,9 @@ range_error (double v, double lo, double hi, const char *field,
   if (!isfinite (v))
     return hl_error_set (err, HL_ERR_INVALID, field,
                          _("%s is not a finite number"), _(what));
+  if (unit == NULL || unit[0] == '\0')   /* a ratio: no stray spaces */
+    return hl_error_set (err, HL_ERR_INVALID, field,
+                         _("%s is %.6g: it must be between %g and %g"), _(what), v, lo, hi);
   return hl_error_set (err, HL_ERR_INVALID, field,
                        _("%s is %.6g %s: it must be between %g and %g %s"),
                        _(what), v, unit, lo, hi, unit);

@@ -1209,6 +1209,19 @@ static const HlBadCase bad_cases[] = {
     "    <point x-mm=\"-16.25\" y-mm=\"0\"/>\n  </calibration>\n" PLAN_CLOSE,
     NULL, HL_ERR_PARSE, 9, { "line 9", "give a magnification of 1.300",
                              "records 1.200" }, NULL },
+  /* A far-out recorded magnification is written as a number, not 300
+   * digits; a ratio's range has no stray spaces where a unit would be. */
+  { "calibration points against a recorded magnification of 1e+308",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK
+    "  <calibration method=\"marker\" magnification=\"1e+308\" marker-diameter-mm=\"25\">\n"
+    "    <point x-mm=\"16.25\" y-mm=\"0\"/>\n    <point x-mm=\"0\" y-mm=\"16.25\"/>\n"
+    "    <point x-mm=\"-16.25\" y-mm=\"0\"/>\n  </calibration>\n" PLAN_CLOSE,
+    NULL, HL_ERR_PARSE, 9, { "give a magnification of 1.300", "records 1e+308:" },
+    "0000000000" },
+  { "typed magnification of 1e+308",
+    XML_DECL PLAN_OPEN CASE_OK LANDMARKS_OK
+    "  <calibration method=\"typed\" magnification=\"1e+308\"/>\n" PLAN_CLOSE,
+    NULL, HL_ERR_INVALID, 9, { "is 1e+308: it must be between 1 and 1.5" }, " : " },
   { "text where a number belongs",
     XML_DECL PLAN_OPEN CASE_OK "  <landmarks>\n"
     "    <landmark name=\"hip-centre\" x-mm=\"abc\" y-mm=\"0\"/>\n" LM_MID LM_INS

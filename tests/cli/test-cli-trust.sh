@@ -251,5 +251,16 @@ run validate many.hlplan
 expect_rc 1 "65 options"
 check "says at most 64 options" err_has "at most 64 options"
 
+# FILE:LINE: in front, and the line not said again after it.
+run validate bad.hlplan
+expect_rc 1 "validate a file that is not XML"
+check "FILE:LINE: in front" err_has "^hiplever-cli: bad.hlplan:1: the file is not well-formed"
+check "the line said once" bash -c '! grep -q "line 1" "$0"' "$WORK/err"
+sed 's/mass-kg="72.5"/mass-kg="5"/' plan.hlplan > light.hlplan
+run validate light.hlplan
+expect_rc 1 "a body mass of 5 kg"
+check "range error: FILE:LINE: in front" err_has "^hiplever-cli: light.hlplan:7: "
+check "range error: the line said once" bash -c '! grep -q "line 7" "$0"' "$WORK/err"
+
 echo "cli-trust: $passed passed, $failed failed"
 [ "$failed" -eq 0 ]
