@@ -26,13 +26,18 @@ typedef HlResultField HlResultRow;
 static const HlResultRow *rows[HL_RESULT_FIELD_MAX];
 static guint n_rows;
 
-/* The table is four grids: the option names (header) over the body, the
- * quantity names left of it and an empty corner.  Only the body scrolls;
- * the header follows its horizontal adjustment and the names its vertical
- * one, so both stay in view.  Columns line up by one horizontal size group
- * per option column, rows by one vertical size group per row; no cell in a
- * row group wraps, so a row's height does not depend on the width it is
- * measured for.  Body rows, top to bottom: the flags, right under the
+/* The table is four parts: the option names (a grid) over the body, the
+ * quantity names (a grid) left of it and the heading in the corner.  Only
+ * the body scrolls; the option names follow its horizontal adjustment and
+ * the quantity names its vertical one, so both stay in view.  The body is
+ * one vertical box of rows per option column: an option's name shares the
+ * width of its column's box (one size group of two per column), and each
+ * row's box in every column shares its height with the quantity's name
+ * (one size group per row).  No cell in a row wraps, so a row's height
+ * does not depend on the width it is measured for, and a figure that
+ * changes during a drag re-measures only boxes whose children kept their
+ * sizes (with a size group per column over every cell, each change laid
+ * out the whole column again: about 2 ms more per frame).  Body rows, top to bottom: the flags, right under the
  * option names, where a warning is seen before the numbers it qualifies;
  * then what a surgeon plans by: leg length and global offset against the
  * other hip, in words and numbers; then the quantities. */
@@ -65,6 +70,10 @@ static const struct {
 #define N_BODY_ROWS (FIRST_VALUE_ROW + (int) (N_ROWS + N_RANGE_ROWS))
 #define MAX_BODY_ROWS (FIRST_VALUE_ROW + HL_RESULT_FIELD_MAX + N_RANGE_ROWS)
 
+/* Between the columns and between the rows, px. */
+#define COLUMN_SPACING 12
+#define ROW_SPACING 2
+
 /* The body's smallest height, px: a few rows stay readable in a short pane. */
 #define BODY_MIN_HEIGHT 90
 
@@ -77,6 +86,9 @@ typedef struct {
   GtkWidget *change[HL_RESULT_FIELD_MAX];
   GtkWidget *range[N_RANGE_ROWS];
   GtkWidget *range_cell[N_RANGE_ROWS];   /* the box holding it */
+  GtkWidget *column;         /* an overlay: the rows, and over them the error */
+  GtkWidget *rows;           /* a vertical box of the column's rows */
+  GtkWidget *slot[MAX_BODY_ROWS];        /* each row's box in it */
   GtkWidget *flags;          /* a box: "No flags", or the short lines as a button */
   GtkWidget *flags_none;     /* "No flags" */
   GtkWidget *flags_short;    /* one line per flag, the child of: */
@@ -92,13 +104,12 @@ struct _HlResults {
   GtkWidget *layout;         /* the outer grid */
   GtkWidget *header_grid;    /* option names, scrolled with the body's x */
   GtkWidget *names_grid;     /* quantity names and units, with the body's y */
-  GtkWidget *body_grid;
+  GtkWidget *body_box;       /* the columns side by side */
   GtkWidget *header_scroll;
   GtkWidget *names_scroll;
   GtkWidget *body_scroll;
   GtkSizeGroup *row_group[MAX_BODY_ROWS];
   GtkWidget *row_name[MAX_BODY_ROWS];     /* the name of each body row */
-  GtkWidget *row_anchor[MAX_BODY_ROWS];   /* its empty cell in the body */
   GArray *columns;   /* of HlResultsColumn */
   GtkWidget *common_error;   /* one message over all columns */
   int selected;      /* option index, -1 none */
@@ -280,14 +291,7 @@ hl_results_clear_columns (HlResults *self)
       HlResultsColumn *col = &g_array_index (self->columns, HlResultsColumn, c);
 
       gtk_grid_remove (GTK_GRID (self->header_grid), gtk_widget_get_parent (col->header));
-      for (guint r = 0; r < N_ROWS; r++)
-        gtk_grid_remove (GTK_GRID (self->body_grid), col->cell[r]);
-      for (guint k = 0; k < N_RANGE_ROWS; k++)
-        gtk_grid_remove (GTK_GRID (self->body_grid), col->range_cell[k]);
-      gtk_grid_remove (GTK_GRID (self->body_grid), col->flags);
-      for (guint k = 0; k < N_AGAINST_ROWS; k++)
-        gtk_grid_remove (GTK_GRID (self->body_grid), gtk_widget_get_parent (col->against[k]));
-      gtk_grid_remove (GTK_GRID (self->body_grid), gtk_widget_get_parent (col->error));
+      gtk_box_remove (GTK_BOX (self->body_box), col->column);
       g_object_unref (col->width);
       g_object_unref (col->number);
     }
@@ -307,14 +311,31 @@ wrap (GtkWidget *child)
   return box;
 }
 
-/* A body cell of column `col` in body row `y`: lined up with the option's
- * name above it and the quantity's name left of it. */
+/* A body cell of column `col` in body row `y`: in the row's box of the
+ * column, which keeps the row's height when the cell is hidden. */
 static void
-attach_cell (HlResults *self, HlResultsColumn *col, GtkWidget *cell, int x, int y)
+attach_cell (HlResultsColumn *col, GtkWidget *cell, int y)
 {
-  gtk_size_group_add_widget (col->width, cell);
-  gtk_size_group_add_widget (self->row_group[y], cell);
-  gtk_grid_attach (GTK_GRID (self->body_grid), cell, x, y, 1, 1);
+  gtk_box_append (GTK_BOX (col->slot[y]), cell);
+}
+
+/* The error of a column that could not be solved: from its first figure's
+ * row down. */
+static gboolean
+error_position_cb (GtkOverlay *overlay, GtkWidget *child, GdkRectangle *allocation,
+                   gpointer first_row)
+{
+  graphene_rect_t b;
+  int w = gtk_widget_get_width (GTK_WIDGET (overlay));
+  int h = gtk_widget_get_height (GTK_WIDGET (overlay));
+
+  if (!gtk_widget_compute_bounds (GTK_WIDGET (first_row), GTK_WIDGET (overlay), &b))
+    return FALSE;
+  allocation->x = 0;
+  allocation->y = (int) b.origin.y;
+  allocation->width = w;
+  allocation->height = MAX (h - allocation->y, 1);
+  return TRUE;
 }
 
 static void
@@ -326,7 +347,24 @@ hl_results_build_columns (HlResults *self, size_t n)
       HlResultsColumn col;
       int x = (int) c;
 
+      /* The column is one box of rows, as wide as its widest cell; the
+       * option's name shares its width.  Each row's box shares its height
+       * with the quantity's name and the row's other columns. */
       col.width = gtk_size_group_new (GTK_SIZE_GROUP_HORIZONTAL);
+      col.rows = gtk_box_new (GTK_ORIENTATION_VERTICAL, ROW_SPACING);
+      col.column = gtk_overlay_new ();
+      gtk_overlay_set_child (GTK_OVERLAY (col.column), col.rows);
+      gtk_size_group_add_widget (col.width, col.column);
+      for (int y = 0; y < N_BODY_ROWS; y++)
+        {
+          col.slot[y] = gtk_box_new (GTK_ORIENTATION_VERTICAL, 0);
+          gtk_size_group_add_widget (self->row_group[y], col.slot[y]);
+          /* Shown and hidden with the row's name (the ranges' rows). */
+          g_object_bind_property (self->row_name[y], "visible", col.slot[y], "visible",
+                                  G_BINDING_SYNC_CREATE);
+          gtk_box_append (GTK_BOX (col.rows), col.slot[y]);
+        }
+      gtk_box_append (GTK_BOX (self->body_box), col.column);
       col.number = gtk_size_group_new (GTK_SIZE_GROUP_HORIZONTAL);
       col.header = make_label ("results-header", 0.0f);
       gtk_label_set_wrap (GTK_LABEL (col.header), TRUE);
@@ -354,7 +392,7 @@ hl_results_build_columns (HlResults *self, size_t n)
           col.change[r] = make_label ("results-change", 0.0f);
           gtk_label_set_width_chars (GTK_LABEL (col.change[r]), 8);
           gtk_box_append (GTK_BOX (col.cell[r]), col.change[r]);
-          attach_cell (self, &col, col.cell[r], x, value_row_y (r));
+          attach_cell (&col, col.cell[r], value_row_y (r));
         }
       for (guint k = 0; k < N_RANGE_ROWS; k++)
         {
@@ -369,7 +407,7 @@ hl_results_build_columns (HlResults *self, size_t n)
             gtk_size_group_add_widget (col.number, box);
             gtk_box_append (GTK_BOX (col.range_cell[k]), box);
           }
-          attach_cell (self, &col, col.range_cell[k], x, range_row_y (k));
+          attach_cell (&col, col.range_cell[k], range_row_y (k));
           gtk_widget_set_visible (col.range_cell[k], FALSE);
         }
       col.flags = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 0);
@@ -399,24 +437,25 @@ hl_results_build_columns (HlResults *self, size_t n)
                                  self, G_CONNECT_SWAPPED);
       }
       gtk_box_append (GTK_BOX (col.flags), col.flags_more);
-      attach_cell (self, &col, col.flags, x, FLAGS_ROW);
+      attach_cell (&col, col.flags, FLAGS_ROW);
       for (guint k = 0; k < N_AGAINST_ROWS; k++)
         {
           col.against[k] = make_label ("results-value", 0.0f);
-          attach_cell (self, &col, wrap (col.against[k]), x, AGAINST_LEG_ROW + (int) k);
+          attach_cell (&col, wrap (col.against[k]), AGAINST_LEG_ROW + (int) k);
         }
-      /* Over the column's figures (hidden then); leg length and offset
+      /* Over the column's figures (hidden then), from the first one
+       * down, without changing any row's height; leg length and offset
        * against the other side come from the landmarks and stay. */
       col.error = make_label ("results-error", 0.0f);
       gtk_label_set_wrap (GTK_LABEL (col.error), TRUE);
       gtk_label_set_max_width_chars (GTK_LABEL (col.error), 22);
+      gtk_label_set_yalign (GTK_LABEL (col.error), 0.0f);
       {
         GtkWidget *box = wrap (col.error);
 
-        gtk_widget_set_valign (box, GTK_ALIGN_START);
-        gtk_size_group_add_widget (col.width, box);
-        gtk_grid_attach (GTK_GRID (self->body_grid), box, x, FIRST_VALUE_ROW, 1,
-                         N_BODY_ROWS - FIRST_VALUE_ROW);
+        gtk_overlay_add_overlay (GTK_OVERLAY (col.column), box);
+        g_signal_connect (col.column, "get-child-position",
+                          G_CALLBACK (error_position_cb), col.slot[FIRST_VALUE_ROW]);
         gtk_widget_set_visible (box, FALSE);
       }
       g_array_append_val (self->columns, col);
@@ -813,14 +852,13 @@ hl_results_class_init (HlResultsClass *klass)
 }
 
 /* The name of body row `y` (spanning the unit column when `unit` is
- * NULL), and an empty cell in the body that keeps the row, and its
- * height, while the row's other cells are hidden. */
+ * NULL), in a box that shares its height with the row's boxes in the
+ * columns. */
 static GtkWidget *
 add_row_name (HlResults *self, int y, const char *name, const char *unit, gboolean dim)
 {
   GtkWidget *label = make_label ("results-quantity", 0.0f);
   GtkWidget *box = wrap (label);
-  GtkWidget *anchor = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, 0);
 
   gtk_label_set_text (GTK_LABEL (label), name);
   if (dim)
@@ -840,12 +878,7 @@ add_row_name (HlResults *self, int y, const char *name, const char *unit, gboole
       gtk_grid_attach (GTK_GRID (self->names_grid), u, 1, y, 1, 1);
       g_object_bind_property (label, "visible", u, "visible", G_BINDING_SYNC_CREATE);
     }
-  gtk_widget_set_halign (anchor, GTK_ALIGN_START);
-  gtk_size_group_add_widget (self->row_group[y], anchor);
-  gtk_grid_attach (GTK_GRID (self->body_grid), anchor, 0, y, 1, 1);
-  g_object_bind_property (label, "visible", anchor, "visible", G_BINDING_SYNC_CREATE);
   self->row_name[y] = label;
-  self->row_anchor[y] = anchor;
   return label;
 }
 
@@ -854,8 +887,8 @@ new_grid (void)
 {
   GtkWidget *grid = gtk_grid_new ();
 
-  gtk_grid_set_column_spacing (GTK_GRID (grid), 12);
-  gtk_grid_set_row_spacing (GTK_GRID (grid), 2);
+  gtk_grid_set_column_spacing (GTK_GRID (grid), COLUMN_SPACING);
+  gtk_grid_set_row_spacing (GTK_GRID (grid), ROW_SPACING);
   return grid;
 }
 
@@ -879,8 +912,8 @@ hl_results_init (HlResults *self)
   self->header_grid = new_grid ();
   self->names_grid = new_grid ();
   gtk_grid_set_column_spacing (GTK_GRID (self->names_grid), 6);
-  self->body_grid = new_grid ();
-  gtk_widget_set_valign (self->body_grid, GTK_ALIGN_START);
+  self->body_box = gtk_box_new (GTK_ORIENTATION_HORIZONTAL, COLUMN_SPACING);
+  gtk_widget_set_valign (self->body_box, GTK_ALIGN_START);
   gtk_widget_set_valign (self->names_grid, GTK_ALIGN_START);
 
   self->body_scroll = gtk_scrolled_window_new ();
@@ -888,7 +921,7 @@ hl_results_init (HlResults *self)
                                   GTK_POLICY_AUTOMATIC, GTK_POLICY_AUTOMATIC);
   gtk_scrolled_window_set_min_content_height (GTK_SCROLLED_WINDOW (self->body_scroll),
                                               BODY_MIN_HEIGHT);
-  gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (self->body_scroll), self->body_grid);
+  gtk_scrolled_window_set_child (GTK_SCROLLED_WINDOW (self->body_scroll), self->body_box);
   gtk_widget_set_hexpand (self->body_scroll, TRUE);
   gtk_widget_set_vexpand (self->body_scroll, TRUE);
   gtk_widget_add_css_class (self->body_scroll, "results-body");
@@ -1059,7 +1092,9 @@ hl_results_print_handles (HlResults *self)
       if (self->row_name[y] == NULL || !gtk_widget_get_visible (self->row_name[y]))
         continue;
       print_rect ("RESULTS-NAME", name, self->row_name[y]);
-      print_rect ("RESULTS-ROW", name, self->row_anchor[y]);
+      if (self->columns->len > 0)
+        print_rect ("RESULTS-ROW", name,
+                    g_array_index (self->columns, HlResultsColumn, 0).slot[y]);
     }
 }
 
