@@ -235,7 +235,7 @@ fit_text (GString *b, const HlPlan *plan, const HlFitTable *t)
   if (f.t_from_hip_centre)
     g_string_append (b, _("The lesser trochanter tip is not placed: the stem's seat is "
                       "measured from the hip centre's projection on the shaft axis.\n"));
-  g_string_append_printf (b, "%5s %6s %-14s %5s %-12s %5s %7s %7s %7s %7s %7s %7s %6s %6s %6s\n",
+  g_string_append_printf (b, "%5s %6s %-14s %5s %-12s %5s %7s %7s %7s %7s %7s %7s %7s %7s %6s\n",
                  _("rank"), _("cup"), _("liner"), _("stem"), _("version"), _("head"),
                  _("c_med"), _("c_sup"), _("f_off"), _("f_len"), _("LL res"),
                  _("GO res"), _("abd BW"), _("JRF BW"), _("p95"));
@@ -252,7 +252,7 @@ fit_text (GString *b, const HlPlan *plan, const HlFitTable *t)
       hl_format_number (n[7], sizeof n[7], 2, r->result.jrf_bw);
       char p95[HL_CLI_NUMBER_MAX];
       hl_format_number (p95, sizeof p95, 2, r->jrf_p95_bw);
-      g_string_append_printf (b, "%5zu %6g %-14s %5s %-12s %+5g %7s %7s %7s %7s %7s %7s %6s %6s %6s\n",
+      g_string_append_printf (b, "%5zu %6g %-14s %5s %-12s %+5g %7s %7s %7s %7s %7s %7s %7s %7s %6s\n",
                      r->rank, r->tmpl.cup_diameter_mm, r->tmpl.liner, r->tmpl.stem_size,
                      r->tmpl.version, r->tmpl.head_length_mm, n[0], n[1], n[2], n[3],
                      n[4], n[5], n[6], n[7], p95);

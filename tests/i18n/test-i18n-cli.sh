@@ -58,6 +58,19 @@ for part in 'Warnhinweis:' 'Nur eine Planungshilfe' 'ersetzt nicht die chirurgis
   grep -qF -- "$part" <<<"$solve_de" || fail "German solve output lacks '$part'"
 done
 
+# One name for the body-weight lever arm, and the German body-weight unit
+# KGW (Körpergewicht), never a bare "KG", which reads as kilograms.
+if grep -nE '(^|[^[:alpha:]])KG([^[:alpha:]]|$)' "$SRC/po/de.po"; then
+  fail "po/de.po writes the body-weight unit as KG (kilograms?), not KGW"
+fi
+for id in 'Body-weight lever arm (mm)' 'Body-weight lever arm' 'lever arm %.1f mm'; do
+  msggrep --msgid -F -e "$id" "$SRC/po/de.po" | grep -q '^msgstr "Körpergewichtshebelarm' \
+    || fail "'$id' is not 'Körpergewichtshebelarm' in German"
+done
+unc_de=$(LC_ALL=de_DE.UTF-8 "$CLI" uncertainty "$SRC/data/examples/demo.hlplan" --samples 200) \
+  || fail "uncertainty fails in German"
+grep -qF '(xKGW)' <<<"$unc_de" || fail "German uncertainty output lacks the unit xKGW"
+
 # An unknown option is reported in German, with the usage exit status.
 LC_ALL=de_DE.UTF-8 "$CLI" solve --no-such-option x >/dev/null 2>"${TMPDIR:-/tmp}/hl-i18n-err.$$"
 rc=$?
