@@ -25,6 +25,7 @@
 #include "hl-i18n.h"
 #include "hl-image.h"
 #include "hl-measure.h"
+#include "hl-text.h"
 
 #define HL_SHA256_HEX_DIGITS 64
 #define HL_READ_CHUNK 65536
@@ -360,12 +361,14 @@ hl_image_verify (const HlRadiograph *rg, char *message, size_t message_size)
   HlImageCheck check = HL_IMAGE_OK;
   struct stat sb;
   char hex[65];
+  HlError why;
 
+  hl_error_clear (&why);
   if (stat (rg->path, &sb) != 0)
     check = (errno == ENOENT || errno == ENOTDIR) ? HL_IMAGE_MISSING : HL_IMAGE_UNREADABLE;
   else if (!S_ISREG (sb.st_mode) || access (rg->path, R_OK) != 0)
     check = HL_IMAGE_UNREADABLE;
-  else if (hl_file_sha256_hex (rg->path, hex, NULL) != HL_OK)
+  else if (hl_file_sha256_hex (rg->path, hex, &why) != HL_OK)
     check = HL_IMAGE_UNREADABLE;
   else if (rg->sha256[0] != '\0' && strcmp (hex, rg->sha256) != 0)
     check = HL_IMAGE_CHANGED;
@@ -373,9 +376,16 @@ hl_image_verify (const HlRadiograph *rg, char *message, size_t message_size)
   if (message != NULL && message_size > 0)
     {
       const char *text = hl_image_check_text (check);
-      /* Capitalised for a sentence on its own. */
-      snprintf (message, message_size, "%c%s: \"%s\"", text[0] - ('a' - 'A'), text + 1,
-                rg->path);
+      /* Capitalised for a sentence on its own; why it cannot be read (too
+       * large, not an image) after it. */
+      int n = snprintf (message, message_size, "%c%s: \"%s\"", text[0] - ('a' - 'A'),
+                        text + 1, rg->path);
+      if (check == HL_IMAGE_UNREADABLE && why.message[0] != '\0' && n > 0
+          && (size_t) n < message_size)
+        {
+          snprintf (message + n, message_size - (size_t) n, " (%s)", why.message);
+          hl_utf8_trim_end (message);
+        }
     }
   return check;
 }

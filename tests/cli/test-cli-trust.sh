@@ -251,6 +251,20 @@ run validate many.hlplan
 expect_rc 1 "65 options"
 check "says at most 64 options" err_has "at most 64 options"
 
+# A radiograph over 512 MB (a sparse file) is refused before it is read,
+# and the warning says why; the plan is used without it.
+mkdir big
+cp plan.hlplan big/plan.hlplan
+printf '\211PNG\r\n\032\n' > big/demo-radiograph.png
+truncate -s 600M big/demo-radiograph.png
+t0=$(date +%s%N)
+run validate big/plan.hlplan
+big_ms=$(( ($(date +%s%N) - t0) / 1000000 ))
+expect_rc 0 "a plan with a 600 MB radiograph"
+check "the warning says the size limit" err_has "is 600 MB: files over 512 MB are not opened"
+check "the 600 MB file is not read through (${big_ms} ms)" test "$big_ms" -lt 2000
+rm -rf big
+
 # FILE:LINE: in front, and the line not said again after it.
 run validate bad.hlplan
 expect_rc 1 "validate a file that is not XML"
