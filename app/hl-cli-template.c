@@ -43,7 +43,8 @@ const HlCliOption hl_cli_fit_options[] = {
   { "format", 0, N_("FORMAT"), N_("text (default) or csv") },
   { "apply", 0, N_("RANK"),
     N_("write the plan with the combination of this rank in the option (needs -o)") },
-  { "output", 'o', N_("OUT.hlplan"), N_("where --apply writes the plan") },
+  { "output", 'o', N_("OUT.hlplan"),
+    N_("where --apply writes the plan (written atomically; - for standard output)") },
   { "catalogue", 0, N_("FILE"),
     N_("an implant catalogue to use besides the bundled demo catalogue and "
        "those in HIPLEVER_CATALOGUES") },
@@ -300,7 +301,7 @@ hl_cli_fit (const HlCliCommand *cmd, const HlCliArgs *args)
                                      "the plan)"), cmd->name);
       /* The inputs: the plan and the catalogue given with --catalogue. */
       char *inputs[] = { args->operands[0], (char *) extra };
-      int st = hl_cli_check_output (cmd->name, out, false, inputs, extra != NULL ? 2 : 1);
+      int st = hl_cli_check_output (cmd->name, out, true, inputs, extra != NULL ? 2 : 1);
       if (st != HL_CLI_EXIT_OK)
         return st;
     }
@@ -397,8 +398,10 @@ hl_cli_fit (const HlCliCommand *cmd, const HlCliArgs *args)
           else
             {
               status = hl_cli_write_output (out, text, size);
+              /* With -o - the plan is standard output; the line goes
+               * beside it, to standard error. */
               if (status == HL_CLI_EXIT_OK)
-                fprintf (stdout, _("%s: option \"%s\" now has rank %llu: cup %g mm, "
+                fprintf (hl_cli_is_stdout (out) ? stderr : stdout, _("%s: option \"%s\" now has rank %llu: cup %g mm, "
                                    "liner %s, stem %s size %s %s, head %+g mm\n"),
                          out, plan->options[option].name, rank,
                          row->tmpl.cup_diameter_mm, row->tmpl.liner,

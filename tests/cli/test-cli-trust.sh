@@ -141,6 +141,14 @@ run batch plan.hlplan other.hlplan --csv -
 expect_rc 0 "batch --csv -"
 check "batch --csv - writes the table" grep -q "^plan,option," out
 check "batch --csv -: every plan" grep -q "^other.hlplan," out
+run fit plan.hlplan --apply 1 -o -
+expect_rc 0 "fit --apply 1 -o -"
+check "fit -o - writes the plan to stdout" grep -q "^<plan " out
+check "fit -o -: the rank line on stderr" err_has "now has rank 1"
+cp out applied.hlplan
+run validate applied.hlplan
+expect_rc 0 "the plan fit wrote to stdout reads back"
+rm -f applied.hlplan
 run report plan.hlplan -o -
 expect_rc 2 "report -o - is refused (PDF)"
 run figure plan.hlplan -o -
