@@ -263,6 +263,7 @@ hl_window_print_handles (HlWindow *self)
   print_lower_handles (self);
   hl_analysis_panel_print_handles (self->analysis_panel);
   print_template (self);
+  printf ("STATUS %s\n", gtk_label_get_text (self->status_label));
   printf ("FRAME %u\n", ++self->handles_printed);
   fflush (stdout);
 }

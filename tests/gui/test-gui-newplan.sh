@@ -1,5 +1,5 @@
 #!/bin/sh
-# New plan (Ctrl+N): the window starts from the schematic with every
+# New plan (Ctrl+N and the menu): the window starts from the schematic with every
 # landmark at a plausible default, no options and no radiograph, says which
 # landmarks to move, and asks first when the open plan has unsaved changes.
 # Importing a new radiograph over a plan's own asks whether to keep or clear
@@ -30,13 +30,35 @@ check_new_plan () {
   hl_expect "joint force of the new plan" "$(hl_result "$summary" 1 joint-force-n)" ">" 0
 }
 
+# The status line after a new plan: which landmarks to move first.
+check_status () {
+  status=$(awk '$1 == "STATUS" { line = $0 } END { print substr(line, 8) }' "$HL_OUT")
+  case $status in
+    *"Move the required ones to the patient (Hip centre, Midline point, Abductor insertion)"*)
+      hl_note "ok: $1: the status line says which landmarks to move" ;;
+    *) hl_fail "$1: the status line says '$status'" ;;
+  esac
+}
+
 # 1. An unchanged plan: Ctrl+N at once, and the status line says what to move.
 hl_start new --dump-summary-on-exit "$HL_TMP/new.xml" "$HL_DEMO"
 hl_key ctrl+n
 hl_settle
 hl_grab new-plan
+check_status "Ctrl+N"
 hl_quit_discarding
 check_new_plan "$HL_TMP/new.xml"
+
+# 1b. The same from the menu (F10, New Plan under its mnemonic N).
+hl_start menu --dump-summary-on-exit "$HL_TMP/menu.xml" "$HL_DEMO"
+hl_key F10
+sleep 0.5
+hl_key n
+hl_settle
+hl_grab new-plan-menu
+check_status "the menu's New Plan"
+hl_quit_discarding
+check_new_plan "$HL_TMP/menu.xml"
 
 # 2. With unsaved changes the window asks first; Discard starts the new plan.
 hl_start edited --dump-summary-on-exit "$HL_TMP/edited.xml" "$HL_DEMO"
