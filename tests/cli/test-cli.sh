@@ -492,6 +492,18 @@ check "sweep without --mode replaces (today's behaviour) and says so" out_has "M
 run sweep "$DEMO" --param femoral_offset_mm --from -5 --to 5 --steps 3 --mode add --csv
 expect_rc 0 "sweep --mode add --csv"
 check "sweep --mode add --csv keeps the CSV header" sh -c "head -1 '$WORK/out' | grep -q '^param,value,option,'"
+# arm_at MODE OPTION: the abductor arm of OPTION at +5 mm in that mode.
+arm_at () {
+  "$CLI" sweep "$DEMO" --param femoral_offset_mm --from -5 --to 5 --steps 3 --mode "$1" --csv \
+    | awk -F, -v o="$2" '$2 == "5" && $3 == o { print $4 }'
+}
+std_set=$(arm_at set "Standard stem") lat_set=$(arm_at set "Lateralised stem +6 mm")
+std_add=$(arm_at add "Standard stem") lat_add=$(arm_at add "Lateralised stem +6 mm")
+check "sweep --mode set: both stems at +5 mm have one arm ($std_set, $lat_set)" \
+  test -n "$std_set" -a "$std_set" = "$lat_set"
+check "sweep --mode add: +5 mm over the lateralised stem's own +6 mm gives a longer arm ($lat_add > $std_add)" \
+  awk -v a="$lat_add" -v b="$std_add" 'BEGIN { exit !(a != "" && b != "" && a + 0 > b + 0) }'
+check "sweep --mode add leaves the standard stem (own 0 mm) as set does" test "$std_add" = "$std_set"
 run sweep "$DEMO" --param mass_kg --from 60 --to 70 --steps 3 --mode add
 expect_rc 1 "sweep --mode add of a non-option parameter"
 run sweep "$DEMO" --param femoral_offset_mm --from -5 --to 5 --steps 3 --mode twice
