@@ -654,6 +654,7 @@ check_for_writing (const HlPlan *plan, HlError *err)
 static xmlTextWriterPtr
 writer_new (xmlBufferPtr *buffer)
 {
+  hl_xml_init ();
   *buffer = xmlBufferCreate ();
   xmlTextWriterPtr x = *buffer != NULL ? xmlNewTextWriterMemory (*buffer, 0) : NULL;
   if (x != NULL && (xmlTextWriterSetIndent (x, 1) < 0

@@ -9,6 +9,7 @@
 #include <fcntl.h>
 #include <inttypes.h>
 #include <limits.h>
+#include <pthread.h>
 #include <stdarg.h>
 #include <stdint.h>
 #include <stdio.h>
@@ -433,6 +434,19 @@ doctype_cb (void *ctx, const xmlChar *name, const xmlChar *external_id,
   xmlStopParser (ctxt);
 }
 
+static void
+xml_init_once (void)
+{
+  xmlInitParser ();
+}
+
+void
+hl_xml_init (void)
+{
+  static pthread_once_t once = PTHREAD_ONCE_INIT;
+  pthread_once (&once, xml_init_once);
+}
+
 void
 hl_xml_load_begin (HlXmlLoad *l, const HlXmlKind *kind, const char *name, HlError *err)
 {
@@ -441,7 +455,7 @@ hl_xml_load_begin (HlXmlLoad *l, const HlXmlKind *kind, const char *name, HlErro
   l->name = name;
   l->err = err;
   hl_error_clear (err);
-  xmlInitParser ();
+  hl_xml_init ();
   /* Catches whatever a context-level handler does not; libxml2 keeps these
    * per thread. */
   l->old_handler = xmlStructuredError;

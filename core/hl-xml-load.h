@@ -82,6 +82,12 @@ typedef struct {
   void *old_context;
 } HlXmlLoad;
 
+/* Initialises libxml2 once per process (libxml2 2.9 asks for it before
+ * threads use it: its lazy set-up is not thread-safe); every reader and
+ * writer of XML calls it first.  Safe from any thread, any number of
+ * times. */
+void hl_xml_init (void);
+
 /* Starts a load: clears err, routes libxml2's errors of this thread to l. */
 void hl_xml_load_begin (HlXmlLoad *l, const HlXmlKind *kind, const char *name,
                         HlError *err);

@@ -28,6 +28,7 @@
 #include "hl-plan-io.h"
 #include <glib.h>
 #include "hl-path.h"
+#include "hl-result-fields.h"
 #include "hl-solve.h"
 #include "hl-test-util.h"
 #include "hl-version.h"
@@ -916,6 +917,50 @@ START_TEST (test_summary_examples)
   free (plan_text);
   free (summary);
   hl_plan_free (back);
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* The summary's <result> attributes are the result-field table's summary
+ * fields, in their order, each with the solver's number. */
+START_TEST (test_summary_fields_from_table)
+{
+  const HlResultField *fields[HL_RESULT_FIELD_MAX];
+  size_t n = hl_result_fields_summary (fields);
+  ck_assert_uint_gt (n, 0);
+  for (size_t k = 0; k < n; k++)
+    {
+      ck_assert_int_eq (fields[k]->summary_order, (int) k + 1);
+      ck_assert_ptr_nonnull (fields[k]->xml);
+    }
+
+  HlPlan *plan = NULL;
+  HlError err;
+  hl_error_clear (&err);
+  ck_assert_int_eq (hl_plan_load_file (HL_EXAMPLES_DIR "/demo.hlplan", &plan, &err), HL_OK);
+  char *summary = NULL;
+  size_t size = 0;
+  ck_assert_int_eq (hl_summary_to_buffer (plan, HL_SUMMARY_DATE, &summary, &size, &err),
+                    HL_OK);
+  HlResult results[8];
+  ck_assert_int_eq (hl_plan_solve_all (plan, results, &err), HL_OK);
+  const char *native = strstr (summary, "<result kind=\"native\"");
+  ck_assert_ptr_nonnull (native);
+  const char *end = strchr (native, '>');
+  const char *at = native;
+  for (size_t k = 0; k < n; k++)
+    {
+      char key[80];
+      snprintf (key, sizeof key, " %s=\"", fields[k]->xml);
+      const char *p = strstr (at, key);
+      ck_assert_msg (p != NULL && p < end, "%s is not in order in <result>", fields[k]->xml);
+      double v = g_ascii_strtod (p + strlen (key), NULL);
+      double want = fields[k]->get (&results[0]);
+      ck_assert_msg (v == want || (isnan (v) && isnan (want)), "%s: %.17g, not %.17g",
+                     fields[k]->xml, v, want);
+      at = p + 1;
+    }
+  free (summary);
   hl_plan_free (plan);
 }
 END_TEST
@@ -1938,6 +1983,7 @@ plan_io_suite (void)
   tc = tcase_create ("summary");
   tcase_add_loop_test (tc, test_summary_examples, 0, N_OF (examples));
   tcase_add_test (tc, test_summary_refusals);
+  tcase_add_test (tc, test_summary_fields_from_table);
   suite_add_tcase (s, tc);
 
   tc = tcase_create ("write-refusals");
