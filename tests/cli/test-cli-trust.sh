@@ -236,6 +236,16 @@ run batch inj.hlplan --csv inj.csv
 check "batch: =HYPERLINK gets an apostrophe" grep -q "^inj.hlplan,'=HYPERLINK(1)," inj.csv
 run sweep inj.hlplan --param femoral_offset_mm --from -2 --to 2 --steps 3 --csv
 check "sweep: =HYPERLINK gets an apostrophe" grep -q "^femoral_offset_mm,-2,'=HYPERLINK(1)," out
+sed 's/"Standard stem"/"@cmd"/; s/"Lateralised stem +6 mm"/"+1"/' plan.hlplan > '@inj.hlplan'
+printf 'not a plan\n' > "$(printf '\tbad.hlplan')"
+run batch '@inj.hlplan' "$(printf './\tbad.hlplan')" --keep-going --csv inj2.csv
+check "@cmd gets an apostrophe" grep -q "^'@inj.hlplan,'@cmd," inj2.csv
+check "an option named +1 reads whole as a number and stays" grep -q "^'@inj.hlplan,+1," inj2.csv
+run batch "$(printf '\tbad.hlplan')" --keep-going --csv inj3.csv
+check "a plan name that begins with a tab gets an apostrophe" \
+  grep -q "$(printf "^'\tbad.hlplan,")" inj3-failures.csv
+rm -f '@inj.hlplan' "$(printf '\tbad.hlplan')" inj2.csv inj2-failures.csv inj3.csv \
+  inj3-failures.csv
 
 # Sweeps: written a block at a time (one header however long), and more
 # than 100,000 rows refused with a message.
