@@ -488,6 +488,43 @@ START_TEST (test_magnification_refused)
 }
 END_TEST
 
+/* ---- Against the other hip, in words ---------------------------------- */
+
+/* diff = operated - other (mm): the sign says shorter or longer, less or
+ * more; within HL_MEASURE_EQUAL_MM (0.5, common practice) equal; NaN not
+ * measured. */
+typedef struct {
+  double diff_mm;
+  const char *leg, *offset, *leg_short, *offset_short;
+} WordsCase;
+
+static const WordsCase words_cases[] = {
+  { -4.0, "operated leg 4.0 mm shorter than the other",
+    "global offset 4.0 mm less than the other side", "4.0 mm shorter", "4.0 mm less" },
+  { 2.75, "operated leg 2.8 mm longer than the other",
+    "global offset 2.8 mm more than the other side", "2.8 mm longer", "2.8 mm more" },
+  { -0.49, "operated leg as long as the other", "global offset the same as the other side",
+    "equal", "equal" },
+  { 0.5, "operated leg 0.5 mm longer than the other",
+    "global offset 0.5 mm more than the other side", "0.5 mm longer", "0.5 mm more" },
+  { NAN, "leg length against the other side not measured", "global offset against the "
+    "other side not measured", "not measured", "not measured" },
+};
+
+START_TEST (test_against_words)
+{
+  const WordsCase *c = &words_cases[_i];
+  char buf[256];
+  ck_assert_msg (strncmp (hl_measure_leg_length_words (c->diff_mm, buf, sizeof buf), c->leg,
+                          strlen (c->leg)) == 0, "%g: %s", c->diff_mm, buf);
+  ck_assert_msg (strncmp (hl_measure_global_offset_words (c->diff_mm, buf, sizeof buf),
+                          c->offset, strlen (c->offset)) == 0, "%g: %s", c->diff_mm, buf);
+  ck_assert_str_eq (hl_measure_leg_length_short (c->diff_mm, buf, sizeof buf), c->leg_short);
+  ck_assert_str_eq (hl_measure_global_offset_short (c->diff_mm, buf, sizeof buf),
+                    c->offset_short);
+}
+END_TEST
+
 static Suite *
 measure_suite (void)
 {
@@ -513,6 +550,7 @@ measure_suite (void)
   ADD_TABLE ("magnification", test_magnification, mag_cases);
   ADD_LOOP ("magnification-defaults", test_magnification_defaults, 1);
   ADD_TABLE ("magnification-refused", test_magnification_refused, bad_mag_cases);
+  ADD_TABLE ("against-words", test_against_words, words_cases);
 
 #undef ADD_LOOP
 #undef ADD_TABLE

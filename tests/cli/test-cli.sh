@@ -466,6 +466,16 @@ run solve "$WORK/ipsi.hlplan"
 check "solve notes the same-side cane" out_has "held in the other hand it helps the hip more"
 run solve "$DEMO"
 check "no cane note for the opposite hand" out_lacks "held in the other hand"
+# Leg length and global offset against the other hip in words, for native
+# and every option (the demo's measures; operated minus other side).
+check "solve: against the other hip" out_has "^Against the other hip:$"
+check "solve: native against the other hip" \
+  out_has "^  native: operated leg 2.0 mm shorter than the other; global offset 1.0 mm less than the other side$"
+check "solve: the standard stem against the other hip" \
+  out_has "^  Standard stem: operated leg 1.0 mm shorter than the other; global offset 2.8 mm less than the other side$"
+for opt in "Lateralised stem +6 mm" "Medialised cup 4 mm + long head" "Templated: demo cementless stem"; do
+  check "solve: $opt against the other hip" out_has "^  $(quote_re "$opt"): operated leg .* than the other; global offset .* than the other side$"
+done
 
 # Inverse answers about loads are planning estimates, not advice.
 run inverse "$DEMO"
