@@ -34,4 +34,24 @@ while [ "$i" -le "$n" ]; do
   hl_expect "joint reaction force, column $i" "$after" "<" "$before"
   i=$((i + 1))
 done
+
+# A cane in the hand on the operated side: the Aids page says that the
+# other hand helps more (Neumann 1998, Phys Ther 78:490-501); the demo's
+# cane in the opposite hand gets no such note.
+sed 's/hand="contralateral" unit="percent-bw"/hand="ipsilateral" unit="percent-bw"/' \
+  "$HL_DEMO" >"$HL_TMP/ipsi.hlplan"
+grep -q 'hand="ipsilateral" unit="percent-bw"' "$HL_TMP/ipsi.hlplan" \
+  || hl_fail "could not move the demo's cane to the same-side hand"
+for plan in ipsi demo; do
+  file="$HL_TMP/ipsi.hlplan"
+  [ "$plan" = demo ] && file=$HL_DEMO
+  HIPLEVER_TEST_PRINT_LABELS=1 "$HIPLEVER" --screenshot "$HL_TMP/aids-$plan.png" --panel aids \
+    "$file" >"$HL_TMP/aids-$plan.labels" 2>"$HL_TMP/aids-$plan.err" \
+    || hl_fail "the --screenshot run of the $plan plan failed"
+done
+grep -q '^LABEL The cane is in the hand on the operated side: held in the other hand it helps the hip more.*Neumann 1998' \
+  "$HL_TMP/aids-ipsi.labels" || hl_fail "no same-side cane note on the Aids page"
+! grep -q 'held in the other hand' "$HL_TMP/aids-demo.labels" \
+  || hl_fail "a cane in the opposite hand gets the same-side note"
+hl_note "ok: the Aids page notes a same-side cane (Neumann 1998), not an opposite one"
 echo "PASS"
