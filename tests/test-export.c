@@ -13,9 +13,12 @@
 #include <check.h>
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 #include <glib.h>
+#include <glib/gstdio.h>
 
 #include "hl-chart.h"
+#include "hl-document.h"
 #include "hl-export.h"
 #include "hl-plan-io.h"
 #include "hl-report.h"
@@ -160,6 +163,46 @@ START_TEST (test_sweeps_csv_refused)
 }
 END_TEST
 
+/* Exports and Save As never write over an input: the plan's radiograph
+ * (also through a link) and, for exports, the plan's own file. */
+START_TEST (test_output_is_input)
+{
+  g_autofree char *plan_path = g_build_filename (HL_TEST_SRCDIR, plans[0], NULL);
+  g_autoptr(GFile) plan_file = g_file_new_for_path (plan_path);
+  HlPlan *plan = load (plans[0]);
+  HlDocument *doc = hl_document_new ();
+  HlError err;
+
+  ck_assert (plan->radiograph.present);
+  ck_assert (hl_document_replace (doc, plan, plan_file));
+  g_autofree char *dir = g_dir_make_tmp ("hiplever-export-XXXXXX", NULL);
+  ck_assert (dir != NULL);
+  g_autofree char *link = g_build_filename (dir, "image-link.png", NULL);
+  g_autofree char *other = g_build_filename (dir, "figure.png", NULL);
+  ck_assert (symlink (plan->radiograph.path, link) == 0);
+
+  hl_error_clear (&err);
+  ck_assert (hl_document_output_is_input (doc, plan->radiograph.path, FALSE, &err));
+  ck_assert_msg (strstr (err.message, "radiograph") != NULL, "%s", err.message);
+  hl_error_clear (&err);
+  ck_assert (hl_document_output_is_input (doc, plan->radiograph.path, TRUE, &err));
+  hl_error_clear (&err);
+  ck_assert (hl_document_output_is_input (doc, link, FALSE, &err));
+  hl_error_clear (&err);
+  ck_assert (hl_document_output_is_input (doc, plan_path, FALSE, &err));
+  ck_assert_msg (strstr (err.message, "plan itself") != NULL, "%s", err.message);
+  hl_error_clear (&err);
+  ck_assert (!hl_document_output_is_input (doc, plan_path, TRUE, &err));
+  ck_assert (!hl_document_output_is_input (doc, other, FALSE, &err));
+  ck_assert_int_eq (err.status, HL_OK);
+
+  unlink (link);
+  g_rmdir (dir);
+  g_object_unref (doc);
+  hl_plan_free (plan);
+}
+END_TEST
+
 static Suite *
 export_suite (void)
 {
@@ -170,6 +213,9 @@ export_suite (void)
   suite_add_tcase (s, tc);
   tc = tcase_create ("sweeps-csv-refused");
   tcase_add_loop_test (tc, test_sweeps_csv_refused, 0, G_N_ELEMENTS (spoiled));
+  suite_add_tcase (s, tc);
+  tc = tcase_create ("output-is-input");
+  tcase_add_test (tc, test_output_is_input);
   suite_add_tcase (s, tc);
   return s;
 }

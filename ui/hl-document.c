@@ -12,6 +12,7 @@
 #include <glib/gi18n.h>
 
 #include "hl-document.h"
+#include "hl-file-write.h"
 #include "hl-undo.h"
 
 struct _HlDocument {
@@ -310,6 +311,34 @@ hl_document_get_file (HlDocument *self)
 {
   g_return_val_if_fail (HL_IS_DOCUMENT (self), NULL);
   return self->file;
+}
+
+gboolean
+hl_document_output_is_input (HlDocument *self, const char *path, gboolean own_file_ok,
+                             HlError *err)
+{
+  g_return_val_if_fail (HL_IS_DOCUMENT (self), FALSE);
+  if (path == NULL)
+    return FALSE;
+  if (self->plan->radiograph.present && hl_file_same (path, self->plan->radiograph.path))
+    {
+      hl_error_set (err, HL_ERR_IO, "file",
+                    _("This file is the plan's radiograph; choose another name so that "
+                      "the image is not overwritten."));
+      return TRUE;
+    }
+  if (!own_file_ok && self->file != NULL)
+    {
+      g_autofree char *own = g_file_get_path (self->file);
+      if (own != NULL && hl_file_same (path, own))
+        {
+          hl_error_set (err, HL_ERR_IO, "file",
+                        _("This file is the plan itself; choose another name so that the "
+                          "plan file is not overwritten."));
+          return TRUE;
+        }
+    }
+  return FALSE;
 }
 
 void

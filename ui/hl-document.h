@@ -71,6 +71,12 @@ const HlPlan *hl_document_get_plan          (HlDocument *self);
 gboolean      hl_document_replace           (HlDocument *self, const HlPlan *plan,
                                              GFile *file);
 GFile        *hl_document_get_file          (HlDocument *self);
+/* TRUE, with err saying why, when `path` is the same file (device and
+ * inode, also through a link) as an input of the plan: its radiograph,
+ * or, unless `own_file_ok` (saving the plan itself), the plan's own file.
+ * Exports and Save As refuse such a path, so that no input is destroyed. */
+gboolean      hl_document_output_is_input   (HlDocument *self, const char *path,
+                                             gboolean own_file_ok, HlError *err);
 /* The plan was written to `file`: it is now the saved state. */
 void          hl_document_set_saved         (HlDocument *self, GFile *file);
 gboolean      hl_document_is_modified       (HlDocument *self);

@@ -284,6 +284,7 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
         file = hl_export_with_extension (chosen, ".pdf");
         report_settings (ex, &settings);
         if ((path = local_path (file, &err)) != NULL
+            && !hl_document_output_is_input (ex->document, path, FALSE, &err)
             && (report = export_report_new (ex, &settings, &err)) != NULL)
           {
             unsigned char *pdf = NULL;
@@ -316,7 +317,8 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
         else
           file = hl_export_with_extension (chosen, filter_name != NULL && strstr (filter_name, "SVG") != NULL
                                          ? ".svg" : ".png");
-        if ((path = local_path (file, &err)) != NULL)
+        if ((path = local_path (file, &err)) != NULL
+            && !hl_document_output_is_input (ex->document, path, FALSE, &err))
           {
             const HlPlan *plan = hl_document_get_plan (ex->document);
             gboolean owned;
@@ -339,6 +341,7 @@ write_file (HlExport *ex, HlExportKind kind, GFile *chosen, GtkFileFilter *filte
         done = _("Sweep table");
         file = hl_export_with_extension (chosen, ".csv");
         if ((path = local_path (file, &err)) != NULL
+            && !hl_document_output_is_input (ex->document, path, FALSE, &err)
             && (csv = hl_export_sweeps_csv (hl_document_get_plan (ex->document), &err)) != NULL)
           hl_write_file_atomic (path, csv, strlen (csv), &err);
       }

@@ -58,7 +58,8 @@ save_to (HlWindow *self, GFile *file)
   hl_error_clear (&err);
   if (path == NULL)
     hl_error_set (&err, HL_ERR_IO, "file", "%s", _("only local files can be saved"));
-  else if (!hl_autosave_target_is_newer (path, &err))
+  else if (!hl_document_output_is_input (self->document, path, TRUE, &err)
+           && !hl_autosave_target_is_newer (path, &err))
     hl_plan_save_file_backup (hl_window_get_plan (self), path, &err);
 
   if (err.status != HL_OK)
@@ -323,7 +324,7 @@ export_response_cb (GtkNativeDialog *dialog, int response, HlWindow *self)
   hl_error_clear (&err);
   if (path == NULL)
     hl_error_set (&err, HL_ERR_IO, "file", "%s", _("only local files can be written"));
-  else
+  else if (!hl_document_output_is_input (self->document, path, FALSE, &err))
     hl_summary_save_file (hl_window_get_plan (self), path, &err);
   if (err.status != HL_OK)
     {
