@@ -111,12 +111,24 @@ parser_message (const xmlError *e, char *buf, size_t size)
     case XML_ERR_CHARREF_IN_EPILOG:
       return _("a character reference (&#...;) is malformed or names a character "
                "XML does not allow");
-    case XML_ERR_INVALID_CHAR:
-    case XML_ERR_INVALID_ENCODING:
     case XML_ERR_UNKNOWN_ENCODING:
     case XML_ERR_UNSUPPORTED_ENCODING:
+      if (e->str1 != NULL && e->str1[0] != '\0')
+        {
+          char name[HL_XML_QUOTED_MAX];
+          snprintf (buf, size, _("the XML declaration names the encoding '%s', which "
+                                 "is not read; these files are UTF-8 encoded "
+                                 "(encoding=\"UTF-8\")"),
+                    hl_text_quote (e->str1, HL_XML_QUOTED_MAX - 1, name, sizeof name));
+          return buf;
+        }
+      /* fall through */
     case XML_ERR_ENCODING_NAME:
     case XML_ERR_MISSING_ENCODING:
+      return _("the XML declaration's encoding is malformed or not one that is read; "
+               "these files are UTF-8 encoded (encoding=\"UTF-8\")");
+    case XML_ERR_INVALID_CHAR:
+    case XML_ERR_INVALID_ENCODING:
       return _("the bytes here are not valid UTF-8 text, or a character XML does "
                "not allow; these files are UTF-8 encoded");
     case XML_ERR_ENTITYREF_AT_EOF:

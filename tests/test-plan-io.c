@@ -1194,6 +1194,11 @@ static const HlBadCase bad_cases[] = {
     XML_DECL "<planning-summary xmlns=\"urn:hiplever:plan\" format-version=\"1\">\n"
     PLAN_OPEN CASE_OK PLAN_CLOSE "</planning-summary>\n", NULL, HL_ERR_PARSE, 3,
     { "the plan has no landmarks" }, "Expected is" },
+  { "an encoding declaration naming an encoding that is not read",
+    "<?xml version=\"1.0\" encoding=\"klingon\"?>\n" PLAN_OPEN CASE_OK LANDMARKS_OK
+    PLAN_CLOSE, NULL, HL_ERR_PARSE, 1,
+    { "line 1", "names the encoding 'klingon', which is not read", "UTF-8" },
+    "Unsupported" },
   /* The schema's findings in our words, never libxml2's ("This element is
    * not expected. Expected is ( ... )", "identity-constraint", ...). */
   { "schema: an element out of place",
