@@ -73,6 +73,15 @@ check "the link stays a link" is_link to-pipe
 check "no temporary file left" only_names "bad.hlplan err other.hlplan out pipe pipe.svg plan.hlplan to-pipe "
 rm -f pipe pipe.svg to-pipe
 
+# A socket is refused and left as it is.
+if python3 -c 'import socket, sys; socket.socket(socket.AF_UNIX).bind(sys.argv[1])' sock; then
+  run summary plan.hlplan -o sock
+  expect_rc 1 "summary -o a socket"
+  check "summary -o socket: says socket" err_has "a socket, not a regular file"
+  check "the socket stays a socket" test -S sock
+  rm -f sock
+fi
+
 # A folder is refused.
 mkdir folder.xml
 run summary plan.hlplan -o folder.xml
