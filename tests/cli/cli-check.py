@@ -12,7 +12,8 @@
 #       rows are, in order, 1 + N_OPTIONS rows per PATH, each group
 #       starting with "native".  Prints the number of data rows.
 #   cli-check.py text-vs-csv TEXT CSV
-#       The numbers of the text table equal the CSV's, column by column.
+#       The numbers of the text table equal the CSV's, column by column,
+#       each with the decimals people read (TEXT_DECIMALS).
 #   cli-check.py field CSV ROW COLUMN
 #       Prints one parsed field (ROW 0 = the first data row).
 import csv
@@ -23,6 +24,14 @@ import sys
 NUMBER = re.compile(r'^-?[0-9]+\.[0-9]{3}$')
 RATIO = re.compile(r'^-?[0-9]+\.[0-9]{4}$')
 FLAGS = re.compile(r'^([a-z0-9-]+(;[a-z0-9-]+)*)?$')
+# The decimals people read in the text (issue contract, core/hl-types.h
+# HL_DECIMALS_*): forces in N none, multiples of body weight 2, mm 1,
+# angles 1, the lever ratio 2.
+TEXT_DECIMALS = {
+    'abductor_arm_mm': 1, 'bw_arm_mm': 1, 'lever_ratio': 2, 'abductor_force_N': 0,
+    'abductor_force_BW': 2, 'jrf_N': 0, 'jrf_BW': 2, 'jrf_angle_deg': 1,
+    'global_offset_change_mm': 1, 'leg_length_change_mm': 1, 'abductor_length_change_mm': 1,
+}
 
 
 def fail(msg):
@@ -103,6 +112,10 @@ def text_vs_csv(text_path, csv_path):
             fail('text row %r: %s, csv column %s: %s' % (line, numbers, names[col], expected))
         for shown, exact in zip(numbers, expected):
             decimals = len(shown.split('.')[1]) if '.' in shown else 0
+            want = TEXT_DECIMALS.get(names[col])
+            if want is not None and decimals != want:
+                fail('text row %r shows %s with %d decimals, not %d'
+                     % (line, shown, decimals, want))
             if decimals >= len(exact.split('.')[1]) if '.' in exact else True:
                 fail('text row %r shows %s, no fewer decimals than the csv %s'
                      % (line, shown, exact))
