@@ -203,6 +203,22 @@ hl_expect "guided hip centre x, kept on its pixel" "$hx" "~" \
   "$(awk -v p="$hip_x" -v o="$OX" -v m0="$M0" -v m="$m" 'BEGIN { print o + (p - o) * m0 / m }')"
 hl_expect "guided hip centre y, kept on its pixel" "$hy" "~" \
   "$(awk -v p="$hip_y" -v o="$OY" -v m0="$M0" -v m="$m" 'BEGIN { print o + (p - o) * m0 / m }')"
+# The Radiograph page gives the magnification to 3 decimals (HL_DECIMALS_
+# MAGNIFICATION), calibrated or assumed (the demo's marker gives 1.200; the
+# assumed 1.20 is Brew et al. 2012's mean, J Arthroplasty 27:643-647).
+sed -e '/<calibration /,/<\/calibration>/d' "$HL_DEMO" >"$HL_TMP/assumed.hlplan"
+for plan in demo assumed; do
+  file="$HL_TMP/assumed.hlplan"
+  [ "$plan" = demo ] && file=$HL_DEMO
+  HIPLEVER_TEST_UNDERLAY= HIPLEVER_TEST_PRINT_LABELS=1 "$HIPLEVER" --screenshot \
+    "$HL_TMP/page-$plan.png" --panel radiograph "$file" >"$HL_TMP/page-$plan.labels" \
+    2>/dev/null || hl_fail "the --screenshot run of the $plan plan failed"
+done
+grep -q '^LABEL Magnification 1\.200 (measured / true), calibrated' "$HL_TMP/page-demo.labels" \
+  || hl_fail "the calibrated magnification is not shown as 1.200: $(grep Magnification "$HL_TMP/page-demo.labels")"
+grep -q '^LABEL Magnification 1\.200: assumed, not calibrated' "$HL_TMP/page-assumed.labels" \
+  || hl_fail "the assumed magnification is not shown as 1.200: $(grep -i magnification "$HL_TMP/page-assumed.labels")"
+hl_note "ok: the magnification to 3 decimals, calibrated and assumed"
 # The pan-and-zoom benchmark runs and reports; its timing is a
 # measurement, not a pass mark here (machines differ).
 HIPLEVER_TEST_UNDERLAY= HIPLEVER_BENCHMARK_UNDERLAY=1 timeout "$HL_WAIT_S" "$HIPLEVER" "$plan" \
