@@ -87,7 +87,8 @@ const HlCliOption hl_cli_sweep_options[] = {
 
 const HlCliOption hl_cli_uncertainty_options[] = {
   { "samples", 0, N_("N"),
-    N_("the number of samples (default: the plan's, normally 4000)") },
+    N_("the number of samples (default: the plan's, normally 4000; at most 10,000,000, "
+       "and samples times native and the options at most 20,000,000)") },
   { "seed", 0, N_("S"),
     N_("the seed, a whole number (default: the plan's); the same seed gives "
        "the same numbers with the same GSL version") },
@@ -578,6 +579,16 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
     mc.n_samples = (size_t) samples;
   if (seed_text != NULL)
     mc.seed = seed;
+  size_t mc_rows = 1 + (plan->n_options > 0 ? plan->n_options : 1);
+  if (mc.n_samples > HL_MC_SAMPLE_ROWS_MAX / mc_rows)
+    {
+      hl_cli_error (_("%s: %zu samples for native and %zu options make %zu sample rows, "
+                      "more than the %d a run may hold: use at most %zu samples"),
+                    path, mc.n_samples, plan->n_options, mc.n_samples * mc_rows,
+                    HL_MC_SAMPLE_ROWS_MAX, (size_t) HL_MC_SAMPLE_ROWS_MAX / mc_rows);
+      hl_plan_free (plan);
+      return HL_CLI_EXIT_INVALID;
+    }
 
   HlMcSummary *summary = calloc (1 + plan->n_options, sizeof *summary);
   HlMcWorkspace *ws = hl_mc_workspace_new (mc.n_samples,

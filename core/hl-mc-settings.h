@@ -36,6 +36,11 @@ typedef struct {
 #define HL_MC_SEED_DEFAULT UINT64_C (20260417)
 #define HL_MC_SAMPLES_DEFAULT 4000
 #define HL_MC_SAMPLES_MAX 10000000
+/* Samples times rows (native and the options) of one `uncertainty` run
+ * of the command line: each sample row keeps two doubles, so a run holds
+ * at most 320 MB (64 options and 10 million samples would have needed
+ * 10 GB).  A plan's own setting (HL_MC_PLAN_SAMPLES_MAX) stays below it. */
+#define HL_MC_SAMPLE_ROWS_MAX 20000000
 /* Landmark placement error, SD of each coordinate: model.md section 7,
  * an assumption for careful placement on a calibrated AP pelvis. */
 #define HL_MC_LANDMARK_SD_MM_DEFAULT 2.0

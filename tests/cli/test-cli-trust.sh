@@ -268,6 +268,16 @@ expect_rc 1 "a sweep of 100,004 rows"
 check "says the row limit" err_has "more than the 100000 a sweep may have"
 check "nothing written" test ! -s out
 
+# A Monte Carlo run holds at most 20,000,000 sample rows (samples times
+# native and the options): 4,000,001 samples of the demo's five rows are
+# refused at once, before any memory is taken.
+t0=$(date +%s%N)
+run uncertainty plan.hlplan --samples 4000001
+mc_ms=$(( ($(date +%s%N) - t0) / 1000000 ))
+expect_rc 1 "uncertainty over 20,000,000 sample rows"
+check "says the sample-row limit" err_has "more than the 20000000 a run may hold: use at most 4000000 samples"
+check "refused at once (${mc_ms} ms)" test "$mc_ms" -lt 2000
+
 # At most 64 options, said so.
 {
   sed -n '1,/<options>/p' plan.hlplan
