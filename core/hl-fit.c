@@ -23,6 +23,9 @@
 #define HL_FIT_HEADS_MAX 64
 /* Rows per Monte Carlo run: 256 rows of 4,000 samples are 16 MB. */
 #define HL_FIT_MC_CHUNK 256
+/* Sample rows (samples times rows) of one chunk's workspace: 4,000,000 of
+ * two doubles, 64 MB. */
+#define HL_FIT_MC_SAMPLE_ROWS 4000000
 
 long
 hl_fit_first_templated (const HlPlan *plan)
@@ -150,7 +153,14 @@ hl_fit_rank (const HlPlan *plan, size_t option, const HlCatalogue *cat,
       /* In chunks: each sample draws its perturbation before it solves the
        * rows, so a row's percentiles do not depend on which rows share its
        * run, and the workspace stays small for a large catalogue. */
-      const size_t chunk = n_mech < HL_FIT_MC_CHUNK ? n_mech : HL_FIT_MC_CHUNK;
+      size_t chunk = n_mech < HL_FIT_MC_CHUNK ? n_mech : HL_FIT_MC_CHUNK;
+      /* and at most HL_FIT_MC_SAMPLE_ROWS sample rows: a plan of 200,000
+       * samples ranks in 64 MB, not 500 */
+      size_t fit_rows = s.n_samples > 0 ? HL_FIT_MC_SAMPLE_ROWS / s.n_samples : chunk + 1;
+      if (fit_rows < 2)
+        fit_rows = 2;
+      if (chunk > fit_rows - 1)
+        chunk = fit_rows - 1;
       HlOption *plain = malloc (n_mech * sizeof *plain);
       HlMcWorkspace *ws = plain ? hl_mc_workspace_new (s.n_samples, chunk) : NULL;
       if (ws == NULL)

@@ -278,6 +278,20 @@ expect_rc 1 "uncertainty over 20,000,000 sample rows"
 check "says the sample-row limit" err_has "more than the 20000000 a run may hold: use at most 4000000 samples"
 check "refused at once (${mc_ms} ms)" test "$mc_ms" -lt 2000
 
+# fit ranks in chunks of at most 4,000,000 sample rows: a plan of 200,000
+# samples ranks its 160 mechanics within 400 MB of address space (it
+# took 530 MB before).  Not under a sanitizer, whose shadow memory needs
+# more address space than that.
+sed 's#  <options>#  <uncertainty samples="200000" seed="1" landmark-sd-mm="2" magnification-sd="0.02" angle-sd-deg="5"/>\n  <options>#' \
+  plan.hlplan > samples.hlplan
+if ! ldd "$CLI" 2>/dev/null | grep -q -e asan -e ubsan; then
+  (ulimit -v 400000; "$CLI" fit samples.hlplan --sizes --format csv >"$WORK/out" 2>"$WORK/err")
+  rc=$?
+  expect_rc 0 "fit --sizes with 200,000 samples within 400 MB"
+  check "fit: every combination ranked" test "$(grep -c '^[0-9]' out)" -ge 100
+fi
+rm -f samples.hlplan
+
 # At most 64 options, said so.
 {
   sed -n '1,/<options>/p' plan.hlplan
