@@ -263,7 +263,10 @@ hl_plan_copy (const HlPlan *plan)
 void
 hl_option_set_name (HlOption *option, const char *name)
 {
-  snprintf (option->name, sizeof option->name, "%s", name ? name : "");
+  /* cut at a whole character, never inside one */
+  size_t n = hl_utf8_cut (name ? name : "", sizeof option->name - 1);
+  memcpy (option->name, name ? name : "", n);
+  option->name[n] = '\0';
 }
 
 long

@@ -101,6 +101,11 @@ hl_text_unsafe (const char *s, char *buf, size_t size)
                     (unsigned) cp);
           return buf;
         }
+      if (len == 1 && *p >= 0x80)
+        {
+          snprintf (buf, size, "%s", _("a byte that is not UTF-8 text"));
+          return buf;
+        }
       if (cp < 0x20 || cp == 0x7F || (cp >= 0x80 && cp < 0xA0))
         {
           snprintf (buf, size, _("the control character U+%04X"), (unsigned) cp);

@@ -496,6 +496,30 @@ START_TEST (test_duplicate_names)
   ck_assert_int_eq (hl_plan_check (p, &err), HL_OK);
   const char *copy = p->options[p->n_options - 1].name;
   ck_assert_msg (strstr (copy, " (copy)") != NULL, "%s", copy);
+  /* A name longer than the room (as the window's entry may hand over) is
+   * cut at a whole character, and the plan writes and reads back. */
+  char too_long[2 * HL_NAME_MAX + 1];
+  memset (too_long, 0, sizeof too_long);
+  for (size_t i = 0; i + 2 < sizeof too_long; i += 2)
+    memcpy (too_long + i, "\xc3\xa9", 2);
+  /* the room, HL_NAME_MAX - 1 = 63 bytes, ends inside the 32nd e-acute */
+  hl_option_set_name (&p->options[0], too_long);
+  ck_assert_msg (g_utf8_validate (p->options[0].name, -1, NULL), "cut inside a character");
+  ck_assert_uint_eq (strlen (p->options[0].name), HL_NAME_MAX - 2);
+  char *written = NULL;
+  size_t written_size = 0;
+  hl_error_clear (&err);
+  ck_assert_int_eq (hl_plan_to_buffer (p, &written, &written_size, &err), HL_OK);
+  HlPlan *back = NULL;
+  ck_assert_msg (hl_plan_load_buffer (written, written_size, "back.hlplan", &back, &err)
+                 == HL_OK, "%s", err.message);
+  ck_assert_str_eq (back->options[0].name, p->options[0].name);
+  hl_plan_free (back);
+  free (written);
+  /* A byte that is not UTF-8 in a name held in memory is refused. */
+  char what[96];
+  ck_assert (hl_text_unsafe ("Cup \xc3", what, sizeof what) != NULL);
+  ck_assert (hl_text_unsafe ("Cup \xc3\xa9", what, sizeof what) == NULL);
   hl_plan_free (p);
 }
 END_TEST

@@ -12,6 +12,7 @@
 
 #include "hl-case-page.h"
 #include "hl-settings.h"
+#include "hl-text.h"
 #include "hl-ui-util.h"
 
 /* The international avoirdupois pound, exactly. */
@@ -155,6 +156,7 @@ label_changed_cb (GtkEditable *editable, HlCasePage *self)
       || (plan = begin_edit (self, "label")) == NULL)
     return;
   g_strlcpy (plan->label, text, sizeof plan->label);
+  hl_utf8_trim_end (plan->label);   /* never cut inside a character */
   end_edit (self, HL_DOCUMENT_CHANGED_VALUES);
 }
 
