@@ -392,6 +392,14 @@ case_name (const HlPlan *plan, size_t i)
   return i == 0 ? "native" : plan->options[i - 1].name;
 }
 
+/* Case i's name in the text output: "native" translated (the CSV keeps
+ * case_name's "native"). */
+static const char *
+case_text_name (const HlPlan *plan, size_t i)
+{
+  return i == 0 ? _("native") : plan->options[i - 1].name;
+}
+
 static void
 csv_header (GString *buf, bool with_plan)
 {
@@ -480,6 +488,7 @@ static void
 print_context (const char *path, const HlPlan *plan)
 {
   const HlLimbTableInfo *limb = hl_limb_table_info (plan->model.limb_table);
+  /* TRANSLATORS: the hand in "Cane: %s hand" and "Load in the %s hand". */
   const char *hand_name[2] = { _("contralateral"), _("ipsilateral") };
 
   fprintf (stdout, _("Plan: %s\n"), path);
@@ -524,7 +533,7 @@ static size_t
 case_width (const HlPlan *plan, const HlResult *results, size_t i,
             const HlResultField *const *rows, size_t n_rows)
 {
-  size_t width = hl_cli_text_width (case_name (plan, i));
+  size_t width = hl_cli_text_width (case_text_name (plan, i));
   char num[HL_CLI_NUMBER_MAX];
 
   for (size_t r = 0; r < n_rows; r++)
@@ -559,7 +568,7 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
   for (size_t i = 0; i < n_cases; i++)
     {
       fprintf (stdout, "%*s", HL_CLI_COLUMN_GAP, "");
-      print_padded (case_name (plan, i),
+      print_padded (case_text_name (plan, i),
                     case_width (plan, results, i, rows, n_rows), true);
     }
   fprintf (stdout, "\n");
@@ -585,12 +594,12 @@ print_text (const char *path, const HlPlan *plan, const HlResult *results)
       const HlResult *r = &results[i];
 
       if (r->flags == 0)
-        fprintf (stdout, "  %s: %s\n", case_name (plan, i), _("none"));
+        fprintf (stdout, "  %s: %s\n", case_text_name (plan, i), _("none"));
       for (unsigned bit = 1; bit != 0 && bit <= HL_FLAG_LAST; bit <<= 1)
         {
           if ((r->flags & bit) == 0)
             continue;
-          fprintf (stdout, "  %s: %s", case_name (plan, i),
+          fprintf (stdout, "  %s: %s", case_text_name (plan, i),
                    hl_flag_text ((HlFlag) bit));
           if (bit == HL_FLAG_ABDUCTORS_NOT_NEEDED)
             fprintf (stdout, _(" (unbalanced moment %.3f N m)"),
