@@ -138,6 +138,8 @@ typedef struct {
   int row;                 /* ITEM_ROW: body row k of the views, -1 the header */
   int header;              /* ITEM_ROW: the item of its header, -1 none */
   bool show_label;         /* ITEM_ANSWER: first of its case */
+  double label_h;          /* ITEM_ANSWER: the height of its case's name */
+  bool group_end;          /* ITEM_ANSWER: the last answer of its case */
   int chart;               /* ITEM_CHART_ROW: the chart */
   const HlReportLines *left, *right;   /* ITEM_COLUMNS */
 
@@ -171,6 +173,7 @@ struct HlReport {
   HlTableView *views;
   size_t n_views, cap_views;
   double head_h;           /* the running head of a continuation page */
+  GArray *boxes;           /* non-NULL: every text box drawn (hl_report_page_text_boxes) */
 };
 
 /* ---- Text ------------------------------------------------------------------ */
@@ -236,6 +239,19 @@ text_block (const HlReport *r, cairo_t *cr, const char *text, double x, double y
       cairo_move_to (cr, x, y);
       pango_cairo_show_layout (cr, layout);
       cairo_restore (cr);
+      if (r->boxes != NULL)
+        {
+          PangoRectangle ink_r, logical;
+          pango_layout_get_extents (layout, &ink_r, &logical);
+          HlReportTextBox box = {
+            .x = x + (double) logical.x / PANGO_SCALE,
+            .y = y + (double) logical.y / PANGO_SCALE,
+            .w = (double) logical.width / PANGO_SCALE,
+            .h = (double) logical.height / PANGO_SCALE,
+          };
+          g_strlcpy (box.text, text, sizeof box.text);
+          g_array_append_val (r->boxes, box);
+        }
     }
   g_object_unref (layout);
   return (double) h / PANGO_SCALE;
@@ -676,8 +692,14 @@ add_inverse (HlReport *r)
                                 false);
         }
       group_h += it->h;
+      it->label_h = label_h;
+      /* A case's answers stay together on a page when they fit one (and
+       * the name, repeated at the top of a page when they do not, is
+       * never drawn over the next case's: paginate). */
+      it->group_end = i + 1 == d->n_answers || d->answers[i + 1].row != a->row;
+      it->keep_with_next = !it->group_end;
       /* The case's name may take more lines than its answers. */
-      if (i + 1 == d->n_answers || d->answers[i + 1].row != a->row)
+      if (it->group_end)
         it->gap_after = 2.0 + fmax (0.0, label_h - group_h);
     }
   end_block (r);
@@ -772,6 +794,7 @@ paginate (HlReport *r)
   double top = MARGIN_TOP;
   double y = top;
   double room = page_bottom () - (MARGIN_TOP + r->head_h);
+  double label_bottom = 0.0;   /* ITEM_ANSWER: the bottom of its case's name */
 
   for (size_t i = 0; i < r->n_items; i++)
     {
@@ -797,6 +820,15 @@ paginate (HlReport *r)
         it->show_label = true;
       it->page = page;
       it->y = y;
+      if (it->kind == ITEM_ANSWER)
+        {
+          /* The case's name, where it is drawn last, must end before
+           * whatever follows its answers. */
+          if (it->show_label)
+            label_bottom = y + it->label_h;
+          if (it->group_end)
+            it->gap_after = 2.0 + fmax (0.0, label_bottom - (y + it->h));
+        }
       y += it->h + it->gap_after;
     }
   return page + 1;
@@ -1176,6 +1208,21 @@ finish_stream (cairo_surface_t *surface, HlMemStream *m, const char *what,
   *out = m->data;
   *size = m->len;
   return HL_OK;
+}
+
+HlReportTextBox *
+hl_report_page_text_boxes (HlReport *r, int page, size_t *n)
+{
+  cairo_surface_t *s = cairo_recording_surface_create (CAIRO_CONTENT_COLOR_ALPHA, NULL);
+  cairo_t *cr = cairo_create (s);
+  r->boxes = g_array_new (FALSE, TRUE, sizeof (HlReportTextBox));
+  hl_report_draw_page (r, cr, page);
+  cairo_destroy (cr);
+  cairo_surface_destroy (s);
+  *n = r->boxes->len;
+  HlReportTextBox *out = (HlReportTextBox *) (void *) g_array_free (r->boxes, FALSE);
+  r->boxes = NULL;
+  return out;
 }
 
 HlStatus

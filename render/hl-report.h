@@ -76,6 +76,15 @@ void hl_report_draw_page (const HlReport *report, cairo_t *cr, int page);
 void hl_report_figure_layout (const HlReport *report, HlRenderLayout *layout,
                               double *width, double *height);
 
+/* Every text box page `page` draws, in points of the page (the text's
+ * logical extents and its first bytes): for the tests, which check that no
+ * two boxes on a page intersect.  g_free the array. */
+typedef struct {
+  double x, y, w, h;
+  char text[48];
+} HlReportTextBox;
+HlReportTextBox *hl_report_page_text_boxes (HlReport *report, int page, size_t *n);
+
 /* The whole report as a PDF in memory; *out is malloc'd. */
 HlStatus hl_report_pdf_to_buffer (const HlReport *report, unsigned char **out,
                                   size_t *size, HlError *err);

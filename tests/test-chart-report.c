@@ -800,6 +800,64 @@ START_TEST (test_figures)
 }
 END_TEST
 
+/* No two text boxes on any page of the report intersect, and every box is
+ * inside the page: with 1 to 13 options (with two-line names, 2 and 13
+ * options put an option's inverse answers over a page break, its name
+ * repeated at the top of the next page: it ran into the next text). */
+static const size_t overlap_option_counts[] = { 1, 2, 4, 8, 13 };
+
+START_TEST (test_report_no_overlap)
+{
+  size_t n_options = overlap_option_counts[_i / 2];
+  HlPlan *plan = plan_with_options (n_options);
+  /* Odd runs: names that take two lines beside the inverse answers. */
+  if (_i % 2 == 1)
+    for (size_t k = 0; k < plan->n_options; k++)
+      snprintf (plan->options[k].name, sizeof plan->options[k].name,
+                "Medialised cup, long head %zu", k + 1);
+  HlReportSettings settings;
+  hl_report_settings_init (&settings);
+  settings.date = "2026-03-01";
+  HlError err;
+  hl_error_clear (&err);
+  HlReport *r = hl_report_new (plan, &settings, &err);
+  ck_assert_msg (r != NULL, "%s", err.message);
+  int n_pages = hl_report_n_pages (r);
+  size_t n_checked = 0;
+  for (int page = 0; page < n_pages; page++)
+    {
+      size_t n = 0;
+      HlReportTextBox *b = hl_report_page_text_boxes (r, page, &n);
+      ck_assert_msg (n > 0, "page %d draws no text", page + 1);
+      for (size_t i = 0; i < n; i++)
+        {
+          ck_assert_msg (b[i].x >= -0.5 && b[i].y >= -0.5
+                         && b[i].x + b[i].w <= HL_REPORT_PAGE_WIDTH_PT + 0.5
+                         && b[i].y + b[i].h <= HL_REPORT_PAGE_HEIGHT_PT + 0.5,
+                         "%zu options, page %d: \"%s\" (%.1f,%.1f %.1fx%.1f) leaves the page",
+                         n_options, page + 1, b[i].text, b[i].x, b[i].y, b[i].w, b[i].h);
+          for (size_t j = i + 1; j < n; j++)
+            {
+              /* Boxes that only touch (a line right under another) are
+               * fine: half a point of slack. */
+              double ox = fmin (b[i].x + b[i].w, b[j].x + b[j].w) - fmax (b[i].x, b[j].x);
+              double oy = fmin (b[i].y + b[i].h, b[j].y + b[j].h) - fmax (b[i].y, b[j].y);
+              ck_assert_msg (ox <= 0.5 || oy <= 0.5,
+                             "%zu options, page %d: \"%s\" (%.1f,%.1f %.1fx%.1f) and "
+                             "\"%s\" (%.1f,%.1f %.1fx%.1f) overlap",
+                             n_options, page + 1, b[i].text, b[i].x, b[i].y, b[i].w, b[i].h,
+                             b[j].text, b[j].x, b[j].y, b[j].w, b[j].h);
+            }
+        }
+      n_checked += n;
+      g_free (b);
+    }
+  ck_assert_uint_gt (n_checked, 20);
+  hl_report_free (r);
+  hl_plan_free (plan);
+}
+END_TEST
+
 static Suite *
 chart_report_suite (void)
 {
@@ -824,6 +882,9 @@ chart_report_suite (void)
                        (int) (sizeof report_option_counts / sizeof report_option_counts[0]));
   tcase_add_loop_test (tc, test_report_loses_nothing, 0,
                        (int) (sizeof lost_option_counts / sizeof lost_option_counts[0]));
+  tcase_add_loop_test (tc, test_report_no_overlap, 0,
+                       2 * (int) (sizeof overlap_option_counts
+                                  / sizeof overlap_option_counts[0]));
   tcase_set_timeout (tc, 60);
   suite_add_tcase (s, tc);
   tc = tcase_create ("figures");
