@@ -16,6 +16,8 @@
 #include <string.h>
 #include <unistd.h>
 
+#include <glib.h>
+
 #include "hl-image.h"
 #include "hl-render.h"
 #include "hl-report.h"
@@ -813,6 +815,32 @@ START_TEST (test_layout_report)
   hl_report_figure_layout (r, &layout, &w, &h);
   check_layout ("report page 2", &layout, w, h, 6.0);
   check_legend ("report page 2", &layout);
+  /* Every page's text (page 1 too): each box inside the page, no two
+   * intersecting (half a point of slack for lines that only touch). */
+  int n_pages = hl_report_n_pages (r);
+  ck_assert_int_ge (n_pages, 2);
+  for (int page = 0; page < n_pages; page++)
+    {
+      size_t n = 0;
+      HlReportTextBox *b = hl_report_page_text_boxes (r, page, &n);
+      ck_assert_msg (n >= 5, "report page %d: %zu text boxes", page + 1, n);
+      for (size_t i = 0; i < n; i++)
+        {
+          ck_assert_msg (b[i].x >= 0.0 && b[i].y >= 0.0
+                         && b[i].x + b[i].w <= HL_REPORT_PAGE_WIDTH_PT
+                         && b[i].y + b[i].h <= HL_REPORT_PAGE_HEIGHT_PT,
+                         "report page %d: \"%s\" leaves the page", page + 1, b[i].text);
+          for (size_t j = i + 1; j < n; j++)
+            {
+              double ox = fmin (b[i].x + b[i].w, b[j].x + b[j].w) - fmax (b[i].x, b[j].x);
+              double oy = fmin (b[i].y + b[i].h, b[j].y + b[j].h) - fmax (b[i].y, b[j].y);
+              ck_assert_msg (ox <= 0.5 || oy <= 0.5,
+                             "report page %d: \"%s\" and \"%s\" overlap", page + 1,
+                             b[i].text, b[j].text);
+            }
+        }
+      g_free (b);
+    }
   hl_report_free (r);
   hl_plan_free (plan);
 }
