@@ -299,9 +299,21 @@ hl_cli_fit (const HlCliCommand *cmd, const HlCliArgs *args)
       if (out == NULL)
         return hl_cli_usage_error (_("%s: --apply needs -o OUT.hlplan (where to write "
                                      "the plan)"), cmd->name);
-      /* The inputs: the plan and the catalogue given with --catalogue. */
-      char *inputs[] = { args->operands[0], (char *) extra };
-      int st = hl_cli_check_output (cmd->name, out, true, inputs, extra != NULL ? 2 : 1);
+      /* The inputs: the plan, the catalogue given with --catalogue and
+       * those named in HIPLEVER_CATALOGUES. */
+      const char *env = getenv ("HIPLEVER_CATALOGUES");
+      char *copy = env != NULL ? strdup (env) : NULL;
+      char *inputs[2 + 64] = { args->operands[0] };
+      int n_inputs = 1;
+      if (extra != NULL)
+        inputs[n_inputs++] = (char *) extra;
+      for (char *save = NULL, *tok = copy ? strtok_r (copy, ":", &save) : NULL;
+           tok != NULL && n_inputs < (int) (sizeof inputs / sizeof inputs[0]);
+           tok = strtok_r (NULL, ":", &save))
+        if (tok[0] != '\0')
+          inputs[n_inputs++] = tok;
+      int st = hl_cli_check_output (cmd->name, out, true, inputs, n_inputs);
+      free (copy);
       if (st != HL_CLI_EXIT_OK)
         return st;
     }

@@ -138,6 +138,9 @@ done
 run fit plan.hlplan --catalogue cat.hlcat --apply 1 -o cat.hlcat
 if [ "$rc" -eq 1 ] && cmp -s cat.hlcat cat.orig && err_has "is the input"; then pass; else
   fail "fit --catalogue cat.hlcat -o cat.hlcat: exit $rc, or the catalogue changed"; fi
+HIPLEVER_CATALOGUES=/nonexistent:cat.hlcat run fit plan.hlplan --apply 1 -o cat.hlcat
+if [ "$rc" -eq 1 ] && cmp -s cat.hlcat cat.orig && err_has "is the input"; then pass; else
+  fail "HIPLEVER_CATALOGUES=cat.hlcat fit -o cat.hlcat: exit $rc, or the catalogue changed"; fi
 rm -f demo-radiograph.png radiograph.orig radiograph-link.png cat.hlcat cat.orig
 
 # "-" is standard output for the text outputs, and no file named "-".
