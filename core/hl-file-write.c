@@ -24,7 +24,10 @@
 #include "hl-i18n.h"
 
 #define HL_FILE_MODE 0644
-#define HL_FILE_PERMISSION_BITS 07777
+/* The old file's read, write and execute bits are kept; its set-user-ID,
+ * set-group-ID and sticky bits are not: what we write is data, and a
+ * set-ID bit kept over new contents would hand them the old owner's rights. */
+#define HL_FILE_PERMISSION_BITS 0777
 /* The temporary file: short, so that a name of NAME_MAX bytes still works. */
 #define HL_TEMP_NAME ".hlXXXXXX"
 
@@ -288,7 +291,8 @@ set_owner_and_mode (int fd, bool exists, const struct stat *old)
           /* nothing more the process may do */
         }
     }
-  /* After fchown, which clears the set-id bits. */
+  /* After fchown (which clears the set-ID bits; HL_FILE_PERMISSION_BITS
+   * leaves them cleared). */
   return fchmod (fd, old->st_mode & HL_FILE_PERMISSION_BITS) != 0 ? errno : 0;
 }
 

@@ -205,6 +205,24 @@ START_TEST (test_mode_kept)
       ck_assert_str_eq (read_text (file), "new\n");
       ck_assert_int_eq (unlink (file), 0);
     }
+  /* Set-ID and sticky bits are not carried over to what we write
+   * (common practice: a set-ID bit must not survive new contents). */
+  static const mode_t special[][2] = { { 04755, 0755 }, { 02750, 0750 }, { 01644, 0644 },
+                                       { 06700, 0700 } };
+  for (size_t i = 0; i < N_OF (special); i++)
+    {
+      write_text (file, "old\n");
+      ck_assert_int_eq (chmod (file, special[i][0]), 0);
+      HlError err;
+      hl_error_clear (&err);
+      ck_assert_int_eq (hl_write_file_atomic (file, "new\n", 4, &err), HL_OK);
+      struct stat st;
+      ck_assert_int_eq (stat (file, &st), 0);
+      ck_assert_msg ((st.st_mode & 07777) == special[i][1], "mode %04o became %04o, not %04o",
+                     (unsigned) special[i][0], (unsigned) (st.st_mode & 07777),
+                     (unsigned) special[i][1]);
+      ck_assert_int_eq (unlink (file), 0);
+    }
   remove_tree (dir);
 }
 END_TEST
