@@ -119,8 +119,14 @@ hl_text_unsafe (const char *s, char *buf, size_t size)
 const char *
 hl_text_quote (const char *s, size_t max, char *buf, size_t size)
 {
+  static const char ellipsis[] = "\xe2\x80\xa6";   /* U+2026, 3 bytes */
   size_t out = 0;
   size_t end = hl_utf8_cut (s, max);
+  /* A value that does not fit is cut shorter still, so that "…" shows it
+   * was cut and the whole stays within max bytes. */
+  bool cut = s[end] != '\0' && max >= sizeof ellipsis - 1;
+  if (cut)
+    end = hl_utf8_cut (s, max - (sizeof ellipsis - 1));
   char what[64];
   if (size == 0)
     return "";
@@ -143,6 +149,11 @@ hl_text_quote (const char *s, size_t max, char *buf, size_t size)
       else
         break;
       i += len;
+    }
+  if (cut && out + sizeof ellipsis <= size)
+    {
+      memcpy (buf + out, ellipsis, sizeof ellipsis - 1);
+      out += sizeof ellipsis - 1;
     }
   buf[out] = '\0';
   return buf;

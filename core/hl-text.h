@@ -34,8 +34,8 @@ void hl_utf8_trim_end (char *s);
 const char *hl_text_unsafe (const char *s, char *buf, size_t size);
 
 /* A value quoted in a message: at most max bytes of s, cut at a whole
- * character, each line break, control or bidirectional control character
- * replaced by '?'.  Writes to buf (size >= max + 1) and returns it. */
+ * character and ending in "…" when it was cut, each line break, control
+ * or bidirectional control character replaced by '?'.  Writes to buf (size >= max + 1) and returns it. */
 const char *hl_text_quote (const char *s, size_t max, char *buf, size_t size);
 
 /* The one CSV rule of every CSV the programs write (the command line's,

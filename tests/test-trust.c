@@ -1090,8 +1090,12 @@ START_TEST (test_utf8_cut)
     }
   char q[64];
   ck_assert_str_eq (hl_text_quote ("ab\xe2\x80\xae" "cd\n", 40, q, sizeof q), "ab?cd?");
+  /* Cut: at a whole character, and "…" says so, within the 5 bytes. */
   ck_assert_str_eq (hl_text_quote ("\xc3\xa9\xc3\xa9\xc3\xa9", 5, q, sizeof q),
-                    "\xc3\xa9\xc3\xa9");
+                    "\xc3\xa9\xe2\x80\xa6");
+  ck_assert_str_eq (hl_text_quote ("\xc3\xa9\xc3\xa9\xc3\xa9", 6, q, sizeof q),
+                    "\xc3\xa9\xc3\xa9\xc3\xa9");
+  ck_assert_str_eq (hl_text_quote ("abcdefgh", 7, q, sizeof q), "abcd\xe2\x80\xa6");
 }
 END_TEST
 
