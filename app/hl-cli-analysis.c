@@ -116,7 +116,7 @@ const HlCliOption hl_cli_figure_options[] = {
     N_("where to write the figure (required); the format follows the "
        "extension (not - : a figure is not written to standard output)") },
   { "size", 0, N_("WxH"),
-    N_("width and height in px (SVG: pt), 64 to 8192 each (default 1200x900)") },
+    N_("width and height in px (SVG: pt), 300 to 8192 each (default 1200x900; below 300 the labels, legend and caution no longer fit)") },
   { "option", 0, N_("N"),
     N_("the option drawn over the native hip: 1 for the first, 0 for the "
        "native hip alone (default: 1 when the plan has options, else 0)") },

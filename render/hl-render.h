@@ -209,7 +209,10 @@ int hl_render_hit_landmark (const HlPlan *plan, const HlView *view,
 
 /* The figure's size limits, px; the figure files are written by
  * hl_figure_save() (render/hl-report.h), through the atomic writer. */
-#define HL_FIGURE_SIZE_MIN 64
+/* The smallest: below 300 px a side the labels, the legend, the scale
+ * bars and the caution no longer fit without meeting (test-render checks
+ * every box at and above it). */
+#define HL_FIGURE_SIZE_MIN 300
 #define HL_FIGURE_SIZE_MAX 8192
 /* The view a width x height figure of the plan is drawn with (as
  * hl_render_figure_draw fits it): for placing things over a figure and for

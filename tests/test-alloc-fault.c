@@ -195,7 +195,7 @@ op_figure (HlFigureFormat format, HlError *err)
 {
   unsigned char *data = NULL;
   size_t size = 0;
-  HlStatus st = hl_figure_to_buffer (demo, 0, 320, 240, format, &data, &size, err);
+  HlStatus st = hl_figure_to_buffer (demo, 0, 320, 300, format, &data, &size, err);
   free (data);
   return st;
 }

@@ -52,7 +52,7 @@
 #define REPORT_TARGET_S 1.0
 #define MANY_OPTIONS 9
 #define FIG_W 321
-#define FIG_H 207
+#define FIG_H 307
 
 static HlPlan *
 demo_plan (void)

@@ -545,6 +545,9 @@ static const struct {
   HlStatus expect;
 } figure_errors[] = {
   { 10, 600, "/tmp/x", HL_ERR_INVALID },
+  /* Below the smallest size the layout holds at (test_layout_smallest). */
+  { 299, 600, "/tmp/x", HL_ERR_INVALID },
+  { 600, 299, "/tmp/x", HL_ERR_INVALID },
   { 800, HL_FIGURE_SIZE_MAX + 1, "/tmp/x", HL_ERR_INVALID },
   { 800, 600, NULL, HL_ERR_INVALID },
   { 800, 600, "", HL_ERR_INVALID },
@@ -764,6 +767,50 @@ START_TEST (test_layout_legend_small)
       if (sizes[k].shown)
         check_layout (what, &layout, w, h, HL_RENDER_TEXT_MIN_PX);
     }
+  hl_plan_free (plan);
+}
+END_TEST
+
+/* At the smallest figure size and above it, every box of the layout lies
+ * inside the drawing and no two meet, whatever their kind (the title, the
+ * legend or its note, the scale bars, the caution and the labels): below
+ * it they did (at 292 px high the force scale met the legend; at 200 x
+ * 150 the legend's note met the title; at 64 x 64 the caution was cut),
+ * so HL_FIGURE_SIZE_MIN refuses those sizes (test_figure_errors). */
+START_TEST (test_layout_smallest)
+{
+  static const int sides[] = { HL_FIGURE_SIZE_MIN, HL_FIGURE_SIZE_MIN + 1, 317, 333, 360,
+                               400, 480, 600, 720, 1000, 1200 };
+  const size_t n_sides = sizeof sides / sizeof sides[0];
+  HlPlan *plan = demo_plan ();
+  for (size_t a = 0; a < n_sides; a++)
+    for (size_t b = 0; b < n_sides; b++)
+      {
+        int w = sides[a], h = sides[b];
+        HlRenderLayout l;
+        cairo_surface_t *surface = cairo_image_surface_create (CAIRO_FORMAT_RGB24, w, h);
+        cairo_t *cr = cairo_create (surface);
+        hl_render_figure_draw (cr, plan, 1, w, h, HL_RENDER_PRESET_AUTO, NULL, &l);
+        cairo_destroy (cr);
+        cairo_surface_destroy (surface);
+        ck_assert_msg (l.n >= 8 && l.n < HL_RENDER_LAYOUT_MAX, "%d x %d: %d boxes", w, h, l.n);
+        ck_assert_msg (l.legend_shown || l.legend_noted, "%d x %d: no legend", w, h);
+        for (int i = 0; i < l.n; i++)
+          {
+            const HlRenderBox *p = &l.box[i];
+            ck_assert_msg (box_inside (p, w, h), "%d x %d: the %s (%.1f, %.1f, %.1f x %.1f) "
+                           "leaves the drawing", w, h, box_names[p->kind], p->x, p->y, p->w,
+                           p->h);
+            for (int j = 0; j < i; j++)
+              {
+                const HlRenderBox *q = &l.box[j];
+                ck_assert_msg (!boxes_meet (p, q), "%d x %d: a %s (%.1f, %.1f, %.1f x %.1f) "
+                               "meets a %s (%.1f, %.1f, %.1f x %.1f)", w, h,
+                               box_names[p->kind], p->x, p->y, p->w, p->h,
+                               box_names[q->kind], q->x, q->y, q->w, q->h);
+              }
+          }
+      }
   hl_plan_free (plan);
 }
 END_TEST
@@ -1223,6 +1270,7 @@ render_suite (void)
   tcase_add_test (tc, test_layout_window);
   tcase_add_test (tc, test_layout_report);
   tcase_add_test (tc, test_layout_legend_small);
+  tcase_add_test (tc, test_layout_smallest);
   suite_add_tcase (s, tc);
 
   tc = tcase_create ("underlay");

@@ -92,7 +92,7 @@ w_figure (const char *path, size_t *size, char *why, size_t n)
   HlError err;
   hl_error_clear (&err);
   *size = 2000;
-  return report_err (hl_figure_save (demo, 0, 320, 240, path, &err), &err, why, n);
+  return report_err (hl_figure_save (demo, 0, 320, 300, path, &err), &err, why, n);
 }
 
 /* The command line's figure: at a preset's size (half a slide, 960 x
@@ -103,7 +103,7 @@ w_figure_preset (const char *path, size_t *size, char *why, size_t n)
   HlError err;
   hl_error_clear (&err);
   *size = 2000;
-  return report_err (hl_figure_save_preset (demo, 0, 320, 240, HL_RENDER_PRESET_HALF_SLIDE,
+  return report_err (hl_figure_save_preset (demo, 0, 320, 300, HL_RENDER_PRESET_HALF_SLIDE,
                                             NULL, path, &err), &err, why, n);
 }
 

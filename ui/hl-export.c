@@ -588,12 +588,16 @@ show_size_dialog (HlExport *ex)
   gtk_label_set_mnemonic_widget (GTK_LABEL (label), ex->width_spin);
   gtk_grid_attach (GTK_GRID (grid), label, 0, 1, 1, 1);
   gtk_grid_attach (GTK_GRID (grid), ex->width_spin, 1, 1, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), grid_label (_("px (SVG: pt)")), 2, 1, 1, 1);
+  /* The range beside the fields: the spin buttons hold no size outside it. */
+  char *range = g_strdup_printf (_("px (SVG: pt), %d to %d"), HL_FIGURE_SIZE_MIN,
+                                 HL_FIGURE_SIZE_MAX);
+  gtk_grid_attach (GTK_GRID (grid), grid_label (range), 2, 1, 1, 1);
   label = grid_label (_("_Height"));
   gtk_label_set_mnemonic_widget (GTK_LABEL (label), ex->height_spin);
   gtk_grid_attach (GTK_GRID (grid), label, 0, 2, 1, 1);
   gtk_grid_attach (GTK_GRID (grid), ex->height_spin, 1, 2, 1, 1);
-  gtk_grid_attach (GTK_GRID (grid), grid_label (_("px (SVG: pt)")), 2, 2, 1, 1);
+  gtk_grid_attach (GTK_GRID (grid), grid_label (range), 2, 2, 1, 1);
+  g_free (range);
   g_signal_connect (ex->preset_drop, "notify::selected", G_CALLBACK (preset_changed_cb), ex);
   preset_changed_cb (GTK_DROP_DOWN (ex->preset_drop), NULL, ex);
 

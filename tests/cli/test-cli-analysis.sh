@@ -184,10 +184,10 @@ for plan in "${EXAMPLES[@]}"; do
   run figure "$plan" -o "$WORK/$name.png" --size 640x480
   expect_rc 0 "figure $name png"
   check "figure $name.png decodes at 640 x 480" [ "$($CHECK png-size "$WORK/$name.png")" = "640 480" ]
-  run figure "$plan" -o "$WORK/$name-native.PNG" --size 333x222 --option 0
+  run figure "$plan" -o "$WORK/$name-native.PNG" --size 333x300 --option 0
   expect_rc 0 "figure $name --option 0 (.PNG)"
-  check "figure $name-native.PNG decodes at 333 x 222" \
-    [ "$($CHECK png-size "$WORK/$name-native.PNG")" = "333 222" ]
+  check "figure $name-native.PNG decodes at 333 x 300" \
+    [ "$($CHECK png-size "$WORK/$name-native.PNG")" = "333 300" ]
   if have identify; then
     check "identify reads $name.png as 640x480" \
       [ "$(identify -format '%wx%h' "$WORK/$name.png" 2>/dev/null)" = "640x480" ]
@@ -365,6 +365,15 @@ usage_case "figure with a .jpg name" figure "$DEMO" -o "$WORK/f.jpg"
 check "no .jpg written" no_file "$WORK/f.jpg"
 usage_case "figure --size 640" figure "$DEMO" -o "$WORK/f.png" --size 640
 invalid_case "figure --size 10x10" figure "$DEMO" -o "$WORK/f.png" --size 10x10
+# The smallest figure the layout holds at is 300 x 300 (test-render).
+invalid_case "figure --size 299x300" figure "$DEMO" -o "$WORK/f.png" --size 299x300
+check "figure --size 299x300 says the smallest size" err_has "must be 300 to 8192"
+invalid_case "figure --size 300x299" figure "$DEMO" -o "$WORK/f.png" --size 300x299
+invalid_case "figure --size 200x150" figure "$DEMO" -o "$WORK/f.png" --size 200x150
+run figure "$DEMO" -o "$WORK/smallest.png" --size 300x300
+expect_rc 0 "figure --size 300x300 (the smallest)"
+check "figure --size 300x300 decodes at 300 x 300" \
+  [ "$($CHECK png-size "$WORK/smallest.png")" = "300 300" ]
 invalid_case "figure --option 9" figure "$DEMO" -o "$WORK/f.png" --option 9
 check "no figure written on errors" no_file "$WORK/f.png"
 
