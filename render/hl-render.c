@@ -879,7 +879,7 @@ static void
 text_backing (cairo_t *cr, const HlRenderStyle *style, double x, double y, double w,
               double h)
 {
-  if (!style->over_image)
+  if (!style->over_image && !style->text_backing)
     return;
   cairo_new_path (cr);
   cairo_rectangle (cr, x, y, w, h);

@@ -108,6 +108,8 @@ typedef struct {
                               * shows them (forces and handles stay) */
   bool over_image;           /* drawn over a radiograph: the frame's text
                               * (title, side words, bars) on a pale backing */
+  bool text_backing;         /* that backing alone, bones as without an image
+                              * (the window over its radiograph) */
   int hover_landmark;        /* HlLandmarkId or -1 */
   int selected_landmark;     /* HlLandmarkId or -1 */
   int hover_template;        /* HlTemplatePart (hl-render-template.h) or -1 */

@@ -815,6 +815,69 @@ START_TEST (test_layout_smallest)
 }
 END_TEST
 
+/* Over a radiograph the scale bar's and the force scale's text lie on a
+ * pale backing, in the exports (over_image) and in the window
+ * (text_backing alone): drawn over black, the mean of each bar's box is
+ * pale; with neither, it stays dark (the check can fail). */
+START_TEST (test_scale_text_backing)
+{
+  const int w = 900, h = 560;
+  HlPlan *plan = demo_plan ();
+  HlScene scene;
+  hl_scene_build (&scene, plan, 0);
+  for (int mode = 0; mode < 3; mode++)
+    {
+      HlRenderStyle style;
+      HlRenderLayout layout;
+      HlView view;
+      hl_render_style_init (&style, false);
+      style.layout = &layout;
+      style.paint_background = false;
+      style.over_image = mode == 1;
+      style.text_backing = mode == 2;
+      hl_render_fit_view_framed (&scene, &style, w, h, MARGIN_PX, &view);
+      cairo_surface_t *surface = cairo_image_surface_create (CAIRO_FORMAT_RGB24, w, h);
+      cairo_t *cr = cairo_create (surface);
+      cairo_set_source_rgb (cr, 0, 0, 0);
+      cairo_paint (cr);
+      hl_render_scene (cr, &scene, &view, &style, w, h);
+      cairo_destroy (cr);
+      cairo_surface_flush (surface);
+      const unsigned char *data = cairo_image_surface_get_data (surface);
+      int stride = cairo_image_surface_get_stride (surface);
+      int n_bars = 0;
+      for (int i = 0; i < layout.n; i++)
+        {
+          const HlRenderBox *b = &layout.box[i];
+          if (b->kind != HL_BOX_SCALE_BAR && b->kind != HL_BOX_FORCE_SCALE)
+            continue;
+          n_bars++;
+          double sum = 0.0;
+          long n = 0;
+          for (int y = (int) ceil (b->y); y < (int) floor (b->y + b->h) && y < h; y++)
+            for (int x = (int) ceil (b->x); x < (int) floor (b->x + b->w) && x < w; x++)
+              {
+                const unsigned char *px = data + (size_t) y * (size_t) stride + 4 * (size_t) x;
+                sum += (px[0] + px[1] + px[2]) / 3.0;
+                n++;
+              }
+          ck_assert_int_gt (n, 50);
+          double mean = sum / (double) n;
+          if (mode == 0)
+            ck_assert_msg (mean < 60.0, "no backing: the %s's box is %.0f of 255 (black "
+                           "under it)", box_names[b->kind], mean);
+          else
+            ck_assert_msg (mean > 150.0, "%s: the %s's box is %.0f of 255: no pale backing",
+                           mode == 1 ? "over_image" : "text_backing", box_names[b->kind],
+                           mean);
+        }
+      ck_assert_int_eq (n_bars, 2);
+      cairo_surface_destroy (surface);
+    }
+  hl_plan_free (plan);
+}
+END_TEST
+
 /* The window's canvas: the screen's own sizes (style defaults), at the
  * size of the canvas on a 1366 x 768 screen and at a large one. */
 START_TEST (test_layout_window)
@@ -1271,6 +1334,7 @@ render_suite (void)
   tcase_add_test (tc, test_layout_report);
   tcase_add_test (tc, test_layout_legend_small);
   tcase_add_test (tc, test_layout_smallest);
+  tcase_add_test (tc, test_scale_text_backing);
   suite_add_tcase (s, tc);
 
   tc = tcase_create ("underlay");

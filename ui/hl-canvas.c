@@ -1015,6 +1015,9 @@ hl_canvas_snapshot (GtkWidget *widget, GtkSnapshot *snapshot)
       under = hl_canvas_underlay_picture (self, &style, &placement, width, height);
       under_generation = self->underlay_generation;
       style.paint_background = FALSE;
+      /* The title, side words, scale bar and force scale readable over
+       * the image, as in the figure and the report. */
+      style.text_backing = TRUE;
     }
   style.hide_schematic = self->schematic_hidden;
 
