@@ -181,6 +181,14 @@ case_name (const HlPlan *plan, size_t row)
   return row == 0 ? "native" : plan->options[row - 1].name;
 }
 
+/* Row `row`'s name in the text tables: "native" translated (the CSV keeps
+ * case_name's "native", its contract). */
+static const char *
+text_case_name (const HlPlan *plan, size_t row)
+{
+  return row == 0 ? _("native") : plan->options[row - 1].name;
+}
+
 static int
 write_stdout (const char *path, const GString *buf)
 {
@@ -445,7 +453,7 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
 
   bool csv = args->value[SWEEP_OPT_CSV] != NULL;
   const HlSweepParamInfo *info = hl_sweep_param_info (spec.param);
-  size_t name_w = strlen ("native");
+  size_t name_w = hl_cli_text_width (_("native"));
   int value_w = 0;
   GString *buf = g_string_new (NULL);
   if (status == HL_CLI_EXIT_OK && !csv)
@@ -514,9 +522,9 @@ hl_cli_sweep (const HlCliCommand *cmd, const HlCliArgs *args)
           {
             const HlResult *r = &results[row * count + step];
             char flags[256];
-            size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
+            size_t pad = name_w - hl_cli_text_width (text_case_name (plan, row));
             g_string_append_printf (buf, "%*g  %s%*s  %9.*f  %9.*f  %9.*f  %9.*f  %9.*f  %s\n",
-                               value_w, values[step], case_name (plan, row), (int) pad, "",
+                               value_w, values[step], text_case_name (plan, row), (int) pad, "",
                                HL_DECIMALS_MM, r->abductor_arm_mm,
                                HL_DECIMALS_N, r->abductor_force_n,
                                HL_DECIMALS_BW, r->abductor_force_bw,
@@ -638,7 +646,7 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
     }
   else if (status == HL_CLI_EXIT_OK)
     {
-      size_t name_w = strlen ("native");
+      size_t name_w = hl_cli_text_width (_("native"));
       for (size_t i = 0; i < plan->n_options; i++)
         if (hl_cli_text_width (plan->options[i].name) > name_w)
           name_w = hl_cli_text_width (plan->options[i].name);
@@ -667,8 +675,8 @@ hl_cli_uncertainty (const HlCliCommand *cmd, const HlCliArgs *args)
                     s->abductor_force_bw.p50, HL_DECIMALS_BW, s->abductor_force_bw.p95);
           snprintf (j, sizeof j, "%.*f / %.*f / %.*f", HL_DECIMALS_BW, s->jrf_bw.p05,
                     HL_DECIMALS_BW, s->jrf_bw.p50, HL_DECIMALS_BW, s->jrf_bw.p95);
-          size_t pad = name_w - hl_cli_text_width (case_name (plan, row));
-          g_string_append_printf (buf, "%s%*s  %-24s  %-24s  ", case_name (plan, row),
+          size_t pad = name_w - hl_cli_text_width (text_case_name (plan, row));
+          g_string_append_printf (buf, "%s%*s  %-24s  %-24s  ", text_case_name (plan, row),
                              (int) pad, "", a, j);
           if (row == 0)
             g_string_append_printf (buf, "%s\n", _("(reference)"));

@@ -70,6 +70,17 @@ done
 unc_de=$(LC_ALL=de_DE.UTF-8 "$CLI" uncertainty "$SRC/data/examples/demo.hlplan" --samples 200) \
   || fail "uncertainty fails in German"
 grep -qF '(xKGW)' <<<"$unc_de" || fail "German uncertainty output lacks the unit xKGW"
+# The native row's name is German in the text tables (uncertainty, sweep);
+# the CSV keeps "native", its contract.
+grep -qE '^nativ ' <<<"$unc_de" || fail "German uncertainty output lacks the row 'nativ'"
+grep -qE '^native ' <<<"$unc_de" && fail "German uncertainty output has the row 'native'"
+sweep_de=$(LC_ALL=de_DE.UTF-8 "$CLI" sweep "$SRC/data/examples/demo.hlplan" \
+             --param lean_mm --from 0 --to 10 --steps 2) || fail "sweep fails in German"
+grep -qE '^ *[0-9]+  nativ ' <<<"$sweep_de" || fail "German sweep output lacks the row 'nativ'"
+grep -qE '  native ' <<<"$sweep_de" && fail "German sweep output has the row 'native'"
+unc_csv_de=$(LC_ALL=de_DE.UTF-8 "$CLI" uncertainty "$SRC/data/examples/demo.hlplan" \
+               --samples 200 --csv) || fail "uncertainty --csv fails in German"
+grep -qE '^native,' <<<"$unc_csv_de" || fail "German uncertainty CSV lost the row 'native'"
 
 # An unknown option is reported in German, with the usage exit status.
 LC_ALL=de_DE.UTF-8 "$CLI" solve --no-such-option x >/dev/null 2>"${TMPDIR:-/tmp}/hl-i18n-err.$$"
