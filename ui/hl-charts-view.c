@@ -13,6 +13,7 @@
 
 #include "hl-charts-view.h"
 #include "hl-uncertainty.h"
+#include "hl-worker.h"
 
 /* Below this width the two charts go one above the other. */
 #define CHARTS_SIDE_BY_SIDE_MIN_PX 640
@@ -148,6 +149,8 @@ static void
 chart_thread_cb (GTask *task, gpointer source, gpointer user_data, GCancellable *cancel)
 {
   HlChartJob *job = user_data;
+
+  hl_worker_lower_priority ();
 
   if (g_cancellable_is_cancelled (cancel))
     return;

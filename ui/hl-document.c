@@ -14,6 +14,7 @@
 #include "hl-document.h"
 #include "hl-file-write.h"
 #include "hl-undo.h"
+#include "hl-worker.h"
 
 struct _HlDocument {
   GObject parent_instance;
@@ -103,6 +104,8 @@ ranges_thread_cb (GTask *task, gpointer source, gpointer data, GCancellable *can
 {
   HlRangesJob *job = data;
   HlModel model;
+
+  hl_worker_lower_priority ();
 
   if (g_cancellable_is_cancelled (cancel))
     return;

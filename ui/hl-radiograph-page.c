@@ -20,6 +20,7 @@
 #include "hl-underlay.h"
 #include "hl-version.h"
 #include "hl-message.h"
+#include "hl-worker.h"
 
 #define PAGE_KEY "hl-radiograph-page"
 #define PAGE_NAME "radiograph"
@@ -201,6 +202,8 @@ static void
 load_thread (GTask *task, gpointer source, gpointer data, GCancellable *cancel)
 {
   LoadJob *job = data;
+
+  hl_worker_lower_priority ();
   hl_error_clear (&job->err);
   job->underlay = hl_underlay_new_from_file (job->path, &job->err);
   if (job->underlay != NULL && !g_cancellable_is_cancelled (cancel))

@@ -20,6 +20,7 @@
 #include "hl-template-panel.h"
 #include "hl-template-shape.h"
 #include "hl-template-tool.h"
+#include "hl-worker.h"
 
 /* Rows of the ranking shown: the best few are what a surgeon compares. */
 #define RANK_ROWS_SHOWN 8
@@ -368,6 +369,8 @@ rank_thread (GTask *task, gpointer source, gpointer data, GCancellable *cancella
 {
   RankJob *job = data;
   gint64 t0 = g_get_monotonic_time ();
+
+  hl_worker_lower_priority ();
   hl_error_clear (&job->err);
   job->status = hl_fit_rank (job->plan, job->option, job->cat, 0, &job->table, &job->err);
   job->ms = (g_get_monotonic_time () - t0) / 1000.0;
