@@ -586,7 +586,7 @@ hl_dicom_available (void)
 #define HL_DICOM_CHILD_HEADER_BASE (256ull << 20)
 #define HL_DICOM_CHILD_ADDRESS_SPACE_HARD (3ull << 30)
 
-static unsigned long long child_vm_bytes;      /* inherited at the fork */
+[[maybe_unused]] static unsigned long long child_vm_bytes;   /* inherited at the fork */
 static unsigned long long child_file_bytes;
 
 #if defined(__SANITIZE_ADDRESS__)
