@@ -134,3 +134,12 @@ hl_test_run (Suite *suite)
   srunner_free (runner);
   return failed == 0 ? EXIT_SUCCESS : EXIT_FAILURE;
 }
+
+size_t
+hl_test_count_lines (const char *s)
+{
+  size_t n = 0;
+  for (; *s != '\0'; s++)
+    n += *s == '\n';
+  return n;
+}

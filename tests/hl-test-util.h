@@ -63,6 +63,9 @@ void hl_test_solve (const HlPlan *plan, const HlRecon *recon, HlResult *res);
 /* True when `needle` occurs in `hay`, ignoring ASCII case. */
 bool hl_test_contains_ci (const char *hay, const char *needle);
 
+/* The number of line ends ('\n') in s. */
+size_t hl_test_count_lines (const char *s);
+
 /* True when the error's field or message names the landmark, by its key
  * or its label. */
 bool hl_test_error_names_landmark (const HlError *err, HlLandmarkId id);

@@ -29,6 +29,7 @@
 #include "hl-report.h"
 #include "hl-solve.h"
 #include "hl-uncertainty.h"
+#include "hl-test-util.h"
 
 #define CHART_W 640
 #define CHART_H 400
@@ -333,15 +334,6 @@ END_TEST
 
 /* ---- CSV -------------------------------------------------------------------------- */
 
-static size_t
-count_lines (const char *s)
-{
-  size_t n = 0;
-  for (; *s != '\0'; s++)
-    n += *s == '\n';
-  return n;
-}
-
 START_TEST (test_csv)
 {
   HlPlan *plan = demo_plan ();
@@ -353,7 +345,7 @@ START_TEST (test_csv)
   ck_assert_int_eq (hl_chart_data_to_csv (d, plan, &csv, &size, &err), HL_OK);
   ck_assert_uint_eq (strlen (csv), size);
   ck_assert (strncmp (csv, HL_SWEEP_CSV_HEADER "\n", strlen (HL_SWEEP_CSV_HEADER) + 1) == 0);
-  ck_assert_uint_eq (count_lines (csv), 1 + STEPS * d->n_rows);
+  ck_assert_uint_eq (hl_test_count_lines (csv), 1 + STEPS * d->n_rows);
   /* A comma in an option name is quoted. */
   ck_assert_ptr_nonnull (strstr (csv, ",\"Medialised cup, long head\","));
   free (csv);
@@ -552,6 +544,20 @@ assert_lines_shown (const char *pdf_text, const char *what, const HlReportLines 
     assert_shown (pdf_text, what, l->items[i]);
 }
 
+/* The report of `plan` on a fixed date (asserted to succeed). */
+static HlReport *
+dated_report (const HlPlan *plan)
+{
+  HlReportSettings settings;
+  hl_report_settings_init (&settings);
+  settings.date = "2026-03-01";
+  HlError err;
+  hl_error_clear (&err);
+  HlReport *r = hl_report_new (plan, &settings, &err);
+  ck_assert_msg (r != NULL, "%s", err.message);
+  return r;
+}
+
 /* Option counts of the lost-content test. */
 static const size_t lost_option_counts[] = { 1, 4, 8 };
 /* Rows of pixels between the content's bottom and the footer rule. */
@@ -562,13 +568,7 @@ START_TEST (test_report_loses_nothing)
 {
   size_t n_options = lost_option_counts[_i];
   HlPlan *plan = plan_with_options (n_options);
-  HlReportSettings settings;
-  hl_report_settings_init (&settings);
-  settings.date = "2026-03-01";
-  HlError err;
-  hl_error_clear (&err);
-  HlReport *r = hl_report_new (plan, &settings, &err);
-  ck_assert_msg (r != NULL, "%s", err.message);
+  HlReport *r = dated_report (plan);
   const HlReportData *d = hl_report_data (r);
   int n_pages = hl_report_n_pages (r);
 
@@ -604,6 +604,8 @@ START_TEST (test_report_loses_nothing)
   /* The PDF's text holds all of it. */
   unsigned char *pdf = NULL;
   size_t size = 0;
+  HlError err;
+  hl_error_clear (&err);
   ck_assert_int_eq (hl_report_pdf_to_buffer (r, &pdf, &size, &err), HL_OK);
   char *dir = g_dir_make_tmp ("hl-test-report-XXXXXX", NULL);
   ck_assert_ptr_nonnull (dir);
@@ -815,13 +817,7 @@ START_TEST (test_report_no_overlap)
     for (size_t k = 0; k < plan->n_options; k++)
       snprintf (plan->options[k].name, sizeof plan->options[k].name,
                 "Medialised cup, long head %zu", k + 1);
-  HlReportSettings settings;
-  hl_report_settings_init (&settings);
-  settings.date = "2026-03-01";
-  HlError err;
-  hl_error_clear (&err);
-  HlReport *r = hl_report_new (plan, &settings, &err);
-  ck_assert_msg (r != NULL, "%s", err.message);
+  HlReport *r = dated_report (plan);
   int n_pages = hl_report_n_pages (r);
   size_t n_checked = 0;
   for (int page = 0; page < n_pages; page++)

@@ -21,6 +21,7 @@
 
 #include "hl-report-data.h"
 #include "hl-result-fields.h"
+#include "hl-test-util.h"
 
 #define MANY_OPTIONS 8
 #define SAMPLES 400
@@ -184,15 +185,6 @@ START_TEST (test_without_uncertainty)
 }
 END_TEST
 
-static size_t
-count_lines (const char *s)
-{
-  size_t n = 0;
-  for (; *s != '\0'; s++)
-    n += *s == '\n';
-  return n;
-}
-
 START_TEST (test_sweeps_csv)
 {
   HlPlan *plan = plan_with (3);
@@ -208,7 +200,7 @@ START_TEST (test_sweeps_csv)
   size_t want = 1;
   for (int k = 0; k < HL_CHART_N; k++)
     want += d->charts[k]->spec.n_steps * d->charts[k]->n_rows;
-  ck_assert_uint_eq (count_lines (csv), want);
+  ck_assert_uint_eq (hl_test_count_lines (csv), want);
   free (csv);
   hl_report_data_free (d);
   hl_plan_free (plan);
