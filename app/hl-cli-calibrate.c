@@ -255,13 +255,8 @@ hl_cli_print_against_other (const HlPlan *plan)
   bool header = false;
   for (size_t i = 0; i < n_cases; i++)
     {
-      HlLandmarks lm;
       HlMeasures ms;
-      if (i == 0)
-        lm = plan->landmarks;
-      else
-        hl_recon_landmarks (plan, &plan->options[i - 1].recon, &lm);
-      hl_measure (&lm, plan->side, &ms);
+      hl_row_measures (plan, i, &ms);
       if (!isfinite (ms.leg_length_difference_mm) && !isfinite (ms.global_offset_difference_mm))
         continue;
       if (!header)
@@ -289,12 +284,7 @@ hl_cli_print_measures (const HlPlan *plan)
   bool any = false;
   for (size_t i = 0; i < n_cases; i++)
     {
-      HlLandmarks lm;
-      if (i == 0)
-        lm = plan->landmarks;
-      else
-        hl_recon_landmarks (plan, &plan->options[i - 1].recon, &lm);
-      hl_measure (&lm, plan->side, &ms[i]);
+      hl_row_measures (plan, i, &ms[i]);
       for (size_t r = 0; r < N_MEASURE_ROWS; r++)
         any |= isfinite (side_value (&ms[i].operated, r))
                || isfinite (side_value (&ms[i].other, r));

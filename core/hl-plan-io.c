@@ -770,15 +770,10 @@ measure_known (double v)
 
 /* <measures> of one result's landmarks; nothing when none can be taken. */
 static void
-write_measures (HlWriter *w, const HlPlan *plan, const HlRecon *recon)
+write_measures (HlWriter *w, const HlPlan *plan, size_t row)
 {
-  HlLandmarks lm;
   HlMeasures ms;
-  if (recon == NULL)
-    lm = plan->landmarks;
-  else
-    hl_recon_landmarks (plan, recon, &lm);
-  hl_measure (&lm, plan->side, &ms);
+  hl_row_measures (plan, row, &ms);
 
   struct { char name[64]; double v; } values[16];
   size_t n = 0;
@@ -945,7 +940,7 @@ write_result (HlWriter *w, const HlResult *r, const HlMcSummary *mc, long index,
       }
   if (index >= 0 && plan->options[index].recon.tmpl.on)
     write_implants (w, plan, (size_t) index);
-  write_measures (w, plan, index < 0 ? NULL : &plan->options[index].recon);
+  write_measures (w, plan, index < 0 ? 0 : (size_t) index + 1);
   end (w);
 }
 

@@ -499,14 +499,9 @@ build_against (HlReportData *d)
   d->against_heading = g_strdup (_("Leg length and offset against the other hip"));
   for (size_t row = 0; row < d->n_cases; row++)
     {
-      HlLandmarks lm;
       HlMeasures ms;
       char leg[160], go[160];
-      if (row == 0)
-        lm = p->landmarks;
-      else
-        hl_recon_landmarks (p, &p->options[row - 1].recon, &lm);
-      hl_measure (&lm, p->side, &ms);
+      hl_row_measures (p, row, &ms);
       any |= isfinite (ms.leg_length_difference_mm)
              || isfinite (ms.global_offset_difference_mm);
       lines_add (&d->against, dup_printf (

@@ -635,6 +635,17 @@ hl_recon_landmarks (const HlPlan *plan, const HlRecon *recon, HlLandmarks *out)
     }
 }
 
+void
+hl_row_measures (const HlPlan *plan, size_t row, HlMeasures *out)
+{
+  HlLandmarks lm;
+  if (row == 0)
+    lm = plan->landmarks;
+  else
+    hl_recon_landmarks (plan, &plan->options[row - 1].recon, &lm);
+  hl_measure (&lm, plan->side, out);
+}
+
 static HlVec2
 to_plan (const HlModel *m, HlVec2 hc_new, double x_lat, double y)
 {

@@ -26,6 +26,7 @@
  */
 #pragma once
 
+#include "hl-measure.h"
 #include "hl-plan.h"
 #include "hl-template.h"
 
@@ -214,6 +215,10 @@ double hl_recon_total_length (const HlRecon *recon);
  * femur (and its hip centre) moves.  Unplaced landmarks stay unplaced. */
 void hl_recon_landmarks (const HlPlan *plan, const HlRecon *recon,
                          HlLandmarks *out);
+
+/* The radiographic measures (hl_measure) of row `row` of `plan`: 0 native,
+ * i the landmarks of option i - 1 (hl_recon_landmarks). */
+void hl_row_measures (const HlPlan *plan, size_t row, HlMeasures *out);
 
 /* A force on the free body for drawing, plan frame. */
 typedef enum {

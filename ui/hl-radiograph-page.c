@@ -932,13 +932,8 @@ sync_measures (HlRadiographPage *self, gboolean *contradiction)
   *contradiction = FALSE;
   for (size_t i = 0; i < n_cases; i++)
     {
-      HlLandmarks lm;
       HlMeasures ms;
-      if (i == 0)
-        lm = plan->landmarks;
-      else
-        hl_recon_landmarks (plan, &plan->options[i - 1].recon, &lm);
-      hl_measure (&lm, plan->side, &ms);
+      hl_row_measures (plan, i, &ms);
       if (i == 0)
         *contradiction = ms.side_contradiction;
       for (size_t r = 0; r < G_N_ELEMENTS (measure_rows); r++)

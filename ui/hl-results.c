@@ -515,14 +515,9 @@ hl_results_update (HlResults *self, const HlPlan *plan, const HlSolved *solved,
       /* Leg length and global offset against the other hip: measures of
        * the core on the option's landmarks, in words and numbers. */
       {
-        HlLandmarks lm;
         HlMeasures ms;
         char text[2][96], full[2][160];
-        if (c == 0)
-          lm = plan->landmarks;
-        else
-          hl_recon_landmarks (plan, &plan->options[c - 1].recon, &lm);
-        hl_measure (&lm, plan->side, &ms);
+        hl_row_measures (plan, (size_t) c, &ms);
         hl_measure_leg_length_short (ms.leg_length_difference_mm, text[0], sizeof text[0]);
         hl_measure_global_offset_short (ms.global_offset_difference_mm, text[1],
                                         sizeof text[1]);
